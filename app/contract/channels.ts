@@ -1,0 +1,38 @@
+import { z } from 'zod';
+import { clinicSettingsSchema, storedSettingsSchema } from './settings.js';
+import { acknowledgeRequestSchema, safetyStatusSchema } from './safety.js';
+
+const empty = z.object({}).strict();
+
+export const appInfoSchema = z.object({
+  appVersion: z.string(),
+  schemaVersion: z.number().int(),
+  dataDirectory: z.string(),
+  host: z.enum(['desktop', 'browser']),
+});
+
+/**
+ * The one table of channels between the screens and the back end.
+ * Names are `domain:verb`; every request and response has a schema, and both hosts
+ * (Electron IPC and the loopback browser host) validate against it.
+ */
+export const channels = {
+  'app:info': { request: empty, response: appInfoSchema },
+  'safety:status': { request: empty, response: safetyStatusSchema },
+  'safety:acknowledge': { request: acknowledgeRequestSchema, response: safetyStatusSchema },
+  'settings:get': { request: empty, response: storedSettingsSchema },
+  'settings:save': { request: clinicSettingsSchema, response: storedSettingsSchema },
+} as const;
+
+export type Channels = typeof channels;
+export type ChannelName = keyof Channels;
+export type RequestOf<C extends ChannelName> = z.input<Channels[C]['request']>;
+export type ParsedRequestOf<C extends ChannelName> = z.output<Channels[C]['request']>;
+export type ResponseOf<C extends ChannelName> = z.output<Channels[C]['response']>;
+
+export const channelNames = Object.keys(channels) as ChannelName[];
+
+/** Narrows an untrusted string to a known channel name. */
+export function isChannelName(value: unknown): value is ChannelName {
+  return typeof value === 'string' && Object.prototype.hasOwnProperty.call(channels, value);
+}

@@ -1,0 +1,5 @@
+export * from './api.js';
+export * from './channels.js';
+export * from './result.js';
+export * from './safety.js';
+export * from './settings.js';

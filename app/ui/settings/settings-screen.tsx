@@ -1,0 +1,156 @@
+import { useId, useState, type FormEvent, type ReactNode } from 'react';
+import {
+  clinicSettingsSchema,
+  defaultClinicSettings,
+  massUnits,
+  paperSizes,
+  pressureUnits,
+  temperatureUnits,
+  type ClinicSettings,
+  type StoredSettings,
+} from '../../contract/settings.js';
+import type { SafetyStatus } from '../../contract/safety.js';
+import { describeIssues } from '../../contract/result.js';
+import { agentIds, agents } from '../../core/agents.js';
+import { api } from '../common/bridge.js';
+import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
+
+type Props = {
+  readonly stored: StoredSettings;
+  readonly safety: SafetyStatus;
+  readonly onSaved: (stored: StoredSettings) => void;
+};
+
+type ChoiceProps<T extends string> = {
+  readonly legend: string;
+  readonly name: keyof ClinicSettings;
+  readonly options: readonly T[];
+  readonly labels?: Readonly<Record<string, string>>;
+  readonly value: T;
+  readonly error: string | undefined;
+  readonly onChange: (value: T) => void;
+};
+
+function Choice<T extends string>({ legend, name, options, labels, value, error, onChange }: ChoiceProps<T>) {
+  const errorId = useId();
+  return (
+    <fieldset className="field choice" aria-describedby={error !== undefined ? errorId : undefined}>
+      <legend>{legend}</legend>
+      <div className="choice-options">
+        {options.map((option) => (
+          <label key={option}>
+            <input type="radio" name={name} value={option} checked={value === option} onChange={() => onChange(option)} />
+            {labels?.[option] ?? option}
+          </label>
+        ))}
+      </div>
+      {error !== undefined && <p className="field-error" id={errorId} role="alert">{error}</p>}
+    </fieldset>
+  );
+}
+
+function TextField(props: {
+  readonly label: string;
+  readonly name: keyof ClinicSettings;
+  readonly value: string;
+  readonly error: string | undefined;
+  readonly hint?: ReactNode;
+  readonly autoFocus?: boolean;
+  readonly onChange: (value: string) => void;
+}) {
+  const id = useId();
+  return (
+    <div className="field">
+      <label htmlFor={id}>{props.label}</label>
+      <input
+        id={id}
+        name={props.name}
+        value={props.value}
+        autoFocus={props.autoFocus}
+        aria-invalid={props.error !== undefined}
+        aria-describedby={props.error !== undefined ? `${id}-error` : undefined}
+        onChange={(event) => props.onChange(event.target.value)}
+      />
+      {props.hint !== undefined && <p className="hint">{props.hint}</p>}
+      {props.error !== undefined && <p className="field-error" id={`${id}-error`} role="alert">{props.error}</p>}
+    </div>
+  );
+}
+
+const agentLabels = Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]));
+
+/** Clinic name, address and preferred units; validated per field, saved to the clinic database. */
+export function SettingsScreen({ stored, safety, onSaved }: Props) {
+  const [draft, setDraft] = useState<ClinicSettings>(stored.settings ?? defaultClinicSettings);
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [message, setMessage] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [busy, setBusy] = useState(false);
+  const firstRun = stored.settings === null;
+
+  function update<K extends keyof ClinicSettings>(key: K, value: ClinicSettings[K]) {
+    setDraft((current) => ({ ...current, [key]: value }));
+    setMessage(null);
+    if (errors[key] !== undefined) setErrors(({ [key]: _removed, ...rest }) => rest);
+  }
+
+  async function submit(event: FormEvent) {
+    event.preventDefault();
+    const local = clinicSettingsSchema.safeParse(draft);
+    if (!local.success) {
+      setErrors(fieldErrorsFrom(describeIssues(local.error.issues)));
+      setMessage({ kind: 'failed', text: 'Not saved: correct the fields marked below.' });
+      return;
+    }
+    setBusy(true);
+    const answer = await api.invoke('settings:save', local.data);
+    setBusy(false);
+    if (answer.ok) {
+      setErrors({});
+      if (answer.value.settings !== null) setDraft(answer.value.settings);
+      setMessage({ kind: 'saved', text: `Saved ${new Date(answer.value.updatedAt ?? Date.now()).toLocaleString()}.` });
+      onSaved(answer.value);
+    } else {
+      setErrors(fieldErrorsFromContract(answer.error));
+      setMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
+    }
+  }
+
+  return (
+    <section className="screen" aria-labelledby="settings-title">
+      <h1 id="settings-title">{firstRun ? 'Set up your clinic' : 'Settings'}</h1>
+      {firstRun && <p className="lead">Enter the clinic’s name and the units your staff read. You can change them later.</p>}
+      <form onSubmit={(event) => void submit(event)} noValidate className="form settings-form">
+        <TextField label="Clinic name" name="clinicName" value={draft.clinicName} error={errors['clinicName']} autoFocus onChange={(value) => update('clinicName', value)} />
+        <TextField
+          label="Address line"
+          name="addressLine"
+          value={draft.addressLine}
+          error={errors['addressLine']}
+          hint="Optional; printed under the clinic name on worksheets."
+          onChange={(value) => update('addressLine', value)}
+        />
+        <Choice legend="Body mass" name="massUnit" options={massUnits} labels={{ g: 'grams (g)', kg: 'kilograms (kg)' }} value={draft.massUnit} error={errors['massUnit']} onChange={(value) => update('massUnit', value)} />
+        <Choice legend="Pressure (EtCO2, cylinder)" name="pressureUnit" options={pressureUnits} value={draft.pressureUnit} error={errors['pressureUnit']} onChange={(value) => update('pressureUnit', value)} />
+        <Choice legend="Temperature" name="temperatureUnit" options={temperatureUnits} labels={{ C: '°C', F: '°F' }} value={draft.temperatureUnit} error={errors['temperatureUnit']} onChange={(value) => update('temperatureUnit', value)} />
+        <Choice legend="Default agent" name="defaultAgent" options={agentIds} labels={agentLabels} value={draft.defaultAgent} error={errors['defaultAgent']} onChange={(value) => update('defaultAgent', value)} />
+        <Choice legend="Worksheet paper" name="paperSize" options={paperSizes} labels={{ A4: 'A4', Letter: 'US Letter' }} value={draft.paperSize} error={errors['paperSize']} onChange={(value) => update('paperSize', value)} />
+        <div className="form-actions">
+          <button type="submit" className="primary" disabled={busy}>
+            {busy ? 'Saving…' : 'Save settings'}
+          </button>
+          {message !== null && (
+            <p className={message.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
+              {message.text}
+            </p>
+          )}
+        </div>
+      </form>
+      {safety.last !== null && (
+        <p className="provenance">
+          Cautions acknowledged by {safety.last.acknowledgedBy} on {new Date(safety.last.acknowledgedAt).toLocaleString()} for version{' '}
+          {safety.last.appVersion}.
+        </p>
+      )}
+    </section>
+  );
+}

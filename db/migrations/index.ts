@@ -1,0 +1,8 @@
+import { clinicSettingsMigration } from './0001-clinic-settings.js';
+
+export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
+
+/** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
+export const migrations: readonly Migration[] = [clinicSettingsMigration];
+
+export const latestSchemaVersion = migrations.length;

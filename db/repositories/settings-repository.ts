@@ -1,0 +1,54 @@
+import type { ClinicSettings, StoredSettings } from '../../app/contract/settings.js';
+import type { SyrinxDatabase } from '../connection.js';
+
+type SettingsRow = {
+  clinic_name: string;
+  address_line: string;
+  mass_unit: ClinicSettings['massUnit'];
+  pressure_unit: ClinicSettings['pressureUnit'];
+  temperature_unit: ClinicSettings['temperatureUnit'];
+  default_agent: ClinicSettings['defaultAgent'];
+  paper_size: ClinicSettings['paperSize'];
+  updated_at: string;
+};
+
+/** All SQL for the clinic_settings table. */
+export function createSettingsRepository(db: SyrinxDatabase) {
+  const select = db.prepare<[], SettingsRow>(
+    `SELECT clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at
+       FROM clinic_settings WHERE id = 1`,
+  );
+  const upsert = db.prepare(
+    `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at)
+     VALUES (1, @clinicName, @addressLine, @massUnit, @pressureUnit, @temperatureUnit, @defaultAgent, @paperSize, @updatedAt)
+     ON CONFLICT (id) DO UPDATE SET
+       clinic_name = excluded.clinic_name, address_line = excluded.address_line, mass_unit = excluded.mass_unit,
+       pressure_unit = excluded.pressure_unit, temperature_unit = excluded.temperature_unit,
+       default_agent = excluded.default_agent, paper_size = excluded.paper_size, updated_at = excluded.updated_at`,
+  );
+
+  return {
+    get(): StoredSettings {
+      const row = select.get();
+      if (row === undefined) return { settings: null, updatedAt: null };
+      return {
+        settings: {
+          clinicName: row.clinic_name,
+          addressLine: row.address_line,
+          massUnit: row.mass_unit,
+          pressureUnit: row.pressure_unit,
+          temperatureUnit: row.temperature_unit,
+          defaultAgent: row.default_agent,
+          paperSize: row.paper_size,
+        },
+        updatedAt: row.updated_at,
+      };
+    },
+    save(settings: ClinicSettings, updatedAt: Date): StoredSettings {
+      upsert.run({ ...settings, updatedAt: updatedAt.toISOString() });
+      return this.get();
+    },
+  };
+}
+
+export type SettingsRepository = ReturnType<typeof createSettingsRepository>;

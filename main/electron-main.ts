@@ -1,0 +1,126 @@
+import { app, BrowserWindow, dialog, ipcMain, protocol, session } from 'electron';
+import fs from 'node:fs';
+import path from 'node:path';
+import { channelNames } from '../app/contract/channels.js';
+import { startBackEnd, type BackEnd } from './back-end.js';
+import { contentTypeFor, securityHeaders } from './security-headers.js';
+import { readRendererFile } from './static-files.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
+
+// Our own scheme instead of file://, so the page has a real origin and a strict CSP.
+const scheme = 'app';
+const appOrigin = `${scheme}://syrinx`;
+
+protocol.registerSchemesAsPrivileged([{ scheme, privileges: { standard: true, secure: true, supportFetchAPI: true } }]);
+
+function dataDirectoryFromArguments(argv: readonly string[]): string | null {
+  const index = argv.indexOf('--data');
+  const value = index >= 0 ? argv[index + 1] : undefined;
+  return value === undefined ? null : path.resolve(value);
+}
+
+/** In a source checkout, a better-sqlite3 binary rebuilt for Electron may sit beside the build. */
+function electronSqliteBinding(root: string): string | undefined {
+  if (app.isPackaged) return undefined;
+  const candidate = path.join(root, 'build', 'electron-native', 'better_sqlite3.node');
+  return fs.existsSync(candidate) ? candidate : undefined;
+}
+
+function isOwnFrame(url: string | undefined): boolean {
+  if (url === undefined) return false;
+  try {
+    return new URL(url).origin === appOrigin;
+  } catch {
+    return false;
+  }
+}
+
+function harden(): void {
+  session.defaultSession.setPermissionRequestHandler((_contents, _permission, callback) => callback(false));
+  session.defaultSession.setPermissionCheckHandler(() => false);
+  app.on('web-contents-created', (_event, contents) => {
+    contents.on('will-navigate', (event, url) => {
+      if (!isOwnFrame(url)) event.preventDefault();
+    });
+    contents.on('will-redirect', (event) => event.preventDefault());
+    contents.on('will-attach-webview', (event) => event.preventDefault());
+    contents.setWindowOpenHandler(() => ({ action: 'deny' }));
+  });
+}
+
+function registerProtocol(root: string): void {
+  const folder = rendererDirectory(root);
+  protocol.handle(scheme, async (request) => {
+    const url = new URL(request.url);
+    if (url.host !== 'syrinx') return new Response('Not found', { status: 404 });
+    const file = await readRendererFile(folder, url.pathname);
+    if (file === null) return new Response('Not found', { status: 404 });
+    return new Response(new Uint8Array(file.body), { status: 200, headers: { ...securityHeaders, 'content-type': contentTypeFor(file.extension) } });
+  });
+}
+
+function registerChannels(backEnd: BackEnd): void {
+  ipcMain.on('syrinx:channel-list', (event) => {
+    event.returnValue = isOwnFrame(event.senderFrame?.url) ? channelNames : [];
+  });
+  for (const channel of channelNames) {
+    ipcMain.handle(channel, async (event, payload: unknown) => {
+      if (!isOwnFrame(event.senderFrame?.url)) {
+        return { ok: false, error: { code: 'invalid-request', message: 'Refused: the request did not come from the Syrinx window.' } };
+      }
+      return backEnd.dispatch(channel, payload);
+    });
+  }
+}
+
+async function createWindow(root: string): Promise<void> {
+  const window = new BrowserWindow({
+    width: 1280,
+    height: 860,
+    minWidth: 960,
+    minHeight: 600,
+    title: 'Syrinx',
+    show: false,
+    webPreferences: {
+      preload: path.join(root, 'build', 'main', 'preload.cjs'),
+      contextIsolation: true,
+      sandbox: true,
+      nodeIntegration: false,
+      webSecurity: true,
+      allowRunningInsecureContent: false,
+      spellcheck: false,
+    },
+  });
+  window.once('ready-to-show', () => window.show());
+  await window.loadURL(`${appOrigin}/index.html`);
+}
+
+async function main(): Promise<void> {
+  await app.whenReady();
+  const root = findProjectRoot();
+  const dataDirectory = dataDirectoryFromArguments(process.argv) ?? app.getPath('userData');
+  let backEnd: BackEnd;
+  try {
+    const binding = electronSqliteBinding(root);
+    backEnd = startBackEnd({
+      dataDirectory,
+      appVersion: readAppVersion(root),
+      host: 'desktop',
+      ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
+    });
+  } catch (error) {
+    dialog.showErrorBox('Syrinx cannot open its database', error instanceof Error ? error.message : String(error));
+    app.exit(1);
+    return;
+  }
+  harden();
+  registerProtocol(root);
+  registerChannels(backEnd);
+  app.on('window-all-closed', () => {
+    backEnd.close();
+    app.quit();
+  });
+  await createWindow(root);
+}
+
+void main();

@@ -1,0 +1,108 @@
+import { z } from 'zod';
+import { channels, isChannelName, type ChannelName, type ParsedRequestOf, type ResponseOf } from '../app/contract/channels.js';
+import { describeIssues, type ContractError, type Result } from '../app/contract/result.js';
+import type { SyrinxDatabase } from '../db/connection.js';
+import { schemaVersion } from '../db/connection.js';
+import { createSettingsRepository } from '../db/repositories/settings-repository.js';
+import { createSafetyAcknowledgementRepository } from '../db/repositories/safety-acknowledgement-repository.js';
+
+export type HandlerContext = {
+  readonly db: SyrinxDatabase;
+  readonly appVersion: string;
+  readonly dataDirectory: string;
+  readonly host: 'desktop' | 'browser';
+  /** Injected so tests control time. */
+  readonly now: () => Date;
+};
+
+type HandlerTable = { [C in ChannelName]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>> };
+
+/** A failure a handler reports on purpose, with the field to blame when there is one. */
+export class HandlerError extends Error {
+  readonly code: ContractError['code'];
+  readonly field: string | undefined;
+  constructor(code: ContractError['code'], message: string, field?: string) {
+    super(message);
+    this.code = code;
+    this.field = field;
+  }
+}
+
+/** The one handler table for the contract; both hosts dispatch into it. */
+export function createHandlers(context: HandlerContext): HandlerTable {
+  const settings = createSettingsRepository(context.db);
+  const acknowledgements = createSafetyAcknowledgementRepository(context.db);
+  const safetyStatus = () => ({
+    acknowledged: acknowledgements.isAcknowledged(context.appVersion),
+    appVersion: context.appVersion,
+    last: acknowledgements.latest(),
+  });
+
+  return {
+    'app:info': () => ({
+      appVersion: context.appVersion,
+      schemaVersion: schemaVersion(context.db),
+      dataDirectory: context.dataDirectory,
+      host: context.host,
+    }),
+    'safety:status': safetyStatus,
+    'safety:acknowledge': (request) => {
+      acknowledgements.record(context.appVersion, request.acknowledgedBy, context.now());
+      return safetyStatus();
+    },
+    'settings:get': () => settings.get(),
+    'settings:save': (request) => settings.save(request, context.now()),
+  };
+}
+
+export type Dispatcher = (channel: unknown, payload: unknown) => Promise<Result<unknown>>;
+
+/**
+ * Validates the channel and payload, runs the handler and validates its answer.
+ * Never throws: every failure becomes `{ ok: false, error }`.
+ */
+export function createDispatcher(handlers: HandlerTable, log: (message: string) => void = () => undefined): Dispatcher {
+  return async (channel, payload) => {
+    if (!isChannelName(channel)) {
+      return { ok: false, error: { code: 'unknown-channel', message: `There is no channel called ${String(channel)}.` } };
+    }
+    const spec = channels[channel];
+    const parsed = spec.request.safeParse(payload ?? {});
+    if (!parsed.success) {
+      const issues = describeIssues(parsed.error.issues);
+      const first = issues[0];
+      return {
+        ok: false,
+        error: {
+          code: 'invalid-request',
+          message: first === undefined ? 'The request was not valid.' : first.message,
+          ...(first === undefined ? {} : { field: first.field }),
+          issues,
+        },
+      };
+    }
+    try {
+      const handler = handlers[channel] as (request: unknown) => unknown;
+      const value = await handler(parsed.data);
+      const checked = (spec.response as z.ZodType).safeParse(value);
+      if (!checked.success) {
+        log(`Response of ${channel} failed its schema: ${checked.error.message}`);
+        return { ok: false, error: { code: 'internal', message: 'Syrinx produced an answer it could not vouch for; nothing was changed by showing it.' } };
+      }
+      return { ok: true, value: checked.data };
+    } catch (error) {
+      if (error instanceof HandlerError) {
+        return { ok: false, error: { code: error.code, message: error.message, ...(error.field === undefined ? {} : { field: error.field }) } };
+      }
+      const message = error instanceof Error ? error.message : String(error);
+      log(`Handler ${channel} failed: ${message}`);
+      const isDatabase = error instanceof Error && (error.name === 'SqliteError' || /SQLITE/.test(message));
+      return {
+        ok: false,
+        error: isDatabase
+          ? { code: 'database', message: `The database refused the change: ${message}` }
+          : { code: 'internal', message: `Something went wrong: ${message}` },
+      };
+    }
+  };
+}

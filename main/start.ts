@@ -1,0 +1,74 @@
+import { spawn } from 'node:child_process';
+import path from 'node:path';
+import { ArgumentError, parseStartArguments } from './arguments.js';
+import { startBackEnd } from './back-end.js';
+import { defaultDataDirectory } from './data-directory.js';
+import { electronAvailability } from './electron-availability.js';
+import { startLoopbackHost } from './loopback-host.js';
+import { openInSystemBrowser } from './open-browser.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
+
+/**
+ * `npm start`: the desktop window where Electron can run, otherwise the loopback browser host.
+ */
+async function main(): Promise<number> {
+  const startedAt = performance.now();
+  let args;
+  try {
+    args = parseStartArguments(process.argv.slice(2), process.env);
+  } catch (error) {
+    if (error instanceof ArgumentError) {
+      process.stderr.write(`syrinx: ${error.message}\n`);
+      return 2;
+    }
+    throw error;
+  }
+  const root = findProjectRoot();
+  const availability = electronAvailability(root, process.env, process.platform, args.forceBrowser);
+  if (availability.ok) {
+    const electronArgs = [path.join(root, 'build', 'main', 'electron-main.js')];
+    if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
+    const child = spawn(availability.binary, electronArgs, { stdio: 'inherit' });
+    return new Promise((resolve) => child.on('close', (code) => resolve(code ?? 1)));
+  }
+
+  const dataDirectory = path.resolve(args.dataDirectory ?? defaultDataDirectory());
+  const appVersion = readAppVersion(root);
+  let backEnd;
+  try {
+    backEnd = startBackEnd({ dataDirectory, appVersion, host: 'browser', log: (message) => process.stderr.write(`${message}\n`) });
+  } catch (error) {
+    process.stderr.write(`syrinx: ${error instanceof Error ? error.message : String(error)}\n`);
+    return 1;
+  }
+  const host = await startLoopbackHost({
+    port: args.port,
+    rendererDirectory: rendererDirectory(root),
+    dispatch: backEnd.dispatch,
+    log: (message) => process.stderr.write(`${message}\n`),
+  });
+  process.stdout.write(`Syrinx ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`);
+  process.stdout.write(`Data folder: ${dataDirectory}\n`);
+  process.stdout.write(`Open: ${host.url}\n`);
+  process.stdout.write(`(ready in ${Math.round(performance.now() - startedAt)} ms; press Ctrl+C to stop)\n`);
+  if (args.open) openInSystemBrowser(host.url);
+
+  return new Promise((resolve) => {
+    const stop = () => {
+      void host.close().then(() => {
+        backEnd.close();
+        resolve(0);
+      });
+    };
+    process.once('SIGINT', stop);
+    process.once('SIGTERM', stop);
+  });
+}
+
+main().then(
+  (code) => process.exit(code),
+  (error: unknown) => {
+    process.stderr.write(`syrinx: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+    process.exit(1);
+  },
+);

@@ -1,0 +1,80 @@
+import Database from 'better-sqlite3';
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import { DatabaseTooNewError, migrate, openDatabase, schemaVersion } from '../../db/connection.js';
+import { latestSchemaVersion, migrations } from '../../db/migrations/index.js';
+import { temporaryFolder } from '../support/temporary-folder.js';
+
+const cleanups: (() => void)[] = [];
+afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
+
+function freshFile(): string {
+  const temp = temporaryFolder();
+  cleanups.push(temp.remove);
+  return path.join(temp.folder, 'syrinx.db');
+}
+
+const sha256 = (file: string) => crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
+
+describe('migrations', () => {
+  it('are numbered 1..n without gaps', () => {
+    expect(migrations.map((migration) => migration.version)).toEqual(migrations.map((_migration, index) => index + 1));
+    expect(latestSchemaVersion).toBe(migrations.length);
+  });
+
+  it.each(migrations.map((migration) => [migration.version, migration.name] as const))('migration %i (%s) applies on a fresh database up to itself', (version) => {
+    const db = new Database(freshFile());
+    cleanups.push(() => db.close());
+    expect(migrate(db, migrations.slice(0, version))).toBe(version);
+    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+  });
+
+  it('migration 1 creates the settings and acknowledgement tables with their constraints', () => {
+    const db = openDatabase(freshFile());
+    cleanups.push(() => db.close());
+    const tables = db.prepare("SELECT name FROM sqlite_schema WHERE type = 'table' ORDER BY name").pluck().all();
+    expect(tables).toEqual(expect.arrayContaining(['clinic_settings', 'safety_acknowledgements']));
+    expect(() =>
+      db.prepare("INSERT INTO clinic_settings VALUES (1, 'A', '', 'lb', 'mmHg', 'C', 'isoflurane', 'A4', 'now')").run(),
+    ).toThrow(/CHECK constraint failed/);
+    expect(() =>
+      db.prepare("INSERT INTO clinic_settings VALUES (2, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')").run(),
+    ).toThrow(/CHECK constraint failed/);
+  });
+
+  it('opens with WAL, foreign keys on, synchronous FULL and a busy timeout', () => {
+    const db = openDatabase(freshFile());
+    cleanups.push(() => db.close());
+    expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
+    expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
+    expect(db.pragma('synchronous', { simple: true })).toBe(2);
+    expect(db.pragma('busy_timeout', { simple: true })).toBe(5000);
+    expect(schemaVersion(db)).toBe(latestSchemaVersion);
+  });
+
+  it('rolls back a failing migration whole, leaving the version unchanged', () => {
+    const db = new Database(freshFile());
+    cleanups.push(() => db.close());
+    const broken = [...migrations, { version: migrations.length + 1, name: 'broken', sql: 'CREATE TABLE half_done (id INTEGER); SELECT nonsense FROM missing_table;' }];
+    expect(() => migrate(db, broken)).toThrow();
+    expect(schemaVersion(db)).toBe(migrations.length);
+    expect(db.prepare("SELECT count(*) FROM sqlite_schema WHERE name = 'half_done'").pluck().get()).toBe(0);
+  });
+
+  it('refuses a database written by a newer schema and leaves the file byte-for-byte untouched', () => {
+    const file = freshFile();
+    const writer = new Database(file);
+    writer.exec('CREATE TABLE future_things (id INTEGER PRIMARY KEY); INSERT INTO future_things VALUES (1);');
+    writer.pragma(`user_version = ${latestSchemaVersion + 5}`);
+    writer.close();
+    const before = sha256(file);
+    const filesBefore = fs.readdirSync(path.dirname(file)).sort();
+
+    expect(() => openDatabase(file)).toThrow(DatabaseTooNewError);
+    expect(() => openDatabase(file)).toThrow(/newer version of Syrinx .*schema \d+.*has not been changed/);
+    expect(sha256(file)).toBe(before);
+    expect(fs.readdirSync(path.dirname(file)).sort()).toEqual(filesBefore);
+  });
+});

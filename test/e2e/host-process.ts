@@ -1,0 +1,65 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser } from 'playwright-core';
+import { findProjectRoot } from '../../main/project-paths.js';
+
+export type RunningHost = { url: string; origin: string; port: number; process: ChildProcess; output: () => string; stop: () => Promise<number | null> };
+
+const root = findProjectRoot();
+
+/** Starts `node build/main/start.js` as `npm start` does and waits for the URL line. */
+export function startHostProcess(dataDirectory: string, extraArguments: string[] = [], timeoutMs = 10_000): Promise<RunningHost> {
+  const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory, ...extraArguments], {
+    env: { ...process.env, CI: 'true', DISPLAY: '' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
+  child.stderr.on('data', (chunk: Buffer) => (output += chunk.toString()));
+  const exited = new Promise<number | null>((resolve) => child.once('exit', (code) => resolve(code)));
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(() => {
+      child.kill('SIGKILL');
+      reject(new Error(`No URL within ${timeoutMs} ms. Output so far:\n${output}`));
+    }, timeoutMs);
+    const check = () => {
+      const match = /Open: (http:\/\/127\.0\.0\.1:(\d+)\/\?token=\S+)/.exec(output);
+      if (match?.[1] === undefined || match[2] === undefined) return;
+      clearTimeout(timer);
+      const url = match[1];
+      resolve({
+        url,
+        origin: new URL(url).origin,
+        port: Number(match[2]),
+        process: child,
+        output: () => output,
+        stop: async () => {
+          child.kill('SIGTERM');
+          return exited;
+        },
+      });
+    };
+    child.stdout.on('data', check);
+    void exited.then((code) => {
+      clearTimeout(timer);
+      reject(new Error(`The host exited with code ${String(code)} before printing a URL:\n${output}`));
+    });
+  });
+}
+
+/** Headless Debian Chromium, as the project's tests and benchmarks use it. */
+export function launchChromium(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+  });
+}
+
+export const screenshotFolder = path.join(root, 'test-artifacts', 'screenshots');
+
+export function ensureScreenshotFolder(): string {
+  fs.mkdirSync(screenshotFolder, { recursive: true });
+  return screenshotFolder;
+}

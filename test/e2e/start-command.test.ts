@@ -1,0 +1,78 @@
+import Database from 'better-sqlite3';
+import { spawnSync } from 'node:child_process';
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import http from 'node:http';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { findProjectRoot } from '../../main/project-paths.js';
+import { temporaryFolder } from '../support/temporary-folder.js';
+import { startHostProcess } from './host-process.js';
+
+function status(url: string): Promise<number> {
+  return new Promise((resolve, reject) => {
+    http.get(url, (response) => {
+      response.resume();
+      resolve(response.statusCode ?? 0);
+    }).on('error', reject);
+  });
+}
+
+/** Local addresses of listening TCP sockets on a port, from /proc/net/tcp and tcp6 (Linux). */
+function listeningAddresses(port: number): string[] {
+  const hexPort = port.toString(16).toUpperCase().padStart(4, '0');
+  const addresses: string[] = [];
+  for (const table of ['/proc/net/tcp', '/proc/net/tcp6']) {
+    if (!fs.existsSync(table)) continue;
+    for (const line of fs.readFileSync(table, 'utf8').split('\n').slice(1)) {
+      const fields = line.trim().split(/\s+/);
+      const local = fields[1];
+      if (local === undefined || fields[3] !== '0A') continue; // 0A = LISTEN
+      const [address, portHex] = local.split(':');
+      if (portHex === hexPort && address !== undefined) addresses.push(address);
+    }
+  }
+  return addresses;
+}
+
+describe('npm start on a machine without a display', () => {
+  it('prints a loopback URL within 10 s that serves the app only with its token, listening on 127.0.0.1 alone', async () => {
+    const data = temporaryFolder();
+    const startedAt = Date.now();
+    const host = await startHostProcess(data.folder, [], 10_000);
+    try {
+      expect(Date.now() - startedAt).toBeLessThan(10_000);
+      expect(host.output()).toMatch(/desktop window cannot open because there is no graphical display/);
+      expect(await status(host.url)).toBe(200);
+      expect(await status(`${host.origin}/`)).toBe(403);
+      expect(listeningAddresses(host.port)).toEqual(['0100007F']); // 127.0.0.1 in /proc's byte order
+    } finally {
+      await host.stop();
+      data.remove();
+    }
+  });
+
+  it('refuses a database from a newer schema with a clear message and leaves it untouched', () => {
+    const data = temporaryFolder();
+    try {
+      const file = path.join(data.folder, 'syrinx.db');
+      const writer = new Database(file);
+      writer.exec('CREATE TABLE notes (body TEXT); INSERT INTO notes VALUES (\'from the future\');');
+      writer.pragma('user_version = 42');
+      writer.close();
+      const before = crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
+      const result = spawnSync(process.execPath, [path.join(findProjectRoot(), 'build', 'main', 'start.js'), '--no-open', '--data', data.folder], {
+        env: { ...process.env, CI: 'true', DISPLAY: '' },
+        encoding: 'utf8',
+        timeout: 10_000,
+      });
+      expect(result.status).toBe(1);
+      expect(result.stderr).toMatch(/written by a newer version of Syrinx \(schema 42; this version understands up to \d+\)/);
+      expect(result.stdout).not.toMatch(/Open:/);
+      expect(crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex')).toBe(before);
+      expect(fs.readdirSync(data.folder)).toEqual(['syrinx.db']);
+    } finally {
+      data.remove();
+    }
+  });
+});
