@@ -1,5 +1,7 @@
 import fs from 'node:fs';
+import { speciesReference } from '../app/core/species-reference.js';
 import { openDatabase, type OpenOptions, type SyrinxDatabase } from '../db/connection.js';
+import { createSpeciesRepository } from '../db/repositories/species-repository.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
 
@@ -24,12 +26,14 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   fs.mkdirSync(options.dataDirectory, { recursive: true });
   const file = databaseFile(options.dataDirectory);
   const db = openDatabase(file, options.openOptions);
+  const now = options.now ?? (() => new Date());
+  createSpeciesRepository(db).seedReference(speciesReference, now());
   const handlers = createHandlers({
     db,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
     host: options.host,
-    now: options.now ?? (() => new Date()),
+    now,
   });
   return {
     db,

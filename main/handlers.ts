@@ -5,6 +5,7 @@ import type { SyrinxDatabase } from '../db/connection.js';
 import { schemaVersion } from '../db/connection.js';
 import { createSettingsRepository } from '../db/repositories/settings-repository.js';
 import { createSafetyAcknowledgementRepository } from '../db/repositories/safety-acknowledgement-repository.js';
+import { createRecordHandlers, RecordError } from './record-handlers.js';
 
 export type HandlerContext = {
   readonly db: SyrinxDatabase;
@@ -52,6 +53,7 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     },
     'settings:get': () => settings.get(),
     'settings:save': (request) => settings.save(request, context.now()),
+    ...createRecordHandlers(context.db, context.now),
   };
 }
 
@@ -91,7 +93,7 @@ export function createDispatcher(handlers: HandlerTable, log: (message: string) 
       }
       return { ok: true, value: checked.data };
     } catch (error) {
-      if (error instanceof HandlerError) {
+      if (error instanceof HandlerError || error instanceof RecordError) {
         return { ok: false, error: { code: error.code, message: error.message, ...(error.field === undefined ? {} : { field: error.field }) } };
       }
       const message = error instanceof Error ? error.message : String(error);

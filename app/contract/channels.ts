@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { clinicSettingsSchema, storedSettingsSchema } from './settings.js';
 import { acknowledgeRequestSchema, safetyStatusSchema } from './safety.js';
+import { recordChannels } from './record-channels.js';
 
 const empty = z.object({}).strict();
 
@@ -22,6 +23,7 @@ export const channels = {
   'safety:acknowledge': { request: acknowledgeRequestSchema, response: safetyStatusSchema },
   'settings:get': { request: empty, response: storedSettingsSchema },
   'settings:save': { request: clinicSettingsSchema, response: storedSettingsSchema },
+  ...recordChannels,
 } as const;
 
 export type Channels = typeof channels;

@@ -1,21 +1,26 @@
 import { useEffect, useState } from 'react';
 import type { SafetyStatus } from '../contract/safety.js';
 import type { StoredSettings } from '../contract/settings.js';
+import { OperatorProvider } from './common/operator.js';
+import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
+import { PatientsArea } from './patients/patients-area.js';
+import { RecordsArea } from './records/records-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
 import { SettingsScreen } from './settings/settings-screen.js';
-import { areaFromHash, areas, type AreaId } from './shell/areas.js';
+import { areas, routeFromHash, type Route } from './shell/areas.js';
 import { NotBuilt } from './shell/not-built.js';
 import { Shell } from './shell/shell.js';
+import { SpeciesArea } from './species/species-area.js';
 
-function useHashArea(): AreaId {
-  const [area, setArea] = useState<AreaId>(() => areaFromHash(window.location.hash));
+function useRoute(): Route {
+  const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
   useEffect(() => {
-    const onChange = () => setArea(areaFromHash(window.location.hash));
+    const onChange = () => setRoute(routeFromHash(window.location.hash));
     window.addEventListener('hashchange', onChange);
     return () => window.removeEventListener('hashchange', onChange);
   }, []);
-  return area;
+  return route;
 }
 
 function Failure({ message }: { readonly message: string }) {
@@ -27,13 +32,28 @@ function Failure({ message }: { readonly message: string }) {
   );
 }
 
+function AreaContent({ route }: { readonly route: Route }) {
+  switch (route.area) {
+    case 'patients':
+      return <PatientsArea route={route} />;
+    case 'species':
+      return <SpeciesArea route={route} />;
+    case 'records':
+      return <RecordsArea route={route} />;
+    default: {
+      const definition = areas.find((candidate) => candidate.id === route.area);
+      return definition === undefined ? null : <NotBuilt area={definition} />;
+    }
+  }
+}
+
 /** First run: cautions, then clinic setup; afterwards the shell with its areas. */
 export function App() {
   const [safetyLoad] = useChannel('safety:status', {});
   const [settingsLoad] = useChannel('settings:get', {});
   const [safety, setSafety] = useState<SafetyStatus | null>(null);
   const [stored, setStored] = useState<StoredSettings | null>(null);
-  const area = useHashArea();
+  const route = useRoute();
 
   const currentSafety = safety ?? (safetyLoad.state === 'ready' ? safetyLoad.value : null);
   const currentSettings = stored ?? (settingsLoad.state === 'ready' ? settingsLoad.value : null);
@@ -50,23 +70,26 @@ export function App() {
   if (!currentSafety.acknowledged) return <CautionsScreen status={currentSafety} onAcknowledged={setSafety} />;
 
   const needsSetup = currentSettings.settings === null;
-  const shown: AreaId = needsSetup ? 'settings' : area;
-  const definition = areas.find((candidate) => candidate.id === shown) ?? areas[0];
+  const shown: Route = needsSetup ? { area: 'settings', segments: [] } : route;
   return (
-    <Shell current={shown} clinicName={currentSettings.settings?.clinicName ?? 'New clinic'} appVersion={currentSafety.appVersion}>
-      {shown === 'settings' || definition === undefined ? (
-        <SettingsScreen
-          stored={currentSettings}
-          safety={currentSafety}
-          onSaved={(saved) => {
-            // After first-run setup, stay on Settings so the confirmation is seen.
-            if (needsSetup) window.location.hash = '#/settings';
-            setStored(saved);
-          }}
-        />
-      ) : (
-        <NotBuilt area={definition} />
-      )}
-    </Shell>
+    <OperatorProvider>
+      <SettingsContext.Provider value={currentSettings.settings}>
+        <Shell current={shown.area} clinicName={currentSettings.settings?.clinicName ?? 'New clinic'} appVersion={currentSafety.appVersion}>
+          {shown.area === 'settings' ? (
+            <SettingsScreen
+              stored={currentSettings}
+              safety={currentSafety}
+              onSaved={(saved) => {
+                // After first-run setup, stay on Settings so the confirmation is seen.
+                if (needsSetup) window.location.hash = '#/settings';
+                setStored(saved);
+              }}
+            />
+          ) : (
+            <AreaContent route={shown} />
+          )}
+        </Shell>
+      </SettingsContext.Provider>
+    </OperatorProvider>
   );
 }

@@ -1,4 +1,5 @@
 import { afterEach, describe, expect, it } from 'vitest';
+import { latestSchemaVersion } from '../../db/migrations/index.js';
 import { startBackEnd, type BackEnd } from '../../main/back-end.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
@@ -73,6 +74,6 @@ describe('contract dispatcher', () => {
 
   it('reports the app and schema version and the data folder', async () => {
     const result = await backEnd().dispatch('app:info', {});
-    expect(result.ok && result.value).toMatchObject({ appVersion: '9.8.7', schemaVersion: 1, host: 'browser' });
+    expect(result.ok && result.value).toMatchObject({ appVersion: '9.8.7', schemaVersion: latestSchemaVersion, host: 'browser' });
   });
 });

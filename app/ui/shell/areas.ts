@@ -17,8 +17,20 @@ export const areas: readonly Area[] = [
   { id: 'settings', title: 'Settings', purpose: 'clinic name, address and preferred units', built: true },
 ];
 
-/** The area named by a location hash such as `#/settings`; patients when none matches. */
-export function areaFromHash(hash: string): AreaId {
-  const id = hash.replace(/^#\/?/, '');
-  return areas.find((area) => area.id === id)?.id ?? 'patients';
+export type Route = { readonly area: AreaId; readonly segments: readonly string[] };
+
+/**
+ * The route named by a location hash such as `#/patients/12/weights`: the area and what follows.
+ * Patients when nothing matches.
+ */
+export function routeFromHash(hash: string): Route {
+  const [first, ...segments] = hash.replace(/^#\/?/, '').split('/').filter((part) => part !== '');
+  const area = areas.find((candidate) => candidate.id === first)?.id;
+  return area === undefined ? { area: 'patients', segments: [] } : { area, segments: segments.map(decodeURIComponent) };
 }
+
+/** The hash for a route, e.g. `href('patients', 12)` -> `#/patients/12`. */
+export function href(area: AreaId, ...segments: readonly (string | number)[]): string {
+  return `#/${[area, ...segments.map((segment) => encodeURIComponent(String(segment)))].join('/')}`;
+}
+

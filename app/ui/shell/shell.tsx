@@ -1,4 +1,5 @@
 import { useEffect, type ReactNode } from 'react';
+import { OperatorField } from '../common/operator.js';
 import { areas, type AreaId } from './areas.js';
 
 type Props = {
@@ -34,6 +35,7 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
         <p className="standing-caution" role="note">
           Planning aid: every figure is an estimate with its basis shown. The responsible veterinarian decides.
         </p>
+        <OperatorField />
       </header>
       <nav className="sidebar" aria-label="Areas">
         <ul>

@@ -1,0 +1,94 @@
+/**
+ * A procedure record as CSV (RFC 4180): one row per logged time point or event, with units in
+ * the headers. Text cells that a spreadsheet would run as a formula are prefixed with an
+ * apostrophe.
+ */
+
+export type CsvEntry = {
+  readonly at: string;
+  readonly kind: 'vitals' | 'event';
+  readonly vaporPct: number | null;
+  readonly oxygenLpm: number | null;
+  readonly heartRatePerMin: number | null;
+  readonly breathsPerMin: number | null;
+  readonly temperatureC: number | null;
+  readonly etco2Mmhg: number | null;
+  readonly spo2Pct: number | null;
+  readonly eventType: string | null;
+  readonly eventNote: string;
+  readonly drugName: string;
+  readonly drugDose: string;
+  readonly enteredBy: string;
+  readonly enteredAt: string;
+  readonly corrected: boolean;
+};
+
+export const procedureCsvHeaders = [
+  'time',
+  'minutes from start',
+  'kind',
+  'vaporiser (%)',
+  'oxygen (L/min)',
+  'heart rate (/min)',
+  'breathing rate (/min)',
+  'temperature (C)',
+  'EtCO2 (mmHg)',
+  'SpO2 (%, trend only in birds)',
+  'event',
+  'note',
+  'drug',
+  'dose (entered by the clinic)',
+  'entered by',
+  'entered at',
+  'corrected',
+] as const;
+
+function cell(value: string | number | null): string {
+  if (value === null) return '';
+  if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '';
+  const guarded = /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
+  return /[",\r\n]/.test(guarded) ? `"${guarded.replace(/"/g, '""')}"` : guarded;
+}
+
+/** Minutes between two ISO times, one decimal. */
+function minutesBetween(startIso: string, atIso: string): number {
+  return Math.round((Date.parse(atIso) - Date.parse(startIso)) / 6000) / 10;
+}
+
+/**
+ * CSV text for a procedure record. `title` lines (patient, species, procedure) come first as
+ * comment-free key,value rows so the file stands on its own.
+ */
+export function procedureCsv(input: { readonly startedAt: string; readonly title: readonly (readonly [string, string])[]; readonly entries: readonly CsvEntry[] }): string {
+  const lines: string[] = [];
+  for (const [key, value] of input.title) lines.push(`${cell(key)},${cell(value)}`);
+  lines.push('');
+  lines.push(procedureCsvHeaders.map(cell).join(','));
+  const sorted = [...input.entries].sort((a, b) => a.at.localeCompare(b.at));
+  for (const entry of sorted) {
+    lines.push(
+      [
+        entry.at,
+        minutesBetween(input.startedAt, entry.at),
+        entry.kind,
+        entry.vaporPct,
+        entry.oxygenLpm,
+        entry.heartRatePerMin,
+        entry.breathsPerMin,
+        entry.temperatureC,
+        entry.etco2Mmhg,
+        entry.spo2Pct,
+        entry.eventType ?? '',
+        entry.eventNote,
+        entry.drugName,
+        entry.drugDose,
+        entry.enteredBy,
+        entry.enteredAt,
+        entry.corrected ? 'yes' : 'no',
+      ]
+        .map(cell)
+        .join(','),
+    );
+  }
+  return `${lines.join('\r\n')}\r\n`;
+}

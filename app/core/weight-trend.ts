@@ -1,0 +1,109 @@
+/**
+ * Weight trend of one bird: change since the previous and the first weight, with the weight-loss
+ * bands <5, <10, <15, <20 and >20 % used for pain scoring in birds (IVAPM pain scale for birds),
+ * and warnings for a weight outside the species' typical range or one that looks like a unit slip.
+ */
+
+export type WeightPoint = { readonly weighedOn: string; readonly massG: number };
+
+export type LossBand = 'no loss' | '<5 %' | '5-10 %' | '10-15 %' | '15-20 %' | '>20 %';
+
+export type WeightFlag = { readonly code: string; readonly severity: 'danger' | 'warning' | 'notice'; readonly message: string; readonly reason: string };
+
+export type WeightChange = { readonly grams: number; readonly percent: number; readonly lossBand: LossBand };
+
+export type WeightTrend = {
+  readonly latest: WeightPoint | null;
+  readonly sinceLast: WeightChange | null;
+  readonly sinceFirst: WeightChange | null;
+  readonly flags: WeightFlag[];
+};
+
+export const lossBandBasis = 'Weight-loss bands <5, <10, <15, <20, >20 % (IVAPM pain scale for birds)';
+
+/** A mass this many times outside the typical range is more likely a unit slip (g vs kg) than a bird. */
+export const unitSlipFactor = 20;
+
+/** Band of a weight loss given as a positive percentage of the earlier weight. */
+export function lossBand(lossPct: number): LossBand {
+  if (!(lossPct > 0)) return 'no loss';
+  if (lossPct < 5) return '<5 %';
+  if (lossPct < 10) return '5-10 %';
+  if (lossPct < 15) return '10-15 %';
+  if (lossPct < 20) return '15-20 %';
+  return '>20 %';
+}
+
+function change(from: number, to: number): WeightChange {
+  const percent = ((to - from) / from) * 100;
+  return { grams: to - from, percent, lossBand: lossBand(-percent) };
+}
+
+const bandSeverity: Readonly<Record<LossBand, WeightFlag['severity'] | null>> = {
+  'no loss': null,
+  '<5 %': null,
+  '5-10 %': 'notice',
+  '10-15 %': 'warning',
+  '15-20 %': 'danger',
+  '>20 %': 'danger',
+};
+
+/**
+ * Flags for one mass against a species' typical adult range (g). Returns an empty list when the
+ * range is unknown.
+ */
+export function massRangeFlags(massG: number, range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null): WeightFlag[] {
+  if (range === null) return [];
+  const rangeText = `${range.minG}-${range.maxG} g`;
+  if (massG > range.maxG * unitSlipFactor || massG < range.minG / unitSlipFactor) {
+    const asKg = massG / 1000;
+    const asG = massG * 1000;
+    const hint = massG < range.minG ? `Was ${massG} kg meant (${asG} g)?` : `Was ${asKg} kg entered as grams?`;
+    return [
+      {
+        code: 'weight-unit-slip',
+        severity: 'danger',
+        message: `${massG} g is far outside the typical ${range.speciesName} range (${rangeText}): probably a unit slip. ${hint}`,
+        reason: `More than ${unitSlipFactor} times outside the species' typical adult range (common practice)`,
+      },
+    ];
+  }
+  if (massG < range.minG || massG > range.maxG) {
+    return [
+      {
+        code: 'weight-outside-species-range',
+        severity: 'notice',
+        message: `${massG} g is outside the typical ${range.speciesName} range (${rangeText}). Check the scale and the species.`,
+        reason: 'Typical adult mass range of the species (an editable typical range, not a norm)',
+      },
+    ];
+  }
+  return [];
+}
+
+/**
+ * Trend of a bird's weights, given in any order (sorted here by date). Losses are flagged by
+ * IVAPM band; the latest weight is checked against the species' typical range.
+ */
+export function weightTrend(points: readonly WeightPoint[], range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null): WeightTrend {
+  const sorted = [...points].sort((a, b) => a.weighedOn.localeCompare(b.weighedOn));
+  const latest = sorted.at(-1) ?? null;
+  const previous = sorted.length >= 2 ? (sorted.at(-2) ?? null) : null;
+  const first = sorted.length >= 2 ? (sorted[0] ?? null) : null;
+  const sinceLast = latest !== null && previous !== null ? change(previous.massG, latest.massG) : null;
+  const sinceFirst = latest !== null && first !== null ? change(first.massG, latest.massG) : null;
+  const flags: WeightFlag[] = [];
+  for (const [label, value] of [['since the previous weight', sinceLast], ['since the first weight', sinceFirst]] as const) {
+    if (value === null) continue;
+    const severity = bandSeverity[value.lossBand];
+    if (severity === null) continue;
+    flags.push({
+      code: label === 'since the previous weight' ? 'weight-loss-since-last' : 'weight-loss-since-first',
+      severity,
+      message: `Lost ${Math.abs(value.grams).toFixed(1)} g (${Math.abs(value.percent).toFixed(1)} %) ${label}: band ${value.lossBand}.`,
+      reason: lossBandBasis,
+    });
+  }
+  if (latest !== null) flags.push(...massRangeFlags(latest.massG, range));
+  return { latest, sinceLast, sinceFirst, flags };
+}

@@ -1,0 +1,93 @@
+import { useEffect, useRef } from 'react';
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+
+export type ChartSeries = {
+  readonly label: string;
+  readonly values: readonly (number | null)[];
+  /** Stroke colour; patterns (dash) keep series apart when printed in black and white. */
+  readonly stroke: string;
+  readonly dash?: readonly number[];
+  readonly width?: number;
+  /** Axis scale key: series sharing a key share an axis. */
+  readonly scale?: string;
+  readonly points?: boolean;
+  /** Fill between this series and the one with the given index (uncertainty bands). */
+  readonly bandTo?: number;
+};
+
+export type ChartAxis = { readonly scale: string; readonly label: string; readonly side?: 'left' | 'right' };
+
+type Props = {
+  readonly x: readonly number[];
+  readonly xLabel: string;
+  readonly series: readonly ChartSeries[];
+  readonly axes: readonly ChartAxis[];
+  readonly height?: number;
+  readonly title?: string;
+  /** Accessible summary of what the chart shows. */
+  readonly summary: string;
+};
+
+/**
+ * A line chart over time drawn with uPlot (a charting library). Redraws data in place when the
+ * inputs change so that typing stays smooth.
+ */
+export function TimeChart({ x, xLabel, series, axes, height = 260, title, summary }: Props) {
+  const host = useRef<HTMLDivElement | null>(null);
+  const plot = useRef<uPlot | null>(null);
+  const shape = JSON.stringify({ labels: series.map((item) => [item.label, item.scale, item.stroke, item.dash, item.bandTo]), axes, title, height });
+
+  useEffect(() => {
+    const element = host.current;
+    if (element === null) return undefined;
+    const parsedAxes = axes;
+    const options: uPlot.Options = {
+      width: Math.max(320, element.clientWidth),
+      height,
+      ...(title === undefined ? {} : { title }),
+      scales: { x: { time: false } },
+      legend: { show: true },
+      cursor: { drag: { x: false, y: false } },
+      axes: [
+        { label: xLabel, stroke: '#1b1f24', grid: { stroke: '#e3e6ea' } },
+        ...parsedAxes.map((axis) => ({ scale: axis.scale, label: axis.label, side: axis.side === 'right' ? 1 : 3, stroke: '#1b1f24', grid: { show: axis.side !== 'right', stroke: '#e3e6ea' } })),
+      ],
+      series: [
+        { label: xLabel },
+        ...series.map((item) => ({
+          label: item.label,
+          stroke: item.stroke,
+          width: item.width ?? 2,
+          scale: item.scale ?? parsedAxes[0]?.scale ?? 'y',
+          ...(item.dash === undefined ? {} : { dash: [...item.dash] }),
+          points: { show: item.points ?? false },
+          spanGaps: true,
+        })),
+      ],
+      bands: series.flatMap((item, index) => (item.bandTo === undefined ? [] : [{ series: [index + 1, item.bandTo + 1] as [number, number], fill: 'rgba(31, 78, 121, 0.15)' }])),
+    };
+    const instance = new uPlot(options, [[], ...series.map(() => [])] as uPlot.AlignedData, element);
+    plot.current = instance;
+    const resize = new ResizeObserver(() => instance.setSize({ width: Math.max(320, element.clientWidth), height }));
+    resize.observe(element);
+    return () => {
+      resize.disconnect();
+      instance.destroy();
+      plot.current = null;
+    };
+    // The chart is rebuilt only when its shape changes; data updates go through setData below.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [shape]);
+
+  useEffect(() => {
+    plot.current?.setData([x as number[], ...series.map((item) => item.values as (number | null)[])] as uPlot.AlignedData);
+  }, [x, series, shape]);
+
+  return (
+    <figure className="chart" aria-label={summary}>
+      <div ref={host} />
+      <figcaption className="visually-hidden">{summary}</figcaption>
+    </figure>
+  );
+}

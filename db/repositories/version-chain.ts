@@ -1,0 +1,51 @@
+import type { SyrinxDatabase } from '../connection.js';
+
+/**
+ * Record tables keep every version: a correction is a new row whose `corrects_id` names the row
+ * it replaces. These helpers read such chains for any record table; the table name is ours,
+ * never user input.
+ */
+export type ChainTable = 'species' | 'patient_versions' | 'weights' | 'plans' | 'procedure_record_versions' | 'procedure_entries';
+
+/** Id of the newest row in the chain that contains `id` (the row no other row corrects). */
+export function currentIdInChain(db: SyrinxDatabase, table: ChainTable, id: number): number | null {
+  const row = db
+    .prepare<[number], { id: number }>(
+      `WITH RECURSIVE later(id) AS (
+         SELECT id FROM ${table} WHERE id = ?
+         UNION ALL
+         SELECT t.id FROM ${table} t JOIN later ON t.corrects_id = later.id
+       )
+       SELECT id FROM later ORDER BY id DESC LIMIT 1`,
+    )
+    .get(id);
+  return row?.id ?? null;
+}
+
+/** Every row id in the chain containing `id`, newest first. */
+export function chainIds(db: SyrinxDatabase, table: ChainTable, id: number): number[] {
+  const rows = db
+    .prepare<[number], { id: number }>(
+      `WITH RECURSIVE earlier(id, corrects_id) AS (
+         SELECT id, corrects_id FROM ${table} WHERE id = ?
+         UNION ALL
+         SELECT t.id, t.corrects_id FROM ${table} t JOIN earlier ON t.id = earlier.corrects_id
+       ),
+       root AS (SELECT id FROM earlier WHERE corrects_id IS NULL),
+       later(id) AS (
+         SELECT id FROM root
+         UNION ALL
+         SELECT t.id FROM ${table} t JOIN later ON t.corrects_id = later.id
+       )
+       SELECT id FROM later ORDER BY id DESC`,
+    )
+    .all(id);
+  return rows.map((row) => row.id);
+}
+
+export type StampRow = { id: number; entered_at: string; entered_by: string; reason: string; corrects_id: number | null };
+
+/** The provenance part of a row, as the contract's `recordStamp`. */
+export function stampOf(row: StampRow) {
+  return { versionId: row.id, enteredAt: row.entered_at, enteredBy: row.entered_by, reason: row.reason, correctsId: row.corrects_id };
+}
