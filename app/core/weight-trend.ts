@@ -94,7 +94,8 @@ export function weightTrend(points: readonly WeightPoint[], range: { readonly mi
   const sinceFirst = latest !== null && first !== null ? change(first.massG, latest.massG) : null;
   const flags: WeightFlag[] = [];
   for (const [label, value] of [['since the previous weight', sinceLast], ['since the first weight', sinceFirst]] as const) {
-    if (value === null) continue;
+    // With two weights the previous one is the first: one flag says it all.
+    if (value === null || (label === 'since the first weight' && sorted.length === 2)) continue;
     const severity = bandSeverity[value.lossBand];
     if (severity === null) continue;
     flags.push({

@@ -63,3 +63,23 @@ export function ensureScreenshotFolder(): string {
   fs.mkdirSync(screenshotFolder, { recursive: true });
   return screenshotFolder;
 }
+
+/**
+ * Acknowledges the cautions and saves clinic settings through the bridge, as a returning clinic
+ * would have done, so a test can start at the screen it is about.
+ */
+export async function completeFirstRun(page: import('playwright-core').Page, url: string, initials = 'RW'): Promise<void> {
+  await page.goto(url);
+  await page.evaluate(async (who) => {
+    const token = window.sessionStorage.getItem('syrinx.token') ?? '';
+    const call = async (channel: string, body: unknown) => {
+      const response = await fetch(`/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(body) });
+      const result = (await response.json()) as { ok: boolean };
+      if (!result.ok) throw new Error(`${channel} failed: ${JSON.stringify(result)}`);
+    };
+    await call('safety:acknowledge', { acknowledgedBy: who, accepted: true });
+    await call('settings:save', { clinicName: 'Heron Lane Bird Clinic', addressLine: '4 Heron Lane, Marshfield', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
+    window.localStorage.setItem('syrinx.operator', who);
+  }, initials);
+  await page.reload();
+}

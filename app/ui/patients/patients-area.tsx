@@ -1,8 +1,15 @@
 import type { Route } from '../shell/areas.js';
-import { areas } from '../shell/areas.js';
-import { NotBuilt } from '../shell/not-built.js';
+import { PatientDetailScreen } from './patient-detail.js';
+import { PatientFormScreen } from './patient-form.js';
+import { PatientListScreen } from './patient-list.js';
 
-export function PatientsArea(_props: { readonly route: Route }) {
-  const area = areas.find((candidate) => candidate.id === 'patients');
-  return area === undefined ? null : <NotBuilt area={area} />;
+/** Patients: `#/patients`, `#/patients/new`, `#/patients/<id>`, `#/patients/<id>/edit`. */
+export function PatientsArea({ route }: { readonly route: Route }) {
+  const [first, second] = route.segments;
+  if (first === undefined) return <PatientListScreen />;
+  if (first === 'new') return <PatientFormScreen patientId={null} />;
+  const id = Number(first);
+  if (!Number.isInteger(id) || id <= 0) return <PatientListScreen />;
+  if (second === 'edit') return <PatientFormScreen key={id} patientId={id} />;
+  return <PatientDetailScreen key={id} patientId={id} />;
 }

@@ -1,8 +1,10 @@
 import type { Route } from '../shell/areas.js';
-import { areas } from '../shell/areas.js';
-import { NotBuilt } from '../shell/not-built.js';
+import { SpeciesFormScreen } from './species-form.js';
+import { SpeciesListScreen } from './species-list.js';
 
-export function SpeciesArea(_props: { readonly route: Route }) {
-  const area = areas.find((candidate) => candidate.id === 'species');
-  return area === undefined ? null : <NotBuilt area={area} />;
+/** Species reference: `#/species`, `#/species/new`, `#/species/<key>` (edit with history). */
+export function SpeciesArea({ route }: { readonly route: Route }) {
+  const [first] = route.segments;
+  if (first === undefined) return <SpeciesListScreen />;
+  return <SpeciesFormScreen key={first} speciesKey={first === 'new' ? null : first} />;
 }

@@ -1,0 +1,20 @@
+import { formatMass, gToKg, type MassUnit } from '../../core/units.js';
+
+/** Mass as the clinic reads it: grams, with kilograms beside for large birds. */
+export function displayMass(massG: number, preference: MassUnit): string {
+  if (preference === 'kg') return formatMass(massG, 'kg', 3).text;
+  const grams = `${Number(massG.toFixed(massG < 100 ? 1 : 0))} g`;
+  return massG >= 1000 ? `${grams} (${Number(gToKg(massG).toFixed(2))} kg)` : grams;
+}
+
+/** Local date and time, short, for record stamps. */
+export function displayDateTime(iso: string): string {
+  const date = new Date(iso);
+  return Number.isNaN(date.getTime()) ? iso : date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+}
+
+/** Today as YYYY-MM-DD in local time. */
+export function todayIso(now: Date = new Date()): string {
+  const local = new Date(now.getTime() - now.getTimezoneOffset() * 60_000);
+  return local.toISOString().slice(0, 10);
+}

@@ -1,0 +1,114 @@
+import { useId, type ReactNode } from 'react';
+
+type Base = {
+  readonly label: string;
+  readonly error?: string | undefined;
+  readonly hint?: ReactNode;
+  readonly autoFocus?: boolean;
+  readonly name?: string;
+};
+
+function FieldMessages({ id, error, hint }: { readonly id: string; readonly error: string | undefined; readonly hint: ReactNode }) {
+  return (
+    <>
+      {hint !== undefined && <p className="hint">{hint}</p>}
+      {error !== undefined && (
+        <p className="field-error" id={`${id}-error`} role="alert">
+          {error}
+        </p>
+      )}
+    </>
+  );
+}
+
+/** A labelled text input with its hint and its validation message. */
+export function TextField(props: Base & { readonly value: string; readonly onChange: (value: string) => void; readonly type?: 'text' | 'date' | 'datetime-local' | 'search'; readonly placeholder?: string; readonly multiline?: boolean }) {
+  const id = useId();
+  const common = {
+    id,
+    name: props.name,
+    value: props.value,
+    autoFocus: props.autoFocus,
+    placeholder: props.placeholder,
+    'aria-invalid': props.error !== undefined,
+    'aria-describedby': props.error !== undefined ? `${id}-error` : undefined,
+  };
+  return (
+    <div className="field">
+      <label htmlFor={id}>{props.label}</label>
+      {props.multiline === true ? (
+        <textarea {...common} rows={3} onChange={(event) => props.onChange(event.target.value)} />
+      ) : (
+        <input {...common} type={props.type ?? 'text'} onChange={(event) => props.onChange(event.target.value)} />
+      )}
+      <FieldMessages id={id} error={props.error} hint={props.hint} />
+    </div>
+  );
+}
+
+/**
+ * A labelled number input that keeps what was typed (so "0." survives) and reports a number, or
+ * null when blank. The unit is shown beside the box.
+ */
+export function NumberField(props: Base & { readonly value: string; readonly onChange: (text: string) => void; readonly unit: string; readonly step?: string }) {
+  const id = useId();
+  return (
+    <div className="field">
+      <label htmlFor={id}>
+        {props.label} <span className="unit">({props.unit})</span>
+      </label>
+      <span className="with-unit">
+        <input
+          id={id}
+          name={props.name}
+          inputMode="decimal"
+          value={props.value}
+          autoFocus={props.autoFocus}
+          aria-invalid={props.error !== undefined}
+          aria-describedby={props.error !== undefined ? `${id}-error` : undefined}
+          onChange={(event) => props.onChange(event.target.value)}
+        />
+        <span aria-hidden="true">{props.unit}</span>
+      </span>
+      <FieldMessages id={id} error={props.error} hint={props.hint} />
+    </div>
+  );
+}
+
+/** A labelled drop-down list. */
+export function SelectField<T extends string>(props: Base & { readonly value: T; readonly options: readonly { readonly value: T; readonly label: string }[]; readonly onChange: (value: T) => void }) {
+  const id = useId();
+  return (
+    <div className="field">
+      <label htmlFor={id}>{props.label}</label>
+      <select
+        id={id}
+        name={props.name}
+        value={props.value}
+        autoFocus={props.autoFocus}
+        aria-invalid={props.error !== undefined}
+        onChange={(event) => props.onChange(event.target.value as T)}
+      >
+        {props.options.map((option) => (
+          <option key={option.value} value={option.value}>
+            {option.label}
+          </option>
+        ))}
+      </select>
+      <FieldMessages id={id} error={props.error} hint={props.hint} />
+    </div>
+  );
+}
+
+/** Parses what was typed in a number box: null when blank, NaN when not a number. */
+export function parseNumber(text: string): number | null {
+  const trimmed = text.trim().replace(',', '.');
+  if (trimmed === '') return null;
+  const value = Number(trimmed);
+  return Number.isFinite(value) ? value : Number.NaN;
+}
+
+/** Text for a number box. */
+export function numberText(value: number | null | undefined): string {
+  return value === null || value === undefined ? '' : String(value);
+}

@@ -1,0 +1,121 @@
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { temporaryFolder } from '../support/temporary-folder.js';
+import { completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+
+let browser: Browser;
+let host: RunningHost;
+const shots = ensureScreenshotFolder();
+const data = temporaryFolder('syrinx-e2e-patients-');
+
+beforeAll(async () => {
+  browser = await launchChromium();
+  host = await startHostProcess(data.folder);
+});
+afterAll(async () => {
+  await browser.close();
+  await host.stop();
+  data.remove();
+});
+
+const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+
+describe('patients, weights and species in headless Chromium', () => {
+  it('creates a species-linked patient, adds two weights, sees the loss flag and corrects a weight with its history', async () => {
+    const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
+    const problems: string[] = [];
+    page.on('pageerror', (error) => problems.push(error.message));
+    await completeFirstRun(page, host.url);
+    await page.getByRole('heading', { name: 'Patients' }).waitFor();
+    await page.getByText('No patients yet').waitFor();
+    await page.getByRole('link', { name: 'New patient' }).click();
+    await page.getByRole('heading', { name: 'New patient' }).waitFor();
+    await page.getByRole('button', { name: 'Save patient' }).click();
+    await page.getByText('Enter the bird’s name or clinic ID.').waitFor();
+    await page.getByText('Choose a species.').first().waitFor();
+    await shoot(page, '20-patient-form-validation');
+
+    await page.getByLabel('Name or clinic ID').fill('Pip');
+    await page.getByLabel('Species').selectOption('budgerigar');
+    await page.getByLabel('Sex').selectOption('male');
+    await page.getByLabel('Ring ID').fill('HL-24-117');
+    await page.getByLabel('Owner reference').fill('Owner 5521');
+    await page.getByLabel('Name or clinic ID').press('Enter');
+    await page.getByRole('heading', { name: /Pip/ }).waitFor();
+
+    const addWeight = async (date: string, grams: string) => {
+      await page.getByLabel('Date', { exact: true }).fill(date);
+      await page.getByLabel('Weight (g)', { exact: true }).fill(grams);
+      await page.getByLabel('Weight (g)', { exact: true }).press('Enter');
+    };
+    await addWeight('2026-11-01', '34');
+    await page.getByRole('cell', { name: '34 g' }).waitFor();
+    await addWeight('2026-11-30', '28');
+    await page.getByRole('cell', { name: '28 g' }).waitFor();
+    const alert = page.locator('.flag.danger');
+    await alert.first().waitFor();
+    expect(await alert.allTextContents()).toEqual(expect.arrayContaining([expect.stringMatching(/Lost 6\.0 g \(17\.6 %\) since the previous weight: band 15-20 %/)]));
+    await expect(page.getByText('Basis: Weight-loss bands <5, <10, <15, <20, >20 % (IVAPM pain scale for birds)').first().isVisible()).resolves.toBe(true);
+    await shoot(page, '21-patient-weights-flag');
+
+    await page.getByRole('row', { name: /28 g/ }).getByRole('button', { name: 'Correct' }).click();
+    await page.getByLabel('Weight (g)', { exact: true }).fill('31');
+    await page.getByRole('button', { name: 'Save correction' }).click();
+    await page.getByText('Say why; the reason is kept with the history.').waitFor();
+    await page.getByLabel('Reason').fill('Read the scale before it settled');
+    await page.getByRole('button', { name: 'Save correction' }).click();
+    await page.getByRole('cell', { name: '31 g' }).waitFor();
+    await page.getByRole('row', { name: /31 g/ }).getByRole('button', { name: 'History' }).click();
+    const history = page.getByRole('region', { name: 'Weight history' });
+    await history.waitFor();
+    const lines = await history.locator('li').allTextContents();
+    expect(lines[0]).toMatch(/^31 g on 2026-11-30 · entered by RW.*why: Read the scale before it settled/);
+    expect(lines[1]).toMatch(/^28 g on 2026-11-30 · entered by RW/);
+    await shoot(page, '22-patient-weight-history');
+
+    await page.goto(`${host.origin}/#/patients`);
+    await page.getByLabel(/^Search/).fill('5521');
+    await page.getByRole('link', { name: 'Pip' }).waitFor();
+    await expect(page.getByRole('cell', { name: /31 g \(2026-11-30\)/ }).isVisible()).resolves.toBe(true);
+    await shoot(page, '23-patient-search');
+    expect(problems).toEqual([]);
+    await page.close();
+  });
+
+  it('shows species with their sources and keeps the earlier value when the clinic edits one', async () => {
+    const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
+    await page.goto(host.url);
+    await page.getByRole('heading', { name: 'Patients' }).waitFor();
+    await page.getByLabel('Your initials').fill('MK');
+    await page.keyboard.press('Alt+2');
+    await page.getByRole('heading', { name: 'Species', exact: true }).waitFor();
+    // Pekin duck isoflurane MAC 1.30 +/- 0.23 % (Ludders, Mitchell & Rode 1990, Vet Surg 19)
+    const duckRow = page.getByRole('row', { name: /Pekin duck/ });
+    const duckText = await duckRow.textContent();
+    expect(duckText).toMatch(/1\.3 % ± 0\.23/);
+    expect(duckText).toMatch(/Ludders, Mitchell & Rode 1990/);
+    await shoot(page, '24-species-list');
+
+    await page.getByRole('link', { name: 'Budgerigar' }).click();
+    await page.getByRole('heading', { name: 'Edit Budgerigar' }).waitFor();
+    const highest = page.getByRole('group', { name: 'Typical adult mass' }).getByLabel('Highest');
+    const before = await highest.inputValue();
+    await highest.fill('60');
+    await page.getByRole('group', { name: 'Typical adult mass' }).getByLabel('Source').fill('Exhibition budgerigars seen at this clinic (common practice)');
+    await page.getByRole('button', { name: 'Save changes' }).click();
+    await page.getByText('Say why the value changes; the reason is kept with the history.').waitFor();
+    await page.getByLabel('Reason for the change').fill('Many exhibition birds on our list');
+    await page.getByRole('button', { name: 'Save changes' }).click();
+    await page.getByText(/^Saved /).waitFor({ timeout: 5000 }).catch(async (error: unknown) => {
+      await shoot(page, '25-species-edit-failed');
+      throw error;
+    });
+    const history = await page.locator('section[aria-labelledby="species-history-title"] li').allTextContents();
+    expect(history).toHaveLength(2);
+    expect(history[0]).toMatch(/why: Many exhibition birds on our list · mass \d+-60 g \(Exhibition budgerigars seen at this clinic/);
+    expect(history[1]).toContain(`-${before} g`);
+    await shoot(page, '25-species-edit-history');
+    await page.close();
+  });
+});
