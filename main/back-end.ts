@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import { speciesReference } from '../app/core/species-reference.js';
 import { openDatabase, type OpenOptions, type SyrinxDatabase } from '../db/connection.js';
 import { createSpeciesRepository } from '../db/repositories/species-repository.js';
+import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
 
@@ -9,6 +10,8 @@ export type BackEnd = {
   readonly db: SyrinxDatabase;
   readonly dispatch: Dispatcher;
   readonly databaseFile: string;
+  /** Settles when the automatic backup made at start has finished (or was not asked for). */
+  readonly backupSettled: Promise<string>;
   close(): void;
 };
 
@@ -19,6 +22,8 @@ export type BackEndOptions = {
   readonly now?: () => Date;
   readonly openOptions?: OpenOptions;
   readonly log?: (message: string) => void;
+  /** Make a rolling backup (last 10 kept) in `<data>/backups` at start. */
+  readonly automaticBackup?: boolean;
 };
 
 /** Opens the clinic database in a data folder and wires the contract's handler table to it. */
@@ -35,10 +40,18 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
+  const backupSettled =
+    options.automaticBackup === true
+      ? automaticBackupOnStart({ dataDirectory: options.dataDirectory, databaseFile: file, connection: db, now: now() }).then((result) => {
+          options.log?.(result.message);
+          return result.message;
+        })
+      : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
     dispatch: createDispatcher(handlers, options.log),
     databaseFile: file,
+    backupSettled,
     close: () => {
       if (db.open) db.close();
     },

@@ -1,8 +1,18 @@
 import fs from 'node:fs/promises';
+import { runBackupCommand } from './cli/backup-command.js';
+import { runCheckCommand } from './cli/check-command.js';
+import { processIo } from './cli/command-io.js';
+import { runExportCommand } from './cli/export-command.js';
+import { runRestoreCommand } from './cli/restore-command.js';
 
 type Command = { readonly summary: string; run(args: string[]): Promise<number> };
 
-const commands: Readonly<Record<string, Command>> = {};
+const commands: Readonly<Record<string, Command>> = {
+  backup: { summary: 'copy the clinic database to a file: --out FILE [--data DIR]', run: (args) => runBackupCommand(args, processIo) },
+  restore: { summary: 'put a backup in place of the clinic database: FILE [--data DIR]', run: (args) => runRestoreCommand(args, processIo) },
+  check: { summary: 'integrity and schema version of the database: [--data DIR] or FILE', run: (args) => runCheckCommand(args, processIo) },
+  export: { summary: 'the whole database as JSON: --out FILE.json [--data DIR]', run: (args) => runExportCommand(args, processIo) },
+};
 
 function usage(): string {
   const lines = Object.entries(commands).map(([name, command]) => `  syrinx ${name.padEnd(10)} ${command.summary}`);

@@ -106,6 +106,7 @@ async function main(): Promise<void> {
       dataDirectory,
       appVersion: readAppVersion(root),
       host: 'desktop',
+      automaticBackup: true,
       ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
     });
   } catch (error) {

@@ -36,7 +36,7 @@ async function main(): Promise<number> {
   const appVersion = readAppVersion(root);
   let backEnd;
   try {
-    backEnd = startBackEnd({ dataDirectory, appVersion, host: 'browser', log: (message) => process.stderr.write(`${message}\n`) });
+    backEnd = startBackEnd({ dataDirectory, appVersion, host: 'browser', automaticBackup: true, log: (message) => process.stderr.write(`${message}\n`) });
   } catch (error) {
     process.stderr.write(`syrinx: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
@@ -55,10 +55,13 @@ async function main(): Promise<number> {
 
   return new Promise((resolve) => {
     const stop = () => {
-      void host.close().then(() => {
-        backEnd.close();
-        resolve(0);
-      });
+      void host
+        .close()
+        .then(() => backEnd.backupSettled)
+        .then(() => {
+          backEnd.close();
+          resolve(0);
+        });
     };
     process.once('SIGINT', stop);
     process.once('SIGTERM', stop);

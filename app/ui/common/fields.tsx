@@ -112,3 +112,34 @@ export function parseNumber(text: string): number | null {
 export function numberText(value: number | null | undefined): string {
   return value === null || value === undefined ? '' : String(value);
 }
+
+/** A set of radio buttons for a short list of choices. */
+export function Choice<T extends string>(props: {
+  readonly legend: string;
+  readonly name: string;
+  readonly options: readonly T[];
+  readonly labels?: Readonly<Record<string, string>>;
+  readonly value: T;
+  readonly error: string | undefined;
+  readonly onChange: (value: T) => void;
+}) {
+  const errorId = useId();
+  return (
+    <fieldset className="field choice" aria-describedby={props.error !== undefined ? errorId : undefined}>
+      <legend>{props.legend}</legend>
+      <div className="choice-options">
+        {props.options.map((option) => (
+          <label key={option}>
+            <input type="radio" name={props.name} value={option} checked={props.value === option} onChange={() => props.onChange(option)} />
+            {props.labels?.[option] ?? option}
+          </label>
+        ))}
+      </div>
+      {props.error !== undefined && (
+        <p className="field-error" id={errorId} role="alert">
+          {props.error}
+        </p>
+      )}
+    </fieldset>
+  );
+}

@@ -1,4 +1,4 @@
-import { useId, useState, type FormEvent, type ReactNode } from 'react';
+import { useState, type FormEvent } from 'react';
 import {
   clinicSettingsSchema,
   defaultClinicSettings,
@@ -14,68 +14,13 @@ import { describeIssues } from '../../contract/result.js';
 import { agentIds, agents } from '../../core/agents.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
+import { Choice, TextField } from '../common/fields.js';
 
 type Props = {
   readonly stored: StoredSettings;
   readonly safety: SafetyStatus;
   readonly onSaved: (stored: StoredSettings) => void;
 };
-
-type ChoiceProps<T extends string> = {
-  readonly legend: string;
-  readonly name: keyof ClinicSettings;
-  readonly options: readonly T[];
-  readonly labels?: Readonly<Record<string, string>>;
-  readonly value: T;
-  readonly error: string | undefined;
-  readonly onChange: (value: T) => void;
-};
-
-function Choice<T extends string>({ legend, name, options, labels, value, error, onChange }: ChoiceProps<T>) {
-  const errorId = useId();
-  return (
-    <fieldset className="field choice" aria-describedby={error !== undefined ? errorId : undefined}>
-      <legend>{legend}</legend>
-      <div className="choice-options">
-        {options.map((option) => (
-          <label key={option}>
-            <input type="radio" name={name} value={option} checked={value === option} onChange={() => onChange(option)} />
-            {labels?.[option] ?? option}
-          </label>
-        ))}
-      </div>
-      {error !== undefined && <p className="field-error" id={errorId} role="alert">{error}</p>}
-    </fieldset>
-  );
-}
-
-function TextField(props: {
-  readonly label: string;
-  readonly name: keyof ClinicSettings;
-  readonly value: string;
-  readonly error: string | undefined;
-  readonly hint?: ReactNode;
-  readonly autoFocus?: boolean;
-  readonly onChange: (value: string) => void;
-}) {
-  const id = useId();
-  return (
-    <div className="field">
-      <label htmlFor={id}>{props.label}</label>
-      <input
-        id={id}
-        name={props.name}
-        value={props.value}
-        autoFocus={props.autoFocus}
-        aria-invalid={props.error !== undefined}
-        aria-describedby={props.error !== undefined ? `${id}-error` : undefined}
-        onChange={(event) => props.onChange(event.target.value)}
-      />
-      {props.hint !== undefined && <p className="hint">{props.hint}</p>}
-      {props.error !== undefined && <p className="field-error" id={`${id}-error`} role="alert">{props.error}</p>}
-    </div>
-  );
-}
 
 const agentLabels = Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]));
 

@@ -1,0 +1,64 @@
+import path from 'node:path';
+import { listBackups } from '../../db/backup.js';
+import { checkDatabaseFile } from '../../db/integrity.js';
+import { backupFolder } from '../automatic-backup.js';
+import { dataLocation, parseArguments, UsageError, type CommandIo } from './command-io.js';
+
+export const checkUsage =
+  'Usage: syrinx check [--data DIR] [--quick]\n       syrinx check FILE [--quick]\n  Reports the integrity and schema version of the clinic database in DIR (default: the usual data folder), or of a backup FILE.';
+
+const shownLines = 20;
+
+/**
+ * `syrinx check --data DIR` or `syrinx check FILE`: integrity check, schema version, foreign keys;
+ * reads only. Exit 0 sound, 1 a problem was found (or no database), 2 bad arguments.
+ */
+export async function runCheckCommand(args: string[], io: CommandIo): Promise<number> {
+  let file: string;
+  let dataDirectory: string | null = null;
+  let quick: boolean;
+  try {
+    const parsed = parseArguments(args, { valueOptions: ['--data'], flagOptions: ['--quick'], maxPositionals: 1 });
+    const positional = parsed.positionals[0];
+    if (positional !== undefined && parsed.values.has('--data')) throw new UsageError('give either a FILE or --data DIR, not both.');
+    quick = parsed.flags.has('--quick');
+    if (positional !== undefined) file = path.resolve(positional);
+    else {
+      const location = dataLocation(parsed);
+      file = location.databaseFile;
+      dataDirectory = location.dataDirectory;
+    }
+  } catch (error) {
+    if (error instanceof UsageError) {
+      io.stderr(`syrinx check: ${error.message}\n${checkUsage}\n`);
+      return 2;
+    }
+    throw error;
+  }
+
+  io.stderr(`check: reading ${file}\n`);
+  const check = checkDatabaseFile(file, { quick });
+  const lines = [
+    `Database: ${check.file}`,
+    `Result: ${check.ok ? 'OK' : 'PROBLEM'} (${check.status})`,
+    check.message,
+    `Schema version: ${check.schemaVersion ?? 'unknown'} (this version of Syrinx understands up to ${check.supportedSchemaVersion})`,
+  ];
+  if (check.integrity.length > 0) {
+    lines.push(`${quick ? 'quick_check' : 'integrity_check'}:`);
+    for (const line of check.integrity.slice(0, shownLines)) lines.push(`  ${line}`);
+    if (check.integrity.length > shownLines) lines.push(`  ... and ${check.integrity.length - shownLines} more`);
+  }
+  if (check.foreignKeyProblems.length > 0) {
+    lines.push(`Rows pointing at missing rows: ${check.foreignKeyProblems.length}`);
+    for (const problem of check.foreignKeyProblems.slice(0, shownLines)) lines.push(`  ${problem.table} row ${problem.rowId ?? '?'} -> ${problem.parentTable}`);
+  }
+  if (check.missingTables.length > 0) lines.push(`Missing tables: ${check.missingTables.join(', ')}`);
+  if (dataDirectory !== null) {
+    const backups = listBackups(backupFolder(dataDirectory));
+    const newest = backups[0];
+    lines.push(newest === undefined ? `Automatic backups: none in ${backupFolder(dataDirectory)}` : `Automatic backups: ${backups.length} in ${backupFolder(dataDirectory)}, newest taken ${newest.takenAt}`);
+  }
+  io.stdout(`${lines.join('\n')}\n`);
+  return check.ok ? 0 : 1;
+}
