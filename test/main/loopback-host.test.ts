@@ -1,8 +1,9 @@
+import fs from 'node:fs';
 import http from 'node:http';
+import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { startBackEnd } from '../../main/back-end.js';
 import { startLoopbackHost, type LoopbackHost } from '../../main/loopback-host.js';
-import { rendererDirectory } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => Promise<void> | void)[] = [];
@@ -12,8 +13,12 @@ afterEach(async () => {
 
 async function host(): Promise<LoopbackHost> {
   const temp = temporaryFolder();
-  const backEnd = startBackEnd({ dataDirectory: temp.folder, appVersion: '1.0.0', host: 'browser' });
-  const started = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(), dispatch: backEnd.dispatch });
+  // A stand-in renderer folder, so this test does not depend on a prior build.
+  const renderer = path.join(temp.folder, 'renderer');
+  fs.mkdirSync(renderer);
+  fs.writeFileSync(path.join(renderer, 'index.html'), '<!doctype html><div id="root"></div>');
+  const backEnd = startBackEnd({ dataDirectory: path.join(temp.folder, 'data'), appVersion: '1.0.0', host: 'browser' });
+  const started = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch: backEnd.dispatch });
   cleanups.push(temp.remove, () => backEnd.close(), () => started.close());
   return started;
 }
