@@ -1,0 +1,167 @@
+import { useId, useState, type FormEvent } from 'react';
+import { airways, circuits, cropStates, tubeTypes } from '../../contract/records.js';
+import { formatMass } from '../../core/units.js';
+import { api } from '../common/bridge.js';
+import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
+import { useOperator } from '../common/operator.js';
+import { useClinicSettings } from '../common/settings-context.js';
+import { useChannel } from '../common/use-channel.js';
+import { href } from '../shell/areas.js';
+import { toLocalInputValue } from './clock-time.js';
+import { RadioGroup, TextBox } from './fields.js';
+import { useInitialsGate } from './initials-gate.js';
+import { airwayHasTube, airwayLabels, checkRecordDraft, circuitLabels, emptyRecordDraft, tubeTypeLabels, type RecordDraft } from './record-form.js';
+
+function PatientPicker() {
+  const [query, setQuery] = useState('');
+  const [results] = useChannel('patients:search', { query, limit: 20 });
+  const id = useId();
+  return (
+    <section className="screen" aria-labelledby="new-record-title">
+      <h1 id="new-record-title">New procedure record</h1>
+      <p className="lead">Choose the patient first.</p>
+      <div className="field">
+        <label htmlFor={id}>Find a patient (name, ring, microchip or owner)</label>
+        <input id={id} value={query} autoFocus onChange={(event) => setQuery(event.target.value)} />
+      </div>
+      {results.state === 'failed' && <p className="form-error" role="alert">{results.error.message}</p>}
+      {results.state === 'ready' && results.value.patients.length === 0 && <p>No patient matches. Add the bird under Patients first.</p>}
+      {results.state === 'ready' && results.value.patients.length > 0 && (
+        <ul className="record-patient-list">
+          {results.value.patients.map((patient) => (
+            <li key={patient.id}>
+              <a href={href('records', 'new', patient.id)}>
+                {patient.name} ({patient.speciesName ?? patient.speciesKey})
+              </a>
+              {patient.ringId !== '' && <span className="hint"> ring {patient.ringId}</span>}
+            </li>
+          ))}
+        </ul>
+      )}
+    </section>
+  );
+}
+
+/** Starts a procedure record for one patient; `patientId` null offers a patient search first. */
+export function NewRecordForm({ patientId }: { readonly patientId: number | null }) {
+  if (patientId === null) return <PatientPicker />;
+  return <NewRecordFormFor patientId={patientId} />;
+}
+
+function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
+  const { initials } = useOperator();
+  const settings = useClinicSettings();
+  const [patient] = useChannel('patients:get', { id: patientId });
+  const [draft, setDraft] = useState<RecordDraft>(() => emptyRecordDraft(toLocalInputValue(new Date()), initials));
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [failure, setFailure] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const { gate, withInitials } = useInitialsGate();
+  const emergencyId = useId();
+
+  function update<K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) {
+    setDraft((current) => ({ ...current, [key]: value }));
+    if (errors[key] !== undefined || (key === 'startedAtLocal' && errors['startedAt'] !== undefined)) {
+      setErrors(({ [key]: _removed, startedAt: _start, ...rest }) => rest);
+    }
+  }
+
+  function submit(event: FormEvent) {
+    event.preventDefault();
+    setFailure(null);
+    const checked = checkRecordDraft(draft);
+    if (!checked.ok) {
+      setErrors(checked.errors);
+      setFailure('Not saved: correct the fields marked below.');
+      return;
+    }
+    withInitials((enteredBy) => {
+      setBusy(true);
+      void api.invoke('procedures:create', { patientId, values: checked.values, meta: { enteredBy, reason: '' } }).then((answer) => {
+        setBusy(false);
+        if (answer.ok) window.location.hash = href('records', answer.value.id);
+        else {
+          setErrors(Object.fromEntries(Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [field.replace(/^values\./, ''), message])));
+          setFailure(`Not saved: ${answer.error.message}`);
+        }
+      });
+    });
+  }
+
+  if (patient.state === 'loading') return <p aria-busy="true">Loading the patient…</p>;
+  if (patient.state === 'failed') {
+    return (
+      <section className="screen">
+        <h1>New procedure record</h1>
+        <p className="form-error" role="alert">{patient.error.message}</p>
+      </section>
+    );
+  }
+  const detail = patient.value;
+  const latest = detail.trend.latest;
+
+  return (
+    <section className="screen" aria-labelledby="new-record-title">
+      <h1 id="new-record-title">New procedure record</h1>
+      <p className="lead">
+        {detail.patient.values.name}, {detail.species?.values.commonName ?? detail.patient.values.speciesKey}
+        {latest !== null && `, ${formatMass(latest.massG, settings.massUnit).text} on ${latest.weighedOn}`}
+        {latest === null && ', no weight recorded'}
+      </p>
+      <form onSubmit={submit} noValidate className="form record-new-form">
+        <TextBox label="Procedure" name="procedureName" value={draft.procedureName} error={errors['procedureName']} autoFocus onChange={(value) => update('procedureName', value)} />
+        <TextBox label="Start" name="startedAt" type="datetime-local" value={draft.startedAtLocal} error={errors['startedAt']} hint="Now unless you change it." onChange={(value) => update('startedAtLocal', value)} />
+        <div className="record-form-pair">
+          <RadioGroup
+            legend="ASA grade"
+            name="asaGrade"
+            options={[{ value: 0, label: 'not graded' }, ...[1, 2, 3, 4, 5].map((grade) => ({ value: grade as RecordDraft['asaGrade'], label: String(grade) }))]}
+            value={draft.asaGrade}
+            error={errors['asaGrade']}
+            onChange={(value) => update('asaGrade', value)}
+          />
+          <div className="field checkbox">
+            <input id={emergencyId} type="checkbox" checked={draft.emergency} onChange={(event) => update('emergency', event.target.checked)} />
+            <label htmlFor={emergencyId}>E: emergency</label>
+          </div>
+        </div>
+        <TextBox label="Fasting" name="fasting" value={draft.fasting} error={errors['fasting']} hint="e.g. 2 h, food removed 08:00" onChange={(value) => update('fasting', value)} />
+        <RadioGroup legend="Crop check" name="cropChecked" options={cropStates.map((value) => ({ value, label: value }))} value={draft.cropChecked} error={errors['cropChecked']} onChange={(value) => update('cropChecked', value)} />
+        <RadioGroup legend="Airway" name="airway" options={airways.map((value) => ({ value, label: airwayLabels[value] }))} value={draft.airway} error={errors['airway']} onChange={(value) => update('airway', value)} />
+        {airwayHasTube(draft.airway) && (
+          <div className="record-form-pair">
+            <TextBox label="Tube size (mm)" name="tubeSizeMm" inputMode="decimal" size={6} value={draft.tubeSizeMm} error={errors['tubeSizeMm']} onChange={(value) => update('tubeSizeMm', value)} />
+            {draft.airway === 'endotracheal' && (
+              <RadioGroup legend="Tube" name="tubeType" options={tubeTypes.map((value) => ({ value, label: tubeTypeLabels[value] }))} value={draft.tubeType} error={errors['tubeType']} onChange={(value) => update('tubeType', value)} />
+            )}
+          </div>
+        )}
+        <RadioGroup legend="Circuit" name="circuit" options={circuits.map((value) => ({ value, label: circuitLabels[value] }))} value={draft.circuit} error={errors['circuit']} onChange={(value) => update('circuit', value)} />
+        <div className="record-form-pair">
+          <TextBox label="Staff initials" name="staffInitials" size={10} value={draft.staffInitials} error={errors['staffInitials']} hint="Who is monitoring." onChange={(value) => update('staffInitials', value)} />
+          <TextBox
+            label="Prompt interval (min)"
+            name="promptIntervalMin"
+            inputMode="decimal"
+            size={4}
+            value={draft.promptIntervalMin}
+            error={errors['promptIntervalMin']}
+            hint="Reminder to log vitals; at least every 5 min is common practice."
+            onChange={(value) => update('promptIntervalMin', value)}
+          />
+        </div>
+        {gate}
+        <div className="form-actions">
+          <button type="submit" className="primary" disabled={busy}>
+            {busy ? 'Saving…' : 'Start procedure record'}
+          </button>
+          {failure !== null && (
+            <p className="form-error" role="status">
+              {failure}
+            </p>
+          )}
+        </div>
+      </form>
+    </section>
+  );
+}
