@@ -1,10 +1,18 @@
 import { benchFoundation } from './foundation-bench.js';
 import { printFigures } from './figures.js';
+import { benchModel } from './model-bench.js';
 import { benchRecords } from './records-bench.js';
 
 /** `npm run bench`: prints figures; targets are read by people, never asserted in tests. */
 async function main(): Promise<void> {
   printFigures('Foundation', await benchFoundation());
+  const model = await benchModel();
+  printFigures(
+    'Model (targets: 2-h plan <= 1 ms, 500-sample uncertainty <= 50 ms)',
+    Object.entries(model)
+      .filter(([name]) => name !== 'analyticChecksum')
+      .map(([name, value]) => ({ name, value, unit: /Ms$/.test(name) ? 'ms' : /Ratio$/.test(name) ? 'x' : '' })),
+  );
   printFigures('Records', await benchRecords());
 }
 

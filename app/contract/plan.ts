@@ -1,0 +1,373 @@
+/**
+ * The anaesthetic plan: the input the model reads (planInputSchema) and the result it returns
+ * (planResultSchema). Validation messages are written for a veterinarian: each says what is
+ * wrong in plain words, and planIssueMessages() puts the field's path in front of it.
+ */
+import { z } from 'zod';
+import { estimateRespiratory } from '../core/model/allometry.js';
+import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
+
+/**
+ * A measured value more than this many times above or below the allometric estimate for the
+ * bird's mass is taken as an entry error (assumption: individual birds stay well within it).
+ */
+export const overridePlausibilityFactor = 10;
+
+function boundedNumber(what: string, unit: string, min: number, max: number, options: { integer?: boolean } = {}) {
+  const range = `${what} must be between ${String(min)}${unit} and ${String(max)}${unit}`;
+  const base = z.number({ error: (issue) => (issue.input === undefined ? `${what} is required` : `${what} must be a number`) });
+  const checked = options.integer === true ? base.int({ error: `${what} must be a whole number` }) : base;
+  return checked.min(min, { error: range }).max(max, { error: range });
+}
+
+function strict<T extends z.ZodRawShape>(shape: T, what: string) {
+  return z.strictObject(shape, {
+    error: (issue) => {
+      if (issue.code === 'unrecognized_keys') {
+        return `${issue.keys.map((key) => `"${key}"`).join(', ')} ${issue.keys.length === 1 ? 'is' : 'are'} not part of ${what} (check the spelling)`;
+      }
+      if (issue.code === 'invalid_type') return `${what} must be an object with named fields`;
+      return undefined;
+    },
+  });
+}
+
+const kebabCase = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
+
+export const agentSchema = z.enum(['isoflurane', 'sevoflurane', 'desflurane'], {
+  error: 'agent must be isoflurane, sevoflurane or desflurane',
+});
+export const routeSchema = z.enum(['mask', 'chamber', 'endotracheal', 'airSacTube'], {
+  error: 'route must be mask, chamber, endotracheal or airSacTube',
+});
+export const circuitSchema = z.enum(['nonRebreathing', 'circle'], { error: 'circuit must be nonRebreathing or circle' });
+
+export const overridesSchema = strict(
+  {
+    tidalVolumeMl: boundedNumber('measured tidal volume', ' mL', 0.01, 1000).optional(),
+    breathsPerMin: boundedNumber('measured breathing rate', ' breaths/min', 1, 200).optional(),
+    trachealVolumeMl: boundedNumber('measured tracheal volume', ' mL', 0.01, 200).optional(),
+    heartRatePerMin: boundedNumber('measured heart rate', ' beats/min', 20, 1500).optional(),
+    cardiacOutputMlMin: boundedNumber('measured cardiac output', ' mL/min', 0.5, 20000).optional(),
+    lungVolumeMl: boundedNumber('measured lung volume', ' mL', 0.05, 2000).optional(),
+    airSacVolumeMl: boundedNumber('measured air-sac volume', ' mL', 0.5, 5000).optional(),
+  },
+  'the measured values',
+);
+
+export const scheduleStepSchema = strict(
+  {
+    atMin: boundedNumber('step time', ' min', 0, 1440),
+    vaporPct: boundedNumber('dial setting', ' %', 0, 20),
+  },
+  'a vaporiser step',
+);
+
+export const ventilationSchema = z.discriminatedUnion(
+  'mode',
+  [
+    strict({ mode: z.literal('spontaneous') }, 'spontaneous ventilation'),
+    strict(
+      {
+        mode: z.literal('ippv'),
+        breathsPerMin: boundedNumber('ventilator rate', ' breaths/min', 1, 150),
+        tidalVolumeMl: boundedNumber('ventilator tidal volume', ' mL', 0.05, 1000),
+        fromMin: boundedNumber('ventilation start', ' min', 0, 1440).optional(),
+      },
+      'IPPV settings',
+    ),
+  ],
+  { error: 'ventilation mode must be spontaneous or ippv' },
+);
+
+export const cylinderSchema = z.discriminatedUnion(
+  'kind',
+  [
+    strict(
+      {
+        kind: z.literal('preset'),
+        presetId: z.enum(['us-e', 'metric-2l-200bar', 'metric-10l-200bar'], { error: 'cylinder preset must be us-e, metric-2l-200bar or metric-10l-200bar' }),
+        gaugePressureBar: boundedNumber('gauge pressure', ' bar', 0, 300).optional(),
+        gaugePressurePsi: boundedNumber('gauge pressure', ' psi', 0, 4400).optional(),
+      },
+      'a cylinder preset',
+    ),
+    strict(
+      {
+        kind: z.literal('waterCapacity'),
+        waterCapacityL: boundedNumber('cylinder water capacity', ' L', 0.1, 100),
+        pressureBar: boundedNumber('cylinder pressure', ' bar', 0, 300),
+      },
+      'a cylinder by water capacity',
+    ),
+    strict({ kind: z.literal('content'), contentL: boundedNumber('cylinder content', ' L', 0, 100000) }, 'a cylinder by content'),
+  ],
+  { error: 'cylinder kind must be preset, waterCapacity or content' },
+);
+
+export const planInputSchema = strict(
+  {
+    patientName: z.string({ error: 'patient name must be text' }).max(100, { error: 'patient name must be at most 100 characters' }).optional(),
+    bodyMassG: boundedNumber('body mass', ' g', 5, 15000),
+    speciesId: z
+      .string({ error: 'species id must be text' })
+      .regex(kebabCase, { error: 'species id must be lower-case words joined by hyphens, e.g. budgerigar or pekin-duck' })
+      .optional(),
+    overrides: overridesSchema.optional(),
+    agent: agentSchema,
+    macPct: boundedNumber('MAC', ' %', 0.1, 15).optional(),
+    route: routeSchema,
+    circuit: circuitSchema.optional(),
+    freshGasLpm: boundedNumber('fresh gas flow', ' L/min', 0.05, 20),
+    chamberVolumeL: boundedNumber('chamber volume', ' L', 0.1, 100).optional(),
+    maskDeadSpaceMl: boundedNumber('mask dead space', ' mL', 0, 500).optional(),
+    maskLeakFraction: boundedNumber('mask leak fraction', '', 0, 0.9).optional(),
+    circuitVolumeL: boundedNumber('circle volume', ' L', 0.1, 20).optional(),
+    schedule: z
+      .array(scheduleStepSchema, { error: 'schedule must be a list of vaporiser steps' })
+      .min(1, { error: 'schedule needs at least one vaporiser step' })
+      .max(50, { error: 'schedule may have at most 50 steps' }),
+    ventilation: ventilationSchema.optional(),
+    targetMacMultiple: boundedNumber('planned depth', ' x MAC', 0.5, 3).optional(),
+    recoveryMacFraction: boundedNumber('recovery threshold', ' x MAC', 0.1, 0.95).optional(),
+    recoveryWindowMin: boundedNumber('recovery window', ' min', 5, 240).optional(),
+    scavenging: z.boolean({ error: 'scavenging must be true or false' }).optional(),
+    room: strict(
+      {
+        volumeM3: boundedNumber('room volume', ' m3', 5, 5000),
+        airChangesPerHour: boundedNumber('room air changes', ' per hour', 0.1, 60),
+      },
+      'the room',
+    ).optional(),
+    cylinder: cylinderSchema.optional(),
+    vaporiserTemperatureC: boundedNumber('vaporiser temperature', ' C', 10, 35).optional(),
+    uncertainty: strict(
+      {
+        samples: boundedNumber('number of uncertainty samples', '', 0, 2000, { integer: true }),
+        seed: boundedNumber('uncertainty seed', '', 0, 2147483647, { integer: true }),
+      },
+      'the uncertainty settings',
+    ).optional(),
+  },
+  'a plan',
+).superRefine((plan, context) => {
+  const steps = plan.schedule;
+  const first = steps[0];
+  if (first !== undefined && first.atMin !== 0) {
+    context.addIssue({ code: 'custom', path: ['schedule', 0, 'atMin'], message: 'the first vaporiser step must start at 0 min' });
+  }
+  for (let index = 1; index < steps.length; index += 1) {
+    const previous = steps[index - 1];
+    const step = steps[index];
+    if (previous !== undefined && step !== undefined && step.atMin <= previous.atMin) {
+      context.addIssue({
+        code: 'custom',
+        path: ['schedule', index, 'atMin'],
+        message: `steps must be in time order: this step (${String(step.atMin)} min) does not come after the one before (${String(previous.atMin)} min)`,
+      });
+    }
+  }
+  const last = steps[steps.length - 1];
+  const window = plan.recoveryWindowMin ?? 30;
+  if (last !== undefined && last.atMin + window > 1440) {
+    context.addIssue({ code: 'custom', path: ['recoveryWindowMin'], message: 'the last step plus the recovery window must end within 24 h (1440 min)' });
+  }
+  if (plan.route === 'chamber' && plan.chamberVolumeL === undefined) {
+    context.addIssue({ code: 'custom', path: ['chamberVolumeL'], message: 'the chamber volume is needed for the chamber route' });
+  }
+  const circuit = plan.circuit ?? 'nonRebreathing';
+  if (plan.route !== 'chamber' && circuit === 'circle' && plan.circuitVolumeL === undefined) {
+    context.addIssue({ code: 'custom', path: ['circuitVolumeL'], message: 'the circle volume (bag, hoses and absorber) is needed for a circle system' });
+  }
+  if (plan.route === 'airSacTube' && circuit === 'circle') {
+    context.addIssue({ code: 'custom', path: ['circuit'], message: 'an air-sac tube is run from a non-rebreathing system in this model; choose nonRebreathing' });
+  }
+  const ventilation = plan.ventilation;
+  if (ventilation?.mode === 'ippv') {
+    if (plan.route === 'chamber' || plan.route === 'mask') {
+      context.addIssue({ code: 'custom', path: ['ventilation', 'mode'], message: 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber' });
+    }
+    const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
+    if (ventilation.tidalVolumeMl > expectedTidal * overridePlausibilityFactor) {
+      context.addIssue({
+        code: 'custom',
+        path: ['ventilation', 'tidalVolumeMl'],
+        message: `a ventilator tidal volume of ${String(ventilation.tidalVolumeMl)} mL is more than ${String(overridePlausibilityFactor)} times the ${expectedTidal.toPrecision(3)} mL expected for a ${String(plan.bodyMassG)} g bird: check the value and the units`,
+      });
+    }
+    if (ventilation.fromMin !== undefined && last !== undefined && ventilation.fromMin > last.atMin + window) {
+      context.addIssue({ code: 'custom', path: ['ventilation', 'fromMin'], message: 'ventilation must start before the end of the plan' });
+    }
+  }
+  if (plan.overrides !== undefined) {
+    const estimates = estimateRespiratory(plan.bodyMassG);
+    const checks: [keyof NonNullable<typeof plan.overrides>, number, string, string][] = [
+      ['tidalVolumeMl', estimates.tidalVolumeMl.value, 'measured tidal volume', 'mL'],
+      ['breathsPerMin', estimates.breathsPerMin.value, 'measured breathing rate', 'breaths/min'],
+      ['trachealVolumeMl', estimates.trachealDeadSpaceMl.value, 'measured tracheal volume', 'mL'],
+      ['heartRatePerMin', estimates.heartRatePerMin.value, 'measured heart rate', 'beats/min'],
+      ['cardiacOutputMlMin', estimates.cardiacOutputMlMin.value, 'measured cardiac output', 'mL/min'],
+      ['lungVolumeMl', estimates.lungVolumeMl.value, 'measured lung volume', 'mL'],
+      ['airSacVolumeMl', estimates.airSacVolumeMl.value, 'measured air-sac volume', 'mL'],
+    ];
+    for (const [field, estimate, what, unit] of checks) {
+      const measured = plan.overrides[field];
+      if (measured === undefined) continue;
+      if (measured > estimate * overridePlausibilityFactor || measured < estimate / overridePlausibilityFactor) {
+        context.addIssue({
+          code: 'custom',
+          path: ['overrides', field],
+          message: `${what} of ${String(measured)} ${unit} is more than ${String(overridePlausibilityFactor)} times off the ${estimate.toPrecision(3)} ${unit} expected for a ${String(plan.bodyMassG)} g bird: check the value and the units`,
+        });
+      }
+    }
+  }
+  if (plan.maskDeadSpaceMl !== undefined && plan.route !== 'mask') {
+    context.addIssue({ code: 'custom', path: ['maskDeadSpaceMl'], message: 'mask dead space applies only to the mask route' });
+  }
+  if (plan.maskLeakFraction !== undefined && plan.route !== 'mask') {
+    context.addIssue({ code: 'custom', path: ['maskLeakFraction'], message: 'mask leak applies only to the mask route' });
+  }
+});
+
+export type PlanInput = z.infer<typeof planInputSchema>;
+
+/**
+ * One line per problem, "path: why", e.g. "bodyMassG: body mass must be between 5 g and 15000 g".
+ * @param error a zod error from planInputSchema
+ */
+export function planIssueMessages(error: z.ZodError): string[] {
+  return error.issues.map((issue) => `${formatPath(issue.path)}: ${issue.message}`);
+}
+
+function formatPath(path: readonly PropertyKey[]): string {
+  if (path.length === 0) return '(plan)';
+  let text = '';
+  for (const part of path) {
+    if (typeof part === 'number') text += `[${String(part)}]`;
+    else text += text === '' ? String(part) : `.${String(part)}`;
+  }
+  return text;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Result
+
+const estimateSchema = z.object({ value: z.number(), basis: z.string() });
+const percentilesSchema = z.object({ p5: z.number(), p50: z.number(), p95: z.number() });
+const nullableNumber = z.number().nullable();
+
+export const planResultSchema = z.object({
+  modelVersion: z.string(),
+  patientName: z.string().nullable(),
+  speciesId: z.string().nullable(),
+  agent: agentSchema,
+  mac: z.object({ valuePct: z.number(), basis: z.string() }),
+  targetMacMultiple: z.number(),
+  recoveryMacFraction: z.object({ value: z.number(), basis: z.string() }),
+  estimates: z.object({
+    tidalVolumeMl: estimateSchema,
+    breathsPerMin: estimateSchema,
+    minuteVentilationMlMin: estimateSchema,
+    trachealDeadSpaceMl: estimateSchema,
+    lungVolumeMl: estimateSchema,
+    anteriorSacsMl: estimateSchema,
+    posteriorSacsMl: estimateSchema,
+    airSacVolumeMl: estimateSchema,
+    heartRatePerMin: estimateSchema,
+    cardiacOutputMlMin: estimateSchema,
+  }),
+  timeline: z.object({
+    sampleIntervalMin: z.number(),
+    timeMin: z.array(z.number()),
+    inspiredPct: z.array(z.number()),
+    tracheaPct: z.array(z.number()),
+    posteriorSacsPct: z.array(z.number()),
+    parabronchialPct: z.array(z.number()),
+    anteriorSacsPct: z.array(z.number()),
+    arterialPct: z.array(z.number()),
+    brainPct: z.array(z.number()),
+    musclePct: z.array(z.number()),
+    fatPct: z.array(z.number()),
+  }),
+  milestones: z.object({
+    inductionMin: nullableNumber,
+    recoveryMin: nullableNumber,
+    vaporiserOffMin: nullableNumber,
+    airSacWashin95Breaths: nullableNumber,
+    airSacWashin95Min: nullableNumber,
+    airSacWashout95Breaths: nullableNumber,
+    airSacWashout95Min: nullableNumber,
+    peakBrainMacMultiple: z.number(),
+    lowestVentilationFraction: z.number(),
+    basis: z.string(),
+  }),
+  uncertainty: z.object({
+    samples: z.number(),
+    seed: z.number(),
+    // Snapshots saved before the band existed read back as null.
+    brainBandPct: z.object({ p5: z.array(z.number()), p95: z.array(z.number()) }).nullable().default(null),
+    inductionMin: percentilesSchema.nullable(),
+    recoveryMin: percentilesSchema.nullable(),
+    inductionReached: z.number(),
+    recoveryReached: z.number(),
+    parameters: z.array(z.object({ name: z.string(), low: z.number(), high: z.number(), basis: z.string() })),
+    method: z.string(),
+  }),
+  flows: z.object({
+    recommendedLpm: z.number(),
+    minimumLpm: z.number(),
+    rule: z.string(),
+    basis: z.string(),
+    rebreathing: z.boolean(),
+    rebreathingReason: z.string(),
+    chamberTimeTo95Min: nullableNumber,
+  }),
+  consumption: z.object({
+    vapourMlPerLiquidMl: z.number(),
+    liquidMl: z.number(),
+    maintenanceVaporPct: z.number(),
+    liquidMlPerHour: z.number(),
+    basis: z.string(),
+  }),
+  oxygen: z.object({
+    durationMin: z.number(),
+    usedL: z.number(),
+    cylinderContentL: nullableNumber,
+    enduranceMin: nullableNumber,
+    suffices: z.boolean().nullable(),
+    basis: z.string(),
+  }),
+  wasteGas: z.object({
+    scavenging: z.boolean(),
+    roomVolumeM3: z.number(),
+    airChangesPerHour: z.number(),
+    sources: z.array(z.object({ source: z.string(), vapourMl: z.number(), basis: z.string() })),
+    releasedVapourMl: z.number(),
+    peakPpm: z.number(),
+    highestHourMeanPpm: z.number(),
+    ceilingPpm: z.number(),
+    exceedsCeiling: z.boolean(),
+    basis: z.string(),
+  }),
+  cautions: z.array(
+    z.object({ code: z.string(), severity: z.enum(['danger', 'warning', 'notice']), message: z.string(), reason: z.string() }),
+  ),
+  massBalance: z.object({
+    deliveredToBirdMl: z.number(),
+    exhaledMl: z.number(),
+    uptakeMl: z.number(),
+    gasStoredMl: z.number(),
+    bodyStoredMl: z.number(),
+    vaporiserOutputMl: z.number(),
+  }),
+  assumptions: z.array(z.string()),
+});
+
+export type PlanResult = z.infer<typeof planResultSchema>;
+
+// Compile-time agreement between the contract and the model's own types: a parsed plan is a
+// valid model input, and a result read back through the schema is a model result.
+type Assignable<From extends To, To> = From;
+export type PlanInputMatchesModel = Assignable<PlanInput, CorePlanInput>;
+export type PlanResultMatchesModel = Assignable<PlanResult, CorePlanResult>;

@@ -1,0 +1,448 @@
+/**
+ * The plan assembler: turns a validated plan into estimates, a simulated time course,
+ * milestones, uncertainty bands, flows, budgets, waste gas and cautions.
+ */
+import { agents } from '../agents.js';
+import { liquidAgentMlForSchedule, liquidMlPerHour, saturatedConcentrationPct, vapourMlPerLiquidMl } from '../budget/consumption.js';
+import { chamberTimeToFractionMin, rebreathingCheck, recommendFreshGas, type FreshGasInputs } from '../budget/flows.js';
+import { oxygenBudget } from '../budget/oxygen.js';
+import { nioshCeilingPpm, wasteGasExposure, wasteGasRelease, type RoomRelease } from '../budget/waste-gas.js';
+import { collectCautions, type Caution, type CautionContext } from '../cautions.js';
+import type { SpeciesReference } from '../species-reference.js';
+import { estimateRespiratory, type RespiratoryEstimates } from './allometry.js';
+import type { BodyModel, TissueGroup } from './body-uptake.js';
+import { gasSpaceWash } from './milestones.js';
+import {
+  bloodVolumeFraction,
+  defaultMaskDeadSpaceTidalMultiple,
+  defaultMaskLeakFraction,
+  defaultRecoveryMacFraction,
+  defaultTargetMacMultiple,
+  posteriorSacShare,
+  rebreathingFlowMultiple,
+  tissueGroups,
+  ventilatoryDepressionFloor,
+  ventilatoryDepressionSlope,
+} from './parameters.js';
+import type { PlanInput, PlanResult, PlanTimeline } from './plan-types.js';
+import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+import { runUncertainty } from './uncertainty.js';
+
+/** Version of the model; stored with every computed plan. */
+export const modelVersion = '1.0.0';
+
+export type PlanTables = { readonly species: readonly SpeciesReference[] };
+
+/** Default room for the waste-gas estimate when the plan gives none (assumption). */
+export const defaultRoom = {
+  volumeM3: 40,
+  airChangesPerHour: 10,
+  basis: 'Assumption: a 40 m3 treatment room with 10 air changes per hour',
+} as const;
+
+/** Default minutes simulated after the last vaporiser step. */
+export const defaultRecoveryWindowMin = 30;
+
+/** Default number of uncertainty samples and seed. */
+export const defaultUncertainty = { samples: 200, seed: 1 } as const;
+
+export type ResolvedMac = { readonly valuePct: number; readonly basis: string; readonly publishedForBird: boolean; readonly sdPct: number | null };
+
+/**
+ * MAC in use: the plan's value, else the species' published value, else the agent default.
+ * @param input plan
+ * @param species species row, if any
+ */
+export function resolveMac(input: PlanInput, species: SpeciesReference | undefined): ResolvedMac {
+  if (input.macPct !== undefined) return { valuePct: input.macPct, basis: 'entered for this bird', publishedForBird: true, sdPct: null };
+  const published = species?.macByAgent[input.agent];
+  if (published !== undefined && species !== undefined) {
+    return {
+      valuePct: published.macPct,
+      basis: `${species.commonName}: ${published.measure} ${String(published.macPct)} % (${published.basis})`,
+      publishedForBird: true,
+      sdPct: published.sdPct ?? null,
+    };
+  }
+  const fallback = agents[input.agent].fallbackMacPct;
+  return { valuePct: fallback.value, basis: fallback.basis, publishedForBird: false, sdPct: null };
+}
+
+/** Minute at which the vaporiser is turned off for good, or null when the schedule never ends at 0. */
+export function vaporiserOffMin(schedule: PlanInput['schedule']): number | null {
+  let index = schedule.length - 1;
+  if (schedule[index]?.vaporPct !== 0) return null;
+  while (index > 0 && schedule[index - 1]?.vaporPct === 0) index -= 1;
+  if (index === 0) return null;
+  return schedule[index]?.atMin ?? null;
+}
+
+/** End of the simulated period, min. */
+export function planEndMin(input: PlanInput): number {
+  const last = input.schedule[input.schedule.length - 1];
+  return (last?.atMin ?? 0) + (input.recoveryWindowMin ?? defaultRecoveryWindowMin);
+}
+
+/**
+ * The body model of a bird: blood pool and three tissue groups, agent partition coefficients.
+ * @param bodyMassG body mass in g
+ * @param cardiacOutputMlMin cardiac output in mL/min
+ * @param agentId agent
+ */
+export function buildBodyModel(bodyMassG: number, cardiacOutputMlMin: number, agentId: PlanInput['agent']): BodyModel {
+  const agent = agents[agentId];
+  const partitions = [agent.vesselRichBloodPartition.value, agent.muscleBloodPartition.value, agent.fatBloodPartition.value];
+  const groups = tissueGroups.map(
+    (group, index): TissueGroup => ({
+      volumeMl: group.volumeFraction.value * bodyMassG,
+      flowMlMin: group.flowFraction.value * cardiacOutputMlMin,
+      tissueBloodPartition: partitions[index] as number,
+    }),
+  );
+  return {
+    bloodGasPartition: agent.bloodGasPartition.value,
+    bloodVolumeMl: bloodVolumeFraction.value * bodyMassG,
+    groups: [groups[0] as TissueGroup, groups[1] as TissueGroup, groups[2] as TissueGroup],
+  };
+}
+
+/**
+ * Builds the simulation setup of a plan (exported for tests and the benchmark).
+ * @param input validated plan
+ * @param estimates respiratory estimates of the bird
+ * @param mac MAC in use
+ */
+export function buildSimulationSetup(input: PlanInput, estimates: RespiratoryEstimates, mac: ResolvedMac): SimulationSetup {
+  const circuit = input.circuit ?? 'nonRebreathing';
+  const mixed = input.route === 'chamber' || circuit === 'circle';
+  const mixedVolumeMl = input.route === 'chamber' ? (input.chamberVolumeL ?? 1) * 1000 : (input.circuitVolumeL ?? 3) * 1000;
+  const endMin = planEndMin(input);
+  const ventilation = input.ventilation ?? { mode: 'spontaneous' as const };
+  const targetMultiple = input.targetMacMultiple ?? defaultTargetMacMultiple.value;
+  const recoveryFraction = input.recoveryMacFraction ?? defaultRecoveryMacFraction.value;
+  return {
+    gasPath: {
+      trachealVolumeMl: estimates.trachealDeadSpaceMl.value,
+      lungVolumeMl: estimates.lungVolumeMl.value,
+      anteriorSacsMl: estimates.anteriorSacsMl.value,
+      posteriorSacsMl: estimates.posteriorSacsMl.value,
+      posteriorShare: posteriorSacShare.value,
+    },
+    body: buildBodyModel(input.bodyMassG, estimates.cardiacOutputMlMin.value, input.agent),
+    delivery: {
+      source: mixed ? 'mixed' : 'open',
+      freshGasMlMin: input.freshGasLpm * 1000,
+      mixedVolumeMl,
+      rebreathingFlowMultiple: rebreathingFlowMultiple.value,
+      interface: input.route === 'mask' ? 'mask' : input.route === 'airSacTube' ? 'airSacTube' : 'direct',
+      maskDeadSpaceMl: input.maskDeadSpaceMl ?? defaultMaskDeadSpaceTidalMultiple.value * estimates.tidalVolumeMl.value,
+      maskLeakFraction: input.maskLeakFraction ?? defaultMaskLeakFraction.value,
+    },
+    ventilation: {
+      restingTidalVolumeMl: estimates.tidalVolumeMl.value,
+      restingBreathsPerMin: estimates.breathsPerMin.value,
+      depressionSlope: ventilatoryDepressionSlope.value,
+      depressionFloor: ventilatoryDepressionFloor.value,
+      ippv:
+        ventilation.mode === 'ippv'
+          ? { fromMin: ventilation.fromMin ?? 0, breathsPerMin: ventilation.breathsPerMin, tidalVolumeMl: ventilation.tidalVolumeMl }
+          : null,
+    },
+    schedule: input.schedule,
+    endMin,
+    macPct: mac.valuePct,
+    inductionBrainPct: targetMultiple * mac.valuePct,
+    recoveryBrainPct: recoveryFraction * mac.valuePct,
+    offMin: vaporiserOffMin(input.schedule),
+    sampleIntervalMin: Math.max(0.05, Math.ceil(endMin / 480 / 0.05) * 0.05),
+  };
+}
+
+function roundTo(value: number, digits: number): number {
+  const factor = 10 ** digits;
+  return Math.round(value * factor) / factor;
+}
+
+function roundArray(values: readonly number[]): number[] {
+  return values.map((value) => roundTo(value, 5));
+}
+
+function timelineOf(outcome: SimulationOutcome, intervalMin: number): PlanTimeline {
+  const t = outcome.timeline;
+  return {
+    sampleIntervalMin: intervalMin,
+    timeMin: t.timeMin,
+    inspiredPct: roundArray(t.inspiredPct),
+    tracheaPct: roundArray(t.tracheaPct),
+    posteriorSacsPct: roundArray(t.posteriorSacsPct),
+    parabronchialPct: roundArray(t.parabronchialPct),
+    anteriorSacsPct: roundArray(t.anteriorSacsPct),
+    arterialPct: roundArray(t.arterialPct),
+    brainPct: roundArray(t.brainPct),
+    musclePct: roundArray(t.musclePct),
+    fatPct: roundArray(t.fatPct),
+  };
+}
+
+/**
+ * Computes a whole plan. Pure and deterministic: the same input and tables give the same result.
+ * @param input a plan validated by planInputSchema (app/contract/plan.ts)
+ * @param tables the species reference
+ */
+export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
+  const species = input.speciesId === undefined ? undefined : tables.species.find((row) => row.id === input.speciesId);
+  const estimates = estimateRespiratory(input.bodyMassG, input.overrides ?? {});
+  const mac = resolveMac(input, species);
+  const setup = buildSimulationSetup(input, estimates, mac);
+  const outcome = simulate(setup);
+  const circuit = input.circuit ?? 'nonRebreathing';
+  const route = input.route;
+  const offMin = setup.offMin;
+  const tube = route === 'airSacTube';
+
+  // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
+  const startVentilation =
+    setup.ventilation.ippv !== null && setup.ventilation.ippv.fromMin <= 0
+      ? { tidal: setup.ventilation.ippv.tidalVolumeMl, rate: setup.ventilation.ippv.breathsPerMin }
+      : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
+  const washIn = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+    direction: 'in',
+    airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
+  });
+  const offVentilation = outcome.atOff ?? { tidalVolumeMl: startVentilation.tidal, breathsPerMin: startVentilation.rate };
+  const washOut = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: offVentilation.tidalVolumeMl,
+    breathsPerMin: offVentilation.breathsPerMin,
+    direction: 'out',
+    airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
+  });
+
+  const uncertainty = runUncertainty({
+    setup,
+    outcome,
+    macSdPct: mac.sdPct,
+    samples: input.uncertainty?.samples ?? defaultUncertainty.samples,
+    seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
+    bloodGasRange: agents[input.agent].bloodGasRange,
+    brainTimeline: outcome.timeline,
+  });
+
+  // Flows.
+  // The flow rules accept 0.1-100000 mL/min; values outside are not a breathing bird.
+  const minuteVentilation = Math.min(100000, Math.max(0.1, estimates.minuteVentilationMlMin.value));
+  const flowInputs: FreshGasInputs = {
+    route,
+    circuit,
+    bodyMassG: input.bodyMassG,
+    minuteVentilationMlMin: minuteVentilation,
+    ...(input.chamberVolumeL === undefined ? {} : { chamberVolumeL: input.chamberVolumeL }),
+    ...(input.circuitVolumeL === undefined ? {} : { circuitVolumeL: input.circuitVolumeL }),
+    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
+  };
+  const recommendation = recommendFreshGas(flowInputs);
+  const rebreathing = rebreathingCheck({
+    circuit,
+    freshGasLpm: input.freshGasLpm,
+    minuteVentilationMlMin: minuteVentilation,
+    bodyMassG: input.bodyMassG,
+    route,
+    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
+  });
+  const chamberTime = route === 'chamber' && input.chamberVolumeL !== undefined ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm) : null;
+
+  // Consumption.
+  const temperatureC = input.vaporiserTemperatureC ?? 20;
+  const endMin = setup.endMin;
+  const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
+  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
+  const consumption = {
+    vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
+    liquidMl: liquidAgentMlForSchedule({ agent: input.agent, schedule: input.schedule, freshGasLpm: input.freshGasLpm, endMin, temperatureC }),
+    maintenanceVaporPct,
+    liquidMlPerHour: liquidMlPerHour({ agent: input.agent, vaporPct: maintenanceVaporPct, freshGasLpm: input.freshGasLpm, temperatureC }),
+    basis: 'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
+  };
+
+  // Oxygen.
+  const oxygenUsedL = input.freshGasLpm * endMin;
+  const oxygen =
+    input.cylinder === undefined
+      ? { durationMin: endMin, usedL: oxygenUsedL, cylinderContentL: null, enduranceMin: null, suffices: null, basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given' }
+      : (() => {
+          const budget = oxygenBudget({ freshGasLpm: input.freshGasLpm, durationMin: endMin, cylinder: input.cylinder });
+          return {
+            durationMin: endMin,
+            usedL: budget.usedL,
+            cylinderContentL: budget.cylinderContentL,
+            enduranceMin: budget.enduranceMin,
+            suffices: budget.suffices,
+            basis: budget.basis,
+          };
+        })();
+
+  // Waste gas.
+  const scavenging = input.scavenging ?? false;
+  const room = input.room ?? { volumeM3: defaultRoom.volumeM3, airChangesPerHour: defaultRoom.airChangesPerHour };
+  const release = wasteGasRelease({
+    agent: input.agent,
+    route,
+    schedule: input.schedule,
+    freshGasLpm: input.freshGasLpm,
+    endMin,
+    scavenging,
+    ...(route === 'chamber' && input.chamberVolumeL !== undefined
+      ? { chamberVolumeL: input.chamberVolumeL, chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction) }
+      : {}),
+    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
+  });
+  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
+  const steady = release.sources.filter((source) => source.source !== 'chamberOpened').reduce((sum, source) => sum + source.vapourMl, 0);
+  const extraReleases: RoomRelease[] =
+    chamberOpened === undefined ? [] : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }];
+  const exposure = wasteGasExposure({
+    agent: input.agent,
+    releasedVapourMl: steady,
+    releaseDurationMin: endMin,
+    extraReleases,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+  });
+  const wasteGas = {
+    scavenging,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+    sources: release.sources.map((source) => ({ source: source.source, vapourMl: source.vapourMl, basis: source.basis })),
+    releasedVapourMl: release.releasedVapourMl,
+    peakPpm: exposure.peakPpm,
+    highestHourMeanPpm: exposure.highestHourMeanPpm,
+    ceilingPpm: nioshCeilingPpm.value,
+    exceedsCeiling: exposure.exceedsCeiling,
+    basis: `${release.basis}; ${exposure.basis}${input.room === undefined ? `; ${defaultRoom.basis}` : ''}`,
+  };
+
+  // Cautions.
+  const highestDialPct = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
+  const cautionContext: CautionContext = {
+    bodyMassG: input.bodyMassG,
+    ...(species === undefined ? {} : { speciesName: species.commonName, speciesMassRangeG: { minG: species.typicalMassG.minG, maxG: species.typicalMassG.maxG }, anatomyNotes: species.anatomyNotes }),
+    ...(species?.apnoeaMacMultiple === undefined ? {} : { apnoeaMacMultiple: species.apnoeaMacMultiple }),
+    agent: input.agent,
+    highestDialPct,
+    saturatedPct: saturatedConcentrationPct(input.agent, temperatureC),
+    temperatureC,
+    freshGasLpm: input.freshGasLpm,
+    minimumFreshGasLpm: recommendation.minimumLpm,
+    route,
+    circuit,
+    scavenging,
+    ...(route === 'chamber' ? { chamberExposureMin: outcome.inductionMin ?? endMin } : {}),
+    predictedPeakBrainMacMultiple: outcome.peakBrainMacMultiple,
+    macIsPublishedForBird: mac.publishedForBird,
+    wasteGasPeakPpm: exposure.peakPpm,
+    wasteGasHourMeanPpm: exposure.highestHourMeanPpm,
+    ventilationMode: input.ventilation?.mode ?? 'spontaneous',
+  };
+  const cautions: Caution[] = [...collectCautions(cautionContext), ...modelCautions(input, outcome, offMin, endMin)];
+  if (input.speciesId !== undefined && species === undefined) {
+    cautions.push({
+      code: 'unknown-species',
+      severity: 'notice',
+      message: `No species "${input.speciesId}" in the reference: mass range and published MAC are not checked`,
+      reason: 'The species reference has no row with this id; the agent default MAC is used unless one is entered',
+    });
+  }
+
+  const totals = outcome.totals;
+  return {
+    modelVersion,
+    patientName: input.patientName ?? null,
+    speciesId: species?.id ?? null,
+    agent: input.agent,
+    mac: { valuePct: mac.valuePct, basis: mac.basis },
+    targetMacMultiple: input.targetMacMultiple ?? defaultTargetMacMultiple.value,
+    recoveryMacFraction:
+      input.recoveryMacFraction === undefined
+        ? { value: defaultRecoveryMacFraction.value, basis: defaultRecoveryMacFraction.basis }
+        : { value: input.recoveryMacFraction, basis: 'entered for this plan' },
+    estimates,
+    timeline: timelineOf(outcome, setup.sampleIntervalMin),
+    milestones: {
+      inductionMin: outcome.inductionMin,
+      recoveryMin: outcome.recoveryMin,
+      vaporiserOffMin: offMin,
+      airSacWashin95Breaths: washIn.breaths,
+      airSacWashin95Min: washIn.minutes,
+      airSacWashout95Breaths: washOut.breaths,
+      airSacWashout95Min: washOut.minutes,
+      peakBrainMacMultiple: outcome.peakBrainMacMultiple,
+      lowestVentilationFraction: outcome.lowestVentilationFraction,
+      basis:
+        'Induction: brain (vessel-rich group) reaches the target MAC multiple; recovery: brain falls below the recovery fraction of MAC after the vaporiser is off; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
+    },
+    uncertainty,
+    flows: {
+      recommendedLpm: recommendation.recommendedLpm,
+      minimumLpm: recommendation.minimumLpm,
+      rule: recommendation.rule,
+      basis: recommendation.basis,
+      rebreathing: rebreathing.rebreathing,
+      rebreathingReason: rebreathing.reason,
+      chamberTimeTo95Min: chamberTime,
+    },
+    consumption,
+    oxygen,
+    wasteGas,
+    cautions,
+    massBalance: {
+      deliveredToBirdMl: totals.deliveredToBirdMl,
+      exhaledMl: totals.exhaledMl,
+      uptakeMl: totals.uptakeMl,
+      gasStoredMl: totals.gasStoredMl,
+      bodyStoredMl: totals.bodyStoredMl,
+      vaporiserOutputMl: totals.vaporiserOutputMl,
+    },
+    assumptions: [
+      'Blood/gas and tissue/blood partition coefficients are human values; none measured in birds was found',
+      'Tissue group volumes and blood flows are mammalian fractions applied to the bird',
+      ventilatoryDepressionSlope.basis,
+      rebreathingFlowMultiple.basis,
+      posteriorSacShare.basis,
+      'Within one phase of a breath, gas that enters a space does not leave it in the same phase',
+    ],
+  };
+}
+
+function modelCautions(input: PlanInput, outcome: SimulationOutcome, offMin: number | null, endMin: number): Caution[] {
+  const cautions: Caution[] = [];
+  if (outcome.inductionMin === null && input.schedule.some((step) => step.vaporPct > 0)) {
+    cautions.push({
+      code: 'target-depth-not-reached',
+      severity: 'warning',
+      message: 'The planned depth is not reached with this schedule',
+      reason: `Model prediction: the brain never reaches ${String(input.targetMacMultiple ?? defaultTargetMacMultiple.value)} x MAC before ${endMin.toFixed(0)} min (estimate, see docs/model.md)`,
+    });
+  }
+  if (offMin !== null && outcome.recoveryMin === null) {
+    cautions.push({
+      code: 'recovery-not-within-window',
+      severity: 'notice',
+      message: 'Recovery is not predicted within the simulated window after the vaporiser is off',
+      reason: 'Model prediction: lengthen recoveryWindowMin to see the recovery time (estimate, see docs/model.md)',
+    });
+  }
+  if (outcome.lowestVentilationFraction <= ventilatoryDepressionFloor.value + 1e-9) {
+    cautions.push({
+      code: 'ventilation-at-model-floor',
+      severity: 'danger',
+      message: 'Predicted breathing falls to the model floor: expect apnoea; be ready to ventilate',
+      reason: `${ventilatoryDepressionFloor.basis}; ${ventilatoryDepressionSlope.basis}`,
+    });
+  }
+  return cautions;
+}

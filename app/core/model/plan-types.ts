@@ -1,0 +1,178 @@
+/**
+ * The plan the model reads and the result it returns, as plain data. The contract
+ * (app/contract/plan.ts) validates JSON into PlanInput and describes PlanResult with zod; the two
+ * are checked against each other at compile time there.
+ */
+import type { AgentId } from '../agents.js';
+import type { CylinderSpec } from '../budget/oxygen.js';
+import type { Circuit, Route } from '../budget/flows.js';
+import type { Caution } from '../cautions.js';
+import type { Estimate, MeasuredOverrides } from './allometry.js';
+
+export type PlanVentilation =
+  | { readonly mode: 'spontaneous' }
+  | { readonly mode: 'ippv'; readonly breathsPerMin: number; readonly tidalVolumeMl: number; readonly fromMin?: number | undefined };
+
+export type PlanScheduleStep = { readonly atMin: number; readonly vaporPct: number };
+
+export type PlanInput = {
+  /** Free text shown on the worksheet (the bird's name). */
+  readonly patientName?: string | undefined;
+  /** Body mass in g, 5-15000. */
+  readonly bodyMassG: number;
+  readonly speciesId?: string | undefined;
+  readonly overrides?: MeasuredOverrides | undefined;
+  readonly agent: AgentId;
+  /** MAC for this bird, vol %; else the species' published value, else the agent default. */
+  readonly macPct?: number | undefined;
+  readonly route: Route;
+  readonly circuit?: Circuit | undefined;
+  readonly freshGasLpm: number;
+  readonly chamberVolumeL?: number | undefined;
+  readonly maskDeadSpaceMl?: number | undefined;
+  readonly maskLeakFraction?: number | undefined;
+  readonly circuitVolumeL?: number | undefined;
+  /** Vaporiser steps, sorted by atMin, the first at 0. */
+  readonly schedule: readonly PlanScheduleStep[];
+  readonly ventilation?: PlanVentilation | undefined;
+  readonly targetMacMultiple?: number | undefined;
+  readonly recoveryMacFraction?: number | undefined;
+  /** Minutes simulated after the last schedule step. */
+  readonly recoveryWindowMin?: number | undefined;
+  readonly scavenging?: boolean | undefined;
+  readonly room?: { readonly volumeM3: number; readonly airChangesPerHour: number } | undefined;
+  readonly cylinder?: CylinderSpec | undefined;
+  readonly vaporiserTemperatureC?: number | undefined;
+  readonly uncertainty?: { readonly samples: number; readonly seed: number } | undefined;
+};
+
+export type PlanEstimates = {
+  readonly tidalVolumeMl: Estimate;
+  readonly breathsPerMin: Estimate;
+  readonly minuteVentilationMlMin: Estimate;
+  readonly trachealDeadSpaceMl: Estimate;
+  readonly lungVolumeMl: Estimate;
+  readonly anteriorSacsMl: Estimate;
+  readonly posteriorSacsMl: Estimate;
+  readonly airSacVolumeMl: Estimate;
+  readonly heartRatePerMin: Estimate;
+  readonly cardiacOutputMlMin: Estimate;
+};
+
+export type PlanTimeline = {
+  readonly sampleIntervalMin: number;
+  readonly timeMin: readonly number[];
+  readonly inspiredPct: readonly number[];
+  readonly tracheaPct: readonly number[];
+  readonly posteriorSacsPct: readonly number[];
+  readonly parabronchialPct: readonly number[];
+  readonly anteriorSacsPct: readonly number[];
+  readonly arterialPct: readonly number[];
+  readonly brainPct: readonly number[];
+  readonly musclePct: readonly number[];
+  readonly fatPct: readonly number[];
+};
+
+export type PlanMilestones = {
+  /** Minutes from the start until the brain reaches the target depth; null if never. */
+  readonly inductionMin: number | null;
+  /** Minutes after the vaporiser is turned off until the brain falls below the arousal threshold; null if not within the window or never off. */
+  readonly recoveryMin: number | null;
+  readonly vaporiserOffMin: number | null;
+  readonly airSacWashin95Breaths: number | null;
+  readonly airSacWashin95Min: number | null;
+  readonly airSacWashout95Breaths: number | null;
+  readonly airSacWashout95Min: number | null;
+  readonly peakBrainMacMultiple: number;
+  /** Lowest spontaneous ventilation as a fraction of resting (anaesthetic depression). */
+  readonly lowestVentilationFraction: number;
+  readonly basis: string;
+};
+
+export type Percentiles = { readonly p5: number; readonly p50: number; readonly p95: number };
+
+export type UncertaintyParameter = { readonly name: string; readonly low: number; readonly high: number; readonly basis: string };
+
+export type PlanUncertainty = {
+  readonly samples: number;
+  readonly seed: number;
+  /** 5th and 95th percentile of the brain partial pressure (vol %) at each timeline point; null without samples. */
+  readonly brainBandPct: { readonly p5: readonly number[]; readonly p95: readonly number[] } | null;
+  readonly inductionMin: Percentiles | null;
+  readonly recoveryMin: Percentiles | null;
+  /** Samples in which the milestone was reached, out of `samples`. */
+  readonly inductionReached: number;
+  readonly recoveryReached: number;
+  readonly parameters: readonly UncertaintyParameter[];
+  readonly method: string;
+};
+
+export type PlanFlows = {
+  readonly recommendedLpm: number;
+  readonly minimumLpm: number;
+  readonly rule: string;
+  readonly basis: string;
+  readonly rebreathing: boolean;
+  readonly rebreathingReason: string;
+  readonly chamberTimeTo95Min: number | null;
+};
+
+export type PlanConsumption = {
+  readonly vapourMlPerLiquidMl: number;
+  readonly liquidMl: number;
+  readonly maintenanceVaporPct: number;
+  readonly liquidMlPerHour: number;
+  readonly basis: string;
+};
+
+export type PlanOxygen = {
+  readonly durationMin: number;
+  readonly usedL: number;
+  readonly cylinderContentL: number | null;
+  readonly enduranceMin: number | null;
+  readonly suffices: boolean | null;
+  readonly basis: string;
+};
+
+export type PlanWasteGas = {
+  readonly scavenging: boolean;
+  readonly roomVolumeM3: number;
+  readonly airChangesPerHour: number;
+  readonly sources: readonly { readonly source: string; readonly vapourMl: number; readonly basis: string }[];
+  readonly releasedVapourMl: number;
+  readonly peakPpm: number;
+  readonly highestHourMeanPpm: number;
+  readonly ceilingPpm: number;
+  readonly exceedsCeiling: boolean;
+  readonly basis: string;
+};
+
+export type PlanMassBalance = {
+  readonly deliveredToBirdMl: number;
+  readonly exhaledMl: number;
+  readonly uptakeMl: number;
+  readonly gasStoredMl: number;
+  readonly bodyStoredMl: number;
+  readonly vaporiserOutputMl: number;
+};
+
+export type PlanResult = {
+  readonly modelVersion: string;
+  readonly patientName: string | null;
+  readonly speciesId: string | null;
+  readonly agent: AgentId;
+  readonly mac: { readonly valuePct: number; readonly basis: string };
+  readonly targetMacMultiple: number;
+  readonly recoveryMacFraction: { readonly value: number; readonly basis: string };
+  readonly estimates: PlanEstimates;
+  readonly timeline: PlanTimeline;
+  readonly milestones: PlanMilestones;
+  readonly uncertainty: PlanUncertainty;
+  readonly flows: PlanFlows;
+  readonly consumption: PlanConsumption;
+  readonly oxygen: PlanOxygen;
+  readonly wasteGas: PlanWasteGas;
+  readonly cautions: readonly Caution[];
+  readonly massBalance: PlanMassBalance;
+  readonly assumptions: readonly string[];
+};

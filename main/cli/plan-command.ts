@@ -1,0 +1,118 @@
+/**
+ * `syrinx plan FILE` (or `-` for standard input): validates a plan, computes it and prints the
+ * result JSON, or with `--summary` a short table. Invalid input: exit code 2, one line per bad
+ * field on standard error, nothing on standard output.
+ */
+import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
+import { computePlan } from '../../app/core/model/compute-plan.js';
+import type { PlanResult } from '../../app/core/model/plan-types.js';
+import { speciesReference } from '../../app/core/species-reference.js';
+
+export type PlanCommandIo = {
+  readonly stdin: NodeJS.ReadableStream;
+  readonly stdout: (text: string) => void;
+  readonly stderr: (text: string) => void;
+  readonly readFile: (path: string) => Promise<string>;
+};
+
+export const planCommandUsage = 'Usage: syrinx plan FILE [--summary]   (FILE may be - for standard input)';
+
+async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
+  const chunks: string[] = [];
+  for await (const chunk of stream) chunks.push(typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8'));
+  return chunks.join('');
+}
+
+/**
+ * Runs `syrinx plan`.
+ * @param args arguments after `plan`
+ * @param io standard streams and a file reader (injected so tests run without a process)
+ * @returns exit code: 0 done, 2 bad usage or invalid plan, 1 unexpected failure
+ */
+export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise<number> {
+  let summary = false;
+  const files: string[] = [];
+  for (const arg of args) {
+    if (arg === '--summary') summary = true;
+    else if (arg === '--help' || arg === '-h') {
+      io.stdout(`${planCommandUsage}\n`);
+      return 0;
+    } else if (arg.startsWith('--')) {
+      io.stderr(`syrinx plan: unknown option ${arg}\n${planCommandUsage}\n`);
+      return 2;
+    } else files.push(arg);
+  }
+  const file = files[0];
+  if (file === undefined || files.length > 1) {
+    io.stderr(`syrinx plan: give exactly one plan file\n${planCommandUsage}\n`);
+    return 2;
+  }
+  let text: string;
+  try {
+    text = file === '-' ? await readStream(io.stdin) : await io.readFile(file);
+  } catch (error) {
+    io.stderr(`syrinx plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`);
+    return 2;
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (error) {
+    io.stderr(`syrinx plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`);
+    return 2;
+  }
+  const parsed = planInputSchema.safeParse(json);
+  if (!parsed.success) {
+    const lines = planIssueMessages(parsed.error);
+    io.stderr(`syrinx plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`);
+    return 2;
+  }
+  let result: PlanResult;
+  try {
+    result = computePlan(parsed.data, { species: speciesReference });
+  } catch (error) {
+    io.stderr(`syrinx plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`);
+    return 1;
+  }
+  io.stdout(summary ? formatPlanSummary(result) : `${JSON.stringify(result, null, 2)}\n`);
+  return 0;
+}
+
+function minutes(value: number | null): string {
+  return value === null ? 'not reached' : `${value.toFixed(1)} min`;
+}
+
+function band(value: { p5: number; p50: number; p95: number } | null): string {
+  return value === null ? '' : `  (p5-p95 ${value.p5.toFixed(1)}-${value.p95.toFixed(1)} min)`;
+}
+
+/**
+ * A short human-readable table of a computed plan.
+ * @param result computed plan
+ */
+export function formatPlanSummary(result: PlanResult): string {
+  const e = result.estimates;
+  const m = result.milestones;
+  const rows: [string, string][] = [
+    ['Patient', `${result.patientName ?? '(unnamed)'}${result.speciesId === null ? '' : `, ${result.speciesId}`}`],
+    ['Agent / MAC', `${result.agent}, MAC ${result.mac.valuePct.toFixed(2)} % (${result.mac.basis})`],
+    ['Tidal volume', `${e.tidalVolumeMl.value.toPrecision(3)} mL`],
+    ['Breathing rate', `${e.breathsPerMin.value.toPrecision(3)} /min`],
+    ['Minute ventilation', `${e.minuteVentilationMlMin.value.toPrecision(3)} mL/min`],
+    ['Tracheal dead space', `${e.trachealDeadSpaceMl.value.toPrecision(3)} mL`],
+    ['Air sacs (ant./post.)', `${e.anteriorSacsMl.value.toPrecision(3)} / ${e.posteriorSacsMl.value.toPrecision(3)} mL`],
+    ['Heart rate / output', `${e.heartRatePerMin.value.toPrecision(3)} /min, ${e.cardiacOutputMlMin.value.toPrecision(3)} mL/min`],
+    ['Induction', `${minutes(m.inductionMin)}${band(result.uncertainty.inductionMin)}`],
+    ['Recovery after off', `${minutes(m.recoveryMin)}${band(result.uncertainty.recoveryMin)}`],
+    ['Air-sac wash-in 95 %', m.airSacWashin95Breaths === null ? 'not reached' : `${String(m.airSacWashin95Breaths)} breaths, ${minutes(m.airSacWashin95Min)}`],
+    ['Air-sac washout 95 %', m.airSacWashout95Breaths === null ? 'not reached' : `${String(m.airSacWashout95Breaths)} breaths, ${minutes(m.airSacWashout95Min)}`],
+    ['Fresh gas', `recommended ${result.flows.recommendedLpm.toFixed(2)} L/min, minimum ${result.flows.minimumLpm.toFixed(2)} L/min`],
+    ['Liquid agent', `${result.consumption.liquidMl.toFixed(1)} mL for the plan, ${result.consumption.liquidMlPerHour.toFixed(1)} mL/h at ${String(result.consumption.maintenanceVaporPct)} %`],
+    ['Oxygen', `${result.oxygen.usedL.toFixed(0)} L${result.oxygen.enduranceMin === null ? '' : `, cylinder lasts ${result.oxygen.enduranceMin.toFixed(0)} min`}`],
+    ['Waste gas peak', `${result.wasteGas.peakPpm.toFixed(2)} ppm (ceiling ${String(result.wasteGas.ceilingPpm)} ppm)`],
+  ];
+  const width = Math.max(...rows.map(([label]) => label.length));
+  const lines = rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`);
+  const cautions = result.cautions.map((caution) => `  [${caution.severity}] ${caution.message}`);
+  return `${lines.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
+}

@@ -1,0 +1,29 @@
+import type { PlanInput } from '../../../app/core/model/plan-types.js';
+
+/** A 30 g bird on mask isoflurane for 2 h (the benchmark plan). */
+export const twoHourBudgerigarPlan: PlanInput = {
+  bodyMassG: 30,
+  agent: 'isoflurane',
+  route: 'mask',
+  freshGasLpm: 1,
+  schedule: [
+    { atMin: 0, vaporPct: 4 },
+    { atMin: 10, vaporPct: 2 },
+    { atMin: 90, vaporPct: 0 },
+  ],
+  uncertainty: { samples: 0, seed: 1 },
+};
+
+/** A 2.4 kg duck intubated on a non-rebreathing system for 2 h (90 min on, 30 min recovery). */
+export const duckPlan: PlanInput = {
+  bodyMassG: 2400,
+  agent: 'isoflurane',
+  route: 'endotracheal',
+  freshGasLpm: 2,
+  schedule: [
+    { atMin: 0, vaporPct: 3 },
+    { atMin: 10, vaporPct: 2 },
+    { atMin: 90, vaporPct: 0 },
+  ],
+  uncertainty: { samples: 0, seed: 1 },
+};
