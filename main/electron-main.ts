@@ -73,6 +73,36 @@ function registerChannels(backEnd: BackEnd): void {
   }
 }
 
+/** File name for the save dialog: letters, digits and hyphens only, ending in .pdf. */
+function safePdfName(suggested: unknown): string {
+  const stem = typeof suggested === 'string' ? suggested.replace(/\.pdf$/i, '').replace(/[^A-Za-z0-9-]+/g, '-').slice(0, 80) : '';
+  return `${stem === '' ? 'syrinx-worksheet' : stem}.pdf`;
+}
+
+/**
+ * 'Save as PDF' for the worksheet: the window's own page printed by Chromium with the page size
+ * the worksheet's CSS names (A4 or US Letter), written where the user chooses.
+ */
+function registerWorksheetPdf(): void {
+  ipcMain.handle('syrinx:worksheet-pdf', async (event, suggestedName: unknown) => {
+    if (!isOwnFrame(event.senderFrame?.url)) return { saved: false, error: 'Refused: the request did not come from the Syrinx window.' };
+    const window = BrowserWindow.fromWebContents(event.sender);
+    const options = { title: 'Save worksheet as PDF', defaultPath: path.join(app.getPath('documents'), safePdfName(suggestedName)), filters: [{ name: 'PDF', extensions: ['pdf'] }] };
+    const choice = window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
+    if (choice.canceled || choice.filePath === undefined) return { saved: false };
+    try {
+      const pdf = await event.sender.printToPDF({ preferCSSPageSize: true, printBackground: true });
+      // Written beside the target and renamed, so a failed write never leaves half a file under the chosen name.
+      const partial = `${choice.filePath}.partial`;
+      await fs.promises.writeFile(partial, pdf);
+      await fs.promises.rename(partial, choice.filePath);
+      return { saved: true, file: choice.filePath };
+    } catch (error) {
+      return { saved: false, error: error instanceof Error ? error.message : String(error) };
+    }
+  });
+}
+
 async function createWindow(root: string): Promise<void> {
   const window = new BrowserWindow({
     width: 1280,
@@ -117,6 +147,7 @@ async function main(): Promise<void> {
   harden();
   registerProtocol(root);
   registerChannels(backEnd);
+  registerWorksheetPdf();
   app.on('window-all-closed', () => {
     backEnd.close();
     app.quit();

@@ -5,6 +5,11 @@ import type { SyrinxDatabase } from '../db/connection.js';
 import { schemaVersion } from '../db/connection.js';
 import { createSettingsRepository } from '../db/repositories/settings-repository.js';
 import { createSafetyAcknowledgementRepository } from '../db/repositories/safety-acknowledgement-repository.js';
+import { listBackups } from '../db/backup.js';
+import { exportDatabaseJson } from '../db/export.js';
+import { backupFolder } from './automatic-backup.js';
+import { createPlanHandlers } from './plan-handlers.js';
+import { createDrugHandlers } from './drug-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 
 export type HandlerContext = {
@@ -53,7 +58,18 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     },
     'settings:get': () => settings.get(),
     'settings:save': (request) => settings.save(request, context.now()),
+    'database:export-json': () => {
+      const at = context.now();
+      const exported = exportDatabaseJson(context.db, { appVersion: context.appVersion, exportedAt: at });
+      return { fileName: `syrinx-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`, json: JSON.stringify(exported, null, 2) };
+    },
+    'database:backups': () => {
+      const folder = backupFolder(context.dataDirectory);
+      return { folder, backups: listBackups(folder).map((backup) => ({ file: backup.file, takenAt: backup.takenAt, sizeBytes: backup.sizeBytes })) };
+    },
     ...createRecordHandlers(context.db, context.now),
+    ...createPlanHandlers(context.db, context.now),
+    ...createDrugHandlers(context.db, context.now),
   };
 }
 

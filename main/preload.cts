@@ -1,4 +1,4 @@
-// Sandboxed preload: exposes one narrow function. Channel names come from the main process, so
+// Sandboxed preload: exposes two narrow functions. Channel names come from the main process, so
 // the renderer can reach only the contract's channels and nothing else of Electron or Node.
 import electron = require('electron');
 
@@ -10,5 +10,9 @@ electron.contextBridge.exposeInMainWorld('syrinx', {
       return Promise.resolve({ ok: false, error: { code: 'unknown-channel', message: `There is no channel called ${String(channel)}.` } });
     }
     return electron.ipcRenderer.invoke(channel, request);
+  },
+  /** Prints the shown worksheet to a PDF file the user picks; only a suggested file name crosses over. */
+  saveWorksheetPdf(suggestedName: string): Promise<unknown> {
+    return electron.ipcRenderer.invoke('syrinx:worksheet-pdf', typeof suggestedName === 'string' ? suggestedName : '');
   },
 });

@@ -2,6 +2,8 @@ import { z } from 'zod';
 import { clinicSettingsSchema, storedSettingsSchema } from './settings.js';
 import { acknowledgeRequestSchema, safetyStatusSchema } from './safety.js';
 import { recordChannels } from './record-channels.js';
+import { planChannels } from './plan-records.js';
+import { drugChannels } from './drug-channels.js';
 
 const empty = z.object({}).strict();
 
@@ -23,7 +25,14 @@ export const channels = {
   'safety:acknowledge': { request: acknowledgeRequestSchema, response: safetyStatusSchema },
   'settings:get': { request: empty, response: storedSettingsSchema },
   'settings:save': { request: clinicSettingsSchema, response: storedSettingsSchema },
+  'database:export-json': { request: empty, response: z.object({ fileName: z.string(), json: z.string() }) },
+  'database:backups': {
+    request: empty,
+    response: z.object({ folder: z.string(), backups: z.array(z.object({ file: z.string(), takenAt: z.string(), sizeBytes: z.number() })) }),
+  },
   ...recordChannels,
+  ...planChannels,
+  ...drugChannels,
 } as const;
 
 export type Channels = typeof channels;

@@ -5,3 +5,6 @@ export * from './safety.js';
 export * from './settings.js';
 export * from './record-channels.js';
 export * from './records.js';
+export * from './drug-channels.js';
+export * from './plan-records.js';
+export * from './species-mapping.js';

@@ -5,13 +5,14 @@ import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
 import { PatientsArea } from './patients/patients-area.js';
+import { PlansArea } from './plans/plans-area.js';
 import { RecordsArea } from './records/records-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
 import { SettingsScreen } from './settings/settings-screen.js';
-import { areas, routeFromHash, type Route } from './shell/areas.js';
-import { NotBuilt } from './shell/not-built.js';
+import { routeFromHash, type Route } from './shell/areas.js';
 import { Shell } from './shell/shell.js';
 import { SpeciesArea } from './species/species-area.js';
+import { WorksheetsArea } from './worksheets/worksheets-area.js';
 
 function useRoute(): Route {
   const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
@@ -38,12 +39,14 @@ function AreaContent({ route }: { readonly route: Route }) {
       return <PatientsArea route={route} />;
     case 'species':
       return <SpeciesArea route={route} />;
+    case 'plans':
+      return <PlansArea route={route} />;
     case 'records':
       return <RecordsArea route={route} />;
-    default: {
-      const definition = areas.find((candidate) => candidate.id === route.area);
-      return definition === undefined ? null : <NotBuilt area={definition} />;
-    }
+    case 'worksheets':
+      return <WorksheetsArea route={route} />;
+    case 'settings':
+      return null;
   }
 }
 

@@ -1,9 +1,10 @@
 import { clinicSettingsMigration } from './0001-clinic-settings.js';
 import { clinicRecordsMigration } from './0002-clinic-records.js';
+import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
 /** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
-export const migrations: readonly Migration[] = [clinicSettingsMigration, clinicRecordsMigration];
+export const migrations: readonly Migration[] = [clinicSettingsMigration, clinicRecordsMigration, emergencyDrugsMigration];
 
 export const latestSchemaVersion = migrations.length;

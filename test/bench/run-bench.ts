@@ -2,6 +2,8 @@ import { benchFoundation } from './foundation-bench.js';
 import { printFigures } from './figures.js';
 import { benchModel } from './model-bench.js';
 import { benchRecords } from './records-bench.js';
+import { benchWorksheet } from './worksheet-bench.js';
+import { benchPlanningScreen } from './planning-bench.js';
 
 /** `npm run bench`: prints figures; targets are read by people, never asserted in tests. */
 async function main(): Promise<void> {
@@ -14,6 +16,8 @@ async function main(): Promise<void> {
       .map(([name, value]) => ({ name, value, unit: /Ms$/.test(name) ? 'ms' : /Ratio$/.test(name) ? 'x' : '' })),
   );
   printFigures('Records', await benchRecords());
+  printFigures('Planning screen (target: keystroke to redrawn chart within one 16.7 ms frame)', await benchPlanningScreen());
+  printFigures('Worksheet (target: PDF under 2 s)', await benchWorksheet());
 }
 
 main().catch((error: unknown) => {

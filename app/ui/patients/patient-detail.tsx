@@ -4,6 +4,26 @@ import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { WeightsPanel } from './weights-panel.js';
 
+function PatientPlans({ patientId }: { readonly patientId: number }) {
+  const [load] = useChannel('plans:for-patient', { patientId });
+  if (load.state !== 'ready') return load.state === 'failed' ? <p className="form-error">{load.error.message}</p> : null;
+  if (load.value.length === 0) return <p className="muted">No plans yet.</p>;
+  return (
+    <ul>
+      {load.value.map((plan) => (
+        <li key={plan.id}>
+          <a href={href('plans', plan.id)}>
+            {plan.plannedFor}: {plan.agent}, {plan.route}
+            {plan.label === '' ? '' : ` (${plan.label})`}
+          </a>{' '}
+          · <a href={href('worksheets', plan.id)}>worksheet</a>
+          {plan.openChecklistItems > 0 && <span className="muted"> · checklist {plan.openChecklistItems} open</span>}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 /** One bird: details with their history, weights with trend flags, procedure records. */
 export function PatientDetailScreen({ patientId }: { readonly patientId: number }) {
   const [load, reload] = useChannel('patients:get', { id: patientId });
@@ -100,7 +120,12 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
             </a>
           </p>
           <h2>Anaesthetic plans</h2>
-          <p className="muted">Planning is not built yet in this version.</p>
+          <PatientPlans patientId={patient.id} />
+          <p>
+            <a className="button-link" href={href('plans', 'new', patient.id)}>
+              New plan
+            </a>
+          </p>
         </section>
       </div>
       <WeightsPanel detail={detail} onChanged={reload} />

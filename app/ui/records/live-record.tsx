@@ -15,6 +15,7 @@ import { EntryTable } from './entry-table.js';
 import { useInitialsGate } from './initials-gate.js';
 import { apnoeaActionSeconds, apnoeaNote, eventLabels, promptState, recoveryMilestones, stoppedStopwatch, stopwatchLevel, stopwatchSeconds, toggleStopwatch, type Stopwatch } from './monitoring.js';
 import { airwayText, asaText, circuitLabels } from './record-form.js';
+import { PlanComparison } from './plan-comparison.js';
 import { recordSeries } from './record-series.js';
 
 /** The key that starts and stops the apnoea stopwatch: no clash with typing numbers. */
@@ -209,7 +210,7 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
       <div className="record-body">
         <div className="record-chart-panel">
           <RecordChart startedAt={values.startedAt} entries={entries} units={units} untilMinutes={Math.ceil(((endedAtMs ?? nowMs) - startedAtMs) / 60_000) + 1} />
-          <p className="record-plan-line">{values.planId === null ? 'No plan linked.' : `Plan ${values.planId} linked; its predicted curve is not drawn in this version.`}</p>
+          {values.planId === null ? <p className="record-plan-line">No plan linked.</p> : <PlanComparison planId={values.planId} startedAt={values.startedAt} entries={entries} />}
           <PromptInterval values={values} onSave={correctRecord} />
         </div>
         <EntryTable

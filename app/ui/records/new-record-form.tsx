@@ -1,4 +1,5 @@
 import { useId, useState, type FormEvent } from 'react';
+import type { PlanSummary } from '../../contract/plan-records.js';
 import { airways, circuits, cropStates, tubeTypes } from '../../contract/records.js';
 import { formatMass } from '../../core/units.js';
 import { api } from '../common/bridge.js';
@@ -109,6 +110,22 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
         {latest === null && ', no weight recorded'}
       </p>
       <form onSubmit={submit} noValidate className="form record-new-form">
+        <LinkedPlan
+          patientId={patientId}
+          planId={draft.planId}
+          onChoose={(plan) =>
+            setDraft((current) => ({
+              ...current,
+              planId: plan === null ? null : plan.id,
+              ...(plan === null
+                ? {}
+                : {
+                    airway: current.airway === '' ? (plan.route as RecordDraft['airway']) : current.airway,
+                    procedureName: current.procedureName === '' ? plan.label : current.procedureName,
+                  }),
+            }))
+          }
+        />
         <TextBox label="Procedure" name="procedureName" value={draft.procedureName} error={errors['procedureName']} autoFocus onChange={(value) => update('procedureName', value)} />
         <TextBox label="Start" name="startedAt" type="datetime-local" value={draft.startedAtLocal} error={errors['startedAt']} hint="Now unless you change it." onChange={(value) => update('startedAtLocal', value)} />
         <div className="record-form-pair">
@@ -163,5 +180,31 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
         </div>
       </form>
     </section>
+  );
+}
+
+/** Choose the saved plan this procedure follows; its predicted curve is then drawn beside the log. */
+function LinkedPlan({ patientId, planId, onChoose }: { readonly patientId: number; readonly planId: number | null; readonly onChoose: (plan: PlanSummary | null) => void }) {
+  const [plans] = useChannel('plans:for-patient', { patientId });
+  const id = useId();
+  if (plans.state !== 'ready' || plans.value.length === 0) return <p className="hint">No saved plan for this bird; the record can still be kept.</p>;
+  return (
+    <div className="field">
+      <label htmlFor={id}>Linked plan</label>
+      <select
+        id={id}
+        name="planId"
+        value={planId === null ? '' : String(planId)}
+        onChange={(event) => onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)}
+      >
+        <option value="">no plan</option>
+        {plans.value.map((plan) => (
+          <option key={plan.id} value={plan.id}>
+            Plan {plan.id}, {plan.plannedFor}: {plan.agent}, {plan.route}
+            {plan.label === '' ? '' : ` (${plan.label})`}
+          </option>
+        ))}
+      </select>
+    </div>
   );
 }

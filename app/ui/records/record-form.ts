@@ -21,6 +21,8 @@ export type RecordDraft = {
   readonly circuit: (typeof circuits)[number] | '';
   readonly staffInitials: string;
   readonly promptIntervalMin: string;
+  /** The saved anaesthetic plan this procedure follows, if any. */
+  readonly planId: number | null;
 };
 
 /**
@@ -42,6 +44,7 @@ export function emptyRecordDraft(startedAtLocal: string, staffInitials: string):
     circuit: '',
     staffInitials,
     promptIntervalMin: String(defaultPromptIntervalMin),
+    planId: null,
   };
 }
 
@@ -63,7 +66,7 @@ export function checkRecordDraft(draft: RecordDraft): { readonly ok: true; reado
   const interval = parseNumber(draft.promptIntervalMin);
   if (interval === 'invalid' || interval === null) errors['promptIntervalMin'] = 'Prompt interval must be a number of minutes, 1 to 30.';
   const candidate = {
-    planId: null,
+    planId: draft.planId,
     startedAt: startedAt ?? '',
     endedAt: null,
     asaGrade: draft.asaGrade === 0 ? null : draft.asaGrade,

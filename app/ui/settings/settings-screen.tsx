@@ -15,6 +15,7 @@ import { agentIds, agents } from '../../core/agents.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { Choice, TextField } from '../common/fields.js';
+import { EmergencyDrugs } from './emergency-drugs.js';
 
 type Props = {
   readonly stored: StoredSettings;
@@ -96,6 +97,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           {safety.last.appVersion}.
         </p>
       )}
+      {!firstRun && <EmergencyDrugs />}
     </section>
   );
 }

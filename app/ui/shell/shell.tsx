@@ -41,10 +41,9 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
         <ul>
           {areas.map((area, index) => (
             <li key={area.id}>
-              <a href={`#/${area.id}`} aria-current={area.id === current ? 'page' : undefined} className={area.id === current ? 'current' : undefined}>
+              <a href={`#/${area.id}`} title={area.purpose} aria-current={area.id === current ? 'page' : undefined} className={area.id === current ? 'current' : undefined}>
                 <span>{area.title}</span>
                 <kbd aria-label={`Alt ${index + 1}`}>Alt+{index + 1}</kbd>
-                {!area.built && <span className="badge">not built</span>}
               </a>
             </li>
           ))}

@@ -1,0 +1,110 @@
+import { z } from 'zod';
+import { planInputSchema, planResultSchema } from './plan.js';
+import { patientSchema, recordStampSchema, speciesSchema } from './records.js';
+
+/** State of one pre-anaesthetic checklist item. */
+export const checklistStates = ['open', 'done', 'not applicable'] as const;
+
+export const checklistItems = [
+  { key: 'fastingAndCrop', label: 'Fasting and crop check' },
+  { key: 'hydration', label: 'Hydration assessed' },
+  { key: 'bloods', label: 'Bloods (if taken) reviewed' },
+  { key: 'equipmentLeakCheck', label: 'Equipment leak check' },
+  { key: 'oxygenSupply', label: 'Oxygen supply checked' },
+  { key: 'scavenging', label: 'Scavenging connected' },
+  { key: 'emergencyCard', label: 'Emergency card ready' },
+] as const;
+
+export type ChecklistKey = (typeof checklistItems)[number]['key'];
+
+const itemState = z.enum(checklistStates).default('open');
+
+export const checklistSchema = z.object({
+  asaGrade: z.number().int().min(1, { error: 'ASA grade is 1 to 5.' }).max(5, { error: 'ASA grade is 1 to 5.' }).nullable().default(null),
+  emergency: z.boolean().default(false),
+  items: z
+    .object({
+      fastingAndCrop: itemState,
+      hydration: itemState,
+      bloods: itemState,
+      equipmentLeakCheck: itemState,
+      oxygenSupply: itemState,
+      scavenging: itemState,
+      emergencyCard: itemState,
+    })
+    .default({ fastingAndCrop: 'open', hydration: 'open', bloods: 'open', equipmentLeakCheck: 'open', oxygenSupply: 'open', scavenging: 'open', emergencyCard: 'open' }),
+  notes: z.string().trim().max(1000, { error: 'Checklist notes must be at most 1000 characters.' }).default(''),
+});
+export type Checklist = z.infer<typeof checklistSchema>;
+
+const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date as YYYY-MM-DD.' });
+
+export const planFieldsSchema = z.object({
+  patientId: z.number().int().positive().nullable(),
+  plannedFor: isoDate,
+  label: z.string().trim().max(120, { error: 'Label must be at most 120 characters.' }).default(''),
+  input: planInputSchema,
+  checklist: checklistSchema,
+});
+export type PlanFields = z.infer<typeof planFieldsSchema>;
+
+export const savedPlanSchema = z.object({
+  id: z.number().int(),
+  patientId: z.number().int().nullable(),
+  plannedFor: z.string(),
+  label: z.string(),
+  input: planInputSchema,
+  result: planResultSchema,
+  checklist: checklistSchema,
+  modelVersion: z.string(),
+  stamp: recordStampSchema,
+});
+export type SavedPlan = z.infer<typeof savedPlanSchema>;
+
+export const planSummarySchema = z.object({
+  id: z.number().int(),
+  patientId: z.number().int().nullable(),
+  patientName: z.string().nullable(),
+  plannedFor: z.string(),
+  label: z.string(),
+  agent: z.string(),
+  route: z.string(),
+  bodyMassG: z.number(),
+  liquidMl: z.number(),
+  oxygenL: z.number(),
+  inductionMin: z.number().nullable(),
+  openChecklistItems: z.number().int(),
+});
+export type PlanSummary = z.infer<typeof planSummarySchema>;
+
+export const planDetailSchema = z.object({
+  plan: savedPlanSchema,
+  patient: patientSchema.nullable(),
+  species: speciesSchema.nullable(),
+  weightTrendText: z.string().nullable(),
+  history: z.array(z.object({ id: z.number().int(), stamp: recordStampSchema, modelVersion: z.string() })),
+});
+export type PlanDetail = z.infer<typeof planDetailSchema>;
+
+const meta = z.object({
+  enteredBy: z.string().trim().min(1, { error: 'Enter your initials at the top of the screen first; every record carries them.' }).max(80),
+  reason: z.string().trim().max(500).default(''),
+});
+
+/** Planning channels, merged into the one channel table. */
+export const planChannels = {
+  'plans:compute': { request: z.object({ input: planInputSchema }), response: planResultSchema },
+  'plans:save': { request: z.object({ fields: planFieldsSchema, meta }), response: savedPlanSchema },
+  'plans:correct': { request: z.object({ id: z.number().int().positive(), fields: planFieldsSchema, meta }), response: savedPlanSchema },
+  'plans:get': { request: z.object({ id: z.number().int().positive() }), response: planDetailSchema },
+  'plans:for-patient': { request: z.object({ patientId: z.number().int().positive() }), response: z.array(planSummarySchema) },
+  'plans:recent': { request: z.object({ limit: z.number().int().min(1).max(500).default(50) }), response: z.array(planSummarySchema) },
+  'plans:day': {
+    request: z.object({ date: isoDate }),
+    response: z.object({
+      date: z.string(),
+      plans: z.array(planSummarySchema),
+      totals: z.object({ liquidMlByAgent: z.record(z.string(), z.number()), oxygenL: z.number() }),
+    }),
+  },
+} as const;

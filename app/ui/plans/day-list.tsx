@@ -1,0 +1,79 @@
+import { useState } from 'react';
+import { agents, type AgentId } from '../../core/agents.js';
+import { displayMass, todayIso } from '../common/display.js';
+import { TextField } from '../common/fields.js';
+import { useClinicSettings } from '../common/settings-context.js';
+import { useChannel } from '../common/use-channel.js';
+import { href } from '../shell/areas.js';
+import { figure, minutes } from './format.js';
+
+/** The plans for one day with the agent and oxygen the list needs. */
+export function DayList() {
+  const settings = useClinicSettings();
+  const [date, setDate] = useState(todayIso());
+  const [load] = useChannel('plans:day', { date });
+  return (
+    <section className="screen" aria-labelledby="day-title">
+      <h1 id="day-title">Anaesthetic plans</h1>
+      <div className="toolbar">
+        <TextField label="Day" name="day" type="date" value={date} onChange={(value) => value !== '' && setDate(value)} />
+        <a className="button-link" href={href('plans', 'new')}>
+          Quick plan
+        </a>
+        <p className="hint">To plan for a patient, open the patient and choose New plan.</p>
+      </div>
+      {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
+      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'ready' &&
+        (load.value.plans.length === 0 ? (
+          <p className="muted">No plans for {date}.</p>
+        ) : (
+          <>
+            <table className="data-table">
+              <thead>
+                <tr>
+                  <th>Plan</th>
+                  <th>Bird</th>
+                  <th className="number">Mass</th>
+                  <th>Agent and route</th>
+                  <th className="number">To planned depth</th>
+                  <th className="number">Liquid agent</th>
+                  <th className="number">Oxygen</th>
+                  <th>Checklist</th>
+                </tr>
+              </thead>
+              <tbody>
+                {load.value.plans.map((plan) => (
+                  <tr key={plan.id}>
+                    <td>
+                      <a href={href('plans', plan.id)}>
+                        {plan.id}
+                        {plan.label === '' ? '' : ` · ${plan.label}`}
+                      </a>{' '}
+                      · <a href={href('worksheets', plan.id)}>worksheet</a>
+                    </td>
+                    <td>{plan.patientName ?? 'quick plan'}</td>
+                    <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
+                    <td>
+                      {plan.agent}, {plan.route}
+                    </td>
+                    <td className="number">{minutes(plan.inductionMin)}</td>
+                    <td className="number">{figure(plan.liquidMl)} mL</td>
+                    <td className="number">{figure(plan.oxygenL)} L</td>
+                    <td>{plan.openChecklistItems === 0 ? 'complete' : `${plan.openChecklistItems} open`}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            <p className="day-totals" role="status">
+              Day total:{' '}
+              {Object.entries(load.value.totals.liquidMlByAgent)
+                .map(([agent, ml]) => `${figure(ml)} mL liquid ${agents[agent as AgentId].displayName.toLowerCase()}`)
+                .join(', ')}{' '}
+              and {figure(load.value.totals.oxygenL)} L oxygen, before priming, leaks and spillage.
+            </p>
+          </>
+        ))}
+    </section>
+  );
+}

@@ -1,0 +1,155 @@
+import type { PlanResult } from '../../core/model/plan-types.js';
+import { EstimateList } from './estimate-list.js';
+import { figure, minutes, range } from './format.js';
+import { PlanChart } from './plan-chart.js';
+
+type Props = {
+  readonly result: PlanResult;
+  readonly setFreshGasLpm: number | null;
+  readonly pending: boolean;
+  readonly compareWith?: { readonly label: string; readonly result: PlanResult } | undefined;
+};
+
+/** Cautions, ordered danger first; always the first thing in the results. */
+export function CautionList({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
+  if (cautions.length === 0) {
+    return <p className="muted">No cautions for this plan. The bird and the veterinarian still decide.</p>;
+  }
+  return (
+    <ul className="cautions" aria-label="Cautions">
+      {cautions.map((caution) => (
+        <li key={caution.code} className={`flag ${caution.severity}`}>
+          <strong>{caution.severity}</strong>
+          {caution.message}
+          <span className="basis">Why: {caution.reason}</span>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+/** Everything the model says about one plan, each figure with its unit and basis. */
+export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Props) {
+  const milestones = result.milestones;
+  const uncertainty = result.uncertainty;
+  const flows = result.flows;
+  const waste = result.wasteGas;
+  return (
+    <div className="plan-results" aria-busy={pending}>
+      <section className="panel cautions-panel" aria-labelledby="cautions-heading">
+        <h2 id="cautions-heading">Cautions ({result.cautions.length})</h2>
+        <CautionList cautions={result.cautions} />
+      </section>
+
+      <section className="panel" aria-labelledby="milestones-heading">
+        <h2 id="milestones-heading">
+          Predicted times {pending && <span className="computing">updating…</span>}
+        </h2>
+        <dl className="milestones">
+          <div>
+            <dt>Time to planned depth ({result.targetMacMultiple} × MAC)</dt>
+            <dd data-testid="induction-time">
+              {minutes(milestones.inductionMin)}
+              <span className="basis">5th-95th percentile: {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.inductionMin)}</span>
+            </dd>
+          </div>
+          <div>
+            <dt>Recovery after vaporiser off (below {result.recoveryMacFraction.value} × MAC)</dt>
+            <dd data-testid="recovery-time">
+              {minutes(milestones.recoveryMin, milestones.vaporiserOffMin === null ? 'vaporiser never turned off' : 'not within the window')}
+              <span className="basis">5th-95th percentile: {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.recoveryMin)}</span>
+            </dd>
+          </div>
+          <div>
+            <dt>Air sacs at 95 % of inspired</dt>
+            <dd>
+              {milestones.airSacWashin95Breaths === null ? 'not reached' : `${figure(milestones.airSacWashin95Breaths, 2)} breaths, ${minutes(milestones.airSacWashin95Min)}`}
+            </dd>
+          </div>
+          <div>
+            <dt>Air sacs washed out to 5 %</dt>
+            <dd>
+              {milestones.airSacWashout95Breaths === null ? 'not reached' : `${figure(milestones.airSacWashout95Breaths, 2)} breaths, ${minutes(milestones.airSacWashout95Min)}`}
+            </dd>
+          </div>
+          <div>
+            <dt>Deepest predicted brain level</dt>
+            <dd>{figure(milestones.peakBrainMacMultiple, 2)} × MAC</dd>
+          </div>
+        </dl>
+        <p className="basis">
+          MAC used: {figure(result.mac.valuePct)} % ({result.mac.basis}). Arousal threshold: {result.recoveryMacFraction.basis}. {milestones.basis}
+        </p>
+        <PlanChart result={result} compareWith={compareWith} />
+        <p className="basis">Range from {uncertainty.samples} samples: {uncertainty.method}</p>
+      </section>
+
+      <section className="panel" aria-labelledby="flows-heading">
+        <h2 id="flows-heading">Fresh gas, agent and oxygen</h2>
+        <dl className="details">
+          <dt>Recommended fresh gas</dt>
+          <dd>
+            {figure(flows.recommendedLpm)} L/min (rebreathing below {figure(flows.minimumLpm)} L/min){setFreshGasLpm !== null && <> · set: <strong className={setFreshGasLpm < flows.minimumLpm ? 'too-low' : undefined}>{figure(setFreshGasLpm)} L/min</strong></>}
+            <span className="basis">{flows.rule}. {flows.basis}</span>
+            {flows.rebreathing && <span className="basis too-low">{flows.rebreathingReason}</span>}
+          </dd>
+          {flows.chamberTimeTo95Min !== null && (
+            <>
+              <dt>Chamber at 95 % of the dial</dt>
+              <dd>
+                {minutes(flows.chamberTimeTo95Min)}
+                <span className="basis">3 time constants, tau = chamber volume / fresh gas flow (OpenAnesthesia)</span>
+              </dd>
+            </>
+          )}
+          <dt>Liquid {result.agent}</dt>
+          <dd>
+            {figure(result.consumption.liquidMl)} mL for the plan · {figure(result.consumption.liquidMlPerHour)} mL/h at {figure(result.consumption.maintenanceVaporPct)} %
+            <span className="basis">
+              {figure(result.consumption.vapourMlPerLiquidMl)} mL vapour per mL liquid at 20 °C. {result.consumption.basis}
+            </span>
+          </dd>
+          <dt>Oxygen</dt>
+          <dd>
+            {figure(result.oxygen.usedL)} L over {figure(result.oxygen.durationMin)} min
+            {result.oxygen.cylinderContentL !== null && ` · cylinder ${figure(result.oxygen.cylinderContentL)} L, lasts ${minutes(result.oxygen.enduranceMin, 'no flow')} at the set flow`}
+            {result.oxygen.suffices === false && <strong className="too-low"> · not enough for the plan</strong>}
+            <span className="basis">{result.oxygen.basis}</span>
+          </dd>
+        </dl>
+      </section>
+
+      <section className="panel" aria-labelledby="waste-heading">
+        <h2 id="waste-heading">Waste gas in the room</h2>
+        <p>
+          Peak <strong className={waste.exceedsCeiling ? 'too-low' : undefined}>{figure(waste.peakPpm)} ppm</strong> against the {waste.ceilingPpm} ppm ceiling (NIOSH 1977) · highest 1-h mean{' '}
+          {figure(waste.highestHourMeanPpm)} ppm · {figure(waste.releasedVapourMl)} mL vapour released · {waste.scavenging ? 'scavenged' : 'not scavenged'} · room {figure(waste.roomVolumeM3)} m³,{' '}
+          {figure(waste.airChangesPerHour)} air changes/h
+        </p>
+        <ul className="compact">
+          {waste.sources.map((source) => (
+            <li key={source.source}>
+              {source.source}: {figure(source.vapourMl)} mL<span className="basis">{source.basis}</span>
+            </li>
+          ))}
+        </ul>
+        <p className="basis">{waste.basis}</p>
+      </section>
+
+      <section className="panel" aria-labelledby="estimates-heading">
+        <h2 id="estimates-heading">Estimates for this bird</h2>
+        <p className="hint">Hover over a value, or select it, to see its basis.</p>
+        <EstimateList estimates={result.estimates} />
+      </section>
+
+      <section className="panel" aria-labelledby="assumptions-heading">
+        <h2 id="assumptions-heading">Assumptions</h2>
+        <ul className="compact basis-list">
+          {result.assumptions.map((assumption) => (
+            <li key={assumption}>{assumption}</li>
+          ))}
+        </ul>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,227 @@
+import { useCallback, useEffect, useMemo, useState } from 'react';
+import { checklistSchema, type Checklist } from '../../contract/plan-records.js';
+import type { Species } from '../../contract/records.js';
+import { speciesToReference } from '../../contract/species-mapping.js';
+import { api } from '../common/bridge.js';
+import { displayDateTime, displayMass, todayIso } from '../common/display.js';
+import { TextField } from '../common/fields.js';
+import { useClinicSettings } from '../common/settings-context.js';
+import { useWriteMeta } from '../common/write-meta.js';
+import { href } from '../shell/areas.js';
+import { ChecklistPanel } from './checklist-panel.js';
+import { CompareTable } from './compare-table.js';
+import { defaultDraft, inputToDraft, type PlanDraft } from './plan-draft.js';
+import { PlanForm } from './plan-form.js';
+import { CautionList, PlanResults } from './plan-results.js';
+import { usePlanComputation } from './use-plan-computation.js';
+
+export type PlanningStart = { readonly kind: 'quick' } | { readonly kind: 'patient'; readonly patientId: number } | { readonly kind: 'saved'; readonly planId: number };
+
+type Context = {
+  readonly patientId: number | null;
+  readonly patientLabel: string | null;
+  readonly savedPlanId: number | null;
+  readonly savedStamp: string | null;
+};
+
+const emptyChecklist: Checklist = checklistSchema.parse({});
+
+/** Plan an anaesthetic: inputs on the left, predictions redrawn on every change on the right. */
+export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
+  const settings = useClinicSettings();
+  const writeMeta = useWriteMeta();
+  const [species, setSpecies] = useState<Species[]>([]);
+  const [draftA, setDraftA] = useState<PlanDraft>(() => defaultDraft(settings.defaultAgent, settings.massUnit));
+  const [draftB, setDraftB] = useState<PlanDraft | null>(null);
+  const [active, setActive] = useState<'A' | 'B'>('A');
+  const [checklist, setChecklist] = useState<Checklist>(emptyChecklist);
+  const [plannedFor, setPlannedFor] = useState(todayIso());
+  const [label, setLabel] = useState('');
+  const [context, setContext] = useState<Context>({ patientId: null, patientLabel: null, savedPlanId: null, savedStamp: null });
+  const [loadFailure, setLoadFailure] = useState<string | null>(null);
+  const [saveMessage, setSaveMessage] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [loaded, setLoaded] = useState(start.kind === 'quick');
+
+  useEffect(() => {
+    void api.invoke('species:list', {}).then((answer) => (answer.ok ? setSpecies(answer.value) : setLoadFailure(answer.error.message)));
+  }, []);
+
+  useEffect(() => {
+    if (start.kind === 'patient') {
+      void api.invoke('patients:get', { id: start.patientId }).then((answer) => {
+        if (!answer.ok) return setLoadFailure(answer.error.message);
+        const { patient, trend } = answer.value;
+        const massG = trend.latest?.massG ?? null;
+        setDraftA((current) => ({
+          ...current,
+          patientName: patient.values.name,
+          speciesId: patient.values.speciesKey,
+          massText: massG === null ? '' : String(settings.massUnit === 'kg' ? massG / 1000 : massG),
+        }));
+        const weightText = trend.latest === null ? 'no weight recorded' : `${displayMass(trend.latest.massG, settings.massUnit)} on ${trend.latest.weighedOn}`;
+        setContext({ patientId: patient.id, patientLabel: `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey} · ${weightText}`, savedPlanId: null, savedStamp: null });
+        setLoaded(true);
+      });
+    } else if (start.kind === 'saved') {
+      void api.invoke('plans:get', { id: start.planId }).then((answer) => {
+        if (!answer.ok) return setLoadFailure(answer.error.message);
+        const { plan, patient } = answer.value;
+        setDraftA(inputToDraft(plan.input, settings.massUnit));
+        setChecklist(plan.checklist);
+        setPlannedFor(plan.plannedFor);
+        setLabel(plan.label);
+        setContext({
+          patientId: plan.patientId,
+          patientLabel: patient === null ? (plan.input.patientName ?? null) : `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey}`,
+          savedPlanId: plan.id,
+          savedStamp: `${displayDateTime(plan.stamp.enteredAt)} by ${plan.stamp.enteredBy}`,
+        });
+        setLoaded(true);
+      });
+    }
+  }, [start, settings.massUnit]);
+
+  const references = useMemo(() => species.map(speciesToReference), [species]);
+  const computationA = usePlanComputation(draftA, references, loaded);
+  const computationB = usePlanComputation(draftB ?? draftA, references, loaded && draftB !== null);
+  const shownDraft = active === 'B' && draftB !== null ? draftB : draftA;
+  const shownComputation = active === 'B' && draftB !== null ? computationB : computationA;
+
+  async function save() {
+    setSaveMessage(null);
+    if (computationA.input === null) {
+      setSaveMessage({ kind: 'failed', text: 'Not saved: correct the plan inputs marked in plan A first.' });
+      return;
+    }
+    const who = writeMeta(context.savedPlanId === null ? '' : 'Plan edited');
+    if ('missing' in who) {
+      setSaveMessage({ kind: 'failed', text: who.missing });
+      return;
+    }
+    const fields = { patientId: context.patientId, plannedFor, label, input: computationA.input, checklist };
+    const answer = context.savedPlanId === null ? await api.invoke('plans:save', { fields, meta: who.meta }) : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
+    if (!answer.ok) {
+      setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
+      return;
+    }
+    setContext((current) => ({ ...current, savedPlanId: answer.value.id, savedStamp: `${displayDateTime(answer.value.stamp.enteredAt)} by ${answer.value.stamp.enteredBy}` }));
+    setSaveMessage({ kind: 'saved', text: `Saved as plan ${answer.value.id} (model ${answer.value.modelVersion}).` });
+    window.history.replaceState(null, '', href('plans', answer.value.id));
+  }
+
+  const editingB = active === 'B' && draftB !== null;
+  // Stable, so the memoised form does not re-render when only the results change.
+  const setShownDraft = useCallback((draft: PlanDraft) => (editingB ? setDraftB(draft) : setDraftA(draft)), [editingB]);
+
+  if (loadFailure !== null) return <p className="form-error" role="alert">{loadFailure}</p>;
+  if (!loaded) return <p aria-busy="true">Loading…</p>;
+  const comparing = draftB !== null;
+
+  return (
+    <section className="screen" aria-labelledby="planning-title">
+      <h1 id="planning-title">
+        {context.savedPlanId === null ? 'New anaesthetic plan' : `Anaesthetic plan ${context.savedPlanId}`}
+        {context.patientLabel !== null && <span className="muted"> · {context.patientLabel}</span>}
+      </h1>
+      {context.patientId !== null && (
+        <p>
+          <a href={href('patients', context.patientId)}>← Patient record</a>
+        </p>
+      )}
+      <div className="save-bar">
+        <TextField label="Planned for" name="plannedFor" type="date" value={plannedFor} onChange={setPlannedFor} />
+        <TextField label="Label" name="label" value={label} placeholder="e.g. crop biopsy" onChange={setLabel} />
+        <button type="button" className="primary" onClick={() => void save()}>
+          {context.savedPlanId === null ? 'Save plan' : 'Save changes'}
+        </button>
+        {context.savedPlanId !== null && (
+          <a className="button-link secondary" href={href('worksheets', context.savedPlanId)}>
+            Open worksheet
+          </a>
+        )}
+        {saveMessage !== null && (
+          <p className={saveMessage.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
+            {saveMessage.text}
+          </p>
+        )}
+        {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
+      </div>
+      <div className="variant-tabs" role="group" aria-label="Plan variants">
+        <button type="button" aria-pressed={active === 'A'} onClick={() => setActive('A')}>
+          Plan A
+        </button>
+        {comparing ? (
+          <>
+            <button type="button" aria-pressed={active === 'B'} onClick={() => setActive('B')}>
+              Plan B
+            </button>
+            <button
+              type="button"
+              onClick={() => {
+                if (draftB !== null) setDraftA(draftB);
+                setDraftB(null);
+                setActive('A');
+              }}
+            >
+              Keep B as the plan
+            </button>
+            <button
+              type="button"
+              onClick={() => {
+                setDraftB(null);
+                setActive('A');
+              }}
+            >
+              Stop comparing
+            </button>
+          </>
+        ) : (
+          <button
+            type="button"
+            onClick={() => {
+              setDraftB(draftA);
+              setActive('B');
+            }}
+          >
+            Compare with a variant
+          </button>
+        )}
+      </div>
+      <div className="planning">
+        <div>
+          <PlanForm draft={shownDraft} problems={shownComputation.problems} species={species} speciesLocked={context.patientId !== null} onChange={setShownDraft} />
+          <ChecklistPanel checklist={checklist} onChange={setChecklist} />
+        </div>
+        <div>
+          {comparing && computationA.result !== null && computationB.result !== null && computationA.input !== null && computationB.input !== null && (
+            <section className="panel" aria-labelledby="compare-heading">
+              <h2 id="compare-heading">Plan A and plan B</h2>
+              <CompareTable inputA={computationA.input} inputB={computationB.input} resultA={computationA.result} resultB={computationB.result} />
+              <h3>Cautions of plan {active === 'A' ? 'B' : 'A'}</h3>
+              <CautionList cautions={(active === 'A' ? computationB.result : computationA.result).cautions} />
+            </section>
+          )}
+          {shownComputation.failure !== null && <p className="form-error" role="alert">The model could not run: {shownComputation.failure}</p>}
+          {shownComputation.result === null ? (
+            <p className="muted" aria-live="polite">
+              {Object.keys(shownComputation.problems).length > 0 ? 'Enter the body mass and the marked fields to see predictions.' : 'Computing…'}
+            </p>
+          ) : (
+            <PlanResults
+              result={shownComputation.result}
+              pending={shownComputation.pending || Object.keys(shownComputation.problems).length > 0}
+              setFreshGasLpm={shownComputation.input?.freshGasLpm ?? null}
+              compareWith={
+                comparing && computationA.result !== null && computationB.result !== null
+                  ? active === 'A'
+                    ? { label: 'plan B', result: computationB.result }
+                    : { label: 'plan A', result: computationA.result }
+                  : undefined
+              }
+            />
+          )}
+        </div>
+      </div>
+    </section>
+  );
+}

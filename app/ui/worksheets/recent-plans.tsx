@@ -1,0 +1,54 @@
+import { agents } from '../../core/agents.js';
+import { displayMass } from '../common/display.js';
+import { useClinicSettings } from '../common/settings-context.js';
+import { useChannel } from '../common/use-channel.js';
+import { href } from '../shell/areas.js';
+import { figure, routeLabels } from './labels.js';
+
+/** Saved plans, latest planned date first, each opening its printable worksheet. */
+export function RecentPlans() {
+  const [load] = useChannel('plans:recent', { limit: 100 });
+  const settings = useClinicSettings();
+  return (
+    <section className="screen" aria-labelledby="worksheets-title">
+      <h1 id="worksheets-title">Worksheets</h1>
+      <p className="lead">Open a saved plan to print its pre-procedure worksheet: the plan, the predicted times, an emergency card in your clinic’s doses and a monitoring grid.</p>
+      {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
+      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'ready' &&
+        (load.value.length === 0 ? (
+          <p>No saved plans yet. Save a plan from Anaesthetic plans first.</p>
+        ) : (
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th scope="col">Planned for</th>
+                <th scope="col">Patient</th>
+                <th scope="col">Plan</th>
+                <th scope="col" className="number">Weight</th>
+                <th scope="col" className="number">Predicted induction</th>
+                <th scope="col" className="number">Open checklist items</th>
+              </tr>
+            </thead>
+            <tbody>
+              {load.value.map((plan) => (
+                <tr key={plan.id}>
+                  <td>{plan.plannedFor}</td>
+                  <td>
+                    <a href={href('worksheets', plan.id)}>{plan.patientName ?? `Quick plan ${plan.id}`}</a>
+                  </td>
+                  <td>
+                    {plan.label === '' ? '' : `${plan.label}: `}
+                    {agents[plan.agent as keyof typeof agents]?.displayName ?? plan.agent}, {routeLabels[plan.route as keyof typeof routeLabels] ?? plan.route}
+                  </td>
+                  <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
+                  <td className="number">{plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}</td>
+                  <td className="number">{plan.openChecklistItems}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        ))}
+    </section>
+  );
+}

@@ -1,0 +1,146 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser } from 'playwright-core';
+import { DatabaseTooNewError } from '../../db/connection.js';
+import { startBackEnd, type BackEnd } from '../back-end.js';
+import { startLoopbackHost, type LoopbackHost } from '../loopback-host.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../project-paths.js';
+import { dataLocation, errorText, parseArguments, UsageError, type CommandIo } from './command-io.js';
+
+export const worksheetUsage =
+  'Usage: syrinx worksheet --plan ID --out FILE.pdf [--data DIR]\n' +
+  '  Renders the printable worksheet of saved plan ID from the clinic database in DIR (default: the usual data folder) to a PDF, with headless Chromium\n' +
+  '  (CHROMIUM_PATH, else /usr/bin/chromium), on the paper size chosen in Settings.';
+
+/** Flags for headless Chromium, the same as the project's end-to-end tests use. */
+export const chromiumArguments = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--disable-dev-shm-usage',
+] as const;
+
+export type WorksheetCommandOptions = {
+  /** Environment to read CHROMIUM_PATH from; the process's own by default. */
+  readonly env?: NodeJS.ProcessEnv;
+  /** Milliseconds to wait for the worksheet to finish drawing. */
+  readonly readyTimeoutMs?: number;
+};
+
+type Arguments = { planId: number; outFile: string; location: ReturnType<typeof dataLocation> };
+
+function parse(args: string[]): Arguments {
+  const parsed = parseArguments(args, { valueOptions: ['--plan', '--data', '--out'], maxPositionals: 0 });
+  const plan = parsed.values.get('--plan');
+  if (plan === undefined) throw new UsageError('--plan ID is required: the number of the saved plan (shown on the Worksheets screen).');
+  const planId = Number(plan);
+  if (!/^\d+$/.test(plan) || !Number.isSafeInteger(planId) || planId <= 0) throw new UsageError(`--plan must be a plan number such as 12, not "${plan}".`);
+  const out = parsed.values.get('--out');
+  if (out === undefined) throw new UsageError('--out FILE.pdf is required: where to write the worksheet.');
+  if (path.extname(out).toLowerCase() !== '.pdf') throw new UsageError(`--out must name a .pdf file, not "${out}".`);
+  return { planId, outFile: path.resolve(out), location: dataLocation(parsed) };
+}
+
+/** Refusal with a message and exit code 1. */
+class Refusal extends Error {}
+
+async function check<T>(backEnd: BackEnd, channel: Parameters<BackEnd['dispatch']>[0], payload: unknown): Promise<T> {
+  const answer = await backEnd.dispatch(channel, payload);
+  if (!answer.ok) throw new Refusal(answer.error.message);
+  return answer.value as T;
+}
+
+/**
+ * `syrinx worksheet --plan ID --data DIR --out FILE.pdf`: the same worksheet page the app
+ * prints, rendered by headless Chromium from an in-process loopback host on a free port and
+ * written to FILE (via a temporary file renamed into place, so FILE is never half-written).
+ * Exit 0 written, 1 refused or failed (nothing written under FILE), 2 bad arguments.
+ */
+export async function runWorksheetCommand(args: string[], io: CommandIo, options: WorksheetCommandOptions = {}): Promise<number> {
+  let parsed: Arguments;
+  try {
+    parsed = parse(args);
+  } catch (error) {
+    if (error instanceof UsageError) {
+      io.stderr(`syrinx worksheet: ${error.message}\n${worksheetUsage}\n`);
+      return 2;
+    }
+    throw error;
+  }
+  const { planId, outFile, location } = parsed;
+  if (!fs.existsSync(location.databaseFile)) {
+    io.stderr(`syrinx worksheet: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
+    return 1;
+  }
+  if (!fs.existsSync(path.dirname(outFile))) {
+    io.stderr(`syrinx worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`);
+    return 1;
+  }
+
+  const root = findProjectRoot();
+  let backEnd: BackEnd | null = null;
+  let host: LoopbackHost | null = null;
+  let browser: Browser | null = null;
+  const temporary = path.join(path.dirname(outFile), `.${path.basename(outFile)}.${process.pid}.partial`);
+  try {
+    io.stderr(`worksheet: opening ${location.databaseFile}\n`);
+    try {
+      backEnd = startBackEnd({ dataDirectory: location.dataDirectory, appVersion: readAppVersion(root), host: 'browser' });
+    } catch (error) {
+      throw new Refusal(error instanceof DatabaseTooNewError ? error.message : `the database could not be opened: ${errorText(error)}`);
+    }
+    const detail = await backEnd.dispatch('plans:get', { id: planId });
+    if (!detail.ok) throw new Refusal(detail.error.code === 'not-found' ? `there is no plan ${planId} in ${location.databaseFile}.` : detail.error.message);
+    const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
+    if (!safety.acknowledged) {
+      throw new Refusal(`the cautions of Syrinx ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`);
+    }
+    const settings = await check<{ settings: unknown }>(backEnd, 'settings:get', {});
+    if (settings.settings === null) throw new Refusal('the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.');
+
+    const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
+    if (!fs.existsSync(executablePath)) {
+      throw new Refusal(`no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable.`);
+    }
+    const renderer = rendererDirectory(root);
+    if (!fs.existsSync(path.join(renderer, 'index.html'))) throw new Refusal(`the app's pages are not built (no ${path.join(renderer, 'index.html')}); run \`npm run build\` first.`);
+
+    const started = performance.now();
+    host = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch: backEnd.dispatch });
+    io.stderr(`worksheet: rendering plan ${planId} with ${executablePath}\n`);
+    browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
+    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    const problems: string[] = [];
+    page.on('pageerror', (error) => problems.push(error.message));
+    // The token query must come before the hash: the page keeps it and drops it from the address.
+    await page.goto(`${host.url}#/worksheets/${planId}`);
+    try {
+      await page.locator('.worksheet[data-ready="true"]').waitFor({ timeout: options.readyTimeoutMs ?? 20_000 });
+    } catch {
+      const shown = (await page.locator('[role="alert"]').allTextContents()).join(' ');
+      throw new Refusal(`the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${problems.length === 0 ? '' : ` (page errors: ${problems.join('; ')})`}. Nothing was written.`);
+    }
+    io.stderr('worksheet: writing PDF\n');
+    await page.pdf({ path: temporary, preferCSSPageSize: true, printBackground: true });
+    fs.renameSync(temporary, outFile);
+    const sizeBytes = fs.statSync(outFile).size;
+    io.stdout(`Wrote the worksheet of plan ${planId} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`);
+    return 0;
+  } catch (error) {
+    fs.rmSync(temporary, { force: true });
+    if (error instanceof Refusal) {
+      io.stderr(`syrinx worksheet: ${error.message}\n`);
+      return 1;
+    }
+    io.stderr(`syrinx worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`);
+    return 1;
+  } finally {
+    await browser?.close();
+    await host?.close();
+    backEnd?.close();
+  }
+}

@@ -1,0 +1,31 @@
+import type { ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
+import type { drugChannels } from '../app/contract/drug-channels.js';
+import type { SyrinxDatabase } from '../db/connection.js';
+import { createEmergencyDrugRepository, DrugCorrectionError } from '../db/repositories/emergency-drug-repository.js';
+import { RecordError } from './record-handlers.js';
+
+type DrugChannel = keyof typeof drugChannels;
+type DrugHandlerTable = { [C in DrugChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+
+function checked<T>(write: () => T | null, id: number): T {
+  let written: T | null;
+  try {
+    written = write();
+  } catch (error) {
+    if (error instanceof DrugCorrectionError) throw new RecordError('conflict', error.message);
+    throw error;
+  }
+  if (written === null) throw new RecordError('not-found', `Emergency drug ${id} was not found; it may have been opened from an old list.`);
+  return written;
+}
+
+/** Handlers for the clinic's emergency-drug list (the worksheet's emergency card). */
+export function createDrugHandlers(db: SyrinxDatabase, now: () => Date): DrugHandlerTable {
+  const drugs = createEmergencyDrugRepository(db);
+  return {
+    'drugs:list': () => drugs.list(),
+    'drugs:add': (request) => drugs.add(request.values, request.meta, now()),
+    'drugs:correct': (request) => checked(() => drugs.correct(request.id, request.values, request.meta, now()), request.id),
+    'drugs:void': (request) => checked(() => drugs.void(request.id, request.meta, now()), request.id),
+  };
+}

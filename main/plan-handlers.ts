@@ -1,0 +1,103 @@
+import type { ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
+import type { planChannels, PlanFields, SavedPlan } from '../app/contract/plan-records.js';
+import { planResultSchema, type PlanInput } from '../app/contract/plan.js';
+import { speciesToReference } from '../app/contract/species-mapping.js';
+import { computePlan, modelVersion } from '../app/core/model/compute-plan.js';
+import { weightTrend } from '../app/core/weight-trend.js';
+import type { SyrinxDatabase } from '../db/connection.js';
+import { createPatientRepository } from '../db/repositories/patient-repository.js';
+import { createPlanRepository } from '../db/repositories/plan-repository.js';
+import { createSpeciesRepository } from '../db/repositories/species-repository.js';
+import { createWeightRepository } from '../db/repositories/weight-repository.js';
+import { RecordError } from './record-handlers.js';
+
+type PlanChannel = keyof typeof planChannels;
+type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+
+function openItems(plan: SavedPlan): number {
+  return Object.values(plan.checklist.items).filter((state) => state === 'open').length + (plan.checklist.asaGrade === null ? 1 : 0);
+}
+
+/** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
+export function createPlanHandlers(db: SyrinxDatabase, now: () => Date): PlanHandlerTable {
+  const species = createSpeciesRepository(db);
+  const patients = createPatientRepository(db);
+  const weights = createWeightRepository(db);
+  const plans = createPlanRepository(db);
+
+  // Parsing the model's answer with the contract's schema both checks it and copies its
+  // read-only arrays into the plain shape the contract stores.
+  const compute = (input: PlanInput) => planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
+
+  function toStore(fields: PlanFields) {
+    if (fields.patientId !== null && patients.get(fields.patientId) === null) throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
+    return { ...fields, result: compute(fields.input), modelVersion };
+  }
+
+  function summary(plan: SavedPlan) {
+    const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+    return {
+      id: plan.id,
+      patientId: plan.patientId,
+      patientName: patient?.values.name ?? plan.input.patientName ?? null,
+      plannedFor: plan.plannedFor,
+      label: plan.label,
+      agent: plan.input.agent,
+      route: plan.input.route,
+      bodyMassG: plan.input.bodyMassG,
+      liquidMl: plan.result.consumption.liquidMl,
+      oxygenL: plan.result.oxygen.usedL,
+      inductionMin: plan.result.milestones.inductionMin,
+      openChecklistItems: openItems(plan),
+    };
+  }
+
+  return {
+    'plans:compute': (request) => compute(request.input),
+    'plans:save': (request) => plans.save(toStore(request.fields), request.meta, now()),
+    'plans:correct': (request) => {
+      const saved = plans.correct(request.id, toStore(request.fields), request.meta, now());
+      if (saved === 'not-found') throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      if (saved === 'stale') throw new RecordError('conflict', 'This plan was changed since you opened it; open its newest version and edit that.');
+      return saved;
+    },
+    'plans:get': (request) => {
+      const plan = plans.get(request.id);
+      if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+      const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
+      const speciesRecord = speciesKey === undefined ? null : species.get(speciesKey);
+      let weightTrendText: string | null = null;
+      if (patient !== null) {
+        const list = weights.list(patient.id);
+        const range = speciesRecord === null ? null : { minG: speciesRecord.values.massMinG, maxG: speciesRecord.values.massMaxG, speciesName: speciesRecord.values.commonName };
+        const trend = weightTrend(list.map((weight) => ({ weighedOn: weight.values.weighedOn, massG: weight.values.massG })), range);
+        const parts = [];
+        if (trend.latest !== null) parts.push(`latest ${trend.latest.massG} g on ${trend.latest.weighedOn}`);
+        if (trend.sinceLast !== null) parts.push(`${trend.sinceLast.percent >= 0 ? '+' : ''}${trend.sinceLast.percent.toFixed(1)} % since the previous weight`);
+        if (trend.sinceFirst !== null && list.length > 2) parts.push(`${trend.sinceFirst.percent >= 0 ? '+' : ''}${trend.sinceFirst.percent.toFixed(1)} % since the first`);
+        parts.push(...trend.flags.map((flag) => flag.message));
+        weightTrendText = parts.length === 0 ? null : parts.join('; ');
+      }
+      return {
+        plan,
+        patient,
+        species: speciesRecord,
+        weightTrendText,
+        history: plans.history(request.id).map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
+      };
+    },
+    'plans:for-patient': (request) => plans.listForPatient(request.patientId).map(summary),
+    'plans:recent': (request) => plans.listRecent(request.limit).map(summary),
+    'plans:day': (request) => {
+      const list = plans.listForDay(request.date);
+      const liquidMlByAgent: Record<string, number> = {};
+      let oxygenL = 0;
+      for (const plan of list) {
+        liquidMlByAgent[plan.input.agent] = (liquidMlByAgent[plan.input.agent] ?? 0) + plan.result.consumption.liquidMl;
+        oxygenL += plan.result.oxygen.usedL;
+      }
+      return { date: request.date, plans: list.map(summary), totals: { liquidMlByAgent, oxygenL } };
+    },
+  };
+}

@@ -1,0 +1,85 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { chromium } from 'playwright-core';
+import { startBackEnd } from '../../main/back-end.js';
+import { chromiumArguments, runWorksheetCommand } from '../../main/cli/worksheet-command.js';
+import { startLoopbackHost } from '../../main/loopback-host.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/project-paths.js';
+import { median, type Figure } from './figures.js';
+
+const runs = 5;
+const quiet = { stdout: () => undefined, stderr: () => undefined };
+
+/** A data folder with the cautions acknowledged, settings saved, two clinic drugs and one plan. */
+async function preparedData(root: string): Promise<{ folder: string; planId: number }> {
+  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'syrinx-bench-worksheet-'));
+  const backEnd = startBackEnd({ dataDirectory: folder, appVersion: readAppVersion(root), host: 'browser' });
+  try {
+    const call = async (channel: string, payload: unknown): Promise<{ id: number }> => {
+      const answer = await backEnd.dispatch(channel, payload);
+      if (!answer.ok) throw new Error(`${channel}: ${answer.error.message}`);
+      return answer.value as { id: number };
+    };
+    await call('safety:acknowledge', { acknowledgedBy: 'BE', accepted: true });
+    await call('settings:save', { clinicName: 'Bench Clinic', addressLine: '', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
+    // Neutral placeholders: Syrinx ships no drug and no dose.
+    for (const name of ['Bench drug A', 'Bench drug B']) {
+      await call('drugs:add', { values: { name, concentrationMgPerMl: 1, doseLowMgPerKg: 1, doseHighMgPerKg: 2, route: 'IV', doseSource: 'bench placeholder' }, meta: { enteredBy: 'BE' } });
+    }
+    const input = JSON.parse(fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8')) as unknown;
+    const saved = await call('plans:save', { fields: { patientId: null, plannedFor: '2026-12-02', label: '', input, checklist: { asaGrade: 2 } }, meta: { enteredBy: 'BE' } });
+    return { folder, planId: saved.id };
+  } finally {
+    backEnd.close();
+  }
+}
+
+/**
+ * Worksheet PDF time: the whole `syrinx worksheet` command (database, loopback host, Chromium
+ * start, page, PDF), and the page-to-PDF part alone with Chromium already running. Median of 5;
+ * target under 2 s.
+ */
+export async function benchWorksheet(): Promise<Figure[]> {
+  const root = findProjectRoot();
+  const executablePath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
+  if (!fs.existsSync(executablePath)) return [{ name: 'worksheet PDF', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` }];
+  const data = await preparedData(root);
+  const out = path.join(data.folder, 'bench.pdf');
+  try {
+    const whole: number[] = [];
+    for (let index = 0; index < runs; index += 1) {
+      const started = performance.now();
+      const code = await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], quiet);
+      if (code !== 0) throw new Error(`syrinx worksheet exited with ${code}`);
+      whole.push(performance.now() - started);
+    }
+
+    const backEnd = startBackEnd({ dataDirectory: data.folder, appVersion: readAppVersion(root), host: 'browser' });
+    const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
+    const browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
+    const warm: number[] = [];
+    try {
+      for (let index = 0; index < runs; index += 1) {
+        const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+        const started = performance.now();
+        await page.goto(`${host.url}#/worksheets/${data.planId}`);
+        await page.locator('.worksheet[data-ready="true"]').waitFor({ timeout: 20_000 });
+        await page.pdf({ path: out, preferCSSPageSize: true, printBackground: true });
+        warm.push(performance.now() - started);
+        await page.close();
+      }
+    } finally {
+      await browser.close();
+      await host.close();
+      backEnd.close();
+    }
+    return [
+      { name: 'worksheet PDF, whole command', value: median(whole), unit: 'ms', note: `median of ${runs}, target < 2000 ms; includes starting Chromium` },
+      { name: 'worksheet PDF, page to PDF (Chromium running)', value: median(warm), unit: 'ms', note: `median of ${runs}, target < 2000 ms` },
+    ];
+  } finally {
+    fs.rmSync(data.folder, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,136 @@
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { temporaryFolder } from '../support/temporary-folder.js';
+import { completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+
+let browser: Browser;
+let host: RunningHost;
+const shots = ensureScreenshotFolder();
+const data = temporaryFolder('syrinx-e2e-planning-');
+
+beforeAll(async () => {
+  browser = await launchChromium();
+  host = await startHostProcess(data.folder);
+});
+afterAll(async () => {
+  await browser.close();
+  await host.stop();
+  data.remove();
+});
+
+const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+
+async function bridge(page: Page, channel: string, body: unknown): Promise<{ ok: boolean; value?: unknown; error?: unknown }> {
+  return page.evaluate(
+    async ({ channel, body }) => {
+      const token = window.sessionStorage.getItem('syrinx.token') ?? '';
+      const response = await fetch(`/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(body) });
+      return (await response.json()) as { ok: boolean; value?: unknown; error?: unknown };
+    },
+    { channel, body },
+  );
+}
+
+const inductionText = (page: Page) => page.getByTestId('induction-time').innerText();
+
+describe('planning from a patient in headless Chromium', () => {
+  it('plans, redraws on every change, compares two variants and saves to the patient', async () => {
+    const page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+    const problems: string[] = [];
+    page.on('pageerror', (error) => problems.push(error.message));
+    await completeFirstRun(page, host.url);
+    const meta = { enteredBy: 'RW', reason: '' };
+    const created = await bridge(page, 'patients:create', {
+      values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', hatchDate: null, ageText: 'adult', ringId: 'HL-24-117', microchipId: '', ownerReference: 'Owner 5521', notes: '' },
+      meta,
+    });
+    expect(created.ok).toBe(true);
+    const patientId = (created.value as { id: number }).id;
+    await bridge(page, 'weights:add', { patientId, values: { weighedOn: '2026-11-20', massG: 33, bodyCondition: 'ideal', weighedBy: 'RW' }, meta });
+    await bridge(page, 'weights:add', { patientId, values: { weighedOn: '2026-12-01', massG: 32, bodyCondition: 'ideal', weighedBy: 'RW' }, meta });
+
+    await page.goto(`${host.origin}/#/patients/${patientId}`);
+    await page.getByRole('heading', { name: /Pip/ }).waitFor();
+    await page.getByRole('link', { name: 'New plan' }).click();
+    await page.getByRole('heading', { name: /New anaesthetic plan/ }).waitFor();
+    await expect(page.getByLabel(/^Body mass/).inputValue()).resolves.toBe('32');
+    await page.getByTestId('induction-time').waitFor();
+    await page.getByText(/5th-95th percentile: \d/).first().waitFor({ timeout: 30_000 });
+    const chart = page.locator('.plan-results canvas').first();
+    await chart.waitFor();
+    const before = await inductionText(page);
+    const pixelsBefore = await chart.screenshot();
+    await shoot(page, '40-planning');
+
+    // Change the dial: the curve and the induction time change with no button pressed.
+    await page.getByLabel(/^Induction dial/).fill('2.5');
+    await expect.poll(() => inductionText(page), { timeout: 15_000 }).not.toBe(before);
+    await expect.poll(async () => Buffer.compare(await chart.screenshot(), pixelsBefore) !== 0, { timeout: 15_000 }).toBe(true);
+    await page.getByLabel(/^Induction dial/).fill('4');
+
+    // Compare with a variant on sevoflurane.
+    await page.getByRole('button', { name: 'Compare with a variant' }).click();
+    await page.getByLabel('Sevoflurane').check();
+    await page.getByLabel(/^Induction dial/).fill('6');
+    await page.getByLabel(/^Maintenance dial/).fill('3');
+    const table = page.getByRole('table', { name: 'Comparison of plan A and plan B' });
+    await table.waitFor();
+    await expect.poll(async () => table.locator('tr[data-differs="true"]').count(), { timeout: 15_000 }).toBeGreaterThan(2);
+    expect(await table.locator('tr').filter({ has: page.getByRole('rowheader', { name: 'Agent', exact: true }) }).getAttribute('data-differs')).toBe('true');
+    await shoot(page, '41-planning-compare');
+    await page.getByRole('button', { name: 'Stop comparing' }).click();
+
+    await page.getByLabel('ASA grade').selectOption('2');
+    await page.getByLabel('Label').fill('crop biopsy');
+    await page.getByRole('button', { name: 'Save plan' }).click();
+    await page.getByText(/^Saved as plan \d+/).waitFor();
+    const planId = Number(/plans\/(\d+)/.exec(page.url())?.[1]);
+    expect(planId).toBeGreaterThan(0);
+    const saved = await bridge(page, 'plans:get', { id: planId });
+    const plan = (saved.value as { plan: { input: { bodyMassG: number; schedule: { vaporPct: number }[] }; result: { modelVersion: string; milestones: { inductionMin: number } }; checklist: { asaGrade: number } } }).plan;
+    expect(plan.input.bodyMassG).toBe(32);
+    expect(plan.input.schedule[0]?.vaporPct).toBe(4);
+    expect(plan.checklist.asaGrade).toBe(2);
+    expect(plan.result.modelVersion).toMatch(/^\d+\.\d+\.\d+$/);
+    const shownInduction = await inductionText(page);
+    expect(shownInduction).toContain(`${String(Number(plan.result.milestones.inductionMin.toFixed(1)))}`.slice(0, 3));
+
+    // The worksheet of the saved plan, printed to PDF and read back.
+    const inductionShown = (await inductionText(page)).split('\n')[0] ?? '';
+    await page.getByRole('link', { name: 'Open worksheet' }).click();
+    const sheet = page.locator('.worksheet[data-ready="true"]');
+    await sheet.waitFor({ timeout: 30_000 });
+    await page.emulateMedia({ media: 'print' });
+    const pdfFile = path.join(data.folder, 'planning-worksheet.pdf');
+    await page.pdf({ path: pdfFile, preferCSSPageSize: true, printBackground: true });
+    await page.emulateMedia({ media: 'screen' });
+    const pdfText = execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(pdfText).toContain('Pip');
+    expect(pdfText).toContain('32 g');
+    expect(pdfText).toContain(inductionShown.replace(/\s+/g, ' ').trim());
+    const savedResult = (saved.value as { plan: { result: { cautions: { message: string }[] } } }).plan.result;
+    for (const caution of savedResult.cautions) expect(pdfText).toContain(caution.message.replace(/\s+/g, ' '));
+    execFileSync('pdftoppm', ['-png', '-r', '60', pdfFile, path.join(shots, '43-planning-worksheet-page')]);
+    expect(fs.readdirSync(shots).filter((name) => name.startsWith('43-planning-worksheet-page')).length).toBeGreaterThanOrEqual(2);
+
+    // Reopen and edit: a new version.
+    await page.goto(`${host.origin}/#/plans/${planId}`);
+    await page.getByRole('heading', { name: `Anaesthetic plan ${planId}` }).waitFor();
+    await expect(page.getByLabel(/^Induction dial/).inputValue()).resolves.toBe('4');
+    await page.getByLabel(/^Fresh gas flow/).fill('1.5');
+    await page.getByRole('button', { name: 'Save changes' }).click();
+    await page.getByText(/^Saved as plan \d+/).waitFor();
+    const newId = Number(/plans\/(\d+)/.exec(page.url())?.[1]);
+    expect(newId).toBeGreaterThan(planId);
+
+    await page.goto(`${host.origin}/#/plans`);
+    await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
+    await shoot(page, '42-day-list');
+    expect(problems).toEqual([]);
+    fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
+    await page.close();
+  });
+});
