@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -79,6 +80,17 @@ describe('patients, weights and species in headless Chromium', () => {
     await page.getByRole('link', { name: 'Pip' }).waitFor();
     await expect(page.getByRole('cell', { name: /31 g \(2026-11-30\)/ }).isVisible()).resolves.toBe(true);
     await shoot(page, '23-patient-search');
+
+    // The whole database as JSON, from Settings.
+    await page.keyboard.press('Alt+6');
+    await page.getByRole('heading', { name: 'Data and backups' }).waitFor();
+    await page.getByText(/Latest: /).waitFor();
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export the whole database as JSON' }).click()]);
+    const exported = JSON.parse(fs.readFileSync(await download.path(), 'utf8')) as { format: string; tables: Record<string, { rows: Record<string, unknown>[] }> };
+    expect(exported.format).toBe('syrinx-database-export');
+    expect(exported.tables['patient_versions']?.rows.map((row) => row['name'])).toEqual(['Pip']);
+    expect(exported.tables['weights']?.rows.map((row) => row['mass_g'])).toEqual([34, 28, 31]);
+    await shoot(page, '26-settings-data');
     expect(problems).toEqual([]);
     await page.close();
   });

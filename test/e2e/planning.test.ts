@@ -129,6 +129,20 @@ describe('planning from a patient in headless Chromium', () => {
     await page.goto(`${host.origin}/#/plans`);
     await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
     await shoot(page, '42-day-list');
+
+    // A procedure record that follows the plan shows the plan's predicted curve beside the log.
+    await page.goto(`${host.origin}/#/records/new/${patientId}`);
+    await page.getByRole('heading', { name: 'New procedure record' }).waitFor();
+    await page.getByLabel('Linked plan').selectOption(String(newId));
+    await expect(page.getByLabel('Procedure', { exact: true }).inputValue()).resolves.toBe('crop biopsy');
+    await page.getByLabel('Non-rebreathing system').check();
+    await page.getByLabel('Staff initials').fill('RW');
+    await page.getByRole('button', { name: 'Start procedure record' }).click();
+    await page.getByRole('region', { name: `Plan ${newId} beside the log` }).waitFor();
+    await page.getByLabel(/^Vaporiser/).first().fill('3');
+    await page.getByLabel(/^Vaporiser/).first().press('Enter');
+    await page.getByRole('cell', { name: '3', exact: true }).first().waitFor();
+    await shoot(page, '44-record-with-plan');
     expect(problems).toEqual([]);
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
     await page.close();

@@ -9,7 +9,7 @@ import { TimeChart, type ChartSeries } from '../common/time-chart.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { clockMinutesText, clockText, formatElapsed } from './clock-time.js';
-import { downloadText } from './download.js';
+import { downloadText } from '../common/download.js';
 import { checkEntry, emptyReadings, parseNumber, readingFields, readingLabel, toDisplayReading, type DisplayUnits, type ReadingDraft } from './entry-form.js';
 import { EntryTable } from './entry-table.js';
 import { useInitialsGate } from './initials-gate.js';

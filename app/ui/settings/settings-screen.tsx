@@ -15,6 +15,7 @@ import { agentIds, agents } from '../../core/agents.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { Choice, TextField } from '../common/fields.js';
+import { DataSection } from './data-section.js';
 import { EmergencyDrugs } from './emergency-drugs.js';
 
 type Props = {
@@ -98,6 +99,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
         </p>
       )}
       {!firstRun && <EmergencyDrugs />}
+      {!firstRun && <DataSection />}
     </section>
   );
 }
