@@ -2,7 +2,9 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 import { findProjectRoot } from '../../main/project-paths.js';
+import { temporaryFolder } from '../support/temporary-folder.js';
 
 export type RunningHost = { url: string; origin: string; port: number; process: ChildProcess; output: () => string; stop: () => Promise<number | null> };
 
@@ -82,4 +84,46 @@ export async function completeFirstRun(page: import('playwright-core').Page, url
     window.localStorage.setItem('syrinx.operator', who);
   }, initials);
   await page.reload();
+}
+
+/** A contract call through the loopback bridge, as the screens make it, answered as a Result. */
+export async function callBridge<T = unknown>(page: import('playwright-core').Page, channel: string, body: unknown): Promise<{ ok: boolean; value?: T; error?: unknown }> {
+  return page.evaluate(
+    async ({ channel: name, body: payload }) => {
+      const token = window.sessionStorage.getItem('syrinx.token') ?? '';
+      const response = await fetch(`/api/${name}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(payload) });
+      return (await response.json()) as { ok: boolean; value?: T; error?: unknown };
+    },
+    { channel, body },
+  );
+}
+
+/**
+ * One headless Chromium and one loopback host on a fresh data folder for a test file, started
+ * before its tests and stopped after them.
+ */
+export function sharedHost(prefix: string): { readonly browser: Browser; readonly host: RunningHost; readonly dataFolder: string } {
+  const data = temporaryFolder(prefix);
+  let browser: Browser | null = null;
+  let host: RunningHost | null = null;
+  beforeAll(async () => {
+    browser = await launchChromium();
+    host = await startHostProcess(data.folder);
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await host?.stop();
+    data.remove();
+  });
+  return {
+    get browser() {
+      if (browser === null) throw new Error('Chromium is not started yet');
+      return browser;
+    },
+    get host() {
+      if (host === null) throw new Error('The host is not started yet');
+      return host;
+    },
+    dataFolder: data.folder,
+  };
 }

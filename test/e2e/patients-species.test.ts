@@ -1,29 +1,17 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { temporaryFolder } from '../support/temporary-folder.js';
-import { completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
-let browser: Browser;
-let host: RunningHost;
+const session = sharedHost('syrinx-e2e-patients-');
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('syrinx-e2e-patients-');
-
-beforeAll(async () => {
-  browser = await launchChromium();
-  host = await startHostProcess(data.folder);
-});
-afterAll(async () => {
-  await browser.close();
-  await host.stop();
-  data.remove();
-});
 
 const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
 
 describe('patients, weights and species in headless Chromium', () => {
   it('creates a species-linked patient, adds two weights, sees the loss flag and corrects a weight with its history', async () => {
+    const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
     const problems: string[] = [];
     page.on('pageerror', (error) => problems.push(error.message));
@@ -96,6 +84,7 @@ describe('patients, weights and species in headless Chromium', () => {
   });
 
   it('shows species with their sources and keeps the earlier value when the clinic edits one', async () => {
+    const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
     await page.goto(host.url);
     await page.getByRole('heading', { name: 'Patients' }).waitFor();

@@ -1,43 +1,20 @@
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { temporaryFolder } from '../support/temporary-folder.js';
-import { completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { callBridge as bridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
-let browser: Browser;
-let host: RunningHost;
+const session = sharedHost('syrinx-e2e-planning-');
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('syrinx-e2e-planning-');
-
-beforeAll(async () => {
-  browser = await launchChromium();
-  host = await startHostProcess(data.folder);
-});
-afterAll(async () => {
-  await browser.close();
-  await host.stop();
-  data.remove();
-});
 
 const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
-
-async function bridge(page: Page, channel: string, body: unknown): Promise<{ ok: boolean; value?: unknown; error?: unknown }> {
-  return page.evaluate(
-    async ({ channel, body }) => {
-      const token = window.sessionStorage.getItem('syrinx.token') ?? '';
-      const response = await fetch(`/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(body) });
-      return (await response.json()) as { ok: boolean; value?: unknown; error?: unknown };
-    },
-    { channel, body },
-  );
-}
 
 const inductionText = (page: Page) => page.getByTestId('induction-time').innerText();
 
 describe('planning from a patient in headless Chromium', () => {
   it('plans, redraws on every change, compares two variants and saves to the patient', async () => {
+    const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     const problems: string[] = [];
     page.on('pageerror', (error) => problems.push(error.message));
@@ -104,7 +81,7 @@ describe('planning from a patient in headless Chromium', () => {
     const sheet = page.locator('.worksheet[data-ready="true"]');
     await sheet.waitFor({ timeout: 30_000 });
     await page.emulateMedia({ media: 'print' });
-    const pdfFile = path.join(data.folder, 'planning-worksheet.pdf');
+    const pdfFile = path.join(session.dataFolder, 'planning-worksheet.pdf');
     await page.pdf({ path: pdfFile, preferCSSPageSize: true, printBackground: true });
     await page.emulateMedia({ media: 'screen' });
     const pdfText = execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');

@@ -6,7 +6,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+import { callBridge, completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
 
 const run = promisify(execFile);
 const root = findProjectRoot();
@@ -27,18 +27,11 @@ afterAll(async () => {
   output.remove();
 });
 
-/** Calls a contract channel through the loopback bridge, as the screens do. */
+/** Calls a contract channel through the loopback bridge, as the screens do; throws on refusal. */
 async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T> {
-  return page.evaluate(
-    async ({ channel: name, body: payload }) => {
-      const token = window.sessionStorage.getItem('syrinx.token') ?? '';
-      const response = await fetch(`/api/${name}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(payload) });
-      const result = (await response.json()) as { ok: boolean; value?: unknown; error?: unknown };
-      if (!result.ok) throw new Error(`${name} failed: ${JSON.stringify(result.error)}`);
-      return result.value;
-    },
-    { channel, body },
-  ) as Promise<T>;
+  const result = await callBridge<T>(page, channel, body);
+  if (!result.ok) throw new Error(`${channel} failed: ${JSON.stringify(result.error)}`);
+  return result.value as T;
 }
 
 const squash = (text: string) => text.replace(/\s+/g, ' ').trim();
