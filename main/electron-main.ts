@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { channelNames } from '../app/contract/channels.js';
 import { startBackEnd, type BackEnd } from './back-end.js';
+import { electronSqliteBindingPath } from './electron-native.js';
 import { contentTypeFor, securityHeaders } from './security-headers.js';
 import { readRendererFile } from './static-files.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
@@ -19,10 +20,10 @@ function dataDirectoryFromArguments(argv: readonly string[]): string | null {
   return value === undefined ? null : path.resolve(value);
 }
 
-/** In a source checkout, a better-sqlite3 binary rebuilt for Electron may sit beside the build. */
+/** In a source checkout, `npm start` builds better-sqlite3 for Electron beside the build. */
 function electronSqliteBinding(root: string): string | undefined {
   if (app.isPackaged) return undefined;
-  const candidate = path.join(root, 'build', 'electron-native', 'better_sqlite3.node');
+  const candidate = electronSqliteBindingPath(root, process.versions.electron);
   return fs.existsSync(candidate) ? candidate : undefined;
 }
 

@@ -4,6 +4,7 @@ import { ArgumentError, parseStartArguments } from './arguments.js';
 import { startBackEnd } from './back-end.js';
 import { defaultDataDirectory } from './data-directory.js';
 import { electronAvailability } from './electron-availability.js';
+import { installedElectronVersion, prepareElectronSqlite } from './electron-native.js';
 import { startLoopbackHost } from './loopback-host.js';
 import { openInSystemBrowser } from './open-browser.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
@@ -24,7 +25,12 @@ async function main(): Promise<number> {
     throw error;
   }
   const root = findProjectRoot();
-  const availability = electronAvailability(root, process.env, process.platform, args.forceBrowser);
+  let availability = electronAvailability(root, process.env, process.platform, args.forceBrowser);
+  if (availability.ok) {
+    const electronVersion = installedElectronVersion(root);
+    const native = electronVersion === null ? { ok: false as const, reason: 'the electron package has no version' } : prepareElectronSqlite(root, electronVersion, (message) => process.stdout.write(`${message}\n`));
+    if (!native.ok) availability = { ok: false, reason: native.reason };
+  }
   if (availability.ok) {
     const electronArgs = [path.join(root, 'build', 'main', 'electron-main.js')];
     if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
