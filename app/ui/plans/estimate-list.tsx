@@ -39,4 +39,4 @@ export const EstimateList = memo(function EstimateList({ estimates }: { readonly
       })}
     </dl>
   );
-});
+}, (previous, next) => JSON.stringify(previous.estimates) === JSON.stringify(next.estimates));

@@ -1,3 +1,4 @@
+import { memo, type ReactNode } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { EstimateList } from './estimate-list.js';
 import { figure, minutes, range } from './format.js';
@@ -9,6 +10,18 @@ type Props = {
   readonly pending: boolean;
   readonly compareWith?: { readonly label: string; readonly result: PlanResult } | undefined;
 };
+
+/**
+ * Re-renders a section only when the part of the result it shows has changed, so that a
+ * keystroke redraws the curves without rebuilding every panel.
+ */
+function sameContent(previous: unknown, next: unknown): boolean {
+  return JSON.stringify(previous) === JSON.stringify(next);
+}
+
+const Section = memo(function Section({ children }: { readonly children: ReactNode; readonly content: unknown }) {
+  return <>{children}</>;
+}, (previous, next) => sameContent(previous.content, next.content));
 
 /** Cautions, ordered danger first; always the first thing in the results. */
 export function CautionList({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
@@ -84,6 +97,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
         <p className="basis">Range from {uncertainty.samples} samples: {uncertainty.method}</p>
       </section>
 
+      <Section content={[result.flows, result.consumption, result.oxygen, result.agent, setFreshGasLpm]}>
       <section className="panel" aria-labelledby="flows-heading">
         <h2 id="flows-heading">Fresh gas, agent and oxygen</h2>
         <dl className="details">
@@ -118,7 +132,9 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           </dd>
         </dl>
       </section>
+      </Section>
 
+      <Section content={waste}>
       <section className="panel" aria-labelledby="waste-heading">
         <h2 id="waste-heading">Waste gas in the room</h2>
         <p>
@@ -135,6 +151,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
         </ul>
         <p className="basis">{waste.basis}</p>
       </section>
+      </Section>
 
       <section className="panel" aria-labelledby="estimates-heading">
         <h2 id="estimates-heading">Estimates for this bird</h2>
@@ -142,6 +159,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
         <EstimateList estimates={result.estimates} />
       </section>
 
+      <Section content={result.assumptions}>
       <section className="panel" aria-labelledby="assumptions-heading">
         <h2 id="assumptions-heading">Assumptions</h2>
         <ul className="compact basis-list">
@@ -150,6 +168,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           ))}
         </ul>
       </section>
+      </Section>
     </div>
   );
 }
