@@ -120,6 +120,18 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByLabel(/^Vaporiser/).first().press('Enter');
     await page.getByRole('cell', { name: '3', exact: true }).first().waitFor();
     await shoot(page, '44-record-with-plan');
+
+    // Correcting the record's details keeps the earlier version with who, when and why.
+    await page.getByRole('button', { name: 'Correct details' }).click();
+    const editor = page.getByRole('region', { name: 'Correct the record’s details' });
+    await editor.getByRole('radio', { name: '2', exact: true }).check();
+    await editor.getByRole('button', { name: 'Save correction' }).click();
+    await editor.getByText('Say why the record is corrected; the reason is kept with the history.').waitFor();
+    await editor.getByLabel('Reason for the correction').fill('ASA grade from the plan checklist');
+    await editor.getByRole('button', { name: 'Save correction' }).click();
+    await expect.poll(() => editor.getByRole('list', { name: "History of the record's details" }).locator('li').count(), { timeout: 10_000 }).toBe(2);
+    expect(await editor.getByRole('list', { name: "History of the record's details" }).locator('li').first().innerText()).toMatch(/why: ASA grade from the plan checklist · crop biopsy, ASA 2/);
+    await expect(page.locator('.record-facts').innerText()).resolves.toContain('ASA 2');
     expect(problems).toEqual([]);
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
     await page.close();

@@ -16,6 +16,7 @@ import { useInitialsGate } from './initials-gate.js';
 import { apnoeaActionSeconds, apnoeaNote, eventLabels, promptState, recoveryMilestones, stoppedStopwatch, stopwatchLevel, stopwatchSeconds, toggleStopwatch, type Stopwatch } from './monitoring.js';
 import { airwayText, asaText, circuitLabels } from './record-form.js';
 import { PlanComparison } from './plan-comparison.js';
+import { RecordDetailsEditor } from './record-details-editor.js';
 import { recordSeries } from './record-series.js';
 
 /** The key that starts and stops the apnoea stopwatch: no clash with typing numbers. */
@@ -67,6 +68,7 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
   const { gate, withInitials } = useInitialsGate();
   const [writeFailure, setWriteFailure] = useState<string | null>(null);
   const [stopwatch, setStopwatch] = useState<Stopwatch>(stoppedStopwatch);
+  const [editingDetails, setEditingDetails] = useState(false);
   const startedAtMs = Date.parse(values.startedAt);
   const endedAtMs = values.endedAt === null ? null : Date.parse(values.endedAt);
 
@@ -161,6 +163,9 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
           <button type="button" onClick={() => void exportCsv()}>
             Download CSV
           </button>
+          <button type="button" aria-expanded={editingDetails} onClick={() => setEditingDetails((open) => !open)}>
+            Correct details
+          </button>
           {endedAtMs === null ? (
             <button type="button" onClick={() => void correctRecord({ ...values, endedAt: new Date().toISOString() }, 'Procedure ended')}>
               End procedure
@@ -170,6 +175,8 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
           )}
         </div>
       </header>
+
+      {editingDetails && <RecordDetailsEditor recordId={record.id} values={values} onSave={correctRecord} onClose={() => setEditingDetails(false)} />}
 
       {prompt.due && (
         <div className="record-prompt" role="alert">

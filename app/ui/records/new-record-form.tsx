@@ -1,6 +1,5 @@
 import { useId, useState, type FormEvent } from 'react';
 import type { PlanSummary } from '../../contract/plan-records.js';
-import { airways, circuits, cropStates, tubeTypes } from '../../contract/records.js';
 import { formatMass } from '../../core/units.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -9,9 +8,9 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { toLocalInputValue } from './clock-time.js';
-import { RadioGroup, TextBox } from './fields.js';
 import { useInitialsGate } from './initials-gate.js';
-import { airwayHasTube, airwayLabels, checkRecordDraft, circuitLabels, emptyRecordDraft, tubeTypeLabels, type RecordDraft } from './record-form.js';
+import { RecordDetailsFields } from './record-details-fields.js';
+import { checkRecordDraft, emptyRecordDraft, type RecordDraft } from './record-form.js';
 
 function PatientPicker() {
   const [query, setQuery] = useState('');
@@ -58,7 +57,6 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
   const [failure, setFailure] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const { gate, withInitials } = useInitialsGate();
-  const emergencyId = useId();
 
   function update<K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) {
     setDraft((current) => ({ ...current, [key]: value }));
@@ -126,47 +124,7 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
             }))
           }
         />
-        <TextBox label="Procedure" name="procedureName" value={draft.procedureName} error={errors['procedureName']} autoFocus onChange={(value) => update('procedureName', value)} />
-        <TextBox label="Start" name="startedAt" type="datetime-local" value={draft.startedAtLocal} error={errors['startedAt']} hint="Now unless you change it." onChange={(value) => update('startedAtLocal', value)} />
-        <div className="record-form-pair">
-          <RadioGroup
-            legend="ASA grade"
-            name="asaGrade"
-            options={[{ value: 0, label: 'not graded' }, ...[1, 2, 3, 4, 5].map((grade) => ({ value: grade as RecordDraft['asaGrade'], label: String(grade) }))]}
-            value={draft.asaGrade}
-            error={errors['asaGrade']}
-            onChange={(value) => update('asaGrade', value)}
-          />
-          <div className="field checkbox">
-            <input id={emergencyId} type="checkbox" checked={draft.emergency} onChange={(event) => update('emergency', event.target.checked)} />
-            <label htmlFor={emergencyId}>E: emergency</label>
-          </div>
-        </div>
-        <TextBox label="Fasting" name="fasting" value={draft.fasting} error={errors['fasting']} hint="e.g. 2 h, food removed 08:00" onChange={(value) => update('fasting', value)} />
-        <RadioGroup legend="Crop check" name="cropChecked" options={cropStates.map((value) => ({ value, label: value }))} value={draft.cropChecked} error={errors['cropChecked']} onChange={(value) => update('cropChecked', value)} />
-        <RadioGroup legend="Airway" name="airway" options={airways.map((value) => ({ value, label: airwayLabels[value] }))} value={draft.airway} error={errors['airway']} onChange={(value) => update('airway', value)} />
-        {airwayHasTube(draft.airway) && (
-          <div className="record-form-pair">
-            <TextBox label="Tube size (mm)" name="tubeSizeMm" inputMode="decimal" size={6} value={draft.tubeSizeMm} error={errors['tubeSizeMm']} onChange={(value) => update('tubeSizeMm', value)} />
-            {draft.airway === 'endotracheal' && (
-              <RadioGroup legend="Tube" name="tubeType" options={tubeTypes.map((value) => ({ value, label: tubeTypeLabels[value] }))} value={draft.tubeType} error={errors['tubeType']} onChange={(value) => update('tubeType', value)} />
-            )}
-          </div>
-        )}
-        <RadioGroup legend="Circuit" name="circuit" options={circuits.map((value) => ({ value, label: circuitLabels[value] }))} value={draft.circuit} error={errors['circuit']} onChange={(value) => update('circuit', value)} />
-        <div className="record-form-pair">
-          <TextBox label="Staff initials" name="staffInitials" size={10} value={draft.staffInitials} error={errors['staffInitials']} hint="Who is monitoring." onChange={(value) => update('staffInitials', value)} />
-          <TextBox
-            label="Prompt interval (min)"
-            name="promptIntervalMin"
-            inputMode="decimal"
-            size={4}
-            value={draft.promptIntervalMin}
-            error={errors['promptIntervalMin']}
-            hint="Reminder to log vitals; at least every 5 min is common practice."
-            onChange={(value) => update('promptIntervalMin', value)}
-          />
-        </div>
+        <RecordDetailsFields draft={draft} errors={errors} update={update} />
         {gate}
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>

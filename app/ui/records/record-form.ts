@@ -1,7 +1,7 @@
 import { airways, circuits, cropStates, procedureRecordValuesSchema, tubeTypes, type ProcedureRecordValues } from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
 import { fieldErrorsFrom, type FieldErrors } from '../common/field-errors.js';
-import { fromLocalInputValue } from './clock-time.js';
+import { fromLocalInputValue, toLocalInputValue } from './clock-time.js';
 import { parseNumber } from './entry-form.js';
 import { defaultPromptIntervalMin } from './monitoring.js';
 
@@ -119,4 +119,23 @@ export function airwayText(values: Pick<ProcedureRecordValues, 'airway' | 'tubeS
 export function asaText(values: Pick<ProcedureRecordValues, 'asaGrade' | 'emergency'>): string {
   if (values.asaGrade === null) return values.emergency ? 'not graded (E)' : 'not graded';
   return `${values.asaGrade}${values.emergency ? 'E' : ''}`;
+}
+
+/** The form for correcting a record's details, filled from its current values. */
+export function recordToDraft(values: ProcedureRecordValues): RecordDraft {
+  return {
+    procedureName: values.procedureName,
+    startedAtLocal: toLocalInputValue(new Date(values.startedAt)),
+    asaGrade: (values.asaGrade ?? 0) as RecordDraft['asaGrade'],
+    emergency: values.emergency,
+    fasting: values.fasting,
+    cropChecked: values.cropChecked,
+    airway: values.airway,
+    tubeSizeMm: values.tubeSizeMm === null ? '' : String(values.tubeSizeMm),
+    tubeType: values.tubeType,
+    circuit: values.circuit,
+    staffInitials: values.staffInitials,
+    promptIntervalMin: String(values.promptIntervalMin),
+    planId: values.planId,
+  };
 }

@@ -1,0 +1,79 @@
+import { useState, type FormEvent } from 'react';
+import type { ProcedureRecordValues } from '../../contract/records.js';
+import { displayDateTime } from '../common/display.js';
+import type { FieldErrors } from '../common/field-errors.js';
+import { useChannel } from '../common/use-channel.js';
+import { TextBox } from './fields.js';
+import { RecordDetailsFields } from './record-details-fields.js';
+import { airwayText, asaText, checkRecordDraft, recordToDraft, type RecordDraft } from './record-form.js';
+
+type Props = {
+  readonly recordId: number;
+  readonly values: ProcedureRecordValues;
+  readonly onSave: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+  readonly onClose: () => void;
+};
+
+/**
+ * Corrects a record's details (procedure, ASA grade, airway, ...) as a new version with a
+ * reason; the earlier versions stay listed below it.
+ */
+export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props) {
+  const [draft, setDraft] = useState<RecordDraft>(() => recordToDraft(values));
+  const [reason, setReason] = useState('');
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [failure, setFailure] = useState<string | null>(null);
+  const [history, reloadHistory] = useChannel('procedures:history', { id: recordId });
+
+  function update<K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) {
+    setDraft((current) => ({ ...current, [key]: value }));
+  }
+
+  async function submit(event: FormEvent) {
+    event.preventDefault();
+    const checked = checkRecordDraft(draft);
+    const found: Record<string, string> = checked.ok ? {} : { ...checked.errors };
+    if (reason.trim() === '') found['reason'] = 'Say why the record is corrected; the reason is kept with the history.';
+    if (!checked.ok || Object.keys(found).length > 0) {
+      setErrors(found);
+      return;
+    }
+    setErrors({});
+    const message = await onSave({ ...checked.values, endedAt: values.endedAt }, reason.trim());
+    setFailure(message);
+    if (message === null) {
+      setReason('');
+      reloadHistory();
+    }
+  }
+
+  return (
+    <section className="panel record-details-editor" aria-labelledby="record-details-title">
+      <h2 id="record-details-title">Correct the record’s details</h2>
+      <form className="form record-new-form" noValidate onSubmit={(event) => void submit(event)}>
+        <RecordDetailsFields draft={draft} errors={errors} update={update} />
+        <TextBox label="Reason for the correction" name="reason" value={reason} error={errors['reason']} onChange={setReason} />
+        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        <div className="form-actions">
+          <button type="submit" className="primary">
+            Save correction
+          </button>
+          <button type="button" onClick={onClose}>
+            Close
+          </button>
+        </div>
+      </form>
+      <h3>History of the details</h3>
+      {history.state === 'ready' && (
+        <ol className="history" aria-label="History of the record's details">
+          {history.value.map((version) => (
+            <li key={version.stamp.versionId}>
+              {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
+              {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · {version.values.procedureName}, ASA {asaText(version.values)}, {airwayText(version.values)}, staff {version.values.staffInitials}
+            </li>
+          ))}
+        </ol>
+      )}
+    </section>
+  );
+}
