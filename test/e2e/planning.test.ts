@@ -105,6 +105,8 @@ describe('planning from a patient in headless Chromium', () => {
 
     await page.goto(`${host.origin}/#/plans`);
     await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
+    await page.getByRole('link', { name: new RegExp(`^${newId} · crop biopsy$`) }).waitFor();
+    await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(/Day total: [\d.]+ mL liquid isoflurane and [\d.]+ L oxygen/);
     await shoot(page, '42-day-list');
 
     // A procedure record that follows the plan shows the plan's predicted curve beside the log.
