@@ -34,7 +34,7 @@ const armRedrawTimer = `
 /**
  * Keystroke to redrawn chart on the planning screen, in headless Chromium against the loopback
  * host: the time from a keydown in the induction dial box to the next draw of the predicted
- * curves (the chart counts its draws in `data-drawn`). The model runs in a Web Worker.
+ * curves (the chart counts its draws in `data-drawn`).
  */
 export async function benchPlanningScreen(): Promise<Figure[]> {
   const root = findProjectRoot();
@@ -66,7 +66,7 @@ export async function benchPlanningScreen(): Promise<Figure[]> {
       if (Number.isFinite(elapsed)) timings.push(elapsed);
     }
     return [
-      { name: `keystroke to redrawn chart, median of ${timings.length}`, value: median(timings), unit: 'ms', note: 'model in a Web Worker, quick run without uncertainty samples first' },
+      { name: `keystroke to redrawn chart, median of ${timings.length}`, value: median(timings), unit: 'ms', note: 'quick breath-resolved run during the render; the uncertainty run in a Web Worker after typing pauses' },
       { name: 'keystroke to redrawn chart, 90th percentile', value: quantile(timings, 0.9), unit: 'ms' },
       { name: 'keystrokes without a redraw within 5 s', value: keystrokes - timings.length, unit: '' },
     ];

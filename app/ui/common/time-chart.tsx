@@ -36,6 +36,7 @@ type Props = {
 export function TimeChart({ x, xLabel, series, axes, height = 260, title, summary }: Props) {
   const host = useRef<HTMLDivElement | null>(null);
   const plot = useRef<uPlot | null>(null);
+
   const shape = JSON.stringify({ labels: series.map((item) => [item.label, item.scale, item.stroke, item.dash, item.bandTo]), axes, title, height });
 
   useEffect(() => {

@@ -1,5 +1,6 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import type { PlanInput } from '../../contract/plan.js';
+import { computePlan } from '../../core/model/compute-plan.js';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import type { SpeciesReference } from '../../core/species-reference.js';
 import { draftToInput, type DraftProblems, type PlanDraft } from './plan-draft.js';
@@ -15,75 +16,74 @@ export type Computation = {
   /** The plan input of the full run (with uncertainty), as it would be saved. */
   readonly input: PlanInput | null;
   readonly result: PlanResult | null;
-  /** True while the shown result is older than the form or still lacks its uncertainty run. */
+  /** True while the shown result still lacks the uncertainty run for the current inputs. */
   readonly pending: boolean;
   readonly failure: string | null;
-  readonly computeMs: number | null;
 };
 
-type Answer = { id: number; result?: PlanResult; error?: string; computeMs?: number };
-type Shown = { result: PlanResult | null; key: string; full: boolean; failure: string | null; computeMs: number | null };
+type Answer = { id: number; result?: PlanResult; error?: string };
+type FullAnswer = { result: PlanResult | null; key: string; failure: string | null };
 
 let nextId = 1;
 
-function planWorker(): Worker {
-  return new Worker(new URL('./plan-worker.ts', import.meta.url), { type: 'module' });
+function quickRun(input: PlanInput, species: readonly SpeciesReference[]): { result: PlanResult } | { failure: string } {
+  try {
+    return { result: computePlan(input, { species }) };
+  } catch (error) {
+    return { failure: error instanceof Error ? error.message : String(error) };
+  }
 }
 
 /**
- * Recomputes the plan whenever the draft changes. A quick run without uncertainty samples redraws
- * the curves at once; the full run with them follows once typing pauses. The two run in separate
- * workers so a keystroke never waits behind a full run. The newest answer wins.
+ * Recomputes the plan whenever the draft changes. The quick run without uncertainty samples
+ * (a few milliseconds, breath-resolved) runs during the render so the curves redraw with the
+ * keystroke; the full run with the uncertainty samples runs in a Web Worker once typing pauses,
+ * so typing never waits for it.
  */
 export function usePlanComputation(draft: PlanDraft, species: readonly SpeciesReference[], enabled = true): Computation {
-  const workers = useRef<{ quick: Worker; full: Worker } | null>(null);
-  const requests = useRef(new Map<number, { key: string; full: boolean }>());
-  const newest = useRef({ quick: 0, full: 0 });
-  const [shown, setShown] = useState<Shown>({ result: null, key: '', full: false, failure: null, computeMs: null });
-  const quick = useMemo(() => draftToInput(draft, 0), [draft]);
-  const full = useMemo(() => draftToInput(draft, fullUncertaintySamples), [draft]);
-  const fullKey = useMemo(() => ('input' in full ? JSON.stringify(full.input) : ''), [full]);
+  const worker = useRef<Worker | null>(null);
+  const newestFull = useRef(0);
+  const requestKeys = useRef(new Map<number, string>());
+  const [full, setFull] = useState<FullAnswer>({ result: null, key: '', failure: null });
+  const quickInput = useMemo(() => draftToInput(draft, 0), [draft]);
+  const fullInput = useMemo(() => draftToInput(draft, fullUncertaintySamples), [draft]);
+  const fullKey = useMemo(() => ('input' in fullInput ? JSON.stringify(fullInput.input) : ''), [fullInput]);
+  const quick = useMemo(() => (enabled && 'input' in quickInput ? quickRun(quickInput.input, species) : null), [enabled, quickInput, species]);
 
   useEffect(() => {
-    const created = { quick: planWorker(), full: planWorker() };
-    workers.current = created;
-    const onAnswer = (event: MessageEvent<Answer>) => {
+    const created = new Worker(new URL('./plan-worker.ts', import.meta.url), { type: 'module' });
+    worker.current = created;
+    created.onmessage = (event: MessageEvent<Answer>) => {
       const answer = event.data;
-      const request = requests.current.get(answer.id);
-      requests.current.delete(answer.id);
-      if (request === undefined) return;
-      const { quick: quickId, full: fullId } = newest.current;
-      if (answer.id !== quickId && answer.id !== fullId) return;
-      setShown((current) => {
-        // A quick answer never replaces the full answer for the same inputs.
-        if (!request.full && current.full && current.key === request.key) return current;
-        return { result: answer.result ?? current.result, key: request.key, full: request.full, failure: answer.error ?? null, computeMs: answer.computeMs ?? null };
-      });
+      const key = requestKeys.current.get(answer.id);
+      requestKeys.current.delete(answer.id);
+      if (key === undefined || answer.id !== newestFull.current) return;
+      setFull({ result: answer.result ?? null, key, failure: answer.error ?? null });
     };
-    created.quick.onmessage = onAnswer;
-    created.full.onmessage = onAnswer;
     return () => {
-      created.quick.terminate();
-      created.full.terminate();
-      workers.current = null;
+      created.terminate();
+      worker.current = null;
     };
   }, []);
 
   useEffect(() => {
-    const target = workers.current;
-    if (!enabled || target === null || !('input' in quick) || !('input' in full)) return undefined;
-    const quickId = nextId++;
-    const fullId = nextId++;
-    newest.current = { quick: quickId, full: fullId };
-    requests.current.set(quickId, { key: fullKey, full: false });
-    requests.current.set(fullId, { key: fullKey, full: true });
-    target.quick.postMessage({ id: quickId, input: quick.input, species });
-    const timer = window.setTimeout(() => target.full.postMessage({ id: fullId, input: full.input, species }), fullRunDelayMs);
+    const target = worker.current;
+    if (!enabled || target === null || !('input' in fullInput)) return undefined;
+    const timer = window.setTimeout(() => {
+      const id = nextId++;
+      newestFull.current = id;
+      requestKeys.current.set(id, fullKey);
+      target.postMessage({ id, input: fullInput.input, species });
+    }, fullRunDelayMs);
     return () => window.clearTimeout(timer);
-  }, [quick, full, fullKey, species, enabled]);
+  }, [fullInput, fullKey, species, enabled]);
 
-  const problems = 'problems' in quick ? quick.problems : {};
-  const input = 'input' in full ? full.input : null;
-  const pending = input !== null && (shown.key !== fullKey || !shown.full);
-  return { problems, input, result: shown.result, pending, failure: shown.failure, computeMs: shown.computeMs };
+  const problems = 'problems' in quickInput ? quickInput.problems : {};
+  const input = 'input' in fullInput ? fullInput.input : null;
+  const fullIsCurrent = input !== null && full.key === fullKey;
+  const quickResult = quick !== null && 'result' in quick ? quick.result : null;
+  // While the form has an error, the last full result stays on view, marked as pending.
+  const result = fullIsCurrent && full.result !== null ? full.result : (quickResult ?? full.result);
+  const failure = quick !== null && 'failure' in quick ? quick.failure : fullIsCurrent ? full.failure : null;
+  return { problems, input, result, pending: input === null || !fullIsCurrent, failure };
 }
