@@ -7,7 +7,7 @@ import type { AgentId } from '../agents.js';
 import type { CylinderSpec } from '../budget/oxygen.js';
 import type { Circuit, Route } from '../budget/flows.js';
 import type { Caution } from '../cautions.js';
-import type { Estimate, MeasuredOverrides } from './allometry.js';
+import type { MeasuredOverrides, RespiratoryEstimates } from './allometry.js';
 
 export type PlanVentilation =
   | { readonly mode: 'spontaneous' }
@@ -46,18 +46,8 @@ export type PlanInput = {
   readonly uncertainty?: { readonly samples: number; readonly seed: number } | undefined;
 };
 
-export type PlanEstimates = {
-  readonly tidalVolumeMl: Estimate;
-  readonly breathsPerMin: Estimate;
-  readonly minuteVentilationMlMin: Estimate;
-  readonly trachealDeadSpaceMl: Estimate;
-  readonly lungVolumeMl: Estimate;
-  readonly anteriorSacsMl: Estimate;
-  readonly posteriorSacsMl: Estimate;
-  readonly airSacVolumeMl: Estimate;
-  readonly heartRatePerMin: Estimate;
-  readonly cardiacOutputMlMin: Estimate;
-};
+/** The bird's estimates as the plan reports them: the allometry's, each with its basis. */
+export type PlanEstimates = RespiratoryEstimates;
 
 export type PlanTimeline = {
   readonly sampleIntervalMin: number;
