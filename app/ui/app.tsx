@@ -1,20 +1,18 @@
-import { lazy, Suspense, useEffect, useState } from 'react';
+import { useEffect, useState } from 'react';
 import type { SafetyStatus } from '../contract/safety.js';
 import type { StoredSettings } from '../contract/settings.js';
 import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
+import { PatientsArea } from './patients/patients-area.js';
+import { PlansArea } from './plans/plans-area.js';
+import { RecordsArea } from './records/records-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
 import { SettingsScreen } from './settings/settings-screen.js';
 import { routeFromHash, type Route } from './shell/areas.js';
 import { Shell } from './shell/shell.js';
-// Each area loads when first opened, so the first screen (and a printed worksheet) starts quickly.
-
-const PatientsArea = lazy(() => import('./patients/patients-area.js').then((module) => ({ default: module.PatientsArea })));
-const PlansArea = lazy(() => import('./plans/plans-area.js').then((module) => ({ default: module.PlansArea })));
-const RecordsArea = lazy(() => import('./records/records-area.js').then((module) => ({ default: module.RecordsArea })));
-const SpeciesArea = lazy(() => import('./species/species-area.js').then((module) => ({ default: module.SpeciesArea })));
-const WorksheetsArea = lazy(() => import('./worksheets/worksheets-area.js').then((module) => ({ default: module.WorksheetsArea })));
+import { SpeciesArea } from './species/species-area.js';
+import { WorksheetsArea } from './worksheets/worksheets-area.js';
 
 function useRoute(): Route {
   const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
@@ -91,9 +89,7 @@ export function App() {
               }}
             />
           ) : (
-            <Suspense fallback={<p aria-busy="true">Loading…</p>}>
-              <AreaContent route={shown} />
-            </Suspense>
+            <AreaContent route={shown} />
           )}
         </Shell>
       </SettingsContext.Provider>
