@@ -19,24 +19,11 @@ import { simulate, type ScheduleStep } from '../../app/core/model/simulation.js'
 import { runUncertainty } from '../../app/core/model/uncertainty.js';
 import { agents } from '../../app/core/agents.js';
 import { speciesReference } from '../../app/core/species-reference.js';
+import { twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
+import { median } from './figures.js';
 
-const benchPlan: PlanInput = {
-  bodyMassG: 30,
-  agent: 'isoflurane',
-  route: 'mask',
-  freshGasLpm: 1,
-  schedule: [
-    { atMin: 0, vaporPct: 4 },
-    { atMin: 10, vaporPct: 2 },
-    { atMin: 90, vaporPct: 0 },
-  ],
-};
-
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const middle = Math.floor(sorted.length / 2);
-  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
-}
+// The test fixture's 2-h plan, with the default uncertainty run for the whole-plan figure.
+const benchPlan: PlanInput = { ...twoHourBudgerigarPlan, uncertainty: undefined };
 
 /** Median wall-clock and process CPU time (user + system) of `runs` calls, in ms. */
 function timeRuns(runs: number, body: () => void): { wallMs: number; cpuMs: number } {

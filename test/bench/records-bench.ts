@@ -1,3 +1,4 @@
+import { seededRandom } from '../../app/core/model/uncertainty.js';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -13,18 +14,6 @@ import { median, quantile, type Figure } from './figures.js';
 const entryWrites = 400;
 const patientCount = 50_000;
 const searchRepeats = 40;
-
-/** mulberry32: the same generated clinic on every run. */
-function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const syllables = ['ki', 'wi', 'pe', 'ro', 'sa', 'mu', 'lo', 'ta', 'bi', 'zu', 'ne', 'po', 'ri', 'ca', 'do', 'fe', 'ga', 'ho', 'ju', 'ly'];
 const speciesKeys = ['zebrafinch', 'canary', 'budgerigar', 'lovebird', 'cockatiel', 'sunconure', 'africangrey', 'amazon', 'macaw', 'cockatoo', 'pigeon', 'chicken', 'duck', 'harrishawk', 'barnowl'];

@@ -1,3 +1,4 @@
+import { seededRandom } from '../../app/core/model/uncertainty.js';
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -8,18 +9,6 @@ import { addPatientAndRecord, fixtureFolder, type Fixture } from './support/reco
 
 const writerScript = path.join(path.dirname(fileURLToPath(import.meta.url)), 'support', 'crash-writer.mjs');
 const runs = 20;
-
-/** mulberry32: a small seeded generator, so that a failing kill schedule can be replayed. */
-function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 type WriterRun = { reportedIds: number[]; stderr: string; signal: NodeJS.Signals | null };
 
