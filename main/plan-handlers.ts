@@ -49,6 +49,8 @@ export function createPlanHandlers(db: SyrinxDatabase, now: () => Date): PlanHan
       oxygenL: plan.result.oxygen.usedL,
       inductionMin: plan.result.milestones.inductionMin,
       openChecklistItems: openItems(plan),
+      asaGrade: plan.checklist.asaGrade,
+      emergency: plan.checklist.emergency,
     };
   }
 

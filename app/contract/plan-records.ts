@@ -74,6 +74,8 @@ export const planSummarySchema = z.object({
   oxygenL: z.number(),
   inductionMin: z.number().nullable(),
   openChecklistItems: z.number().int(),
+  asaGrade: z.number().int().nullable(),
+  emergency: z.boolean(),
 });
 export type PlanSummary = z.infer<typeof planSummarySchema>;
 

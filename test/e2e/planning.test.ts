@@ -114,6 +114,8 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByRole('heading', { name: 'New procedure record' }).waitFor();
     await page.getByLabel('Linked plan').selectOption(String(newId));
     await expect(page.getByLabel('Procedure', { exact: true }).inputValue()).resolves.toBe('crop biopsy');
+    // The ASA grade comes from the plan's checklist.
+    await expect(page.getByRole('radio', { name: '2', exact: true }).isChecked()).resolves.toBe(true);
     await page.getByLabel('Non-rebreathing system').check();
     await page.getByLabel('Staff initials').fill('RW');
     await page.getByRole('button', { name: 'Start procedure record' }).click();
@@ -126,14 +128,14 @@ describe('planning from a patient in headless Chromium', () => {
     // Correcting the record's details keeps the earlier version with who, when and why.
     await page.getByRole('button', { name: 'Correct details' }).click();
     const editor = page.getByRole('region', { name: 'Correct the record’s details' });
-    await editor.getByRole('radio', { name: '2', exact: true }).check();
+    await editor.getByRole('radio', { name: '3', exact: true }).check();
     await editor.getByRole('button', { name: 'Save correction' }).click();
     await editor.getByText('Say why the record is corrected; the reason is kept with the history.').waitFor();
-    await editor.getByLabel('Reason for the correction').fill('ASA grade from the plan checklist');
+    await editor.getByLabel('Reason for the correction').fill('Regraded after the crop examination');
     await editor.getByRole('button', { name: 'Save correction' }).click();
     await expect.poll(() => editor.getByRole('list', { name: "History of the record's details" }).locator('li').count(), { timeout: 10_000 }).toBe(2);
-    expect(await editor.getByRole('list', { name: "History of the record's details" }).locator('li').first().innerText()).toMatch(/why: ASA grade from the plan checklist · crop biopsy, ASA 2/);
-    await expect(page.locator('.record-facts').innerText()).resolves.toContain('ASA 2');
+    expect(await editor.getByRole('list', { name: "History of the record's details" }).locator('li').first().innerText()).toMatch(/why: Regraded after the crop examination · crop biopsy, ASA 3/);
+    await expect(page.locator('.record-facts').innerText()).resolves.toContain('ASA 3');
     expect(problems).toEqual([]);
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
     await page.close();

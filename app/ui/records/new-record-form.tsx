@@ -120,6 +120,8 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
                 : {
                     airway: current.airway === '' ? (plan.route as RecordDraft['airway']) : current.airway,
                     procedureName: current.procedureName === '' ? plan.label : current.procedureName,
+                    // The ASA grade given in the plan's checklist, unless one is chosen here.
+                    ...(current.asaGrade === 0 && plan.asaGrade !== null ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency } : {}),
                   }),
             }))
           }
