@@ -1,21 +1,9 @@
 import { z } from 'zod';
 import { planInputSchema, planResultSchema } from './plan.js';
+import { checklistStates } from './checklist.js';
 import { patientSchema, recordStampSchema, speciesSchema } from './records.js';
 
-/** State of one pre-anaesthetic checklist item. */
-export const checklistStates = ['open', 'done', 'not applicable'] as const;
-
-export const checklistItems = [
-  { key: 'fastingAndCrop', label: 'Fasting and crop check' },
-  { key: 'hydration', label: 'Hydration assessed' },
-  { key: 'bloods', label: 'Bloods (if taken) reviewed' },
-  { key: 'equipmentLeakCheck', label: 'Equipment leak check' },
-  { key: 'oxygenSupply', label: 'Oxygen supply checked' },
-  { key: 'scavenging', label: 'Scavenging connected' },
-  { key: 'emergencyCard', label: 'Emergency card ready' },
-] as const;
-
-export type ChecklistKey = (typeof checklistItems)[number]['key'];
+export { checklistItems, checklistStates, type ChecklistKey } from './checklist.js';
 
 const itemState = z.enum(checklistStates).default('open');
 

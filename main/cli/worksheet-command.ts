@@ -1,28 +1,16 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser } from 'playwright-core';
-import { DatabaseTooNewError } from '../../db/connection.js';
-import { startBackEnd, type BackEnd } from '../back-end.js';
+import type { BackEnd } from '../back-end.js';
+import type { Dispatcher } from '../handlers.js';
 import { startLoopbackHost, type LoopbackHost } from '../loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../project-paths.js';
 import { dataLocation, errorText, parseArguments, UsageError, type CommandIo } from './command-io.js';
+import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
 
 export const worksheetUsage =
   'Usage: syrinx worksheet --plan ID --out FILE.pdf [--data DIR]\n' +
   '  Renders the printable worksheet of saved plan ID from the clinic database in DIR (default: the usual data folder) to a PDF, with headless Chromium\n' +
   '  (CHROMIUM_PATH, else /usr/bin/chromium), on the paper size chosen in Settings.';
-
-/** Flags for headless Chromium, the same as the project's end-to-end tests use. */
-export const chromiumArguments = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--disable-dev-shm-usage',
-] as const;
 
 export type WorksheetCommandOptions = {
   /** Environment to read CHROMIUM_PATH from; the process's own by default. */
@@ -82,17 +70,59 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
   }
 
   const root = findProjectRoot();
+  const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
+  if (!fs.existsSync(executablePath)) {
+    io.stderr(`syrinx worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`);
+    return 1;
+  }
+  const renderer = rendererDirectory(root);
+  if (!fs.existsSync(path.join(renderer, 'print.html'))) {
+    io.stderr(`syrinx worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`);
+    return 1;
+  }
+
+  const started = performance.now();
   let backEnd: BackEnd | null = null;
   let host: LoopbackHost | null = null;
-  let browser: Browser | null = null;
+  let printing: Promise<Buffer> | null = null;
+  const stopPrinting = new AbortController();
+  // The page's requests wait here until the database is open.
+  let openBackEnd: (backEnd: BackEnd) => void = () => undefined;
+  let backEndFailed: () => void = () => undefined;
+  const backEndOpen = new Promise<BackEnd>((resolve, reject) => {
+    openBackEnd = resolve;
+    backEndFailed = () => reject(new Error('the database could not be opened'));
+  });
+  backEndOpen.catch(() => undefined);
+  const dispatch: Dispatcher = async (channel, payload) => {
+    try {
+      return await (await backEndOpen).dispatch(channel, payload);
+    } catch {
+      return { ok: false, error: { code: 'internal', message: 'The clinic database could not be opened.' } };
+    }
+  };
   const temporary = path.join(path.dirname(outFile), `.${path.basename(outFile)}.${process.pid}.partial`);
   try {
+    // Chromium takes about half a second to start: start it on the worksheet's address first,
+    // and open the database (which takes a few hundred milliseconds to load) while it starts.
+    host = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch });
+    // The worksheet alone (print.html), with the token query before the hash: the page keeps
+    // the token and drops it from the address.
+    const page = new URL(host.url);
+    page.pathname = '/print.html';
+    page.hash = `#/worksheets/${planId}`;
+    io.stderr(`worksheet: rendering plan ${planId} with ${executablePath}\n`);
+    printing = printPageToPdf({ executablePath, url: page.href, readySelector: '.worksheet[data-ready="true"]', timeoutMs: options.readyTimeoutMs ?? 20_000, signal: stopPrinting.signal });
+    printing.catch(() => undefined);
+
     io.stderr(`worksheet: opening ${location.databaseFile}\n`);
+    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([import('../back-end.js'), import('../../db/connection.js')]);
     try {
       backEnd = startBackEnd({ dataDirectory: location.dataDirectory, appVersion: readAppVersion(root), host: 'browser' });
     } catch (error) {
       throw new Refusal(error instanceof DatabaseTooNewError ? error.message : `the database could not be opened: ${errorText(error)}`);
     }
+    openBackEnd(backEnd);
     const detail = await backEnd.dispatch('plans:get', { id: planId });
     if (!detail.ok) throw new Refusal(detail.error.code === 'not-found' ? `there is no plan ${planId} in ${location.databaseFile}.` : detail.error.message);
     const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
@@ -102,30 +132,16 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     const settings = await check<{ settings: unknown }>(backEnd, 'settings:get', {});
     if (settings.settings === null) throw new Refusal('the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.');
 
-    const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-    if (!fs.existsSync(executablePath)) {
-      throw new Refusal(`no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable.`);
-    }
-    const renderer = rendererDirectory(root);
-    if (!fs.existsSync(path.join(renderer, 'index.html'))) throw new Refusal(`the app's pages are not built (no ${path.join(renderer, 'index.html')}); run \`npm run build\` first.`);
-
-    const started = performance.now();
-    host = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch: backEnd.dispatch });
-    io.stderr(`worksheet: rendering plan ${planId} with ${executablePath}\n`);
-    browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
-    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
-    const problems: string[] = [];
-    page.on('pageerror', (error) => problems.push(error.message));
-    // The token query must come before the hash: the page keeps it and drops it from the address.
-    await page.goto(`${host.url}#/worksheets/${planId}`);
+    let pdf: Buffer;
     try {
-      await page.locator('.worksheet[data-ready="true"]').waitFor({ timeout: options.readyTimeoutMs ?? 20_000 });
-    } catch {
-      const shown = (await page.locator('[role="alert"]').allTextContents()).join(' ');
-      throw new Refusal(`the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${problems.length === 0 ? '' : ` (page errors: ${problems.join('; ')})`}. Nothing was written.`);
+      pdf = await printing;
+    } catch (error) {
+      if (!(error instanceof PageNotReadyError)) throw error;
+      const shown = error.alerts.join(' ');
+      throw new Refusal(`the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${error.pageErrors.length === 0 ? '' : ` (page errors: ${error.pageErrors.join('; ')})`}. Nothing was written.`);
     }
     io.stderr('worksheet: writing PDF\n');
-    await page.pdf({ path: temporary, preferCSSPageSize: true, printBackground: true });
+    fs.writeFileSync(temporary, pdf);
     fs.renameSync(temporary, outFile);
     const sizeBytes = fs.statSync(outFile).size;
     io.stdout(`Wrote the worksheet of plan ${planId} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`);
@@ -139,7 +155,9 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     io.stderr(`syrinx worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`);
     return 1;
   } finally {
-    await browser?.close();
+    backEndFailed();
+    stopPrinting.abort();
+    await printing?.catch(() => undefined);
     await host?.close();
     backEnd?.close();
   }

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { chromium } from 'playwright-core';
 import { startBackEnd } from '../../main/back-end.js';
-import { chromiumArguments } from '../../main/cli/worksheet-command.js';
+import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { startLoopbackHost } from '../../main/loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/project-paths.js';
 import { median, quantile, type Figure } from './figures.js';
