@@ -16,3 +16,14 @@ export function minutes(value: number | null | undefined, notReached = 'not reac
 export function range(percentiles: { p5: number; p95: number } | null | undefined): string {
   return percentiles === null || percentiles === undefined ? 'range not available' : `${figure(percentiles.p5, 2)}-${figure(percentiles.p95, 2)} min`;
 }
+
+/** Plain names of the waste-gas sources the budget reports (`source` in the plan result). */
+const wasteGasSourceLabels: Readonly<Record<string, string>> = {
+  maskLeak: 'Mask leak',
+  chamberOpened: 'Chamber opened',
+  exhaust: 'Breathing-system exhaust reaching the room',
+};
+
+export function wasteGasSourceLabel(source: string): string {
+  return wasteGasSourceLabels[source] ?? source;
+}

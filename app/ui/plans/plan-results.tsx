@@ -1,7 +1,7 @@
 import { memo, type ReactNode } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { EstimateList } from './estimate-list.js';
-import { figure, minutes, range } from './format.js';
+import { figure, minutes, range, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
 
 type Props = {
@@ -145,7 +145,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
         <ul className="compact">
           {waste.sources.map((source) => (
             <li key={source.source}>
-              {source.source}: {figure(source.vapourMl)} mL<span className="basis">{source.basis}</span>
+              {wasteGasSourceLabel(source.source)}: {figure(source.vapourMl)} mL of vapour<span className="basis">{source.basis}</span>
             </li>
           ))}
         </ul>
