@@ -1,20 +1,10 @@
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { temporaryFolder } from '../support/temporary-folder.js';
-import { ensureScreenshotFolder, launchChromium, startHostProcess } from './host-process.js';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
-let browser: Browser;
+const session = sharedBrowser('syrinx-e2e-');
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('syrinx-e2e-');
-
-beforeAll(async () => {
-  browser = await launchChromium();
-});
-afterAll(async () => {
-  await browser.close();
-  data.remove();
-});
 
 async function shoot(page: Page, name: string) {
   await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
@@ -22,8 +12,8 @@ async function shoot(page: Page, name: string) {
 
 describe('first run, settings and restart in headless Chromium', () => {
   it('walks a new clinic through the cautions and settings, and keeps them after a restart', async () => {
-    const host = await startHostProcess(data.folder);
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const host = await startHostProcess(session.dataFolder);
+    const page = await session.browser.newPage({ viewport: { width: 1280, height: 800 } });
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
     page.on('console', (message) => {
@@ -77,8 +67,8 @@ describe('first run, settings and restart in headless Chromium', () => {
       await host.stop();
     }
 
-    const again = await startHostProcess(data.folder);
-    const page2 = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const again = await startHostProcess(session.dataFolder);
+    const page2 = await session.browser.newPage({ viewport: { width: 1280, height: 800 } });
     try {
       await page2.goto(again.url);
       await page2.getByRole('heading', { name: 'Patients' }).waitFor();

@@ -99,20 +99,17 @@ export async function callBridge<T = unknown>(page: import('playwright-core').Pa
 }
 
 /**
- * One headless Chromium and one loopback host on a fresh data folder for a test file, started
- * before its tests and stopped after them.
+ * One headless Chromium and a fresh data folder for a test file, started before its tests and
+ * removed after them; for files that start (and restart) their own host.
  */
-export function sharedHost(prefix: string): { readonly browser: Browser; readonly host: RunningHost; readonly dataFolder: string } {
+export function sharedBrowser(prefix: string): { readonly browser: Browser; readonly dataFolder: string } {
   const data = temporaryFolder(prefix);
   let browser: Browser | null = null;
-  let host: RunningHost | null = null;
   beforeAll(async () => {
     browser = await launchChromium();
-    host = await startHostProcess(data.folder);
   });
   afterAll(async () => {
     await browser?.close();
-    await host?.stop();
     data.remove();
   });
   return {
@@ -120,10 +117,31 @@ export function sharedHost(prefix: string): { readonly browser: Browser; readonl
       if (browser === null) throw new Error('Chromium is not started yet');
       return browser;
     },
+    dataFolder: data.folder,
+  };
+}
+
+/**
+ * One headless Chromium and one loopback host on a fresh data folder for a test file, started
+ * before its tests and stopped after them.
+ */
+export function sharedHost(prefix: string): { readonly browser: Browser; readonly host: RunningHost; readonly dataFolder: string } {
+  const session = sharedBrowser(prefix);
+  let host: RunningHost | null = null;
+  beforeAll(async () => {
+    host = await startHostProcess(session.dataFolder);
+  });
+  afterAll(async () => {
+    await host?.stop();
+  });
+  return {
+    get browser() {
+      return session.browser;
+    },
     get host() {
       if (host === null) throw new Error('The host is not started yet');
       return host;
     },
-    dataFolder: data.folder,
+    dataFolder: session.dataFolder,
   };
 }

@@ -1,22 +1,12 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import type { Browser, Locator, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Locator, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { procedureCsvHeaders } from '../../app/core/procedure-csv.js';
-import { temporaryFolder } from '../support/temporary-folder.js';
-import { ensureScreenshotFolder, launchChromium, startHostProcess } from './host-process.js';
+import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
-let browser: Browser;
+const session = sharedBrowser('syrinx-e2e-record-');
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('syrinx-e2e-record-');
-
-beforeAll(async () => {
-  browser = await launchChromium();
-});
-afterAll(async () => {
-  await browser.close();
-  data.remove();
-});
 
 async function shoot(page: Page, name: string) {
   await page.screenshot({ path: path.join(shots, `1x-record-${name}.png`), fullPage: true });
@@ -96,8 +86,8 @@ async function typeRow(page: Page, entryForm: Locator, time: string, readings: r
 
 describe('procedure record screens in headless Chromium', () => {
   it('starts a record, logs rows and events by keyboard, corrects and voids rows, and exports the CSV', async () => {
-    const host = await startHostProcess(data.folder);
-    const page = await browser.newPage({ viewport: { width: 1366, height: 768 }, acceptDownloads: true });
+    const host = await startHostProcess(session.dataFolder);
+    const page = await session.browser.newPage({ viewport: { width: 1366, height: 768 }, acceptDownloads: true });
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
     page.on('console', (message) => {
