@@ -61,6 +61,8 @@ describe('planning from a patient in headless Chromium', () => {
     await table.waitFor();
     await expect.poll(async () => table.locator('tr[data-differs="true"]').count(), { timeout: 15_000 }).toBeGreaterThan(2);
     expect(await table.locator('tr').filter({ has: page.getByRole('rowheader', { name: 'Agent', exact: true }) }).getAttribute('data-differs')).toBe('true');
+    const routeRow = table.locator('tr').filter({ has: page.getByRole('rowheader', { name: 'Route', exact: true }) });
+    await expect(routeRow.innerText()).resolves.toMatch(/Face mask\s+Face mask/);
     await shoot(page, '41-planning-compare');
     await page.getByRole('button', { name: 'Stop comparing' }).click();
 
@@ -111,6 +113,7 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
     await page.getByRole('link', { name: new RegExp(`^${newId} · crop biopsy$`) }).waitFor();
     await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(/Day total: [\d.]+ mL liquid isoflurane and [\d.]+ L oxygen/);
+    await expect(page.getByRole('table').first().innerText()).resolves.toContain('Isoflurane, face mask');
     await shoot(page, '42-day-list');
 
     // A procedure record that follows the plan shows the plan's predicted curve beside the log.

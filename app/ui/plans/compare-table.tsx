@@ -1,16 +1,23 @@
 import type { PlanInput } from '../../contract/plan.js';
 import type { PlanResult } from '../../core/model/plan-types.js';
+import { agents } from '../../core/agents.js';
+import { circuitLabels, routeLabels } from '../common/plan-labels.js';
 import { figure, minutes, range } from './format.js';
 
 type Row = { readonly label: string; readonly a: string; readonly b: string };
 
+/** A chamber has no breathing system; an air-sac tube always runs on a non-rebreathing system. */
+function breathingSystem(input: PlanInput): string {
+  return input.route === 'chamber' ? '—' : circuitLabels[input.circuit ?? 'nonRebreathing'];
+}
+
 function inputRows(a: PlanInput, b: PlanInput): Row[] {
   const schedule = (input: PlanInput) => input.schedule.map((step) => `${step.vaporPct} % from ${step.atMin} min`).join(', ');
-  const ventilation = (input: PlanInput) => (input.ventilation?.mode === 'ippv' ? `IPPV ${input.ventilation.breathsPerMin}/min × ${input.ventilation.tidalVolumeMl} mL` : 'spontaneous');
+  const ventilation = (input: PlanInput) => (input.ventilation?.mode === 'ippv' ? `IPPV ${input.ventilation.breathsPerMin}/min × ${input.ventilation.tidalVolumeMl} mL` : 'Spontaneous');
   return [
-    { label: 'Agent', a: a.agent, b: b.agent },
-    { label: 'Route', a: a.route, b: b.route },
-    { label: 'Breathing system', a: a.route === 'chamber' ? '—' : (a.circuit ?? 'nonRebreathing'), b: b.route === 'chamber' ? '—' : (b.circuit ?? 'nonRebreathing') },
+    { label: 'Agent', a: agents[a.agent].displayName, b: agents[b.agent].displayName },
+    { label: 'Route', a: routeLabels[a.route], b: routeLabels[b.route] },
+    { label: 'Breathing system', a: breathingSystem(a), b: breathingSystem(b) },
     { label: 'Fresh gas flow', a: `${figure(a.freshGasLpm)} L/min`, b: `${figure(b.freshGasLpm)} L/min` },
     { label: 'Vaporiser schedule', a: schedule(a), b: schedule(b) },
     { label: 'Ventilation', a: ventilation(a), b: ventilation(b) },

@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
 import { displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
+import { agentRouteText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -55,7 +56,7 @@ export function DayList() {
                     <td>{plan.patientName ?? 'quick plan'}</td>
                     <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
                     <td>
-                      {plan.agent}, {plan.route}
+                      {agentRouteText(plan.agent, plan.route)}
                     </td>
                     <td className="number">{minutes(plan.inductionMin)}</td>
                     <td className="number">{figure(plan.liquidMl)} mL</td>

@@ -2,6 +2,7 @@ import { memo } from 'react';
 import type { Species } from '../../contract/records.js';
 import { agentIds, agents } from '../../core/agents.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
+import { circuitLabels, routeLabels } from '../common/plan-labels.js';
 import type { DraftProblems, PlanDraft } from './plan-draft.js';
 
 type Props = {
@@ -13,7 +14,6 @@ type Props = {
   readonly speciesLocked: boolean;
 };
 
-const routeLabels = { mask: 'face mask', chamber: 'induction chamber', endotracheal: 'endotracheal tube', airSacTube: 'air-sac tube' } as const;
 
 /** The plan's inputs. Every change is a new draft; the results follow without a button. */
 export const PlanForm = memo(function PlanForm({ draft, problems, species, onChange, speciesLocked }: Props) {
@@ -66,10 +66,7 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
               name="circuit"
               value={draft.circuit}
               error={problems['circuit']}
-              options={[
-                { value: 'nonRebreathing', label: 'non-rebreathing system' },
-                { value: 'circle', label: 'circle (rebreathing)' },
-              ]}
+              options={(Object.keys(circuitLabels) as (keyof typeof circuitLabels)[]).map((value) => ({ value, label: circuitLabels[value] }))}
               onChange={set('circuit')}
             />
           )}

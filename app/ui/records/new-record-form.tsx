@@ -4,6 +4,7 @@ import { formatMass } from '../../core/units.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { useOperator } from '../common/operator.js';
+import { agentRouteText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -160,7 +161,7 @@ function LinkedPlan({ patientId, planId, onChoose }: { readonly patientId: numbe
         <option value="">no plan</option>
         {plans.value.map((plan) => (
           <option key={plan.id} value={plan.id}>
-            Plan {plan.id}, {plan.plannedFor}: {plan.agent}, {plan.route}
+            Plan {plan.id}, {plan.plannedFor}: {agentRouteText(plan.agent, plan.route)}
             {plan.label === '' ? '' : ` (${plan.label})`}
           </option>
         ))}

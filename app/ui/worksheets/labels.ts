@@ -1,17 +1,6 @@
 import { roundToSignificant } from '../../core/units.js';
-import type { PlanInput } from '../../contract/plan.js';
 
-export const routeLabels: Readonly<Record<PlanInput['route'], string>> = {
-  mask: 'Face mask',
-  chamber: 'Induction chamber',
-  endotracheal: 'Endotracheal tube',
-  airSacTube: 'Air-sac tube',
-};
-
-export const circuitLabels: Readonly<Record<NonNullable<PlanInput['circuit']>, string>> = {
-  nonRebreathing: 'Non-rebreathing system',
-  circle: 'Rebreathing circle',
-};
+export { circuitLabels, routeLabels } from '../common/plan-labels.js';
 
 /** Labels and units of the model's estimates, in the order printed. */
 export const estimateRows = [

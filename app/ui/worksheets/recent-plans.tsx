@@ -1,9 +1,9 @@
-import { agents } from '../../core/agents.js';
 import { displayMass } from '../common/display.js';
+import { agentRouteText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
-import { figure, routeLabels } from './labels.js';
+import { figure } from './labels.js';
 
 /** Saved plans, latest planned date first, each opening its printable worksheet. */
 export function RecentPlans() {
@@ -39,7 +39,7 @@ export function RecentPlans() {
                   </td>
                   <td>
                     {plan.label === '' ? '' : `${plan.label}: `}
-                    {agents[plan.agent as keyof typeof agents]?.displayName ?? plan.agent}, {routeLabels[plan.route as keyof typeof routeLabels] ?? plan.route}
+                    {agentRouteText(plan.agent, plan.route)}
                   </td>
                   <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
                   <td className="number">{plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}</td>
