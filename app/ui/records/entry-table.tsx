@@ -227,11 +227,13 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
       <thead>
         <tr>
           <th scope="col">Time</th>
-          <th scope="col">min</th>
+          <th scope="col" className="record-number">
+            min
+          </th>
           {readingFields.map((field) => {
             const { label, unit } = readingLabel(field, units);
             return (
-              <th scope="col" key={field}>
+              <th scope="col" key={field} className="record-number">
                 {label} <span className="record-unit">{unit}</span>
               </th>
             );
@@ -258,7 +260,7 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
                   </span>
                 )}
               </td>
-              <td>{minutesFromStart(startedAt, entry.values.at)}</td>
+              <td className="record-number">{minutesFromStart(startedAt, entry.values.at)}</td>
               {readingFields.map((field) => (
                 <td key={field} className="record-number">
                   {readingCell(entry.values, field, units)}

@@ -31,9 +31,9 @@ export function PlanComparison({ planId, startedAt, entries }: { readonly planId
         ]}
         axes={[
           { scale: 'dial', label: 'Vaporiser dial (%)' },
-          { scale: 'mac', label: 'Predicted brain (× MAC)', side: 'right' },
+          { scale: 'mac', label: 'Brain (× MAC)', side: 'right' },
         ]}
-        height={220}
+        height={260}
         summary={`Plan ${planId}: planned and logged vaporiser settings, and the predicted brain level as a multiple of MAC (${result.mac.valuePct} %).`}
       />
       <p className="basis">
