@@ -6,9 +6,8 @@
  *   medians of 5 batches of 100 runs; plan2hBatchMedianLowMs / HighMs show how far the batches
  *   spread on this machine
  * - plan2hMedianOf7ProcessesMs, plan2hSlowestProcessMs, plan2hProcessesOver1msCount: the same plan
- *   timed in 7 fresh processes (plan-probe.ts). In some processes the engine keeps the long
- *   simulation loop in its on-stack-replacement code and the plan takes 2-4 ms: the spread shows
- *   how often that happened in this run
+ *   timed in 7 fresh processes (plan-probe.ts): the engine's optimisation of the long loop can
+ *   differ from process to process (see the speed note on `simulate` and docs/model.md, section 10)
  * - plan2hBreaths: breaths simulated in that plan
  * - uncertainty500MedianMs: 500-sample uncertainty run of the same plan, median of 15 runs
  * - analyticWashinMedianMs: one-compartment analytic wash-in of the same schedule evaluated at

@@ -1,6 +1,6 @@
 /**
  * One fresh process timing the breath-resolved 2-h plan (printed as JSON), for the model bench.
- * The JavaScript engine's optimisation of the long simulation loop differs from process to
+ * The JavaScript engine's optimisation of the long simulation loop can differ from process to
  * process, so the bench runs several of these and reports their spread.
  */
 import { estimateRespiratory } from '../../app/core/model/allometry.js';
