@@ -124,6 +124,9 @@ class PipeConnection {
   }
 }
 
+/** Time allowed for printing once the page is ready, on top of the job's own timeout. */
+const printGraceMs = 30_000;
+
 function delay(ms: number): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, ms));
 }
@@ -235,6 +238,7 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
   });
   aborted.catch(() => undefined);
   const pageErrors: string[] = [];
+  let overdueTimer: NodeJS.Timeout | undefined;
   try {
     const work = async (): Promise<Buffer> => {
       const deadline = Date.now() + job.timeoutMs;
@@ -253,7 +257,11 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
     };
     const working = work();
     working.catch(() => undefined);
-    return await Promise.race([working, failedToStart, aborted]);
+    // The ready wait has its own deadline; this one also covers a print that never answers.
+    const overdue = new Promise<never>((_, reject) => {
+      overdueTimer = setTimeout(() => reject(new Error(`Chromium did not finish within ${Math.round((job.timeoutMs + printGraceMs) / 1000)} s`)), job.timeoutMs + printGraceMs);
+    });
+    return await Promise.race([working, failedToStart, aborted, overdue]);
   } catch (error) {
     // A broken pipe is usually Chromium exiting: name the exit, which says more, if it comes soon.
     if (!(error instanceof PageNotReadyError) && job.signal?.aborted !== true) {
@@ -262,6 +270,7 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
     }
     throw error;
   } finally {
+    clearTimeout(overdueTimer);
     connection.close(new Error('the PDF job has ended'));
     await stopBrowser(child);
     fs.rmSync(profile, { recursive: true, force: true, maxRetries: 3 });
