@@ -53,8 +53,8 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
 
   it('reports the page’s alerts and script errors when the ready mark never appears', async () => {
     const folder = scratch();
-    const html = `<p role="alert">There is no plan 41.</p><script>setTimeout(() => { throw new Error('drawing failed'); }, 400);</script>`;
-    const failure = await printPageToPdf({ executablePath: chromiumPath, url: page(html), readySelector: '.never', timeoutMs: 1500, scratchDirectory: folder }).then(
+    const html = `<p role="alert">There is no plan 41.</p><script>setTimeout(() => { throw new Error('drawing failed'); }, 1500);</script>`;
+    const failure = await printPageToPdf({ executablePath: chromiumPath, url: page(html), readySelector: '.never', timeoutMs: 5000, scratchDirectory: folder }).then(
       () => null,
       (error: unknown) => error,
     );
