@@ -140,14 +140,21 @@ function delay(ms: number): Promise<void> {
 async function stopBrowser(child: ChildProcess): Promise<void> {
   if (child.exitCode !== null || child.signalCode !== null) return;
   const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  killGroup(child);
+  await exited;
+}
+
+function killGroup(child: ChildProcess): void {
   try {
     if (process.platform !== 'win32' && child.pid !== undefined) process.kill(-child.pid, 'SIGKILL');
     else child.kill('SIGKILL');
   } catch {
     child.kill('SIGKILL');
   }
-  await exited;
 }
+
+/** Signals that end the command line while Chromium runs. */
+const interruptions: readonly NodeJS.Signals[] = ['SIGINT', 'SIGTERM', 'SIGHUP'];
 
 type Session = { readonly connection: PipeConnection; readonly sessionId: string };
 
@@ -239,6 +246,16 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
   aborted.catch(() => undefined);
   const pageErrors: string[] = [];
   let overdueTimer: NodeJS.Timeout | undefined;
+  // Interrupted (Ctrl+C, a closed terminal, a kill): Chromium leads its own process group, so
+  // it does not get the signal; stop it and remove its profile, then let the signal take effect.
+  const onSignal = (signal: NodeJS.Signals): void => {
+    for (const name of interruptions) process.removeListener(name, onSignal);
+    void stopBrowser(child)
+      .then(() => fs.rmSync(profile, { recursive: true, force: true, maxRetries: 3 }))
+      .catch(() => undefined)
+      .finally(() => process.kill(process.pid, signal));
+  };
+  for (const name of interruptions) process.on(name, onSignal);
   try {
     const work = async (): Promise<Buffer> => {
       const deadline = Date.now() + job.timeoutMs;
@@ -270,6 +287,7 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
     }
     throw error;
   } finally {
+    for (const name of interruptions) process.removeListener(name, onSignal);
     clearTimeout(overdueTimer);
     connection.close(new Error('the PDF job has ended'));
     await stopBrowser(child);

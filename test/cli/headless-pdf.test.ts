@@ -1,11 +1,14 @@
-import { execFileSync } from 'node:child_process';
+import { execFileSync, spawn } from 'node:child_process';
 import fs from 'node:fs';
+import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { PageNotReadyError, printPageToPdf } from '../../main/cli/headless-pdf.js';
+import { findProjectRoot } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
 const hasChromium = fs.existsSync(chromiumPath);
+const compiled = path.join(findProjectRoot(), 'build', 'main', 'cli', 'headless-pdf.js');
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -75,6 +78,26 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
     );
     // Well before the 20 s timeout.
     expect(Date.now() - started).toBeLessThan(10_000);
+    expectCleanedUp(folder);
+  }, 60_000);
+});
+
+describe.runIf(hasChromium && fs.existsSync(compiled))('headless print interrupted', () => {
+  it('stops Chromium and removes its profile when the command is interrupted (Ctrl+C), then ends by that signal', async () => {
+    const folder = scratch();
+    const script = `const { printPageToPdf } = await import(${JSON.stringify(new URL(`file://${compiled}`).href)});
+      await printPageToPdf({ executablePath: ${JSON.stringify(chromiumPath)}, url: 'data:text/html,<p>never ready</p>', readySelector: '.never', timeoutMs: 60000, scratchDirectory: ${JSON.stringify(folder)} });`;
+    const child = spawn(process.execPath, ['--input-type=module', '-e', script], { stdio: 'ignore' });
+    const ended = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.once('exit', (code, signal) => resolve({ code, signal })));
+    // Wait until Chromium is running with its profile in the folder, then interrupt.
+    const chromiumRunning = () => processesUsing(`--user-data-dir=${folder}`).length > 0;
+    const deadline = Date.now() + 20_000;
+    while (!chromiumRunning() && Date.now() < deadline) await new Promise((resolve) => setTimeout(resolve, 50));
+    expect(chromiumRunning()).toBe(true);
+    expect(fs.readdirSync(folder)).toHaveLength(1);
+    child.kill('SIGINT');
+    const { code, signal } = await ended;
+    expect(signal === 'SIGINT' || code === 130).toBe(true);
     expectCleanedUp(folder);
   }, 60_000);
 });
