@@ -1,23 +1,41 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { defineConfig } from 'vite';
+import { defineConfig, type UserConfig } from 'vite';
 import react from '@vitejs/plugin-react';
 
 const root = path.dirname(fileURLToPath(import.meta.url));
 
-/** The renderer bundle: built to build/renderer and served by the desktop protocol or the loopback host. */
-export default defineConfig({
-  root: 'app/ui',
-  base: './',
-  plugins: [react()],
-  build: {
-    outDir: '../../build/renderer',
-    emptyOutDir: true,
-    sourcemap: true,
-    target: 'es2022',
-    rollupOptions: {
-      // The app, and the worksheet alone for the command line's headless print.
-      input: { index: path.resolve(root, 'app/ui/index.html'), print: path.resolve(root, 'app/ui/print.html') },
+/**
+ * The renderer: built to build/renderer and served by the desktop protocol or the loopback host,
+ * in two passes. The default pass builds the app (index.html). `--mode print` then adds
+ * print.html, the worksheet alone that `syrinx worksheet` prints in a cold headless Chromium; it
+ * renders the same components through Preact's React-compatible layer (about 10 KiB instead of
+ * about 190 KiB), which draws the page about 0.2 s sooner in a browser that has just started.
+ */
+export default defineConfig(({ mode }): UserConfig => {
+  const print = mode === 'print';
+  const input: Record<string, string> = print ? { print: path.resolve(root, 'app/ui/print.html') } : { index: path.resolve(root, 'app/ui/index.html') };
+  return {
+    root: 'app/ui',
+    base: './',
+    plugins: [react()],
+    resolve: print
+      ? {
+          alias: [
+            { find: /^react-dom\/client$/, replacement: 'preact/compat/client' },
+            { find: /^react-dom$/, replacement: 'preact/compat' },
+            { find: /^react\/jsx-runtime$/, replacement: 'preact/jsx-runtime' },
+            { find: /^react$/, replacement: 'preact/compat' },
+          ],
+        }
+      : {},
+    build: {
+      outDir: '../../build/renderer',
+      // The print pass adds to the app's pass.
+      emptyOutDir: !print,
+      sourcemap: true,
+      target: 'es2022',
+      rollupOptions: { input },
     },
-  },
+  };
 });
