@@ -3,16 +3,13 @@
  * The JavaScript engine's optimisation of the long simulation loop can differ from process to
  * process, so the bench runs several of these and reports their spread.
  */
-import { estimateRespiratory } from '../../app/core/model/allometry.js';
-import { buildSimulationSetup, resolveMac } from '../../app/core/model/compute-plan.js';
 import type { PlanInput } from '../../app/core/model/plan-types.js';
 import { simulate } from '../../app/core/model/simulation.js';
-import { twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
+import { setupFor, twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
 import { median } from './figures.js';
 
 const plan: PlanInput = { ...twoHourBudgerigarPlan, uncertainty: undefined };
-const estimates = estimateRespiratory(plan.bodyMassG);
-const setup = buildSimulationSetup(plan, estimates, resolveMac(plan, undefined));
+const setup = setupFor(plan);
 let breaths = 0;
 for (let warm = 0; warm < 30; warm += 1) breaths = simulate(setup).breaths;
 const times: number[] = [];

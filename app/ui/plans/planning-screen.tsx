@@ -14,6 +14,7 @@ import { defaultDraft, inputToDraft, type PlanDraft } from './plan-draft.js';
 import { PlanForm } from './plan-form.js';
 import { CautionList, PlanResults } from './plan-results.js';
 import { usePlanComputation } from './use-plan-computation.js';
+import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
 export type PlanningStart = { readonly kind: 'quick' } | { readonly kind: 'patient'; readonly patientId: number } | { readonly kind: 'saved'; readonly planId: number };
 
@@ -39,7 +40,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [label, setLabel] = useState('');
   const [context, setContext] = useState<Context>({ patientId: null, patientLabel: null, savedPlanId: null, savedStamp: null });
   const [loadFailure, setLoadFailure] = useState<string | null>(null);
-  const [saveMessage, setSaveMessage] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [saveMessage, setSaveMessage] = useState<SaveMessage | null>(null);
   const [loaded, setLoaded] = useState(start.kind === 'quick');
 
   useEffect(() => {
@@ -139,11 +140,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
             Open worksheet
           </a>
         )}
-        {saveMessage !== null && (
-          <p className={saveMessage.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
-            {saveMessage.text}
-          </p>
-        )}
+        <SaveStatus message={saveMessage} />
         {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
       </div>
       <div className="variant-tabs" role="group" aria-label="Plan variants">

@@ -3,12 +3,13 @@ import { api } from '../common/bridge.js';
 import { displayDateTime } from '../common/display.js';
 import { downloadText } from '../common/download.js';
 import { useChannel } from '../common/use-channel.js';
+import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
 /** Where the data lives, the automatic backups, and the whole database as JSON. */
 export function DataSection() {
   const [info] = useChannel('app:info', {});
   const [backups] = useChannel('database:backups', {});
-  const [status, setStatus] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [status, setStatus] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
 
   async function exportJson() {
@@ -43,11 +44,7 @@ export function DataSection() {
         <button type="button" onClick={() => void exportJson()} disabled={busy}>
           {busy ? 'Exporting…' : 'Export the whole database as JSON'}
         </button>
-        {status !== null && (
-          <p className={status.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
-            {status.text}
-          </p>
-        )}
+        <SaveStatus message={status} />
       </div>
     </section>
   );

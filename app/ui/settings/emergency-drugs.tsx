@@ -6,6 +6,7 @@ import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../c
 import { NumberField, numberText, parseNumber, TextField } from '../common/fields.js';
 import { useChannel } from '../common/use-channel.js';
 import { useWriteMeta } from '../common/write-meta.js';
+import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
 type Draft = {
   readonly name: string;
@@ -61,7 +62,7 @@ export function EmergencyDrugs() {
   const [draft, setDraft] = useState<Draft>(emptyDraft);
   const [reason, setReason] = useState('');
   const [errors, setErrors] = useState<FieldErrors>({});
-  const [message, setMessage] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [message, setMessage] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
 
   function start(next: Editing) {
@@ -179,11 +180,7 @@ export function EmergencyDrugs() {
           <button type="button" onClick={() => start({ kind: 'add' })}>
             Add emergency drug
           </button>
-          {message !== null && (
-            <p className={message.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
-              {message.text}
-            </p>
-          )}
+          <SaveStatus message={message} />
         </div>
       ) : (
         <form onSubmit={(event) => void submit(event)} noValidate className="form drug-form" aria-label={formTitle}>
@@ -224,11 +221,7 @@ export function EmergencyDrugs() {
             <button type="button" onClick={() => setEditing(null)}>
               Cancel
             </button>
-            {message !== null && (
-              <p className={message.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
-                {message.text}
-              </p>
-            )}
+            <SaveStatus message={message} />
           </div>
         </form>
       )}

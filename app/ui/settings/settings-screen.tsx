@@ -17,6 +17,7 @@ import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../c
 import { Choice, TextField } from '../common/fields.js';
 import { DataSection } from './data-section.js';
 import { EmergencyDrugs } from './emergency-drugs.js';
+import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
 type Props = {
   readonly stored: StoredSettings;
@@ -30,7 +31,7 @@ const agentLabels = Object.fromEntries(agentIds.map((id) => [id, agents[id].disp
 export function SettingsScreen({ stored, safety, onSaved }: Props) {
   const [draft, setDraft] = useState<ClinicSettings>(stored.settings ?? defaultClinicSettings);
   const [errors, setErrors] = useState<FieldErrors>({});
-  const [message, setMessage] = useState<{ kind: 'saved' | 'failed'; text: string } | null>(null);
+  const [message, setMessage] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
   const firstRun = stored.settings === null;
 
@@ -85,11 +86,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           <button type="submit" className="primary" disabled={busy}>
             {busy ? 'Saving…' : 'Save settings'}
           </button>
-          {message !== null && (
-            <p className={message.kind === 'saved' ? 'status-saved' : 'form-error'} role="status">
-              {message.text}
-            </p>
-          )}
+          <SaveStatus message={message} />
         </div>
       </form>
       {safety.last !== null && (

@@ -1,15 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { estimateRespiratory } from '../../../app/core/model/allometry.js';
-import { buildBodyModel, buildSimulationSetup, resolveMac } from '../../../app/core/model/compute-plan.js';
+import { buildBodyModel } from '../../../app/core/model/compute-plan.js';
 import { gasSpaceWash } from '../../../app/core/model/milestones.js';
 import type { PlanInput } from '../../../app/core/model/plan-types.js';
-import { simulate, type PhaseSnapshot, type SimulationSetup } from '../../../app/core/model/simulation.js';
-import { duckPlan, twoHourBudgerigarPlan } from './plan-fixtures.js';
-
-function setupOf(plan: PlanInput): SimulationSetup {
-  const estimates = estimateRespiratory(plan.bodyMassG, plan.overrides ?? {});
-  return buildSimulationSetup(plan, estimates, resolveMac(plan, undefined));
-}
+import { simulate, type PhaseSnapshot } from '../../../app/core/model/simulation.js';
+import { duckPlan, setupFor, twoHourBudgerigarPlan } from './plan-fixtures.js';
 
 describe('the two-cycle passage emerges from the flow rules', () => {
   it('takes a tracer given in one inspiration to the parabronchi on the first expiration and out of the airway on the second', () => {
@@ -65,7 +60,7 @@ describe('the two-cycle passage emerges from the flow rules', () => {
 
   it('washes the air sacs in over tens of breaths, not one', () => {
     const estimates = estimateRespiratory(1000);
-    const setup = setupOf({ ...duckPlan, bodyMassG: 1000 });
+    const setup = setupFor({ ...duckPlan, bodyMassG: 1000 });
     const wash = gasSpaceWash({ gasPath: setup.gasPath, body: setup.body, tidalVolumeMl: estimates.tidalVolumeMl.value, breathsPerMin: estimates.breathsPerMin.value, direction: 'in', airSacTubeMlMin: 0 });
     expect(wash.breaths).not.toBeNull();
     expect(wash.breaths ?? 0).toBeGreaterThan(10);
@@ -73,12 +68,12 @@ describe('the two-cycle passage emerges from the flow rules', () => {
   });
 
   it('washes in faster with IPPV at a higher rate', () => {
-    const setup = setupOf(duckPlan);
+    const setup = setupFor(duckPlan);
     const slow = gasSpaceWash({ gasPath: setup.gasPath, body: setup.body, tidalVolumeMl: 40, breathsPerMin: 4, direction: 'in', airSacTubeMlMin: 0 });
     const fast = gasSpaceWash({ gasPath: setup.gasPath, body: setup.body, tidalVolumeMl: 40, breathsPerMin: 12, direction: 'in', airSacTubeMlMin: 0 });
     expect(fast.minutes ?? Infinity).toBeLessThan(slow.minutes ?? 0);
-    const slowPlan = simulate(setupOf({ ...duckPlan, ventilation: { mode: 'ippv', breathsPerMin: 8, tidalVolumeMl: 40 } }));
-    const fastPlan = simulate(setupOf({ ...duckPlan, ventilation: { mode: 'ippv', breathsPerMin: 16, tidalVolumeMl: 40 } }));
+    const slowPlan = simulate(setupFor({ ...duckPlan, ventilation: { mode: 'ippv', breathsPerMin: 8, tidalVolumeMl: 40 } }));
+    const fastPlan = simulate(setupFor({ ...duckPlan, ventilation: { mode: 'ippv', breathsPerMin: 16, tidalVolumeMl: 40 } }));
     expect(slowPlan.inductionMin).not.toBeNull();
     expect(fastPlan.inductionMin ?? Infinity).toBeLessThan(slowPlan.inductionMin ?? 0);
   });
@@ -97,7 +92,7 @@ describe('mass balance', () => {
   for (const [index, plan] of routes.entries()) {
   it(`balances agent delivered = stored + taken up + exhaled within 0.1 % over a 2-h plan (${plan.route}, ${String(plan.bodyMassG)} g, case ${String(index)})`, () => {
     // Mass balance requirement of the model issue: within 0.1 % over a 2-h plan
-    const outcome = simulate(setupOf(plan));
+    const outcome = simulate(setupFor(plan));
     const totals = outcome.totals;
     const accounted = totals.gasStoredMl + totals.uptakeMl + totals.exhaledMl;
     expect(totals.deliveredToBirdMl).toBeGreaterThan(0);

@@ -1,12 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { estimateRespiratory } from '../../../app/core/model/allometry.js';
-import { buildSimulationSetup, resolveMac } from '../../../app/core/model/compute-plan.js';
 import type { PlanInput } from '../../../app/core/model/plan-types.js';
-import { simulate, type SimulationOutcome } from '../../../app/core/model/simulation.js';
-
-function run(plan: PlanInput): SimulationOutcome {
-  return simulate(buildSimulationSetup(plan, estimateRespiratory(plan.bodyMassG), resolveMac(plan, undefined)));
-}
+import { runPlan } from './plan-fixtures.js';
 
 const cockatiel: PlanInput = {
   bodyMassG: 95,
@@ -26,8 +20,8 @@ describe('agent ordering', () => {
     // wash-in and wash-out [published coefficients; ordering is common practice].
     const isoMac = 1.3;
     const sevoMac = 2.3;
-    const isoflurane = run({ ...cockatiel, macPct: isoMac });
-    const sevoflurane = run({
+    const isoflurane = runPlan({ ...cockatiel, macPct: isoMac });
+    const sevoflurane = runPlan({
       ...cockatiel,
       agent: 'sevoflurane',
       macPct: sevoMac,
@@ -44,7 +38,7 @@ describe('recovery ordering', () => {
   it('lengthens recovery with a higher maintenance dial setting', () => {
     const recoveries = [1.5, 2, 2.5, 3].map(
       (maintenance) =>
-        run({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: maintenance }, { atMin: 60, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
+        runPlan({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: maintenance }, { atMin: 60, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
     );
     for (let index = 1; index < recoveries.length; index += 1) {
       expect(recoveries[index]).toBeGreaterThan(recoveries[index - 1] as number);
@@ -52,7 +46,7 @@ describe('recovery ordering', () => {
   });
   it('lengthens recovery with a longer maintenance', () => {
     const recoveries = [20, 60, 180].map(
-      (offMin) => run({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: 2 }, { atMin: offMin, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
+      (offMin) => runPlan({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: 2 }, { atMin: offMin, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
     );
     for (let index = 1; index < recoveries.length; index += 1) {
       expect(recoveries[index]).toBeGreaterThan(recoveries[index - 1] as number);
@@ -65,7 +59,7 @@ describe('chamber ordering', () => {
     // tau = V / FGF (OpenAnesthesia, "Time constant"): more flow, faster chamber, faster induction
     const inductions = [0.5, 1, 2, 4].map(
       (freshGasLpm) =>
-        run({ ...cockatiel, route: 'chamber', chamberVolumeL: 4, freshGasLpm, schedule: [{ atMin: 0, vaporPct: 5 }, { atMin: 30, vaporPct: 0 }] }).inductionMin ?? Number.NaN,
+        runPlan({ ...cockatiel, route: 'chamber', chamberVolumeL: 4, freshGasLpm, schedule: [{ atMin: 0, vaporPct: 5 }, { atMin: 30, vaporPct: 0 }] }).inductionMin ?? Number.NaN,
     );
     for (let index = 1; index < inductions.length; index += 1) {
       expect(inductions[index]).toBeLessThan(inductions[index - 1] as number);
@@ -77,8 +71,8 @@ describe('rebreathing', () => {
   it('slows induction on a non-rebreathing system when the flow is far below twice the minute ventilation', () => {
     // Non-rebreathing flow 2-3 x minute ventilation [common practice]
     const duck: PlanInput = { bodyMassG: 2400, agent: 'isoflurane', route: 'endotracheal', freshGasLpm: 2, schedule: [{ atMin: 0, vaporPct: 3 }, { atMin: 60, vaporPct: 0 }] };
-    const ample = run(duck);
-    const starved = run({ ...duck, freshGasLpm: 0.2 });
+    const ample = runPlan(duck);
+    const starved = runPlan({ ...duck, freshGasLpm: 0.2 });
     expect(starved.inductionMin ?? Infinity).toBeGreaterThan(ample.inductionMin ?? Infinity);
   });
 });

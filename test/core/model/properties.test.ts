@@ -2,10 +2,10 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { planInputSchema, planResultSchema } from '../../../app/contract/plan.js';
 import { estimateRespiratory } from '../../../app/core/model/allometry.js';
-import { buildSimulationSetup, computePlan, resolveMac } from '../../../app/core/model/compute-plan.js';
+import { computePlan } from '../../../app/core/model/compute-plan.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import type { PlanInput } from '../../../app/core/model/plan-types.js';
-import { simulate, type SimulationOutcome } from '../../../app/core/model/simulation.js';
+import { runPlan } from './plan-fixtures.js';
 
 const planArbitrary: fc.Arbitrary<PlanInput> = fc
   .record({
@@ -43,10 +43,6 @@ const planArbitrary: fc.Arbitrary<PlanInput> = fc
     };
   });
 
-function run(plan: PlanInput): SimulationOutcome {
-  return simulate(buildSimulationSetup(plan, estimateRespiratory(plan.bodyMassG), resolveMac(plan, undefined)));
-}
-
 const channels = ['inspiredPct', 'tracheaPct', 'posteriorSacsPct', 'parabronchialPct', 'anteriorSacsPct', 'arterialPct', 'brainPct', 'musclePct', 'fatPct'] as const;
 
 describe('properties over valid plans', () => {
@@ -62,7 +58,7 @@ describe('properties over valid plans', () => {
   it('never gives NaN or negative partial pressures, nor any above the highest gas reaching the bird', () => {
     fc.assert(
       fc.property(planArbitrary, (plan) => {
-        const outcome = run(plan);
+        const outcome = runPlan(plan);
         const highestDial = Math.max(...plan.schedule.map((step) => step.vaporPct));
         const ceiling = outcome.peakInspiredPct;
         const bad: string[] = [];
@@ -82,8 +78,8 @@ describe('properties over valid plans', () => {
     fc.assert(
       fc.property(planArbitrary, fc.double({ min: 1.05, max: 2, noNaN: true }), (plan, factor) => {
         const higher = { ...plan, schedule: plan.schedule.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct * factor })) };
-        const low = run(plan).timeline;
-        const high = run(higher).timeline;
+        const low = runPlan(plan).timeline;
+        const high = runPlan(higher).timeline;
         // Body groups only: a deeper bird breathes less (depression), so its air sacs may fill more
         // slowly even at a higher dial; the brain and tissues still end up higher.
         const bad: string[] = [];

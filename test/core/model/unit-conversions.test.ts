@@ -1,9 +1,9 @@
 import convert from 'convert-units';
 import { describe, expect, it } from 'vitest';
-import { cardiacOutputMlMin, estimateRespiratory, tidalVolumeMl } from '../../../app/core/model/allometry.js';
-import { buildSimulationSetup, resolveMac } from '../../../app/core/model/compute-plan.js';
+import { cardiacOutputMlMin, tidalVolumeMl } from '../../../app/core/model/allometry.js';
 import type { PlanInput } from '../../../app/core/model/plan-types.js';
 import { computePlan } from '../../../app/core/model/compute-plan.js';
+import { setupFor } from './plan-fixtures.js';
 
 // convert-units is the referee for every conversion the model makes between the units of the plan
 // (g, L/min, L, m3) and its internal units (kg in the allometric equations, mL, mL/min, min).
@@ -27,7 +27,7 @@ describe('unit conversions of the model against convert-units', () => {
     }
   });
   it('turns fresh gas L/min into mL/min and chamber litres into mL', () => {
-    const setup = buildSimulationSetup(plan, estimateRespiratory(plan.bodyMassG), resolveMac(plan, undefined));
+    const setup = setupFor(plan);
     const mlPerMin = convert(plan.freshGasLpm).from('l/min').to('ml/s') * convert(1).from('min').to('s');
     expect(setup.delivery.freshGasMlMin).toBeCloseTo(mlPerMin, 9);
     expect(setup.delivery.mixedVolumeMl).toBeCloseTo(convert(plan.chamberVolumeL ?? 0).from('l').to('ml'), 9);
