@@ -44,7 +44,7 @@ describe('planning from a patient in headless Chromium', () => {
     // Waste gas by source, in plain words (a face mask with a leak: leak and exhaust).
     const waste = page.getByRole('region', { name: 'Waste gas in the room' });
     await expect(waste.getByText(/^Mask leak: [\d.]+ mL of vapour/).count()).resolves.toBe(1);
-    await expect(waste.getByText(/^Breathing-system exhaust reaching the room: [\d.]+ mL of vapour/).count()).resolves.toBe(1);
+    await expect(waste.getByText(/^Exhaust reaching the room: [\d.]+ mL of vapour/).count()).resolves.toBe(1);
 
     // Change the dial: the curve and the induction time change with no button pressed.
     await page.getByLabel(/^Induction dial/).fill('2.5');

@@ -19,7 +19,7 @@ export const ChecklistPanel = memo(function ChecklistPanel({ checklist, onChange
           name="asaGrade"
           value={checklist.asaGrade === null ? '' : String(checklist.asaGrade)}
           options={[{ value: '', label: 'not graded yet' }, ...[1, 2, 3, 4, 5].map((grade) => ({ value: String(grade), label: `ASA ${grade} (${asaMortality.percentByGrade[grade as 1 | 2 | 3 | 4 | 5]} % died within 48 h)` }))]}
-          hint={`${asaMortalityText(checklist.asaGrade)}. Published avian mortality: ${asaMortality.source}.`}
+          hint={checklist.asaGrade === null ? `ASA grade not set. Published avian mortality: ${asaMortality.source}.` : `${asaMortalityText(checklist.asaGrade)}.`}
           onChange={(value) => onChange({ ...checklist, asaGrade: value === '' ? null : Number(value) })}
         />
         <div className="field checkbox">

@@ -21,7 +21,7 @@ export function range(percentiles: { p5: number; p95: number } | null | undefine
 const wasteGasSourceLabels: Readonly<Record<string, string>> = {
   maskLeak: 'Mask leak',
   chamberOpened: 'Chamber opened',
-  exhaust: 'Breathing-system exhaust reaching the room',
+  exhaust: 'Exhaust reaching the room',
 };
 
 export function wasteGasSourceLabel(source: string): string {
