@@ -8,6 +8,7 @@ import type { CylinderSpec } from '../budget/oxygen.js';
 import type { Circuit, Route } from '../budget/flows.js';
 import type { Caution } from '../cautions.js';
 import type { MeasuredOverrides, RespiratoryEstimates } from './allometry.js';
+import type { AgentTotals } from './simulation.js';
 
 export type PlanVentilation =
   | { readonly mode: 'spontaneous' }
@@ -137,14 +138,8 @@ export type PlanWasteGas = {
   readonly basis: string;
 };
 
-export type PlanMassBalance = {
-  readonly deliveredToBirdMl: number;
-  readonly exhaledMl: number;
-  readonly uptakeMl: number;
-  readonly gasStoredMl: number;
-  readonly bodyStoredMl: number;
-  readonly vaporiserOutputMl: number;
-};
+/** The agent's mass balance over the plan: the simulation's running totals. */
+export type PlanMassBalance = AgentTotals;
 
 export type PlanResult = {
   readonly modelVersion: string;
