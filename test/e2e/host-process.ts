@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll } from 'vitest';
+import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { findProjectRoot } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
@@ -55,7 +56,7 @@ export function launchChromium(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+    args: [...chromiumArguments],
   });
 }
 
