@@ -12,7 +12,7 @@ export const routeLabels: Readonly<Record<PlanInput['route'], string>> = {
 /** Plain names of the breathing systems. */
 export const circuitLabels: Readonly<Record<NonNullable<PlanInput['circuit']>, string>> = {
   nonRebreathing: 'Non-rebreathing system',
-  circle: 'Rebreathing circle',
+  circle: 'Circle system (rebreathing)',
 };
 
 function isKeyOf<T extends object>(table: T, key: string): key is Extract<keyof T, string> {
