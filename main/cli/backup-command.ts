@@ -1,8 +1,7 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { BackupError, backupDatabase } from '../../db/backup.js';
 import { formatBytes } from '../../db/integrity.js';
-import { dataLocation, errorText, parseArguments, progressPrinter, UsageError, type CommandIo } from './command-io.js';
+import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
 export const backupUsage = 'Usage: syrinx backup --out FILE [--data DIR]\n  Copies the clinic database in DIR (default: the usual data folder) to FILE and checks the copy.';
 
@@ -11,25 +10,15 @@ export const backupUsage = 'Usage: syrinx backup --out FILE [--data DIR]\n  Copi
  * it takes its name. Exit 0 done, 1 failed (nothing written under FILE), 2 bad arguments.
  */
 export async function runBackupCommand(args: string[], io: CommandIo): Promise<number> {
-  let outFile: string;
-  let location: ReturnType<typeof dataLocation>;
-  try {
-    const parsed = parseArguments(args, { valueOptions: ['--data', '--out'], maxPositionals: 0 });
-    const out = parsed.values.get('--out');
+  const parsed = parseOrExplain(io, 'backup', backupUsage, () => {
+    const options = parseArguments(args, { valueOptions: ['--data', '--out'], maxPositionals: 0 });
+    const out = options.values.get('--out');
     if (out === undefined) throw new UsageError('--out FILE is required: where to write the backup.');
-    outFile = path.resolve(out);
-    location = dataLocation(parsed);
-  } catch (error) {
-    if (error instanceof UsageError) {
-      io.stderr(`syrinx backup: ${error.message}\n${backupUsage}\n`);
-      return 2;
-    }
-    throw error;
-  }
-  if (!fs.existsSync(location.databaseFile)) {
-    io.stderr(`syrinx backup: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
-    return 1;
-  }
+    return { outFile: path.resolve(out), location: dataLocation(options) };
+  });
+  if (parsed === null) return 2;
+  const { outFile, location } = parsed;
+  if (!databaseExists(io, 'backup', location)) return 1;
   try {
     const made = await backupDatabase(location.databaseFile, outFile, progressPrinter(io, 'backup'), { verify: 'full' });
     io.stdout(`Backed up ${location.databaseFile} to ${made.file} (${formatBytes(made.sizeBytes)}; the copy passed the integrity check).\n`);

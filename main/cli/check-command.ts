@@ -2,7 +2,7 @@ import path from 'node:path';
 import { listBackups } from '../../db/backup.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { backupFolder } from '../automatic-backup.js';
-import { dataLocation, parseArguments, UsageError, type CommandIo } from './command-io.js';
+import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 
 export const checkUsage =
   'Usage: syrinx check [--data DIR] [--quick]\n       syrinx check FILE [--quick]\n  Reports the integrity and schema version of the clinic database in DIR (default: the usual data folder), or of a backup FILE.';
@@ -14,27 +14,17 @@ const shownLines = 20;
  * reads only. Exit 0 sound, 1 a problem was found (or no database), 2 bad arguments.
  */
 export async function runCheckCommand(args: string[], io: CommandIo): Promise<number> {
-  let file: string;
-  let dataDirectory: string | null = null;
-  let quick: boolean;
-  try {
-    const parsed = parseArguments(args, { valueOptions: ['--data'], flagOptions: ['--quick'], maxPositionals: 1 });
-    const positional = parsed.positionals[0];
-    if (positional !== undefined && parsed.values.has('--data')) throw new UsageError('give either a FILE or --data DIR, not both.');
-    quick = parsed.flags.has('--quick');
-    if (positional !== undefined) file = path.resolve(positional);
-    else {
-      const location = dataLocation(parsed);
-      file = location.databaseFile;
-      dataDirectory = location.dataDirectory;
-    }
-  } catch (error) {
-    if (error instanceof UsageError) {
-      io.stderr(`syrinx check: ${error.message}\n${checkUsage}\n`);
-      return 2;
-    }
-    throw error;
-  }
+  const parsed = parseOrExplain(io, 'check', checkUsage, () => {
+    const options = parseArguments(args, { valueOptions: ['--data'], flagOptions: ['--quick'], maxPositionals: 1 });
+    const positional = options.positionals[0];
+    if (positional !== undefined && options.values.has('--data')) throw new UsageError('give either a FILE or --data DIR, not both.');
+    const quick = options.flags.has('--quick');
+    if (positional !== undefined) return { file: path.resolve(positional), dataDirectory: null, quick };
+    const location = dataLocation(options);
+    return { file: location.databaseFile, dataDirectory: location.dataDirectory, quick };
+  });
+  if (parsed === null) return 2;
+  const { file, dataDirectory, quick } = parsed;
 
   io.stderr(`check: reading ${file}\n`);
   const check = checkDatabaseFile(file, { quick });

@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import type { BackupProgress } from '../../db/backup.js';
 import { databaseFile, defaultDataDirectory } from '../data-directory.js';
@@ -60,6 +61,27 @@ export function parseArguments(
     }
   }
   return { values, flags, positionals };
+}
+
+/**
+ * Runs `parse`; a UsageError is printed as `syrinx COMMAND: message` with the usage, and gives
+ * null (the command then exits with code 2). Other errors pass through.
+ */
+export function parseOrExplain<T>(io: CommandIo, command: string, usage: string, parse: () => T): T | null {
+  try {
+    return parse();
+  } catch (error) {
+    if (!(error instanceof UsageError)) throw error;
+    io.stderr(`syrinx ${command}: ${error.message}\n${usage}\n`);
+    return null;
+  }
+}
+
+/** True when the data folder holds a database; otherwise says so (nothing written) and gives false. */
+export function databaseExists(io: CommandIo, command: string, location: { readonly dataDirectory: string; readonly databaseFile: string }): boolean {
+  if (fs.existsSync(location.databaseFile)) return true;
+  io.stderr(`syrinx ${command}: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
+  return false;
 }
 
 /** The data folder from `--data`, or the platform's usual one; and the database file in it. */

@@ -1,10 +1,9 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { BackupError } from '../../db/backup.js';
 import { writeDatabaseJson } from '../../db/export.js';
 import { checkDatabaseFile, formatBytes, openReadOnly } from '../../db/integrity.js';
 import { readAppVersion } from '../project-paths.js';
-import { dataLocation, errorText, parseArguments, progressPrinter, UsageError, type CommandIo } from './command-io.js';
+import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
 export const exportUsage = 'Usage: syrinx export --out FILE.json [--data DIR]\n  Writes every table of the clinic database in DIR (default: the usual data folder) to one JSON file.';
 
@@ -13,25 +12,15 @@ export const exportUsage = 'Usage: syrinx export --out FILE.json [--data DIR]\n 
  * database. Exit 0 written, 1 failed (nothing written under FILE), 2 bad arguments.
  */
 export async function runExportCommand(args: string[], io: CommandIo, now: () => Date = () => new Date()): Promise<number> {
-  let outFile: string;
-  let location: ReturnType<typeof dataLocation>;
-  try {
-    const parsed = parseArguments(args, { valueOptions: ['--data', '--out'], maxPositionals: 0 });
-    const out = parsed.values.get('--out');
+  const parsed = parseOrExplain(io, 'export', exportUsage, () => {
+    const options = parseArguments(args, { valueOptions: ['--data', '--out'], maxPositionals: 0 });
+    const out = options.values.get('--out');
     if (out === undefined) throw new UsageError('--out FILE.json is required: where to write the export.');
-    outFile = path.resolve(out);
-    location = dataLocation(parsed);
-  } catch (error) {
-    if (error instanceof UsageError) {
-      io.stderr(`syrinx export: ${error.message}\n${exportUsage}\n`);
-      return 2;
-    }
-    throw error;
-  }
-  if (!fs.existsSync(location.databaseFile)) {
-    io.stderr(`syrinx export: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
-    return 1;
-  }
+    return { outFile: path.resolve(out), location: dataLocation(options) };
+  });
+  if (parsed === null) return 2;
+  const { outFile, location } = parsed;
+  if (!databaseExists(io, 'export', location)) return 1;
   // A damaged file could export partly and look complete; refuse it instead.
   const check = checkDatabaseFile(location.databaseFile, { quick: true });
   if (check.status === 'corrupt' || check.status === 'notDatabase' || check.status === 'unreadable' || check.status === 'notSyrinx') {

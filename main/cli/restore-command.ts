@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { BackupError } from '../../db/backup.js';
 import { restoreDatabase } from '../../db/restore.js';
-import { dataLocation, errorText, parseArguments, progressPrinter, UsageError, type CommandIo } from './command-io.js';
+import { dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
 export const restoreUsage =
   'Usage: syrinx restore FILE [--data DIR]\n  Checks FILE, then puts it in place of the clinic database in DIR (default: the usual data folder),\n  keeping the replaced database as syrinx.db.replaced-<time>. Close Syrinx first.';
@@ -11,21 +11,14 @@ export const restoreUsage =
  * was), 2 bad arguments.
  */
 export async function runRestoreCommand(args: string[], io: CommandIo, now: () => Date = () => new Date()): Promise<number> {
-  let from: string;
-  let location: ReturnType<typeof dataLocation>;
-  try {
-    const parsed = parseArguments(args, { valueOptions: ['--data'], maxPositionals: 1 });
-    const file = parsed.positionals[0];
+  const parsed = parseOrExplain(io, 'restore', restoreUsage, () => {
+    const options = parseArguments(args, { valueOptions: ['--data'], maxPositionals: 1 });
+    const file = options.positionals[0];
     if (file === undefined) throw new UsageError('name the backup FILE to restore from.');
-    from = path.resolve(file);
-    location = dataLocation(parsed);
-  } catch (error) {
-    if (error instanceof UsageError) {
-      io.stderr(`syrinx restore: ${error.message}\n${restoreUsage}\n`);
-      return 2;
-    }
-    throw error;
-  }
+    return { from: path.resolve(file), location: dataLocation(options) };
+  });
+  if (parsed === null) return 2;
+  const { from, location } = parsed;
   try {
     const result = await restoreDatabase({ from, databaseFile: location.databaseFile, now: now(), onProgress: progressPrinter(io, 'restore') });
     io.stdout(`Restored ${from} into ${result.databaseFile}.\n`);

@@ -4,7 +4,7 @@ import type { BackEnd } from '../back-end.js';
 import type { Dispatcher } from '../handlers.js';
 import { startLoopbackHost, type LoopbackHost } from '../loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../project-paths.js';
-import { dataLocation, errorText, parseArguments, UsageError, type CommandIo } from './command-io.js';
+import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
 
 export const worksheetUsage =
@@ -49,21 +49,10 @@ async function check<T>(backEnd: BackEnd, channel: Parameters<BackEnd['dispatch'
  * Exit 0 written, 1 refused or failed (nothing written under FILE), 2 bad arguments.
  */
 export async function runWorksheetCommand(args: string[], io: CommandIo, options: WorksheetCommandOptions = {}): Promise<number> {
-  let parsed: Arguments;
-  try {
-    parsed = parse(args);
-  } catch (error) {
-    if (error instanceof UsageError) {
-      io.stderr(`syrinx worksheet: ${error.message}\n${worksheetUsage}\n`);
-      return 2;
-    }
-    throw error;
-  }
+  const parsed = parseOrExplain(io, 'worksheet', worksheetUsage, () => parse(args));
+  if (parsed === null) return 2;
   const { planId, outFile, location } = parsed;
-  if (!fs.existsSync(location.databaseFile)) {
-    io.stderr(`syrinx worksheet: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
-    return 1;
-  }
+  if (!databaseExists(io, 'worksheet', location)) return 1;
   if (!fs.existsSync(path.dirname(outFile))) {
     io.stderr(`syrinx worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`);
     return 1;
