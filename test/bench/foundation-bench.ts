@@ -7,6 +7,7 @@ import { startBackEnd } from '../../main/back-end.js';
 import { startLoopbackHost } from '../../main/loopback-host.js';
 import { findProjectRoot, rendererDirectory } from '../../main/project-paths.js';
 import { median, type Figure } from './figures.js';
+import { benchClinicSettings } from '../support/clinic-settings.js';
 
 function timeToUrl(root: string, dataDirectory: string): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -43,7 +44,7 @@ export async function benchFoundation(): Promise<Figure[]> {
       const parsed = (await response.json()) as { ok: boolean };
       if (!parsed.ok) throw new Error(`${channel} failed during the benchmark`);
     };
-    const settings = { clinicName: 'Bench Clinic', addressLine: '', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' };
+    const settings = benchClinicSettings;
     const roundTrips: number[] = [];
     for (let run = 0; run < 220; run += 1) {
       const startedAt = performance.now();

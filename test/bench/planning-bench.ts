@@ -7,6 +7,7 @@ import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { startLoopbackHost } from '../../main/loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/project-paths.js';
 import { median, quantile, type Figure } from './figures.js';
+import { benchClinicSettings } from '../support/clinic-settings.js';
 
 const keystrokes = 40;
 
@@ -46,7 +47,7 @@ export async function benchPlanningScreen(): Promise<Figure[]> {
   const browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
   try {
     await backEnd.dispatch('safety:acknowledge', { acknowledgedBy: 'BE', accepted: true });
-    await backEnd.dispatch('settings:save', { clinicName: 'Bench Clinic', addressLine: '', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
+    await backEnd.dispatch('settings:save', benchClinicSettings);
     const page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await page.goto(host.url);
     await page.getByRole('heading', { name: 'Patients' }).waitFor();

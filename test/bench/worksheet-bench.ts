@@ -10,6 +10,7 @@ import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import { startLoopbackHost } from '../../main/loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/project-paths.js';
 import { median, type Figure } from './figures.js';
+import { benchClinicSettings } from '../support/clinic-settings.js';
 
 const runs = 5;
 const quiet = { stdout: () => undefined, stderr: () => undefined };
@@ -25,7 +26,7 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
       return answer.value as { id: number };
     };
     await call('safety:acknowledge', { acknowledgedBy: 'BE', accepted: true });
-    await call('settings:save', { clinicName: 'Bench Clinic', addressLine: '', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
+    await call('settings:save', benchClinicSettings);
     // Neutral placeholders: Syrinx ships no drug and no dose.
     for (const name of ['Bench drug A', 'Bench drug B']) {
       await call('drugs:add', { values: { name, concentrationMgPerMl: 1, doseLowMgPerKg: 1, doseHighMgPerKg: 2, route: 'IV', doseSource: 'bench placeholder' }, meta: { enteredBy: 'BE' } });

@@ -7,6 +7,7 @@ import { startBackEnd } from '../../main/back-end.js';
 import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import { findProjectRoot } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
+import { heronLaneSettings } from '../support/clinic-settings.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -40,7 +41,7 @@ async function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{
     };
     if (options.acknowledged !== false) {
       await call('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true });
-      await call('settings:save', { clinicName: 'Heron Lane Bird Clinic', addressLine: '4 Heron Lane, Marshfield', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
+      await call('settings:save', heronLaneSettings);
     }
     const checklist = { asaGrade: 2, items: {} };
     const saved = await call('plans:save', { fields: { patientId: null, plannedFor: '2026-12-02', label: '', input: pipInput, checklist }, meta: { enteredBy: 'RW' } });

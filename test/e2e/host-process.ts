@@ -5,6 +5,7 @@ import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll } from 'vitest';
 import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { findProjectRoot } from '../../main/project-paths.js';
+import { heronLaneSettings } from '../support/clinic-settings.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 export type RunningHost = { url: string; origin: string; port: number; process: ChildProcess; output: () => string; stop: () => Promise<number | null> };
@@ -73,17 +74,14 @@ export function ensureScreenshotFolder(): string {
  */
 export async function completeFirstRun(page: import('playwright-core').Page, url: string, initials = 'RW'): Promise<void> {
   await page.goto(url);
-  await page.evaluate(async (who) => {
-    const token = window.sessionStorage.getItem('syrinx.token') ?? '';
-    const call = async (channel: string, body: unknown) => {
-      const response = await fetch(`/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(body) });
-      const result = (await response.json()) as { ok: boolean };
-      if (!result.ok) throw new Error(`${channel} failed: ${JSON.stringify(result)}`);
-    };
-    await call('safety:acknowledge', { acknowledgedBy: who, accepted: true });
-    await call('settings:save', { clinicName: 'Heron Lane Bird Clinic', addressLine: '4 Heron Lane, Marshfield', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'A4' });
-    window.localStorage.setItem('syrinx.operator', who);
-  }, initials);
+  for (const [channel, body] of [
+    ['safety:acknowledge', { acknowledgedBy: initials, accepted: true }],
+    ['settings:save', heronLaneSettings],
+  ] as const) {
+    const answer = await callBridge(page, channel, body);
+    if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer)}`);
+  }
+  await page.evaluate((who) => window.localStorage.setItem('syrinx.operator', who), initials);
   await page.reload();
 }
 

@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { callBridge, completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+import { heronLaneSettings } from '../support/clinic-settings.js';
 
 const run = promisify(execFile);
 const root = findProjectRoot();
@@ -169,7 +170,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     expect(a4Pages.length).toBe(a4.pageCount);
     expect(a4.pageCount).toBeGreaterThanOrEqual(2);
 
-    await bridge(page, 'settings:save', { clinicName: 'Heron Lane Bird Clinic', addressLine: '4 Heron Lane, Marshfield', massUnit: 'g', pressureUnit: 'mmHg', temperatureUnit: 'C', defaultAgent: 'isoflurane', paperSize: 'Letter' });
+    await bridge(page, 'settings:save', { ...heronLaneSettings, paperSize: 'Letter' });
     const letter = await worksheetPdf(saved.id, 'letter');
     // US Letter is 8.5 x 11 in = 612 x 792 pt (common practice)
     expect(letter.pageWidthPt).toBeCloseTo(612, 0);
