@@ -2,7 +2,7 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
-import { syrinxPlugin } from './eslint-rules/import-boundaries.js';
+import { tidewingPlugin } from './eslint-rules/import-boundaries.js';
 
 export default tseslint.config(
   { ignores: ['build/**', 'dist/**', 'node_modules/**', 'test-artifacts/**', 'docs/**'] },
@@ -10,9 +10,9 @@ export default tseslint.config(
   ...tseslint.configs.strict,
   {
     languageOptions: { globals: { ...globals.node } },
-    plugins: { syrinx: syrinxPlugin },
+    plugins: { tidewing: tidewingPlugin },
     rules: {
-      'syrinx/import-boundaries': 'error',
+      'tidewing/import-boundaries': 'error',
       '@typescript-eslint/consistent-type-definitions': ['error', 'type'],
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_' }],
       // The sandboxed preload must be CommonJS; `import x = require()` keeps it typed.

@@ -8,7 +8,7 @@ const root = path.dirname(fileURLToPath(import.meta.url));
 /**
  * The renderer: built to build/renderer and served by the desktop protocol or the loopback host,
  * in two passes. The default pass builds the app (index.html). `--mode print` then adds
- * print.html, the worksheet alone that `syrinx worksheet` prints in a cold headless Chromium; it
+ * print.html, the worksheet alone that `tidewing worksheet` prints in a cold headless Chromium; it
  * renders the same components through Preact's React-compatible layer (about 10 KiB instead of
  * about 190 KiB), which draws the page about 0.2 s sooner in a browser that has just started.
  */

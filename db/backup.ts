@@ -2,7 +2,7 @@ import Database from 'better-sqlite3';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import type { SyrinxDatabase } from './connection.js';
+import type { TidewingDatabase } from './connection.js';
 import { checkDatabaseFile, openReadOnly, type ReadOnlyDatabase } from './integrity.js';
 
 /** A backup, restore or export could not be done; nothing that existed was changed. */
@@ -85,7 +85,7 @@ export function temporaryNameBeside(file: string, purpose: string): string {
  * Throws BackupError (destination exists, source missing or unreadable, copy failed its check).
  */
 export async function backupDatabase(
-  source: SyrinxDatabase | string,
+  source: TidewingDatabase | string,
   outFile: string,
   onProgress?: ProgressListener,
   options: BackupOptions = {},
@@ -145,7 +145,7 @@ export async function backupDatabase(
       if (check.status === 'corrupt' || check.status === 'notDatabase' || check.status === 'unreadable') {
         const name = typeof source === 'string' ? source : source.name;
         throw new BackupError(
-          `The copy of ${name} failed the integrity check (${check.integrity.slice(0, 3).join('; ')}), so the database itself is probably damaged. No backup was kept; earlier backups are untouched. Run \`syrinx check\`.`,
+          `The copy of ${name} failed the integrity check (${check.integrity.slice(0, 3).join('; ')}), so the database itself is probably damaged. No backup was kept; earlier backups are untouched. Run \`tidewing check\`.`,
         );
       }
     }
@@ -163,7 +163,7 @@ export async function backupDatabase(
   }
 }
 
-const backupNamePattern = /^syrinx-backup-(\d{4}-\d{2}-\d{2}T\d{2}-\d{2}-\d{2}\.\d{3}Z)(?:-(\d+))?\.db$/;
+const backupNamePattern = /^tidewing-backup-(\d{4}-\d{2}-\d{2}T\d{2}-\d{2}-\d{2}\.\d{3}Z)(?:-(\d+))?\.db$/;
 
 /** `2026-03-04T05:06:07.089Z` -> `2026-03-04T05-06-07.089Z`: sortable, and valid on every file system. */
 export function fileTimestamp(at: Date): string {
@@ -209,7 +209,7 @@ export function listBackups(backupFolder: string): BackupFile[] {
 export type RollingBackupOptions = {
   readonly databaseFile: string;
   /** The app's open connection to `databaseFile`, if any: its own writes then go into the copy instead of restarting it. */
-  readonly connection?: SyrinxDatabase;
+  readonly connection?: TidewingDatabase;
   readonly backupFolder: string;
   /** How many rolling backups to keep, counting the new one; 1 to 1000. Default 10. */
   readonly keep?: number;
@@ -225,7 +225,7 @@ export type RollingBackupResult = BackupResult & {
 };
 
 /**
- * Makes `syrinx-backup-<UTC time>.db` in `backupFolder`, then deletes the oldest files of that
+ * Makes `tidewing-backup-<UTC time>.db` in `backupFolder`, then deletes the oldest files of that
  * name pattern beyond `keep`. Only after the new backup is complete and checked is anything
  * deleted, and the new file is never among them (even when the clock was set back); files of
  * any other name in the folder are never touched.
@@ -236,8 +236,8 @@ export async function rollingBackup(options: RollingBackupOptions): Promise<Roll
   if (Number.isNaN(options.now.getTime())) throw new BackupError('The backup time is not a valid date.');
   fs.mkdirSync(options.backupFolder, { recursive: true });
   const stamp = fileTimestamp(options.now);
-  let name = `syrinx-backup-${stamp}.db`;
-  for (let sequence = 2; fs.existsSync(path.join(options.backupFolder, name)); sequence += 1) name = `syrinx-backup-${stamp}-${sequence}.db`;
+  let name = `tidewing-backup-${stamp}.db`;
+  for (let sequence = 2; fs.existsSync(path.join(options.backupFolder, name)); sequence += 1) name = `tidewing-backup-${stamp}-${sequence}.db`;
 
   const made = await backupDatabase(options.connection ?? options.databaseFile, path.join(options.backupFolder, name), options.onProgress, {
     verify: options.verify ?? 'full',

@@ -2,16 +2,16 @@ import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import { latestSchemaVersion, migrations, type Migration } from './migrations/index.js';
 
-export type SyrinxDatabase = Database.Database;
+export type TidewingDatabase = Database.Database;
 
-/** The database file was written by a newer Syrinx; it is left exactly as found. */
+/** The database file was written by a newer Tidewing; it is left exactly as found. */
 export class DatabaseTooNewError extends Error {
   readonly fileSchemaVersion: number;
   readonly supportedSchemaVersion: number;
   constructor(file: string, fileSchemaVersion: number, supportedSchemaVersion: number) {
     super(
-      `The database ${file} was written by a newer version of Syrinx (schema ${fileSchemaVersion}; this version understands up to ${supportedSchemaVersion}). ` +
-        'Install the newer version of Syrinx to open it. The file has not been changed.',
+      `The database ${file} was written by a newer version of Tidewing (schema ${fileSchemaVersion}; this version understands up to ${supportedSchemaVersion}). ` +
+        'Install the newer version of Tidewing to open it. The file has not been changed.',
     );
     this.name = 'DatabaseTooNewError';
     this.fileSchemaVersion = fileSchemaVersion;
@@ -47,7 +47,7 @@ function bindingOption(options: OpenOptions): { nativeBinding?: string } {
  * Opens (creating if needed) the clinic database and brings its schema up to date.
  * Refuses, without writing, a database whose schema is newer than this code.
  */
-export function openDatabase(file: string, options: OpenOptions = {}): SyrinxDatabase {
+export function openDatabase(file: string, options: OpenOptions = {}): TidewingDatabase {
   const list = options.migrations ?? migrations;
   const known = list.length;
   const fileVersion = readSchemaVersion(file, options);
@@ -68,7 +68,7 @@ export function openDatabase(file: string, options: OpenOptions = {}): SyrinxDat
 }
 
 /** Applies every migration above the database's `user_version`, each in its own transaction. */
-export function migrate(db: SyrinxDatabase, list: readonly Migration[] = migrations): number {
+export function migrate(db: TidewingDatabase, list: readonly Migration[] = migrations): number {
   list.forEach((migration, index) => {
     if (migration.version !== index + 1) throw new Error(`Migration ${migration.name} is numbered ${migration.version}, expected ${index + 1}`);
   });
@@ -84,7 +84,7 @@ export function migrate(db: SyrinxDatabase, list: readonly Migration[] = migrati
 }
 
 /** Schema version of an open database. */
-export function schemaVersion(db: SyrinxDatabase): number {
+export function schemaVersion(db: TidewingDatabase): number {
   return db.pragma('user_version', { simple: true }) as number;
 }
 

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { BackupError, flushToDisk, temporaryNameBeside } from './backup.js';
 
 /** Identifies the file for whoever reads the archive years later. */
-export const databaseExportFormat = 'syrinx-database-export';
+export const databaseExportFormat = 'tidewing-database-export';
 export const databaseExportFormatVersion = 1;
 
 /** A stored value as JSON: SQLite integers, reals and text as they are; BLOBs as base64. */
@@ -88,7 +88,7 @@ export function exportDatabaseJson(db: Database.Database, options: ExportOptions
     schemaVersion: db.pragma('user_version', { simple: true }) as number,
     exportedAt: options.exportedAt.toISOString(),
     note:
-      'Every row of every table of a Syrinx clinic database. Record rows are never changed: a correction is a later row whose corrects_id points at the row it replaces.',
+      'Every row of every table of a Tidewing clinic database. Record rows are never changed: a correction is a later row whose corrects_id points at the row it replaces.',
     tables,
     derivedTablesLeftOut: derived,
   };

@@ -9,7 +9,7 @@ export type DatabaseFileStatus =
   | 'notDatabase'
   | 'corrupt'
   | 'tooNew'
-  | 'notSyrinx'
+  | 'notTidewing'
   | 'schemaIncomplete'
   | 'foreignKeyProblems'
   | 'unreadable';
@@ -124,7 +124,7 @@ function tableNames(db: Database.Database): string[] {
 }
 
 /**
- * Checks a Syrinx database file without changing it: SQLite's integrity check, the schema
+ * Checks a Tidewing database file without changing it: SQLite's integrity check, the schema
  * version against what this program supports, that the tables of that schema version exist,
  * and the foreign-key check. Never throws for a bad file; the result says what is wrong.
  * Runs in O(file size) (`quick`) to O(rows log rows) (full) time; measured on a 23 MB database
@@ -184,7 +184,7 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
         status === 'notDatabase'
           ? `${file} is not a SQLite database file (SQLite says: ${errorText(error)}).`
           : status === 'corrupt'
-            ? `${file} is damaged (SQLite says: ${errorText(error)}). Restore the most recent good backup with \`syrinx restore\`.`
+            ? `${file} is damaged (SQLite says: ${errorText(error)}). Restore the most recent good backup with \`tidewing restore\`.`
             : `${file} could not be checked: ${errorText(error)}`;
       return { ...base, ok: false, status, message, integrity: [errorText(error)], schemaVersion, sizeBytes };
     }
@@ -194,7 +194,7 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
         ...base,
         ok: false,
         status: 'corrupt',
-        message: `${file} is damaged: the SQLite integrity check reported ${integrity.length} problem${integrity.length === 1 ? '' : 's'}. Restore the most recent good backup with \`syrinx restore\`.`,
+        message: `${file} is damaged: the SQLite integrity check reported ${integrity.length} problem${integrity.length === 1 ? '' : 's'}. Restore the most recent good backup with \`tidewing restore\`.`,
         integrity,
         schemaVersion,
         sizeBytes,
@@ -217,7 +217,7 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
         ...base,
         ok: false,
         status: 'tooNew',
-        message: `${file} was written by a newer version of Syrinx (schema ${schemaVersion}; this version understands up to ${supportedSchemaVersion}). Install the newer version of Syrinx to use it.`,
+        message: `${file} was written by a newer version of Tidewing (schema ${schemaVersion}; this version understands up to ${supportedSchemaVersion}). Install the newer version of Tidewing to use it.`,
         integrity,
         schemaVersion,
         foreignKeyProblems,
@@ -227,8 +227,8 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
 
     const present = tableNames(db);
     if (schemaVersion < 1) {
-      const what = present.length === 0 ? 'it is empty' : `its tables (${present.slice(0, 5).join(', ')}${present.length > 5 ? ', ...' : ''}) are not Syrinx's`;
-      return { ...base, ok: false, status: 'notSyrinx', message: `${file} is a SQLite database but not a Syrinx database: ${what}.`, integrity, schemaVersion, sizeBytes };
+      const what = present.length === 0 ? 'it is empty' : `its tables (${present.slice(0, 5).join(', ')}${present.length > 5 ? ', ...' : ''}) are not Tidewing's`;
+      return { ...base, ok: false, status: 'notTidewing', message: `${file} is a SQLite database but not a Tidewing database: ${what}.`, integrity, schemaVersion, sizeBytes };
     }
 
     const missingTables = expectedTables(schemaVersion, list, binding).filter((name) => !present.includes(name));
@@ -237,7 +237,7 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
         ...base,
         ok: false,
         status: 'schemaIncomplete',
-        message: `${file} says it is Syrinx schema ${schemaVersion} but lacks ${missingTables.length === 1 ? 'the table' : 'the tables'} ${missingTables.join(', ')}.`,
+        message: `${file} says it is Tidewing schema ${schemaVersion} but lacks ${missingTables.length === 1 ? 'the table' : 'the tables'} ${missingTables.join(', ')}.`,
         integrity,
         schemaVersion,
         foreignKeyProblems,
@@ -267,7 +267,7 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
       ...base,
       ok: true,
       status: 'ok',
-      message: `${file} passed the ${options.quick === true ? 'quick' : 'full'} integrity check; schema version ${schemaVersion} (this version of Syrinx understands up to ${supportedSchemaVersion}); ${formatBytes(sizeBytes)}.`,
+      message: `${file} passed the ${options.quick === true ? 'quick' : 'full'} integrity check; schema version ${schemaVersion} (this version of Tidewing understands up to ${supportedSchemaVersion}); ${formatBytes(sizeBytes)}.`,
       integrity,
       schemaVersion,
       sizeBytes,

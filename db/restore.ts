@@ -16,9 +16,9 @@ export class RestoreRefusedError extends BackupError {
 }
 
 export type RestoreOptions = {
-  /** The backup (or other Syrinx database file) to restore from; it is only read. */
+  /** The backup (or other Tidewing database file) to restore from; it is only read. */
   readonly from: string;
-  /** The clinic database to replace, normally `<data>/syrinx.db`; it need not exist. */
+  /** The clinic database to replace, normally `<data>/tidewing.db`; it need not exist. */
   readonly databaseFile: string;
   readonly now: Date;
   readonly onProgress?: ProgressListener;
@@ -28,7 +28,7 @@ export type RestoreOptions = {
 
 export type RestoreResult = {
   readonly databaseFile: string;
-  /** Where the database that was replaced now is (`syrinx.db.replaced-<UTC time>`); null when there was none. */
+  /** Where the database that was replaced now is (`tidewing.db.replaced-<UTC time>`); null when there was none. */
   readonly replacedFile: string | null;
   /** The check of the source, made before anything was touched. */
   readonly sourceCheck: DatabaseCheck;
@@ -44,7 +44,7 @@ function errorText(error: unknown): string {
  * Takes the database's write lock alone and folds its WAL into the main file, so that the file
  * can be set aside whole. SQLite's exclusive locking mode cannot be had while any other
  * connection (the running app, another command) has the file open, which is how a restore
- * under a running Syrinx is refused. A file SQLite cannot read at all is set aside as it is.
+ * under a running Tidewing is refused. A file SQLite cannot read at all is set aside as it is.
  */
 function quiesce(databaseFile: string, binding: { nativeBinding?: string }): 'quiet' | 'unreadable' {
   let db: Database.Database;
@@ -62,7 +62,7 @@ function quiesce(databaseFile: string, binding: { nativeBinding?: string }): 'qu
     const code = (error as { code?: unknown }).code;
     if (code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED') {
       throw new RestoreRefusedError(
-        `The database ${databaseFile} is in use (Syrinx or another program has it open). Close Syrinx and try again. Nothing was changed.`,
+        `The database ${databaseFile} is in use (Tidewing or another program has it open). Close Tidewing and try again. Nothing was changed.`,
       );
     }
     return 'unreadable';
@@ -86,10 +86,10 @@ function freeName(base: string): string {
  * 2. Copies the source with SQLite's online backup to a temporary file beside the database
  *    (progress 0-100 %), checked again and flushed to disk.
  * 3. Refuses if another connection has the database open; otherwise keeps the database being
- *    replaced as `syrinx.db.replaced-<UTC time>` (its `-wal`/`-shm`, if any, beside it under the
+ *    replaced as `tidewing.db.replaced-<UTC time>` (its `-wal`/`-shm`, if any, beside it under the
  *    same name) and renames the copy into place. The live name always holds one whole
  *    database: the old one until the rename, the restored one after it.
- * A source at an older schema is restored as it is; Syrinx migrates it when it next opens it.
+ * A source at an older schema is restored as it is; Tidewing migrates it when it next opens it.
  */
 export async function restoreDatabase(options: RestoreOptions): Promise<RestoreResult> {
   const from = path.resolve(options.from);

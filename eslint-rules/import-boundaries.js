@@ -89,4 +89,4 @@ export const importBoundaries = {
   },
 };
 
-export const syrinxPlugin = { rules: { 'import-boundaries': importBoundaries } };
+export const tidewingPlugin = { rules: { 'import-boundaries': importBoundaries } };

@@ -1,13 +1,13 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { rollingBackup } from '../db/backup.js';
-import type { SyrinxDatabase } from '../db/connection.js';
+import type { TidewingDatabase } from '../db/connection.js';
 
 export type AutomaticBackupOptions = {
   readonly dataDirectory: string;
   readonly databaseFile: string;
   /** The back end's open connection, when the backup runs after the database was opened. */
-  readonly connection?: SyrinxDatabase;
+  readonly connection?: TidewingDatabase;
   readonly now: Date;
   /** Rolling backups kept in `<data>/backups/`, counting the new one; 1 to 1000. Default 10. */
   readonly keep?: number;
@@ -25,7 +25,7 @@ export function backupFolder(dataDirectory: string): string {
 }
 
 /**
- * The backup made each time Syrinx starts: a rolling copy of the database in
+ * The backup made each time Tidewing starts: a rolling copy of the database in
  * `<data>/backups/`, keeping the last `keep`. Call it before the database is opened (or with it
  * open; SQLite's online backup reads a consistent snapshot either way). Skipped on first run,
  * when there is no database yet. Never throws: a failure is returned as a message for the log,

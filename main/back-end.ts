@@ -1,13 +1,13 @@
 import fs from 'node:fs';
 import { speciesReference } from '../app/core/species-reference.js';
-import { openDatabase, type OpenOptions, type SyrinxDatabase } from '../db/connection.js';
+import { openDatabase, type OpenOptions, type TidewingDatabase } from '../db/connection.js';
 import { createSpeciesRepository } from '../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
 
 export type BackEnd = {
-  readonly db: SyrinxDatabase;
+  readonly db: TidewingDatabase;
   readonly dispatch: Dispatcher;
   readonly databaseFile: string;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */

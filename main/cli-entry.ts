@@ -5,7 +5,7 @@ runCli(process.argv.slice(2)).then(
     process.exitCode = code;
   },
   (error: unknown) => {
-    process.stderr.write(`syrinx: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     process.exitCode = 1;
   },
 );

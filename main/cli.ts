@@ -19,11 +19,11 @@ const commands: Readonly<Record<string, Command>> = {
 };
 
 function usage(): string {
-  const lines = Object.entries(commands).map(([name, command]) => `  syrinx ${name.padEnd(10)} ${command.summary}`);
+  const lines = Object.entries(commands).map(([name, command]) => `  tidewing ${name.padEnd(10)} ${command.summary}`);
   return ['Usage:', ...lines, '', 'Run `npm start` to open the app.'].join('\n');
 }
 
-/** Entry point of the `syrinx` command line. Returns the process exit code. */
+/** Entry point of the `tidewing` command line. Returns the process exit code. */
 export async function runCli(argv: string[]): Promise<number> {
   const [name, ...rest] = argv;
   if (name === undefined || name === '--help' || name === '-h') {
@@ -32,7 +32,7 @@ export async function runCli(argv: string[]): Promise<number> {
   }
   const command = commands[name];
   if (command === undefined) {
-    process.stderr.write(`syrinx: unknown command "${name}".\n${usage()}\n`);
+    process.stderr.write(`tidewing: unknown command "${name}".\n${usage()}\n`);
     return 2;
   }
   return command.run(rest);

@@ -1,6 +1,6 @@
 import type { ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
 import type { drugChannels } from '../app/contract/drug-channels.js';
-import type { SyrinxDatabase } from '../db/connection.js';
+import type { TidewingDatabase } from '../db/connection.js';
 import { createEmergencyDrugRepository, DrugCorrectionError } from '../db/repositories/emergency-drug-repository.js';
 import { RecordError } from './record-handlers.js';
 
@@ -20,7 +20,7 @@ function checked<T>(write: () => T | null, id: number): T {
 }
 
 /** Handlers for the clinic's emergency-drug list (the worksheet's emergency card). */
-export function createDrugHandlers(db: SyrinxDatabase, now: () => Date): DrugHandlerTable {
+export function createDrugHandlers(db: TidewingDatabase, now: () => Date): DrugHandlerTable {
   const drugs = createEmergencyDrugRepository(db);
   return {
     'drugs:list': () => drugs.list(),

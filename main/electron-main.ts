@@ -10,7 +10,7 @@ import { findProjectRoot, readAppVersion, rendererDirectory } from './project-pa
 
 // Our own scheme instead of file://, so the page has a real origin and a strict CSP.
 const scheme = 'app';
-const appOrigin = `${scheme}://syrinx`;
+const appOrigin = `${scheme}://tidewing`;
 
 protocol.registerSchemesAsPrivileged([{ scheme, privileges: { standard: true, secure: true, supportFetchAPI: true } }]);
 
@@ -53,7 +53,7 @@ function registerProtocol(root: string): void {
   const folder = rendererDirectory(root);
   protocol.handle(scheme, async (request) => {
     const url = new URL(request.url);
-    if (url.host !== 'syrinx') return new Response('Not found', { status: 404 });
+    if (url.host !== 'tidewing') return new Response('Not found', { status: 404 });
     const file = await readRendererFile(folder, url.pathname);
     if (file === null) return new Response('Not found', { status: 404 });
     return new Response(new Uint8Array(file.body), { status: 200, headers: { ...securityHeaders, 'content-type': contentTypeFor(file.extension) } });
@@ -61,13 +61,13 @@ function registerProtocol(root: string): void {
 }
 
 function registerChannels(backEnd: BackEnd): void {
-  ipcMain.on('syrinx:channel-list', (event) => {
+  ipcMain.on('tidewing:channel-list', (event) => {
     event.returnValue = isOwnFrame(event.senderFrame?.url) ? channelNames : [];
   });
   for (const channel of channelNames) {
     ipcMain.handle(channel, async (event, payload: unknown) => {
       if (!isOwnFrame(event.senderFrame?.url)) {
-        return { ok: false, error: { code: 'invalid-request', message: 'Refused: the request did not come from the Syrinx window.' } };
+        return { ok: false, error: { code: 'invalid-request', message: 'Refused: the request did not come from the Tidewing window.' } };
       }
       return backEnd.dispatch(channel, payload);
     });
@@ -77,7 +77,7 @@ function registerChannels(backEnd: BackEnd): void {
 /** File name for the save dialog: letters, digits and hyphens only, ending in .pdf. */
 function safePdfName(suggested: unknown): string {
   const stem = typeof suggested === 'string' ? suggested.replace(/\.pdf$/i, '').replace(/[^A-Za-z0-9-]+/g, '-').slice(0, 80) : '';
-  return `${stem === '' ? 'syrinx-worksheet' : stem}.pdf`;
+  return `${stem === '' ? 'tidewing-worksheet' : stem}.pdf`;
 }
 
 /**
@@ -85,8 +85,8 @@ function safePdfName(suggested: unknown): string {
  * the worksheet's CSS names (A4 or US Letter), written where the user chooses.
  */
 function registerWorksheetPdf(): void {
-  ipcMain.handle('syrinx:worksheet-pdf', async (event, suggestedName: unknown) => {
-    if (!isOwnFrame(event.senderFrame?.url)) return { saved: false, error: 'Refused: the request did not come from the Syrinx window.' };
+  ipcMain.handle('tidewing:worksheet-pdf', async (event, suggestedName: unknown) => {
+    if (!isOwnFrame(event.senderFrame?.url)) return { saved: false, error: 'Refused: the request did not come from the Tidewing window.' };
     const window = BrowserWindow.fromWebContents(event.sender);
     const options = { title: 'Save worksheet as PDF', defaultPath: path.join(app.getPath('documents'), safePdfName(suggestedName)), filters: [{ name: 'PDF', extensions: ['pdf'] }] };
     const choice = window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
@@ -110,7 +110,7 @@ async function createWindow(root: string): Promise<void> {
     height: 860,
     minWidth: 960,
     minHeight: 600,
-    title: 'Syrinx',
+    title: 'Tidewing',
     show: false,
     webPreferences: {
       preload: path.join(root, 'build', 'main', 'preload.cjs'),
@@ -141,7 +141,7 @@ async function main(): Promise<void> {
       ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
     });
   } catch (error) {
-    dialog.showErrorBox('Syrinx cannot open its database', error instanceof Error ? error.message : String(error));
+    dialog.showErrorBox('Tidewing cannot open its database', error instanceof Error ? error.message : String(error));
     app.exit(1);
     return;
   }

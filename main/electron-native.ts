@@ -29,7 +29,7 @@ export function prepareElectronSqlite(root: string, electronVersion: string, log
   fs.mkdirSync(path.dirname(moduleCopy), { recursive: true });
   fs.cpSync(source, moduleCopy, { recursive: true, filter: (file) => !file.startsWith(path.join(source, 'build')) });
   const moduleVersion = (JSON.parse(fs.readFileSync(path.join(source, 'package.json'), 'utf8')) as { version: string }).version;
-  fs.writeFileSync(path.join(target, 'package.json'), JSON.stringify({ name: 'syrinx-electron-native', private: true, dependencies: { 'better-sqlite3': moduleVersion } }, null, 2));
+  fs.writeFileSync(path.join(target, 'package.json'), JSON.stringify({ name: 'tidewing-electron-native', private: true, dependencies: { 'better-sqlite3': moduleVersion } }, null, 2));
   log(`Building the database driver for Electron ${electronVersion} (first desktop start only)…`);
   const result = spawnSync(process.execPath, [rebuildCli, '--version', electronVersion, '--module-dir', target, '--only', 'better-sqlite3', '--force'], { stdio: 'inherit', timeout: 15 * 60_000 });
   if (result.status === 0 && fs.existsSync(binding)) return { ok: true, binding };

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { channels, isChannelName, type ChannelName, type ParsedRequestOf, type ResponseOf } from '../app/contract/channels.js';
 import { describeIssues, type ContractError, type Result } from '../app/contract/result.js';
-import type { SyrinxDatabase } from '../db/connection.js';
+import type { TidewingDatabase } from '../db/connection.js';
 import { schemaVersion } from '../db/connection.js';
 import { createSettingsRepository } from '../db/repositories/settings-repository.js';
 import { createSafetyAcknowledgementRepository } from '../db/repositories/safety-acknowledgement-repository.js';
@@ -13,7 +13,7 @@ import { createDrugHandlers } from './drug-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 
 export type HandlerContext = {
-  readonly db: SyrinxDatabase;
+  readonly db: TidewingDatabase;
   readonly appVersion: string;
   readonly dataDirectory: string;
   readonly host: 'desktop' | 'browser';
@@ -61,7 +61,7 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     'database:export-json': () => {
       const at = context.now();
       const exported = exportDatabaseJson(context.db, { appVersion: context.appVersion, exportedAt: at });
-      return { fileName: `syrinx-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`, json: JSON.stringify(exported, null, 2) };
+      return { fileName: `tidewing-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`, json: JSON.stringify(exported, null, 2) };
     },
     'database:backups': () => {
       const folder = backupFolder(context.dataDirectory);
@@ -105,7 +105,7 @@ export function createDispatcher(handlers: HandlerTable, log: (message: string) 
       const checked = (spec.response as z.ZodType).safeParse(value);
       if (!checked.success) {
         log(`Response of ${channel} failed its schema: ${checked.error.message}`);
-        return { ok: false, error: { code: 'internal', message: 'Syrinx produced an answer it could not vouch for; nothing was changed by showing it.' } };
+        return { ok: false, error: { code: 'internal', message: 'Tidewing produced an answer it could not vouch for; nothing was changed by showing it.' } };
       }
       return { ok: true, value: checked.data };
     } catch (error) {

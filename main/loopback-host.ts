@@ -24,7 +24,7 @@ export type LoopbackOptions = {
   readonly log?: (message: string) => void;
 };
 
-const cookieName = 'syrinx_token';
+const cookieName = 'tidewing_token';
 const maxBodyBytes = 2 * 1024 * 1024;
 
 function sameToken(expected: string, offered: string | undefined): boolean {
@@ -88,7 +88,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
   async function handle(request: http.IncomingMessage, response: http.ServerResponse): Promise<void> {
     const host = request.headers.host;
     if (host === undefined || !allowedHosts.has(host.toLowerCase())) {
-      send(response, 421, 'This Syrinx host answers only on its loopback address.', 'text/plain; charset=utf-8');
+      send(response, 421, 'This Tidewing host answers only on its loopback address.', 'text/plain; charset=utf-8');
       return;
     }
     const url = new URL(request.url ?? '/', `http://${host}`);
@@ -124,7 +124,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
 
     const viaQuery = sameToken(token, offeredQuery);
     if (!viaQuery && !sameToken(token, offeredCookie) && !sameToken(token, offeredHeader)) {
-      send(response, 403, 'Access refused: open the full address Syrinx printed, including its token.', 'text/plain; charset=utf-8');
+      send(response, 403, 'Access refused: open the full address Tidewing printed, including its token.', 'text/plain; charset=utf-8');
       return;
     }
     if (request.method !== 'GET' && request.method !== 'HEAD') {

@@ -4,7 +4,7 @@ import { planResultSchema, type PlanInput } from '../app/contract/plan.js';
 import { speciesToReference } from '../app/contract/species-mapping.js';
 import { computePlan, modelVersion } from '../app/core/model/compute-plan.js';
 import { weightTrend } from '../app/core/weight-trend.js';
-import type { SyrinxDatabase } from '../db/connection.js';
+import type { TidewingDatabase } from '../db/connection.js';
 import { createPatientRepository } from '../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../db/repositories/plan-repository.js';
 import { createSpeciesRepository } from '../db/repositories/species-repository.js';
@@ -19,7 +19,7 @@ function openItems(plan: SavedPlan): number {
 }
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
-export function createPlanHandlers(db: SyrinxDatabase, now: () => Date): PlanHandlerTable {
+export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);

@@ -2,9 +2,9 @@
 // the renderer can reach only the contract's channels and nothing else of Electron or Node.
 import electron = require('electron');
 
-const allowedChannels = new Set<string>(electron.ipcRenderer.sendSync('syrinx:channel-list') as string[]);
+const allowedChannels = new Set<string>(electron.ipcRenderer.sendSync('tidewing:channel-list') as string[]);
 
-electron.contextBridge.exposeInMainWorld('syrinx', {
+electron.contextBridge.exposeInMainWorld('tidewing', {
   invoke(channel: string, request: unknown): Promise<unknown> {
     if (typeof channel !== 'string' || !allowedChannels.has(channel)) {
       return Promise.resolve({ ok: false, error: { code: 'unknown-channel', message: `There is no channel called ${String(channel)}.` } });
@@ -13,6 +13,6 @@ electron.contextBridge.exposeInMainWorld('syrinx', {
   },
   /** Prints the shown worksheet to a PDF file the user picks; only a suggested file name crosses over. */
   saveWorksheetPdf(suggestedName: string): Promise<unknown> {
-    return electron.ipcRenderer.invoke('syrinx:worksheet-pdf', typeof suggestedName === 'string' ? suggestedName : '');
+    return electron.ipcRenderer.invoke('tidewing:worksheet-pdf', typeof suggestedName === 'string' ? suggestedName : '');
   },
 });

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 /**
- * The folder holding Syrinx's package.json. Works from the TypeScript sources (tests), from the
+ * The folder holding Tidewing's package.json. Works from the TypeScript sources (tests), from the
  * compiled build/ tree and from inside a packaged app, whose depths differ.
  */
 export function findProjectRoot(start: string = path.dirname(fileURLToPath(import.meta.url))): string {
@@ -12,10 +12,10 @@ export function findProjectRoot(start: string = path.dirname(fileURLToPath(impor
     const candidate = path.join(folder, 'package.json');
     if (fs.existsSync(candidate)) {
       const parsed = JSON.parse(fs.readFileSync(candidate, 'utf8')) as { name?: string };
-      if (parsed.name === 'syrinx') return folder;
+      if (parsed.name === 'tidewing') return folder;
     }
     const parent = path.dirname(folder);
-    if (parent === folder) throw new Error(`Could not find Syrinx's package.json above ${start}`);
+    if (parent === folder) throw new Error(`Could not find Tidewing's package.json above ${start}`);
     folder = parent;
   }
 }

@@ -7,7 +7,7 @@ import { createProcedureEntryRepository, EntryCorrectionError } from '../db/repo
 import { createProcedureRecordRepository } from '../db/repositories/procedure-record-repository.js';
 import { createSpeciesRepository } from '../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../db/repositories/weight-repository.js';
-import type { SyrinxDatabase } from '../db/connection.js';
+import type { TidewingDatabase } from '../db/connection.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
 type RecordHandlerTable = { [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
@@ -38,7 +38,7 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
 }
 
 /** Handlers for species, patients, weights, procedure records and entries. */
-export function createRecordHandlers(db: SyrinxDatabase, now: () => Date): RecordHandlerTable {
+export function createRecordHandlers(db: TidewingDatabase, now: () => Date): RecordHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
@@ -129,7 +129,7 @@ export function createRecordHandlers(db: SyrinxDatabase, now: () => Date): Recor
       });
       const day = detail.record.values.startedAt.slice(0, 10);
       const safeName = detail.patient.values.name.replace(/[^A-Za-z0-9-]+/g, '-').replace(/^-|-$/g, '') || 'patient';
-      return { fileName: `syrinx-procedure-${request.id}-${safeName}-${day}.csv`, csv };
+      return { fileName: `tidewing-procedure-${request.id}-${safeName}-${day}.csv`, csv };
     },
 
     'entries:add': (request) => {

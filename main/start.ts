@@ -19,7 +19,7 @@ async function main(): Promise<number> {
     args = parseStartArguments(process.argv.slice(2), process.env);
   } catch (error) {
     if (error instanceof ArgumentError) {
-      process.stderr.write(`syrinx: ${error.message}\n`);
+      process.stderr.write(`tidewing: ${error.message}\n`);
       return 2;
     }
     throw error;
@@ -44,7 +44,7 @@ async function main(): Promise<number> {
   try {
     backEnd = startBackEnd({ dataDirectory, appVersion, host: 'browser', automaticBackup: true, log: (message) => process.stderr.write(`${message}\n`) });
   } catch (error) {
-    process.stderr.write(`syrinx: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
   }
   const host = await startLoopbackHost({
@@ -53,7 +53,7 @@ async function main(): Promise<number> {
     dispatch: backEnd.dispatch,
     log: (message) => process.stderr.write(`${message}\n`),
   });
-  process.stdout.write(`Syrinx ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`);
+  process.stdout.write(`Tidewing ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`);
   process.stdout.write(`Data folder: ${dataDirectory}\n`);
   process.stdout.write(`Open: ${host.url}\n`);
   process.stdout.write(`(ready in ${Math.round(performance.now() - startedAt)} ms; press Ctrl+C to stop)\n`);
@@ -77,7 +77,7 @@ async function main(): Promise<number> {
 main().then(
   (code) => process.exit(code),
   (error: unknown) => {
-    process.stderr.write(`syrinx: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+    process.stderr.write(`tidewing: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
     process.exit(1);
   },
 );

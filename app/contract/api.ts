@@ -1,12 +1,12 @@
 import type { ChannelName, RequestOf, ResponseOf } from './channels.js';
 import type { Result } from './result.js';
 
-/** What the renderer sees on `window.syrinx`, whichever host it runs in. */
-export type SyrinxApi = {
+/** What the renderer sees on `window.tidewing`, whichever host it runs in. */
+export type TidewingApi = {
   invoke<C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<Result<ResponseOf<C>>>;
 };
 
 /** The token header the loopback host requires on every bridge call. */
-export const tokenHeader = 'x-syrinx-token';
+export const tokenHeader = 'x-tidewing-token';
 /** Path prefix of the loopback bridge; the channel name follows. */
 export const bridgePathPrefix = '/api/';

@@ -1,5 +1,5 @@
 /**
- * The clinic's own emergency drugs. Syrinx ships no drug list and no dose: the clinic enters
+ * The clinic's own emergency drugs. Tidewing ships no drug list and no dose: the clinic enters
  * each drug, its concentration, its dose range and the source it relies on for that dose.
  */
 import { z } from 'zod';

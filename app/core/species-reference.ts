@@ -241,7 +241,7 @@ export const speciesReference: readonly SpeciesReference[] = [
       completeTrachealRingsNote,
       {
         code: 'tracheal-bulla',
-        text: 'Males have a tracheal (syringeal) bulla, an extra gas volume at the syrinx that adds dead space',
+        text: 'Males have a tracheal (syringeal) bulla, an extra gas volume at the syrinx (vocal organ) that adds dead space',
         basis: 'Tracheal bulla in male ducks (Anatidae) (from memory)',
         kind: 'memory',
       },

@@ -1,7 +1,7 @@
 /**
  * Content of the printable pre-procedure worksheet, computed from a saved plan: the emergency
  * card in the clinic's own doses, the monitoring grid, the open checklist items and the ASA
- * mortality figures. Pure: plain data in, plain data out. Syrinx ships no drug and no dose;
+ * mortality figures. Pure: plain data in, plain data out. Tidewing ships no drug and no dose;
  * every dose here is one the clinic entered with its source.
  */
 import { formatQuantity, gToKg, roundToSignificant } from './units.js';

@@ -27,7 +27,7 @@ function useRoute(): Route {
 function Failure({ message }: { readonly message: string }) {
   return (
     <main className="gate">
-      <h1>Syrinx cannot start</h1>
+      <h1>Tidewing cannot start</h1>
       <p className="form-error" role="alert">{message}</p>
     </main>
   );

@@ -30,7 +30,7 @@ export async function loadPrintData(planId: number | null): Promise<PrintData> {
       ask('drugs:list', {}),
       ask('app:info', {}),
     ]);
-    if (!safety.acknowledged) return { state: 'failed', message: `The cautions of Syrinx ${safety.appVersion} have not been acknowledged yet. Open the app, read and acknowledge them first.` };
+    if (!safety.acknowledged) return { state: 'failed', message: `The cautions of Tidewing ${safety.appVersion} have not been acknowledged yet. Open the app, read and acknowledge them first.` };
     if (stored.settings === null) return { state: 'failed', message: 'The clinic is not set up yet. Open the app and save Settings first.' };
     return { state: 'ready', props: { detail, drugs, appVersion: info.appVersion, settings: stored.settings } };
   } catch (error) {

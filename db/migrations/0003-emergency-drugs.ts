@@ -1,5 +1,5 @@
 /**
- * The clinic's own emergency drugs for the worksheet's emergency card. Syrinx ships no drug and
+ * The clinic's own emergency drugs for the worksheet's emergency card. Tidewing ships no drug and
  * no dose: every row is entered by the clinic with the source it relies on. Rows are never
  * changed or deleted; a correction or a void is a new row whose `corrects_id` points at the row
  * it replaces, as in the other record tables.

@@ -1,5 +1,5 @@
 import type { EmergencyDrug, EmergencyDrugValues } from '../../app/contract/drug-channels.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { stampOf, type StampRow } from './version-chain.js';
 
 type DrugRow = StampRow & {
@@ -36,7 +36,7 @@ function rowToDrug(row: DrugRow): EmergencyDrug {
 export class DrugCorrectionError extends Error {}
 
 /** All SQL for the clinic's emergency drugs. Corrections and voids are new rows. */
-export function createEmergencyDrugRepository(db: SyrinxDatabase) {
+export function createEmergencyDrugRepository(db: TidewingDatabase) {
   const insert = db.prepare(
     `INSERT INTO emergency_drugs (corrects_id, voided, name, concentration_mg_per_ml, dose_low_mg_per_kg, dose_high_mg_per_kg, route, dose_source, notes, entered_at, entered_by, reason)
      VALUES (@correctsId, @voided, @name, @concentrationMgPerMl, @doseLowMgPerKg, @doseHighMgPerKg, @route, @doseSource, @notes, @enteredAt, @enteredBy, @reason)`,

@@ -1,5 +1,5 @@
 import type { Patient, PatientSummary, PatientValues } from '../../app/contract/records.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PatientVersionRow = StampRow & {
@@ -76,7 +76,7 @@ function ftsPhrase(query: string): string {
 }
 
 /** All SQL for patients, patient_versions, patient_current and patient_search. */
-export function createPatientRepository(db: SyrinxDatabase) {
+export function createPatientRepository(db: TidewingDatabase) {
   const insertPatient = db.prepare('INSERT INTO patients (created_at) VALUES (?)');
   const insertVersion = db.prepare(
     `INSERT INTO patient_versions (patient_id, corrects_id, name, species_key, sex, hatch_date, age_text, ring_id, microchip_id, owner_reference, notes, entered_at, entered_by, reason)

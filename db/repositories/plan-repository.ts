@@ -1,6 +1,6 @@
 import type { Checklist, SavedPlan } from '../../app/contract/plan-records.js';
 import type { PlanInput, PlanResult } from '../../app/contract/plan.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PlanRow = StampRow & {
@@ -44,7 +44,7 @@ function rowToPlan(row: PlanRow): SavedPlan {
  * the checklist. An edit is a new row pointing at the one it replaces; ids of the newest row are
  * what screens hold.
  */
-export function createPlanRepository(db: SyrinxDatabase) {
+export function createPlanRepository(db: TidewingDatabase) {
   const insert = db.prepare(
     `INSERT INTO plans (patient_id, corrects_id, planned_for, label, input_json, result_json, checklist_json, model_version, entered_at, entered_by, reason)
      VALUES (@patientId, @correctsId, @plannedFor, @label, @inputJson, @resultJson, @checklistJson, @modelVersion, @enteredAt, @enteredBy, @reason)`,

@@ -1,5 +1,5 @@
 import type { ProcedureEntry, ProcedureEntryValues } from '../../app/contract/records.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type EntryRow = StampRow & {
@@ -49,7 +49,7 @@ function rowToEntry(row: EntryRow): ProcedureEntry {
 export class EntryCorrectionError extends Error {}
 
 /** All SQL for procedure_entries: one row per time point or event; corrections are new rows. */
-export function createProcedureEntryRepository(db: SyrinxDatabase) {
+export function createProcedureEntryRepository(db: TidewingDatabase) {
   const insert = db.prepare(
     `INSERT INTO procedure_entries (record_id, corrects_id, voided, at, kind, vapor_pct, oxygen_lpm, heart_rate_per_min, breaths_per_min,
        temperature_c, etco2_mmhg, spo2_pct, event_type, event_note, drug_name, drug_dose, entered_at, entered_by, reason)

@@ -1,5 +1,5 @@
 import type { ProcedureRecord, ProcedureRecordValues } from '../../app/contract/records.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type RecordVersionRow = StampRow & {
@@ -48,7 +48,7 @@ function rowToRecord(row: RecordVersionRow): ProcedureRecord {
 }
 
 /** All SQL for procedure_records and procedure_record_versions. */
-export function createProcedureRecordRepository(db: SyrinxDatabase) {
+export function createProcedureRecordRepository(db: TidewingDatabase) {
   const insertRecord = db.prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)');
   const insertVersion = db.prepare(
     `INSERT INTO procedure_record_versions (record_id, corrects_id, plan_id, started_at, ended_at, asa_grade, emergency, procedure_name, fasting,

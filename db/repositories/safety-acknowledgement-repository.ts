@@ -1,11 +1,11 @@
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 
 export type SafetyAcknowledgement = { acknowledgedAt: string; appVersion: string; acknowledgedBy: string };
 
 type AcknowledgementRow = { acknowledged_at: string; app_version: string; acknowledged_by: string };
 
 /** All SQL for the safety_acknowledgements table; rows are only ever added. */
-export function createSafetyAcknowledgementRepository(db: SyrinxDatabase) {
+export function createSafetyAcknowledgementRepository(db: TidewingDatabase) {
   const latest = db.prepare<[], AcknowledgementRow>(
     'SELECT acknowledged_at, app_version, acknowledged_by FROM safety_acknowledgements ORDER BY id DESC LIMIT 1',
   );

@@ -1,5 +1,5 @@
 import type { ClinicSettings, StoredSettings } from '../../app/contract/settings.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 
 type SettingsRow = {
   clinic_name: string;
@@ -13,7 +13,7 @@ type SettingsRow = {
 };
 
 /** All SQL for the clinic_settings table. */
-export function createSettingsRepository(db: SyrinxDatabase) {
+export function createSettingsRepository(db: TidewingDatabase) {
   const select = db.prepare<[], SettingsRow>(
     `SELECT clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at
        FROM clinic_settings WHERE id = 1`,

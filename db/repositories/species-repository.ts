@@ -1,6 +1,6 @@
 import type { Species, SpeciesValues } from '../../app/contract/records.js';
 import type { SpeciesReference } from '../../app/core/species-reference.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type MacAgent = 'isoflurane' | 'sevoflurane' | 'desflurane';
@@ -127,7 +127,7 @@ const columns = [
 ];
 
 /** All SQL for the species table. Edits add a version; the old value and its source stay. */
-export function createSpeciesRepository(db: SyrinxDatabase) {
+export function createSpeciesRepository(db: TidewingDatabase) {
   const currentCondition = 'NOT EXISTS (SELECT 1 FROM species later WHERE later.corrects_id = s.id)';
   const listCurrent = db.prepare<[], SpeciesRow>(`SELECT * FROM species s WHERE ${currentCondition} ORDER BY common_name COLLATE NOCASE`);
   const getCurrent = db.prepare<[string], SpeciesRow>(`SELECT * FROM species s WHERE species_key = ? AND ${currentCondition}`);
@@ -183,7 +183,7 @@ export function createSpeciesRepository(db: SyrinxDatabase) {
         let added = 0;
         for (const entry of reference) {
           if (keyExists.get(entry.id) !== undefined) continue;
-          write(entry.id, 'reference', null, referenceToValues(entry), { enteredBy: 'Syrinx species reference', reason: 'Seeded from the species reference shipped with Syrinx' }, at);
+          write(entry.id, 'reference', null, referenceToValues(entry), { enteredBy: 'Tidewing species reference', reason: 'Seeded from the species reference shipped with Tidewing' }, at);
           added += 1;
         }
         return added;

@@ -1,4 +1,4 @@
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 
 /**
  * Record tables keep every version: a correction is a new row whose `corrects_id` names the row
@@ -8,7 +8,7 @@ import type { SyrinxDatabase } from '../connection.js';
 export type ChainTable = 'species' | 'patient_versions' | 'weights' | 'plans' | 'procedure_record_versions' | 'procedure_entries';
 
 /** Id of the newest row in the chain that contains `id` (the row no other row corrects). */
-export function currentIdInChain(db: SyrinxDatabase, table: ChainTable, id: number): number | null {
+export function currentIdInChain(db: TidewingDatabase, table: ChainTable, id: number): number | null {
   const row = db
     .prepare<[number], { id: number }>(
       `WITH RECURSIVE later(id) AS (
@@ -23,7 +23,7 @@ export function currentIdInChain(db: SyrinxDatabase, table: ChainTable, id: numb
 }
 
 /** Every row id in the chain containing `id`, newest first. */
-export function chainIds(db: SyrinxDatabase, table: ChainTable, id: number): number[] {
+export function chainIds(db: TidewingDatabase, table: ChainTable, id: number): number[] {
   const rows = db
     .prepare<[number], { id: number }>(
       `WITH RECURSIVE earlier(id, corrects_id) AS (

@@ -1,5 +1,5 @@
 import type { Weight, WeightValues } from '../../app/contract/records.js';
-import type { SyrinxDatabase } from '../connection.js';
+import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type WeightRow = StampRow & {
@@ -24,7 +24,7 @@ function rowToWeight(row: WeightRow): Weight {
 }
 
 /** All SQL for the weights table. Corrections and voids are new rows. */
-export function createWeightRepository(db: SyrinxDatabase) {
+export function createWeightRepository(db: TidewingDatabase) {
   const insert = db.prepare(
     `INSERT INTO weights (patient_id, corrects_id, voided, weighed_on, mass_g, body_condition, weighed_by, entered_at, entered_by, reason)
      VALUES (@patientId, @correctsId, @voided, @weighedOn, @massG, @bodyCondition, @weighedBy, @enteredAt, @enteredBy, @reason)`,

@@ -3,10 +3,10 @@ import { BackupError, backupDatabase } from '../../db/backup.js';
 import { formatBytes } from '../../db/integrity.js';
 import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
-export const backupUsage = 'Usage: syrinx backup --out FILE [--data DIR]\n  Copies the clinic database in DIR (default: the usual data folder) to FILE and checks the copy.';
+export const backupUsage = 'Usage: tidewing backup --out FILE [--data DIR]\n  Copies the clinic database in DIR (default: the usual data folder) to FILE and checks the copy.';
 
 /**
- * `syrinx backup --data DIR --out FILE`: an online copy of the database, integrity-checked before
+ * `tidewing backup --data DIR --out FILE`: an online copy of the database, integrity-checked before
  * it takes its name. Exit 0 done, 1 failed (nothing written under FILE), 2 bad arguments.
  */
 export async function runBackupCommand(args: string[], io: CommandIo): Promise<number> {
@@ -24,7 +24,7 @@ export async function runBackupCommand(args: string[], io: CommandIo): Promise<n
     io.stdout(`Backed up ${location.databaseFile} to ${made.file} (${formatBytes(made.sizeBytes)}; the copy passed the integrity check).\n`);
     return 0;
   } catch (error) {
-    io.stderr(`syrinx backup: ${error instanceof BackupError ? error.message : `the backup failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`);
+    io.stderr(`tidewing backup: ${error instanceof BackupError ? error.message : `the backup failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`);
     return 1;
   }
 }

@@ -5,12 +5,12 @@ import { backupFolder } from '../automatic-backup.js';
 import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 
 export const checkUsage =
-  'Usage: syrinx check [--data DIR] [--quick]\n       syrinx check FILE [--quick]\n  Reports the integrity and schema version of the clinic database in DIR (default: the usual data folder), or of a backup FILE.';
+  'Usage: tidewing check [--data DIR] [--quick]\n       tidewing check FILE [--quick]\n  Reports the integrity and schema version of the clinic database in DIR (default: the usual data folder), or of a backup FILE.';
 
 const shownLines = 20;
 
 /**
- * `syrinx check --data DIR` or `syrinx check FILE`: integrity check, schema version, foreign keys;
+ * `tidewing check --data DIR` or `tidewing check FILE`: integrity check, schema version, foreign keys;
  * reads only. Exit 0 sound, 1 a problem was found (or no database), 2 bad arguments.
  */
 export async function runCheckCommand(args: string[], io: CommandIo): Promise<number> {
@@ -32,7 +32,7 @@ export async function runCheckCommand(args: string[], io: CommandIo): Promise<nu
     `Database: ${check.file}`,
     `Result: ${check.ok ? 'OK' : 'PROBLEM'} (${check.status})`,
     check.message,
-    `Schema version: ${check.schemaVersion ?? 'unknown'} (this version of Syrinx understands up to ${check.supportedSchemaVersion})`,
+    `Schema version: ${check.schemaVersion ?? 'unknown'} (this version of Tidewing understands up to ${check.supportedSchemaVersion})`,
   ];
   if (check.integrity.length > 0) {
     lines.push(`${quick ? 'quick_check' : 'integrity_check'}:`);

@@ -64,7 +64,7 @@ export function parseArguments(
 }
 
 /**
- * Runs `parse`; a UsageError is printed as `syrinx COMMAND: message` with the usage, and gives
+ * Runs `parse`; a UsageError is printed as `tidewing COMMAND: message` with the usage, and gives
  * null (the command then exits with code 2). Other errors pass through.
  */
 export function parseOrExplain<T>(io: CommandIo, command: string, usage: string, parse: () => T): T | null {
@@ -72,7 +72,7 @@ export function parseOrExplain<T>(io: CommandIo, command: string, usage: string,
     return parse();
   } catch (error) {
     if (!(error instanceof UsageError)) throw error;
-    io.stderr(`syrinx ${command}: ${error.message}\n${usage}\n`);
+    io.stderr(`tidewing ${command}: ${error.message}\n${usage}\n`);
     return null;
   }
 }
@@ -80,7 +80,7 @@ export function parseOrExplain<T>(io: CommandIo, command: string, usage: string,
 /** True when the data folder holds a database; otherwise says so (nothing written) and gives false. */
 export function databaseExists(io: CommandIo, command: string, location: { readonly dataDirectory: string; readonly databaseFile: string }): boolean {
   if (fs.existsSync(location.databaseFile)) return true;
-  io.stderr(`syrinx ${command}: there is no Syrinx database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
+  io.stderr(`tidewing ${command}: there is no Tidewing database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
   return false;
 }
 

@@ -218,7 +218,7 @@ async function alertTexts({ connection, sessionId }: Session): Promise<string[]>
  * always removed, whatever happens.
  */
 export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
-  const profile = fs.mkdtempSync(path.join(job.scratchDirectory ?? os.tmpdir(), 'syrinx-chromium-'));
+  const profile = fs.mkdtempSync(path.join(job.scratchDirectory ?? os.tmpdir(), 'tidewing-chromium-'));
   const viewport = job.viewport ?? { width: 1280, height: 900 };
   const child = spawn(
     job.executablePath,

@@ -1,5 +1,5 @@
 /**
- * `syrinx plan FILE` (or `-` for standard input): validates a plan, computes it and prints the
+ * `tidewing plan FILE` (or `-` for standard input): validates a plan, computes it and prints the
  * result JSON, or with `--summary` a short table. Invalid input: exit code 2, one line per bad
  * field on standard error, nothing on standard output.
  */
@@ -15,7 +15,7 @@ export type PlanCommandIo = {
   readonly readFile: (path: string) => Promise<string>;
 };
 
-export const planCommandUsage = 'Usage: syrinx plan FILE [--summary]   (FILE may be - for standard input)';
+export const planCommandUsage = 'Usage: tidewing plan FILE [--summary]   (FILE may be - for standard input)';
 
 async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
   const chunks: string[] = [];
@@ -24,7 +24,7 @@ async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
 }
 
 /**
- * Runs `syrinx plan`.
+ * Runs `tidewing plan`.
  * @param args arguments after `plan`
  * @param io standard streams and a file reader (injected so tests run without a process)
  * @returns exit code: 0 done, 2 bad usage or invalid plan, 1 unexpected failure
@@ -38,40 +38,40 @@ export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise
       io.stdout(`${planCommandUsage}\n`);
       return 0;
     } else if (arg.startsWith('--')) {
-      io.stderr(`syrinx plan: unknown option ${arg}\n${planCommandUsage}\n`);
+      io.stderr(`tidewing plan: unknown option ${arg}\n${planCommandUsage}\n`);
       return 2;
     } else files.push(arg);
   }
   const file = files[0];
   if (file === undefined || files.length > 1) {
-    io.stderr(`syrinx plan: give exactly one plan file\n${planCommandUsage}\n`);
+    io.stderr(`tidewing plan: give exactly one plan file\n${planCommandUsage}\n`);
     return 2;
   }
   let text: string;
   try {
     text = file === '-' ? await readStream(io.stdin) : await io.readFile(file);
   } catch (error) {
-    io.stderr(`syrinx plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`);
+    io.stderr(`tidewing plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`);
     return 2;
   }
   let json: unknown;
   try {
     json = JSON.parse(text);
   } catch (error) {
-    io.stderr(`syrinx plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`);
+    io.stderr(`tidewing plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`);
     return 2;
   }
   const parsed = planInputSchema.safeParse(json);
   if (!parsed.success) {
     const lines = planIssueMessages(parsed.error);
-    io.stderr(`syrinx plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`);
+    io.stderr(`tidewing plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`);
     return 2;
   }
   let result: PlanResult;
   try {
     result = computePlan(parsed.data, { species: speciesReference });
   } catch (error) {
-    io.stderr(`syrinx plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`);
+    io.stderr(`tidewing plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
   }
   io.stdout(summary ? formatPlanSummary(result) : `${JSON.stringify(result, null, 2)}\n`);

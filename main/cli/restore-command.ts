@@ -4,10 +4,10 @@ import { restoreDatabase } from '../../db/restore.js';
 import { dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
 export const restoreUsage =
-  'Usage: syrinx restore FILE [--data DIR]\n  Checks FILE, then puts it in place of the clinic database in DIR (default: the usual data folder),\n  keeping the replaced database as syrinx.db.replaced-<time>. Close Syrinx first.';
+  'Usage: tidewing restore FILE [--data DIR]\n  Checks FILE, then puts it in place of the clinic database in DIR (default: the usual data folder),\n  keeping the replaced database as tidewing.db.replaced-<time>. Close Tidewing first.';
 
 /**
- * `syrinx restore FILE --data DIR`. Exit 0 restored, 1 refused or failed (the database is as it
+ * `tidewing restore FILE --data DIR`. Exit 0 restored, 1 refused or failed (the database is as it
  * was), 2 bad arguments.
  */
 export async function runRestoreCommand(args: string[], io: CommandIo, now: () => Date = () => new Date()): Promise<number> {
@@ -26,7 +26,7 @@ export async function runRestoreCommand(args: string[], io: CommandIo, now: () =
     io.stdout(`Check after restore: ${result.restoredCheck.message}\n`);
     return result.restoredCheck.ok ? 0 : 1;
   } catch (error) {
-    io.stderr(`syrinx restore: ${error instanceof BackupError ? error.message : `the restore failed: ${errorText(error)}`}\n`);
+    io.stderr(`tidewing restore: ${error instanceof BackupError ? error.message : `the restore failed: ${errorText(error)}`}\n`);
     return 1;
   }
 }

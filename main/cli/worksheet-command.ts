@@ -8,7 +8,7 @@ import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain
 import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
 
 export const worksheetUsage =
-  'Usage: syrinx worksheet --plan ID --out FILE.pdf [--data DIR]\n' +
+  'Usage: tidewing worksheet --plan ID --out FILE.pdf [--data DIR]\n' +
   '  Renders the printable worksheet of saved plan ID from the clinic database in DIR (default: the usual data folder) to a PDF, with headless Chromium\n' +
   '  (CHROMIUM_PATH, else /usr/bin/chromium), on the paper size chosen in Settings.';
 
@@ -43,7 +43,7 @@ async function check<T>(backEnd: BackEnd, channel: Parameters<BackEnd['dispatch'
 }
 
 /**
- * `syrinx worksheet --plan ID --data DIR --out FILE.pdf`: the same worksheet page the app
+ * `tidewing worksheet --plan ID --data DIR --out FILE.pdf`: the same worksheet page the app
  * prints, rendered by headless Chromium from an in-process loopback host on a free port and
  * written to FILE (via a temporary file renamed into place, so FILE is never half-written).
  * Exit 0 written, 1 refused or failed (nothing written under FILE), 2 bad arguments.
@@ -54,19 +54,19 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
   const { planId, outFile, location } = parsed;
   if (!databaseExists(io, 'worksheet', location)) return 1;
   if (!fs.existsSync(path.dirname(outFile))) {
-    io.stderr(`syrinx worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`);
+    io.stderr(`tidewing worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`);
     return 1;
   }
 
   const root = findProjectRoot();
   const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
   if (!fs.existsSync(executablePath)) {
-    io.stderr(`syrinx worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`);
+    io.stderr(`tidewing worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`);
     return 1;
   }
   const renderer = rendererDirectory(root);
   if (!fs.existsSync(path.join(renderer, 'print.html'))) {
-    io.stderr(`syrinx worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`);
+    io.stderr(`tidewing worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`);
     return 1;
   }
 
@@ -116,7 +116,7 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     if (!detail.ok) throw new Refusal(detail.error.code === 'not-found' ? `there is no plan ${planId} in ${location.databaseFile}.` : detail.error.message);
     const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
     if (!safety.acknowledged) {
-      throw new Refusal(`the cautions of Syrinx ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`);
+      throw new Refusal(`the cautions of Tidewing ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`);
     }
     const settings = await check<{ settings: unknown }>(backEnd, 'settings:get', {});
     if (settings.settings === null) throw new Refusal('the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.');
@@ -138,10 +138,10 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
   } catch (error) {
     fs.rmSync(temporary, { force: true });
     if (error instanceof Refusal) {
-      io.stderr(`syrinx worksheet: ${error.message}\n`);
+      io.stderr(`tidewing worksheet: ${error.message}\n`);
       return 1;
     }
-    io.stderr(`syrinx worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`);
+    io.stderr(`tidewing worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`);
     return 1;
   } finally {
     backEndFailed();

@@ -14,8 +14,8 @@ export const planInputSchemaPath = 'docs/plan-input.schema.json';
 export function planInputJsonSchemaText(): string {
   const schema = z.toJSONSchema(planInputSchema, { io: 'input', unrepresentable: 'any' });
   const document = {
-    $id: 'https://syrinx.invalid/plan-input.schema.json',
-    title: 'Syrinx anaesthetic plan input',
+    $id: 'https://tidewing.invalid/plan-input.schema.json',
+    title: 'Tidewing anaesthetic plan input',
     description: 'Generated from planInputSchema (app/contract/plan.ts) by main/cli/write-json-schema.ts. Cross-field rules (schedule order, chamber volume for the chamber route, circle volume for a circle, ...) are checked by the program and are not all expressible here.',
     ...schema,
   };

@@ -32,7 +32,7 @@ function timeToUrl(root: string, dataDirectory: string): Promise<number> {
 /** Start-to-URL of `npm start` (process spawn included) and a settings round trip through the bridge. */
 export async function benchFoundation(): Promise<Figure[]> {
   const root = findProjectRoot();
-  const data = fs.mkdtempSync(path.join(os.tmpdir(), 'syrinx-bench-'));
+  const data = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-bench-'));
   try {
     const starts: number[] = [];
     for (let run = 0; run < 7; run += 1) starts.push(await timeToUrl(root, data));
@@ -40,7 +40,7 @@ export async function benchFoundation(): Promise<Figure[]> {
     const backEnd = startBackEnd({ dataDirectory: data, appVersion: 'bench', host: 'browser' });
     const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
     const call = async (channel: string, body: unknown) => {
-      const response = await fetch(`${host.origin}/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': host.token }, body: JSON.stringify(body) });
+      const response = await fetch(`${host.origin}/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-tidewing-token': host.token }, body: JSON.stringify(body) });
       const parsed = (await response.json()) as { ok: boolean };
       if (!parsed.ok) throw new Error(`${channel} failed during the benchmark`);
     };

@@ -41,7 +41,7 @@ export async function benchPlanningScreen(): Promise<Figure[]> {
   const root = findProjectRoot();
   const executablePath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
   if (!fs.existsSync(executablePath)) return [{ name: 'keystroke to redrawn chart', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` }];
-  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'syrinx-bench-planning-'));
+  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-bench-planning-'));
   const backEnd = startBackEnd({ dataDirectory: folder, appVersion: readAppVersion(root), host: 'browser' });
   const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
   const browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });

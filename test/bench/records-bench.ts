@@ -59,9 +59,9 @@ function vitals(sequence: number): ProcedureEntryValues {
  * 50,000 generated patients; and backup and integrity check of that database.
  */
 export async function benchRecords(): Promise<Figure[]> {
-  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'syrinx-records-bench-'));
+  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-records-bench-'));
   try {
-    const db = openDatabase(path.join(folder, 'syrinx.db'));
+    const db = openDatabase(path.join(folder, 'tidewing.db'));
     const patients = createPatientRepository(db);
     const entries = createProcedureEntryRepository(db);
     const meta = { enteredBy: 'bench', reason: '' };
@@ -133,10 +133,10 @@ export async function benchRecords(): Promise<Figure[]> {
     const backupMs = performance.now() - backupStartedAt;
     db.close();
     const checkStartedAt = performance.now();
-    const check = checkDatabaseFile(path.join(folder, 'syrinx.db'));
+    const check = checkDatabaseFile(path.join(folder, 'tidewing.db'));
     const checkMs = performance.now() - checkStartedAt;
     const quickStartedAt = performance.now();
-    checkDatabaseFile(path.join(folder, 'syrinx.db'), { quick: true });
+    checkDatabaseFile(path.join(folder, 'tidewing.db'), { quick: true });
     const quickMs = performance.now() - quickStartedAt;
     if (!check.ok) throw new Error(`the benchmark database failed its check: ${check.message}`);
 

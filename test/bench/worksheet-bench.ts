@@ -17,7 +17,7 @@ const quiet = { stdout: () => undefined, stderr: () => undefined };
 
 /** A data folder with the cautions acknowledged, settings saved, two clinic drugs and one plan. */
 async function preparedData(root: string): Promise<{ folder: string; planId: number }> {
-  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'syrinx-bench-worksheet-'));
+  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-bench-worksheet-'));
   const backEnd = startBackEnd({ dataDirectory: folder, appVersion: readAppVersion(root), host: 'browser' });
   try {
     const call = async (channel: string, payload: unknown): Promise<{ id: number }> => {
@@ -27,7 +27,7 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
     };
     await call('safety:acknowledge', { acknowledgedBy: 'BE', accepted: true });
     await call('settings:save', benchClinicSettings);
-    // Neutral placeholders: Syrinx ships no drug and no dose.
+    // Neutral placeholders: Tidewing ships no drug and no dose.
     for (const name of ['Bench drug A', 'Bench drug B']) {
       await call('drugs:add', { values: { name, concentrationMgPerMl: 1, doseLowMgPerKg: 1, doseHighMgPerKg: 2, route: 'IV', doseSource: 'bench placeholder' }, meta: { enteredBy: 'BE' } });
     }
@@ -40,7 +40,7 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
 }
 
 /**
- * Worksheet PDF time: the `syrinx worksheet` command as a new process (what a user waits for),
+ * Worksheet PDF time: the `tidewing worksheet` command as a new process (what a user waits for),
  * the same command run in this process, and the page-to-PDF part alone with Chromium already
  * running. Median of 5; target under 2 s.
  */
@@ -56,15 +56,15 @@ export async function benchWorksheet(): Promise<Figure[]> {
     for (let index = 0; index < runs; index += 1) {
       // As a user runs it: a new Node process, Chromium started from nothing, exit when done.
       const started = performance.now();
-      const run = spawnSync(process.execPath, [path.join(root, 'bin', 'syrinx.js'), ...args], { encoding: 'utf8' });
-      if (run.status !== 0) throw new Error(`syrinx worksheet exited with ${String(run.status)}: ${run.stderr}`);
+      const run = spawnSync(process.execPath, [path.join(root, 'bin', 'tidewing.js'), ...args], { encoding: 'utf8' });
+      if (run.status !== 0) throw new Error(`tidewing worksheet exited with ${String(run.status)}: ${run.stderr}`);
       cold.push(performance.now() - started);
     }
     const whole: number[] = [];
     for (let index = 0; index < runs; index += 1) {
       const started = performance.now();
       const code = await runWorksheetCommand(args.slice(1), quiet);
-      if (code !== 0) throw new Error(`syrinx worksheet exited with ${code}`);
+      if (code !== 0) throw new Error(`tidewing worksheet exited with ${code}`);
       whole.push(performance.now() - started);
     }
 
@@ -91,7 +91,7 @@ export async function benchWorksheet(): Promise<Figure[]> {
       backEnd.close();
     }
     return [
-      { name: 'worksheet PDF, cold `syrinx worksheet` process', value: median(cold), unit: 'ms', note: `median of ${runs}, target < 2000 ms; from starting Node to its exit, Chromium started from nothing` },
+      { name: 'worksheet PDF, cold `tidewing worksheet` process', value: median(cold), unit: 'ms', note: `median of ${runs}, target < 2000 ms; from starting Node to its exit, Chromium started from nothing` },
       { name: 'worksheet PDF, whole command in process', value: median(whole), unit: 'ms', note: `median of ${runs}, target < 2000 ms; database, host, Chromium start, page, PDF, Chromium stop` },
       { name: 'worksheet PDF, page to PDF (Chromium running)', value: median(warm), unit: 'ms', note: `median of ${runs}, target < 2000 ms` },
     ];

@@ -14,7 +14,7 @@ const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 
 function scratch(): string {
-  const temp = temporaryFolder('syrinx-headless-pdf-');
+  const temp = temporaryFolder('tidewing-headless-pdf-');
   cleanups.push(temp.remove);
   return temp.folder;
 }

@@ -24,7 +24,7 @@ async function run(args: string[], stdinText = '', files: Record<string, string>
   return { code, stdout, stderr };
 }
 
-describe('syrinx plan', () => {
+describe('tidewing plan', () => {
   it('prints the result JSON for a plan file', async () => {
     const { code, stdout, stderr } = await run([example]);
     expect(code).toBe(0);

@@ -30,12 +30,12 @@ function dataFolder(entries: number) {
 }
 
 function scratch(): string {
-  const temp = temporaryFolder('syrinx-cli-');
+  const temp = temporaryFolder('tidewing-cli-');
   cleanups.push(temp.remove);
   return temp.folder;
 }
 
-describe('syrinx backup', () => {
+describe('tidewing backup', () => {
   it('writes a checked copy and prints progress on stderr', async () => {
     const data = dataFolder(20);
     const out = path.join(scratch(), 'monday.db');
@@ -51,7 +51,7 @@ describe('syrinx backup', () => {
     for (const args of [['--data', data.folder], ['--data', data.folder, '--out', 'x.db', '--force'], ['--data', data.folder, '--out'], ['--data', data.folder, '--out', 'a.db', 'extra']]) {
       const run = captured();
       expect(await runBackupCommand(args, run.io), args.join(' ')).toBe(2);
-      expect(run.stderr()).toContain('Usage: syrinx backup');
+      expect(run.stderr()).toContain('Usage: tidewing backup');
     }
   });
 
@@ -59,7 +59,7 @@ describe('syrinx backup', () => {
     const empty = scratch();
     const run = captured();
     expect(await runBackupCommand(['--data', empty, '--out', path.join(empty, 'copy.db')], run.io)).toBe(1);
-    expect(run.stderr()).toContain('there is no Syrinx database in');
+    expect(run.stderr()).toContain('there is no Tidewing database in');
     expect(listing(empty)).toEqual([]);
   });
 
@@ -74,7 +74,7 @@ describe('syrinx backup', () => {
   });
 });
 
-describe('syrinx restore', () => {
+describe('tidewing restore', () => {
   it('restores a backup and says where the replaced database is kept', async () => {
     const source = dataFolder(4);
     const backup = path.join(scratch(), 'backup.db');
@@ -84,7 +84,7 @@ describe('syrinx restore', () => {
     const at = new Date(Date.UTC(2026, 4, 6, 7, 8, 9, 10));
     expect(await runRestoreCommand([backup, '--data', live.folder], run.io, () => at)).toBe(0);
     expect(entryIdsIn(live.databaseFile)).toEqual(source.entryIds);
-    expect(run.stdout()).toContain(`kept at ${path.join(live.folder, 'syrinx.db.replaced-2026-05-06T07-08-09.010Z')}`);
+    expect(run.stdout()).toContain(`kept at ${path.join(live.folder, 'tidewing.db.replaced-2026-05-06T07-08-09.010Z')}`);
     expect(run.stdout()).toContain('Check after restore:');
     expect(run.stderr()).toContain('restore: 100%');
   });
@@ -100,7 +100,7 @@ describe('syrinx restore', () => {
     expect(await runRestoreCommand([backup, '--data', live.folder], run.io)).toBe(1);
     expect(run.stderr()).toMatch(/Restore refused: .*damaged.*Nothing was changed/);
     expect(sha256(live.databaseFile)).toBe(before);
-    expect(listing(live.folder)).toEqual(['syrinx.db']);
+    expect(listing(live.folder)).toEqual(['tidewing.db']);
   });
 
   it('exits 2 without a FILE or with two', async () => {
@@ -108,18 +108,18 @@ describe('syrinx restore', () => {
     for (const args of [['--data', live.folder], ['a.db', 'b.db', '--data', live.folder]]) {
       const run = captured();
       expect(await runRestoreCommand(args, run.io)).toBe(2);
-      expect(run.stderr()).toContain('Usage: syrinx restore');
+      expect(run.stderr()).toContain('Usage: tidewing restore');
     }
   });
 });
 
-describe('syrinx check', () => {
+describe('tidewing check', () => {
   it('reports a sound database with its schema version and exits 0', async () => {
     const data = dataFolder(3);
     const run = captured();
     expect(await runCheckCommand(['--data', data.folder], run.io)).toBe(0);
     expect(run.stdout()).toContain('Result: OK (ok)');
-    expect(run.stdout()).toMatch(/Schema version: \d+ \(this version of Syrinx understands up to \d+\)/);
+    expect(run.stdout()).toMatch(/Schema version: \d+ \(this version of Tidewing understands up to \d+\)/);
     expect(run.stdout()).toContain('integrity_check:\n  ok');
     expect(run.stdout()).toContain('Automatic backups: none');
   });
@@ -153,7 +153,7 @@ describe('syrinx check', () => {
   });
 });
 
-describe('syrinx export', () => {
+describe('tidewing export', () => {
   it('writes the whole database as JSON', async () => {
     const data = dataFolder(6);
     const out = path.join(scratch(), 'archive.json');
@@ -164,7 +164,7 @@ describe('syrinx export', () => {
     expect(parsed.exportedAt).toBe('2026-07-01T12:00:00.000Z');
     expect(parsed.tables['procedure_entries']?.rows.map((row) => row['id'])).toEqual(data.entryIds);
     expect(run.stderr()).toContain('export: 100%');
-    expect(listing(data.folder)).toEqual(['syrinx.db']);
+    expect(listing(data.folder)).toEqual(['tidewing.db']);
   });
 
   it('exits 2 without --out and 1 for a damaged database, writing nothing', async () => {
@@ -185,7 +185,7 @@ describe('the command line', () => {
     vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => written.push(String(chunk)) > 0);
     vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => written.push(String(chunk)) > 0);
     expect(await runCli(['--help'])).toBe(0);
-    for (const name of ['backup', 'restore', 'check', 'export']) expect(written.join('')).toContain(`syrinx ${name}`);
+    for (const name of ['backup', 'restore', 'check', 'export']) expect(written.join('')).toContain(`tidewing ${name}`);
     const data = dataFolder(1);
     expect(await runCli(['check', '--data', data.folder])).toBe(0);
     expect(await runCli(['backup', '--data', data.folder])).toBe(2);

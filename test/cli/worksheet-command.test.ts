@@ -24,7 +24,7 @@ function captured() {
 }
 
 function scratch(): string {
-  const temp = temporaryFolder('syrinx-worksheet-');
+  const temp = temporaryFolder('tidewing-worksheet-');
   cleanups.push(temp.remove);
   return temp.folder;
 }
@@ -51,12 +51,12 @@ async function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{
   }
 }
 
-describe('syrinx worksheet', () => {
+describe('tidewing worksheet', () => {
   it('exits 2 with the usage for missing, malformed or unknown arguments', async () => {
     for (const args of [[], ['--plan', '1'], ['--out', 'a.pdf'], ['--plan', 'x', '--out', 'a.pdf'], ['--plan', '0', '--out', 'a.pdf'], ['--plan', '1', '--out', 'a.txt'], ['--plan', '1', '--out', 'a.pdf', '--colour']]) {
       const run = captured();
       expect(await runWorksheetCommand(args, run.io), args.join(' ')).toBe(2);
-      expect(run.stderr()).toContain('Usage: syrinx worksheet');
+      expect(run.stderr()).toContain('Usage: tidewing worksheet');
     }
   });
 
@@ -64,20 +64,20 @@ describe('syrinx worksheet', () => {
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
     expect(await runWorksheetCommand(['--plan', '1', '--data', scratch(), '--out', out], run.io)).toBe(1);
-    expect(run.stderr()).toMatch(/there is no Syrinx database/);
+    expect(run.stderr()).toMatch(/there is no Tidewing database/);
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it('exits 1 and leaves a database from a newer Syrinx untouched', async () => {
+  it('exits 1 and leaves a database from a newer Tidewing untouched', async () => {
     const folder = scratch();
-    const file = path.join(folder, 'syrinx.db');
+    const file = path.join(folder, 'tidewing.db');
     const newer = new Database(file);
     newer.pragma('user_version = 999');
     newer.close();
     const before = fs.readFileSync(file);
     const run = captured();
     expect(await runWorksheetCommand(['--plan', '1', '--data', folder, '--out', path.join(scratch(), 'sheet.pdf')], run.io)).toBe(1);
-    expect(run.stderr()).toMatch(/written by a newer version of Syrinx/);
+    expect(run.stderr()).toMatch(/written by a newer version of Tidewing/);
     expect(fs.readFileSync(file).equals(before)).toBe(true);
   });
 

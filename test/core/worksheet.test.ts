@@ -13,7 +13,7 @@ import {
   plannedVaporPctAt,
 } from '../../app/core/worksheet.js';
 
-// The drugs below are placeholders entered "by the clinic" in the test: Syrinx ships no drug and
+// The drugs below are placeholders entered "by the clinic" in the test: Tidewing ships no drug and
 // no dose, so the names are neutral and the numbers only exercise the arithmetic.
 const drugA = { name: 'Drug A', concentrationMgPerMl: 1, doseLowMgPerKg: 0.5, doseHighMgPerKg: 1, route: 'IV', doseSource: 'Clinic protocol 2026', notes: '' };
 
@@ -56,7 +56,7 @@ describe('emergency card', () => {
     expect(() => drugVolumeMl(1, 30, 0)).toThrow(RangeError);
   });
 
-  it('is empty when the clinic has entered no drugs: Syrinx ships none', () => {
+  it('is empty when the clinic has entered no drugs: Tidewing ships none', () => {
     expect(emergencyCard([], 32)).toEqual([]);
   });
 });

@@ -18,7 +18,7 @@ function withEntries(count: number) {
 }
 
 function outFolder(): string {
-  const temp = temporaryFolder('syrinx-backups-');
+  const temp = temporaryFolder('tidewing-backups-');
   cleanups.push(temp.remove);
   return temp.folder;
 }
@@ -96,20 +96,20 @@ describe('rollingBackup', () => {
     const { databaseFile } = withEntries(5);
     const folder = outFolder();
     fs.writeFileSync(path.join(folder, 'notes.txt'), 'not a backup');
-    fs.writeFileSync(path.join(folder, 'syrinx-backup-before-surgery.db'), 'made by hand');
+    fs.writeFileSync(path.join(folder, 'tidewing-backup-before-surgery.db'), 'made by hand');
     const removedPerRun: number[] = [];
     for (let minute = 0; minute < 5; minute += 1) {
       const made = await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
-      expect(path.basename(made.file)).toBe(`syrinx-backup-2026-01-05T09-0${minute}-00.000Z.db`);
+      expect(path.basename(made.file)).toBe(`tidewing-backup-2026-01-05T09-0${minute}-00.000Z.db`);
       removedPerRun.push(made.removed.length);
     }
     expect(removedPerRun).toEqual([0, 0, 0, 1, 1]);
     expect(listing(folder)).toEqual([
       'notes.txt',
-      'syrinx-backup-2026-01-05T09-02-00.000Z.db',
-      'syrinx-backup-2026-01-05T09-03-00.000Z.db',
-      'syrinx-backup-2026-01-05T09-04-00.000Z.db',
-      'syrinx-backup-before-surgery.db',
+      'tidewing-backup-2026-01-05T09-02-00.000Z.db',
+      'tidewing-backup-2026-01-05T09-03-00.000Z.db',
+      'tidewing-backup-2026-01-05T09-04-00.000Z.db',
+      'tidewing-backup-before-surgery.db',
     ]);
     expect(listBackups(folder).map((backup) => backup.takenAt)).toEqual(['2026-01-05T09:04:00.000Z', '2026-01-05T09:03:00.000Z', '2026-01-05T09:02:00.000Z']);
   });
@@ -127,7 +127,7 @@ describe('rollingBackup', () => {
     const folder = outFolder();
     const first = await rollingBackup({ databaseFile, backupFolder: folder, now: at(1) });
     const second = await rollingBackup({ databaseFile, backupFolder: folder, now: at(1) });
-    expect(path.basename(second.file)).toBe('syrinx-backup-2026-01-05T09-01-00.000Z-2.db');
+    expect(path.basename(second.file)).toBe('tidewing-backup-2026-01-05T09-01-00.000Z-2.db');
     expect(listBackups(folder).map((backup) => backup.file)).toEqual([second.file, first.file]);
   });
 
@@ -137,7 +137,7 @@ describe('rollingBackup', () => {
     for (let minute = 10; minute < 13; minute += 1) await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
     const made = await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(1) });
     expect(fs.existsSync(made.file)).toBe(true);
-    expect(made.removed.map((file) => path.basename(file))).toEqual(['syrinx-backup-2026-01-05T09-10-00.000Z.db']);
+    expect(made.removed.map((file) => path.basename(file))).toEqual(['tidewing-backup-2026-01-05T09-10-00.000Z.db']);
   });
 
   it('deletes no older backup when the new one cannot be made', async () => {

@@ -83,6 +83,6 @@ describe('a writer killed with SIGKILL in the middle of a stream of entries', ()
       }
     }
     expect(checkDatabaseFile(fixture.databaseFile).ok).toBe(true);
-    if (process.env['SYRINX_REPORT_CRASH_TEST'] === '1') process.stderr.write(`entries reported per run: ${committedPerRun.join(' ')}\n`);
+    if (process.env['TIDEWING_REPORT_CRASH_TEST'] === '1') process.stderr.write(`entries reported per run: ${committedPerRun.join(' ')}\n`);
   }, 60_000);
 });

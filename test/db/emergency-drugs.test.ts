@@ -1,7 +1,7 @@
 import Database from 'better-sqlite3';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { migrate, openDatabase, type SyrinxDatabase } from '../../db/connection.js';
+import { migrate, openDatabase, type TidewingDatabase } from '../../db/connection.js';
 import { emergencyDrugsMigration } from '../../db/migrations/0003-emergency-drugs.js';
 import { migrations } from '../../db/migrations/index.js';
 import { createEmergencyDrugRepository, DrugCorrectionError } from '../../db/repositories/emergency-drug-repository.js';
@@ -14,16 +14,16 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 const t0 = new Date('2026-12-01T08:00:00Z');
 const t1 = new Date('2026-12-01T09:00:00Z');
 const meta = { enteredBy: 'RW', reason: '' };
-// Neutral placeholder entered "by the clinic": Syrinx ships no drug and no dose.
+// Neutral placeholder entered "by the clinic": Tidewing ships no drug and no dose.
 const drugA = { name: 'Drug A', concentrationMgPerMl: 1, doseLowMgPerKg: 0.5, doseHighMgPerKg: 1, route: 'IV', doseSource: 'Clinic protocol 2026', notes: '' };
 
 function freshFile(): string {
   const temp = temporaryFolder();
   cleanups.push(temp.remove);
-  return path.join(temp.folder, 'syrinx.db');
+  return path.join(temp.folder, 'tidewing.db');
 }
 
-function fresh(): SyrinxDatabase {
+function fresh(): TidewingDatabase {
   const db = openDatabase(freshFile());
   cleanups.push(() => db.close());
   return db;

@@ -43,7 +43,7 @@ describe('exportDatabaseJson', () => {
       const columns = db.prepare(`SELECT name FROM pragma_table_info(?)`).pluck().all(name);
       expect(exported.tables[name]?.columns, name).toEqual(columns);
     }
-    expect(exported).toMatchObject({ format: 'syrinx-database-export', formatVersion: 1, appVersion: '0.1.0', schemaVersion: latestSchemaVersion, exportedAt: '2026-03-01T08:00:00.000Z' });
+    expect(exported).toMatchObject({ format: 'tidewing-database-export', formatVersion: 1, appVersion: '0.1.0', schemaVersion: latestSchemaVersion, exportedAt: '2026-03-01T08:00:00.000Z' });
   });
 
   it('keeps corrections and the rows they correct, in id order', () => {

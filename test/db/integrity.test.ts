@@ -119,16 +119,16 @@ describe('checkDatabaseFile', () => {
     expect(check.message).toContain(`schema ${latestSchemaVersion + 3}; this version understands up to ${latestSchemaVersion}`);
   });
 
-  it('reports a SQLite database of another program, or an empty one, as not a Syrinx database', () => {
+  it('reports a SQLite database of another program, or an empty one, as not a Tidewing database', () => {
     const other = scratchFile();
     const db = new Database(other);
     db.exec('CREATE TABLE invoices (id INTEGER PRIMARY KEY, total REAL)');
     db.close();
-    expect(checkDatabaseFile(other)).toMatchObject({ ok: false, status: 'notSyrinx', schemaVersion: 0 });
+    expect(checkDatabaseFile(other)).toMatchObject({ ok: false, status: 'notTidewing', schemaVersion: 0 });
     expect(checkDatabaseFile(other).message).toContain('invoices');
     const empty = scratchFile('empty.db');
     fs.writeFileSync(empty, '');
-    expect(checkDatabaseFile(empty)).toMatchObject({ ok: false, status: 'notSyrinx', schemaVersion: 0 });
+    expect(checkDatabaseFile(empty)).toMatchObject({ ok: false, status: 'notTidewing', schemaVersion: 0 });
   });
 
   it('reports a table missing from the schema its version promises', () => {

@@ -13,7 +13,7 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 function freshFile(): string {
   const temp = temporaryFolder();
   cleanups.push(temp.remove);
-  return path.join(temp.folder, 'syrinx.db');
+  return path.join(temp.folder, 'tidewing.db');
 }
 
 const sha256 = (file: string) => crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
@@ -73,7 +73,7 @@ describe('migrations', () => {
     const filesBefore = fs.readdirSync(path.dirname(file)).sort();
 
     expect(() => openDatabase(file)).toThrow(DatabaseTooNewError);
-    expect(() => openDatabase(file)).toThrow(/newer version of Syrinx .*schema \d+.*has not been changed/);
+    expect(() => openDatabase(file)).toThrow(/newer version of Tidewing .*schema \d+.*has not been changed/);
     expect(sha256(file)).toBe(before);
     expect(fs.readdirSync(path.dirname(file)).sort()).toEqual(filesBefore);
   });

@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { speciesReference } from '../../app/core/species-reference.js';
-import { openDatabase, type SyrinxDatabase } from '../../db/connection.js';
+import { openDatabase, type TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
@@ -15,9 +15,9 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 const t0 = new Date('2026-12-01T08:00:00Z');
 const meta = { enteredBy: 'RW', reason: '' };
 
-function fresh(): SyrinxDatabase {
+function fresh(): TidewingDatabase {
   const temp = temporaryFolder();
-  const db = openDatabase(path.join(temp.folder, 'syrinx.db'));
+  const db = openDatabase(path.join(temp.folder, 'tidewing.db'));
   cleanups.push(() => {
     db.close();
     temp.remove();

@@ -13,7 +13,7 @@ const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 
 const now = new Date(Date.UTC(2026, 1, 3, 14, 15, 16, 789));
-const replacedName = 'syrinx.db.replaced-2026-02-03T14-15-16.789Z';
+const replacedName = 'tidewing.db.replaced-2026-02-03T14-15-16.789Z';
 
 function withEntries(count: number) {
   const fixture = fixtureWithEntries(count);
@@ -22,7 +22,7 @@ function withEntries(count: number) {
 }
 
 function scratchFolder(): string {
-  const temp = temporaryFolder('syrinx-restore-');
+  const temp = temporaryFolder('tidewing-restore-');
   cleanups.push(temp.remove);
   return temp.folder;
 }
@@ -50,7 +50,7 @@ describe('restoreDatabase', () => {
     expect(result.sourceCheck.ok).toBe(true);
     expect(result.restoredCheck.ok).toBe(true);
     expect(progress.at(-1)?.percent).toBe(100);
-    expect(listing(live.folder)).toEqual(['syrinx.db', replacedName]);
+    expect(listing(live.folder)).toEqual(['tidewing.db', replacedName]);
     const reopened = openDatabase(live.databaseFile);
     expect(reopened.pragma('journal_mode', { simple: true })).toBe('wal');
     reopened.close();
@@ -63,16 +63,16 @@ describe('restoreDatabase', () => {
     const crashed = scratchFolder();
     const writer = openDatabase(live.databaseFile);
     const later = addEntries(writer, writer.prepare('SELECT id FROM procedure_records').pluck().get() as number, 4);
-    for (const name of ['syrinx.db', 'syrinx.db-wal']) fs.copyFileSync(path.join(live.folder, name), path.join(crashed, name));
+    for (const name of ['tidewing.db', 'tidewing.db-wal']) fs.copyFileSync(path.join(live.folder, name), path.join(crashed, name));
     writer.close();
-    expect(fs.statSync(path.join(crashed, 'syrinx.db-wal')).size).toBeGreaterThan(0);
+    expect(fs.statSync(path.join(crashed, 'tidewing.db-wal')).size).toBeGreaterThan(0);
 
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(crashed, 'syrinx.db'), now });
+    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(crashed, 'tidewing.db'), now });
 
-    expect(entryIdsIn(path.join(crashed, 'syrinx.db'))).toEqual(backup.entryIds);
+    expect(entryIdsIn(path.join(crashed, 'tidewing.db'))).toEqual(backup.entryIds);
     expect(result.replacedFile).not.toBeNull();
     expect(entryIdsIn(result.replacedFile ?? '')).toEqual([...live.entryIds, ...later]);
-    expect(listing(crashed).filter((name) => name.startsWith('syrinx.db-'))).toEqual([]);
+    expect(listing(crashed).filter((name) => name.startsWith('tidewing.db-'))).toEqual([]);
   });
 
   it('replaces a damaged database, keeping the damaged file byte for byte for later recovery', async () => {
@@ -89,19 +89,19 @@ describe('restoreDatabase', () => {
   it('replaces a file that is not a database at all', async () => {
     const backup = await backupWith(2);
     const folder = scratchFolder();
-    fs.writeFileSync(path.join(folder, 'syrinx.db'), 'overwritten by mistake');
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'syrinx.db'), now });
+    fs.writeFileSync(path.join(folder, 'tidewing.db'), 'overwritten by mistake');
+    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'tidewing.db'), now });
     expect(fs.readFileSync(result.replacedFile ?? '', 'utf8')).toBe('overwritten by mistake');
-    expect(entryIdsIn(path.join(folder, 'syrinx.db'))).toEqual(backup.entryIds);
+    expect(entryIdsIn(path.join(folder, 'tidewing.db'))).toEqual(backup.entryIds);
   });
 
   it('restores into a data folder that has no database yet', async () => {
     const backup = await backupWith(3);
     const folder = path.join(scratchFolder(), 'new-data');
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'syrinx.db'), now });
+    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'tidewing.db'), now });
     expect(result.replacedFile).toBeNull();
-    expect(entryIdsIn(path.join(folder, 'syrinx.db'))).toEqual(backup.entryIds);
-    expect(listing(folder)).toEqual(['syrinx.db']);
+    expect(entryIdsIn(path.join(folder, 'tidewing.db'))).toEqual(backup.entryIds);
+    expect(listing(folder)).toEqual(['tidewing.db']);
   });
 
   it('restores a backup from an older schema as it is, and opening it brings it up to date', async () => {
@@ -122,7 +122,7 @@ describe('restoreDatabase', () => {
     await restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now });
     const second = await restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now });
     expect(second.replacedFile).toBe(path.join(live.folder, `${replacedName}-2`));
-    expect(listing(live.folder)).toEqual(['syrinx.db', replacedName, `${replacedName}-2`]);
+    expect(listing(live.folder)).toEqual(['tidewing.db', replacedName, `${replacedName}-2`]);
   });
 
   describe('refuses, changing nothing', () => {
@@ -151,12 +151,12 @@ describe('restoreDatabase', () => {
       await expectRefusal(file, withEntries(1).databaseFile, /not a SQLite database file.*Nothing was changed/);
     });
 
-    it('a backup from a newer Syrinx', async () => {
+    it('a backup from a newer Tidewing', async () => {
       const backup = await backupWith(1);
       const writer = new Database(backup.file);
       writer.pragma(`user_version = ${latestSchemaVersion + 1}`);
       writer.close();
-      await expectRefusal(backup.file, withEntries(1).databaseFile, /newer version of Syrinx/);
+      await expectRefusal(backup.file, withEntries(1).databaseFile, /newer version of Tidewing/);
     });
 
     it('a missing backup file', async () => {
@@ -174,7 +174,7 @@ describe('restoreDatabase', () => {
       const app = openDatabase(live.databaseFile);
       cleanups.push(() => app.close());
       const filesBefore = listing(live.folder);
-      await expect(restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now })).rejects.toThrow(/is in use.*Close Syrinx.*Nothing was changed/);
+      await expect(restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now })).rejects.toThrow(/is in use.*Close Tidewing.*Nothing was changed/);
       expect(listing(live.folder)).toEqual(filesBefore);
       expect(app.prepare('SELECT count(*) FROM procedure_entries').pluck().get()).toBe(2);
     });

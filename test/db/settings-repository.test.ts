@@ -11,7 +11,7 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 function openFresh() {
   const temp = temporaryFolder();
   cleanups.push(temp.remove);
-  const file = path.join(temp.folder, 'syrinx.db');
+  const file = path.join(temp.folder, 'tidewing.db');
   const db = openDatabase(file);
   cleanups.unshift(() => db.open && db.close());
   return { db, file };

@@ -3,7 +3,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
-const session = sharedBrowser('syrinx-e2e-');
+const session = sharedBrowser('tidewing-e2e-');
 const shots = ensureScreenshotFolder();
 
 async function shoot(page: Page, name: string) {
@@ -21,7 +21,7 @@ describe('first run, settings and restart in headless Chromium', () => {
     });
     try {
       await page.goto(host.url);
-      await page.getByRole('heading', { name: 'Before you use Syrinx' }).waitFor();
+      await page.getByRole('heading', { name: 'Before you use Tidewing' }).waitFor();
       expect(new URL(page.url()).searchParams.get('token')).toBeNull();
       await shoot(page, '01-cautions');
 

@@ -81,7 +81,7 @@ export async function completeFirstRun(page: import('playwright-core').Page, url
     const answer = await callBridge(page, channel, body);
     if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer)}`);
   }
-  await page.evaluate((who) => window.localStorage.setItem('syrinx.operator', who), initials);
+  await page.evaluate((who) => window.localStorage.setItem('tidewing.operator', who), initials);
   await page.reload();
 }
 
@@ -89,8 +89,8 @@ export async function completeFirstRun(page: import('playwright-core').Page, url
 export async function callBridge<T = unknown>(page: import('playwright-core').Page, channel: string, body: unknown): Promise<{ ok: boolean; value?: T; error?: unknown }> {
   return page.evaluate(
     async ({ channel: name, body: payload }) => {
-      const token = window.sessionStorage.getItem('syrinx.token') ?? '';
-      const response = await fetch(`/api/${name}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-syrinx-token': token }, body: JSON.stringify(payload) });
+      const token = window.sessionStorage.getItem('tidewing.token') ?? '';
+      const response = await fetch(`/api/${name}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-tidewing-token': token }, body: JSON.stringify(payload) });
       return (await response.json()) as { ok: boolean; value?: T; error?: unknown };
     },
     { channel, body },

@@ -4,7 +4,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
-const session = sharedHost('syrinx-e2e-patients-');
+const session = sharedHost('tidewing-e2e-patients-');
 const shots = ensureScreenshotFolder();
 
 const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
@@ -75,7 +75,7 @@ describe('patients, weights and species in headless Chromium', () => {
     await page.getByText(/Latest: /).waitFor();
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export the whole database as JSON' }).click()]);
     const exported = JSON.parse(fs.readFileSync(await download.path(), 'utf8')) as { format: string; tables: Record<string, { rows: Record<string, unknown>[] }> };
-    expect(exported.format).toBe('syrinx-database-export');
+    expect(exported.format).toBe('tidewing-database-export');
     expect(exported.tables['patient_versions']?.rows.map((row) => row['name'])).toEqual(['Pip']);
     expect(exported.tables['weights']?.rows.map((row) => row['mass_g'])).toEqual([34, 28, 31]);
     await shoot(page, '26-settings-data');

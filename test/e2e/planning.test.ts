@@ -5,7 +5,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { callBridge as bridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
-const session = sharedHost('syrinx-e2e-planning-');
+const session = sharedHost('tidewing-e2e-planning-');
 const shots = ensureScreenshotFolder();
 
 const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });

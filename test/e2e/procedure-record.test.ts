@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { procedureCsvHeaders } from '../../app/core/procedure-csv.js';
 import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
-const session = sharedBrowser('syrinx-e2e-record-');
+const session = sharedBrowser('tidewing-e2e-record-');
 const shots = ensureScreenshotFolder();
 
 async function shoot(page: Page, name: string) {
@@ -18,7 +18,7 @@ async function callApi(page: Page, channel: string, request: unknown): Promise<{
     async ([name, body]) => {
       const response = await fetch(`/api/${name}`, {
         method: 'POST',
-        headers: { 'content-type': 'application/json', 'x-syrinx-token': window.sessionStorage.getItem('syrinx.token') ?? '' },
+        headers: { 'content-type': 'application/json', 'x-tidewing-token': window.sessionStorage.getItem('tidewing.token') ?? '' },
         body: JSON.stringify(body),
       });
       return response.json();
@@ -95,7 +95,7 @@ describe('procedure record screens in headless Chromium', () => {
     });
     try {
       await page.goto(host.url);
-      await page.getByRole('heading', { name: 'Before you use Syrinx' }).waitFor();
+      await page.getByRole('heading', { name: 'Before you use Tidewing' }).waitFor();
       await page.getByLabel('Your name or initials').fill('R.W.');
       await page.getByLabel(/I have read these cautions/).check();
       await page.getByRole('button', { name: 'Acknowledge and continue' }).click();
@@ -243,7 +243,7 @@ describe('procedure record screens in headless Chromium', () => {
 
       // The drug form takes the drug and dose as the clinic writes them; nothing is suggested.
       await page.getByRole('button', { name: 'Drug given…' }).click();
-      await expect(page.getByText('Entered by the clinic; Syrinx suggests no dose.').isVisible()).resolves.toBe(true);
+      await expect(page.getByText('Entered by the clinic; Tidewing suggests no dose.').isVisible()).resolves.toBe(true);
       await page.getByRole('button', { name: 'Log drug' }).click();
       await page.locator('.record-events').getByText('Name the drug given.').waitFor();
       await shoot(page, '06b-drug-form');
@@ -257,7 +257,7 @@ describe('procedure record screens in headless Chromium', () => {
 
       // CSV export through the browser download.
       const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download CSV' }).click()]);
-      expect(download.suggestedFilename()).toMatch(/^syrinx-procedure-\d+-Kiwi-\d{4}-\d{2}-\d{2}\.csv$/);
+      expect(download.suggestedFilename()).toMatch(/^tidewing-procedure-\d+-Kiwi-\d{4}-\d{2}-\d{2}\.csv$/);
       const csvPath = await download.path();
       const csv = fs.readFileSync(csvPath, 'utf8');
       const table = parseCsv(csv);

@@ -55,7 +55,7 @@ describe('npm start on a machine without a display', () => {
   it('refuses a database from a newer schema with a clear message and leaves it untouched', () => {
     const data = temporaryFolder();
     try {
-      const file = path.join(data.folder, 'syrinx.db');
+      const file = path.join(data.folder, 'tidewing.db');
       const writer = new Database(file);
       writer.exec('CREATE TABLE notes (body TEXT); INSERT INTO notes VALUES (\'from the future\');');
       writer.pragma('user_version = 42');
@@ -67,10 +67,10 @@ describe('npm start on a machine without a display', () => {
         timeout: 10_000,
       });
       expect(result.status).toBe(1);
-      expect(result.stderr).toMatch(/written by a newer version of Syrinx \(schema 42; this version understands up to \d+\)/);
+      expect(result.stderr).toMatch(/written by a newer version of Tidewing \(schema 42; this version understands up to \d+\)/);
       expect(result.stdout).not.toMatch(/Open:/);
       expect(crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex')).toBe(before);
-      expect(fs.readdirSync(data.folder)).toEqual(['syrinx.db']);
+      expect(fs.readdirSync(data.folder)).toEqual(['tidewing.db']);
     } finally {
       data.remove();
     }

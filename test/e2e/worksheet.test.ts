@@ -14,8 +14,8 @@ const root = findProjectRoot();
 let browser: Browser;
 let host: RunningHost;
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('syrinx-e2e-worksheet-');
-const output = temporaryFolder('syrinx-e2e-worksheet-pdf-');
+const data = temporaryFolder('tidewing-e2e-worksheet-');
+const output = temporaryFolder('tidewing-e2e-worksheet-pdf-');
 
 beforeAll(async () => {
   browser = await launchChromium();

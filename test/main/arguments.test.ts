@@ -27,9 +27,9 @@ describe('start arguments', () => {
 
 describe('default data folder', () => {
   it('follows each platform’s per-user data convention', () => {
-    expect(defaultDataDirectory('linux', {}, '/home/vet')).toBe('/home/vet/.local/share/syrinx');
-    expect(defaultDataDirectory('linux', { XDG_DATA_HOME: '/data/xdg' }, '/home/vet')).toBe('/data/xdg/syrinx');
-    expect(defaultDataDirectory('darwin', {}, '/Users/vet')).toBe('/Users/vet/Library/Application Support/Syrinx');
-    expect(defaultDataDirectory('win32', { APPDATA: 'C:\\Users\\vet\\AppData\\Roaming' }, 'C:\\Users\\vet')).toBe('C:\\Users\\vet\\AppData\\Roaming\\Syrinx');
+    expect(defaultDataDirectory('linux', {}, '/home/vet')).toBe('/home/vet/.local/share/tidewing');
+    expect(defaultDataDirectory('linux', { XDG_DATA_HOME: '/data/xdg' }, '/home/vet')).toBe('/data/xdg/tidewing');
+    expect(defaultDataDirectory('darwin', {}, '/Users/vet')).toBe('/Users/vet/Library/Application Support/Tidewing');
+    expect(defaultDataDirectory('win32', { APPDATA: 'C:\\Users\\vet\\AppData\\Roaming' }, 'C:\\Users\\vet')).toBe('C:\\Users\\vet\\AppData\\Roaming\\Tidewing');
   });
 });

@@ -42,7 +42,7 @@ describe('automaticBackupOnStart', () => {
   it('skips the first start, when there is no database yet', async () => {
     const temp = temporaryFolder();
     cleanups.push(temp.remove);
-    const result = await automaticBackupOnStart({ dataDirectory: temp.folder, databaseFile: path.join(temp.folder, 'syrinx.db'), now: start(1) });
+    const result = await automaticBackupOnStart({ dataDirectory: temp.folder, databaseFile: path.join(temp.folder, 'tidewing.db'), now: start(1) });
     expect(result).toEqual({ status: 'skipped', message: 'No database yet, so no automatic backup.' });
     expect(listing(temp.folder)).toEqual([]);
   });
@@ -55,7 +55,7 @@ describe('automaticBackupOnStart', () => {
     const result = await automaticBackupOnStart({ dataDirectory: data.folder, databaseFile: data.databaseFile, now: start(2) });
     expect(result.status).toBe('failed');
     expect(result.message).toMatch(/^Automatic backup failed: .*integrity check/);
-    expect(fs.readdirSync(backupFolder(data.folder))).toEqual(['syrinx-backup-2026-04-01T08-00-00.000Z.db']);
+    expect(fs.readdirSync(backupFolder(data.folder))).toEqual(['tidewing-backup-2026-04-01T08-00-00.000Z.db']);
   });
 
   it('returns a message for an impossible keep count rather than throwing', async () => {

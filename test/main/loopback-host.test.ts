@@ -63,17 +63,17 @@ describe('loopback browser host', () => {
 
   it('accepts the cookie for files but requires the token header for bridge calls', async () => {
     const started = await host();
-    const cookie = `syrinx_token=${started.token}`;
+    const cookie = `tidewing_token=${started.token}`;
     expect((await request(started.port, { path: '/', headers: { cookie } })).status).toBe(200);
     expect((await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}', headers: { cookie } })).status).toBe(403);
-    const answer = await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}', headers: { 'x-syrinx-token': started.token } });
+    const answer = await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}', headers: { 'x-tidewing-token': started.token } });
     expect(answer.status).toBe(200);
     expect(JSON.parse(answer.body)).toEqual({ ok: true, value: { settings: null, updatedAt: null } });
   });
 
   it('answers malformed JSON with a clear error and refuses paths outside the renderer', async () => {
     const started = await host();
-    const bad = await request(started.port, { path: '/api/settings:save', method: 'POST', body: '{nope', headers: { 'x-syrinx-token': started.token } });
+    const bad = await request(started.port, { path: '/api/settings:save', method: 'POST', body: '{nope', headers: { 'x-tidewing-token': started.token } });
     expect(bad.status).toBe(400);
     expect(JSON.parse(bad.body)).toMatchObject({ ok: false, error: { code: 'invalid-request' } });
     const traversal = await request(started.port, { path: `/..%2f..%2fpackage.json?token=${started.token}` });

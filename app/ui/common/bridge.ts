@@ -1,13 +1,13 @@
-import { bridgePathPrefix, tokenHeader, type SyrinxApi } from '../../contract/api.js';
+import { bridgePathPrefix, tokenHeader, type TidewingApi } from '../../contract/api.js';
 import type { ChannelName, RequestOf, ResponseOf } from '../../contract/channels.js';
 import type { Result } from '../../contract/result.js';
 
 declare global {
   // The desktop preload puts the API here; the browser host leaves it undefined.
-  var syrinx: SyrinxApi | undefined;
+  var tidewing: TidewingApi | undefined;
 }
 
-const tokenKey = 'syrinx.token';
+const tokenKey = 'tidewing.token';
 
 /** Keeps the loopback token for this tab and removes it from the address bar. */
 function takeLoopbackToken(): string | null {
@@ -22,7 +22,7 @@ function takeLoopbackToken(): string | null {
   return window.sessionStorage.getItem(tokenKey);
 }
 
-function loopbackApi(): SyrinxApi {
+function loopbackApi(): TidewingApi {
   const token = takeLoopbackToken();
   return {
     async invoke<C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<Result<ResponseOf<C>>> {
@@ -33,15 +33,15 @@ function loopbackApi(): SyrinxApi {
           body: JSON.stringify(request),
         });
         if (response.status === 403) {
-          return { ok: false, error: { code: 'invalid-request', message: 'This page has lost its access token. Open the full address Syrinx printed when it started.' } };
+          return { ok: false, error: { code: 'invalid-request', message: 'This page has lost its access token. Open the full address Tidewing printed when it started.' } };
         }
         return (await response.json()) as Result<ResponseOf<C>>;
       } catch {
-        return { ok: false, error: { code: 'internal', message: 'Syrinx is not answering. Check that it is still running, then try again; nothing has been saved since the last confirmation.' } };
+        return { ok: false, error: { code: 'internal', message: 'Tidewing is not answering. Check that it is still running, then try again; nothing has been saved since the last confirmation.' } };
       }
     },
   };
 }
 
 /** The one typed way the screens reach the back end. */
-export const api: SyrinxApi = globalThis.syrinx ?? loopbackApi();
+export const api: TidewingApi = globalThis.tidewing ?? loopbackApi();

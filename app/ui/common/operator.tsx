@@ -1,6 +1,6 @@
 import { createContext, useContext, useId, useState, type ReactNode } from 'react';
 
-const storageKey = 'syrinx.operator';
+const storageKey = 'tidewing.operator';
 
 type Operator = { readonly initials: string; readonly setInitials: (initials: string) => void };
 

@@ -411,7 +411,7 @@ function EventButtons({ onLog }: { readonly onLog: (eventType: EventType, extra?
           <button type="submit" className="primary">
             Log {open === 'note' ? 'note' : 'drug'}
           </button>
-          {open === 'drugGiven' && <span className="hint">Entered by the clinic; Syrinx suggests no dose.</span>}
+          {open === 'drugGiven' && <span className="hint">Entered by the clinic; Tidewing suggests no dose.</span>}
         </form>
       )}
       {error !== null && (

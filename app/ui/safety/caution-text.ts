@@ -2,7 +2,7 @@
 export const cautionPoints: readonly { heading: string; text: string }[] = [
   {
     heading: 'A planning aid, not a monitor',
-    text: 'Syrinx estimates; it does not measure. Watch the bird: breathing, heart rate, reflexes, temperature and capnography where available. Pulse oximetry and indirect blood pressure are unreliable in birds.',
+    text: 'Tidewing estimates; it does not measure. Watch the bird: breathing, heart rate, reflexes, temperature and capnography where available. Pulse oximetry and indirect blood pressure are unreliable in birds.',
   },
   {
     heading: 'Population estimates, not this bird',
@@ -10,7 +10,7 @@ export const cautionPoints: readonly { heading: string; text: string }[] = [
   },
   {
     heading: 'Licensed judgement decides',
-    text: 'Syrinx does not replace the judgement of a licensed veterinarian or your local regulations. It ships no drug doses; doses you enter are your clinic’s own responsibility.',
+    text: 'Tidewing does not replace the judgement of a licensed veterinarian or your local regulations. It ships no drug doses; doses you enter are your clinic’s own responsibility.',
   },
   {
     heading: 'Staff safety',

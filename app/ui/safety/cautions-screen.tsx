@@ -37,9 +37,9 @@ export function CautionsScreen({ status, onAcknowledged }: Props) {
 
   return (
     <main className="gate" aria-labelledby="cautions-title">
-      <h1 id="cautions-title">Before you use Syrinx</h1>
+      <h1 id="cautions-title">Before you use Tidewing</h1>
       <p className="lead">
-        Read these cautions. Syrinx {status.appVersion} records who acknowledged them and when.
+        Read these cautions. Tidewing {status.appVersion} records who acknowledged them and when.
       </p>
       <ol className="caution-list">
         {cautionPoints.map((point) => (
@@ -80,7 +80,7 @@ export function CautionsScreen({ status, onAcknowledged }: Props) {
             onChange={(event) => setAccepted(event.target.checked)}
           />
           <label htmlFor={acceptId}>
-            I have read these cautions. I understand that Syrinx gives estimates for planning and that the
+            I have read these cautions. I understand that Tidewing gives estimates for planning and that the
             responsible veterinarian decides.
           </label>
           {errors['accepted'] !== undefined && <p className="field-error" role="alert">{errors['accepted']}</p>}

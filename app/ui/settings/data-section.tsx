@@ -35,9 +35,9 @@ export function DataSection() {
       )}
       {backups.state === 'ready' && (
         <p>
-          Syrinx makes a backup in <code>{backups.value.folder}</code> at every start and keeps the last 10.{' '}
+          Tidewing makes a backup in <code>{backups.value.folder}</code> at every start and keeps the last 10.{' '}
           {backups.value.backups[0] === undefined ? 'No backup yet.' : `Latest: ${displayDateTime(backups.value.backups[0].takenAt)} (${backups.value.backups.length} kept).`} Copy them to another disk
-          regularly; <code>npx syrinx restore FILE</code> puts one back after checking it.
+          regularly; <code>npx tidewing restore FILE</code> puts one back after checking it.
         </p>
       )}
       <div className="form-actions">

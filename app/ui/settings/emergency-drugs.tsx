@@ -52,7 +52,7 @@ function doseText(values: EmergencyDrugValues): string {
 type Editing = { readonly kind: 'add' } | { readonly kind: 'correct'; readonly drug: EmergencyDrug } | { readonly kind: 'void'; readonly drug: EmergencyDrug };
 
 /**
- * The clinic's emergency drugs for the worksheet's emergency card. Syrinx ships none and
+ * The clinic's emergency drugs for the worksheet's emergency card. Tidewing ships none and
  * suggests no dose: the clinic enters each drug with the source of its dose.
  */
 export function EmergencyDrugs() {
@@ -125,7 +125,7 @@ export function EmergencyDrugs() {
     <section className="emergency-drugs" aria-labelledby="emergency-drugs-title">
       <h2 id="emergency-drugs-title">Emergency drugs</h2>
       <p className="hint">
-        Your clinic’s own emergency drugs for the worksheet’s emergency card, which turns each dose into mg and mL for the bird’s weight. Syrinx ships no drugs
+        Your clinic’s own emergency drugs for the worksheet’s emergency card, which turns each dose into mg and mL for the bird’s weight. Tidewing ships no drugs
         and suggests no doses: enter each dose with the source you rely on.
       </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}

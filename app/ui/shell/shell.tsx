@@ -29,7 +29,7 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
     <div className="shell">
       <header className="topbar">
         <div className="brand">
-          <span className="brand-name">Syrinx</span>
+          <span className="brand-name">Tidewing</span>
           <span className="brand-clinic">{clinicName}</span>
         </div>
         <p className="standing-caution" role="note">

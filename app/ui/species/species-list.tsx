@@ -56,7 +56,7 @@ export function SpeciesListScreen() {
                   <span className="basis">
                     <i>{species.values.scientificName}</i>
                   </span>
-                  <span className="basis">{species.origin === 'clinic' ? 'added by the clinic' : species.stamp.correctsId === null ? 'Syrinx reference' : 'edited by the clinic'}</span>
+                  <span className="basis">{species.origin === 'clinic' ? 'added by the clinic' : species.stamp.correctsId === null ? 'Tidewing reference' : 'edited by the clinic'}</span>
                 </td>
                 <td>
                   {species.values.massMinG}-{species.values.massMaxG} g<span className="basis">{species.values.massBasis}</span>

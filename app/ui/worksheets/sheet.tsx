@@ -23,7 +23,7 @@ import { WorksheetChart } from './worksheet-chart.js';
 import './worksheet.css';
 
 export const deferralText =
-  'Syrinx is a planning aid. Every figure on this sheet is an estimate from population equations and assumptions, with its basis shown; this bird can differ. ' +
+  'Tidewing is a planning aid. Every figure on this sheet is an estimate from population equations and assumptions, with its basis shown; this bird can differ. ' +
   'The responsible licensed veterinarian decides on the anaesthetic, any drug and dose, and the monitoring, under local regulations. Watch the bird, not the plan.';
 
 function Row({ label, children }: { readonly label: string; readonly children: React.ReactNode }) {
@@ -311,7 +311,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       <section className="ws-section ws-emergency ws-break-before" aria-labelledby="ws-emergency">
         <h2 id="ws-emergency">Emergency card for {displayMass(input.bodyMassG, settings.massUnit)}</h2>
         {card.length === 0 ? (
-          <p className="ws-open-summary">No emergency drugs entered. Add your clinic’s drugs, concentrations, doses and their sources in Settings; Syrinx ships no doses.</p>
+          <p className="ws-open-summary">No emergency drugs entered. Add your clinic’s drugs, concentrations, doses and their sources in Settings; Tidewing ships no doses.</p>
         ) : (
           <table className="ws-grid-table ws-card-table">
             <thead>
@@ -392,7 +392,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       </section>
 
       <footer className="ws-footer">
-        Syrinx {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId} saved by {plan.stamp.enteredBy} · printed{' '}
+        Tidewing {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId} saved by {plan.stamp.enteredBy} · printed{' '}
         {printedAt.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
       </footer>
     </article>

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { SyrinxApi } from '../../contract/api.js';
+import type { TidewingApi } from '../../contract/api.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -9,7 +9,7 @@ import { Sheet } from './sheet.js';
 type DesktopPdf = { saveWorksheetPdf?: (suggestedName: string) => Promise<{ saved: boolean; file?: string; error?: string }> };
 
 function desktopPdf(): DesktopPdf['saveWorksheetPdf'] {
-  const bridge = globalThis.syrinx as (SyrinxApi & DesktopPdf) | undefined;
+  const bridge = globalThis.tidewing as (TidewingApi & DesktopPdf) | undefined;
   return bridge?.saveWorksheetPdf;
 }
 
@@ -52,7 +52,7 @@ export function Worksheet({ planId }: { readonly planId: number }) {
             type="button"
             onClick={() => {
               setPdfMessage('Saving…');
-              void savePdf(`syrinx-worksheet-${planId}-${name}.pdf`).then((answer) =>
+              void savePdf(`tidewing-worksheet-${planId}-${name}.pdf`).then((answer) =>
                 setPdfMessage(answer.saved ? `Saved ${answer.file ?? ''}` : answer.error === undefined ? 'Not saved.' : `Not saved: ${answer.error}`),
               );
             }}

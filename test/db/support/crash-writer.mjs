@@ -1,4 +1,4 @@
-// Child process of the crash-safety test: appends procedure entries to a Syrinx database, one
+// Child process of the crash-safety test: appends procedure entries to a Tidewing database, one
 // row per transaction, and prints each entry's id on stdout only after its commit has returned.
 // The parent kills it with SIGKILL at a random moment. Plain JavaScript, so that it runs under
 // node without a TypeScript loader; the connection settings mirror db/connection.ts.

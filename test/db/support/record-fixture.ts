@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { openDatabase, type SyrinxDatabase } from '../../../db/connection.js';
+import { openDatabase, type TidewingDatabase } from '../../../db/connection.js';
 import { openReadOnly } from '../../../db/integrity.js';
 import { temporaryFolder } from '../../support/temporary-folder.js';
 
@@ -10,16 +10,16 @@ export const enteredAt = '2026-01-05T09:30:00.000Z';
 
 export type Fixture = { readonly folder: string; readonly databaseFile: string; readonly remove: () => void };
 
-/** A data folder with a fresh, fully migrated `syrinx.db` (closed). */
+/** A data folder with a fresh, fully migrated `tidewing.db` (closed). */
 export function fixtureFolder(): Fixture {
-  const temp = temporaryFolder('syrinx-records-');
-  const databaseFile = path.join(temp.folder, 'syrinx.db');
+  const temp = temporaryFolder('tidewing-records-');
+  const databaseFile = path.join(temp.folder, 'tidewing.db');
   openDatabase(databaseFile).close();
   return { folder: temp.folder, databaseFile, remove: temp.remove };
 }
 
 /** One patient with a current version and one procedure record; returns the record id. */
-export function addPatientAndRecord(db: SyrinxDatabase, name = 'Kiwi'): number {
+export function addPatientAndRecord(db: TidewingDatabase, name = 'Kiwi'): number {
   const patientId = Number(db.prepare('INSERT INTO patients (created_at) VALUES (?)').run(enteredAt).lastInsertRowid);
   const versionId = Number(
     db
@@ -36,7 +36,7 @@ export function addPatientAndRecord(db: SyrinxDatabase, name = 'Kiwi'): number {
 }
 
 /** Adds `count` vitals entries to a record (each its own transaction unless inside one); returns their ids. */
-export function addEntries(db: SyrinxDatabase, recordId: number, count: number): number[] {
+export function addEntries(db: TidewingDatabase, recordId: number, count: number): number[] {
   const insert = db.prepare(
     "INSERT INTO procedure_entries (record_id, at, kind, vapor_pct, oxygen_lpm, heart_rate_per_min, breaths_per_min, entered_at, entered_by) VALUES (?, ?, 'vitals', 2.5, 1, 300, 30, ?, 'AB')",
   );

@@ -1,12 +1,12 @@
 #!/usr/bin/env node
-// The `syrinx` command: runs the compiled command line from build/ (made by `npm run build`,
+// The `tidewing` command: runs the compiled command line from build/ (made by `npm run build`,
 // which `npm install` runs through the prepare script).
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 
 const compiled = new URL('../build/main/cli-entry.js', import.meta.url);
 if (!existsSync(fileURLToPath(compiled))) {
-  process.stderr.write('syrinx: the program is not built yet; run `npm run build` in the Syrinx folder first.\n');
+  process.stderr.write('tidewing: the program is not built yet; run `npm run build` in the Tidewing folder first.\n');
   process.exit(1);
 }
 await import(compiled.href);
