@@ -4,7 +4,7 @@
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 
-const compiled = new URL('../build/main/cli-entry.js', import.meta.url);
+const compiled = new URL('../build/main/cli/cli-entry.js', import.meta.url);
 if (!existsSync(fileURLToPath(compiled))) {
   process.stderr.write('tidewing: the program is not built yet; run `npm run build` in the Tidewing folder first.\n');
   process.exit(1);

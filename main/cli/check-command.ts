@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { listBackups } from '../../db/backup.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
-import { backupFolder } from '../automatic-backup.js';
+import { backupFolder } from '../back-end/automatic-backup.js';
 import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 
 export const checkUsage =

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import type { BackupProgress } from '../../db/backup.js';
-import { databaseFile, defaultDataDirectory } from '../data-directory.js';
+import { databaseFile, defaultDataDirectory } from '../back-end/data-directory.js';
 
 /** Where a command writes: results on stdout, progress and errors on stderr. */
 export type CommandIo = { readonly stdout: (text: string) => void; readonly stderr: (text: string) => void };

@@ -2,7 +2,7 @@ import path from 'node:path';
 import { BackupError } from '../../db/backup.js';
 import { writeDatabaseJson } from '../../db/export.js';
 import { checkDatabaseFile, formatBytes, openReadOnly } from '../../db/integrity.js';
-import { readAppVersion } from '../project-paths.js';
+import { readAppVersion } from '../back-end/project-paths.js';
 import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
 
 export const exportUsage = 'Usage: tidewing export --out FILE.json [--data DIR]\n  Writes every table of the clinic database in DIR (default: the usual data folder) to one JSON file.';

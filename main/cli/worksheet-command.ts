@@ -1,9 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import type { BackEnd } from '../back-end.js';
-import type { Dispatcher } from '../handlers.js';
-import { startLoopbackHost, type LoopbackHost } from '../loopback-host.js';
-import { findProjectRoot, readAppVersion, rendererDirectory } from '../project-paths.js';
+import type { BackEnd } from '../back-end/back-end.js';
+import type { Dispatcher } from '../back-end/handlers.js';
+import { startLoopbackHost, type LoopbackHost } from '../host/loopback-host.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
 import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
 
@@ -105,7 +105,7 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     printing.catch(() => undefined);
 
     io.stderr(`worksheet: opening ${location.databaseFile}\n`);
-    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([import('../back-end.js'), import('../../db/connection.js')]);
+    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([import('../back-end/back-end.js'), import('../../db/connection.js')]);
     try {
       backEnd = startBackEnd({ dataDirectory: location.dataDirectory, appVersion: readAppVersion(root), host: 'browser' });
     } catch (error) {

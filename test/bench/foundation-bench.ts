@@ -3,16 +3,16 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
-import { startBackEnd } from '../../main/back-end.js';
-import { startLoopbackHost } from '../../main/loopback-host.js';
-import { findProjectRoot, rendererDirectory } from '../../main/project-paths.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
+import { startLoopbackHost } from '../../main/host/loopback-host.js';
+import { findProjectRoot, rendererDirectory } from '../../main/back-end/project-paths.js';
 import { median, type Figure } from './figures.js';
 import { benchClinicSettings } from '../support/clinic-settings.js';
 
 function timeToUrl(root: string, dataDirectory: string): Promise<number> {
   return new Promise((resolve, reject) => {
     const startedAt = performance.now();
-    const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory], {
+    const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'host', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory], {
       env: { ...process.env, CI: 'true', DISPLAY: '' },
       stdio: ['ignore', 'pipe', 'inherit'],
     });

@@ -2,10 +2,10 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { chromium } from 'playwright-core';
-import { startBackEnd } from '../../main/back-end.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
 import { chromiumArguments } from '../../main/cli/headless-pdf.js';
-import { startLoopbackHost } from '../../main/loopback-host.js';
-import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/project-paths.js';
+import { startLoopbackHost } from '../../main/host/loopback-host.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/back-end/project-paths.js';
 import { median, quantile, type Figure } from './figures.js';
 import { benchClinicSettings } from '../support/clinic-settings.js';
 

@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { PageNotReadyError, printPageToPdf } from '../../main/cli/headless-pdf.js';
-import { findProjectRoot } from '../../main/project-paths.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';

@@ -7,7 +7,7 @@ import { runCheckCommand } from '../../main/cli/check-command.js';
 import { parseArguments, progressPrinter, UsageError } from '../../main/cli/command-io.js';
 import { runExportCommand } from '../../main/cli/export-command.js';
 import { runRestoreCommand } from '../../main/cli/restore-command.js';
-import { runCli } from '../../main/cli.js';
+import { runCli } from '../../main/cli/cli.js';
 import { damageMiddlePages, entryIdsIn, fixtureWithEntries, listing, sha256 } from '../db/support/record-fixture.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 

@@ -3,9 +3,9 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { startBackEnd } from '../../main/back-end.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
 import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
-import { findProjectRoot } from '../../main/project-paths.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 

@@ -5,7 +5,7 @@ import { migrate, openDatabase, type TidewingDatabase } from '../../db/connectio
 import { emergencyDrugsMigration } from '../../db/migrations/0003-emergency-drugs.js';
 import { migrations } from '../../db/migrations/index.js';
 import { createEmergencyDrugRepository, DrugCorrectionError } from '../../db/repositories/emergency-drug-repository.js';
-import { createDispatcher, createHandlers } from '../../main/handlers.js';
+import { createDispatcher, createHandlers } from '../../main/back-end/handlers.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => void)[] = [];

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll } from 'vitest';
 import { chromiumArguments } from '../../main/cli/headless-pdf.js';
-import { findProjectRoot } from '../../main/project-paths.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
@@ -12,9 +12,9 @@ export type RunningHost = { url: string; origin: string; port: number; process: 
 
 const root = findProjectRoot();
 
-/** Starts `node build/main/start.js` as `npm start` does and waits for the URL line. */
+/** Starts `node build/main/host/start.js` as `npm start` does and waits for the URL line. */
 export function startHostProcess(dataDirectory: string, extraArguments: string[] = [], timeoutMs = 10_000): Promise<RunningHost> {
-  const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory, ...extraArguments], {
+  const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'host', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory, ...extraArguments], {
     env: { ...process.env, CI: 'true', DISPLAY: '' },
     stdio: ['ignore', 'pipe', 'pipe'],
   });

@@ -5,7 +5,7 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { findProjectRoot } from '../../main/project-paths.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { startHostProcess } from './host-process.js';
 
@@ -61,7 +61,7 @@ describe('npm start on a machine without a display', () => {
       writer.pragma('user_version = 42');
       writer.close();
       const before = crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
-      const result = spawnSync(process.execPath, [path.join(findProjectRoot(), 'build', 'main', 'start.js'), '--no-open', '--data', data.folder], {
+      const result = spawnSync(process.execPath, [path.join(findProjectRoot(), 'build', 'main', 'host', 'start.js'), '--no-open', '--data', data.folder], {
         env: { ...process.env, CI: 'true', DISPLAY: '' },
         encoding: 'utf8',
         timeout: 10_000,

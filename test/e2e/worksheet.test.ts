@@ -4,7 +4,7 @@ import path from 'node:path';
 import { promisify } from 'node:util';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { findProjectRoot } from '../../main/project-paths.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { callBridge, completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
@@ -40,7 +40,7 @@ const squash = (text: string) => text.replace(/\s+/g, ' ').trim();
 /** Renders the worksheet PDF with the command line, against the running host's data folder. */
 async function worksheetPdf(planId: number, name: string): Promise<{ file: string; text: string; pageCount: number; pageWidthPt: number; pageHeightPt: number }> {
   const file = path.join(output.folder, `${name}.pdf`);
-  await run(process.execPath, [path.join(root, 'build', 'main', 'cli-entry.js'), 'worksheet', '--plan', String(planId), '--data', data.folder, '--out', file], { timeout: 60_000 });
+  await run(process.execPath, [path.join(root, 'build', 'main', 'cli', 'cli-entry.js'), 'worksheet', '--plan', String(planId), '--data', data.folder, '--out', file], { timeout: 60_000 });
   const text = (await run('pdftotext', [file, '-'])).stdout;
   const info = (await run('pdfinfo', [file])).stdout;
   const size = /Page size:\s+([\d.]+) x ([\d.]+) pts/.exec(info);

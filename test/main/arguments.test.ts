@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { parseStartArguments } from '../../main/arguments.js';
-import { defaultDataDirectory } from '../../main/data-directory.js';
+import { parseStartArguments } from '../../main/host/arguments.js';
+import { defaultDataDirectory } from '../../main/back-end/data-directory.js';
 
 describe('start arguments', () => {
   it('defaults to any free port, the platform data folder and opening the browser', () => {

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { listBackups } from '../../db/backup.js';
 import { openDatabase } from '../../db/connection.js';
-import { automaticBackupOnStart, backupFolder } from '../../main/automatic-backup.js';
+import { automaticBackupOnStart, backupFolder } from '../../main/back-end/automatic-backup.js';
 import { addEntries, damageMiddlePages, entryIdsIn, fixtureWithEntries, listing } from '../db/support/record-fixture.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 

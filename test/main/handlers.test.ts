@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { latestSchemaVersion } from '../../db/migrations/index.js';
-import { startBackEnd, type BackEnd } from '../../main/back-end.js';
+import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => void)[] = [];

@@ -2,8 +2,8 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { startBackEnd } from '../../main/back-end.js';
-import { startLoopbackHost, type LoopbackHost } from '../../main/loopback-host.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
+import { startLoopbackHost, type LoopbackHost } from '../../main/host/loopback-host.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => Promise<void> | void)[] = [];

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { rollingBackup } from '../db/backup.js';
-import type { TidewingDatabase } from '../db/connection.js';
+import { rollingBackup } from '../../db/backup.js';
+import type { TidewingDatabase } from '../../db/connection.js';
 
 export type AutomaticBackupOptions = {
   readonly dataDirectory: string;

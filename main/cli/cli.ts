@@ -1,5 +1,5 @@
 import fs from 'node:fs/promises';
-import { processIo } from './cli/command-io.js';
+import { processIo } from './command-io.js';
 
 // Each command loads its own modules when it runs, so that a quick command does not wait for
 // the database driver or the model it does not use.
@@ -9,13 +9,13 @@ const commands: Readonly<Record<string, Command>> = {
   plan: {
     summary: 'predictions for a plan file as JSON: FILE or - for standard input [--summary]',
     run: async (args) =>
-      (await import('./cli/plan-command.js')).runPlanCommand(args, { stdin: process.stdin, stdout: (text) => process.stdout.write(text), stderr: (text) => process.stderr.write(text), readFile: readTextFile }),
+      (await import('./plan-command.js')).runPlanCommand(args, { stdin: process.stdin, stdout: (text) => process.stdout.write(text), stderr: (text) => process.stderr.write(text), readFile: readTextFile }),
   },
-  backup: { summary: 'copy the clinic database to a file: --out FILE [--data DIR]', run: async (args) => (await import('./cli/backup-command.js')).runBackupCommand(args, processIo) },
-  restore: { summary: 'put a backup in place of the clinic database: FILE [--data DIR]', run: async (args) => (await import('./cli/restore-command.js')).runRestoreCommand(args, processIo) },
-  check: { summary: 'integrity and schema version of the database: [--data DIR] or FILE', run: async (args) => (await import('./cli/check-command.js')).runCheckCommand(args, processIo) },
-  export: { summary: 'the whole database as JSON: --out FILE.json [--data DIR]', run: async (args) => (await import('./cli/export-command.js')).runExportCommand(args, processIo) },
-  worksheet: { summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]', run: async (args) => (await import('./cli/worksheet-command.js')).runWorksheetCommand(args, processIo) },
+  backup: { summary: 'copy the clinic database to a file: --out FILE [--data DIR]', run: async (args) => (await import('./backup-command.js')).runBackupCommand(args, processIo) },
+  restore: { summary: 'put a backup in place of the clinic database: FILE [--data DIR]', run: async (args) => (await import('./restore-command.js')).runRestoreCommand(args, processIo) },
+  check: { summary: 'integrity and schema version of the database: [--data DIR] or FILE', run: async (args) => (await import('./check-command.js')).runCheckCommand(args, processIo) },
+  export: { summary: 'the whole database as JSON: --out FILE.json [--data DIR]', run: async (args) => (await import('./export-command.js')).runExportCommand(args, processIo) },
+  worksheet: { summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]', run: async (args) => (await import('./worksheet-command.js')).runWorksheetCommand(args, processIo) },
 };
 
 function usage(): string {

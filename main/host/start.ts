@@ -1,13 +1,13 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { ArgumentError, parseStartArguments } from './arguments.js';
-import { startBackEnd } from './back-end.js';
-import { defaultDataDirectory } from './data-directory.js';
+import { startBackEnd } from '../back-end/back-end.js';
+import { defaultDataDirectory } from '../back-end/data-directory.js';
 import { electronAvailability } from './electron-availability.js';
-import { installedElectronVersion, prepareElectronSqlite } from './electron-native.js';
+import { installedElectronVersion, prepareElectronSqlite } from '../back-end/electron-native.js';
 import { startLoopbackHost } from './loopback-host.js';
 import { openInSystemBrowser } from './open-browser.js';
-import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
 
 /**
  * `npm start`: the desktop window where Electron can run, otherwise the loopback browser host.
@@ -32,7 +32,7 @@ async function main(): Promise<number> {
     if (!native.ok) availability = { ok: false, reason: native.reason };
   }
   if (availability.ok) {
-    const electronArgs = [path.join(root, 'build', 'main', 'electron-main.js')];
+    const electronArgs = [path.join(root, 'build', 'main', 'electron', 'electron-main.js')];
     if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
     const child = spawn(availability.binary, electronArgs, { stdio: 'inherit' });
     return new Promise((resolve) => child.on('close', (code) => resolve(code ?? 1)));

@@ -1,14 +1,14 @@
-import type { ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
-import type { planChannels, PlanFields, SavedPlan } from '../app/contract/plan-records.js';
-import { planResultSchema, type PlanInput } from '../app/contract/plan.js';
-import { speciesToReference } from '../app/contract/species-mapping.js';
-import { computePlan, modelVersion } from '../app/core/model/compute-plan.js';
-import { weightTrend } from '../app/core/weight-trend.js';
-import type { TidewingDatabase } from '../db/connection.js';
-import { createPatientRepository } from '../db/repositories/patient-repository.js';
-import { createPlanRepository } from '../db/repositories/plan-repository.js';
-import { createSpeciesRepository } from '../db/repositories/species-repository.js';
-import { createWeightRepository } from '../db/repositories/weight-repository.js';
+import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
+import type { planChannels, PlanFields, SavedPlan } from '../../app/contract/plan-records.js';
+import { planResultSchema, type PlanInput } from '../../app/contract/plan.js';
+import { speciesToReference } from '../../app/contract/species-mapping.js';
+import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js';
+import { weightTrend } from '../../app/core/weight-trend.js';
+import type { TidewingDatabase } from '../../db/connection.js';
+import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import { createPlanRepository } from '../../db/repositories/plan-repository.js';
+import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import { createWeightRepository } from '../../db/repositories/weight-repository.js';
 import { RecordError } from './record-handlers.js';
 
 type PlanChannel = keyof typeof planChannels;

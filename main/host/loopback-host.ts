@@ -1,10 +1,10 @@
 import crypto from 'node:crypto';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { bridgePathPrefix, tokenHeader } from '../app/contract/api.js';
-import type { Dispatcher } from './handlers.js';
-import { contentTypeFor, securityHeaders } from './security-headers.js';
-import { readRendererFile } from './static-files.js';
+import { bridgePathPrefix, tokenHeader } from '../../app/contract/api.js';
+import type { Dispatcher } from '../back-end/handlers.js';
+import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
+import { readRendererFile } from '../back-end/static-files.js';
 
 export type LoopbackHost = {
   readonly url: string;

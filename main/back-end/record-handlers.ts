@@ -1,13 +1,13 @@
-import type { ChannelName, ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
-import type { recordChannels } from '../app/contract/record-channels.js';
-import { procedureCsv } from '../app/core/procedure-csv.js';
-import { weightTrend } from '../app/core/weight-trend.js';
-import { createPatientRepository } from '../db/repositories/patient-repository.js';
-import { createProcedureEntryRepository, EntryCorrectionError } from '../db/repositories/procedure-entry-repository.js';
-import { createProcedureRecordRepository } from '../db/repositories/procedure-record-repository.js';
-import { createSpeciesRepository } from '../db/repositories/species-repository.js';
-import { createWeightRepository, WeightCorrectionError } from '../db/repositories/weight-repository.js';
-import type { TidewingDatabase } from '../db/connection.js';
+import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
+import type { recordChannels } from '../../app/contract/record-channels.js';
+import { procedureCsv } from '../../app/core/procedure-csv.js';
+import { weightTrend } from '../../app/core/weight-trend.js';
+import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import { createProcedureEntryRepository, EntryCorrectionError } from '../../db/repositories/procedure-entry-repository.js';
+import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
+import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
+import type { TidewingDatabase } from '../../db/connection.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
 type RecordHandlerTable = { [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };

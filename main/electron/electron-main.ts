@@ -1,12 +1,12 @@
 import { app, BrowserWindow, dialog, ipcMain, protocol, session } from 'electron';
 import fs from 'node:fs';
 import path from 'node:path';
-import { channelNames } from '../app/contract/channels.js';
-import { startBackEnd, type BackEnd } from './back-end.js';
-import { electronSqliteBindingPath } from './electron-native.js';
-import { contentTypeFor, securityHeaders } from './security-headers.js';
-import { readRendererFile } from './static-files.js';
-import { findProjectRoot, readAppVersion, rendererDirectory } from './project-paths.js';
+import { channelNames } from '../../app/contract/channels.js';
+import { startBackEnd, type BackEnd } from '../back-end/back-end.js';
+import { electronSqliteBindingPath } from '../back-end/electron-native.js';
+import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
+import { readRendererFile } from '../back-end/static-files.js';
+import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
 
 // Our own scheme instead of file://, so the page has a real origin and a strict CSP.
 const scheme = 'app';
@@ -113,7 +113,7 @@ async function createWindow(root: string): Promise<void> {
     title: 'Tidewing',
     show: false,
     webPreferences: {
-      preload: path.join(root, 'build', 'main', 'preload.cjs'),
+      preload: path.join(root, 'build', 'main', 'electron', 'preload.cjs'),
       contextIsolation: true,
       sandbox: true,
       nodeIntegration: false,

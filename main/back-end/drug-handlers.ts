@@ -1,7 +1,7 @@
-import type { ParsedRequestOf, ResponseOf } from '../app/contract/channels.js';
-import type { drugChannels } from '../app/contract/drug-channels.js';
-import type { TidewingDatabase } from '../db/connection.js';
-import { createEmergencyDrugRepository, DrugCorrectionError } from '../db/repositories/emergency-drug-repository.js';
+import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
+import type { drugChannels } from '../../app/contract/drug-channels.js';
+import type { TidewingDatabase } from '../../db/connection.js';
+import { createEmergencyDrugRepository, DrugCorrectionError } from '../../db/repositories/emergency-drug-repository.js';
 import { RecordError } from './record-handlers.js';
 
 type DrugChannel = keyof typeof drugChannels;

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
-import { speciesReference } from '../app/core/species-reference.js';
-import { openDatabase, type OpenOptions, type TidewingDatabase } from '../db/connection.js';
-import { createSpeciesRepository } from '../db/repositories/species-repository.js';
+import { speciesReference } from '../../app/core/species-reference.js';
+import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/connection.js';
+import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
