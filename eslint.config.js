@@ -17,7 +17,10 @@ export default tseslint.config(
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_' }],
       // The sandboxed preload must be CommonJS; `import x = require()` keeps it typed.
       '@typescript-eslint/no-require-imports': ['error', { allowAsImport: true }],
-      'no-restricted-syntax': ['error', { selector: 'ExportDefaultDeclaration', message: 'Use named exports.' }],
+      'no-restricted-syntax': [
+        'error',
+        { selector: 'ExportDefaultDeclaration', message: 'Use named exports.' },
+      ],
     },
   },
   {

@@ -14,7 +14,9 @@ const root = path.dirname(fileURLToPath(import.meta.url));
  */
 export default defineConfig(({ mode }): UserConfig => {
   const print = mode === 'print';
-  const input: Record<string, string> = print ? { print: path.resolve(root, 'app/ui/print.html') } : { index: path.resolve(root, 'app/ui/index.html') };
+  const input: Record<string, string> = print
+    ? { print: path.resolve(root, 'app/ui/print.html') }
+    : { index: path.resolve(root, 'app/ui/index.html') };
   return {
     root: 'app/ui',
     base: './',

@@ -72,7 +72,10 @@ export function flushToDisk(target: string): void {
 
 /** A name in the destination's folder, so that the final rename cannot cross file systems. */
 export function temporaryNameBeside(file: string, purpose: string): string {
-  return path.join(path.dirname(file), `.${path.basename(file)}.${purpose}-${process.pid}-${crypto.randomBytes(4).toString('hex')}`);
+  return path.join(
+    path.dirname(file),
+    `.${path.basename(file)}.${purpose}-${process.pid}-${crypto.randomBytes(4).toString('hex')}`,
+  );
 }
 
 /**
@@ -105,11 +108,14 @@ export async function backupDatabase(
 
   let opened: ReadOnlyDatabase;
   if (typeof source === 'string') {
-    if (!fs.existsSync(source)) throw new BackupError(`There is no database at ${source}; nothing to back up.`);
+    if (!fs.existsSync(source))
+      throw new BackupError(`There is no database at ${source}; nothing to back up.`);
     try {
       opened = openReadOnly(source, options);
     } catch (error) {
-      throw new BackupError(`The database ${source} could not be opened: ${errorText(error)}`, { cause: error });
+      throw new BackupError(`The database ${source} could not be opened: ${errorText(error)}`, {
+        cause: error,
+      });
     }
   } else {
     opened = { db: source, close: () => undefined };
@@ -119,7 +125,9 @@ export async function backupDatabase(
     fs.mkdirSync(path.dirname(target), { recursive: true });
   } catch (error) {
     opened.close();
-    throw new BackupError(`The folder for ${target} could not be made: ${errorText(error)}`, { cause: error });
+    throw new BackupError(`The folder for ${target} could not be made: ${errorText(error)}`, {
+      cause: error,
+    });
   }
   const temporary = temporaryNameBeside(target, 'partial');
   try {
@@ -127,13 +135,17 @@ export async function backupDatabase(
     await opened.db.backup(temporary, {
       progress: ({ totalPages, remainingPages }) => {
         pages = totalPages;
-        const percent = totalPages === 0 ? 100 : Math.floor((100 * (totalPages - remainingPages)) / totalPages);
+        const percent =
+          totalPages === 0 ? 100 : Math.floor((100 * (totalPages - remainingPages)) / totalPages);
         onProgress?.({ totalPages, remainingPages, percent });
         return pagesPerStep;
       },
     });
     // The copy carries the source's WAL flag; a single file is easier to keep, move and check.
-    const copy = new Database(temporary, options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding });
+    const copy = new Database(
+      temporary,
+      options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding },
+    );
     try {
       copy.pragma('journal_mode = DELETE');
       pages = copy.pragma('page_count', { simple: true }) as number;
@@ -141,7 +153,10 @@ export async function backupDatabase(
       copy.close();
     }
     if (verify !== 'none') {
-      const check = checkDatabaseFile(temporary, { quick: verify === 'quick', ...(options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding }) });
+      const check = checkDatabaseFile(temporary, {
+        quick: verify === 'quick',
+        ...(options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding }),
+      });
       if (check.status === 'corrupt' || check.status === 'notDatabase' || check.status === 'unreadable') {
         const name = typeof source === 'string' ? source : source.name;
         throw new BackupError(
@@ -157,7 +172,10 @@ export async function backupDatabase(
   } catch (error) {
     removeQuietly(temporary);
     if (error instanceof BackupError) throw error;
-    throw new BackupError(`The backup to ${target} failed: ${errorText(error)}. Nothing was written under that name.`, { cause: error });
+    throw new BackupError(
+      `The backup to ${target} failed: ${errorText(error)}. Nothing was written under that name.`,
+      { cause: error },
+    );
   } finally {
     opened.close();
   }
@@ -232,17 +250,24 @@ export type RollingBackupResult = BackupResult & {
  */
 export async function rollingBackup(options: RollingBackupOptions): Promise<RollingBackupResult> {
   const keep = options.keep ?? 10;
-  if (!Number.isInteger(keep) || keep < 1 || keep > 1000) throw new BackupError(`keep must be a whole number from 1 to 1000; got ${keep}.`);
+  if (!Number.isInteger(keep) || keep < 1 || keep > 1000)
+    throw new BackupError(`keep must be a whole number from 1 to 1000; got ${keep}.`);
   if (Number.isNaN(options.now.getTime())) throw new BackupError('The backup time is not a valid date.');
   fs.mkdirSync(options.backupFolder, { recursive: true });
   const stamp = fileTimestamp(options.now);
   let name = `tidewing-backup-${stamp}.db`;
-  for (let sequence = 2; fs.existsSync(path.join(options.backupFolder, name)); sequence += 1) name = `tidewing-backup-${stamp}-${sequence}.db`;
+  for (let sequence = 2; fs.existsSync(path.join(options.backupFolder, name)); sequence += 1)
+    name = `tidewing-backup-${stamp}-${sequence}.db`;
 
-  const made = await backupDatabase(options.connection ?? options.databaseFile, path.join(options.backupFolder, name), options.onProgress, {
-    verify: options.verify ?? 'full',
-    ...(options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding }),
-  });
+  const made = await backupDatabase(
+    options.connection ?? options.databaseFile,
+    path.join(options.backupFolder, name),
+    options.onProgress,
+    {
+      verify: options.verify ?? 'full',
+      ...(options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding }),
+    },
+  );
   const older = namedBackups(options.backupFolder).filter((backup) => backup.file !== made.file);
   const removed: string[] = [];
   for (const backup of older.slice(keep - 1)) {

@@ -70,7 +70,8 @@ export function openDatabase(file: string, options: OpenOptions = {}): TidewingD
 /** Applies every migration above the database's `user_version`, each in its own transaction. */
 export function migrate(db: TidewingDatabase, list: readonly Migration[] = migrations): number {
   list.forEach((migration, index) => {
-    if (migration.version !== index + 1) throw new Error(`Migration ${migration.name} is numbered ${migration.version}, expected ${index + 1}`);
+    if (migration.version !== index + 1)
+      throw new Error(`Migration ${migration.name} is numbered ${migration.version}, expected ${index + 1}`);
   });
   const current = db.pragma('user_version', { simple: true }) as number;
   if (current > list.length) throw new DatabaseTooNewError(db.name, current, list.length);

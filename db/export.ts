@@ -46,7 +46,8 @@ function quoteIdentifier(name: string): string {
 
 function exportedValue(value: unknown): ExportedValue {
   if (value === null || typeof value === 'string' || typeof value === 'number') return value;
-  if (typeof value === 'bigint') return Number.isSafeInteger(Number(value)) ? Number(value) : value.toString();
+  if (typeof value === 'bigint')
+    return Number.isSafeInteger(Number(value)) ? Number(value) : value.toString();
   if (Buffer.isBuffer(value)) return { base64: value.toString('base64') };
   return String(value);
 }
@@ -59,20 +60,36 @@ function exportedValue(value: unknown): ExportedValue {
  * the rows. Suitable for a clinic archive; not a backup (restore needs the .db backup).
  */
 export function exportDatabaseJson(db: Database.Database, options: ExportOptions): DatabaseExport {
-  if (Number.isNaN(options.exportedAt.getTime())) throw new BackupError('The export time is not a valid date.');
+  if (Number.isNaN(options.exportedAt.getTime()))
+    throw new BackupError('The export time is not a valid date.');
   const read = () => {
-    const listed = db.prepare<[], TableListRow>('PRAGMA table_list').all().filter((row) => row.schema === 'main' && !row.name.startsWith('sqlite_'));
-    const derived = listed.filter((row) => row.type === 'virtual' || row.type === 'shadow').map((row) => row.name).sort();
-    const ordinary = listed.filter((row) => row.type === 'table').map((row) => row.name).sort();
+    const listed = db
+      .prepare<[], TableListRow>('PRAGMA table_list')
+      .all()
+      .filter((row) => row.schema === 'main' && !row.name.startsWith('sqlite_'));
+    const derived = listed
+      .filter((row) => row.type === 'virtual' || row.type === 'shadow')
+      .map((row) => row.name)
+      .sort();
+    const ordinary = listed
+      .filter((row) => row.type === 'table')
+      .map((row) => row.name)
+      .sort();
     const tables: Record<string, ExportedTable> = {};
     ordinary.forEach((name, index) => {
       const columnRows = db.prepare<[], ColumnRow>(`PRAGMA table_info(${quoteIdentifier(name)})`).all();
       const columns = columnRows.map((column) => column.name);
-      const keys = columnRows.filter((column) => column.pk > 0).sort((a, b) => a.pk - b.pk).map((column) => quoteIdentifier(column.name));
+      const keys = columnRows
+        .filter((column) => column.pk > 0)
+        .sort((a, b) => a.pk - b.pk)
+        .map((column) => quoteIdentifier(column.name));
       const withoutRowId = listed.find((row) => row.name === name)?.wr === 1;
-      const order = keys.length > 0 ? keys.join(', ') : withoutRowId ? columns.map(quoteIdentifier).join(', ') : 'rowid';
+      const order =
+        keys.length > 0 ? keys.join(', ') : withoutRowId ? columns.map(quoteIdentifier).join(', ') : 'rowid';
       const rows = db
-        .prepare<[], Record<string, unknown>>(`SELECT ${columns.map(quoteIdentifier).join(', ')} FROM ${quoteIdentifier(name)} ORDER BY ${order}`)
+        .prepare<[], Record<string, unknown>>(
+          `SELECT ${columns.map(quoteIdentifier).join(', ')} FROM ${quoteIdentifier(name)} ORDER BY ${order}`,
+        )
         .all()
         .map((row) => Object.fromEntries(columns.map((column) => [column, exportedValue(row[column])])));
       tables[name] = { columns, rows };
@@ -87,8 +104,7 @@ export function exportDatabaseJson(db: Database.Database, options: ExportOptions
     appVersion: options.appVersion,
     schemaVersion: db.pragma('user_version', { simple: true }) as number,
     exportedAt: options.exportedAt.toISOString(),
-    note:
-      'Every row of every table of a Tidewing clinic database. Record rows are never changed: a correction is a later row whose corrects_id points at the row it replaces.',
+    note: 'Every row of every table of a Tidewing clinic database. Record rows are never changed: a correction is a later row whose corrects_id points at the row it replaces.',
     tables,
     derivedTablesLeftOut: derived,
   };
@@ -99,9 +115,14 @@ export function exportDatabaseJson(db: Database.Database, options: ExportOptions
  * that the final name only ever holds a whole export. Refuses to replace an existing file unless
  * `overwrite`. Returns the bytes written.
  */
-export function writeDatabaseJson(db: Database.Database, outFile: string, options: ExportOptions & { readonly overwrite?: boolean }): { file: string; sizeBytes: number; tableCount: number; rowCount: number } {
+export function writeDatabaseJson(
+  db: Database.Database,
+  outFile: string,
+  options: ExportOptions & { readonly overwrite?: boolean },
+): { file: string; sizeBytes: number; tableCount: number; rowCount: number } {
   const target = path.resolve(outFile);
-  if (options.overwrite !== true && fs.existsSync(target)) throw new BackupError(`${target} already exists; choose another file name. Nothing was written.`);
+  if (options.overwrite !== true && fs.existsSync(target))
+    throw new BackupError(`${target} already exists; choose another file name. Nothing was written.`);
   const exported = exportDatabaseJson(db, options);
   fs.mkdirSync(path.dirname(target), { recursive: true });
   const temporary = temporaryNameBeside(target, 'partial');
@@ -112,8 +133,16 @@ export function writeDatabaseJson(db: Database.Database, outFile: string, option
     flushToDisk(path.dirname(target));
   } catch (error) {
     fs.rmSync(temporary, { force: true });
-    throw new BackupError(`The export to ${target} failed: ${error instanceof Error ? error.message : String(error)}. Nothing was written under that name.`, { cause: error });
+    throw new BackupError(
+      `The export to ${target} failed: ${error instanceof Error ? error.message : String(error)}. Nothing was written under that name.`,
+      { cause: error },
+    );
   }
   const tables = Object.values(exported.tables);
-  return { file: target, sizeBytes: fs.statSync(target).size, tableCount: tables.length, rowCount: tables.reduce((sum, table) => sum + table.rows.length, 0) };
+  return {
+    file: target,
+    sizeBytes: fs.statSync(target).size,
+    tableCount: tables.length,
+    rowCount: tables.reduce((sum, table) => sum + table.rows.length, 0),
+  };
 }

@@ -60,7 +60,10 @@ export type ReadOnlyDatabase = { readonly db: Database.Database; close(): void }
  * also opened in place, and SQLite may leave empty `-wal`/`-shm` files, which are harmless.)
  * Throws SQLite's error (SQLITE_CANTOPEN, SQLITE_NOTADB, ...) when the file cannot be opened.
  */
-export function openReadOnly(file: string, options: { readonly nativeBinding?: string } = {}): ReadOnlyDatabase {
+export function openReadOnly(
+  file: string,
+  options: { readonly nativeBinding?: string } = {},
+): ReadOnlyDatabase {
   const binding = options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding };
   const size = fs.statSync(file).size;
   const walPresent = fs.existsSync(`${file}-wal`);
@@ -95,7 +98,8 @@ function isWalModeHeader(file: string): boolean {
 }
 
 function errorCode(error: unknown): string {
-  if (typeof error === 'object' && error !== null && 'code' in error && typeof error.code === 'string') return error.code;
+  if (typeof error === 'object' && error !== null && 'code' in error && typeof error.code === 'string')
+    return error.code;
   return '';
 }
 
@@ -104,7 +108,11 @@ function errorText(error: unknown): string {
 }
 
 /** Table names a fresh database at `version` has, from running the migrations in memory. */
-function expectedTables(version: number, list: readonly Migration[], binding: { nativeBinding?: string }): string[] {
+function expectedTables(
+  version: number,
+  list: readonly Migration[],
+  binding: { nativeBinding?: string },
+): string[] {
   const memory = new Database(':memory:', binding);
   try {
     for (const migration of list.slice(0, version)) memory.exec(migration.sql);
@@ -118,7 +126,12 @@ function expectedTables(version: number, list: readonly Migration[], binding: { 
 function tableNames(db: Database.Database): string[] {
   const rows = db.prepare<[], { name: string; type: string; schema: string }>('PRAGMA table_list').all();
   return rows
-    .filter((row) => row.schema === 'main' && (row.type === 'table' || row.type === 'virtual') && !row.name.startsWith('sqlite_'))
+    .filter(
+      (row) =>
+        row.schema === 'main' &&
+        (row.type === 'table' || row.type === 'virtual') &&
+        !row.name.startsWith('sqlite_'),
+    )
     .map((row) => row.name)
     .sort();
 }
@@ -140,14 +153,38 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
   try {
     const stat = fs.statSync(file);
     if (!stat.isFile()) {
-      return { ...base, ok: false, status: 'unreadable', message: `${file} is a folder, not a database file.`, integrity: [], schemaVersion: null, sizeBytes: null };
+      return {
+        ...base,
+        ok: false,
+        status: 'unreadable',
+        message: `${file} is a folder, not a database file.`,
+        integrity: [],
+        schemaVersion: null,
+        sizeBytes: null,
+      };
     }
     sizeBytes = stat.size;
   } catch (error) {
     if (errorCode(error) === 'ENOENT') {
-      return { ...base, ok: false, status: 'missing', message: `There is no database file at ${file}.`, integrity: [], schemaVersion: null, sizeBytes: null };
+      return {
+        ...base,
+        ok: false,
+        status: 'missing',
+        message: `There is no database file at ${file}.`,
+        integrity: [],
+        schemaVersion: null,
+        sizeBytes: null,
+      };
     }
-    return { ...base, ok: false, status: 'unreadable', message: `${file} could not be read: ${errorText(error)}`, integrity: [], schemaVersion: null, sizeBytes: null };
+    return {
+      ...base,
+      ok: false,
+      status: 'unreadable',
+      message: `${file} could not be read: ${errorText(error)}`,
+      integrity: [],
+      schemaVersion: null,
+      sizeBytes: null,
+    };
   }
 
   if (sizeBytes > 0 && !readHeader(file).subarray(0, 16).equals(sqliteMagic)) {
@@ -166,7 +203,15 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
   try {
     opened = openReadOnly(file, options);
   } catch (error) {
-    return { ...base, ok: false, status: 'unreadable', message: `${file} could not be opened: ${errorText(error)}`, integrity: [], schemaVersion: null, sizeBytes };
+    return {
+      ...base,
+      ok: false,
+      status: 'unreadable',
+      message: `${file} could not be opened: ${errorText(error)}`,
+      integrity: [],
+      schemaVersion: null,
+      sizeBytes,
+    };
   }
 
   try {
@@ -175,11 +220,19 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
     let integrity: string[];
     try {
       schemaVersion = db.pragma('user_version', { simple: true }) as number;
-      const rows = db.pragma(options.quick === true ? 'quick_check' : 'integrity_check') as Record<string, string>[];
+      const rows = db.pragma(options.quick === true ? 'quick_check' : 'integrity_check') as Record<
+        string,
+        string
+      >[];
       integrity = rows.map((row) => String(Object.values(row)[0]));
     } catch (error) {
       const code = errorCode(error);
-      const status: DatabaseFileStatus = code === 'SQLITE_NOTADB' ? 'notDatabase' : code.startsWith('SQLITE_CORRUPT') ? 'corrupt' : 'unreadable';
+      const status: DatabaseFileStatus =
+        code === 'SQLITE_NOTADB'
+          ? 'notDatabase'
+          : code.startsWith('SQLITE_CORRUPT')
+            ? 'corrupt'
+            : 'unreadable';
       const message =
         status === 'notDatabase'
           ? `${file} is not a SQLite database file (SQLite says: ${errorText(error)}).`
@@ -227,11 +280,24 @@ export function checkDatabaseFile(file: string, options: CheckOptions = {}): Dat
 
     const present = tableNames(db);
     if (schemaVersion < 1) {
-      const what = present.length === 0 ? 'it is empty' : `its tables (${present.slice(0, 5).join(', ')}${present.length > 5 ? ', ...' : ''}) are not Tidewing's`;
-      return { ...base, ok: false, status: 'notTidewing', message: `${file} is a SQLite database but not a Tidewing database: ${what}.`, integrity, schemaVersion, sizeBytes };
+      const what =
+        present.length === 0
+          ? 'it is empty'
+          : `its tables (${present.slice(0, 5).join(', ')}${present.length > 5 ? ', ...' : ''}) are not Tidewing's`;
+      return {
+        ...base,
+        ok: false,
+        status: 'notTidewing',
+        message: `${file} is a SQLite database but not a Tidewing database: ${what}.`,
+        integrity,
+        schemaVersion,
+        sizeBytes,
+      };
     }
 
-    const missingTables = expectedTables(schemaVersion, list, binding).filter((name) => !present.includes(name));
+    const missingTables = expectedTables(schemaVersion, list, binding).filter(
+      (name) => !present.includes(name),
+    );
     if (missingTables.length > 0) {
       return {
         ...base,

@@ -1,7 +1,15 @@
 import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
-import { BackupError, backupDatabase, fileTimestamp, flushToDisk, sidecarSuffixes, temporaryNameBeside, type ProgressListener } from './backup.js';
+import {
+  BackupError,
+  backupDatabase,
+  fileTimestamp,
+  flushToDisk,
+  sidecarSuffixes,
+  temporaryNameBeside,
+  type ProgressListener,
+} from './backup.js';
 import { checkDatabaseFile, type DatabaseCheck } from './integrity.js';
 import type { Migration } from './migrations/index.js';
 
@@ -73,7 +81,13 @@ function quiesce(databaseFile: string, binding: { nativeBinding?: string }): 'qu
 
 function freeName(base: string): string {
   let name = base;
-  for (let sequence = 2; [name, ...sidecarSuffixes.map((suffix) => `${name}${suffix}`)].some((candidate) => fs.existsSync(candidate)); sequence += 1) {
+  for (
+    let sequence = 2;
+    [name, ...sidecarSuffixes.map((suffix) => `${name}${suffix}`)].some((candidate) =>
+      fs.existsSync(candidate),
+    );
+    sequence += 1
+  ) {
     name = `${base}-${sequence}`;
   }
   return name;
@@ -96,13 +110,22 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
   const databaseFile = path.resolve(options.databaseFile);
   const binding = options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding };
   if (from === databaseFile || sidecarSuffixes.some((suffix) => from === `${databaseFile}${suffix}`)) {
-    throw new RestoreRefusedError(`${from} is the database itself; choose a backup file to restore from. Nothing was changed.`);
+    throw new RestoreRefusedError(
+      `${from} is the database itself; choose a backup file to restore from. Nothing was changed.`,
+    );
   }
-  if (Number.isNaN(options.now.getTime())) throw new RestoreRefusedError('The restore time is not a valid date. Nothing was changed.');
+  if (Number.isNaN(options.now.getTime()))
+    throw new RestoreRefusedError('The restore time is not a valid date. Nothing was changed.');
 
-  const sourceCheck = checkDatabaseFile(from, { ...binding, ...(options.migrations === undefined ? {} : { migrations: options.migrations }) });
+  const sourceCheck = checkDatabaseFile(from, {
+    ...binding,
+    ...(options.migrations === undefined ? {} : { migrations: options.migrations }),
+  });
   if (!sourceCheck.ok) {
-    throw new RestoreRefusedError(`Restore refused: ${sourceCheck.message} Nothing was changed.`, sourceCheck);
+    throw new RestoreRefusedError(
+      `Restore refused: ${sourceCheck.message} Nothing was changed.`,
+      sourceCheck,
+    );
   }
 
   fs.mkdirSync(path.dirname(databaseFile), { recursive: true });
@@ -110,7 +133,9 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
   try {
     await backupDatabase(from, staged, options.onProgress, { verify: 'full', ...binding });
   } catch (error) {
-    throw new RestoreRefusedError(`Restore refused: the copy of ${from} could not be made (${errorText(error)}). Nothing was changed.`);
+    throw new RestoreRefusedError(
+      `Restore refused: the copy of ${from} could not be made (${errorText(error)}). Nothing was changed.`,
+    );
   }
 
   let replacedFile: string | null = null;
@@ -128,13 +153,15 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
       flushToDisk(replacedFile);
       // A WAL left beside the restored file would be replayed into it; it belongs to the old one.
       for (const suffix of sidecarSuffixes) {
-        if (fs.existsSync(`${databaseFile}${suffix}`)) fs.renameSync(`${databaseFile}${suffix}`, `${replacedFile}${suffix}`);
+        if (fs.existsSync(`${databaseFile}${suffix}`))
+          fs.renameSync(`${databaseFile}${suffix}`, `${replacedFile}${suffix}`);
       }
     }
     fs.renameSync(staged, databaseFile);
     flushToDisk(path.dirname(databaseFile));
   } catch (error) {
-    for (const name of [staged, ...sidecarSuffixes.map((suffix) => `${staged}${suffix}`)]) fs.rmSync(name, { force: true });
+    for (const name of [staged, ...sidecarSuffixes.map((suffix) => `${staged}${suffix}`)])
+      fs.rmSync(name, { force: true });
     if (error instanceof RestoreRefusedError) {
       if (replacedFile !== null && fs.existsSync(replacedFile)) fs.rmSync(replacedFile, { force: true });
       throw error;
@@ -145,6 +172,9 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
     );
   }
 
-  const restoredCheck = checkDatabaseFile(databaseFile, { ...binding, ...(options.migrations === undefined ? {} : { migrations: options.migrations }) });
+  const restoredCheck = checkDatabaseFile(databaseFile, {
+    ...binding,
+    ...(options.migrations === undefined ? {} : { migrations: options.migrations }),
+  });
   return { databaseFile, replacedFile, sourceCheck, restoredCheck };
 }

@@ -22,8 +22,26 @@ function packageName(source) {
 }
 
 const nodeBuiltins = new Set([
-  'assert', 'buffer', 'child_process', 'crypto', 'events', 'fs', 'fs/promises', 'http', 'https', 'net',
-  'os', 'path', 'process', 'stream', 'url', 'util', 'worker_threads', 'zlib', 'readline', 'timers',
+  'assert',
+  'buffer',
+  'child_process',
+  'crypto',
+  'events',
+  'fs',
+  'fs/promises',
+  'http',
+  'https',
+  'net',
+  'os',
+  'path',
+  'process',
+  'stream',
+  'url',
+  'util',
+  'worker_threads',
+  'zlib',
+  'readline',
+  'timers',
 ]);
 
 /**
@@ -36,17 +54,28 @@ function refusal(fromLayer, target) {
     const name = target.name;
     const isNode = name.startsWith('node:') || nodeBuiltins.has(name);
     if (name === 'electron' && fromLayer !== 'main') return 'only main/ may import electron';
-    if (fromLayer === 'app/core') return 'app/core imports nothing outside itself (no packages, no Node built-ins)';
+    if (fromLayer === 'app/core')
+      return 'app/core imports nothing outside itself (no packages, no Node built-ins)';
     if (fromLayer === 'app/contract' && name !== 'zod') return 'app/contract imports only app/core and zod';
-    if (fromLayer === 'app/ui' && (isNode || name === 'better-sqlite3')) return 'app/ui runs in the renderer: no Node built-ins or database drivers';
+    if (fromLayer === 'app/ui' && (isNode || name === 'better-sqlite3'))
+      return 'app/ui runs in the renderer: no Node built-ins or database drivers';
     return null;
   }
   const to = target.layer;
   if (fromLayer === 'app/core' && to !== 'app/core') return 'app/core imports nothing outside itself';
-  if (fromLayer === 'app/contract' && to !== 'app/core' && to !== 'app/contract') return 'app/contract imports only app/core and zod';
-  if (fromLayer === 'app/ui' && (to === 'main' || to === 'db')) return 'app/ui talks to the back end only through app/contract';
+  if (fromLayer === 'app/contract' && to !== 'app/core' && to !== 'app/contract')
+    return 'app/contract imports only app/core and zod';
+  if (fromLayer === 'app/ui' && (to === 'main' || to === 'db'))
+    return 'app/ui talks to the back end only through app/contract';
   if (fromLayer === 'db' && (to === 'app/ui' || to === 'main')) return 'db/ never imports app/ui or main/';
-  if ((fromLayer === 'app/core' || fromLayer === 'app/contract' || fromLayer === 'db' || fromLayer === 'main') && to === 'test') return 'product code never imports tests';
+  if (
+    (fromLayer === 'app/core' ||
+      fromLayer === 'app/contract' ||
+      fromLayer === 'db' ||
+      fromLayer === 'main') &&
+    to === 'test'
+  )
+    return 'product code never imports tests';
   return null;
 }
 
@@ -69,19 +98,34 @@ export const importBoundaries = {
     function check(node, value) {
       if (typeof value !== 'string') return;
       const target = value.startsWith('.')
-        ? { kind: /** @type {const} */ ('local'), layer: layerOf(path.relative(root, path.resolve(path.dirname(filename), value))) }
+        ? {
+            kind: /** @type {const} */ ('local'),
+            layer: layerOf(path.relative(root, path.resolve(path.dirname(filename), value))),
+          }
         : { kind: /** @type {const} */ ('package'), name: packageName(value) };
       const why = refusal(/** @type {string} */ (fromLayer), target);
       if (why !== null) context.report({ node, messageId: 'refused', data: { source: value, why } });
     }
 
     return {
-      ImportDeclaration(node) { check(node, node.source.value); },
-      ExportNamedDeclaration(node) { if (node.source) check(node, node.source.value); },
-      ExportAllDeclaration(node) { check(node, node.source.value); },
-      ImportExpression(node) { if (node.source.type === 'Literal') check(node, node.source.value); },
+      ImportDeclaration(node) {
+        check(node, node.source.value);
+      },
+      ExportNamedDeclaration(node) {
+        if (node.source) check(node, node.source.value);
+      },
+      ExportAllDeclaration(node) {
+        check(node, node.source.value);
+      },
+      ImportExpression(node) {
+        if (node.source.type === 'Literal') check(node, node.source.value);
+      },
       CallExpression(node) {
-        if (node.callee.type === 'Identifier' && node.callee.name === 'require' && node.arguments[0]?.type === 'Literal') {
+        if (
+          node.callee.type === 'Identifier' &&
+          node.callee.name === 'require' &&
+          node.arguments[0]?.type === 'Literal'
+        ) {
           check(node, node.arguments[0].value);
         }
       },

@@ -28,7 +28,10 @@ export const channels = {
   'database:export-json': { request: empty, response: z.object({ fileName: z.string(), json: z.string() }) },
   'database:backups': {
     request: empty,
-    response: z.object({ folder: z.string(), backups: z.array(z.object({ file: z.string(), takenAt: z.string(), sizeBytes: z.number() })) }),
+    response: z.object({
+      folder: z.string(),
+      backups: z.array(z.object({ file: z.string(), takenAt: z.string(), sizeBytes: z.number() })),
+    }),
   },
   ...recordChannels,
   ...planChannels,

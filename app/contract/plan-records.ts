@@ -8,7 +8,13 @@ export { checklistItems, checklistStates, type ChecklistKey } from './checklist.
 const itemState = z.enum(checklistStates).default('open');
 
 export const checklistSchema = z.object({
-  asaGrade: z.number().int().min(1, { error: 'ASA grade is 1 to 5.' }).max(5, { error: 'ASA grade is 1 to 5.' }).nullable().default(null),
+  asaGrade: z
+    .number()
+    .int()
+    .min(1, { error: 'ASA grade is 1 to 5.' })
+    .max(5, { error: 'ASA grade is 1 to 5.' })
+    .nullable()
+    .default(null),
   emergency: z.boolean().default(false),
   items: z
     .object({
@@ -20,8 +26,20 @@ export const checklistSchema = z.object({
       scavenging: itemState,
       emergencyCard: itemState,
     })
-    .default({ fastingAndCrop: 'open', hydration: 'open', bloods: 'open', equipmentLeakCheck: 'open', oxygenSupply: 'open', scavenging: 'open', emergencyCard: 'open' }),
-  notes: z.string().trim().max(1000, { error: 'Checklist notes must be at most 1000 characters.' }).default(''),
+    .default({
+      fastingAndCrop: 'open',
+      hydration: 'open',
+      bloods: 'open',
+      equipmentLeakCheck: 'open',
+      oxygenSupply: 'open',
+      scavenging: 'open',
+      emergencyCard: 'open',
+    }),
+  notes: z
+    .string()
+    .trim()
+    .max(1000, { error: 'Checklist notes must be at most 1000 characters.' })
+    .default(''),
 });
 export type Checklist = z.infer<typeof checklistSchema>;
 
@@ -77,7 +95,11 @@ export const planDetailSchema = z.object({
 export type PlanDetail = z.infer<typeof planDetailSchema>;
 
 const meta = z.object({
-  enteredBy: z.string().trim().min(1, { error: 'Enter your initials at the top of the screen first; every record carries them.' }).max(80),
+  enteredBy: z
+    .string()
+    .trim()
+    .min(1, { error: 'Enter your initials at the top of the screen first; every record carries them.' })
+    .max(80),
   reason: z.string().trim().max(500).default(''),
 });
 
@@ -85,10 +107,19 @@ const meta = z.object({
 export const planChannels = {
   'plans:compute': { request: z.object({ input: planInputSchema }), response: planResultSchema },
   'plans:save': { request: z.object({ fields: planFieldsSchema, meta }), response: savedPlanSchema },
-  'plans:correct': { request: z.object({ id: z.number().int().positive(), fields: planFieldsSchema, meta }), response: savedPlanSchema },
+  'plans:correct': {
+    request: z.object({ id: z.number().int().positive(), fields: planFieldsSchema, meta }),
+    response: savedPlanSchema,
+  },
   'plans:get': { request: z.object({ id: z.number().int().positive() }), response: planDetailSchema },
-  'plans:for-patient': { request: z.object({ patientId: z.number().int().positive() }), response: z.array(planSummarySchema) },
-  'plans:recent': { request: z.object({ limit: z.number().int().min(1).max(500).default(50) }), response: z.array(planSummarySchema) },
+  'plans:for-patient': {
+    request: z.object({ patientId: z.number().int().positive() }),
+    response: z.array(planSummarySchema),
+  },
+  'plans:recent': {
+    request: z.object({ limit: z.number().int().min(1).max(500).default(50) }),
+    response: z.array(planSummarySchema),
+  },
   'plans:day': {
     request: z.object({ date: isoDate }),
     response: z.object({

@@ -13,9 +13,17 @@ import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '.
  */
 export const overridePlausibilityFactor = 10;
 
-function boundedNumber(what: string, unit: string, min: number, max: number, options: { integer?: boolean } = {}) {
+function boundedNumber(
+  what: string,
+  unit: string,
+  min: number,
+  max: number,
+  options: { integer?: boolean } = {},
+) {
   const range = `${what} must be between ${String(min)}${unit} and ${String(max)}${unit}`;
-  const base = z.number({ error: (issue) => (issue.input === undefined ? `${what} is required` : `${what} must be a number`) });
+  const base = z.number({
+    error: (issue) => (issue.input === undefined ? `${what} is required` : `${what} must be a number`),
+  });
   const checked = options.integer === true ? base.int({ error: `${what} must be a whole number` }) : base;
   return checked.min(min, { error: range }).max(max, { error: range });
 }
@@ -40,7 +48,9 @@ export const agentSchema = z.enum(['isoflurane', 'sevoflurane', 'desflurane'], {
 export const routeSchema = z.enum(['mask', 'chamber', 'endotracheal', 'airSacTube'], {
   error: 'route must be mask, chamber, endotracheal or airSacTube',
 });
-export const circuitSchema = z.enum(['nonRebreathing', 'circle'], { error: 'circuit must be nonRebreathing or circle' });
+export const circuitSchema = z.enum(['nonRebreathing', 'circle'], {
+  error: 'circuit must be nonRebreathing or circle',
+});
 
 export const overridesSchema = strict(
   {
@@ -86,7 +96,9 @@ export const cylinderSchema = z.discriminatedUnion(
     strict(
       {
         kind: z.literal('preset'),
-        presetId: z.enum(['us-e', 'metric-2l-200bar', 'metric-10l-200bar'], { error: 'cylinder preset must be us-e, metric-2l-200bar or metric-10l-200bar' }),
+        presetId: z.enum(['us-e', 'metric-2l-200bar', 'metric-10l-200bar'], {
+          error: 'cylinder preset must be us-e, metric-2l-200bar or metric-10l-200bar',
+        }),
         gaugePressureBar: boundedNumber('gauge pressure', ' bar', 0, 300).optional(),
         gaugePressurePsi: boundedNumber('gauge pressure', ' psi', 0, 4400).optional(),
       },
@@ -100,18 +112,26 @@ export const cylinderSchema = z.discriminatedUnion(
       },
       'a cylinder by water capacity',
     ),
-    strict({ kind: z.literal('content'), contentL: boundedNumber('cylinder content', ' L', 0, 100000) }, 'a cylinder by content'),
+    strict(
+      { kind: z.literal('content'), contentL: boundedNumber('cylinder content', ' L', 0, 100000) },
+      'a cylinder by content',
+    ),
   ],
   { error: 'cylinder kind must be preset, waterCapacity or content' },
 );
 
 export const planInputSchema = strict(
   {
-    patientName: z.string({ error: 'patient name must be text' }).max(100, { error: 'patient name must be at most 100 characters' }).optional(),
+    patientName: z
+      .string({ error: 'patient name must be text' })
+      .max(100, { error: 'patient name must be at most 100 characters' })
+      .optional(),
     bodyMassG: boundedNumber('body mass', ' g', 5, 15000),
     speciesId: z
       .string({ error: 'species id must be text' })
-      .regex(kebabCase, { error: 'species id must be lower-case words joined by hyphens, e.g. budgerigar or pekin-duck' })
+      .regex(kebabCase, {
+        error: 'species id must be lower-case words joined by hyphens, e.g. budgerigar or pekin-duck',
+      })
       .optional(),
     overrides: overridesSchema.optional(),
     agent: agentSchema,
@@ -154,7 +174,11 @@ export const planInputSchema = strict(
   const steps = plan.schedule;
   const first = steps[0];
   if (first !== undefined && first.atMin !== 0) {
-    context.addIssue({ code: 'custom', path: ['schedule', 0, 'atMin'], message: 'the first vaporiser step must start at 0 min' });
+    context.addIssue({
+      code: 'custom',
+      path: ['schedule', 0, 'atMin'],
+      message: 'the first vaporiser step must start at 0 min',
+    });
   }
   for (let index = 1; index < steps.length; index += 1) {
     const previous = steps[index - 1];
@@ -170,22 +194,42 @@ export const planInputSchema = strict(
   const last = steps[steps.length - 1];
   const window = plan.recoveryWindowMin ?? 30;
   if (last !== undefined && last.atMin + window > 1440) {
-    context.addIssue({ code: 'custom', path: ['recoveryWindowMin'], message: 'the last step plus the recovery window must end within 24 h (1440 min)' });
+    context.addIssue({
+      code: 'custom',
+      path: ['recoveryWindowMin'],
+      message: 'the last step plus the recovery window must end within 24 h (1440 min)',
+    });
   }
   if (plan.route === 'chamber' && plan.chamberVolumeL === undefined) {
-    context.addIssue({ code: 'custom', path: ['chamberVolumeL'], message: 'the chamber volume is needed for the chamber route' });
+    context.addIssue({
+      code: 'custom',
+      path: ['chamberVolumeL'],
+      message: 'the chamber volume is needed for the chamber route',
+    });
   }
   const circuit = plan.circuit ?? 'nonRebreathing';
   if (plan.route !== 'chamber' && circuit === 'circle' && plan.circuitVolumeL === undefined) {
-    context.addIssue({ code: 'custom', path: ['circuitVolumeL'], message: 'the circle volume (bag, hoses and absorber) is needed for a circle system' });
+    context.addIssue({
+      code: 'custom',
+      path: ['circuitVolumeL'],
+      message: 'the circle volume (bag, hoses and absorber) is needed for a circle system',
+    });
   }
   if (plan.route === 'airSacTube' && circuit === 'circle') {
-    context.addIssue({ code: 'custom', path: ['circuit'], message: 'an air-sac tube is run from a non-rebreathing system in this model; choose nonRebreathing' });
+    context.addIssue({
+      code: 'custom',
+      path: ['circuit'],
+      message: 'an air-sac tube is run from a non-rebreathing system in this model; choose nonRebreathing',
+    });
   }
   const ventilation = plan.ventilation;
   if (ventilation?.mode === 'ippv') {
     if (plan.route === 'chamber' || plan.route === 'mask') {
-      context.addIssue({ code: 'custom', path: ['ventilation', 'mode'], message: 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber' });
+      context.addIssue({
+        code: 'custom',
+        path: ['ventilation', 'mode'],
+        message: 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
+      });
     }
     const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
     if (ventilation.tidalVolumeMl > expectedTidal * overridePlausibilityFactor) {
@@ -195,8 +239,16 @@ export const planInputSchema = strict(
         message: `a ventilator tidal volume of ${String(ventilation.tidalVolumeMl)} mL is more than ${String(overridePlausibilityFactor)} times the ${expectedTidal.toPrecision(3)} mL expected for a ${String(plan.bodyMassG)} g bird: check the value and the units`,
       });
     }
-    if (ventilation.fromMin !== undefined && last !== undefined && ventilation.fromMin > last.atMin + window) {
-      context.addIssue({ code: 'custom', path: ['ventilation', 'fromMin'], message: 'ventilation must start before the end of the plan' });
+    if (
+      ventilation.fromMin !== undefined &&
+      last !== undefined &&
+      ventilation.fromMin > last.atMin + window
+    ) {
+      context.addIssue({
+        code: 'custom',
+        path: ['ventilation', 'fromMin'],
+        message: 'ventilation must start before the end of the plan',
+      });
     }
   }
   if (plan.overrides !== undefined) {
@@ -213,7 +265,10 @@ export const planInputSchema = strict(
     for (const [field, estimate, what, unit] of checks) {
       const measured = plan.overrides[field];
       if (measured === undefined) continue;
-      if (measured > estimate * overridePlausibilityFactor || measured < estimate / overridePlausibilityFactor) {
+      if (
+        measured > estimate * overridePlausibilityFactor ||
+        measured < estimate / overridePlausibilityFactor
+      ) {
         context.addIssue({
           code: 'custom',
           path: ['overrides', field],
@@ -223,10 +278,18 @@ export const planInputSchema = strict(
     }
   }
   if (plan.maskDeadSpaceMl !== undefined && plan.route !== 'mask') {
-    context.addIssue({ code: 'custom', path: ['maskDeadSpaceMl'], message: 'mask dead space applies only to the mask route' });
+    context.addIssue({
+      code: 'custom',
+      path: ['maskDeadSpaceMl'],
+      message: 'mask dead space applies only to the mask route',
+    });
   }
   if (plan.maskLeakFraction !== undefined && plan.route !== 'mask') {
-    context.addIssue({ code: 'custom', path: ['maskLeakFraction'], message: 'mask leak applies only to the mask route' });
+    context.addIssue({
+      code: 'custom',
+      path: ['maskLeakFraction'],
+      message: 'mask leak applies only to the mask route',
+    });
   }
 });
 
@@ -306,7 +369,10 @@ export const planResultSchema = z.object({
     samples: z.number(),
     seed: z.number(),
     // Snapshots saved before the band existed read back as null.
-    brainBandPct: z.object({ p5: z.array(z.number()), p95: z.array(z.number()) }).nullable().default(null),
+    brainBandPct: z
+      .object({ p5: z.array(z.number()), p95: z.array(z.number()) })
+      .nullable()
+      .default(null),
     inductionMin: percentilesSchema.nullable(),
     recoveryMin: percentilesSchema.nullable(),
     inductionReached: z.number(),
@@ -351,7 +417,12 @@ export const planResultSchema = z.object({
     basis: z.string(),
   }),
   cautions: z.array(
-    z.object({ code: z.string(), severity: z.enum(['danger', 'warning', 'notice']), message: z.string(), reason: z.string() }),
+    z.object({
+      code: z.string(),
+      severity: z.enum(['danger', 'warning', 'notice']),
+      message: z.string(),
+      reason: z.string(),
+    }),
   ),
   massBalance: z.object({
     deliveredToBirdMl: z.number(),

@@ -17,8 +17,15 @@ import {
 
 const id = z.number({ error: 'An id must be a number.' }).int().positive();
 
-export const weightFlagSchema = z.object({ code: z.string(), severity: z.enum(['danger', 'warning', 'notice']), message: z.string(), reason: z.string() });
-const weightChangeSchema = z.object({ grams: z.number(), percent: z.number(), lossBand: z.string() }).nullable();
+export const weightFlagSchema = z.object({
+  code: z.string(),
+  severity: z.enum(['danger', 'warning', 'notice']),
+  message: z.string(),
+  reason: z.string(),
+});
+const weightChangeSchema = z
+  .object({ grams: z.number(), percent: z.number(), lossBand: z.string() })
+  .nullable();
 export const weightTrendSchema = z.object({
   latest: z.object({ weighedOn: z.string(), massG: z.number() }).nullable(),
   sinceLast: weightChangeSchema,
@@ -51,34 +58,76 @@ export type ProcedureDetail = z.infer<typeof procedureDetailSchema>;
 export const recordChannels = {
   'species:list': { request: z.object({}).strict(), response: z.array(speciesSchema) },
   'species:history': { request: z.object({ key: z.string().min(1) }), response: z.array(speciesSchema) },
-  'species:add': { request: z.object({ values: speciesValuesSchema, meta: changeMetaSchema }), response: speciesSchema },
-  'species:correct': { request: z.object({ key: z.string().min(1), values: speciesValuesSchema, meta: correctionMetaSchema }), response: speciesSchema },
+  'species:add': {
+    request: z.object({ values: speciesValuesSchema, meta: changeMetaSchema }),
+    response: speciesSchema,
+  },
+  'species:correct': {
+    request: z.object({ key: z.string().min(1), values: speciesValuesSchema, meta: correctionMetaSchema }),
+    response: speciesSchema,
+  },
 
   'patients:search': {
-    request: z.object({ query: z.string().max(200).default(''), limit: z.number().int().min(1).max(500).default(50) }),
+    request: z.object({
+      query: z.string().max(200).default(''),
+      limit: z.number().int().min(1).max(500).default(50),
+    }),
     response: z.object({ patients: z.array(patientSummarySchema), total: z.number().int() }),
   },
   'patients:get': { request: z.object({ id }), response: patientDetailSchema },
-  'patients:create': { request: z.object({ values: patientValuesSchema, meta: changeMetaSchema }), response: patientSchema },
-  'patients:correct': { request: z.object({ id, values: patientValuesSchema, meta: correctionMetaSchema }), response: patientSchema },
+  'patients:create': {
+    request: z.object({ values: patientValuesSchema, meta: changeMetaSchema }),
+    response: patientSchema,
+  },
+  'patients:correct': {
+    request: z.object({ id, values: patientValuesSchema, meta: correctionMetaSchema }),
+    response: patientSchema,
+  },
 
-  'weights:add': { request: z.object({ patientId: id, values: weightValuesSchema, meta: changeMetaSchema }), response: weightSchema },
-  'weights:correct': { request: z.object({ id, values: weightValuesSchema, meta: correctionMetaSchema }), response: weightSchema },
+  'weights:add': {
+    request: z.object({ patientId: id, values: weightValuesSchema, meta: changeMetaSchema }),
+    response: weightSchema,
+  },
+  'weights:correct': {
+    request: z.object({ id, values: weightValuesSchema, meta: correctionMetaSchema }),
+    response: weightSchema,
+  },
   'weights:void': { request: z.object({ id, meta: correctionMetaSchema }), response: weightSchema },
   'weights:history': { request: z.object({ id }), response: z.array(weightSchema) },
 
-  'procedures:create': { request: z.object({ patientId: id, values: procedureRecordValuesSchema, meta: changeMetaSchema }), response: procedureRecordSchema },
-  'procedures:correct': { request: z.object({ id, values: procedureRecordValuesSchema, meta: correctionMetaSchema }), response: procedureRecordSchema },
+  'procedures:create': {
+    request: z.object({ patientId: id, values: procedureRecordValuesSchema, meta: changeMetaSchema }),
+    response: procedureRecordSchema,
+  },
+  'procedures:correct': {
+    request: z.object({ id, values: procedureRecordValuesSchema, meta: correctionMetaSchema }),
+    response: procedureRecordSchema,
+  },
   'procedures:recent': {
     request: z.object({ limit: z.number().int().min(1).max(500).default(50) }),
-    response: z.array(z.object({ record: procedureRecordSchema, patientName: z.string(), speciesName: z.string().nullable() })),
+    response: z.array(
+      z.object({
+        record: procedureRecordSchema,
+        patientName: z.string(),
+        speciesName: z.string().nullable(),
+      }),
+    ),
   },
   'procedures:get': { request: z.object({ id }), response: procedureDetailSchema },
   'procedures:history': { request: z.object({ id }), response: z.array(procedureRecordSchema) },
-  'procedures:export-csv': { request: z.object({ id }), response: z.object({ fileName: z.string(), csv: z.string() }) },
+  'procedures:export-csv': {
+    request: z.object({ id }),
+    response: z.object({ fileName: z.string(), csv: z.string() }),
+  },
 
-  'entries:add': { request: z.object({ recordId: id, values: procedureEntryValuesSchema, meta: changeMetaSchema }), response: procedureEntrySchema },
-  'entries:correct': { request: z.object({ id, values: procedureEntryValuesSchema, meta: correctionMetaSchema }), response: procedureEntrySchema },
+  'entries:add': {
+    request: z.object({ recordId: id, values: procedureEntryValuesSchema, meta: changeMetaSchema }),
+    response: procedureEntrySchema,
+  },
+  'entries:correct': {
+    request: z.object({ id, values: procedureEntryValuesSchema, meta: correctionMetaSchema }),
+    response: procedureEntrySchema,
+  },
   'entries:void': { request: z.object({ id, meta: correctionMetaSchema }), response: procedureEntrySchema },
   'entries:history': { request: z.object({ id }), response: z.array(procedureEntrySchema) },
 } as const;

@@ -1,7 +1,14 @@
 import { z } from 'zod';
 
 /** Error codes every host returns in the same shape. */
-export const errorCodes = ['invalid-request', 'unknown-channel', 'not-found', 'conflict', 'database', 'internal'] as const;
+export const errorCodes = [
+  'invalid-request',
+  'unknown-channel',
+  'not-found',
+  'conflict',
+  'database',
+  'internal',
+] as const;
 
 export type ErrorCode = (typeof errorCodes)[number];
 
@@ -16,7 +23,8 @@ export const contractErrorSchema = z.object({
 
 export type ContractError = z.infer<typeof contractErrorSchema>;
 
-export type Result<T> = { readonly ok: true; readonly value: T } | { readonly ok: false; readonly error: ContractError };
+export type Result<T> =
+  { readonly ok: true; readonly value: T } | { readonly ok: false; readonly error: ContractError };
 
 /** Turns zod issues into field-named messages a clinic user can act on. */
 export function describeIssues(issues: readonly z.core.$ZodIssue[]): { field: string; message: string }[] {

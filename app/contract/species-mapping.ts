@@ -4,7 +4,15 @@ import type { Species } from './records.js';
 
 const agentsWithMac: readonly AgentId[] = ['isoflurane', 'sevoflurane', 'desflurane'];
 
-const kinds: readonly BasisKind[] = ['published', 'derived', 'memory', 'assumption', 'common practice', 'measured', 'equation'];
+const kinds: readonly BasisKind[] = [
+  'published',
+  'derived',
+  'memory',
+  'assumption',
+  'common practice',
+  'measured',
+  'equation',
+];
 
 /**
  * The tag at the end of a stored basis ("... [published]"), as the seed writes it; a value the
@@ -38,11 +46,47 @@ export function speciesToReference(species: Species): SpeciesReference {
     id: species.key,
     commonName: values.commonName,
     scientificName: values.scientificName,
-    typicalMassG: { minG: values.massMinG, maxG: values.massMaxG, basis: values.massBasis, kind: basisKind(values.massBasis) },
-    ...(values.heartRate === null ? {} : { restingHeartRatePerMin: { minPerMin: values.heartRate.min, maxPerMin: values.heartRate.max, basis: values.heartRate.basis, kind: basisKind(values.heartRate.basis) } }),
-    ...(values.breathsPerMin === null ? {} : { restingBreathsPerMin: { minPerMin: values.breathsPerMin.min, maxPerMin: values.breathsPerMin.max, basis: values.breathsPerMin.basis, kind: basisKind(values.breathsPerMin.basis) } }),
+    typicalMassG: {
+      minG: values.massMinG,
+      maxG: values.massMaxG,
+      basis: values.massBasis,
+      kind: basisKind(values.massBasis),
+    },
+    ...(values.heartRate === null
+      ? {}
+      : {
+          restingHeartRatePerMin: {
+            minPerMin: values.heartRate.min,
+            maxPerMin: values.heartRate.max,
+            basis: values.heartRate.basis,
+            kind: basisKind(values.heartRate.basis),
+          },
+        }),
+    ...(values.breathsPerMin === null
+      ? {}
+      : {
+          restingBreathsPerMin: {
+            minPerMin: values.breathsPerMin.min,
+            maxPerMin: values.breathsPerMin.max,
+            basis: values.breathsPerMin.basis,
+            kind: basisKind(values.breathsPerMin.basis),
+          },
+        }),
     macByAgent,
-    ...(values.apnoeaMacMultiple === null ? {} : { apnoeaMacMultiple: { value: values.apnoeaMacMultiple.value, basis: values.apnoeaMacMultiple.basis, kind: basisKind(values.apnoeaMacMultiple.basis) } }),
-    anatomyNotes: values.anatomyNotes.map((note) => ({ code: note.code, text: note.text, basis: note.basis, kind: basisKind(note.basis) })),
+    ...(values.apnoeaMacMultiple === null
+      ? {}
+      : {
+          apnoeaMacMultiple: {
+            value: values.apnoeaMacMultiple.value,
+            basis: values.apnoeaMacMultiple.basis,
+            kind: basisKind(values.apnoeaMacMultiple.basis),
+          },
+        }),
+    anatomyNotes: values.anatomyNotes.map((note) => ({
+      code: note.code,
+      text: note.text,
+      basis: note.basis,
+      kind: basisKind(note.basis),
+    })),
   };
 }

@@ -11,7 +11,8 @@ export type AgentId = 'isoflurane' | 'sevoflurane' | 'desflurane';
 
 export const agentIds: readonly AgentId[] = ['isoflurane', 'sevoflurane', 'desflurane'];
 
-export type BasisKind = 'published' | 'derived' | 'memory' | 'assumption' | 'common practice' | 'measured' | 'equation';
+export type BasisKind =
+  'published' | 'derived' | 'memory' | 'assumption' | 'common practice' | 'measured' | 'equation';
 
 export type SourcedValue = {
   readonly value: number;
@@ -37,7 +38,8 @@ export type AgentProperties = {
   readonly fallbackMacPct: SourcedValue;
 };
 
-const humanTissueBasis = 'Human tissue/blood partition coefficient (from memory; classic uptake-model tables); mammalian value is an assumption for birds';
+const humanTissueBasis =
+  'Human tissue/blood partition coefficient (from memory; classic uptake-model tables); mammalian value is an assumption for birds';
 
 export const agents: Readonly<Record<AgentId, AgentProperties>> = {
   isoflurane: {
@@ -46,14 +48,20 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
     molecularWeightGPerMol: { value: 184.5, basis: 'Product label (isoflurane)', kind: 'published' },
     liquidDensityGPerMl: { value: 1.496, basis: 'Product label (isoflurane), 20 C', kind: 'published' },
     vapourPressureMmHgAt20C: { value: 238, basis: 'Product label (isoflurane), 20 C', kind: 'published' },
-    bloodGasPartition: { value: 1.45, basis: 'Human blood/gas 1.45 +/- 0.12 (Anesth Analg 2015;120:45-50); no avian value found: assumption for birds', kind: 'published' },
+    bloodGasPartition: {
+      value: 1.45,
+      basis:
+        'Human blood/gas 1.45 +/- 0.12 (Anesth Analg 2015;120:45-50); no avian value found: assumption for birds',
+      kind: 'published',
+    },
     bloodGasRange: [1.21, 1.69],
     vesselRichBloodPartition: { value: 1.6, basis: humanTissueBasis, kind: 'memory' },
     muscleBloodPartition: { value: 2.9, basis: humanTissueBasis, kind: 'memory' },
     fatBloodPartition: { value: 45, basis: humanTissueBasis, kind: 'memory' },
     fallbackMacPct: {
       value: 1.3,
-      basis: 'Assumption: about the mean of published avian isoflurane MAC (duck 1.30, crane 1.34, chicken 1.18, cockatoo 1.44 %)',
+      basis:
+        'Assumption: about the mean of published avian isoflurane MAC (duck 1.30, crane 1.34, chicken 1.18, cockatoo 1.44 %)',
       kind: 'assumption',
     },
   },
@@ -63,14 +71,20 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
     molecularWeightGPerMol: { value: 200.05, basis: 'Product label (sevoflurane)', kind: 'published' },
     liquidDensityGPerMl: { value: 1.52, basis: 'Product label (sevoflurane), 20 C', kind: 'published' },
     vapourPressureMmHgAt20C: { value: 157, basis: 'Product label (sevoflurane), 20 C', kind: 'published' },
-    bloodGasPartition: { value: 0.74, basis: 'Human blood/gas 0.74 +/- 0.06 (Anesth Analg 2015;120:45-50); label 0.65-0.69; no avian value found: assumption for birds', kind: 'published' },
+    bloodGasPartition: {
+      value: 0.74,
+      basis:
+        'Human blood/gas 0.74 +/- 0.06 (Anesth Analg 2015;120:45-50); label 0.65-0.69; no avian value found: assumption for birds',
+      kind: 'published',
+    },
     bloodGasRange: [0.65, 0.86],
     vesselRichBloodPartition: { value: 1.7, basis: humanTissueBasis, kind: 'memory' },
     muscleBloodPartition: { value: 3.1, basis: humanTissueBasis, kind: 'memory' },
     fatBloodPartition: { value: 48, basis: humanTissueBasis, kind: 'memory' },
     fallbackMacPct: {
       value: 2.3,
-      basis: 'Assumption: about the mean of published avian sevoflurane values (chicken 2.21, thick-billed parrot 2.35, blue-fronted Amazon 2.4 %)',
+      basis:
+        'Assumption: about the mean of published avian sevoflurane values (chicken 2.21, thick-billed parrot 2.35, blue-fronted Amazon 2.4 %)',
       kind: 'assumption',
     },
   },
@@ -78,16 +92,26 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
     id: 'desflurane',
     displayName: 'Desflurane',
     molecularWeightGPerMol: { value: 168.04, basis: 'Product label (desflurane)', kind: 'published' },
-    liquidDensityGPerMl: { value: 1.465, basis: 'Liquid density of desflurane at 20 C (from memory)', kind: 'memory' },
+    liquidDensityGPerMl: {
+      value: 1.465,
+      basis: 'Liquid density of desflurane at 20 C (from memory)',
+      kind: 'memory',
+    },
     vapourPressureMmHgAt20C: { value: 669, basis: 'Product label (desflurane), 20 C', kind: 'published' },
-    bloodGasPartition: { value: 0.42, basis: 'Human blood/gas 0.42 (published); 0.57 +/- 0.04 in Anesth Analg 2015;120:45-50; no avian value found: assumption for birds', kind: 'published' },
+    bloodGasPartition: {
+      value: 0.42,
+      basis:
+        'Human blood/gas 0.42 (published); 0.57 +/- 0.04 in Anesth Analg 2015;120:45-50; no avian value found: assumption for birds',
+      kind: 'published',
+    },
     bloodGasRange: [0.42, 0.65],
     vesselRichBloodPartition: { value: 1.3, basis: humanTissueBasis, kind: 'memory' },
     muscleBloodPartition: { value: 2.0, basis: humanTissueBasis, kind: 'memory' },
     fatBloodPartition: { value: 27, basis: humanTissueBasis, kind: 'memory' },
     fallbackMacPct: {
       value: 6.0,
-      basis: 'Assumption: no avian desflurane MAC was found; human adult value (from memory) used until the clinic enters one',
+      basis:
+        'Assumption: no avian desflurane MAC was found; human adult value (from memory) used until the clinic enters one',
       kind: 'assumption',
     },
   },

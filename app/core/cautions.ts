@@ -64,13 +64,25 @@ export type CautionContext = {
 };
 
 /** Lowest published MAC multiple at which apnoea is reported in birds: duck, above 1.5 MAC. */
-export const lowestPublishedApnoeaMacMultiple = { value: 1.5, basis: 'Duck apnoea common above 1.5 MAC isoflurane (Ludders, Mitchell & Rode 1990, Vet Surg 19)', kind: 'published' } as const;
+export const lowestPublishedApnoeaMacMultiple = {
+  value: 1.5,
+  basis: 'Duck apnoea common above 1.5 MAC isoflurane (Ludders, Mitchell & Rode 1990, Vet Surg 19)',
+  kind: 'published',
+} as const;
 
 /** Chamber time above which the chamber caution fires, min (assumption). */
-export const longChamberExposureMin = { value: 10, basis: 'Assumption: about 10 min in a chamber, where the bird cannot be watched or supported closely', kind: 'assumption' } as const;
+export const longChamberExposureMin = {
+  value: 10,
+  basis: 'Assumption: about 10 min in a chamber, where the bird cannot be watched or supported closely',
+  kind: 'assumption',
+} as const;
 
 /** IPPV peak inspiratory pressure usually kept to about 10-15 cmH2O (from memory). */
-export const ippvPeakPressureCmH2O = { range: [10, 15] as const, basis: 'IPPV peak pressure about 10-15 cmH2O (from memory)', kind: 'memory' } as const;
+export const ippvPeakPressureCmH2O = {
+  range: [10, 15] as const,
+  basis: 'IPPV peak pressure about 10-15 cmH2O (from memory)',
+  kind: 'memory',
+} as const;
 
 /** How far (as a factor) a mass sits from a range; 1 inside it. */
 function factorOutside(massG: number, minG: number, maxG: number): number {
@@ -107,7 +119,8 @@ function massCautions(context: CautionContext): Caution[] {
           slip === 'too-heavy'
             ? `Body mass ${format(bodyMassG, 0)} g is about 1000 times the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: was the mass entered in kilograms as grams?`
             : `Body mass ${format(bodyMassG, 3)} g is about 1/1000 of the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: was the mass entered in grams as kilograms?`,
-        reason: 'A mass 1000 times off the species range is most likely a g/kg unit slip; every flow, volume and budget scales with mass (species typical mass: common practice)',
+        reason:
+          'A mass 1000 times off the species range is most likely a g/kg unit slip; every flow, volume and budget scales with mass (species typical mass: common practice)',
       },
     ];
   }
@@ -117,7 +130,8 @@ function massCautions(context: CautionContext): Caution[] {
         code: 'mass-outside-species-range',
         severity: 'warning',
         message: `Body mass ${format(bodyMassG, 1)} g is outside the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: check the weight and the species`,
-        reason: 'Typical adult mass ranges are editable guides, not norms (common practice, owner-facing sources); estimates scale with mass',
+        reason:
+          'Typical adult mass ranges are editable guides, not norms (common practice, owner-facing sources); estimates scale with mass',
       },
     ];
   }
@@ -128,13 +142,16 @@ function agentCautions(context: CautionContext): Caution[] {
   const cautions: Caution[] = [];
   const { agent, highestDialPct } = context;
   if (agent !== undefined && highestDialPct !== undefined) {
-    const saturated = context.saturatedPct ?? saturatedConcentrationPct(agent, context.temperatureC ?? 20, context.barometricMmHg ?? 760);
+    const saturated =
+      context.saturatedPct ??
+      saturatedConcentrationPct(agent, context.temperatureC ?? 20, context.barometricMmHg ?? 760);
     if (highestDialPct > saturated) {
       cautions.push({
         code: 'dial-above-saturated',
         severity: 'danger',
         message: `Dial ${format(highestDialPct)} % is above the saturated concentration of ${agents[agent].displayName.toLowerCase()} (${format(saturated, 1)} %): no vaporiser can deliver it; check the agent and the setting`,
-        reason: 'Saturated concentration = saturated vapour pressure / barometric pressure (product label vapour pressure; derived)',
+        reason:
+          'Saturated concentration = saturated vapour pressure / barometric pressure (product label vapour pressure; derived)',
       });
     }
   }
@@ -142,8 +159,10 @@ function agentCautions(context: CautionContext): Caution[] {
     cautions.push({
       code: 'desflurane-no-avian-mac',
       severity: 'warning',
-      message: 'No MAC of desflurane in birds was found: the depth targets use a value that is an assumption; enter the clinic\'s own value if it has one',
-      reason: 'Desflurane in birds: none found in the reference list; the fallback is the human adult value (assumption)',
+      message:
+        "No MAC of desflurane in birds was found: the depth targets use a value that is an assumption; enter the clinic's own value if it has one",
+      reason:
+        'Desflurane in birds: none found in the reference list; the fallback is the human adult value (assumption)',
     });
   } else if (agent !== undefined && context.macIsPublishedForBird === false) {
     cautions.push({
@@ -162,12 +181,18 @@ function flowCautions(context: CautionContext): Caution[] {
   if (freshGasLpm === undefined) return cautions;
   const nonRebreathing = circuit === 'nonRebreathing' || route === 'airSacTube';
   // A circle's minimum is the practical floor, reported below; only a non-rebreathing system rebreathes.
-  if (nonRebreathing && route !== 'chamber' && minimumFreshGasLpm !== undefined && freshGasLpm < minimumFreshGasLpm) {
+  if (
+    nonRebreathing &&
+    route !== 'chamber' &&
+    minimumFreshGasLpm !== undefined &&
+    freshGasLpm < minimumFreshGasLpm
+  ) {
     cautions.push({
       code: 'flow-below-rebreathing-minimum',
       severity: 'danger',
       message: `Fresh gas ${format(freshGasLpm)} L/min is below the ${format(minimumFreshGasLpm)} L/min minimum: the non-rebreathing system will rebreathe exhaled gas (carbon dioxide)`,
-      reason: 'Non-rebreathing fresh gas flow 2-3 x minute ventilation (common practice); 500 mL/kg/min prevents rebreathing (Massey University, Mapleson D circuits)',
+      reason:
+        'Non-rebreathing fresh gas flow 2-3 x minute ventilation (common practice); 500 mL/kg/min prevents rebreathing (Massey University, Mapleson D circuits)',
     });
   }
   if (route === 'chamber' && minimumFreshGasLpm !== undefined && freshGasLpm < minimumFreshGasLpm) {
@@ -175,7 +200,8 @@ function flowCautions(context: CautionContext): Caution[] {
       code: 'chamber-flow-slow',
       severity: 'warning',
       message: `Chamber flow ${format(freshGasLpm)} L/min is below ${format(minimumFreshGasLpm)} L/min: the chamber takes more than 10 min to reach 95 % of the dial`,
-      reason: 'Time constant tau = volume / flow, 95 % after 3 tau (OpenAnesthesia, "Time constant"); 10 min limit (assumption)',
+      reason:
+        'Time constant tau = volume / flow, 95 % after 3 tau (OpenAnesthesia, "Time constant"); 10 min limit (assumption)',
     });
   }
   if (freshGasLpm > 0 && freshGasLpm < practicalFloorFlowLpm.value) {
@@ -191,7 +217,8 @@ function flowCautions(context: CautionContext): Caution[] {
 
 function circuitCautions(context: CautionContext): Caution[] {
   const { bodyMassG, circuit, route } = context;
-  if (bodyMassG === undefined || circuit === undefined || route === 'chamber' || route === 'airSacTube') return [];
+  if (bodyMassG === undefined || circuit === undefined || route === 'chamber' || route === 'airSacTube')
+    return [];
   if (circuit === 'nonRebreathing' && bodyMassG > circleAboveMassG.value) {
     return [
       {
@@ -243,7 +270,11 @@ function apnoeaCautions(context: CautionContext): Caution[] {
 
 function roomCautions(context: CautionContext): Caution[] {
   const cautions: Caution[] = [];
-  if (context.route === 'chamber' && context.chamberExposureMin !== undefined && context.chamberExposureMin > longChamberExposureMin.value) {
+  if (
+    context.route === 'chamber' &&
+    context.chamberExposureMin !== undefined &&
+    context.chamberExposureMin > longChamberExposureMin.value
+  ) {
     cautions.push({
       code: 'long-chamber-exposure',
       severity: 'warning',
@@ -256,13 +287,22 @@ function roomCautions(context: CautionContext): Caution[] {
       code: 'no-scavenging',
       severity: 'warning',
       message: 'No scavenging: the exhaust of the breathing system goes to the room',
-      reason: 'Mask induction without scavenging gave 11.2 ppm isoflurane at the anaesthetist, 2.0 ppm with a scavenging double mask (Friembichler et al. 2011, Acta Vet Scand 53:1); NIOSH 1977 2 ppm ceiling',
+      reason:
+        'Mask induction without scavenging gave 11.2 ppm isoflurane at the anaesthetist, 2.0 ppm with a scavenging double mask (Friembichler et al. 2011, Acta Vet Scand 53:1); NIOSH 1977 2 ppm ceiling',
     });
   }
   const hourMean = context.wasteGasHourMeanPpm;
   const peak = context.wasteGasPeakPpm;
-  if ((hourMean !== undefined && hourMean > nioshCeilingPpm.value) || (peak !== undefined && peak > nioshCeilingPpm.value)) {
-    const figures = [peak === undefined ? null : `peak ${format(peak, 1)} ppm`, hourMean === undefined ? null : `highest 1-h mean ${format(hourMean, 1)} ppm`].filter((text) => text !== null).join(', ');
+  if (
+    (hourMean !== undefined && hourMean > nioshCeilingPpm.value) ||
+    (peak !== undefined && peak > nioshCeilingPpm.value)
+  ) {
+    const figures = [
+      peak === undefined ? null : `peak ${format(peak, 1)} ppm`,
+      hourMean === undefined ? null : `highest 1-h mean ${format(hourMean, 1)} ppm`,
+    ]
+      .filter((text) => text !== null)
+      .join(', ');
     cautions.push({
       code: 'waste-gas-above-ceiling',
       severity: 'warning',
@@ -281,14 +321,17 @@ function airwayCautions(context: CautionContext): Caution[] {
         ? {
             code: 'cuff-inflated',
             severity: 'warning',
-            message: 'Tube cuff inflated: birds have complete tracheal rings and an inflated cuff can injure the tracheal mucosa; use an uncuffed tube or leave the cuff down',
-            reason: 'Complete tracheal rings: uncuffed tubes or cuff left down (Elliott 2014, WSAVA proceedings)',
+            message:
+              'Tube cuff inflated: birds have complete tracheal rings and an inflated cuff can injure the tracheal mucosa; use an uncuffed tube or leave the cuff down',
+            reason:
+              'Complete tracheal rings: uncuffed tubes or cuff left down (Elliott 2014, WSAVA proceedings)',
           }
         : {
             code: 'uncuffed-tube',
             severity: 'notice',
             message: 'Use an uncuffed tube or leave the cuff down: birds have complete tracheal rings',
-            reason: 'Complete tracheal rings: uncuffed tubes or cuff left down (Elliott 2014, WSAVA proceedings)',
+            reason:
+              'Complete tracheal rings: uncuffed tubes or cuff left down (Elliott 2014, WSAVA proceedings)',
           },
     );
   }
@@ -313,7 +356,12 @@ function airwayCautions(context: CautionContext): Caution[] {
   }
   for (const note of context.anatomyNotes ?? []) {
     if (note.code === 'complete-tracheal-rings') continue;
-    cautions.push({ code: `anatomy-${note.code}`, severity: 'notice', message: note.text, reason: note.basis });
+    cautions.push({
+      code: `anatomy-${note.code}`,
+      severity: 'notice',
+      message: note.text,
+      reason: note.basis,
+    });
   }
   return cautions;
 }
@@ -336,7 +384,9 @@ export function collectCautions(context: CautionContext): Caution[] {
   ];
   return all
     .map((caution, index) => ({ caution, index }))
-    .sort((a, b) => severityOrder[a.caution.severity] - severityOrder[b.caution.severity] || a.index - b.index)
+    .sort(
+      (a, b) => severityOrder[a.caution.severity] - severityOrder[b.caution.severity] || a.index - b.index,
+    )
     .map(({ caution }) => caution);
 }
 

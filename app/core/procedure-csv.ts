@@ -59,7 +59,11 @@ function minutesBetween(startIso: string, atIso: string): number {
  * CSV text for a procedure record. `title` lines (patient, species, procedure) come first as
  * comment-free key,value rows so the file stands on its own.
  */
-export function procedureCsv(input: { readonly startedAt: string; readonly title: readonly (readonly [string, string])[]; readonly entries: readonly CsvEntry[] }): string {
+export function procedureCsv(input: {
+  readonly startedAt: string;
+  readonly title: readonly (readonly [string, string])[];
+  readonly entries: readonly CsvEntry[];
+}): string {
   const lines: string[] = [];
   for (const [key, value] of input.title) lines.push(`${cell(key)},${cell(value)}`);
   lines.push('');

@@ -82,7 +82,12 @@ export const completeTrachealRingsNote: AnatomyNote = {
   kind: 'published',
 };
 
-function mass(minG: number, maxG: number, basis = typicalMassBasis, kind: BasisKind = 'common practice'): MassRange {
+function mass(
+  minG: number,
+  maxG: number,
+  basis = typicalMassBasis,
+  kind: BasisKind = 'common practice',
+): MassRange {
   return { minG, maxG, basis, kind };
 }
 
@@ -110,7 +115,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'budgerigar',
     commonName: 'Budgerigar',
     scientificName: 'Melopsittacus undulatus',
-    typicalMassG: mass(25, 60, 'Typical adult mass 25-35 g, exhibition birds 30-60 g (common practice, owner-facing sources)'),
+    typicalMassG: mass(
+      25,
+      60,
+      'Typical adult mass 25-35 g, exhibition birds 30-60 g (common practice, owner-facing sources)',
+    ),
     macByAgent: {},
     anatomyNotes: [completeTrachealRingsNote],
   },
@@ -118,7 +127,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'rosy-faced-lovebird',
     commonName: 'Rosy-faced lovebird',
     scientificName: 'Agapornis roseicollis',
-    typicalMassG: mass(45, 70, 'Typical adult mass of lovebirds, editable typical range (common practice, owner-facing sources)'),
+    typicalMassG: mass(
+      45,
+      70,
+      'Typical adult mass of lovebirds, editable typical range (common practice, owner-facing sources)',
+    ),
     macByAgent: {},
     anatomyNotes: [completeTrachealRingsNote],
   },
@@ -150,7 +163,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'blue-fronted-amazon',
     commonName: 'Blue-fronted Amazon',
     scientificName: 'Amazona aestiva',
-    typicalMassG: mass(300, 680, 'Typical adult mass of Amazon parrots, editable typical range (common practice, owner-facing sources)'),
+    typicalMassG: mass(
+      300,
+      680,
+      'Typical adult mass of Amazon parrots, editable typical range (common practice, owner-facing sources)',
+    ),
     macByAgent: {
       sevoflurane: {
         macPct: 2.4,
@@ -167,7 +184,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'blue-and-yellow-macaw',
     commonName: 'Blue-and-yellow macaw',
     scientificName: 'Ara ararauna',
-    typicalMassG: mass(900, 1600, 'Typical adult mass of macaws, editable typical range (common practice, owner-facing sources)'),
+    typicalMassG: mass(
+      900,
+      1600,
+      'Typical adult mass of macaws, editable typical range (common practice, owner-facing sources)',
+    ),
     macByAgent: {},
     anatomyNotes: [completeTrachealRingsNote],
   },
@@ -219,7 +240,13 @@ export const speciesReference: readonly SpeciesReference[] = [
     typicalMassG: mass(500, 4500, 'Typical adult mass, bantams to heavy breeds (from memory)', 'memory'),
     macByAgent: {
       isoflurane: { macPct: 1.18, sdPct: 0.09, measure: 'MAC', basis: midon2021, kind: 'published' },
-      sevoflurane: { macPct: 2.21, sdPct: 0.32, measure: 'MAC', basis: 'Naganobu et al. 2000, Vet Surg 29:102-105', kind: 'published' },
+      sevoflurane: {
+        macPct: 2.21,
+        sdPct: 0.32,
+        measure: 'MAC',
+        basis: 'Naganobu et al. 2000, Vet Surg 29:102-105',
+        kind: 'published',
+      },
     },
     apnoeaMacMultiple: {
       value: 3.31 / 1.18,
@@ -236,7 +263,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     macByAgent: {
       isoflurane: { macPct: 1.3, sdPct: 0.23, measure: 'MAC', basis: ludders1990, kind: 'published' },
     },
-    apnoeaMacMultiple: { value: 1.5, basis: `Apnoea common above 1.5 MAC isoflurane (${ludders1990})`, kind: 'published' },
+    apnoeaMacMultiple: {
+      value: 1.5,
+      basis: `Apnoea common above 1.5 MAC isoflurane (${ludders1990})`,
+      kind: 'published',
+    },
     anatomyNotes: [
       completeTrachealRingsNote,
       {
@@ -257,7 +288,11 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'red-tailed-hawk',
     commonName: 'Red-tailed hawk',
     scientificName: 'Buteo jamaicensis',
-    typicalMassG: mass(1100, 1600, 'Typical adult mass of study birds, editable typical range (common practice)'),
+    typicalMassG: mass(
+      1100,
+      1600,
+      'Typical adult mass of study birds, editable typical range (common practice)',
+    ),
     macByAgent: {},
     anatomyNotes: [completeTrachealRingsNote],
   },
@@ -275,7 +310,13 @@ export const speciesReference: readonly SpeciesReference[] = [
     scientificName: 'Antigone canadensis',
     typicalMassG: mass(3000, 6000, 'Typical adult mass (from memory)', 'memory'),
     macByAgent: {
-      isoflurane: { macPct: 1.34, sdPct: 0.14, measure: 'MAC', basis: 'Ludders et al. 1989', kind: 'published' },
+      isoflurane: {
+        macPct: 1.34,
+        sdPct: 0.14,
+        measure: 'MAC',
+        basis: 'Ludders et al. 1989',
+        kind: 'published',
+      },
     },
     anatomyNotes: [
       completeTrachealRingsNote,

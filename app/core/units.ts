@@ -183,7 +183,10 @@ export function barToPsi(pressureBar: number): number {
  * @param barometricMmHg total (barometric) pressure in mmHg, above 0; 760 at sea level
  * @returns partial pressure in mmHg
  */
-export function vaporPctToPartialPressureMmHg(concentrationPct: number, barometricMmHg = millimetresMercuryPerAtmosphere): number {
+export function vaporPctToPartialPressureMmHg(
+  concentrationPct: number,
+  barometricMmHg = millimetresMercuryPerAtmosphere,
+): number {
   return (concentrationPct / 100) * barometricMmHg;
 }
 
@@ -193,7 +196,10 @@ export function vaporPctToPartialPressureMmHg(concentrationPct: number, barometr
  * @param barometricMmHg total (barometric) pressure in mmHg, above 0; 760 at sea level
  * @returns concentration in vol %
  */
-export function partialPressureMmHgToVaporPct(partialPressureMmHg: number, barometricMmHg = millimetresMercuryPerAtmosphere): number {
+export function partialPressureMmHgToVaporPct(
+  partialPressureMmHg: number,
+  barometricMmHg = millimetresMercuryPerAtmosphere,
+): number {
   return (partialPressureMmHg / barometricMmHg) * 100;
 }
 
@@ -203,7 +209,10 @@ export function partialPressureMmHgToVaporPct(partialPressureMmHg: number, barom
  * @param barometricKpa total pressure in kPa, above 0; 101.325 at sea level
  * @returns partial pressure in kPa
  */
-export function vaporPctToPartialPressureKpa(concentrationPct: number, barometricKpa = kilopascalsPerAtmosphere): number {
+export function vaporPctToPartialPressureKpa(
+  concentrationPct: number,
+  barometricKpa = kilopascalsPerAtmosphere,
+): number {
   return (concentrationPct / 100) * barometricKpa;
 }
 
@@ -291,7 +300,9 @@ export function formatQuantity(value: number, unit: string, significantDigits = 
  * @param significantDigits 1 to 15, default 3
  */
 export function formatMass(massG: number, unit: MassUnit, significantDigits = 3): FormattedQuantity {
-  return unit === 'g' ? formatQuantity(massG, 'g', significantDigits) : formatQuantity(gToKg(massG), 'kg', significantDigits);
+  return unit === 'g'
+    ? formatQuantity(massG, 'g', significantDigits)
+    : formatQuantity(gToKg(massG), 'kg', significantDigits);
 }
 
 /**
@@ -300,8 +311,14 @@ export function formatMass(massG: number, unit: MassUnit, significantDigits = 3)
  * @param unit 'mmHg' or 'kPa'
  * @param significantDigits 1 to 15, default 3
  */
-export function formatPressure(pressureMmHg: number, unit: PressureUnit, significantDigits = 3): FormattedQuantity {
-  return unit === 'mmHg' ? formatQuantity(pressureMmHg, 'mmHg', significantDigits) : formatQuantity(mmHgToKpa(pressureMmHg), 'kPa', significantDigits);
+export function formatPressure(
+  pressureMmHg: number,
+  unit: PressureUnit,
+  significantDigits = 3,
+): FormattedQuantity {
+  return unit === 'mmHg'
+    ? formatQuantity(pressureMmHg, 'mmHg', significantDigits)
+    : formatQuantity(mmHgToKpa(pressureMmHg), 'kPa', significantDigits);
 }
 
 /**
@@ -311,7 +328,11 @@ export function formatPressure(pressureMmHg: number, unit: PressureUnit, signifi
  * @param unit 'C' or 'F'
  * @param decimals 0 to 3, default 1 (38.5 °C, 101.3 °F)
  */
-export function formatTemperature(temperatureC: number, unit: TemperatureUnit, decimals = 1): FormattedQuantity {
+export function formatTemperature(
+  temperatureC: number,
+  unit: TemperatureUnit,
+  decimals = 1,
+): FormattedQuantity {
   const value = unit === 'C' ? temperatureC : cToF(temperatureC);
   const unitText = unit === 'C' ? '°C' : '°F';
   if (!Number.isFinite(value)) return { value, unit: unitText, text: `- ${unitText}` };

@@ -8,7 +8,12 @@ export type WeightPoint = { readonly weighedOn: string; readonly massG: number }
 
 export type LossBand = 'no loss' | '<5 %' | '5-10 %' | '10-15 %' | '15-20 %' | '>20 %';
 
-export type WeightFlag = { readonly code: string; readonly severity: 'danger' | 'warning' | 'notice'; readonly message: string; readonly reason: string };
+export type WeightFlag = {
+  readonly code: string;
+  readonly severity: 'danger' | 'warning' | 'notice';
+  readonly message: string;
+  readonly reason: string;
+};
 
 export type WeightChange = { readonly grams: number; readonly percent: number; readonly lossBand: LossBand };
 
@@ -52,13 +57,17 @@ const bandSeverity: Readonly<Record<LossBand, WeightFlag['severity'] | null>> = 
  * Flags for one mass against a species' typical adult range (g). Returns an empty list when the
  * range is unknown.
  */
-export function massRangeFlags(massG: number, range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null): WeightFlag[] {
+export function massRangeFlags(
+  massG: number,
+  range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null,
+): WeightFlag[] {
   if (range === null) return [];
   const rangeText = `${range.minG}-${range.maxG} g`;
   if (massG > range.maxG * unitSlipFactor || massG < range.minG / unitSlipFactor) {
     const asKg = massG / 1000;
     const asG = massG * 1000;
-    const hint = massG < range.minG ? `Was ${massG} kg meant (${asG} g)?` : `Was ${asKg} kg entered as grams?`;
+    const hint =
+      massG < range.minG ? `Was ${massG} kg meant (${asG} g)?` : `Was ${asKg} kg entered as grams?`;
     return [
       {
         code: 'weight-unit-slip',
@@ -85,7 +94,10 @@ export function massRangeFlags(massG: number, range: { readonly minG: number; re
  * Trend of a bird's weights, given in any order (sorted here by date). Losses are flagged by
  * IVAPM band; the latest weight is checked against the species' typical range.
  */
-export function weightTrend(points: readonly WeightPoint[], range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null): WeightTrend {
+export function weightTrend(
+  points: readonly WeightPoint[],
+  range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null,
+): WeightTrend {
   const sorted = [...points].sort((a, b) => a.weighedOn.localeCompare(b.weighedOn));
   const latest = sorted.at(-1) ?? null;
   const previous = sorted.length >= 2 ? (sorted.at(-2) ?? null) : null;
@@ -93,7 +105,10 @@ export function weightTrend(points: readonly WeightPoint[], range: { readonly mi
   const sinceLast = latest !== null && previous !== null ? change(previous.massG, latest.massG) : null;
   const sinceFirst = latest !== null && first !== null ? change(first.massG, latest.massG) : null;
   const flags: WeightFlag[] = [];
-  for (const [label, value] of [['since the previous weight', sinceLast], ['since the first weight', sinceFirst]] as const) {
+  for (const [label, value] of [
+    ['since the previous weight', sinceLast],
+    ['since the first weight', sinceFirst],
+  ] as const) {
     // With two weights the previous one is the first: one flag says it all.
     if (value === null || (label === 'since the first weight' && sorted.length === 2)) continue;
     const severity = bandSeverity[value.lossBand];

@@ -58,7 +58,8 @@ export const monitoringIntervalMin = 5;
  * @returns volume in mL
  */
 export function drugVolumeMl(doseMgPerKg: number, bodyMassG: number, concentrationMgPerMl: number): number {
-  if (!(doseMgPerKg > 0) || !(bodyMassG > 0) || !(concentrationMgPerMl > 0)) throw new RangeError('dose, body mass and concentration must all be above 0');
+  if (!(doseMgPerKg > 0) || !(bodyMassG > 0) || !(concentrationMgPerMl > 0))
+    throw new RangeError('dose, body mass and concentration must all be above 0');
   const exact = (doseMgPerKg * gToKg(bodyMassG)) / concentrationMgPerMl;
   return Math.max(0.001, Number(roundToSignificant(exact, 3).toFixed(3)));
 }
@@ -83,7 +84,10 @@ function range(low: number, high: number | null, unit: string): string {
  */
 export function emergencyCard(drugs: readonly EmergencyDrugEntry[], bodyMassG: number): EmergencyCardLine[] {
   return drugs.map((drug) => {
-    const high = drug.doseHighMgPerKg !== null && drug.doseHighMgPerKg !== drug.doseLowMgPerKg ? drug.doseHighMgPerKg : null;
+    const high =
+      drug.doseHighMgPerKg !== null && drug.doseHighMgPerKg !== drug.doseLowMgPerKg
+        ? drug.doseHighMgPerKg
+        : null;
     const volumeLowMl = drugVolumeMl(drug.doseLowMgPerKg, bodyMassG, drug.concentrationMgPerMl);
     const volumeHighMl = high === null ? null : drugVolumeMl(high, bodyMassG, drug.concentrationMgPerMl);
     const doseLowMg = drugDoseMg(drug.doseLowMgPerKg, bodyMassG);
@@ -119,11 +123,24 @@ export type MonitoringRow = {
  * @param pressureUnit 'mmHg' or 'kPa' (EtCO2)
  */
 export function monitoringColumns(temperatureUnit: 'C' | 'F', pressureUnit: 'mmHg' | 'kPa'): string[] {
-  return ['Time (min)', 'Planned dial (%)', 'Dial (%)', 'O2 (L/min)', 'HR (/min)', 'RR (/min)', `Temp (°${temperatureUnit})`, `EtCO2 (${pressureUnit})`, 'Notes'];
+  return [
+    'Time (min)',
+    'Planned dial (%)',
+    'Dial (%)',
+    'O2 (L/min)',
+    'HR (/min)',
+    'RR (/min)',
+    `Temp (°${temperatureUnit})`,
+    `EtCO2 (${pressureUnit})`,
+    'Notes',
+  ];
 }
 
 /** Dial setting in force at a minute: the last step at or before it. */
-export function plannedVaporPctAt(schedule: readonly { readonly atMin: number; readonly vaporPct: number }[], timeMin: number): number {
+export function plannedVaporPctAt(
+  schedule: readonly { readonly atMin: number; readonly vaporPct: number }[],
+  timeMin: number,
+): number {
   let current = 0;
   for (const step of schedule) if (step.atMin <= timeMin) current = step.vaporPct;
   return current;
@@ -136,7 +153,11 @@ export function plannedVaporPctAt(schedule: readonly { readonly atMin: number; r
  * @param recoveryWindowMin minutes watched after that, 5-240
  * @param durationMin the plan's simulated duration, min
  */
-export function plannedEndMin(vaporiserOffMin: number | null, recoveryWindowMin: number, durationMin: number): number {
+export function plannedEndMin(
+  vaporiserOffMin: number | null,
+  recoveryWindowMin: number,
+  durationMin: number,
+): number {
   return vaporiserOffMin === null ? durationMin : vaporiserOffMin + recoveryWindowMin;
 }
 
@@ -146,10 +167,14 @@ export function plannedEndMin(vaporiserOffMin: number | null, recoveryWindowMin:
  * @param schedule the plan's vaporiser steps
  * @param endMin planned end, min, 0-1440
  */
-export function monitoringRows(schedule: readonly { readonly atMin: number; readonly vaporPct: number }[], endMin: number): MonitoringRow[] {
+export function monitoringRows(
+  schedule: readonly { readonly atMin: number; readonly vaporPct: number }[],
+  endMin: number,
+): MonitoringRow[] {
   const rows: MonitoringRow[] = [];
   const last = Math.ceil(Math.max(0, endMin) / monitoringIntervalMin) * monitoringIntervalMin;
-  for (let timeMin = 0; timeMin <= last; timeMin += monitoringIntervalMin) rows.push({ timeMin, plannedVaporPct: plannedVaporPctAt(schedule, timeMin) });
+  for (let timeMin = 0; timeMin <= last; timeMin += monitoringIntervalMin)
+    rows.push({ timeMin, plannedVaporPct: plannedVaporPctAt(schedule, timeMin) });
   return rows;
 }
 
@@ -180,7 +205,10 @@ export type ChecklistLine = { readonly label: string; readonly state: 'open' | '
  * @param asaGrade the grade, or null when not yet assessed
  */
 export function openChecklistItems(lines: readonly ChecklistLine[], asaGrade: number | null): string[] {
-  return [...(asaGrade === null ? ['ASA grade'] : []), ...lines.filter((line) => line.state === 'open').map((line) => line.label)];
+  return [
+    ...(asaGrade === null ? ['ASA grade'] : []),
+    ...lines.filter((line) => line.state === 'open').map((line) => line.label),
+  ];
 }
 
 /**
@@ -196,7 +224,10 @@ export function minutesText(valueMin: number | null): string {
  * @param valueMin central prediction, min, or null
  * @param spread 5th and 95th percentiles, min, or null when no uncertainty run
  */
-export function minutesWithRangeText(valueMin: number | null, spread: { readonly p5: number; readonly p95: number } | null): string {
+export function minutesWithRangeText(
+  valueMin: number | null,
+  spread: { readonly p5: number; readonly p95: number } | null,
+): string {
   const central = minutesText(valueMin);
   if (valueMin === null || spread === null) return central;
   return `${central} (5-95 % range ${String(formatQuantity(spread.p5, '', 2).value)}-${formatQuantity(spread.p95, 'min', 2).text})`;
@@ -244,8 +275,12 @@ export function brainBand(
   recovery: { readonly p5: number; readonly p50: number; readonly p95: number } | null,
 ): BrainBand | null {
   if (induction === null && recovery === null) return null;
-  const ratios = (spread: { readonly p5: number; readonly p50: number; readonly p95: number } | null): [number, number] =>
-    spread === null || !(spread.p5 > 0) || !(spread.p50 > 0) ? [1, 1] : [spread.p50 / spread.p5, spread.p50 / spread.p95];
+  const ratios = (
+    spread: { readonly p5: number; readonly p50: number; readonly p95: number } | null,
+  ): [number, number] =>
+    spread === null || !(spread.p5 > 0) || !(spread.p50 > 0)
+      ? [1, 1]
+      : [spread.p50 / spread.p5, spread.p50 / spread.p95];
   const [fastIn, slowIn] = ratios(induction);
   const [fastOut, slowOut] = ratios(recovery);
   const lowPct: number[] = [];
@@ -256,11 +291,16 @@ export function brainBand(
     if (offMin === null || time <= offMin) {
       // A faster induction must not borrow values from after the vaporiser is off.
       const limit = offMin ?? Number.POSITIVE_INFINITY;
-      candidates = [valueAt(timeMin, brainPct, Math.min(limit, time * fastIn)), valueAt(timeMin, brainPct, Math.min(limit, time * slowIn))];
-    }
-    else {
+      candidates = [
+        valueAt(timeMin, brainPct, Math.min(limit, time * fastIn)),
+        valueAt(timeMin, brainPct, Math.min(limit, time * slowIn)),
+      ];
+    } else {
       const since = time - offMin;
-      candidates = [valueAt(timeMin, brainPct, offMin + since * fastOut), valueAt(timeMin, brainPct, offMin + since * slowOut)];
+      candidates = [
+        valueAt(timeMin, brainPct, offMin + since * fastOut),
+        valueAt(timeMin, brainPct, offMin + since * slowOut),
+      ];
     }
     lowPct.push(Math.min(nominal, ...candidates));
     highPct.push(Math.max(nominal, ...candidates));
@@ -268,6 +308,7 @@ export function brainBand(
   return {
     lowPct,
     highPct,
-    method: 'Approximate band: the brain curve stretched in time by the 5-95 % range of the predicted induction and recovery times (assumption)',
+    method:
+      'Approximate band: the brain curve stretched in time by the 5-95 % range of the predicted induction and recovery times (assumption)',
   };
 }

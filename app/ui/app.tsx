@@ -28,7 +28,9 @@ function Failure({ message }: { readonly message: string }) {
   return (
     <main className="gate">
       <h1>Tidewing cannot start</h1>
-      <p className="form-error" role="alert">{message}</p>
+      <p className="form-error" role="alert">
+        {message}
+      </p>
     </main>
   );
 }
@@ -70,14 +72,19 @@ export function App() {
       </main>
     );
   }
-  if (!currentSafety.acknowledged) return <CautionsScreen status={currentSafety} onAcknowledged={setSafety} />;
+  if (!currentSafety.acknowledged)
+    return <CautionsScreen status={currentSafety} onAcknowledged={setSafety} />;
 
   const needsSetup = currentSettings.settings === null;
   const shown: Route = needsSetup ? { area: 'settings', segments: [] } : route;
   return (
     <OperatorProvider>
       <SettingsContext.Provider value={currentSettings.settings}>
-        <Shell current={shown.area} clinicName={currentSettings.settings?.clinicName ?? 'New clinic'} appVersion={currentSafety.appVersion}>
+        <Shell
+          current={shown.area}
+          clinicName={currentSettings.settings?.clinicName ?? 'New clinic'}
+          appVersion={currentSafety.appVersion}
+        >
           {shown.area === 'settings' ? (
             <SettingsScreen
               stored={currentSettings}

@@ -4,7 +4,8 @@ import { routeFromHash } from './shell/areas.js';
 import type { SheetProps } from './worksheets/sheet.js';
 
 /** What the printed worksheet needs, or why it cannot be drawn. */
-export type PrintData = { state: 'failed'; message: string } | { state: 'ready'; props: Omit<SheetProps, 'printedAt'> };
+export type PrintData =
+  { state: 'failed'; message: string } | { state: 'ready'; props: Omit<SheetProps, 'printedAt'> };
 
 async function ask<C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<ResponseOf<C>> {
   const answer = await api.invoke(channel, request);
@@ -21,7 +22,8 @@ export function planIdFromHash(hash: string): number | null {
 
 /** Asks for everything the sheet shows at once. */
 export async function loadPrintData(planId: number | null): Promise<PrintData> {
-  if (planId === null) return { state: 'failed', message: 'No plan named: the address must end in #/worksheets/<plan number>.' };
+  if (planId === null)
+    return { state: 'failed', message: 'No plan named: the address must end in #/worksheets/<plan number>.' };
   try {
     const [safety, stored, detail, drugs, info] = await Promise.all([
       ask('safety:status', {}),
@@ -30,9 +32,20 @@ export async function loadPrintData(planId: number | null): Promise<PrintData> {
       ask('drugs:list', {}),
       ask('app:info', {}),
     ]);
-    if (!safety.acknowledged) return { state: 'failed', message: `The cautions of Tidewing ${safety.appVersion} have not been acknowledged yet. Open the app, read and acknowledge them first.` };
-    if (stored.settings === null) return { state: 'failed', message: 'The clinic is not set up yet. Open the app and save Settings first.' };
-    return { state: 'ready', props: { detail, drugs, appVersion: info.appVersion, settings: stored.settings } };
+    if (!safety.acknowledged)
+      return {
+        state: 'failed',
+        message: `The cautions of Tidewing ${safety.appVersion} have not been acknowledged yet. Open the app, read and acknowledge them first.`,
+      };
+    if (stored.settings === null)
+      return {
+        state: 'failed',
+        message: 'The clinic is not set up yet. Open the app and save Settings first.',
+      };
+    return {
+      state: 'ready',
+      props: { detail, drugs, appVersion: info.appVersion, settings: stored.settings },
+    };
   } catch (error) {
     return { state: 'failed', message: error instanceof Error ? error.message : String(error) };
   }

@@ -5,6 +5,10 @@ import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
 /** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
-export const migrations: readonly Migration[] = [clinicSettingsMigration, clinicRecordsMigration, emergencyDrugsMigration];
+export const migrations: readonly Migration[] = [
+  clinicSettingsMigration,
+  clinicRecordsMigration,
+  emergencyDrugsMigration,
+];
 
 export const latestSchemaVersion = migrations.length;

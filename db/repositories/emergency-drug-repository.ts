@@ -42,7 +42,9 @@ export function createEmergencyDrugRepository(db: TidewingDatabase) {
      VALUES (@correctsId, @voided, @name, @concentrationMgPerMl, @doseLowMgPerKg, @doseHighMgPerKg, @route, @doseSource, @notes, @enteredAt, @enteredBy, @reason)`,
   );
   const byId = db.prepare<[number], DrugRow>('SELECT * FROM emergency_drugs WHERE id = ?');
-  const correctedBy = db.prepare<[number], { id: number }>('SELECT id FROM emergency_drugs WHERE corrects_id = ?');
+  const correctedBy = db.prepare<[number], { id: number }>(
+    'SELECT id FROM emergency_drugs WHERE corrects_id = ?',
+  );
   const listCurrent = db.prepare<[], DrugRow>(
     `SELECT * FROM emergency_drugs d WHERE voided = 0 AND NOT EXISTS (SELECT 1 FROM emergency_drugs later WHERE later.corrects_id = d.id)
      ORDER BY name COLLATE NOCASE, id`,
@@ -51,13 +53,26 @@ export function createEmergencyDrugRepository(db: TidewingDatabase) {
   function newestVersion(drugId: number): DrugRow | null {
     const row = byId.get(drugId);
     if (row === undefined) return null;
-    if (correctedBy.get(drugId) !== undefined) throw new DrugCorrectionError('That drug has already been changed since you opened it; open the list again and change its newest version.');
-    if (row.voided === 1) throw new DrugCorrectionError('That drug was removed from the list; add it again instead.');
+    if (correctedBy.get(drugId) !== undefined)
+      throw new DrugCorrectionError(
+        'That drug has already been changed since you opened it; open the list again and change its newest version.',
+      );
+    if (row.voided === 1)
+      throw new DrugCorrectionError('That drug was removed from the list; add it again instead.');
     return row;
   }
 
-  function write(values: EmergencyDrugValues, correctsId: number | null, voided: boolean, meta: Meta, at: Date): EmergencyDrug {
-    const id = Number(insert.run({ ...values, correctsId, voided: voided ? 1 : 0, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+  function write(
+    values: EmergencyDrugValues,
+    correctsId: number | null,
+    voided: boolean,
+    meta: Meta,
+    at: Date,
+  ): EmergencyDrug {
+    const id = Number(
+      insert.run({ ...values, correctsId, voided: voided ? 1 : 0, enteredAt: at.toISOString(), ...meta })
+        .lastInsertRowid,
+    );
     return rowToDrug(byId.get(id) as DrugRow);
   }
 

@@ -65,7 +65,17 @@ function rowToSummary(row: SummaryRow): PatientSummary {
 
 /** What the search index holds for a patient: every field staff search by. */
 function searchText(values: PatientValues, speciesName: string | null): string {
-  return [values.name, speciesName ?? '', values.speciesKey, values.ringId, values.microchipId, values.ownerReference, values.hatchDate ?? '', values.sex, values.notes]
+  return [
+    values.name,
+    speciesName ?? '',
+    values.speciesKey,
+    values.ringId,
+    values.microchipId,
+    values.ownerReference,
+    values.hatchDate ?? '',
+    values.sex,
+    values.notes,
+  ]
     .filter((part) => part !== '')
     .join(' \u2022 ');
 }
@@ -82,7 +92,9 @@ export function createPatientRepository(db: TidewingDatabase) {
     `INSERT INTO patient_versions (patient_id, corrects_id, name, species_key, sex, hatch_date, age_text, ring_id, microchip_id, owner_reference, notes, entered_at, entered_by, reason)
      VALUES (@patientId, @correctsId, @name, @speciesKey, @sex, @hatchDate, @ageText, @ringId, @microchipId, @ownerReference, @notes, @enteredAt, @enteredBy, @reason)`,
   );
-  const setCurrent = db.prepare('INSERT INTO patient_current (patient_id, version_id) VALUES (?, ?) ON CONFLICT (patient_id) DO UPDATE SET version_id = excluded.version_id');
+  const setCurrent = db.prepare(
+    'INSERT INTO patient_current (patient_id, version_id) VALUES (?, ?) ON CONFLICT (patient_id) DO UPDATE SET version_id = excluded.version_id',
+  );
   const deleteSearch = db.prepare('DELETE FROM patient_search WHERE rowid = ?');
   const insertSearch = db.prepare('INSERT INTO patient_search (rowid, search_text) VALUES (?, ?)');
   const speciesName = db.prepare<[string], { common_name: string }>(
@@ -91,7 +103,9 @@ export function createPatientRepository(db: TidewingDatabase) {
   const currentRow = db.prepare<[number], PatientVersionRow>(
     `SELECT v.*, p.created_at FROM patient_current c JOIN patient_versions v ON v.id = c.version_id JOIN patients p ON p.id = c.patient_id WHERE c.patient_id = ?`,
   );
-  const versionRow = db.prepare<[number], PatientVersionRow>('SELECT v.*, p.created_at FROM patient_versions v JOIN patients p ON p.id = v.patient_id WHERE v.id = ?');
+  const versionRow = db.prepare<[number], PatientVersionRow>(
+    'SELECT v.*, p.created_at FROM patient_versions v JOIN patients p ON p.id = v.patient_id WHERE v.id = ?',
+  );
 
   const summarySelect = `
     SELECT p.id, v.name, v.species_key, v.ring_id, v.microchip_id, v.owner_reference,
@@ -121,7 +135,10 @@ export function createPatientRepository(db: TidewingDatabase) {
     create(values: PatientValues, meta: Meta, at: Date): Patient {
       return db.transaction(() => {
         const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
-        const versionId = Number(insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+        const versionId = Number(
+          insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta })
+            .lastInsertRowid,
+        );
         setCurrent.run(patientId, versionId);
         index(patientId, values);
         return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
@@ -132,7 +149,15 @@ export function createPatientRepository(db: TidewingDatabase) {
       return db.transaction(() => {
         const current = currentRow.get(patientId);
         if (current === undefined) return null;
-        const versionId = Number(insertVersion.run({ ...values, patientId, correctsId: current.id, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+        const versionId = Number(
+          insertVersion.run({
+            ...values,
+            patientId,
+            correctsId: current.id,
+            enteredAt: at.toISOString(),
+            ...meta,
+          }).lastInsertRowid,
+        );
         setCurrent.run(patientId, versionId);
         index(patientId, values);
         return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
@@ -145,7 +170,9 @@ export function createPatientRepository(db: TidewingDatabase) {
     history(patientId: number): Patient[] {
       const row = currentRow.get(patientId);
       if (row === undefined) return [];
-      return chainIds(db, 'patient_versions', row.id).map((id) => rowToPatient(versionRow.get(id) as PatientVersionRow));
+      return chainIds(db, 'patient_versions', row.id).map((id) =>
+        rowToPatient(versionRow.get(id) as PatientVersionRow),
+      );
     },
     /**
      * Finds patients by name or ID, species, ring, microchip, owner reference, hatch date or notes.
@@ -155,7 +182,9 @@ export function createPatientRepository(db: TidewingDatabase) {
       const trimmed = query.trim();
       if (trimmed === '') return recent.all(limit).map(rowToSummary);
       if ([...trimmed].length >= 3) return searchFts.all(ftsPhrase(trimmed), limit).map(rowToSummary);
-      return searchShort.all(`%${trimmed.replace(/[\\%_]/g, (match) => `\\${match}`)}%`, limit).map(rowToSummary);
+      return searchShort
+        .all(`%${trimmed.replace(/[\\%_]/g, (match) => `\\${match}`)}%`, limit)
+        .map(rowToSummary);
     },
     count(): number {
       return count.get()?.total ?? 0;

@@ -50,11 +50,19 @@ export function createPlanRepository(db: TidewingDatabase) {
      VALUES (@patientId, @correctsId, @plannedFor, @label, @inputJson, @resultJson, @checklistJson, @modelVersion, @enteredAt, @enteredBy, @reason)`,
   );
   const byId = db.prepare<[number], PlanRow>('SELECT * FROM plans WHERE id = ?');
-  const isCorrected = db.prepare<[number], { found: number }>('SELECT 1 AS found FROM plans WHERE corrects_id = ?');
+  const isCorrected = db.prepare<[number], { found: number }>(
+    'SELECT 1 AS found FROM plans WHERE corrects_id = ?',
+  );
   const currentCondition = 'NOT EXISTS (SELECT 1 FROM plans later WHERE later.corrects_id = p.id)';
-  const forPatient = db.prepare<[number], PlanRow>(`SELECT * FROM plans p WHERE patient_id = ? AND ${currentCondition} ORDER BY planned_for DESC, id DESC`);
-  const forDay = db.prepare<[string], PlanRow>(`SELECT * FROM plans p WHERE planned_for = ? AND ${currentCondition} ORDER BY id`);
-  const recent = db.prepare<[number], PlanRow>(`SELECT * FROM plans p WHERE ${currentCondition} ORDER BY planned_for DESC, id DESC LIMIT ?`);
+  const forPatient = db.prepare<[number], PlanRow>(
+    `SELECT * FROM plans p WHERE patient_id = ? AND ${currentCondition} ORDER BY planned_for DESC, id DESC`,
+  );
+  const forDay = db.prepare<[string], PlanRow>(
+    `SELECT * FROM plans p WHERE planned_for = ? AND ${currentCondition} ORDER BY id`,
+  );
+  const recent = db.prepare<[number], PlanRow>(
+    `SELECT * FROM plans p WHERE ${currentCondition} ORDER BY planned_for DESC, id DESC LIMIT ?`,
+  );
 
   function write(plan: PlanToStore, correctsId: number | null, meta: Meta, at: Date): SavedPlan {
     const id = Number(

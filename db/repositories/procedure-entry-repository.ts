@@ -57,7 +57,9 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
        @temperatureC, @etco2Mmhg, @spo2Pct, @eventType, @eventNote, @drugName, @drugDose, @enteredAt, @enteredBy, @reason)`,
   );
   const byId = db.prepare<[number], EntryRow>('SELECT * FROM procedure_entries WHERE id = ?');
-  const corrected = db.prepare<[number], { found: number }>('SELECT 1 AS found FROM procedure_entries WHERE corrects_id = ?');
+  const corrected = db.prepare<[number], { found: number }>(
+    'SELECT 1 AS found FROM procedure_entries WHERE corrects_id = ?',
+  );
   const listCurrent = db.prepare<[number], EntryRow>(
     `SELECT * FROM procedure_entries e WHERE record_id = ? AND voided = 0 AND NOT EXISTS (SELECT 1 FROM procedure_entries later WHERE later.corrects_id = e.id)
      ORDER BY at, id`,
@@ -69,12 +71,29 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
   function newest(entryId: number): EntryRow | null {
     const row = byId.get(entryId);
     if (row === undefined) return null;
-    if (corrected.get(entryId) !== undefined) throw new EntryCorrectionError('That entry has already been corrected; correct its newest version.');
+    if (corrected.get(entryId) !== undefined)
+      throw new EntryCorrectionError('That entry has already been corrected; correct its newest version.');
     return row;
   }
 
-  function write(recordId: number, correctsId: number | null, voided: boolean, values: ProcedureEntryValues, meta: Meta, at: Date): ProcedureEntry {
-    const id = Number(insert.run({ ...values, recordId, correctsId, voided: voided ? 1 : 0, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+  function write(
+    recordId: number,
+    correctsId: number | null,
+    voided: boolean,
+    values: ProcedureEntryValues,
+    meta: Meta,
+    at: Date,
+  ): ProcedureEntry {
+    const id = Number(
+      insert.run({
+        ...values,
+        recordId,
+        correctsId,
+        voided: voided ? 1 : 0,
+        enteredAt: at.toISOString(),
+        ...meta,
+      }).lastInsertRowid,
+    );
     return rowToEntry(byId.get(id) as EntryRow);
   }
 
@@ -92,13 +111,20 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
     void(entryId: number, meta: Meta, at: Date): ProcedureEntry | null {
       return db.transaction(() => {
         const previous = newest(entryId);
-        return previous === null ? null : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
+        return previous === null
+          ? null
+          : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
       })();
     },
     /** Current entries of a record in time order, each flagged when it has earlier versions. */
     list(recordId: number): (ProcedureEntry & { corrected: boolean })[] {
       const withHistory = new Set(correctedIds.all(recordId).map((row) => row.id));
-      return listCurrent.all(recordId).map((row) => ({ ...rowToEntry(row), corrected: row.corrects_id !== null && withHistory.has(row.corrects_id) }));
+      return listCurrent
+        .all(recordId)
+        .map((row) => ({
+          ...rowToEntry(row),
+          corrected: row.corrects_id !== null && withHistory.has(row.corrects_id),
+        }));
     },
     history(entryId: number): ProcedureEntry[] {
       return chainIds(db, 'procedure_entries', entryId).map((id) => rowToEntry(byId.get(id) as EntryRow));

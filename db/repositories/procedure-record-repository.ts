@@ -69,8 +69,21 @@ export function createProcedureRecordRepository(db: TidewingDatabase) {
     `${select} WHERE NOT EXISTS (SELECT 1 FROM procedure_record_versions later WHERE later.corrects_id = v.id) ORDER BY v.started_at DESC, v.record_id DESC LIMIT ?`,
   );
 
-  function parameters(recordId: number, correctsId: number | null, values: ProcedureRecordValues, meta: Meta, at: Date) {
-    return { ...values, emergency: values.emergency ? 1 : 0, recordId, correctsId, enteredAt: at.toISOString(), ...meta };
+  function parameters(
+    recordId: number,
+    correctsId: number | null,
+    values: ProcedureRecordValues,
+    meta: Meta,
+    at: Date,
+  ) {
+    return {
+      ...values,
+      emergency: values.emergency ? 1 : 0,
+      recordId,
+      correctsId,
+      enteredAt: at.toISOString(),
+      ...meta,
+    };
   }
 
   return {
@@ -103,7 +116,9 @@ export function createProcedureRecordRepository(db: TidewingDatabase) {
     history(recordId: number): ProcedureRecord[] {
       const row = current.get(recordId);
       if (row === undefined) return [];
-      return chainIds(db, 'procedure_record_versions', row.id).map((id) => rowToRecord(byVersion.get(id) as RecordVersionRow));
+      return chainIds(db, 'procedure_record_versions', row.id).map((id) =>
+        rowToRecord(byVersion.get(id) as RecordVersionRow),
+      );
     },
   };
 }

@@ -12,12 +12,20 @@ export function createSafetyAcknowledgementRepository(db: TidewingDatabase) {
   const forVersion = db.prepare<[string], { count: number }>(
     'SELECT count(*) AS count FROM safety_acknowledgements WHERE app_version = ?',
   );
-  const insert = db.prepare('INSERT INTO safety_acknowledgements (acknowledged_at, app_version, acknowledged_by) VALUES (?, ?, ?)');
+  const insert = db.prepare(
+    'INSERT INTO safety_acknowledgements (acknowledged_at, app_version, acknowledged_by) VALUES (?, ?, ?)',
+  );
 
   return {
     latest(): SafetyAcknowledgement | null {
       const row = latest.get();
-      return row === undefined ? null : { acknowledgedAt: row.acknowledged_at, appVersion: row.app_version, acknowledgedBy: row.acknowledged_by };
+      return row === undefined
+        ? null
+        : {
+            acknowledgedAt: row.acknowledged_at,
+            appVersion: row.app_version,
+            acknowledgedBy: row.acknowledged_by,
+          };
     },
     isAcknowledged(appVersion: string): boolean {
       return (forVersion.get(appVersion)?.count ?? 0) > 0;

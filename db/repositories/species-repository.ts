@@ -55,10 +55,27 @@ function rowToSpecies(row: SpeciesRow): Species {
       massMinG: row.mass_min_g,
       massMaxG: row.mass_max_g,
       massBasis: row.mass_basis,
-      heartRate: row.heart_rate_min_per_min === null ? null : { min: row.heart_rate_min_per_min, max: row.heart_rate_max_per_min ?? row.heart_rate_min_per_min, basis: row.heart_rate_basis ?? '' },
-      breathsPerMin: row.breaths_min_per_min === null ? null : { min: row.breaths_min_per_min, max: row.breaths_max_per_min ?? row.breaths_min_per_min, basis: row.breaths_basis ?? '' },
+      heartRate:
+        row.heart_rate_min_per_min === null
+          ? null
+          : {
+              min: row.heart_rate_min_per_min,
+              max: row.heart_rate_max_per_min ?? row.heart_rate_min_per_min,
+              basis: row.heart_rate_basis ?? '',
+            },
+      breathsPerMin:
+        row.breaths_min_per_min === null
+          ? null
+          : {
+              min: row.breaths_min_per_min,
+              max: row.breaths_max_per_min ?? row.breaths_min_per_min,
+              basis: row.breaths_basis ?? '',
+            },
       mac,
-      apnoeaMacMultiple: row.apnoea_mac_multiple === null ? null : { value: row.apnoea_mac_multiple, basis: row.apnoea_basis ?? '' },
+      apnoeaMacMultiple:
+        row.apnoea_mac_multiple === null
+          ? null
+          : { value: row.apnoea_mac_multiple, basis: row.apnoea_basis ?? '' },
       anatomyNotes: JSON.parse(row.anatomy_notes_json) as SpeciesValues['anatomyNotes'],
     },
     stamp: stampOf(row),
@@ -102,7 +119,13 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
         agent,
         value === undefined
           ? null
-          : { macPct: value.macPct, sdPct: value.sdPct ?? null, measure: value.measure, basis: `${value.basis} [${value.kind}]`, note: value.note ?? null },
+          : {
+              macPct: value.macPct,
+              sdPct: value.sdPct ?? null,
+              measure: value.measure,
+              basis: `${value.basis} [${value.kind}]`,
+              note: value.note ?? null,
+            },
       ];
     }),
   ) as SpeciesValues['mac'];
@@ -112,41 +135,106 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
     massMinG: reference.typicalMassG.minG,
     massMaxG: reference.typicalMassG.maxG,
     massBasis: `${reference.typicalMassG.basis} [${reference.typicalMassG.kind}]`,
-    heartRate: reference.restingHeartRatePerMin === undefined ? null : { min: reference.restingHeartRatePerMin.minPerMin, max: reference.restingHeartRatePerMin.maxPerMin, basis: `${reference.restingHeartRatePerMin.basis} [${reference.restingHeartRatePerMin.kind}]` },
-    breathsPerMin: reference.restingBreathsPerMin === undefined ? null : { min: reference.restingBreathsPerMin.minPerMin, max: reference.restingBreathsPerMin.maxPerMin, basis: `${reference.restingBreathsPerMin.basis} [${reference.restingBreathsPerMin.kind}]` },
+    heartRate:
+      reference.restingHeartRatePerMin === undefined
+        ? null
+        : {
+            min: reference.restingHeartRatePerMin.minPerMin,
+            max: reference.restingHeartRatePerMin.maxPerMin,
+            basis: `${reference.restingHeartRatePerMin.basis} [${reference.restingHeartRatePerMin.kind}]`,
+          },
+    breathsPerMin:
+      reference.restingBreathsPerMin === undefined
+        ? null
+        : {
+            min: reference.restingBreathsPerMin.minPerMin,
+            max: reference.restingBreathsPerMin.maxPerMin,
+            basis: `${reference.restingBreathsPerMin.basis} [${reference.restingBreathsPerMin.kind}]`,
+          },
     mac,
-    apnoeaMacMultiple: reference.apnoeaMacMultiple === undefined ? null : { value: reference.apnoeaMacMultiple.value, basis: `${reference.apnoeaMacMultiple.basis} [${reference.apnoeaMacMultiple.kind}]` },
-    anatomyNotes: reference.anatomyNotes.map((note) => ({ code: note.code, text: note.text, basis: `${note.basis} [${note.kind}]` })),
+    apnoeaMacMultiple:
+      reference.apnoeaMacMultiple === undefined
+        ? null
+        : {
+            value: reference.apnoeaMacMultiple.value,
+            basis: `${reference.apnoeaMacMultiple.basis} [${reference.apnoeaMacMultiple.kind}]`,
+          },
+    anatomyNotes: reference.anatomyNotes.map((note) => ({
+      code: note.code,
+      text: note.text,
+      basis: `${note.basis} [${note.kind}]`,
+    })),
   };
 }
 
 const columns = [
-  'common_name', 'scientific_name', 'mass_min_g', 'mass_max_g', 'mass_basis', 'heart_rate_min_per_min', 'heart_rate_max_per_min',
-  'heart_rate_basis', 'breaths_min_per_min', 'breaths_max_per_min', 'breaths_basis', 'apnoea_mac_multiple', 'apnoea_basis', 'anatomy_notes_json',
-  ...macAgents.flatMap((agent) => ['pct', 'sd_pct', 'measure', 'basis', 'note'].map((part) => `mac_${agent}_${part}`)),
+  'common_name',
+  'scientific_name',
+  'mass_min_g',
+  'mass_max_g',
+  'mass_basis',
+  'heart_rate_min_per_min',
+  'heart_rate_max_per_min',
+  'heart_rate_basis',
+  'breaths_min_per_min',
+  'breaths_max_per_min',
+  'breaths_basis',
+  'apnoea_mac_multiple',
+  'apnoea_basis',
+  'anatomy_notes_json',
+  ...macAgents.flatMap((agent) =>
+    ['pct', 'sd_pct', 'measure', 'basis', 'note'].map((part) => `mac_${agent}_${part}`),
+  ),
 ];
 
 /** All SQL for the species table. Edits add a version; the old value and its source stay. */
 export function createSpeciesRepository(db: TidewingDatabase) {
   const currentCondition = 'NOT EXISTS (SELECT 1 FROM species later WHERE later.corrects_id = s.id)';
-  const listCurrent = db.prepare<[], SpeciesRow>(`SELECT * FROM species s WHERE ${currentCondition} ORDER BY common_name COLLATE NOCASE`);
-  const getCurrent = db.prepare<[string], SpeciesRow>(`SELECT * FROM species s WHERE species_key = ? AND ${currentCondition}`);
+  const listCurrent = db.prepare<[], SpeciesRow>(
+    `SELECT * FROM species s WHERE ${currentCondition} ORDER BY common_name COLLATE NOCASE`,
+  );
+  const getCurrent = db.prepare<[string], SpeciesRow>(
+    `SELECT * FROM species s WHERE species_key = ? AND ${currentCondition}`,
+  );
   const getById = db.prepare<[number], SpeciesRow>('SELECT * FROM species WHERE id = ?');
-  const keyExists = db.prepare<[string], { found: number }>('SELECT 1 AS found FROM species WHERE species_key = ? LIMIT 1');
+  const keyExists = db.prepare<[string], { found: number }>(
+    'SELECT 1 AS found FROM species WHERE species_key = ? LIMIT 1',
+  );
   const insert = db.prepare(
     `INSERT INTO species (species_key, corrects_id, origin, ${columns.join(', ')}, entered_at, entered_by, reason)
      VALUES (@species_key, @corrects_id, @origin, ${columns.map((column) => `@${column}`).join(', ')}, @entered_at, @entered_by, @reason)`,
   );
 
-  function write(key: string, origin: 'reference' | 'clinic', correctsId: number | null, values: SpeciesValues, meta: Meta, at: Date): Species {
-    const result = insert.run({ ...valuesToParameters(values), species_key: key, corrects_id: correctsId, origin, entered_at: at.toISOString(), entered_by: meta.enteredBy, reason: meta.reason });
+  function write(
+    key: string,
+    origin: 'reference' | 'clinic',
+    correctsId: number | null,
+    values: SpeciesValues,
+    meta: Meta,
+    at: Date,
+  ): Species {
+    const result = insert.run({
+      ...valuesToParameters(values),
+      species_key: key,
+      corrects_id: correctsId,
+      origin,
+      entered_at: at.toISOString(),
+      entered_by: meta.enteredBy,
+      reason: meta.reason,
+    });
     const row = getById.get(Number(result.lastInsertRowid));
     if (row === undefined) throw new Error('Species row vanished after insert');
     return rowToSpecies(row);
   }
 
   function uniqueKey(commonName: string): string {
-    const base = commonName.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 50) || 'species';
+    const base =
+      commonName
+        .toLowerCase()
+        .normalize('NFKD')
+        .replace(/[^a-z0-9]+/g, '-')
+        .replace(/^-+|-+$/g, '')
+        .slice(0, 50) || 'species';
     let key = base;
     for (let suffix = 2; keyExists.get(key) !== undefined; suffix += 1) key = `${base}-${suffix}`;
     return key;
@@ -183,7 +271,17 @@ export function createSpeciesRepository(db: TidewingDatabase) {
         let added = 0;
         for (const entry of reference) {
           if (keyExists.get(entry.id) !== undefined) continue;
-          write(entry.id, 'reference', null, referenceToValues(entry), { enteredBy: 'Tidewing species reference', reason: 'Seeded from the species reference shipped with Tidewing' }, at);
+          write(
+            entry.id,
+            'reference',
+            null,
+            referenceToValues(entry),
+            {
+              enteredBy: 'Tidewing species reference',
+              reason: 'Seeded from the species reference shipped with Tidewing',
+            },
+            at,
+          );
           added += 1;
         }
         return added;

@@ -5,7 +5,8 @@ import type { TidewingDatabase } from '../connection.js';
  * it replaces. These helpers read such chains for any record table; the table name is ours,
  * never user input.
  */
-export type ChainTable = 'species' | 'patient_versions' | 'weights' | 'plans' | 'procedure_record_versions' | 'procedure_entries';
+export type ChainTable =
+  'species' | 'patient_versions' | 'weights' | 'plans' | 'procedure_record_versions' | 'procedure_entries';
 
 /** Id of the newest row in the chain that contains `id` (the row no other row corrects). */
 export function currentIdInChain(db: TidewingDatabase, table: ChainTable, id: number): number | null {
@@ -43,9 +44,21 @@ export function chainIds(db: TidewingDatabase, table: ChainTable, id: number): n
   return rows.map((row) => row.id);
 }
 
-export type StampRow = { id: number; entered_at: string; entered_by: string; reason: string; corrects_id: number | null };
+export type StampRow = {
+  id: number;
+  entered_at: string;
+  entered_by: string;
+  reason: string;
+  corrects_id: number | null;
+};
 
 /** The provenance part of a row, as the contract's `recordStamp`. */
 export function stampOf(row: StampRow) {
-  return { versionId: row.id, enteredAt: row.entered_at, enteredBy: row.entered_by, reason: row.reason, correctsId: row.corrects_id };
+  return {
+    versionId: row.id,
+    enteredAt: row.entered_at,
+    enteredBy: row.entered_by,
+    reason: row.reason,
+    correctsId: row.corrects_id,
+  };
 }

@@ -18,7 +18,12 @@ function rowToWeight(row: WeightRow): Weight {
     id: row.id,
     patientId: row.patient_id,
     voided: row.voided === 1,
-    values: { weighedOn: row.weighed_on, massG: row.mass_g, bodyCondition: row.body_condition, weighedBy: row.weighed_by },
+    values: {
+      weighedOn: row.weighed_on,
+      massG: row.mass_g,
+      bodyCondition: row.body_condition,
+      weighedBy: row.weighed_by,
+    },
     stamp: stampOf(row),
   };
 }
@@ -30,7 +35,9 @@ export function createWeightRepository(db: TidewingDatabase) {
      VALUES (@patientId, @correctsId, @voided, @weighedOn, @massG, @bodyCondition, @weighedBy, @enteredAt, @enteredBy, @reason)`,
   );
   const byId = db.prepare<[number], WeightRow>('SELECT * FROM weights WHERE id = ?');
-  const isCurrent = db.prepare<[number], { found: number }>('SELECT 1 AS found FROM weights WHERE corrects_id = ?');
+  const isCurrent = db.prepare<[number], { found: number }>(
+    'SELECT 1 AS found FROM weights WHERE corrects_id = ?',
+  );
   const listCurrent = db.prepare<[number], WeightRow>(
     `SELECT * FROM weights w WHERE patient_id = ? AND voided = 0 AND NOT EXISTS (SELECT 1 FROM weights later WHERE later.corrects_id = w.id)
      ORDER BY weighed_on, id`,
@@ -39,20 +46,39 @@ export function createWeightRepository(db: TidewingDatabase) {
   function latestVersion(weightId: number): WeightRow | null {
     const row = byId.get(weightId);
     if (row === undefined) return null;
-    if (isCurrent.get(weightId) !== undefined) throw new WeightCorrectionError('That weight has already been corrected; correct its newest version.');
+    if (isCurrent.get(weightId) !== undefined)
+      throw new WeightCorrectionError('That weight has already been corrected; correct its newest version.');
     return row;
   }
 
   return {
     add(patientId: number, values: WeightValues, meta: Meta, at: Date): Weight {
-      const id = Number(insert.run({ ...values, patientId, correctsId: null, voided: 0, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+      const id = Number(
+        insert.run({
+          ...values,
+          patientId,
+          correctsId: null,
+          voided: 0,
+          enteredAt: at.toISOString(),
+          ...meta,
+        }).lastInsertRowid,
+      );
       return rowToWeight(byId.get(id) as WeightRow);
     },
     correct(weightId: number, values: WeightValues, meta: Meta, at: Date): Weight | null {
       return db.transaction(() => {
         const previous = latestVersion(weightId);
         if (previous === null) return null;
-        const id = Number(insert.run({ ...values, patientId: previous.patient_id, correctsId: previous.id, voided: 0, enteredAt: at.toISOString(), ...meta }).lastInsertRowid);
+        const id = Number(
+          insert.run({
+            ...values,
+            patientId: previous.patient_id,
+            correctsId: previous.id,
+            voided: 0,
+            enteredAt: at.toISOString(),
+            ...meta,
+          }).lastInsertRowid,
+        );
         return rowToWeight(byId.get(id) as WeightRow);
       })();
     },

@@ -15,7 +15,13 @@ export type AutomaticBackupOptions = {
 };
 
 export type AutomaticBackupResult =
-  | { readonly status: 'made'; readonly file: string; readonly sizeBytes: number; readonly removed: readonly string[]; readonly message: string }
+  | {
+      readonly status: 'made';
+      readonly file: string;
+      readonly sizeBytes: number;
+      readonly removed: readonly string[];
+      readonly message: string;
+    }
   | { readonly status: 'skipped'; readonly message: string }
   | { readonly status: 'failed'; readonly message: string };
 
@@ -32,9 +38,12 @@ export function backupFolder(dataDirectory: string): string {
  * and never deletes an older backup unless the new one was made and passed its check. Uses
  * SQLite's quick_check on the copy, to keep start-up fast.
  */
-export async function automaticBackupOnStart(options: AutomaticBackupOptions): Promise<AutomaticBackupResult> {
+export async function automaticBackupOnStart(
+  options: AutomaticBackupOptions,
+): Promise<AutomaticBackupResult> {
   try {
-    if (!fs.existsSync(options.databaseFile)) return { status: 'skipped', message: 'No database yet, so no automatic backup.' };
+    if (!fs.existsSync(options.databaseFile))
+      return { status: 'skipped', message: 'No database yet, so no automatic backup.' };
     const made = await rollingBackup({
       databaseFile: options.databaseFile,
       ...(options.connection === undefined ? {} : { connection: options.connection }),
@@ -52,6 +61,9 @@ export async function automaticBackupOnStart(options: AutomaticBackupOptions): P
       message: `Automatic backup: ${made.file}${made.removed.length > 0 ? ` (removed ${made.removed.length} older)` : ''}.`,
     };
   } catch (error) {
-    return { status: 'failed', message: `Automatic backup failed: ${error instanceof Error ? error.message : String(error)}` };
+    return {
+      status: 'failed',
+      message: `Automatic backup failed: ${error instanceof Error ? error.message : String(error)}`,
+    };
   }
 }

@@ -42,7 +42,12 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   });
   const backupSettled =
     options.automaticBackup === true
-      ? automaticBackupOnStart({ dataDirectory: options.dataDirectory, databaseFile: file, connection: db, now: now() }).then((result) => {
+      ? automaticBackupOnStart({
+          dataDirectory: options.dataDirectory,
+          databaseFile: file,
+          connection: db,
+          now: now(),
+        }).then((result) => {
           options.log?.(result.message);
           return result.message;
         })

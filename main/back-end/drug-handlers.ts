@@ -1,7 +1,10 @@
 import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { drugChannels } from '../../app/contract/drug-channels.js';
 import type { TidewingDatabase } from '../../db/connection.js';
-import { createEmergencyDrugRepository, DrugCorrectionError } from '../../db/repositories/emergency-drug-repository.js';
+import {
+  createEmergencyDrugRepository,
+  DrugCorrectionError,
+} from '../../db/repositories/emergency-drug-repository.js';
 import { RecordError } from './record-handlers.js';
 
 type DrugChannel = keyof typeof drugChannels;
@@ -15,7 +18,11 @@ function checked<T>(write: () => T | null, id: number): T {
     if (error instanceof DrugCorrectionError) throw new RecordError('conflict', error.message);
     throw error;
   }
-  if (written === null) throw new RecordError('not-found', `Emergency drug ${id} was not found; it may have been opened from an old list.`);
+  if (written === null)
+    throw new RecordError(
+      'not-found',
+      `Emergency drug ${id} was not found; it may have been opened from an old list.`,
+    );
   return written;
 }
 
@@ -25,7 +32,8 @@ export function createDrugHandlers(db: TidewingDatabase, now: () => Date): DrugH
   return {
     'drugs:list': () => drugs.list(),
     'drugs:add': (request) => drugs.add(request.values, request.meta, now()),
-    'drugs:correct': (request) => checked(() => drugs.correct(request.id, request.values, request.meta, now()), request.id),
+    'drugs:correct': (request) =>
+      checked(() => drugs.correct(request.id, request.values, request.meta, now()), request.id),
     'drugs:void': (request) => checked(() => drugs.void(request.id, request.meta, now()), request.id),
   };
 }

@@ -1,5 +1,11 @@
 import { z } from 'zod';
-import { channels, isChannelName, type ChannelName, type ParsedRequestOf, type ResponseOf } from '../../app/contract/channels.js';
+import {
+  channels,
+  isChannelName,
+  type ChannelName,
+  type ParsedRequestOf,
+  type ResponseOf,
+} from '../../app/contract/channels.js';
 import { describeIssues, type ContractError, type Result } from '../../app/contract/result.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { schemaVersion } from '../../db/connection.js';
@@ -21,7 +27,9 @@ export type HandlerContext = {
   readonly now: () => Date;
 };
 
-type HandlerTable = { [C in ChannelName]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>> };
+type HandlerTable = {
+  [C in ChannelName]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 
 /** A failure a handler reports on purpose, with the field to blame when there is one. */
 export class HandlerError extends Error {
@@ -61,11 +69,21 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     'database:export-json': () => {
       const at = context.now();
       const exported = exportDatabaseJson(context.db, { appVersion: context.appVersion, exportedAt: at });
-      return { fileName: `tidewing-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`, json: JSON.stringify(exported, null, 2) };
+      return {
+        fileName: `tidewing-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`,
+        json: JSON.stringify(exported, null, 2),
+      };
     },
     'database:backups': () => {
       const folder = backupFolder(context.dataDirectory);
-      return { folder, backups: listBackups(folder).map((backup) => ({ file: backup.file, takenAt: backup.takenAt, sizeBytes: backup.sizeBytes })) };
+      return {
+        folder,
+        backups: listBackups(folder).map((backup) => ({
+          file: backup.file,
+          takenAt: backup.takenAt,
+          sizeBytes: backup.sizeBytes,
+        })),
+      };
     },
     ...createRecordHandlers(context.db, context.now),
     ...createPlanHandlers(context.db, context.now),
@@ -79,10 +97,16 @@ export type Dispatcher = (channel: unknown, payload: unknown) => Promise<Result<
  * Validates the channel and payload, runs the handler and validates its answer.
  * Never throws: every failure becomes `{ ok: false, error }`.
  */
-export function createDispatcher(handlers: HandlerTable, log: (message: string) => void = () => undefined): Dispatcher {
+export function createDispatcher(
+  handlers: HandlerTable,
+  log: (message: string) => void = () => undefined,
+): Dispatcher {
   return async (channel, payload) => {
     if (!isChannelName(channel)) {
-      return { ok: false, error: { code: 'unknown-channel', message: `There is no channel called ${String(channel)}.` } };
+      return {
+        ok: false,
+        error: { code: 'unknown-channel', message: `There is no channel called ${String(channel)}.` },
+      };
     }
     const spec = channels[channel];
     const parsed = spec.request.safeParse(payload ?? {});
@@ -105,12 +129,25 @@ export function createDispatcher(handlers: HandlerTable, log: (message: string) 
       const checked = (spec.response as z.ZodType).safeParse(value);
       if (!checked.success) {
         log(`Response of ${channel} failed its schema: ${checked.error.message}`);
-        return { ok: false, error: { code: 'internal', message: 'Tidewing produced an answer it could not vouch for; nothing was changed by showing it.' } };
+        return {
+          ok: false,
+          error: {
+            code: 'internal',
+            message: 'Tidewing produced an answer it could not vouch for; nothing was changed by showing it.',
+          },
+        };
       }
       return { ok: true, value: checked.data };
     } catch (error) {
       if (error instanceof HandlerError || error instanceof RecordError) {
-        return { ok: false, error: { code: error.code, message: error.message, ...(error.field === undefined ? {} : { field: error.field }) } };
+        return {
+          ok: false,
+          error: {
+            code: error.code,
+            message: error.message,
+            ...(error.field === undefined ? {} : { field: error.field }),
+          },
+        };
       }
       const message = error instanceof Error ? error.message : String(error);
       log(`Handler ${channel} failed: ${message}`);

@@ -15,7 +15,10 @@ type PlanChannel = keyof typeof planChannels;
 type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
 
 function openItems(plan: SavedPlan): number {
-  return Object.values(plan.checklist.items).filter((state) => state === 'open').length + (plan.checklist.asaGrade === null ? 1 : 0);
+  return (
+    Object.values(plan.checklist.items).filter((state) => state === 'open').length +
+    (plan.checklist.asaGrade === null ? 1 : 0)
+  );
 }
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
@@ -27,10 +30,12 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
   // read-only arrays into the plain shape the contract stores.
-  const compute = (input: PlanInput) => planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
+  const compute = (input: PlanInput) =>
+    planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
 
   function toStore(fields: PlanFields) {
-    if (fields.patientId !== null && patients.get(fields.patientId) === null) throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
+    if (fields.patientId !== null && patients.get(fields.patientId) === null)
+      throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
     return { ...fields, result: compute(fields.input), modelVersion };
   }
 
@@ -60,7 +65,11 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
     'plans:correct': (request) => {
       const saved = plans.correct(request.id, toStore(request.fields), request.meta, now());
       if (saved === 'not-found') throw new RecordError('not-found', `Plan ${request.id} was not found.`);
-      if (saved === 'stale') throw new RecordError('conflict', 'This plan was changed since you opened it; open its newest version and edit that.');
+      if (saved === 'stale')
+        throw new RecordError(
+          'conflict',
+          'This plan was changed since you opened it; open its newest version and edit that.',
+        );
       return saved;
     },
     'plans:get': (request) => {
@@ -72,12 +81,28 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
       let weightTrendText: string | null = null;
       if (patient !== null) {
         const list = weights.list(patient.id);
-        const range = speciesRecord === null ? null : { minG: speciesRecord.values.massMinG, maxG: speciesRecord.values.massMaxG, speciesName: speciesRecord.values.commonName };
-        const trend = weightTrend(list.map((weight) => ({ weighedOn: weight.values.weighedOn, massG: weight.values.massG })), range);
+        const range =
+          speciesRecord === null
+            ? null
+            : {
+                minG: speciesRecord.values.massMinG,
+                maxG: speciesRecord.values.massMaxG,
+                speciesName: speciesRecord.values.commonName,
+              };
+        const trend = weightTrend(
+          list.map((weight) => ({ weighedOn: weight.values.weighedOn, massG: weight.values.massG })),
+          range,
+        );
         const parts = [];
         if (trend.latest !== null) parts.push(`latest ${trend.latest.massG} g on ${trend.latest.weighedOn}`);
-        if (trend.sinceLast !== null) parts.push(`${trend.sinceLast.percent >= 0 ? '+' : ''}${trend.sinceLast.percent.toFixed(1)} % since the previous weight`);
-        if (trend.sinceFirst !== null && list.length > 2) parts.push(`${trend.sinceFirst.percent >= 0 ? '+' : ''}${trend.sinceFirst.percent.toFixed(1)} % since the first`);
+        if (trend.sinceLast !== null)
+          parts.push(
+            `${trend.sinceLast.percent >= 0 ? '+' : ''}${trend.sinceLast.percent.toFixed(1)} % since the previous weight`,
+          );
+        if (trend.sinceFirst !== null && list.length > 2)
+          parts.push(
+            `${trend.sinceFirst.percent >= 0 ? '+' : ''}${trend.sinceFirst.percent.toFixed(1)} % since the first`,
+          );
         parts.push(...trend.flags.map((flag) => flag.message));
         weightTrendText = parts.length === 0 ? null : parts.join('; ');
       }
@@ -86,7 +111,9 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
         patient,
         species: speciesRecord,
         weightTrendText,
-        history: plans.history(request.id).map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
+        history: plans
+          .history(request.id)
+          .map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
       };
     },
     'plans:for-patient': (request) => plans.listForPatient(request.patientId).map(summary),
@@ -96,7 +123,8 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
       const liquidMlByAgent: Record<string, number> = {};
       let oxygenL = 0;
       for (const plan of list) {
-        liquidMlByAgent[plan.input.agent] = (liquidMlByAgent[plan.input.agent] ?? 0) + plan.result.consumption.liquidMl;
+        liquidMlByAgent[plan.input.agent] =
+          (liquidMlByAgent[plan.input.agent] ?? 0) + plan.result.consumption.liquidMl;
         oxygenL += plan.result.oxygen.usedL;
       }
       return { date: request.date, plans: list.map(summary), totals: { liquidMlByAgent, oxygenL } };

@@ -7,7 +7,10 @@ export type StaticFile = { readonly body: Buffer; readonly extension: string };
  * Reads a file of the built renderer by URL path, refusing anything outside its folder.
  * Paths without an extension fall back to index.html so screens can be deep-linked.
  */
-export async function readRendererFile(rendererDirectory: string, urlPath: string): Promise<StaticFile | null> {
+export async function readRendererFile(
+  rendererDirectory: string,
+  urlPath: string,
+): Promise<StaticFile | null> {
   let decoded: string;
   try {
     decoded = decodeURIComponent(urlPath);

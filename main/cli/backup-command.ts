@@ -1,9 +1,19 @@
 import path from 'node:path';
 import { BackupError, backupDatabase } from '../../db/backup.js';
 import { formatBytes } from '../../db/integrity.js';
-import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
+import {
+  databaseExists,
+  dataLocation,
+  errorText,
+  parseArguments,
+  parseOrExplain,
+  progressPrinter,
+  UsageError,
+  type CommandIo,
+} from './command-io.js';
 
-export const backupUsage = 'Usage: tidewing backup --out FILE [--data DIR]\n  Copies the clinic database in DIR (default: the usual data folder) to FILE and checks the copy.';
+export const backupUsage =
+  'Usage: tidewing backup --out FILE [--data DIR]\n  Copies the clinic database in DIR (default: the usual data folder) to FILE and checks the copy.';
 
 /**
  * `tidewing backup --data DIR --out FILE`: an online copy of the database, integrity-checked before
@@ -20,11 +30,17 @@ export async function runBackupCommand(args: string[], io: CommandIo): Promise<n
   const { outFile, location } = parsed;
   if (!databaseExists(io, 'backup', location)) return 1;
   try {
-    const made = await backupDatabase(location.databaseFile, outFile, progressPrinter(io, 'backup'), { verify: 'full' });
-    io.stdout(`Backed up ${location.databaseFile} to ${made.file} (${formatBytes(made.sizeBytes)}; the copy passed the integrity check).\n`);
+    const made = await backupDatabase(location.databaseFile, outFile, progressPrinter(io, 'backup'), {
+      verify: 'full',
+    });
+    io.stdout(
+      `Backed up ${location.databaseFile} to ${made.file} (${formatBytes(made.sizeBytes)}; the copy passed the integrity check).\n`,
+    );
     return 0;
   } catch (error) {
-    io.stderr(`tidewing backup: ${error instanceof BackupError ? error.message : `the backup failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`);
+    io.stderr(
+      `tidewing backup: ${error instanceof BackupError ? error.message : `the backup failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`,
+    );
     return 1;
   }
 }

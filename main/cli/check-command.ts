@@ -15,9 +15,14 @@ const shownLines = 20;
  */
 export async function runCheckCommand(args: string[], io: CommandIo): Promise<number> {
   const parsed = parseOrExplain(io, 'check', checkUsage, () => {
-    const options = parseArguments(args, { valueOptions: ['--data'], flagOptions: ['--quick'], maxPositionals: 1 });
+    const options = parseArguments(args, {
+      valueOptions: ['--data'],
+      flagOptions: ['--quick'],
+      maxPositionals: 1,
+    });
     const positional = options.positionals[0];
-    if (positional !== undefined && options.values.has('--data')) throw new UsageError('give either a FILE or --data DIR, not both.');
+    if (positional !== undefined && options.values.has('--data'))
+      throw new UsageError('give either a FILE or --data DIR, not both.');
     const quick = options.flags.has('--quick');
     if (positional !== undefined) return { file: path.resolve(positional), dataDirectory: null, quick };
     const location = dataLocation(options);
@@ -37,17 +42,23 @@ export async function runCheckCommand(args: string[], io: CommandIo): Promise<nu
   if (check.integrity.length > 0) {
     lines.push(`${quick ? 'quick_check' : 'integrity_check'}:`);
     for (const line of check.integrity.slice(0, shownLines)) lines.push(`  ${line}`);
-    if (check.integrity.length > shownLines) lines.push(`  ... and ${check.integrity.length - shownLines} more`);
+    if (check.integrity.length > shownLines)
+      lines.push(`  ... and ${check.integrity.length - shownLines} more`);
   }
   if (check.foreignKeyProblems.length > 0) {
     lines.push(`Rows pointing at missing rows: ${check.foreignKeyProblems.length}`);
-    for (const problem of check.foreignKeyProblems.slice(0, shownLines)) lines.push(`  ${problem.table} row ${problem.rowId ?? '?'} -> ${problem.parentTable}`);
+    for (const problem of check.foreignKeyProblems.slice(0, shownLines))
+      lines.push(`  ${problem.table} row ${problem.rowId ?? '?'} -> ${problem.parentTable}`);
   }
   if (check.missingTables.length > 0) lines.push(`Missing tables: ${check.missingTables.join(', ')}`);
   if (dataDirectory !== null) {
     const backups = listBackups(backupFolder(dataDirectory));
     const newest = backups[0];
-    lines.push(newest === undefined ? `Automatic backups: none in ${backupFolder(dataDirectory)}` : `Automatic backups: ${backups.length} in ${backupFolder(dataDirectory)}, newest taken ${newest.takenAt}`);
+    lines.push(
+      newest === undefined
+        ? `Automatic backups: none in ${backupFolder(dataDirectory)}`
+        : `Automatic backups: ${backups.length} in ${backupFolder(dataDirectory)}, newest taken ${newest.takenAt}`,
+    );
   }
   io.stdout(`${lines.join('\n')}\n`);
   return check.ok ? 0 : 1;

@@ -9,17 +9,39 @@ const commands: Readonly<Record<string, Command>> = {
   plan: {
     summary: 'predictions for a plan file as JSON: FILE or - for standard input [--summary]',
     run: async (args) =>
-      (await import('./plan-command.js')).runPlanCommand(args, { stdin: process.stdin, stdout: (text) => process.stdout.write(text), stderr: (text) => process.stderr.write(text), readFile: readTextFile }),
+      (await import('./plan-command.js')).runPlanCommand(args, {
+        stdin: process.stdin,
+        stdout: (text) => process.stdout.write(text),
+        stderr: (text) => process.stderr.write(text),
+        readFile: readTextFile,
+      }),
   },
-  backup: { summary: 'copy the clinic database to a file: --out FILE [--data DIR]', run: async (args) => (await import('./backup-command.js')).runBackupCommand(args, processIo) },
-  restore: { summary: 'put a backup in place of the clinic database: FILE [--data DIR]', run: async (args) => (await import('./restore-command.js')).runRestoreCommand(args, processIo) },
-  check: { summary: 'integrity and schema version of the database: [--data DIR] or FILE', run: async (args) => (await import('./check-command.js')).runCheckCommand(args, processIo) },
-  export: { summary: 'the whole database as JSON: --out FILE.json [--data DIR]', run: async (args) => (await import('./export-command.js')).runExportCommand(args, processIo) },
-  worksheet: { summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]', run: async (args) => (await import('./worksheet-command.js')).runWorksheetCommand(args, processIo) },
+  backup: {
+    summary: 'copy the clinic database to a file: --out FILE [--data DIR]',
+    run: async (args) => (await import('./backup-command.js')).runBackupCommand(args, processIo),
+  },
+  restore: {
+    summary: 'put a backup in place of the clinic database: FILE [--data DIR]',
+    run: async (args) => (await import('./restore-command.js')).runRestoreCommand(args, processIo),
+  },
+  check: {
+    summary: 'integrity and schema version of the database: [--data DIR] or FILE',
+    run: async (args) => (await import('./check-command.js')).runCheckCommand(args, processIo),
+  },
+  export: {
+    summary: 'the whole database as JSON: --out FILE.json [--data DIR]',
+    run: async (args) => (await import('./export-command.js')).runExportCommand(args, processIo),
+  },
+  worksheet: {
+    summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]',
+    run: async (args) => (await import('./worksheet-command.js')).runWorksheetCommand(args, processIo),
+  },
 };
 
 function usage(): string {
-  const lines = Object.entries(commands).map(([name, command]) => `  tidewing ${name.padEnd(10)} ${command.summary}`);
+  const lines = Object.entries(commands).map(
+    ([name, command]) => `  tidewing ${name.padEnd(10)} ${command.summary}`,
+  );
   return ['Usage:', ...lines, '', 'Run `npm start` to open the app.'].join('\n');
 }
 

@@ -27,7 +27,11 @@ export type ParsedArguments = {
  */
 export function parseArguments(
   args: readonly string[],
-  spec: { readonly valueOptions: readonly string[]; readonly flagOptions?: readonly string[]; readonly maxPositionals: number },
+  spec: {
+    readonly valueOptions: readonly string[];
+    readonly flagOptions?: readonly string[];
+    readonly maxPositionals: number;
+  },
 ): ParsedArguments {
   const values = new Map<string, string>();
   const flags = new Set<string>();
@@ -53,10 +57,12 @@ export function parseArguments(
         value = args[index + 1];
         index += 1;
       }
-      if (value === undefined || value === '' || value.startsWith('--')) throw new UsageError(`${name} needs a value.`);
+      if (value === undefined || value === '' || value.startsWith('--'))
+        throw new UsageError(`${name} needs a value.`);
       values.set(name, value);
     } else {
-      if (positionals.length >= spec.maxPositionals) throw new UsageError(`Unexpected argument "${argument}".`);
+      if (positionals.length >= spec.maxPositionals)
+        throw new UsageError(`Unexpected argument "${argument}".`);
       positionals.push(argument);
     }
   }
@@ -78,9 +84,15 @@ export function parseOrExplain<T>(io: CommandIo, command: string, usage: string,
 }
 
 /** True when the data folder holds a database; otherwise says so (nothing written) and gives false. */
-export function databaseExists(io: CommandIo, command: string, location: { readonly dataDirectory: string; readonly databaseFile: string }): boolean {
+export function databaseExists(
+  io: CommandIo,
+  command: string,
+  location: { readonly dataDirectory: string; readonly databaseFile: string },
+): boolean {
   if (fs.existsSync(location.databaseFile)) return true;
-  io.stderr(`tidewing ${command}: there is no Tidewing database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`);
+  io.stderr(
+    `tidewing ${command}: there is no Tidewing database in ${location.dataDirectory} (looked for ${location.databaseFile}). Nothing was written.\n`,
+  );
   return false;
 }
 
@@ -91,7 +103,10 @@ export function dataLocation(parsed: ParsedArguments): { dataDirectory: string; 
 }
 
 /** Prints `label: NN%` on stderr at each new tenth and at 100 %, never the same percentage twice. */
-export function progressPrinter(io: CommandIo, label: string): (progress: Pick<BackupProgress, 'percent'>) => void {
+export function progressPrinter(
+  io: CommandIo,
+  label: string,
+): (progress: Pick<BackupProgress, 'percent'>) => void {
   let lastStep = -1;
   return ({ percent }) => {
     const step = percent >= 100 ? 10 : Math.floor(percent / 10);

@@ -3,15 +3,29 @@ import { BackupError } from '../../db/backup.js';
 import { writeDatabaseJson } from '../../db/export.js';
 import { checkDatabaseFile, formatBytes, openReadOnly } from '../../db/integrity.js';
 import { readAppVersion } from '../back-end/project-paths.js';
-import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, progressPrinter, UsageError, type CommandIo } from './command-io.js';
+import {
+  databaseExists,
+  dataLocation,
+  errorText,
+  parseArguments,
+  parseOrExplain,
+  progressPrinter,
+  UsageError,
+  type CommandIo,
+} from './command-io.js';
 
-export const exportUsage = 'Usage: tidewing export --out FILE.json [--data DIR]\n  Writes every table of the clinic database in DIR (default: the usual data folder) to one JSON file.';
+export const exportUsage =
+  'Usage: tidewing export --out FILE.json [--data DIR]\n  Writes every table of the clinic database in DIR (default: the usual data folder) to one JSON file.';
 
 /**
  * `tidewing export --data DIR --out FILE.json`: the whole database as JSON, read-only on the
  * database. Exit 0 written, 1 failed (nothing written under FILE), 2 bad arguments.
  */
-export async function runExportCommand(args: string[], io: CommandIo, now: () => Date = () => new Date()): Promise<number> {
+export async function runExportCommand(
+  args: string[],
+  io: CommandIo,
+  now: () => Date = () => new Date(),
+): Promise<number> {
   const parsed = parseOrExplain(io, 'export', exportUsage, () => {
     const options = parseArguments(args, { valueOptions: ['--data', '--out'], maxPositionals: 0 });
     const out = options.values.get('--out');
@@ -23,7 +37,12 @@ export async function runExportCommand(args: string[], io: CommandIo, now: () =>
   if (!databaseExists(io, 'export', location)) return 1;
   // A damaged file could export partly and look complete; refuse it instead.
   const check = checkDatabaseFile(location.databaseFile, { quick: true });
-  if (check.status === 'corrupt' || check.status === 'notDatabase' || check.status === 'unreadable' || check.status === 'notTidewing') {
+  if (
+    check.status === 'corrupt' ||
+    check.status === 'notDatabase' ||
+    check.status === 'unreadable' ||
+    check.status === 'notTidewing'
+  ) {
     io.stderr(`tidewing export: ${check.message} Nothing was written.\n`);
     return 1;
   }
@@ -31,16 +50,26 @@ export async function runExportCommand(args: string[], io: CommandIo, now: () =>
   try {
     opened = openReadOnly(location.databaseFile);
   } catch (error) {
-    io.stderr(`tidewing export: the database could not be opened: ${errorText(error)}. Nothing was written.\n`);
+    io.stderr(
+      `tidewing export: the database could not be opened: ${errorText(error)}. Nothing was written.\n`,
+    );
     return 1;
   }
   try {
     const progress = progressPrinter(io, 'export');
-    const written = writeDatabaseJson(opened.db, outFile, { appVersion: readAppVersion(), exportedAt: now(), onProgress: (percent) => progress({ percent }) });
-    io.stdout(`Exported ${written.rowCount} row${written.rowCount === 1 ? '' : 's'} from ${written.tableCount} tables of ${location.databaseFile} to ${written.file} (${formatBytes(written.sizeBytes)}).\n`);
+    const written = writeDatabaseJson(opened.db, outFile, {
+      appVersion: readAppVersion(),
+      exportedAt: now(),
+      onProgress: (percent) => progress({ percent }),
+    });
+    io.stdout(
+      `Exported ${written.rowCount} row${written.rowCount === 1 ? '' : 's'} from ${written.tableCount} tables of ${location.databaseFile} to ${written.file} (${formatBytes(written.sizeBytes)}).\n`,
+    );
     return 0;
   } catch (error) {
-    io.stderr(`tidewing export: ${error instanceof BackupError ? error.message : `the export failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`);
+    io.stderr(
+      `tidewing export: ${error instanceof BackupError ? error.message : `the export failed: ${errorText(error)}. Nothing was written under ${outFile}.`}\n`,
+    );
     return 1;
   } finally {
     opened.close();

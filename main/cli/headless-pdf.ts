@@ -56,8 +56,19 @@ export class PageNotReadyError extends Error {
   }
 }
 
-type Message = { id?: number; method?: string; params?: Record<string, unknown>; result?: Record<string, unknown>; error?: { message: string }; sessionId?: string };
-type Pending = { resolve: (value: Record<string, unknown>) => void; reject: (error: Error) => void; method: string };
+type Message = {
+  id?: number;
+  method?: string;
+  params?: Record<string, unknown>;
+  result?: Record<string, unknown>;
+  error?: { message: string };
+  sessionId?: string;
+};
+type Pending = {
+  resolve: (value: Record<string, unknown>) => void;
+  reject: (error: Error) => void;
+  method: string;
+};
 
 /** One DevTools-protocol connection over the pipe pair of a Chromium child. */
 class PipeConnection {
@@ -94,7 +105,8 @@ class PipeConnection {
       const waiting = this.pending.get(message.id);
       if (waiting === undefined) return;
       this.pending.delete(message.id);
-      if (message.error !== undefined) waiting.reject(new Error(`${waiting.method}: ${message.error.message}`));
+      if (message.error !== undefined)
+        waiting.reject(new Error(`${waiting.method}: ${message.error.message}`));
       else waiting.resolve(message.result ?? {});
       return;
     }
@@ -108,13 +120,19 @@ class PipeConnection {
     this.pending.clear();
   }
 
-  send(method: string, params: Record<string, unknown> = {}, sessionId?: string): Promise<Record<string, unknown>> {
+  send(
+    method: string,
+    params: Record<string, unknown> = {},
+    sessionId?: string,
+  ): Promise<Record<string, unknown>> {
     if (this.closedBecause !== null) return Promise.reject(this.closedBecause);
     const id = this.nextId;
     this.nextId += 1;
     return new Promise((resolve, reject) => {
       this.pending.set(id, { resolve, reject, method });
-      this.output.write(`${JSON.stringify(sessionId === undefined ? { id, method, params } : { id, method, params, sessionId })}\0`);
+      this.output.write(
+        `${JSON.stringify(sessionId === undefined ? { id, method, params } : { id, method, params, sessionId })}\0`,
+      );
     });
   }
 
@@ -161,10 +179,15 @@ type Session = { readonly connection: PipeConnection; readonly sessionId: string
 /** Attaches to the browser's first tab, waiting for it to appear. */
 async function firstTab(connection: PipeConnection, deadline: number): Promise<string> {
   for (;;) {
-    const { targetInfos } = (await connection.send('Target.getTargets')) as { targetInfos: { targetId: string; type: string }[] };
+    const { targetInfos } = (await connection.send('Target.getTargets')) as {
+      targetInfos: { targetId: string; type: string }[];
+    };
     const page = targetInfos.find((target) => target.type === 'page');
     if (page !== undefined) {
-      const attached = (await connection.send('Target.attachToTarget', { targetId: page.targetId, flatten: true })) as { sessionId: string };
+      const attached = (await connection.send('Target.attachToTarget', {
+        targetId: page.targetId,
+        flatten: true,
+      })) as { sessionId: string };
       return attached.sessionId;
     }
     if (Date.now() > deadline) throw new Error('Chromium opened no page');
@@ -173,7 +196,11 @@ async function firstTab(connection: PipeConnection, deadline: number): Promise<s
 }
 
 /** Resolves true once `selector` matches, false at the deadline; retries across navigations. */
-async function waitForSelector({ connection, sessionId }: Session, selector: string, deadline: number): Promise<boolean> {
+async function waitForSelector(
+  { connection, sessionId }: Session,
+  selector: string,
+  deadline: number,
+): Promise<boolean> {
   const expression = (waitMs: number) => `new Promise((resolve) => {
     const look = () => document.querySelector(${JSON.stringify(selector)}) !== null;
     if (look()) { resolve(true); return; }
@@ -192,7 +219,10 @@ async function waitForSelector({ connection, sessionId }: Session, selector: str
       if (answer.result?.value === true) return true;
     } catch (error) {
       // The first tab may still be changing documents (blank page to the worksheet): ask again.
-      if (!/context|navigat|destroyed|Cannot find/i.test(error instanceof Error ? error.message : String(error))) throw error;
+      if (
+        !/context|navigat|destroyed|Cannot find/i.test(error instanceof Error ? error.message : String(error))
+      )
+        throw error;
       await delay(10);
     }
   }
@@ -203,7 +233,10 @@ async function alertTexts({ connection, sessionId }: Session): Promise<string[]>
   try {
     const answer = (await connection.send(
       'Runtime.evaluate',
-      { expression: `[...document.querySelectorAll('[role="alert"]')].map((element) => element.textContent ?? '').filter((text) => text.trim() !== '')`, returnByValue: true },
+      {
+        expression: `[...document.querySelectorAll('[role="alert"]')].map((element) => element.textContent ?? '').filter((text) => text.trim() !== '')`,
+        returnByValue: true,
+      },
       sessionId,
     )) as { result?: { value?: unknown } };
     return Array.isArray(answer.result?.value) ? (answer.result.value as string[]) : [];
@@ -222,7 +255,14 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
   const viewport = job.viewport ?? { width: 1280, height: 900 };
   const child = spawn(
     job.executablePath,
-    [...chromiumArguments, '--headless', '--remote-debugging-pipe', `--user-data-dir=${profile}`, `--window-size=${viewport.width},${viewport.height}`, job.url],
+    [
+      ...chromiumArguments,
+      '--headless',
+      '--remote-debugging-pipe',
+      `--user-data-dir=${profile}`,
+      `--window-size=${viewport.width},${viewport.height}`,
+      job.url,
+    ],
     { stdio: ['ignore', 'ignore', 'pipe', 'pipe', 'pipe'], detached: process.platform !== 'win32' },
   );
   let stderrTail = '';
@@ -233,13 +273,20 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
   const connection = new PipeConnection(toBrowser, fromBrowser);
   const failedToStart = new Promise<never>((_, reject) => {
     child.once('error', (error) => reject(new Error(`Chromium could not be started: ${error.message}`)));
-    child.once('exit', (code, signal) => reject(new Error(`Chromium stopped (${signal ?? `exit code ${String(code)}`})${stderrTail.trim() === '' ? '' : `: ${stderrTail.trim().split('\n').slice(-3).join(' ')}`}`)));
+    child.once('exit', (code, signal) =>
+      reject(
+        new Error(
+          `Chromium stopped (${signal ?? `exit code ${String(code)}`})${stderrTail.trim() === '' ? '' : `: ${stderrTail.trim().split('\n').slice(-3).join(' ')}`}`,
+        ),
+      ),
+    );
   });
   failedToStart.catch(() => undefined);
   const aborted = new Promise<never>((_, reject) => {
     const signal = job.signal;
     if (signal === undefined) return;
-    const stop = () => reject(signal.reason instanceof Error ? signal.reason : new Error('the PDF was no longer wanted'));
+    const stop = () =>
+      reject(signal.reason instanceof Error ? signal.reason : new Error('the PDF was no longer wanted'));
     if (signal.aborted) stop();
     else signal.addEventListener('abort', stop, { once: true });
   });
@@ -263,27 +310,48 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
       const session = { connection, sessionId };
       connection.on((message) => {
         if (message.sessionId !== sessionId || message.method !== 'Runtime.exceptionThrown') return;
-        const details = (message.params?.['exceptionDetails'] ?? {}) as { text?: string; exception?: { description?: string } };
-        pageErrors.push((details.exception?.description ?? details.text ?? 'script error').split('\n')[0] ?? 'script error');
+        const details = (message.params?.['exceptionDetails'] ?? {}) as {
+          text?: string;
+          exception?: { description?: string };
+        };
+        pageErrors.push(
+          (details.exception?.description ?? details.text ?? 'script error').split('\n')[0] ?? 'script error',
+        );
       });
       await connection.send('Runtime.enable', {}, sessionId);
-      if (!(await waitForSelector(session, job.readySelector, deadline))) throw new PageNotReadyError(await alertTexts(session), pageErrors);
+      if (!(await waitForSelector(session, job.readySelector, deadline)))
+        throw new PageNotReadyError(await alertTexts(session), pageErrors);
       // Untagged, as the worksheet was printed before: tagging (this Chromium's default here) adds
       // about 40 ms and 70 KiB to the worksheet.
-      const printed = (await connection.send('Page.printToPDF', { preferCSSPageSize: true, printBackground: true, generateTaggedPDF: false }, sessionId)) as { data: string };
+      const printed = (await connection.send(
+        'Page.printToPDF',
+        { preferCSSPageSize: true, printBackground: true, generateTaggedPDF: false },
+        sessionId,
+      )) as { data: string };
       return Buffer.from(printed.data, 'base64');
     };
     const working = work();
     working.catch(() => undefined);
     // The ready wait has its own deadline; this one also covers a print that never answers.
     const overdue = new Promise<never>((_, reject) => {
-      overdueTimer = setTimeout(() => reject(new Error(`Chromium did not finish within ${Math.round((job.timeoutMs + printGraceMs) / 1000)} s`)), job.timeoutMs + printGraceMs);
+      overdueTimer = setTimeout(
+        () =>
+          reject(
+            new Error(
+              `Chromium did not finish within ${Math.round((job.timeoutMs + printGraceMs) / 1000)} s`,
+            ),
+          ),
+        job.timeoutMs + printGraceMs,
+      );
     });
     return await Promise.race([working, failedToStart, aborted, overdue]);
   } catch (error) {
     // A broken pipe is usually Chromium exiting: name the exit, which says more, if it comes soon.
     if (!(error instanceof PageNotReadyError) && job.signal?.aborted !== true) {
-      const exit = await Promise.race([failedToStart.catch((reason: unknown) => reason), delay(250).then(() => null)]);
+      const exit = await Promise.race([
+        failedToStart.catch((reason: unknown) => reason),
+        delay(250).then(() => null),
+      ]);
       if (exit instanceof Error) throw exit;
     }
     throw error;

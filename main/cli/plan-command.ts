@@ -19,7 +19,8 @@ export const planCommandUsage = 'Usage: tidewing plan FILE [--summary]   (FILE m
 
 async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
   const chunks: string[] = [];
-  for await (const chunk of stream) chunks.push(typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8'));
+  for await (const chunk of stream)
+    chunks.push(typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8'));
   return chunks.join('');
 }
 
@@ -51,27 +52,35 @@ export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise
   try {
     text = file === '-' ? await readStream(io.stdin) : await io.readFile(file);
   } catch (error) {
-    io.stderr(`tidewing plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`);
+    io.stderr(
+      `tidewing plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`,
+    );
     return 2;
   }
   let json: unknown;
   try {
     json = JSON.parse(text);
   } catch (error) {
-    io.stderr(`tidewing plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`);
+    io.stderr(
+      `tidewing plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`,
+    );
     return 2;
   }
   const parsed = planInputSchema.safeParse(json);
   if (!parsed.success) {
     const lines = planIssueMessages(parsed.error);
-    io.stderr(`tidewing plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`);
+    io.stderr(
+      `tidewing plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`,
+    );
     return 2;
   }
   let result: PlanResult;
   try {
     result = computePlan(parsed.data, { species: speciesReference });
   } catch (error) {
-    io.stderr(`tidewing plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`);
+    io.stderr(
+      `tidewing plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`,
+    );
     return 1;
   }
   io.stdout(summary ? formatPlanSummary(result) : `${JSON.stringify(result, null, 2)}\n`);
@@ -94,22 +103,53 @@ export function formatPlanSummary(result: PlanResult): string {
   const e = result.estimates;
   const m = result.milestones;
   const rows: [string, string][] = [
-    ['Patient', `${result.patientName ?? '(unnamed)'}${result.speciesId === null ? '' : `, ${result.speciesId}`}`],
+    [
+      'Patient',
+      `${result.patientName ?? '(unnamed)'}${result.speciesId === null ? '' : `, ${result.speciesId}`}`,
+    ],
     ['Agent / MAC', `${result.agent}, MAC ${result.mac.valuePct.toFixed(2)} % (${result.mac.basis})`],
     ['Tidal volume', `${e.tidalVolumeMl.value.toPrecision(3)} mL`],
     ['Breathing rate', `${e.breathsPerMin.value.toPrecision(3)} /min`],
     ['Minute ventilation', `${e.minuteVentilationMlMin.value.toPrecision(3)} mL/min`],
     ['Tracheal dead space', `${e.trachealDeadSpaceMl.value.toPrecision(3)} mL`],
-    ['Air sacs (ant./post.)', `${e.anteriorSacsMl.value.toPrecision(3)} / ${e.posteriorSacsMl.value.toPrecision(3)} mL`],
-    ['Heart rate / output', `${e.heartRatePerMin.value.toPrecision(3)} /min, ${e.cardiacOutputMlMin.value.toPrecision(3)} mL/min`],
+    [
+      'Air sacs (ant./post.)',
+      `${e.anteriorSacsMl.value.toPrecision(3)} / ${e.posteriorSacsMl.value.toPrecision(3)} mL`,
+    ],
+    [
+      'Heart rate / output',
+      `${e.heartRatePerMin.value.toPrecision(3)} /min, ${e.cardiacOutputMlMin.value.toPrecision(3)} mL/min`,
+    ],
     ['Induction', `${minutes(m.inductionMin)}${band(result.uncertainty.inductionMin)}`],
     ['Recovery after off', `${minutes(m.recoveryMin)}${band(result.uncertainty.recoveryMin)}`],
-    ['Air-sac wash-in 95 %', m.airSacWashin95Breaths === null ? 'not reached' : `${String(m.airSacWashin95Breaths)} breaths, ${minutes(m.airSacWashin95Min)}`],
-    ['Air-sac washout 95 %', m.airSacWashout95Breaths === null ? 'not reached' : `${String(m.airSacWashout95Breaths)} breaths, ${minutes(m.airSacWashout95Min)}`],
-    ['Fresh gas', `recommended ${result.flows.recommendedLpm.toFixed(2)} L/min, minimum ${result.flows.minimumLpm.toFixed(2)} L/min`],
-    ['Liquid agent', `${result.consumption.liquidMl.toFixed(1)} mL for the plan, ${result.consumption.liquidMlPerHour.toFixed(1)} mL/h at ${String(result.consumption.maintenanceVaporPct)} %`],
-    ['Oxygen', `${result.oxygen.usedL.toFixed(0)} L${result.oxygen.enduranceMin === null ? '' : `, cylinder lasts ${result.oxygen.enduranceMin.toFixed(0)} min`}`],
-    ['Waste gas peak', `${result.wasteGas.peakPpm.toFixed(2)} ppm (ceiling ${String(result.wasteGas.ceilingPpm)} ppm)`],
+    [
+      'Air-sac wash-in 95 %',
+      m.airSacWashin95Breaths === null
+        ? 'not reached'
+        : `${String(m.airSacWashin95Breaths)} breaths, ${minutes(m.airSacWashin95Min)}`,
+    ],
+    [
+      'Air-sac washout 95 %',
+      m.airSacWashout95Breaths === null
+        ? 'not reached'
+        : `${String(m.airSacWashout95Breaths)} breaths, ${minutes(m.airSacWashout95Min)}`,
+    ],
+    [
+      'Fresh gas',
+      `recommended ${result.flows.recommendedLpm.toFixed(2)} L/min, minimum ${result.flows.minimumLpm.toFixed(2)} L/min`,
+    ],
+    [
+      'Liquid agent',
+      `${result.consumption.liquidMl.toFixed(1)} mL for the plan, ${result.consumption.liquidMlPerHour.toFixed(1)} mL/h at ${String(result.consumption.maintenanceVaporPct)} %`,
+    ],
+    [
+      'Oxygen',
+      `${result.oxygen.usedL.toFixed(0)} L${result.oxygen.enduranceMin === null ? '' : `, cylinder lasts ${result.oxygen.enduranceMin.toFixed(0)} min`}`,
+    ],
+    [
+      'Waste gas peak',
+      `${result.wasteGas.peakPpm.toFixed(2)} ppm (ceiling ${String(result.wasteGas.ceilingPpm)} ppm)`,
+    ],
   ];
   const width = Math.max(...rows.map(([label]) => label.length));
   const lines = rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`);

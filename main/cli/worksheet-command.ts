@@ -4,7 +4,15 @@ import type { BackEnd } from '../back-end/back-end.js';
 import type { Dispatcher } from '../back-end/handlers.js';
 import { startLoopbackHost, type LoopbackHost } from '../host/loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
-import { databaseExists, dataLocation, errorText, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
+import {
+  databaseExists,
+  dataLocation,
+  errorText,
+  parseArguments,
+  parseOrExplain,
+  UsageError,
+  type CommandIo,
+} from './command-io.js';
 import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
 
 export const worksheetUsage =
@@ -24,19 +32,28 @@ type Arguments = { planId: number; outFile: string; location: ReturnType<typeof 
 function parse(args: string[]): Arguments {
   const parsed = parseArguments(args, { valueOptions: ['--plan', '--data', '--out'], maxPositionals: 0 });
   const plan = parsed.values.get('--plan');
-  if (plan === undefined) throw new UsageError('--plan ID is required: the number of the saved plan (shown on the Worksheets screen).');
+  if (plan === undefined)
+    throw new UsageError(
+      '--plan ID is required: the number of the saved plan (shown on the Worksheets screen).',
+    );
   const planId = Number(plan);
-  if (!/^\d+$/.test(plan) || !Number.isSafeInteger(planId) || planId <= 0) throw new UsageError(`--plan must be a plan number such as 12, not "${plan}".`);
+  if (!/^\d+$/.test(plan) || !Number.isSafeInteger(planId) || planId <= 0)
+    throw new UsageError(`--plan must be a plan number such as 12, not "${plan}".`);
   const out = parsed.values.get('--out');
   if (out === undefined) throw new UsageError('--out FILE.pdf is required: where to write the worksheet.');
-  if (path.extname(out).toLowerCase() !== '.pdf') throw new UsageError(`--out must name a .pdf file, not "${out}".`);
+  if (path.extname(out).toLowerCase() !== '.pdf')
+    throw new UsageError(`--out must name a .pdf file, not "${out}".`);
   return { planId, outFile: path.resolve(out), location: dataLocation(parsed) };
 }
 
 /** Refusal with a message and exit code 1. */
 class Refusal extends Error {}
 
-async function check<T>(backEnd: BackEnd, channel: Parameters<BackEnd['dispatch']>[0], payload: unknown): Promise<T> {
+async function check<T>(
+  backEnd: BackEnd,
+  channel: Parameters<BackEnd['dispatch']>[0],
+  payload: unknown,
+): Promise<T> {
   const answer = await backEnd.dispatch(channel, payload);
   if (!answer.ok) throw new Refusal(answer.error.message);
   return answer.value as T;
@@ -48,25 +65,35 @@ async function check<T>(backEnd: BackEnd, channel: Parameters<BackEnd['dispatch'
  * written to FILE (via a temporary file renamed into place, so FILE is never half-written).
  * Exit 0 written, 1 refused or failed (nothing written under FILE), 2 bad arguments.
  */
-export async function runWorksheetCommand(args: string[], io: CommandIo, options: WorksheetCommandOptions = {}): Promise<number> {
+export async function runWorksheetCommand(
+  args: string[],
+  io: CommandIo,
+  options: WorksheetCommandOptions = {},
+): Promise<number> {
   const parsed = parseOrExplain(io, 'worksheet', worksheetUsage, () => parse(args));
   if (parsed === null) return 2;
   const { planId, outFile, location } = parsed;
   if (!databaseExists(io, 'worksheet', location)) return 1;
   if (!fs.existsSync(path.dirname(outFile))) {
-    io.stderr(`tidewing worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`);
+    io.stderr(
+      `tidewing worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`,
+    );
     return 1;
   }
 
   const root = findProjectRoot();
   const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
   if (!fs.existsSync(executablePath)) {
-    io.stderr(`tidewing worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`);
+    io.stderr(
+      `tidewing worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`,
+    );
     return 1;
   }
   const renderer = rendererDirectory(root);
   if (!fs.existsSync(path.join(renderer, 'print.html'))) {
-    io.stderr(`tidewing worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`);
+    io.stderr(
+      `tidewing worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`,
+    );
     return 1;
   }
 
@@ -101,25 +128,52 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     page.pathname = '/print.html';
     page.hash = `#/worksheets/${planId}`;
     io.stderr(`worksheet: rendering plan ${planId} with ${executablePath}\n`);
-    printing = printPageToPdf({ executablePath, url: page.href, readySelector: '.worksheet[data-ready="true"]', timeoutMs: options.readyTimeoutMs ?? 20_000, signal: stopPrinting.signal });
+    printing = printPageToPdf({
+      executablePath,
+      url: page.href,
+      readySelector: '.worksheet[data-ready="true"]',
+      timeoutMs: options.readyTimeoutMs ?? 20_000,
+      signal: stopPrinting.signal,
+    });
     printing.catch(() => undefined);
 
     io.stderr(`worksheet: opening ${location.databaseFile}\n`);
-    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([import('../back-end/back-end.js'), import('../../db/connection.js')]);
+    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([
+      import('../back-end/back-end.js'),
+      import('../../db/connection.js'),
+    ]);
     try {
-      backEnd = startBackEnd({ dataDirectory: location.dataDirectory, appVersion: readAppVersion(root), host: 'browser' });
+      backEnd = startBackEnd({
+        dataDirectory: location.dataDirectory,
+        appVersion: readAppVersion(root),
+        host: 'browser',
+      });
     } catch (error) {
-      throw new Refusal(error instanceof DatabaseTooNewError ? error.message : `the database could not be opened: ${errorText(error)}`);
+      throw new Refusal(
+        error instanceof DatabaseTooNewError
+          ? error.message
+          : `the database could not be opened: ${errorText(error)}`,
+      );
     }
     openBackEnd(backEnd);
     const detail = await backEnd.dispatch('plans:get', { id: planId });
-    if (!detail.ok) throw new Refusal(detail.error.code === 'not-found' ? `there is no plan ${planId} in ${location.databaseFile}.` : detail.error.message);
+    if (!detail.ok)
+      throw new Refusal(
+        detail.error.code === 'not-found'
+          ? `there is no plan ${planId} in ${location.databaseFile}.`
+          : detail.error.message,
+      );
     const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
     if (!safety.acknowledged) {
-      throw new Refusal(`the cautions of Tidewing ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`);
+      throw new Refusal(
+        `the cautions of Tidewing ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`,
+      );
     }
     const settings = await check<{ settings: unknown }>(backEnd, 'settings:get', {});
-    if (settings.settings === null) throw new Refusal('the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.');
+    if (settings.settings === null)
+      throw new Refusal(
+        'the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.',
+      );
 
     let pdf: Buffer;
     try {
@@ -127,13 +181,17 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
     } catch (error) {
       if (!(error instanceof PageNotReadyError)) throw error;
       const shown = error.alerts.join(' ');
-      throw new Refusal(`the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${error.pageErrors.length === 0 ? '' : ` (page errors: ${error.pageErrors.join('; ')})`}. Nothing was written.`);
+      throw new Refusal(
+        `the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${error.pageErrors.length === 0 ? '' : ` (page errors: ${error.pageErrors.join('; ')})`}. Nothing was written.`,
+      );
     }
     io.stderr('worksheet: writing PDF\n');
     fs.writeFileSync(temporary, pdf);
     fs.renameSync(temporary, outFile);
     const sizeBytes = fs.statSync(outFile).size;
-    io.stdout(`Wrote the worksheet of plan ${planId} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`);
+    io.stdout(
+      `Wrote the worksheet of plan ${planId} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`,
+    );
     return 0;
   } catch (error) {
     fs.rmSync(temporary, { force: true });
@@ -141,7 +199,9 @@ export async function runWorksheetCommand(args: string[], io: CommandIo, options
       io.stderr(`tidewing worksheet: ${error.message}\n`);
       return 1;
     }
-    io.stderr(`tidewing worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`);
+    io.stderr(
+      `tidewing worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`,
+    );
     return 1;
   } finally {
     backEndFailed();

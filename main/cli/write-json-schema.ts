@@ -16,7 +16,8 @@ export function planInputJsonSchemaText(): string {
   const document = {
     $id: 'https://tidewing.invalid/plan-input.schema.json',
     title: 'Tidewing anaesthetic plan input',
-    description: 'Generated from planInputSchema (app/contract/plan.ts) by main/cli/write-json-schema.ts. Cross-field rules (schedule order, chamber volume for the chamber route, circle volume for a circle, ...) are checked by the program and are not all expressible here.',
+    description:
+      'Generated from planInputSchema (app/contract/plan.ts) by main/cli/write-json-schema.ts. Cross-field rules (schedule order, chamber volume for the chamber route, circle volume for a circle, ...) are checked by the program and are not all expressible here.',
     ...schema,
   };
   return `${JSON.stringify(document, null, 2)}\n`;

@@ -12,7 +12,9 @@ import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/
 const scheme = 'app';
 const appOrigin = `${scheme}://tidewing`;
 
-protocol.registerSchemesAsPrivileged([{ scheme, privileges: { standard: true, secure: true, supportFetchAPI: true } }]);
+protocol.registerSchemesAsPrivileged([
+  { scheme, privileges: { standard: true, secure: true, supportFetchAPI: true } },
+]);
 
 function dataDirectoryFromArguments(argv: readonly string[]): string | null {
   const index = argv.indexOf('--data');
@@ -56,7 +58,10 @@ function registerProtocol(root: string): void {
     if (url.host !== 'tidewing') return new Response('Not found', { status: 404 });
     const file = await readRendererFile(folder, url.pathname);
     if (file === null) return new Response('Not found', { status: 404 });
-    return new Response(new Uint8Array(file.body), { status: 200, headers: { ...securityHeaders, 'content-type': contentTypeFor(file.extension) } });
+    return new Response(new Uint8Array(file.body), {
+      status: 200,
+      headers: { ...securityHeaders, 'content-type': contentTypeFor(file.extension) },
+    });
   });
 }
 
@@ -67,7 +72,13 @@ function registerChannels(backEnd: BackEnd): void {
   for (const channel of channelNames) {
     ipcMain.handle(channel, async (event, payload: unknown) => {
       if (!isOwnFrame(event.senderFrame?.url)) {
-        return { ok: false, error: { code: 'invalid-request', message: 'Refused: the request did not come from the Tidewing window.' } };
+        return {
+          ok: false,
+          error: {
+            code: 'invalid-request',
+            message: 'Refused: the request did not come from the Tidewing window.',
+          },
+        };
       }
       return backEnd.dispatch(channel, payload);
     });
@@ -76,7 +87,13 @@ function registerChannels(backEnd: BackEnd): void {
 
 /** File name for the save dialog: letters, digits and hyphens only, ending in .pdf. */
 function safePdfName(suggested: unknown): string {
-  const stem = typeof suggested === 'string' ? suggested.replace(/\.pdf$/i, '').replace(/[^A-Za-z0-9-]+/g, '-').slice(0, 80) : '';
+  const stem =
+    typeof suggested === 'string'
+      ? suggested
+          .replace(/\.pdf$/i, '')
+          .replace(/[^A-Za-z0-9-]+/g, '-')
+          .slice(0, 80)
+      : '';
   return `${stem === '' ? 'tidewing-worksheet' : stem}.pdf`;
 }
 
@@ -86,10 +103,16 @@ function safePdfName(suggested: unknown): string {
  */
 function registerWorksheetPdf(): void {
   ipcMain.handle('tidewing:worksheet-pdf', async (event, suggestedName: unknown) => {
-    if (!isOwnFrame(event.senderFrame?.url)) return { saved: false, error: 'Refused: the request did not come from the Tidewing window.' };
+    if (!isOwnFrame(event.senderFrame?.url))
+      return { saved: false, error: 'Refused: the request did not come from the Tidewing window.' };
     const window = BrowserWindow.fromWebContents(event.sender);
-    const options = { title: 'Save worksheet as PDF', defaultPath: path.join(app.getPath('documents'), safePdfName(suggestedName)), filters: [{ name: 'PDF', extensions: ['pdf'] }] };
-    const choice = window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
+    const options = {
+      title: 'Save worksheet as PDF',
+      defaultPath: path.join(app.getPath('documents'), safePdfName(suggestedName)),
+      filters: [{ name: 'PDF', extensions: ['pdf'] }],
+    };
+    const choice =
+      window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
     if (choice.canceled || choice.filePath === undefined) return { saved: false };
     try {
       const pdf = await event.sender.printToPDF({ preferCSSPageSize: true, printBackground: true });
@@ -141,7 +164,10 @@ async function main(): Promise<void> {
       ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
     });
   } catch (error) {
-    dialog.showErrorBox('Tidewing cannot open its database', error instanceof Error ? error.message : String(error));
+    dialog.showErrorBox(
+      'Tidewing cannot open its database',
+      error instanceof Error ? error.message : String(error),
+    );
     app.exit(1);
     return;
   }

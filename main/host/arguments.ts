@@ -20,7 +20,8 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
     const argument = argv[index];
     const next = () => {
       const value = argv[index + 1];
-      if (value === undefined || value.startsWith('--')) throw new ArgumentError(`${argument} needs a value.`);
+      if (value === undefined || value.startsWith('--'))
+        throw new ArgumentError(`${argument} needs a value.`);
       index += 1;
       return value;
     };
@@ -28,7 +29,10 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
       case '--port': {
         const text = next();
         const value = Number(text);
-        if (!Number.isInteger(value) || value < 0 || value > 65535) throw new ArgumentError(`--port must be a whole number from 0 to 65535 (0 = any free port); got "${text}".`);
+        if (!Number.isInteger(value) || value < 0 || value > 65535)
+          throw new ArgumentError(
+            `--port must be a whole number from 0 to 65535 (0 = any free port); got "${text}".`,
+          );
         port = value;
         break;
       }
@@ -42,7 +46,9 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
         forceBrowser = true;
         break;
       default:
-        throw new ArgumentError(`Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser.`);
+        throw new ArgumentError(
+          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser.`,
+        );
     }
   }
   return { port, dataDirectory, open, forceBrowser };

@@ -43,7 +43,13 @@ function cookieToken(header: string | undefined): string | undefined {
   return undefined;
 }
 
-function send(response: http.ServerResponse, status: number, body: string | Buffer, contentType: string, extra: Record<string, string> = {}): void {
+function send(
+  response: http.ServerResponse,
+  status: number,
+  body: string | Buffer,
+  contentType: string,
+  extra: Record<string, string> = {},
+): void {
   response.writeHead(status, { ...securityHeaders, 'content-type': contentType, ...extra });
   response.end(body);
 }
@@ -88,7 +94,12 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
   async function handle(request: http.IncomingMessage, response: http.ServerResponse): Promise<void> {
     const host = request.headers.host;
     if (host === undefined || !allowedHosts.has(host.toLowerCase())) {
-      send(response, 421, 'This Tidewing host answers only on its loopback address.', 'text/plain; charset=utf-8');
+      send(
+        response,
+        421,
+        'This Tidewing host answers only on its loopback address.',
+        'text/plain; charset=utf-8',
+      );
       return;
     }
     const url = new URL(request.url ?? '/', `http://${host}`);
@@ -100,7 +111,15 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     if (url.pathname.startsWith(bridgePathPrefix)) {
       // Bridge calls need the header: a cookie alone could be replayed by another page.
       if (!sameToken(token, offeredHeader)) {
-        send(response, 403, JSON.stringify({ ok: false, error: { code: 'invalid-request', message: 'Missing or wrong access token.' } }), 'application/json; charset=utf-8');
+        send(
+          response,
+          403,
+          JSON.stringify({
+            ok: false,
+            error: { code: 'invalid-request', message: 'Missing or wrong access token.' },
+          }),
+          'application/json; charset=utf-8',
+        );
         return;
       }
       if (request.method !== 'POST') {
@@ -114,7 +133,15 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
         payload = text === '' ? {} : JSON.parse(text);
       } catch (error) {
         const message = error instanceof Error ? error.message : String(error);
-        send(response, 400, JSON.stringify({ ok: false, error: { code: 'invalid-request', message: `The request body is not valid JSON: ${message}` } }), 'application/json; charset=utf-8');
+        send(
+          response,
+          400,
+          JSON.stringify({
+            ok: false,
+            error: { code: 'invalid-request', message: `The request body is not valid JSON: ${message}` },
+          }),
+          'application/json; charset=utf-8',
+        );
         return;
       }
       const result = await options.dispatch(channel, payload);
@@ -124,7 +151,12 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
 
     const viaQuery = sameToken(token, offeredQuery);
     if (!viaQuery && !sameToken(token, offeredCookie) && !sameToken(token, offeredHeader)) {
-      send(response, 403, 'Access refused: open the full address Tidewing printed, including its token.', 'text/plain; charset=utf-8');
+      send(
+        response,
+        403,
+        'Access refused: open the full address Tidewing printed, including its token.',
+        'text/plain; charset=utf-8',
+      );
       return;
     }
     if (request.method !== 'GET' && request.method !== 'HEAD') {
@@ -136,8 +168,16 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       send(response, 404, 'Not found', 'text/plain; charset=utf-8');
       return;
     }
-    const extra: Record<string, string> = viaQuery ? { 'set-cookie': `${cookieName}=${token}; HttpOnly; SameSite=Strict; Path=/` } : {};
-    send(response, 200, request.method === 'HEAD' ? Buffer.alloc(0) : file.body, contentTypeFor(file.extension), extra);
+    const extra: Record<string, string> = viaQuery
+      ? { 'set-cookie': `${cookieName}=${token}; HttpOnly; SameSite=Strict; Path=/` }
+      : {};
+    send(
+      response,
+      200,
+      request.method === 'HEAD' ? Buffer.alloc(0) : file.body,
+      contentTypeFor(file.extension),
+      extra,
+    );
   }
 
   await new Promise<void>((resolve, reject) => {

@@ -28,7 +28,10 @@ async function main(): Promise<number> {
   let availability = electronAvailability(root, process.env, process.platform, args.forceBrowser);
   if (availability.ok) {
     const electronVersion = installedElectronVersion(root);
-    const native = electronVersion === null ? { ok: false as const, reason: 'the electron package has no version' } : prepareElectronSqlite(root, electronVersion, (message) => process.stdout.write(`${message}\n`));
+    const native =
+      electronVersion === null
+        ? { ok: false as const, reason: 'the electron package has no version' }
+        : prepareElectronSqlite(root, electronVersion, (message) => process.stdout.write(`${message}\n`));
     if (!native.ok) availability = { ok: false, reason: native.reason };
   }
   if (availability.ok) {
@@ -42,7 +45,13 @@ async function main(): Promise<number> {
   const appVersion = readAppVersion(root);
   let backEnd;
   try {
-    backEnd = startBackEnd({ dataDirectory, appVersion, host: 'browser', automaticBackup: true, log: (message) => process.stderr.write(`${message}\n`) });
+    backEnd = startBackEnd({
+      dataDirectory,
+      appVersion,
+      host: 'browser',
+      automaticBackup: true,
+      log: (message) => process.stderr.write(`${message}\n`),
+    });
   } catch (error) {
     process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
@@ -53,7 +62,9 @@ async function main(): Promise<number> {
     dispatch: backEnd.dispatch,
     log: (message) => process.stderr.write(`${message}\n`),
   });
-  process.stdout.write(`Tidewing ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`);
+  process.stdout.write(
+    `Tidewing ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`,
+  );
   process.stdout.write(`Data folder: ${dataDirectory}\n`);
   process.stdout.write(`Open: ${host.url}\n`);
   process.stdout.write(`(ready in ${Math.round(performance.now() - startedAt)} ms; press Ctrl+C to stop)\n`);
@@ -77,7 +88,9 @@ async function main(): Promise<number> {
 main().then(
   (code) => process.exit(code),
   (error: unknown) => {
-    process.stderr.write(`tidewing: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+    process.stderr.write(
+      `tidewing: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`,
+    );
     process.exit(1);
   },
 );

@@ -15,14 +15,23 @@ export function quantile(values: readonly number[], q: number): number {
   return low + (high - low) * (position - lower);
 }
 
-export type Figure = { readonly name: string; readonly value: number; readonly unit: string; readonly note?: string };
+export type Figure = {
+  readonly name: string;
+  readonly value: number;
+  readonly unit: string;
+  readonly note?: string;
+};
 
 /** Prints figures as an aligned table, one per line. */
 export function printFigures(title: string, figures: readonly Figure[]): void {
   process.stdout.write(`\n${title}\n`);
   const width = Math.max(...figures.map((figure) => figure.name.length));
   for (const figure of figures) {
-    const value = Number.isInteger(figure.value) ? String(figure.value) : figure.value.toFixed(figure.value < 1 ? 4 : 2);
-    process.stdout.write(`  ${figure.name.padEnd(width)}  ${value.padStart(10)} ${figure.unit}${figure.note === undefined ? '' : `  (${figure.note})`}\n`);
+    const value = Number.isInteger(figure.value)
+      ? String(figure.value)
+      : figure.value.toFixed(figure.value < 1 ? 4 : 2);
+    process.stdout.write(
+      `  ${figure.name.padEnd(width)}  ${value.padStart(10)} ${figure.unit}${figure.note === undefined ? '' : `  (${figure.note})`}\n`,
+    );
   }
 }

@@ -12,10 +12,21 @@ import { benchClinicSettings } from '../support/clinic-settings.js';
 function timeToUrl(root: string, dataDirectory: string): Promise<number> {
   return new Promise((resolve, reject) => {
     const startedAt = performance.now();
-    const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'host', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory], {
-      env: { ...process.env, CI: 'true', DISPLAY: '' },
-      stdio: ['ignore', 'pipe', 'inherit'],
-    });
+    const child = spawn(
+      process.execPath,
+      [
+        path.join(root, 'build', 'main', 'host', 'start.js'),
+        '--no-open',
+        '--port',
+        '0',
+        '--data',
+        dataDirectory,
+      ],
+      {
+        env: { ...process.env, CI: 'true', DISPLAY: '' },
+        stdio: ['ignore', 'pipe', 'inherit'],
+      },
+    );
     let output = '';
     child.stdout.on('data', (chunk: Buffer) => {
       output += chunk.toString();
@@ -38,9 +49,17 @@ export async function benchFoundation(): Promise<Figure[]> {
     for (let run = 0; run < 7; run += 1) starts.push(await timeToUrl(root, data));
 
     const backEnd = startBackEnd({ dataDirectory: data, appVersion: 'bench', host: 'browser' });
-    const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
+    const host = await startLoopbackHost({
+      port: 0,
+      rendererDirectory: rendererDirectory(root),
+      dispatch: backEnd.dispatch,
+    });
     const call = async (channel: string, body: unknown) => {
-      const response = await fetch(`${host.origin}/api/${channel}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-tidewing-token': host.token }, body: JSON.stringify(body) });
+      const response = await fetch(`${host.origin}/api/${channel}`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-tidewing-token': host.token },
+        body: JSON.stringify(body),
+      });
       const parsed = (await response.json()) as { ok: boolean };
       if (!parsed.ok) throw new Error(`${channel} failed during the benchmark`);
     };
@@ -55,8 +74,18 @@ export async function benchFoundation(): Promise<Figure[]> {
     await host.close();
     backEnd.close();
     return [
-      { name: 'start to URL (median of 7)', value: median(starts), unit: 'ms', note: 'node process spawn to the printed URL' },
-      { name: 'settings save + get round trip (median of 200)', value: median(roundTrips), unit: 'ms', note: 'HTTP bridge, validation, SQLite with synchronous FULL' },
+      {
+        name: 'start to URL (median of 7)',
+        value: median(starts),
+        unit: 'ms',
+        note: 'node process spawn to the printed URL',
+      },
+      {
+        name: 'settings save + get round trip (median of 200)',
+        value: median(roundTrips),
+        unit: 'ms',
+        note: 'HTTP bridge, validation, SQLite with synchronous FULL',
+      },
     ];
   } finally {
     fs.rmSync(data, { recursive: true, force: true });

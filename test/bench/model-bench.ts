@@ -64,7 +64,12 @@ function timeRuns(runs: number, body: () => void): { wallMs: number; cpuMs: numb
  * One-compartment analytic wash-in: F(t) follows each dial step with time constant tau,
  * F = Fstep + (F0 - Fstep) e^{-(t - t0)/tau}, evaluated once per breath.
  */
-function analyticWashin(schedule: readonly ScheduleStep[], tauMin: number, breathMin: number, endMin: number): number {
+function analyticWashin(
+  schedule: readonly ScheduleStep[],
+  tauMin: number,
+  breathMin: number,
+  endMin: number,
+): number {
   let fraction = 0;
   let stepIndex = 0;
   let stepStart = 0;
@@ -93,9 +98,11 @@ export async function benchModel(): Promise<Record<string, number>> {
   let outcome = simulate(setup);
   for (let warm = 0; warm < 30; warm += 1) outcome = simulate(setup);
   const breathMin = 1 / estimates.breathsPerMin.value;
-  const tauMin = (estimates.airSacVolumeMl.value + estimates.lungVolumeMl.value) / estimates.minuteVentilationMlMin.value;
+  const tauMin =
+    (estimates.airSacVolumeMl.value + estimates.lungVolumeMl.value) / estimates.minuteVentilationMlMin.value;
   let sink = 0;
-  for (let warm = 0; warm < 30; warm += 1) sink += analyticWashin(benchPlan.schedule, tauMin, breathMin, setup.endMin);
+  for (let warm = 0; warm < 30; warm += 1)
+    sink += analyticWashin(benchPlan.schedule, tauMin, breathMin, setup.endMin);
   // The 2-h plan and the analytic wash-in in alternating batches, so that both see the same
   // moments of this shared machine (its speed drifts by up to 2x from second to second); the
   // ratio is taken batch by batch and the spread of the batch medians is reported with them.
@@ -114,10 +121,22 @@ export async function benchModel(): Promise<Record<string, number>> {
     );
   }
   const planBatchMs = planBatches.map((batch) => batch.wallMs);
-  const plan2hMedianMs = { wallMs: median(planBatchMs), cpuMs: median(planBatches.map((batch) => batch.cpuMs)) };
+  const plan2hMedianMs = {
+    wallMs: median(planBatchMs),
+    cpuMs: median(planBatches.map((batch) => batch.cpuMs)),
+  };
   const analyticWashinMedianMs = { wallMs: median(analyticBatches.map((batch) => batch.wallMs)) };
-  const planToAnalyticRatio = median(planBatches.map((batch, index) => batch.wallMs / (analyticBatches[index]?.wallMs ?? Number.NaN)));
-  const uncertaintyInput = { setup, outcome, macSdPct: null, samples: 500, seed: 1, bloodGasRange: agents.isoflurane.bloodGasRange };
+  const planToAnalyticRatio = median(
+    planBatches.map((batch, index) => batch.wallMs / (analyticBatches[index]?.wallMs ?? Number.NaN)),
+  );
+  const uncertaintyInput = {
+    setup,
+    outcome,
+    macSdPct: null,
+    samples: 500,
+    seed: 1,
+    bloodGasRange: agents.isoflurane.bloodGasRange,
+  };
   for (let warm = 0; warm < 3; warm += 1) runUncertainty(uncertaintyInput);
   const uncertainty500MedianMs = timeRuns(15, () => {
     runUncertainty(uncertaintyInput);
@@ -129,7 +148,8 @@ export async function benchModel(): Promise<Record<string, number>> {
     runUncertainty(withBand);
   });
   const analytic500MedianMs = timeRuns(15, () => {
-    for (let run = 0; run < 500; run += 1) sink += analyticWashin(benchPlan.schedule, tauMin * (1 + run / 5000), breathMin, setup.endMin);
+    for (let run = 0; run < 500; run += 1)
+      sink += analyticWashin(benchPlan.schedule, tauMin * (1 + run / 5000), breathMin, setup.endMin);
   });
   computePlan(benchPlan, { species: speciesReference });
   const computePlanMedianMs = timeRuns(10, () => {

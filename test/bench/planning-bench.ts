@@ -40,10 +40,22 @@ const armRedrawTimer = `
 export async function benchPlanningScreen(): Promise<Figure[]> {
   const root = findProjectRoot();
   const executablePath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-  if (!fs.existsSync(executablePath)) return [{ name: 'keystroke to redrawn chart', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` }];
+  if (!fs.existsSync(executablePath))
+    return [
+      {
+        name: 'keystroke to redrawn chart',
+        value: Number.NaN,
+        unit: 'ms',
+        note: `no Chromium at ${executablePath}`,
+      },
+    ];
   const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-bench-planning-'));
   const backEnd = startBackEnd({ dataDirectory: folder, appVersion: readAppVersion(root), host: 'browser' });
-  const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
+  const host = await startLoopbackHost({
+    port: 0,
+    rendererDirectory: rendererDirectory(root),
+    dispatch: backEnd.dispatch,
+  });
   const browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
   try {
     await backEnd.dispatch('safety:acknowledge', { acknowledgedBy: 'BE', accepted: true });
@@ -54,7 +66,10 @@ export async function benchPlanningScreen(): Promise<Figure[]> {
     await page.goto(`${host.origin}/#/plans/new`);
     await page.getByLabel(/^Body mass/).fill('32');
     await page.getByLabel('Species').selectOption('budgerigar');
-    await page.getByText(/5th-95th percentile: \d/).first().waitFor({ timeout: 60_000 });
+    await page
+      .getByText(/5th-95th percentile: \d/)
+      .first()
+      .waitFor({ timeout: 60_000 });
     const dial = page.getByLabel(/^Induction dial/);
     const timings: number[] = [];
     for (let index = 0; index < keystrokes; index += 1) {
@@ -67,7 +82,12 @@ export async function benchPlanningScreen(): Promise<Figure[]> {
       if (Number.isFinite(elapsed)) timings.push(elapsed);
     }
     return [
-      { name: `keystroke to redrawn chart, median of ${timings.length}`, value: median(timings), unit: 'ms', note: 'quick breath-resolved run during the render; the uncertainty run in a Web Worker after typing pauses' },
+      {
+        name: `keystroke to redrawn chart, median of ${timings.length}`,
+        value: median(timings),
+        unit: 'ms',
+        note: 'quick breath-resolved run during the render; the uncertainty run in a Web Worker after typing pauses',
+      },
       { name: 'keystroke to redrawn chart, 90th percentile', value: quantile(timings, 0.9), unit: 'ms' },
       { name: 'keystrokes without a redraw within 5 s', value: keystrokes - timings.length, unit: '' },
     ];

@@ -15,8 +15,45 @@ const entryWrites = 400;
 const patientCount = 50_000;
 const searchRepeats = 40;
 
-const syllables = ['ki', 'wi', 'pe', 'ro', 'sa', 'mu', 'lo', 'ta', 'bi', 'zu', 'ne', 'po', 'ri', 'ca', 'do', 'fe', 'ga', 'ho', 'ju', 'ly'];
-const speciesKeys = ['zebrafinch', 'canary', 'budgerigar', 'lovebird', 'cockatiel', 'sunconure', 'africangrey', 'amazon', 'macaw', 'cockatoo', 'pigeon', 'chicken', 'duck', 'harrishawk', 'barnowl'];
+const syllables = [
+  'ki',
+  'wi',
+  'pe',
+  'ro',
+  'sa',
+  'mu',
+  'lo',
+  'ta',
+  'bi',
+  'zu',
+  'ne',
+  'po',
+  'ri',
+  'ca',
+  'do',
+  'fe',
+  'ga',
+  'ho',
+  'ju',
+  'ly',
+];
+const speciesKeys = [
+  'zebrafinch',
+  'canary',
+  'budgerigar',
+  'lovebird',
+  'cockatiel',
+  'sunconure',
+  'africangrey',
+  'amazon',
+  'macaw',
+  'cockatoo',
+  'pigeon',
+  'chicken',
+  'duck',
+  'harrishawk',
+  'barnowl',
+];
 
 function generatedPatient(random: () => number, index: number): PatientValues {
   const pick = <T>(list: readonly T[]): T => list[Math.floor(random() * list.length)] as T;
@@ -68,7 +105,11 @@ export async function benchRecords(): Promise<Figure[]> {
     const at = new Date(Date.UTC(2026, 0, 1, 9, 0, 0));
 
     const first = patients.create(generatedPatient(seededRandom(1), 0), meta, at);
-    const recordId = Number(db.prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)').run(first.id, at.toISOString()).lastInsertRowid);
+    const recordId = Number(
+      db
+        .prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)')
+        .run(first.id, at.toISOString()).lastInsertRowid,
+    );
     const raw = db.prepare(
       `INSERT INTO procedure_entries (record_id, corrects_id, voided, at, kind, vapor_pct, oxygen_lpm, heart_rate_per_min, breaths_per_min,
          temperature_c, etco2_mmhg, spo2_pct, event_type, event_note, drug_name, drug_dose, entered_at, entered_by, reason)
@@ -125,7 +166,12 @@ export async function benchRecords(): Promise<Figure[]> {
         times.push(performance.now() - startedAt);
       }
       allSearches.push(...times.slice(3));
-      searchFigures.push({ name: `patient search: ${label}, median`, value: median(times.slice(3)), unit: 'ms', note: `${patientCount} patients, "${query}", ${found} shown (limit 50)` });
+      searchFigures.push({
+        name: `patient search: ${label}, median`,
+        value: median(times.slice(3)),
+        unit: 'ms',
+        note: `${patientCount} patients, "${query}", ${found} shown (limit 50)`,
+      });
     }
 
     const backupStartedAt = performance.now();
@@ -143,17 +189,45 @@ export async function benchRecords(): Promise<Figure[]> {
     const repositoryMedian = median(throughRepository);
     const rawMedian = median(rawInsert);
     return [
-      { name: `procedure entry write via repository, median of ${entryWrites}`, value: repositoryMedian, unit: 'ms', note: 'WAL, synchronous FULL: one fsync per entry' },
-      { name: 'procedure entry write via repository, p99', value: quantile(throughRepository, 0.99), unit: 'ms' },
-      { name: `raw prepared INSERT, median of ${entryWrites}`, value: rawMedian, unit: 'ms', note: 'same row, same connection, interleaved' },
+      {
+        name: `procedure entry write via repository, median of ${entryWrites}`,
+        value: repositoryMedian,
+        unit: 'ms',
+        note: 'WAL, synchronous FULL: one fsync per entry',
+      },
+      {
+        name: 'procedure entry write via repository, p99',
+        value: quantile(throughRepository, 0.99),
+        unit: 'ms',
+      },
+      {
+        name: `raw prepared INSERT, median of ${entryWrites}`,
+        value: rawMedian,
+        unit: 'ms',
+        note: 'same row, same connection, interleaved',
+      },
       { name: 'raw prepared INSERT, p99', value: quantile(rawInsert, 0.99), unit: 'ms' },
-      { name: 'entry write ratio repository / raw (medians)', value: repositoryMedian / rawMedian, unit: 'x' },
+      {
+        name: 'entry write ratio repository / raw (medians)',
+        value: repositoryMedian / rawMedian,
+        unit: 'x',
+      },
       { name: `generate ${patientCount} patients (one transaction)`, value: generateMs, unit: 'ms' },
       ...searchFigures,
       { name: 'patient search, p99 over all queries', value: quantile(allSearches, 0.99), unit: 'ms' },
       { name: 'database size with 50,000 patients', value: backup.sizeBytes / (1024 * 1024), unit: 'MB' },
-      { name: 'online backup of that database', value: backupMs, unit: 'ms', note: 'SQLite backup API, no verify' },
-      { name: 'integrity_check of that database', value: checkMs, unit: 'ms', note: 'checkDatabaseFile, full' },
+      {
+        name: 'online backup of that database',
+        value: backupMs,
+        unit: 'ms',
+        note: 'SQLite backup API, no verify',
+      },
+      {
+        name: 'integrity_check of that database',
+        value: checkMs,
+        unit: 'ms',
+        note: 'checkDatabaseFile, full',
+      },
       { name: 'quick_check of that database', value: quickMs, unit: 'ms', note: 'checkDatabaseFile, quick' },
     ];
   } finally {

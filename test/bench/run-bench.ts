@@ -13,14 +13,23 @@ async function main(): Promise<void> {
     'Model (targets: 2-h plan <= 1 ms, 500-sample uncertainty <= 50 ms)',
     Object.entries(model)
       .filter(([name]) => name !== 'analyticChecksum')
-      .map(([name, value]) => ({ name, value, unit: /Ms$/.test(name) ? 'ms' : /Ratio$/.test(name) ? 'x' : '' })),
+      .map(([name, value]) => ({
+        name,
+        value,
+        unit: /Ms$/.test(name) ? 'ms' : /Ratio$/.test(name) ? 'x' : '',
+      })),
   );
   printFigures('Records', await benchRecords());
-  printFigures('Planning screen (target: keystroke to redrawn chart within one 16.7 ms frame)', await benchPlanningScreen());
+  printFigures(
+    'Planning screen (target: keystroke to redrawn chart within one 16.7 ms frame)',
+    await benchPlanningScreen(),
+  );
   printFigures('Worksheet (target: PDF under 2 s)', await benchWorksheet());
 }
 
 main().catch((error: unknown) => {
-  process.stderr.write(`bench failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+  process.stderr.write(
+    `bench failed: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`,
+  );
   process.exitCode = 1;
 });

@@ -29,10 +29,25 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
     await call('settings:save', benchClinicSettings);
     // Neutral placeholders: Tidewing ships no drug and no dose.
     for (const name of ['Bench drug A', 'Bench drug B']) {
-      await call('drugs:add', { values: { name, concentrationMgPerMl: 1, doseLowMgPerKg: 1, doseHighMgPerKg: 2, route: 'IV', doseSource: 'bench placeholder' }, meta: { enteredBy: 'BE' } });
+      await call('drugs:add', {
+        values: {
+          name,
+          concentrationMgPerMl: 1,
+          doseLowMgPerKg: 1,
+          doseHighMgPerKg: 2,
+          route: 'IV',
+          doseSource: 'bench placeholder',
+        },
+        meta: { enteredBy: 'BE' },
+      });
     }
-    const input = JSON.parse(fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8')) as unknown;
-    const saved = await call('plans:save', { fields: { patientId: null, plannedFor: '2026-12-02', label: '', input, checklist: { asaGrade: 2 } }, meta: { enteredBy: 'BE' } });
+    const input = JSON.parse(
+      fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
+    ) as unknown;
+    const saved = await call('plans:save', {
+      fields: { patientId: null, plannedFor: '2026-12-02', label: '', input, checklist: { asaGrade: 2 } },
+      meta: { enteredBy: 'BE' },
+    });
     return { folder, planId: saved.id };
   } finally {
     backEnd.close();
@@ -47,7 +62,10 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
 export async function benchWorksheet(): Promise<Figure[]> {
   const root = findProjectRoot();
   const executablePath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-  if (!fs.existsSync(executablePath)) return [{ name: 'worksheet PDF', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` }];
+  if (!fs.existsSync(executablePath))
+    return [
+      { name: 'worksheet PDF', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` },
+    ];
   const data = await preparedData(root);
   const out = path.join(data.folder, 'bench.pdf');
   try {
@@ -56,8 +74,11 @@ export async function benchWorksheet(): Promise<Figure[]> {
     for (let index = 0; index < runs; index += 1) {
       // As a user runs it: a new Node process, Chromium started from nothing, exit when done.
       const started = performance.now();
-      const run = spawnSync(process.execPath, [path.join(root, 'bin', 'tidewing.js'), ...args], { encoding: 'utf8' });
-      if (run.status !== 0) throw new Error(`tidewing worksheet exited with ${String(run.status)}: ${run.stderr}`);
+      const run = spawnSync(process.execPath, [path.join(root, 'bin', 'tidewing.js'), ...args], {
+        encoding: 'utf8',
+      });
+      if (run.status !== 0)
+        throw new Error(`tidewing worksheet exited with ${String(run.status)}: ${run.stderr}`);
       cold.push(performance.now() - started);
     }
     const whole: number[] = [];
@@ -68,8 +89,16 @@ export async function benchWorksheet(): Promise<Figure[]> {
       whole.push(performance.now() - started);
     }
 
-    const backEnd = startBackEnd({ dataDirectory: data.folder, appVersion: readAppVersion(root), host: 'browser' });
-    const host = await startLoopbackHost({ port: 0, rendererDirectory: rendererDirectory(root), dispatch: backEnd.dispatch });
+    const backEnd = startBackEnd({
+      dataDirectory: data.folder,
+      appVersion: readAppVersion(root),
+      host: 'browser',
+    });
+    const host = await startLoopbackHost({
+      port: 0,
+      rendererDirectory: rendererDirectory(root),
+      dispatch: backEnd.dispatch,
+    });
     const browser = await chromium.launch({ executablePath, headless: true, args: [...chromiumArguments] });
     const warm: number[] = [];
     try {
@@ -91,9 +120,24 @@ export async function benchWorksheet(): Promise<Figure[]> {
       backEnd.close();
     }
     return [
-      { name: 'worksheet PDF, cold `tidewing worksheet` process', value: median(cold), unit: 'ms', note: `median of ${runs}, target < 2000 ms; from starting Node to its exit, Chromium started from nothing` },
-      { name: 'worksheet PDF, whole command in process', value: median(whole), unit: 'ms', note: `median of ${runs}, target < 2000 ms; database, host, Chromium start, page, PDF, Chromium stop` },
-      { name: 'worksheet PDF, page to PDF (Chromium running)', value: median(warm), unit: 'ms', note: `median of ${runs}, target < 2000 ms` },
+      {
+        name: 'worksheet PDF, cold `tidewing worksheet` process',
+        value: median(cold),
+        unit: 'ms',
+        note: `median of ${runs}, target < 2000 ms; from starting Node to its exit, Chromium started from nothing`,
+      },
+      {
+        name: 'worksheet PDF, whole command in process',
+        value: median(whole),
+        unit: 'ms',
+        note: `median of ${runs}, target < 2000 ms; database, host, Chromium start, page, PDF, Chromium stop`,
+      },
+      {
+        name: 'worksheet PDF, page to PDF (Chromium running)',
+        value: median(warm),
+        unit: 'ms',
+        note: `median of ${runs}, target < 2000 ms`,
+      },
     ];
   } finally {
     fs.rmSync(data.folder, { recursive: true, force: true });

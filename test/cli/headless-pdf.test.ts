@@ -40,7 +40,13 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
     const folder = scratch();
     const html = `<style>@page { size: A4; margin: 10mm; }</style><h1>Heron Lane test sheet</h1>
       <script>setTimeout(() => { const p = document.createElement('p'); p.className = 'drawn'; p.textContent = 'Drawn later'; document.body.append(p); }, 150);</script>`;
-    const pdf = await printPageToPdf({ executablePath: chromiumPath, url: page(html), readySelector: '.drawn', timeoutMs: 20_000, scratchDirectory: folder });
+    const pdf = await printPageToPdf({
+      executablePath: chromiumPath,
+      url: page(html),
+      readySelector: '.drawn',
+      timeoutMs: 20_000,
+      scratchDirectory: folder,
+    });
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
     const file = `${folder}-sheet.pdf`;
     cleanups.push(() => fs.rmSync(file, { force: true }));
@@ -50,14 +56,22 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
     expect(text).toContain('Heron Lane test sheet');
     expect(text).toContain('Drawn later');
     // A4 from the page's own @page rule: 595 x 842 pt.
-    expect(execFileSync('pdfinfo', [file], { encoding: 'utf8' })).toMatch(/Page size:\s+59[45](\.\d+)? x 84[12](\.\d+)? pts \(A4\)/);
+    expect(execFileSync('pdfinfo', [file], { encoding: 'utf8' })).toMatch(
+      /Page size:\s+59[45](\.\d+)? x 84[12](\.\d+)? pts \(A4\)/,
+    );
     expectCleanedUp(folder);
   }, 60_000);
 
   it('reports the page’s alerts and script errors when the ready mark never appears', async () => {
     const folder = scratch();
     const html = `<p role="alert">There is no plan 41.</p><script>setTimeout(() => { throw new Error('drawing failed'); }, 1500);</script>`;
-    const failure = await printPageToPdf({ executablePath: chromiumPath, url: page(html), readySelector: '.never', timeoutMs: 5000, scratchDirectory: folder }).then(
+    const failure = await printPageToPdf({
+      executablePath: chromiumPath,
+      url: page(html),
+      readySelector: '.never',
+      timeoutMs: 5000,
+      scratchDirectory: folder,
+    }).then(
       () => null,
       (error: unknown) => error,
     );
@@ -73,9 +87,16 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
     const stop = new AbortController();
     setTimeout(() => stop.abort(new Error('the plan was not found')), 200);
     const started = Date.now();
-    await expect(printPageToPdf({ executablePath: chromiumPath, url: page('<p>never ready</p>'), readySelector: '.never', timeoutMs: 20_000, scratchDirectory: folder, signal: stop.signal })).rejects.toThrow(
-      'the plan was not found',
-    );
+    await expect(
+      printPageToPdf({
+        executablePath: chromiumPath,
+        url: page('<p>never ready</p>'),
+        readySelector: '.never',
+        timeoutMs: 20_000,
+        scratchDirectory: folder,
+        signal: stop.signal,
+      }),
+    ).rejects.toThrow('the plan was not found');
     // Well before the 20 s timeout.
     expect(Date.now() - started).toBeLessThan(10_000);
     expectCleanedUp(folder);
@@ -88,11 +109,14 @@ describe.runIf(hasChromium && fs.existsSync(compiled))('headless print interrupt
     const script = `const { printPageToPdf } = await import(${JSON.stringify(new URL(`file://${compiled}`).href)});
       await printPageToPdf({ executablePath: ${JSON.stringify(chromiumPath)}, url: 'data:text/html,<p>never ready</p>', readySelector: '.never', timeoutMs: 60000, scratchDirectory: ${JSON.stringify(folder)} });`;
     const child = spawn(process.execPath, ['--input-type=module', '-e', script], { stdio: 'ignore' });
-    const ended = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.once('exit', (code, signal) => resolve({ code, signal })));
+    const ended = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) =>
+      child.once('exit', (code, signal) => resolve({ code, signal })),
+    );
     // Wait until Chromium is running with its profile in the folder, then interrupt.
     const chromiumRunning = () => processesUsing(`--user-data-dir=${folder}`).length > 0;
     const deadline = Date.now() + 20_000;
-    while (!chromiumRunning() && Date.now() < deadline) await new Promise((resolve) => setTimeout(resolve, 50));
+    while (!chromiumRunning() && Date.now() < deadline)
+      await new Promise((resolve) => setTimeout(resolve, 50));
     expect(chromiumRunning()).toBe(true);
     expect(fs.readdirSync(folder)).toHaveLength(1);
     child.kill('SIGINT');
@@ -105,13 +129,29 @@ describe.runIf(hasChromium && fs.existsSync(compiled))('headless print interrupt
 describe('headless print with a browser that does not start', () => {
   it('rejects with the exit of the program instead of waiting', async () => {
     const folder = scratch();
-    await expect(printPageToPdf({ executablePath: '/bin/false', url: page('<p>x</p>'), readySelector: 'p', timeoutMs: 20_000, scratchDirectory: folder })).rejects.toThrow(/Chromium stopped \(exit code 1\)/);
+    await expect(
+      printPageToPdf({
+        executablePath: '/bin/false',
+        url: page('<p>x</p>'),
+        readySelector: 'p',
+        timeoutMs: 20_000,
+        scratchDirectory: folder,
+      }),
+    ).rejects.toThrow(/Chromium stopped \(exit code 1\)/);
     expect(fs.readdirSync(folder)).toEqual([]);
   });
 
   it('rejects when the program does not exist', async () => {
     const folder = scratch();
-    await expect(printPageToPdf({ executablePath: `${folder}/no-such-browser`, url: page('<p>x</p>'), readySelector: 'p', timeoutMs: 20_000, scratchDirectory: folder })).rejects.toThrow(/Chromium could not be started|Chromium stopped/);
+    await expect(
+      printPageToPdf({
+        executablePath: `${folder}/no-such-browser`,
+        url: page('<p>x</p>'),
+        readySelector: 'p',
+        timeoutMs: 20_000,
+        scratchDirectory: folder,
+      }),
+    ).rejects.toThrow(/Chromium could not be started|Chromium stopped/);
     expect(fs.readdirSync(folder)).toEqual([]);
   });
 });

@@ -54,7 +54,13 @@ describe('tidewing plan', () => {
     expect(stderr).toContain('not valid JSON');
   });
   it('exits 2 on a schema failure, naming each bad field and why', async () => {
-    const plan = JSON.stringify({ bodyMassG: 2, agent: 'halothane', route: 'chamber', freshGasLpm: 1, schedule: [{ atMin: 0, vaporPct: 4 }] });
+    const plan = JSON.stringify({
+      bodyMassG: 2,
+      agent: 'halothane',
+      route: 'chamber',
+      freshGasLpm: 1,
+      schedule: [{ atMin: 0, vaporPct: 4 }],
+    });
     const { code, stdout, stderr } = await run(['plan.json'], '', { 'plan.json': plan });
     expect(code).toBe(2);
     expect(stdout).toBe('');

@@ -8,7 +8,13 @@ import { parseArguments, progressPrinter, UsageError } from '../../main/cli/comm
 import { runExportCommand } from '../../main/cli/export-command.js';
 import { runRestoreCommand } from '../../main/cli/restore-command.js';
 import { runCli } from '../../main/cli/cli.js';
-import { damageMiddlePages, entryIdsIn, fixtureWithEntries, listing, sha256 } from '../db/support/record-fixture.js';
+import {
+  damageMiddlePages,
+  entryIdsIn,
+  fixtureWithEntries,
+  listing,
+  sha256,
+} from '../db/support/record-fixture.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => void)[] = [];
@@ -20,7 +26,11 @@ afterEach(() => {
 function captured() {
   const out: string[] = [];
   const err: string[] = [];
-  return { io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) }, stdout: () => out.join(''), stderr: () => err.join('') };
+  return {
+    io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) },
+    stdout: () => out.join(''),
+    stderr: () => err.join(''),
+  };
 }
 
 function dataFolder(entries: number) {
@@ -48,7 +58,12 @@ describe('tidewing backup', () => {
 
   it('exits 2 with the usage when --out is missing or an option is unknown', async () => {
     const data = dataFolder(1);
-    for (const args of [['--data', data.folder], ['--data', data.folder, '--out', 'x.db', '--force'], ['--data', data.folder, '--out'], ['--data', data.folder, '--out', 'a.db', 'extra']]) {
+    for (const args of [
+      ['--data', data.folder],
+      ['--data', data.folder, '--out', 'x.db', '--force'],
+      ['--data', data.folder, '--out'],
+      ['--data', data.folder, '--out', 'a.db', 'extra'],
+    ]) {
       const run = captured();
       expect(await runBackupCommand(args, run.io), args.join(' ')).toBe(2);
       expect(run.stderr()).toContain('Usage: tidewing backup');
@@ -84,7 +99,9 @@ describe('tidewing restore', () => {
     const at = new Date(Date.UTC(2026, 4, 6, 7, 8, 9, 10));
     expect(await runRestoreCommand([backup, '--data', live.folder], run.io, () => at)).toBe(0);
     expect(entryIdsIn(live.databaseFile)).toEqual(source.entryIds);
-    expect(run.stdout()).toContain(`kept at ${path.join(live.folder, 'tidewing.db.replaced-2026-05-06T07-08-09.010Z')}`);
+    expect(run.stdout()).toContain(
+      `kept at ${path.join(live.folder, 'tidewing.db.replaced-2026-05-06T07-08-09.010Z')}`,
+    );
     expect(run.stdout()).toContain('Check after restore:');
     expect(run.stderr()).toContain('restore: 100%');
   });
@@ -105,7 +122,10 @@ describe('tidewing restore', () => {
 
   it('exits 2 without a FILE or with two', async () => {
     const live = dataFolder(1);
-    for (const args of [['--data', live.folder], ['a.db', 'b.db', '--data', live.folder]]) {
+    for (const args of [
+      ['--data', live.folder],
+      ['a.db', 'b.db', '--data', live.folder],
+    ]) {
       const run = captured();
       expect(await runRestoreCommand(args, run.io)).toBe(2);
       expect(run.stderr()).toContain('Usage: tidewing restore');
@@ -173,7 +193,9 @@ describe('tidewing export', () => {
     damageMiddlePages(data.databaseFile);
     const folder = scratch();
     const run = captured();
-    expect(await runExportCommand(['--data', data.folder, '--out', path.join(folder, 'archive.json')], run.io)).toBe(1);
+    expect(
+      await runExportCommand(['--data', data.folder, '--out', path.join(folder, 'archive.json')], run.io),
+    ).toBe(1);
     expect(run.stderr()).toContain('damaged');
     expect(listing(folder)).toEqual([]);
   });
@@ -182,21 +204,32 @@ describe('tidewing export', () => {
 describe('the command line', () => {
   it('knows backup, restore, check and export', async () => {
     const written: string[] = [];
-    vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => written.push(String(chunk)) > 0);
-    vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => written.push(String(chunk)) > 0);
+    vi.spyOn(process.stdout, 'write').mockImplementation(
+      (chunk: string | Uint8Array) => written.push(String(chunk)) > 0,
+    );
+    vi.spyOn(process.stderr, 'write').mockImplementation(
+      (chunk: string | Uint8Array) => written.push(String(chunk)) > 0,
+    );
     expect(await runCli(['--help'])).toBe(0);
-    for (const name of ['backup', 'restore', 'check', 'export']) expect(written.join('')).toContain(`tidewing ${name}`);
+    for (const name of ['backup', 'restore', 'check', 'export'])
+      expect(written.join('')).toContain(`tidewing ${name}`);
     const data = dataFolder(1);
     expect(await runCli(['check', '--data', data.folder])).toBe(0);
     expect(await runCli(['backup', '--data', data.folder])).toBe(2);
   });
 
   it('parses --name value and --name=value, and refuses repeats', () => {
-    const parsed = parseArguments(['file.db', '--data=/tmp/a', '--quick'], { valueOptions: ['--data'], flagOptions: ['--quick'], maxPositionals: 1 });
+    const parsed = parseArguments(['file.db', '--data=/tmp/a', '--quick'], {
+      valueOptions: ['--data'],
+      flagOptions: ['--quick'],
+      maxPositionals: 1,
+    });
     expect(parsed.values.get('--data')).toBe('/tmp/a');
     expect(parsed.flags.has('--quick')).toBe(true);
     expect(parsed.positionals).toEqual(['file.db']);
-    expect(() => parseArguments(['--data', 'a', '--data', 'b'], { valueOptions: ['--data'], maxPositionals: 0 })).toThrow(UsageError);
+    expect(() =>
+      parseArguments(['--data', 'a', '--data', 'b'], { valueOptions: ['--data'], maxPositionals: 0 }),
+    ).toThrow(UsageError);
   });
 
   it('prints each tenth of progress once, in order', () => {

@@ -13,14 +13,21 @@ const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 
 const root = findProjectRoot();
-const pipInput = JSON.parse(fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8')) as unknown;
+const pipInput = JSON.parse(
+  fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
+) as unknown;
 const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-const canRender = fs.existsSync(chromiumPath) && fs.existsSync(path.join(root, 'build', 'renderer', 'index.html'));
+const canRender =
+  fs.existsSync(chromiumPath) && fs.existsSync(path.join(root, 'build', 'renderer', 'index.html'));
 
 function captured() {
   const out: string[] = [];
   const err: string[] = [];
-  return { io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) }, stdout: () => out.join(''), stderr: () => err.join('') };
+  return {
+    io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) },
+    stdout: () => out.join(''),
+    stderr: () => err.join(''),
+  };
 }
 
 function scratch(): string {
@@ -30,9 +37,15 @@ function scratch(): string {
 }
 
 /** A data folder with one saved plan; cautions acknowledged and settings saved unless asked not to. */
-async function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{ folder: string; planId: number }> {
+async function dataWithPlan(
+  options: { acknowledged?: boolean } = {},
+): Promise<{ folder: string; planId: number }> {
   const folder = scratch();
-  const backEnd = startBackEnd({ dataDirectory: folder, appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string, host: 'browser' });
+  const backEnd = startBackEnd({
+    dataDirectory: folder,
+    appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string,
+    host: 'browser',
+  });
   try {
     const call = async (channel: string, payload: unknown) => {
       const answer = await backEnd.dispatch(channel, payload);
@@ -44,7 +57,10 @@ async function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{
       await call('settings:save', heronLaneSettings);
     }
     const checklist = { asaGrade: 2, items: {} };
-    const saved = await call('plans:save', { fields: { patientId: null, plannedFor: '2026-12-02', label: '', input: pipInput, checklist }, meta: { enteredBy: 'RW' } });
+    const saved = await call('plans:save', {
+      fields: { patientId: null, plannedFor: '2026-12-02', label: '', input: pipInput, checklist },
+      meta: { enteredBy: 'RW' },
+    });
     return { folder, planId: saved.id };
   } finally {
     backEnd.close();
@@ -53,7 +69,15 @@ async function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{
 
 describe('tidewing worksheet', () => {
   it('exits 2 with the usage for missing, malformed or unknown arguments', async () => {
-    for (const args of [[], ['--plan', '1'], ['--out', 'a.pdf'], ['--plan', 'x', '--out', 'a.pdf'], ['--plan', '0', '--out', 'a.pdf'], ['--plan', '1', '--out', 'a.txt'], ['--plan', '1', '--out', 'a.pdf', '--colour']]) {
+    for (const args of [
+      [],
+      ['--plan', '1'],
+      ['--out', 'a.pdf'],
+      ['--plan', 'x', '--out', 'a.pdf'],
+      ['--plan', '0', '--out', 'a.pdf'],
+      ['--plan', '1', '--out', 'a.txt'],
+      ['--plan', '1', '--out', 'a.pdf', '--colour'],
+    ]) {
       const run = captured();
       expect(await runWorksheetCommand(args, run.io), args.join(' ')).toBe(2);
       expect(run.stderr()).toContain('Usage: tidewing worksheet');
@@ -76,7 +100,12 @@ describe('tidewing worksheet', () => {
     newer.close();
     const before = fs.readFileSync(file);
     const run = captured();
-    expect(await runWorksheetCommand(['--plan', '1', '--data', folder, '--out', path.join(scratch(), 'sheet.pdf')], run.io)).toBe(1);
+    expect(
+      await runWorksheetCommand(
+        ['--plan', '1', '--data', folder, '--out', path.join(scratch(), 'sheet.pdf')],
+        run.io,
+      ),
+    ).toBe(1);
     expect(run.stderr()).toMatch(/written by a newer version of Tidewing/);
     expect(fs.readFileSync(file).equals(before)).toBe(true);
   });
@@ -85,7 +114,12 @@ describe('tidewing worksheet', () => {
     const data = await dataWithPlan();
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
-    expect(await runWorksheetCommand(['--plan', String(data.planId + 40), '--data', data.folder, '--out', out], run.io)).toBe(1);
+    expect(
+      await runWorksheetCommand(
+        ['--plan', String(data.planId + 40), '--data', data.folder, '--out', out],
+        run.io,
+      ),
+    ).toBe(1);
     expect(run.stderr()).toContain(`there is no plan ${data.planId + 40}`);
     expect(fs.existsSync(out)).toBe(false);
   });
@@ -94,7 +128,9 @@ describe('tidewing worksheet', () => {
     const data = await dataWithPlan({ acknowledged: false });
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
-    expect(await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], run.io)).toBe(1);
+    expect(
+      await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], run.io),
+    ).toBe(1);
     expect(run.stderr()).toMatch(/have not been acknowledged in this database yet\. Open the app/);
     expect(fs.existsSync(out)).toBe(false);
   });
@@ -103,25 +139,38 @@ describe('tidewing worksheet', () => {
     const data = await dataWithPlan();
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
-    const code = await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], run.io, { env: { CHROMIUM_PATH: path.join(scratch(), 'no-chromium') } });
+    const code = await runWorksheetCommand(
+      ['--plan', String(data.planId), '--data', data.folder, '--out', out],
+      run.io,
+      { env: { CHROMIUM_PATH: path.join(scratch(), 'no-chromium') } },
+    );
     expect(code).toBe(1);
     expect(run.stderr()).toMatch(/no Chromium found at .*apt-get install chromium.*CHROMIUM_PATH/);
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it.runIf(canRender)('writes a PDF of the worksheet with the patient, the clinic and the predicted times', async () => {
-    const data = await dataWithPlan();
-    const run = captured();
-    const out = path.join(scratch(), 'pip.pdf');
-    expect(await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], run.io)).toBe(0);
-    expect(run.stdout()).toContain(`Wrote the worksheet of plan ${data.planId} to ${out}`);
-    expect(fs.readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
-    const text = execFileSync('pdftotext', ['-layout', out, '-'], { encoding: 'utf8' });
-    expect(text).toContain('Heron Lane Bird Clinic');
-    expect(text).toContain('Pip');
-    expect(text).toContain('32 g');
-    expect(text).toMatch(/Predicted induction/);
-    expect(text).toMatch(/NIOSH 1977/);
-    expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
-  }, 60_000);
+  it.runIf(canRender)(
+    'writes a PDF of the worksheet with the patient, the clinic and the predicted times',
+    async () => {
+      const data = await dataWithPlan();
+      const run = captured();
+      const out = path.join(scratch(), 'pip.pdf');
+      expect(
+        await runWorksheetCommand(
+          ['--plan', String(data.planId), '--data', data.folder, '--out', out],
+          run.io,
+        ),
+      ).toBe(0);
+      expect(run.stdout()).toContain(`Wrote the worksheet of plan ${data.planId} to ${out}`);
+      expect(fs.readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
+      const text = execFileSync('pdftotext', ['-layout', out, '-'], { encoding: 'utf8' });
+      expect(text).toContain('Heron Lane Bird Clinic');
+      expect(text).toContain('Pip');
+      expect(text).toContain('32 g');
+      expect(text).toMatch(/Predicted induction/);
+      expect(text).toMatch(/NIOSH 1977/);
+      expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
+    },
+    60_000,
+  );
 });

@@ -76,7 +76,9 @@ describe('agent and dial', () => {
   });
 
   it('uses a saturated concentration given in the context', () => {
-    expect(codes({ agent: 'isoflurane', highestDialPct: 5, saturatedPct: 4 })).toEqual(['dial-above-saturated']);
+    expect(codes({ agent: 'isoflurane', highestDialPct: 5, saturatedPct: 4 })).toEqual([
+      'dial-above-saturated',
+    ]);
   });
 
   it('warns that desflurane has no avian MAC', () => {
@@ -87,7 +89,9 @@ describe('agent and dial', () => {
   });
 
   it('notes a fallback MAC when the species has no published value', () => {
-    expect(codes({ agent: 'isoflurane', macIsPublishedForBird: false })).toEqual(['mac-not-published-for-species']);
+    expect(codes({ agent: 'isoflurane', macIsPublishedForBird: false })).toEqual([
+      'mac-not-published-for-species',
+    ]);
     expect(codes({ agent: 'isoflurane', macIsPublishedForBird: true })).toEqual([]);
   });
 });
@@ -95,32 +99,61 @@ describe('agent and dial', () => {
 describe('fresh gas flow', () => {
   it('flags a non-rebreathing flow below its minimum as rebreathing', () => {
     // non-rebreathing 2-3 x minute ventilation [common practice]
-    const cautions = collectCautions({ route: 'endotracheal', circuit: 'nonRebreathing', freshGasLpm: 0.6, minimumFreshGasLpm: 0.8 });
-    expect(cautions.map((caution) => caution.code)).toEqual(['flow-below-rebreathing-minimum', 'uncuffed-tube']);
+    const cautions = collectCautions({
+      route: 'endotracheal',
+      circuit: 'nonRebreathing',
+      freshGasLpm: 0.6,
+      minimumFreshGasLpm: 0.8,
+    });
+    expect(cautions.map((caution) => caution.code)).toEqual([
+      'flow-below-rebreathing-minimum',
+      'uncuffed-tube',
+    ]);
     expect(cautions[0]?.severity).toBe('danger');
-    expect(codes({ route: 'endotracheal', circuit: 'nonRebreathing', freshGasLpm: 0.9, minimumFreshGasLpm: 0.8 })).toEqual(['uncuffed-tube']);
-    expect(codes({ route: 'airSacTube', circuit: 'circle', freshGasLpm: 0.6, minimumFreshGasLpm: 0.8 })).toEqual(['flow-below-rebreathing-minimum']);
+    expect(
+      codes({ route: 'endotracheal', circuit: 'nonRebreathing', freshGasLpm: 0.9, minimumFreshGasLpm: 0.8 }),
+    ).toEqual(['uncuffed-tube']);
+    expect(
+      codes({ route: 'airSacTube', circuit: 'circle', freshGasLpm: 0.6, minimumFreshGasLpm: 0.8 }),
+    ).toEqual(['flow-below-rebreathing-minimum']);
   });
 
   it('does not call a circle at low flow rebreathing', () => {
-    expect(codes({ route: 'endotracheal', circuit: 'circle', freshGasLpm: 0.6, minimumFreshGasLpm: 0.8, bodyMassG: 9000 })).toEqual(['uncuffed-tube']);
+    expect(
+      codes({
+        route: 'endotracheal',
+        circuit: 'circle',
+        freshGasLpm: 0.6,
+        minimumFreshGasLpm: 0.8,
+        bodyMassG: 9000,
+      }),
+    ).toEqual(['uncuffed-tube']);
   });
 
   it('notes a flow below the practical floor', () => {
     // practical floor of about 0.5-1 L/min [common practice]
-    expect(codes({ route: 'mask', circuit: 'nonRebreathing', freshGasLpm: 0.3, minimumFreshGasLpm: 0.05 })).toEqual(['flow-below-practical-floor']);
+    expect(
+      codes({ route: 'mask', circuit: 'nonRebreathing', freshGasLpm: 0.3, minimumFreshGasLpm: 0.05 }),
+    ).toEqual(['flow-below-practical-floor']);
   });
 
   it('warns of a chamber flow too slow to fill the chamber in 10 min', () => {
-    expect(codes({ route: 'chamber', freshGasLpm: 1, minimumFreshGasLpm: 1.5, scavenging: true })).toEqual(['chamber-flow-slow']);
-    expect(codes({ route: 'chamber', freshGasLpm: 2, minimumFreshGasLpm: 1.5, scavenging: true })).toEqual([]);
+    expect(codes({ route: 'chamber', freshGasLpm: 1, minimumFreshGasLpm: 1.5, scavenging: true })).toEqual([
+      'chamber-flow-slow',
+    ]);
+    expect(codes({ route: 'chamber', freshGasLpm: 2, minimumFreshGasLpm: 1.5, scavenging: true })).toEqual(
+      [],
+    );
   });
 });
 
 describe('circuit for the size of bird', () => {
   it('notes a non-rebreathing system for a bird above 7 kg', () => {
     // non-rebreathing systems below about 7-10 kg [common practice]
-    expect(codes({ bodyMassG: 9000, circuit: 'nonRebreathing', route: 'endotracheal' })).toEqual(['non-rebreathing-large-bird', 'uncuffed-tube']);
+    expect(codes({ bodyMassG: 9000, circuit: 'nonRebreathing', route: 'endotracheal' })).toEqual([
+      'non-rebreathing-large-bird',
+      'uncuffed-tube',
+    ]);
     expect(codes({ bodyMassG: 5000, circuit: 'nonRebreathing', route: 'mask' })).toEqual([]);
   });
 
@@ -136,17 +169,26 @@ describe('apnoea', () => {
 
   it('flags a duck plan that reaches 1.5 MAC and spares one that stays below', () => {
     // duck apnoea common above 1.5 MAC (Ludders, Mitchell & Rode 1990, Vet Surg 19) [published]
-    const cautions = collectCautions({ predictedPeakBrainMacMultiple: 1.6, apnoeaMacMultiple: duck?.apnoeaMacMultiple });
+    const cautions = collectCautions({
+      predictedPeakBrainMacMultiple: 1.6,
+      apnoeaMacMultiple: duck?.apnoeaMacMultiple,
+    });
     expect(cautions.map((caution) => caution.code)).toEqual(['apnoea-risk']);
     expect(cautions[0]?.severity).toBe('danger');
     expect(cautions[0]?.reason).toMatch(/Ludders, Mitchell & Rode 1990/);
-    expect(codes({ predictedPeakBrainMacMultiple: 1.4, apnoeaMacMultiple: duck?.apnoeaMacMultiple })).toEqual([]);
+    expect(codes({ predictedPeakBrainMacMultiple: 1.4, apnoeaMacMultiple: duck?.apnoeaMacMultiple })).toEqual(
+      [],
+    );
   });
 
   it('lets a chicken reach 2 MAC without an apnoea caution but not 3 MAC', () => {
     // chicken apnoea at 3.31 % isoflurane = 2.8 MAC (Midon et al. 2021) [published; derived]
-    expect(codes({ predictedPeakBrainMacMultiple: 2.0, apnoeaMacMultiple: chicken?.apnoeaMacMultiple })).toEqual([]);
-    expect(codes({ predictedPeakBrainMacMultiple: 3.0, apnoeaMacMultiple: chicken?.apnoeaMacMultiple })).toEqual(['apnoea-risk']);
+    expect(
+      codes({ predictedPeakBrainMacMultiple: 2.0, apnoeaMacMultiple: chicken?.apnoeaMacMultiple }),
+    ).toEqual([]);
+    expect(
+      codes({ predictedPeakBrainMacMultiple: 3.0, apnoeaMacMultiple: chicken?.apnoeaMacMultiple }),
+    ).toEqual(['apnoea-risk']);
   });
 
   it('uses the lowest published multiple, 1.5 MAC, as a warning when the species has none', () => {
@@ -200,7 +242,9 @@ describe('airway and ventilation', () => {
     const advice = collectCautions({ ventilationMode: 'ippv', ippvPeakPressureCmH2O: 12 });
     expect(advice.map((caution) => caution.code)).toEqual(['ippv-peak-pressure']);
     expect(advice[0]?.reason).toMatch(/from memory/);
-    expect(codes({ ventilationMode: 'ippv', ippvPeakPressureCmH2O: 20 })).toEqual(['ippv-peak-pressure-high']);
+    expect(codes({ ventilationMode: 'ippv', ippvPeakPressureCmH2O: 20 })).toEqual([
+      'ippv-peak-pressure-high',
+    ]);
     expect(codes({ ventilationMode: 'spontaneous' })).toEqual([]);
   });
 
@@ -208,7 +252,10 @@ describe('airway and ventilation', () => {
     // tracheal bulla in male ducks (Anatidae) [memory]; tracheal loops in cranes [memory]
     const duck = findSpeciesReference('pekin-duck');
     const crane = findSpeciesReference('sandhill-crane');
-    expect(codes({ anatomyNotes: duck?.anatomyNotes })).toEqual(['anatomy-tracheal-bulla', 'anatomy-dive-response']);
+    expect(codes({ anatomyNotes: duck?.anatomyNotes })).toEqual([
+      'anatomy-tracheal-bulla',
+      'anatomy-dive-response',
+    ]);
     expect(codes({ anatomyNotes: crane?.anatomyNotes })).toEqual(['anatomy-tracheal-loops']);
     expect(codes({ anatomyNotes: findSpeciesReference('budgerigar')?.anatomyNotes })).toEqual([]);
   });
@@ -226,8 +273,18 @@ describe('order', () => {
       minimumFreshGasLpm: 0.6,
     });
     const severities = cautions.map((caution) => caution.severity);
-    expect(severities).toEqual([...severities].sort((a, b) => ['danger', 'warning', 'notice'].indexOf(a) - ['danger', 'warning', 'notice'].indexOf(b)));
-    expect(cautions.map((caution) => caution.code)).toEqual(['dial-above-saturated', 'flow-below-rebreathing-minimum', 'no-scavenging', 'flow-below-practical-floor', 'uncuffed-tube']);
+    expect(severities).toEqual(
+      [...severities].sort(
+        (a, b) => ['danger', 'warning', 'notice'].indexOf(a) - ['danger', 'warning', 'notice'].indexOf(b),
+      ),
+    );
+    expect(cautions.map((caution) => caution.code)).toEqual([
+      'dial-above-saturated',
+      'flow-below-rebreathing-minimum',
+      'no-scavenging',
+      'flow-below-practical-floor',
+      'uncuffed-tube',
+    ]);
   });
 
   it('gives every caution a message and a reason', () => {
@@ -260,7 +317,9 @@ describe('species context', () => {
     expect(context.apnoeaMacMultiple?.value).toBe(1.5);
     expect(context.macIsPublishedForBird).toBe(false);
     expect(speciesCautionContext(duck, 'isoflurane').macIsPublishedForBird).toBe(true);
-    expect(codes({ ...context, bodyMassG: 3000, agent: 'sevoflurane', predictedPeakBrainMacMultiple: 1.6 })).toEqual([
+    expect(
+      codes({ ...context, bodyMassG: 3000, agent: 'sevoflurane', predictedPeakBrainMacMultiple: 1.6 }),
+    ).toEqual([
       'apnoea-risk',
       'mac-not-published-for-species',
       'anatomy-tracheal-bulla',

@@ -1,10 +1,26 @@
 import { describe, expect, it } from 'vitest';
-import { findSpeciesReference, speciesReference, type SpeciesReference } from '../../app/core/species-reference.js';
+import {
+  findSpeciesReference,
+  speciesReference,
+  type SpeciesReference,
+} from '../../app/core/species-reference.js';
 
-const basisKinds = ['published', 'derived', 'memory', 'assumption', 'common practice', 'measured', 'equation'];
+const basisKinds = [
+  'published',
+  'derived',
+  'memory',
+  'assumption',
+  'common practice',
+  'measured',
+  'equation',
+];
 
 /** Every object in the tree that holds a number beside a basis string, with its path. */
-function sourcedValues(value: unknown, path: string, found: { path: string; basis: unknown; kind: unknown }[]): void {
+function sourcedValues(
+  value: unknown,
+  path: string,
+  found: { path: string; basis: unknown; kind: unknown }[],
+): void {
   if (value === null || typeof value !== 'object') return;
   const record = value as Record<string, unknown>;
   if ('basis' in record) found.push({ path, basis: record['basis'], kind: record['kind'] });
@@ -55,7 +71,11 @@ describe('species reference table', () => {
       const found: { path: string; basis: unknown; kind: unknown }[] = [];
       sourcedValues(entry, entry.id, found);
       // mass range, every MAC, the apnoea multiple and every anatomy note
-      const expectedCount = 1 + Object.keys(entry.macByAgent).length + (entry.apnoeaMacMultiple === undefined ? 0 : 1) + entry.anatomyNotes.length;
+      const expectedCount =
+        1 +
+        Object.keys(entry.macByAgent).length +
+        (entry.apnoeaMacMultiple === undefined ? 0 : 1) +
+        entry.anatomyNotes.length;
       expect(found.length, entry.id).toBe(expectedCount);
       for (const value of found) {
         expect(typeof value.basis === 'string' && value.basis.length > 5, value.path).toBe(true);
@@ -102,22 +122,53 @@ describe('species reference table', () => {
 describe('published MAC values', () => {
   it('gives isoflurane MAC of the Pekin duck, sandhill crane, chicken and cockatoo as published', () => {
     // Pekin duck 1.30 +/- 0.23 (Ludders, Mitchell & Rode 1990, Vet Surg 19) [published]
-    expect(species('pekin-duck').macByAgent.isoflurane).toMatchObject({ macPct: 1.3, sdPct: 0.23, basis: 'Ludders, Mitchell & Rode 1990, Vet Surg 19', kind: 'published' });
+    expect(species('pekin-duck').macByAgent.isoflurane).toMatchObject({
+      macPct: 1.3,
+      sdPct: 0.23,
+      basis: 'Ludders, Mitchell & Rode 1990, Vet Surg 19',
+      kind: 'published',
+    });
     // sandhill crane 1.34 +/- 0.14 (Ludders et al. 1989) [published]
-    expect(species('sandhill-crane').macByAgent.isoflurane).toMatchObject({ macPct: 1.34, sdPct: 0.14, basis: 'Ludders et al. 1989' });
+    expect(species('sandhill-crane').macByAgent.isoflurane).toMatchObject({
+      macPct: 1.34,
+      sdPct: 0.14,
+      basis: 'Ludders et al. 1989',
+    });
     // chicken 1.18 +/- 0.09 (Midon et al. 2021, J Zoo Wildl Med 52:327-331) [published]
-    expect(species('chicken').macByAgent.isoflurane).toMatchObject({ macPct: 1.18, sdPct: 0.09, basis: 'Midon et al. 2021, J Zoo Wildl Med 52:327-331' });
+    expect(species('chicken').macByAgent.isoflurane).toMatchObject({
+      macPct: 1.18,
+      sdPct: 0.09,
+      basis: 'Midon et al. 2021, J Zoo Wildl Med 52:327-331',
+    });
     // cockatoo ED50 1.44 +/- 0.07 (Curro, Brunson & Paul-Murphy 1994, Vet Surg) [published]
-    expect(species('moluccan-cockatoo').macByAgent.isoflurane).toMatchObject({ macPct: 1.44, sdPct: 0.07, measure: 'ED50', basis: 'Curro, Brunson & Paul-Murphy 1994, Vet Surg' });
+    expect(species('moluccan-cockatoo').macByAgent.isoflurane).toMatchObject({
+      macPct: 1.44,
+      sdPct: 0.07,
+      measure: 'ED50',
+      basis: 'Curro, Brunson & Paul-Murphy 1994, Vet Surg',
+    });
   });
 
   it('gives sevoflurane values of the chicken, thick-billed parrot and blue-fronted Amazon as published', () => {
     // chicken 2.21 +/- 0.32 (Naganobu et al. 2000, Vet Surg 29:102-105) [published]
-    expect(species('chicken').macByAgent.sevoflurane).toMatchObject({ macPct: 2.21, sdPct: 0.32, basis: 'Naganobu et al. 2000, Vet Surg 29:102-105' });
+    expect(species('chicken').macByAgent.sevoflurane).toMatchObject({
+      macPct: 2.21,
+      sdPct: 0.32,
+      basis: 'Naganobu et al. 2000, Vet Surg 29:102-105',
+    });
     // thick-billed parrot 2.35 with mechanical stimulus (Phair et al. 2012) [published]
-    expect(species('thick-billed-parrot').macByAgent.sevoflurane).toMatchObject({ macPct: 2.35, basis: 'Phair et al. 2012', note: 'With a mechanical stimulus' });
+    expect(species('thick-billed-parrot').macByAgent.sevoflurane).toMatchObject({
+      macPct: 2.35,
+      basis: 'Phair et al. 2012',
+      note: 'With a mechanical stimulus',
+    });
     // blue-fronted Amazon minimum anaesthetic dose 2.4 +/- 0.37 unpremedicated (BMC Vet Res 2013, 9:142) [published]
-    expect(species('blue-fronted-amazon').macByAgent.sevoflurane).toMatchObject({ macPct: 2.4, sdPct: 0.37, measure: 'minimum anaesthetic dose', basis: 'BMC Vet Res 2013, 9:142' });
+    expect(species('blue-fronted-amazon').macByAgent.sevoflurane).toMatchObject({
+      macPct: 2.4,
+      sdPct: 0.37,
+      measure: 'minimum anaesthetic dose',
+      basis: 'BMC Vet Res 2013, 9:142',
+    });
   });
 
   it('holds no desflurane MAC for any bird', () => {
@@ -145,7 +196,11 @@ describe('airway anatomy notes', () => {
 
   it('notes the tracheal bulla of male ducks and the tracheal loops of cranes, from memory', () => {
     // tracheal bulla in male ducks (Anatidae) [memory]; tracheal loops in cranes [memory]
-    expect(species('pekin-duck').anatomyNotes.find((note) => note.code === 'tracheal-bulla')?.kind).toBe('memory');
-    expect(species('sandhill-crane').anatomyNotes.find((note) => note.code === 'tracheal-loops')?.kind).toBe('memory');
+    expect(species('pekin-duck').anatomyNotes.find((note) => note.code === 'tracheal-bulla')?.kind).toBe(
+      'memory',
+    );
+    expect(species('sandhill-crane').anatomyNotes.find((note) => note.code === 'tracheal-loops')?.kind).toBe(
+      'memory',
+    );
   });
 });

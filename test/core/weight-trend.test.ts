@@ -44,7 +44,15 @@ describe('weight trend', () => {
   });
 
   it('raises no loss flag when the bird gains or holds weight, and has no change with one weight', () => {
-    expect(weightTrend([{ weighedOn: '2026-11-01', massG: 30 }, { weighedOn: '2026-11-08', massG: 31 }], budgerigar).flags).toEqual([]);
+    expect(
+      weightTrend(
+        [
+          { weighedOn: '2026-11-01', massG: 30 },
+          { weighedOn: '2026-11-08', massG: 31 },
+        ],
+        budgerigar,
+      ).flags,
+    ).toEqual([]);
     const single = weightTrend([{ weighedOn: '2026-11-01', massG: 30 }], budgerigar);
     expect(single.sinceLast).toBeNull();
     expect(single.sinceFirst).toBeNull();
@@ -59,7 +67,9 @@ describe('species range and unit slips', () => {
   it('calls a kilogram figure typed as grams (or the reverse) a likely unit slip', () => {
     expect(massRangeFlags(0.032, budgerigar)[0]?.code).toBe('weight-unit-slip');
     expect(massRangeFlags(0.032, budgerigar)[0]?.message).toMatch(/Was 0.032 kg meant \(32 g\)\?/);
-    expect(massRangeFlags(3000, { minG: 12, maxG: 30, speciesName: 'canary' })[0]?.code).toBe('weight-unit-slip');
+    expect(massRangeFlags(3000, { minG: 12, maxG: 30, speciesName: 'canary' })[0]?.code).toBe(
+      'weight-unit-slip',
+    );
   });
 
   it('is silent inside the range or without a species range', () => {

@@ -15,7 +15,15 @@ import {
 
 // The drugs below are placeholders entered "by the clinic" in the test: Tidewing ships no drug and
 // no dose, so the names are neutral and the numbers only exercise the arithmetic.
-const drugA = { name: 'Drug A', concentrationMgPerMl: 1, doseLowMgPerKg: 0.5, doseHighMgPerKg: 1, route: 'IV', doseSource: 'Clinic protocol 2026', notes: '' };
+const drugA = {
+  name: 'Drug A',
+  concentrationMgPerMl: 1,
+  doseLowMgPerKg: 0.5,
+  doseHighMgPerKg: 1,
+  route: 'IV',
+  doseSource: 'Clinic protocol 2026',
+  notes: '',
+};
 
 describe('emergency card', () => {
   it('turns mg/kg into mL as dose x mass / concentration for both bounds', () => {
@@ -33,7 +41,10 @@ describe('emergency card', () => {
 
   it('gives one volume when the clinic entered a single dose', () => {
     // common practice arithmetic: 20 mg/kg x 3.0 kg / 50 mg/mL = 1.2 mL
-    const [line] = emergencyCard([{ ...drugA, concentrationMgPerMl: 50, doseLowMgPerKg: 20, doseHighMgPerKg: null }], 3000);
+    const [line] = emergencyCard(
+      [{ ...drugA, concentrationMgPerMl: 50, doseLowMgPerKg: 20, doseHighMgPerKg: null }],
+      3000,
+    );
     expect(line?.volumeLowMl).toBe(1.2);
     expect(line?.volumeHighMl).toBeNull();
     expect(line?.volumeText).toBe('1.2 mL');
@@ -49,7 +60,12 @@ describe('emergency card', () => {
     // 20 mg/kg x 0.032 kg / 50 mg/mL = 0.0128 mL, shown as 0.013 mL (common practice arithmetic)
     expect(drugVolumeMl(20, 32, 50)).toBe(0.013);
     // 5 mg/kg x 0.5 kg / 10 mg/mL = 0.25 mL (common practice arithmetic)
-    expect(emergencyCard([{ ...drugA, concentrationMgPerMl: 10, doseLowMgPerKg: 5, doseHighMgPerKg: null }], 500)[0]?.smallVolume).toBe(false);
+    expect(
+      emergencyCard(
+        [{ ...drugA, concentrationMgPerMl: 10, doseLowMgPerKg: 5, doseHighMgPerKg: null }],
+        500,
+      )[0]?.smallVolume,
+    ).toBe(false);
   });
 
   it('refuses a zero concentration rather than printing an infinite volume', () => {
@@ -85,7 +101,17 @@ describe('monitoring grid', () => {
   });
 
   it('has the columns the issue names, each with its unit in the clinic’s units', () => {
-    expect(monitoringColumns('C', 'mmHg')).toEqual(['Time (min)', 'Planned dial (%)', 'Dial (%)', 'O2 (L/min)', 'HR (/min)', 'RR (/min)', 'Temp (°C)', 'EtCO2 (mmHg)', 'Notes']);
+    expect(monitoringColumns('C', 'mmHg')).toEqual([
+      'Time (min)',
+      'Planned dial (%)',
+      'Dial (%)',
+      'O2 (L/min)',
+      'HR (/min)',
+      'RR (/min)',
+      'Temp (°C)',
+      'EtCO2 (mmHg)',
+      'Notes',
+    ]);
     expect(monitoringColumns('F', 'kPa').slice(6, 8)).toEqual(['Temp (°F)', 'EtCO2 (kPa)']);
   });
 });
@@ -94,7 +120,9 @@ describe('ASA grade and checklist', () => {
   it('prints the published avian mortality by ASA grade', () => {
     // Hollwarth et al. 2022, J Exotic Pet Med 41:14-19: ASA 1 0 %, 2 0.6 %, 3 5.9 %, 4 18.8 %, 5 50 %
     expect(asaMortality.percentByGrade).toEqual({ 1: 0, 2: 0.6, 3: 5.9, 4: 18.8, 5: 50 });
-    expect(asaMortalityText(3)).toBe('ASA 3: 5.9 % died within 48 h in 1,820 avian isoflurane anaesthetics (Hollwarth et al. 2022, J Exotic Pet Med 41:14-19)');
+    expect(asaMortalityText(3)).toBe(
+      'ASA 3: 5.9 % died within 48 h in 1,820 avian isoflurane anaesthetics (Hollwarth et al. 2022, J Exotic Pet Med 41:14-19)',
+    );
     expect(asaMortalityText(null)).toBe('ASA grade not set');
   });
 

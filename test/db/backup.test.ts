@@ -2,11 +2,25 @@ import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { BackupError, backupDatabase, fileTimestamp, listBackups, rollingBackup, type BackupProgress } from '../../db/backup.js';
+import {
+  BackupError,
+  backupDatabase,
+  fileTimestamp,
+  listBackups,
+  rollingBackup,
+  type BackupProgress,
+} from '../../db/backup.js';
 import { openDatabase } from '../../db/connection.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { addEntries, damageMiddlePages, entryIdsIn, fixtureWithEntries, listing, sha256 } from './support/record-fixture.js';
+import {
+  addEntries,
+  damageMiddlePages,
+  entryIdsIn,
+  fixtureWithEntries,
+  listing,
+  sha256,
+} from './support/record-fixture.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -33,7 +47,9 @@ describe('backupDatabase', () => {
     const folder = outFolder();
     const progress: BackupProgress[] = [];
 
-    const made = await backupDatabase(db, path.join(folder, 'copy.db'), (step) => progress.push(step), { pagesPerStep: 10 });
+    const made = await backupDatabase(db, path.join(folder, 'copy.db'), (step) => progress.push(step), {
+      pagesPerStep: 10,
+    });
 
     expect(made).toMatchObject({ file: path.join(folder, 'copy.db'), verified: 'full' });
     expect(entryIdsIn(made.file)).toEqual([...entryIds, ...later]);
@@ -42,7 +58,9 @@ describe('backupDatabase', () => {
     expect(listing(folder)).toEqual(['copy.db']);
     expect(checkDatabaseFile(made.file).ok).toBe(true);
     expect(progress.length).toBeGreaterThan(2);
-    expect(progress.map((step) => step.percent)).toEqual([...progress.map((step) => step.percent)].sort((a, b) => a - b));
+    expect(progress.map((step) => step.percent)).toEqual(
+      [...progress.map((step) => step.percent)].sort((a, b) => a - b),
+    );
     expect(progress.at(-1)?.percent).toBe(100);
     expect(made.sizeBytes).toBe(fs.statSync(made.file).size);
   });
@@ -51,7 +69,11 @@ describe('backupDatabase', () => {
     const { databaseFile, entryIds } = withEntries(10);
     const writer = openDatabase(databaseFile);
     cleanups.push(() => writer.close());
-    const later = addEntries(writer, writer.prepare('SELECT id FROM procedure_records').pluck().get() as number, 3);
+    const later = addEntries(
+      writer,
+      writer.prepare('SELECT id FROM procedure_records').pluck().get() as number,
+      3,
+    );
     const made = await backupDatabase(databaseFile, path.join(outFolder(), 'by-path.db'));
     expect(entryIdsIn(made.file)).toEqual([...entryIds, ...later]);
   });
@@ -61,7 +83,9 @@ describe('backupDatabase', () => {
     const folder = outFolder();
     const existing = path.join(folder, 'keep-me.db');
     fs.writeFileSync(existing, 'an older backup');
-    await expect(backupDatabase(databaseFile, existing)).rejects.toThrow(/already exists.*Nothing was written/);
+    await expect(backupDatabase(databaseFile, existing)).rejects.toThrow(
+      /already exists.*Nothing was written/,
+    );
     expect(fs.readFileSync(existing, 'utf8')).toBe('an older backup');
     expect(listing(folder)).toEqual(['keep-me.db']);
   });
@@ -69,14 +93,20 @@ describe('backupDatabase', () => {
   it('refuses to back a database up onto itself', async () => {
     const { databaseFile } = withEntries(1);
     const before = sha256(databaseFile);
-    await expect(backupDatabase(databaseFile, databaseFile, undefined, { overwrite: true })).rejects.toThrow(/must differ from the database itself/);
+    await expect(backupDatabase(databaseFile, databaseFile, undefined, { overwrite: true })).rejects.toThrow(
+      /must differ from the database itself/,
+    );
     expect(sha256(databaseFile)).toBe(before);
   });
 
   it('reports a missing source clearly and writes nothing', async () => {
     const folder = outFolder();
-    await expect(backupDatabase(path.join(folder, 'absent.db'), path.join(folder, 'copy.db'))).rejects.toThrow(BackupError);
-    await expect(backupDatabase(path.join(folder, 'absent.db'), path.join(folder, 'copy.db'))).rejects.toThrow(/no database at/);
+    await expect(
+      backupDatabase(path.join(folder, 'absent.db'), path.join(folder, 'copy.db')),
+    ).rejects.toThrow(BackupError);
+    await expect(
+      backupDatabase(path.join(folder, 'absent.db'), path.join(folder, 'copy.db')),
+    ).rejects.toThrow(/no database at/);
     expect(listing(folder)).toEqual([]);
   });
 
@@ -84,7 +114,9 @@ describe('backupDatabase', () => {
     const { databaseFile } = withEntries(3000);
     damageMiddlePages(databaseFile);
     const folder = outFolder();
-    await expect(backupDatabase(databaseFile, path.join(folder, 'copy.db'))).rejects.toThrow(/failed the integrity check.*No backup was kept/);
+    await expect(backupDatabase(databaseFile, path.join(folder, 'copy.db'))).rejects.toThrow(
+      /failed the integrity check.*No backup was kept/,
+    );
     expect(listing(folder)).toEqual([]);
   });
 });
@@ -111,13 +143,18 @@ describe('rollingBackup', () => {
       'tidewing-backup-2026-01-05T09-04-00.000Z.db',
       'tidewing-backup-before-surgery.db',
     ]);
-    expect(listBackups(folder).map((backup) => backup.takenAt)).toEqual(['2026-01-05T09:04:00.000Z', '2026-01-05T09:03:00.000Z', '2026-01-05T09:02:00.000Z']);
+    expect(listBackups(folder).map((backup) => backup.takenAt)).toEqual([
+      '2026-01-05T09:04:00.000Z',
+      '2026-01-05T09:03:00.000Z',
+      '2026-01-05T09:02:00.000Z',
+    ]);
   });
 
   it('keeps the default of ten', async () => {
     const { databaseFile } = withEntries(1);
     const folder = outFolder();
-    for (let minute = 0; minute < 12; minute += 1) await rollingBackup({ databaseFile, backupFolder: folder, now: at(minute) });
+    for (let minute = 0; minute < 12; minute += 1)
+      await rollingBackup({ databaseFile, backupFolder: folder, now: at(minute) });
     expect(listBackups(folder)).toHaveLength(10);
     expect(listBackups(folder).at(-1)?.takenAt).toBe('2026-01-05T09:02:00.000Z');
   });
@@ -134,19 +171,25 @@ describe('rollingBackup', () => {
   it('never deletes the backup it has just made, even when the clock was set back', async () => {
     const { databaseFile } = withEntries(1);
     const folder = outFolder();
-    for (let minute = 10; minute < 13; minute += 1) await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
+    for (let minute = 10; minute < 13; minute += 1)
+      await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
     const made = await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(1) });
     expect(fs.existsSync(made.file)).toBe(true);
-    expect(made.removed.map((file) => path.basename(file))).toEqual(['tidewing-backup-2026-01-05T09-10-00.000Z.db']);
+    expect(made.removed.map((file) => path.basename(file))).toEqual([
+      'tidewing-backup-2026-01-05T09-10-00.000Z.db',
+    ]);
   });
 
   it('deletes no older backup when the new one cannot be made', async () => {
     const { databaseFile } = withEntries(3000);
     const folder = outFolder();
-    for (let minute = 0; minute < 3; minute += 1) await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
+    for (let minute = 0; minute < 3; minute += 1)
+      await rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(minute) });
     const before = listing(folder);
     damageMiddlePages(databaseFile);
-    await expect(rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(9) })).rejects.toThrow(/failed the integrity check/);
+    await expect(rollingBackup({ databaseFile, backupFolder: folder, keep: 3, now: at(9) })).rejects.toThrow(
+      /failed the integrity check/,
+    );
     expect(listing(folder)).toEqual(before);
   });
 
@@ -154,13 +197,19 @@ describe('rollingBackup', () => {
     const { databaseFile } = withEntries(1);
     const folder = outFolder();
     for (const keep of [0, 2.5, -1, 1001]) {
-      await expect(rollingBackup({ databaseFile, backupFolder: folder, keep, now: at(0) })).rejects.toThrow(/keep must be a whole number/);
+      await expect(rollingBackup({ databaseFile, backupFolder: folder, keep, now: at(0) })).rejects.toThrow(
+        /keep must be a whole number/,
+      );
     }
     expect(listing(folder)).toEqual([]);
   });
 
   it('writes file times that sort in time order', () => {
-    const times = [new Date(Date.UTC(2026, 8, 30, 23, 59, 59, 999)), new Date(Date.UTC(2026, 9, 1, 0, 0, 0, 0)), new Date(Date.UTC(2027, 0, 1, 0, 0, 0, 1))];
+    const times = [
+      new Date(Date.UTC(2026, 8, 30, 23, 59, 59, 999)),
+      new Date(Date.UTC(2026, 9, 1, 0, 0, 0, 0)),
+      new Date(Date.UTC(2027, 0, 1, 0, 0, 0, 1)),
+    ];
     const stamps = times.map(fileTimestamp);
     expect([...stamps].sort()).toEqual(stamps);
     expect(stamps.every((stamp) => !stamp.includes(':'))).toBe(true);
@@ -178,7 +227,8 @@ describe('a backup made while the database stays in use', () => {
       db,
       path.join(outFolder(), 'copy.db'),
       (step) => {
-        if (step.percent > 0 && step.percent < 100 && writtenDuring.length === 0) writtenDuring.push(...addEntries(db, recordId, 3));
+        if (step.percent > 0 && step.percent < 100 && writtenDuring.length === 0)
+          writtenDuring.push(...addEntries(db, recordId, 3));
       },
       { pagesPerStep: 5 },
     );

@@ -15,7 +15,9 @@ type WriterRun = { reportedIds: number[]; stderr: string; signal: NodeJS.Signals
 /** Starts the writer, waits for its first committed entry, then kills it after `delayMs`. */
 function runWriterAndKill(databaseFile: string, recordId: number, delayMs: number): Promise<WriterRun> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [writerScript, databaseFile, String(recordId)], { stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, [writerScript, databaseFile, String(recordId)], {
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     let stdout = '';
     let stderr = '';
     let killScheduled = false;
@@ -38,7 +40,14 @@ function runWriterAndKill(databaseFile: string, recordId: number, delayMs: numbe
       clearTimeout(failsafe);
       // A line cut off by the kill was never fully reported; only whole lines count.
       const whole = stdout.slice(0, stdout.lastIndexOf('\n') + 1);
-      resolve({ reportedIds: whole.split('\n').filter((line) => line !== '').map(Number), stderr, signal });
+      resolve({
+        reportedIds: whole
+          .split('\n')
+          .filter((line) => line !== '')
+          .map(Number),
+        stderr,
+        signal,
+      });
     });
   });
 }
@@ -63,7 +72,9 @@ describe('a writer killed with SIGKILL in the middle of a stream of entries', ()
       const result = await runWriterAndKill(fixture.databaseFile, recordId, delayMs);
       expect(result.signal, `run ${run}`).toBe('SIGKILL');
       expect(result.stderr, `run ${run}`).toBe('');
-      expect(result.reportedIds.length, `run ${run}: the writer committed before the kill`).toBeGreaterThan(0);
+      expect(result.reportedIds.length, `run ${run}: the writer committed before the kill`).toBeGreaterThan(
+        0,
+      );
       result.reportedIds.forEach((id) => reportedSoFar.add(id));
 
       const db = openDatabase(fixture.databaseFile);
@@ -83,6 +94,7 @@ describe('a writer killed with SIGKILL in the middle of a stream of entries', ()
       }
     }
     expect(checkDatabaseFile(fixture.databaseFile).ok).toBe(true);
-    if (process.env['TIDEWING_REPORT_CRASH_TEST'] === '1') process.stderr.write(`entries reported per run: ${committedPerRun.join(' ')}\n`);
+    if (process.env['TIDEWING_REPORT_CRASH_TEST'] === '1')
+      process.stderr.write(`entries reported per run: ${committedPerRun.join(' ')}\n`);
   }, 60_000);
 });

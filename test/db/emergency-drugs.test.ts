@@ -4,7 +4,10 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { migrate, openDatabase, type TidewingDatabase } from '../../db/connection.js';
 import { emergencyDrugsMigration } from '../../db/migrations/0003-emergency-drugs.js';
 import { migrations } from '../../db/migrations/index.js';
-import { createEmergencyDrugRepository, DrugCorrectionError } from '../../db/repositories/emergency-drug-repository.js';
+import {
+  createEmergencyDrugRepository,
+  DrugCorrectionError,
+} from '../../db/repositories/emergency-drug-repository.js';
 import { createDispatcher, createHandlers } from '../../main/back-end/handlers.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
@@ -15,7 +18,15 @@ const t0 = new Date('2026-12-01T08:00:00Z');
 const t1 = new Date('2026-12-01T09:00:00Z');
 const meta = { enteredBy: 'RW', reason: '' };
 // Neutral placeholder entered "by the clinic": Tidewing ships no drug and no dose.
-const drugA = { name: 'Drug A', concentrationMgPerMl: 1, doseLowMgPerKg: 0.5, doseHighMgPerKg: 1, route: 'IV', doseSource: 'Clinic protocol 2026', notes: '' };
+const drugA = {
+  name: 'Drug A',
+  concentrationMgPerMl: 1,
+  doseLowMgPerKg: 0.5,
+  doseHighMgPerKg: 1,
+  route: 'IV',
+  doseSource: 'Clinic protocol 2026',
+  notes: '',
+};
 
 function freshFile(): string {
   const temp = temporaryFolder();
@@ -69,8 +80,18 @@ describe('emergency drug repository', () => {
     const b = drugs.add({ ...drugA, name: 'Another drug', doseHighMgPerKg: null }, meta, t0);
     expect(drugs.list().map((drug) => drug.values.name)).toEqual(['Another drug', 'Drug A']);
 
-    const corrected = drugs.correct(a.id, { ...drugA, concentrationMgPerMl: 2 }, { enteredBy: 'CD', reason: 'New stock is 2 mg/mL' }, t1);
-    expect(corrected?.stamp).toMatchObject({ correctsId: a.id, enteredBy: 'CD', reason: 'New stock is 2 mg/mL', enteredAt: t1.toISOString() });
+    const corrected = drugs.correct(
+      a.id,
+      { ...drugA, concentrationMgPerMl: 2 },
+      { enteredBy: 'CD', reason: 'New stock is 2 mg/mL' },
+      t1,
+    );
+    expect(corrected?.stamp).toMatchObject({
+      correctsId: a.id,
+      enteredBy: 'CD',
+      reason: 'New stock is 2 mg/mL',
+      enteredAt: t1.toISOString(),
+    });
     expect(drugs.list().find((drug) => drug.values.name === 'Drug A')?.values.concentrationMgPerMl).toBe(2);
 
     const voided = drugs.void(b.id, { enteredBy: 'CD', reason: 'No longer stocked' }, t1);
@@ -84,7 +105,9 @@ describe('emergency drug repository', () => {
     const drugs = createEmergencyDrugRepository(db);
     const a = drugs.add(drugA, meta, t0);
     drugs.correct(a.id, { ...drugA, notes: 'first' }, { enteredBy: 'CD', reason: 'note' }, t1);
-    expect(() => drugs.correct(a.id, drugA, { enteredBy: 'CD', reason: 'again' }, t1)).toThrow(DrugCorrectionError);
+    expect(() => drugs.correct(a.id, drugA, { enteredBy: 'CD', reason: 'again' }, t1)).toThrow(
+      DrugCorrectionError,
+    );
     expect(drugs.correct(999, drugA, { enteredBy: 'CD', reason: 'x' }, t1)).toBeNull();
   });
 });
@@ -92,20 +115,28 @@ describe('emergency drug repository', () => {
 describe('drug channels', () => {
   function dispatcher() {
     const db = fresh();
-    return createDispatcher(createHandlers({ db, appVersion: '0.1.0', dataDirectory: '/tmp', host: 'browser', now: () => t0 }));
+    return createDispatcher(
+      createHandlers({ db, appVersion: '0.1.0', dataDirectory: '/tmp', host: 'browser', now: () => t0 }),
+    );
   }
 
   it('names the missing dose source in the message and the field', async () => {
     const dispatch = dispatcher();
     const answer = await dispatch('drugs:add', { values: { ...drugA, doseSource: '' }, meta });
-    expect(answer).toMatchObject({ ok: false, error: { code: 'invalid-request', field: 'values.doseSource' } });
+    expect(answer).toMatchObject({
+      ok: false,
+      error: { code: 'invalid-request', field: 'values.doseSource' },
+    });
     expect(answer.ok ? '' : answer.error.message).toMatch(/source of the dose/);
   });
 
   it('names the high dose when it is below the low one, and requires a reason to correct', async () => {
     const dispatch = dispatcher();
     const low = await dispatch('drugs:add', { values: { ...drugA, doseHighMgPerKg: 0.1 }, meta });
-    expect(low).toMatchObject({ ok: false, error: { field: 'values.doseHighMgPerKg', message: 'Dose (high) must not be below dose (low).' } });
+    expect(low).toMatchObject({
+      ok: false,
+      error: { field: 'values.doseHighMgPerKg', message: 'Dose (high) must not be below dose (low).' },
+    });
     const added = await dispatch('drugs:add', { values: drugA, meta });
     if (!added.ok) throw new Error(added.error.message);
     const id = (added.value as { id: number }).id;
@@ -114,6 +145,9 @@ describe('drug channels', () => {
     const voided = await dispatch('drugs:void', { id, meta: { enteredBy: 'RW', reason: 'Entered twice' } });
     expect(voided).toMatchObject({ ok: true, value: { voided: true } });
     expect(await dispatch('drugs:list', {})).toEqual({ ok: true, value: [] });
-    expect(await dispatch('drugs:void', { id: 999, meta: { enteredBy: 'RW', reason: 'x' } })).toMatchObject({ ok: false, error: { code: 'not-found' } });
+    expect(await dispatch('drugs:void', { id: 999, meta: { enteredBy: 'RW', reason: 'x' } })).toMatchObject({
+      ok: false,
+      error: { code: 'not-found' },
+    });
   });
 });

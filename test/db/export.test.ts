@@ -6,7 +6,13 @@ import { openDatabase } from '../../db/connection.js';
 import { exportDatabaseJson, writeDatabaseJson, type DatabaseExport } from '../../db/export.js';
 import { latestSchemaVersion } from '../../db/migrations/index.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { addEntries, addPatientAndRecord, enteredAt, fixtureFolder, listing } from './support/record-fixture.js';
+import {
+  addEntries,
+  addPatientAndRecord,
+  enteredAt,
+  fixtureFolder,
+  listing,
+} from './support/record-fixture.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -32,26 +38,52 @@ describe('exportDatabaseJson', () => {
   it('holds every clinic table with all its rows and columns, the schema and app versions and the export time', () => {
     const { db } = populated();
     const exported = exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt });
-    const expectedTables = (
-      db.prepare("SELECT name FROM pragma_table_list WHERE schema = 'main' AND type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name").pluck().all() as string[]
-    );
+    const expectedTables = db
+      .prepare(
+        "SELECT name FROM pragma_table_list WHERE schema = 'main' AND type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name",
+      )
+      .pluck()
+      .all() as string[];
     expect(Object.keys(exported.tables).sort()).toEqual(expectedTables);
-    expect(expectedTables).toEqual(expect.arrayContaining(['patients', 'patient_versions', 'procedure_entries', 'species', 'weights', 'plans', 'clinic_settings']));
+    expect(expectedTables).toEqual(
+      expect.arrayContaining([
+        'patients',
+        'patient_versions',
+        'procedure_entries',
+        'species',
+        'weights',
+        'plans',
+        'clinic_settings',
+      ]),
+    );
     for (const name of expectedTables) {
       const count = db.prepare(`SELECT count(*) FROM "${name}"`).pluck().get();
       expect(exported.tables[name]?.rows.length, name).toBe(count);
       const columns = db.prepare(`SELECT name FROM pragma_table_info(?)`).pluck().all(name);
       expect(exported.tables[name]?.columns, name).toEqual(columns);
     }
-    expect(exported).toMatchObject({ format: 'tidewing-database-export', formatVersion: 1, appVersion: '0.1.0', schemaVersion: latestSchemaVersion, exportedAt: '2026-03-01T08:00:00.000Z' });
+    expect(exported).toMatchObject({
+      format: 'tidewing-database-export',
+      formatVersion: 1,
+      appVersion: '0.1.0',
+      schemaVersion: latestSchemaVersion,
+      exportedAt: '2026-03-01T08:00:00.000Z',
+    });
   });
 
   it('keeps corrections and the rows they correct, in id order', () => {
     const { db } = populated();
-    const entries = exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt }).tables['procedure_entries']?.rows ?? [];
+    const entries =
+      exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt }).tables['procedure_entries']?.rows ?? [];
     expect(entries.map((row) => row['id'])).toEqual([1, 2, 3, 4]);
     expect(entries[0]).toMatchObject({ id: 1, corrects_id: null, vapor_pct: 2.5 });
-    expect(entries[3]).toMatchObject({ id: 4, corrects_id: 1, vapor_pct: 2, entered_by: 'CD', reason: 'typed 2.5 for 2' });
+    expect(entries[3]).toMatchObject({
+      id: 4,
+      corrects_id: 1,
+      vapor_pct: 2,
+      entered_by: 'CD',
+      reason: 'typed 2.5 for 2',
+    });
   });
 
   it('leaves out the search index, which is rebuilt from the rows, and says so', () => {
@@ -70,7 +102,9 @@ describe('exportDatabaseJson', () => {
   it('writes BLOBs as base64 and leaves text, numbers and nulls as they are', () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
-    db.exec("CREATE TABLE attachments (id INTEGER PRIMARY KEY, label TEXT, bytes BLOB, grams REAL); INSERT INTO attachments VALUES (2, 'scan', x'00ff10', 38.5), (1, NULL, NULL, NULL)");
+    db.exec(
+      "CREATE TABLE attachments (id INTEGER PRIMARY KEY, label TEXT, bytes BLOB, grams REAL); INSERT INTO attachments VALUES (2, 'scan', x'00ff10', 38.5), (1, NULL, NULL, NULL)",
+    );
     const rows = exportDatabaseJson(db, { appVersion: 'test', exportedAt }).tables['attachments']?.rows;
     expect(rows).toEqual([
       { id: 1, label: null, bytes: null, grams: null },
@@ -85,10 +119,16 @@ describe('writeDatabaseJson', () => {
     const folder = temporaryFolder();
     cleanups.push(folder.remove);
     const percents: number[] = [];
-    const written = writeDatabaseJson(db, path.join(folder.folder, 'archive.json'), { appVersion: '0.1.0', exportedAt, onProgress: (percent) => percents.push(percent) });
+    const written = writeDatabaseJson(db, path.join(folder.folder, 'archive.json'), {
+      appVersion: '0.1.0',
+      exportedAt,
+      onProgress: (percent) => percents.push(percent),
+    });
     const parsed = JSON.parse(fs.readFileSync(written.file, 'utf8')) as DatabaseExport;
     expect(parsed).toEqual(exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt }));
-    expect(written.rowCount).toBe(Object.values(parsed.tables).reduce((sum, table) => sum + table.rows.length, 0));
+    expect(written.rowCount).toBe(
+      Object.values(parsed.tables).reduce((sum, table) => sum + table.rows.length, 0),
+    );
     expect(percents.at(-1)).toBe(100);
     expect(listing(folder.folder)).toEqual(['archive.json']);
   });
@@ -99,7 +139,9 @@ describe('writeDatabaseJson', () => {
     cleanups.push(folder.remove);
     const file = path.join(folder.folder, 'archive.json');
     fs.writeFileSync(file, '{"earlier": true}');
-    expect(() => writeDatabaseJson(db, file, { appVersion: '0.1.0', exportedAt })).toThrow(/already exists.*Nothing was written/);
+    expect(() => writeDatabaseJson(db, file, { appVersion: '0.1.0', exportedAt })).toThrow(
+      /already exists.*Nothing was written/,
+    );
     expect(fs.readFileSync(file, 'utf8')).toBe('{"earlier": true}');
   });
 });

@@ -6,7 +6,14 @@ import { migrate, openDatabase } from '../../db/connection.js';
 import { checkDatabaseFile, openReadOnly } from '../../db/integrity.js';
 import { latestSchemaVersion, migrations } from '../../db/migrations/index.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { addEntries, addPatientAndRecord, damageMiddlePages, fixtureWithEntries, listing, sha256 } from './support/record-fixture.js';
+import {
+  addEntries,
+  addPatientAndRecord,
+  damageMiddlePages,
+  fixtureWithEntries,
+  listing,
+  sha256,
+} from './support/record-fixture.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -115,8 +122,16 @@ describe('checkDatabaseFile', () => {
     writer.pragma(`user_version = ${latestSchemaVersion + 3}`);
     writer.close();
     const check = checkDatabaseFile(databaseFile);
-    expect(check).toMatchObject({ ok: false, status: 'tooNew', schemaVersion: latestSchemaVersion + 3, supportedSchemaVersion: latestSchemaVersion, integrity: ['ok'] });
-    expect(check.message).toContain(`schema ${latestSchemaVersion + 3}; this version understands up to ${latestSchemaVersion}`);
+    expect(check).toMatchObject({
+      ok: false,
+      status: 'tooNew',
+      schemaVersion: latestSchemaVersion + 3,
+      supportedSchemaVersion: latestSchemaVersion,
+      integrity: ['ok'],
+    });
+    expect(check.message).toContain(
+      `schema ${latestSchemaVersion + 3}; this version understands up to ${latestSchemaVersion}`,
+    );
   });
 
   it('reports a SQLite database of another program, or an empty one, as not a Tidewing database', () => {
@@ -161,7 +176,9 @@ describe('checkDatabaseFile', () => {
     const check = checkDatabaseFile(databaseFile);
     expect(check.status).toBe('foreignKeyProblems');
     expect(check.ok).toBe(false);
-    expect(check.foreignKeyProblems).toEqual([{ table: 'procedure_entries', rowId: 3, parentTable: 'procedure_records' }]);
+    expect(check.foreignKeyProblems).toEqual([
+      { table: 'procedure_entries', rowId: 3, parentTable: 'procedure_records' },
+    ]);
     expect(check.message).toContain('1 row pointing at rows that do not exist (in procedure_entries)');
   });
 });

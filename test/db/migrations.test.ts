@@ -20,27 +20,43 @@ const sha256 = (file: string) => crypto.createHash('sha256').update(fs.readFileS
 
 describe('migrations', () => {
   it('are numbered 1..n without gaps', () => {
-    expect(migrations.map((migration) => migration.version)).toEqual(migrations.map((_migration, index) => index + 1));
+    expect(migrations.map((migration) => migration.version)).toEqual(
+      migrations.map((_migration, index) => index + 1),
+    );
     expect(latestSchemaVersion).toBe(migrations.length);
   });
 
-  it.each(migrations.map((migration) => [migration.version, migration.name] as const))('migration %i (%s) applies on a fresh database up to itself', (version) => {
-    const db = new Database(freshFile());
-    cleanups.push(() => db.close());
-    expect(migrate(db, migrations.slice(0, version))).toBe(version);
-    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
-  });
+  it.each(migrations.map((migration) => [migration.version, migration.name] as const))(
+    'migration %i (%s) applies on a fresh database up to itself',
+    (version) => {
+      const db = new Database(freshFile());
+      cleanups.push(() => db.close());
+      expect(migrate(db, migrations.slice(0, version))).toBe(version);
+      expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+    },
+  );
 
   it('migration 1 creates the settings and acknowledgement tables with their constraints', () => {
     const db = openDatabase(freshFile());
     cleanups.push(() => db.close());
-    const tables = db.prepare("SELECT name FROM sqlite_schema WHERE type = 'table' ORDER BY name").pluck().all();
+    const tables = db
+      .prepare("SELECT name FROM sqlite_schema WHERE type = 'table' ORDER BY name")
+      .pluck()
+      .all();
     expect(tables).toEqual(expect.arrayContaining(['clinic_settings', 'safety_acknowledgements']));
     expect(() =>
-      db.prepare("INSERT INTO clinic_settings VALUES (1, 'A', '', 'lb', 'mmHg', 'C', 'isoflurane', 'A4', 'now')").run(),
+      db
+        .prepare(
+          "INSERT INTO clinic_settings VALUES (1, 'A', '', 'lb', 'mmHg', 'C', 'isoflurane', 'A4', 'now')",
+        )
+        .run(),
     ).toThrow(/CHECK constraint failed/);
     expect(() =>
-      db.prepare("INSERT INTO clinic_settings VALUES (2, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')").run(),
+      db
+        .prepare(
+          "INSERT INTO clinic_settings VALUES (2, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')",
+        )
+        .run(),
     ).toThrow(/CHECK constraint failed/);
   });
 
@@ -57,7 +73,14 @@ describe('migrations', () => {
   it('rolls back a failing migration whole, leaving the version unchanged', () => {
     const db = new Database(freshFile());
     cleanups.push(() => db.close());
-    const broken = [...migrations, { version: migrations.length + 1, name: 'broken', sql: 'CREATE TABLE half_done (id INTEGER); SELECT nonsense FROM missing_table;' }];
+    const broken = [
+      ...migrations,
+      {
+        version: migrations.length + 1,
+        name: 'broken',
+        sql: 'CREATE TABLE half_done (id INTEGER); SELECT nonsense FROM missing_table;',
+      },
+    ];
     expect(() => migrate(db, broken)).toThrow();
     expect(schemaVersion(db)).toBe(migrations.length);
     expect(db.prepare("SELECT count(*) FROM sqlite_schema WHERE name = 'half_done'").pluck().get()).toBe(0);

@@ -7,7 +7,14 @@ import { migrate, openDatabase, schemaVersion } from '../../db/connection.js';
 import { latestSchemaVersion, migrations } from '../../db/migrations/index.js';
 import { restoreDatabase, RestoreRefusedError } from '../../db/restore.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { addEntries, damageMiddlePages, entryIdsIn, fixtureWithEntries, listing, sha256 } from './support/record-fixture.js';
+import {
+  addEntries,
+  damageMiddlePages,
+  entryIdsIn,
+  fixtureWithEntries,
+  listing,
+  sha256,
+} from './support/record-fixture.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -41,7 +48,12 @@ describe('restoreDatabase', () => {
     const backupBefore = sha256(backup.file);
     const progress: BackupProgress[] = [];
 
-    const result = await restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now, onProgress: (step) => progress.push(step) });
+    const result = await restoreDatabase({
+      from: backup.file,
+      databaseFile: live.databaseFile,
+      now,
+      onProgress: (step) => progress.push(step),
+    });
 
     expect(result.replacedFile).toBe(path.join(live.folder, replacedName));
     expect(entryIdsIn(live.databaseFile)).toEqual(backup.entryIds);
@@ -62,12 +74,21 @@ describe('restoreDatabase', () => {
     // Copying the files of an open database gives exactly what a power cut leaves: rows committed to the WAL only.
     const crashed = scratchFolder();
     const writer = openDatabase(live.databaseFile);
-    const later = addEntries(writer, writer.prepare('SELECT id FROM procedure_records').pluck().get() as number, 4);
-    for (const name of ['tidewing.db', 'tidewing.db-wal']) fs.copyFileSync(path.join(live.folder, name), path.join(crashed, name));
+    const later = addEntries(
+      writer,
+      writer.prepare('SELECT id FROM procedure_records').pluck().get() as number,
+      4,
+    );
+    for (const name of ['tidewing.db', 'tidewing.db-wal'])
+      fs.copyFileSync(path.join(live.folder, name), path.join(crashed, name));
     writer.close();
     expect(fs.statSync(path.join(crashed, 'tidewing.db-wal')).size).toBeGreaterThan(0);
 
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(crashed, 'tidewing.db'), now });
+    const result = await restoreDatabase({
+      from: backup.file,
+      databaseFile: path.join(crashed, 'tidewing.db'),
+      now,
+    });
 
     expect(entryIdsIn(path.join(crashed, 'tidewing.db'))).toEqual(backup.entryIds);
     expect(result.replacedFile).not.toBeNull();
@@ -90,7 +111,11 @@ describe('restoreDatabase', () => {
     const backup = await backupWith(2);
     const folder = scratchFolder();
     fs.writeFileSync(path.join(folder, 'tidewing.db'), 'overwritten by mistake');
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'tidewing.db'), now });
+    const result = await restoreDatabase({
+      from: backup.file,
+      databaseFile: path.join(folder, 'tidewing.db'),
+      now,
+    });
     expect(fs.readFileSync(result.replacedFile ?? '', 'utf8')).toBe('overwritten by mistake');
     expect(entryIdsIn(path.join(folder, 'tidewing.db'))).toEqual(backup.entryIds);
   });
@@ -98,7 +123,11 @@ describe('restoreDatabase', () => {
   it('restores into a data folder that has no database yet', async () => {
     const backup = await backupWith(3);
     const folder = path.join(scratchFolder(), 'new-data');
-    const result = await restoreDatabase({ from: backup.file, databaseFile: path.join(folder, 'tidewing.db'), now });
+    const result = await restoreDatabase({
+      from: backup.file,
+      databaseFile: path.join(folder, 'tidewing.db'),
+      now,
+    });
     expect(result.replacedFile).toBeNull();
     expect(entryIdsIn(path.join(folder, 'tidewing.db'))).toEqual(backup.entryIds);
     expect(listing(folder)).toEqual(['tidewing.db']);
@@ -141,14 +170,22 @@ describe('restoreDatabase', () => {
       const backup = await backupWith(3000);
       damageMiddlePages(backup.file);
       const live = withEntries(5);
-      await expectRefusal(backup.file, live.databaseFile, /Restore refused: .* is damaged.*Nothing was changed/);
+      await expectRefusal(
+        backup.file,
+        live.databaseFile,
+        /Restore refused: .* is damaged.*Nothing was changed/,
+      );
       expect(entryIdsIn(live.databaseFile)).toEqual(live.entryIds);
     });
 
     it('a file that is not a database', async () => {
       const file = path.join(scratchFolder(), 'backup.db');
       fs.writeFileSync(file, 'not a database at all '.repeat(100));
-      await expectRefusal(file, withEntries(1).databaseFile, /not a SQLite database file.*Nothing was changed/);
+      await expectRefusal(
+        file,
+        withEntries(1).databaseFile,
+        /not a SQLite database file.*Nothing was changed/,
+      );
     });
 
     it('a backup from a newer Tidewing', async () => {
@@ -160,7 +197,11 @@ describe('restoreDatabase', () => {
     });
 
     it('a missing backup file', async () => {
-      await expectRefusal(path.join(scratchFolder(), 'nowhere.db'), withEntries(1).databaseFile, /There is no database file at/);
+      await expectRefusal(
+        path.join(scratchFolder(), 'nowhere.db'),
+        withEntries(1).databaseFile,
+        /There is no database file at/,
+      );
     });
 
     it('the database itself as the source', async () => {
@@ -174,7 +215,9 @@ describe('restoreDatabase', () => {
       const app = openDatabase(live.databaseFile);
       cleanups.push(() => app.close());
       const filesBefore = listing(live.folder);
-      await expect(restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now })).rejects.toThrow(/is in use.*Close Tidewing.*Nothing was changed/);
+      await expect(
+        restoreDatabase({ from: backup.file, databaseFile: live.databaseFile, now }),
+      ).rejects.toThrow(/is in use.*Close Tidewing.*Nothing was changed/);
       expect(listing(live.folder)).toEqual(filesBefore);
       expect(app.prepare('SELECT count(*) FROM procedure_entries').pluck().get()).toBe(2);
     });

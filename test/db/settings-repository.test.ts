@@ -42,7 +42,10 @@ describe('settings repository', () => {
     db.close();
     const reopened = openDatabase(file);
     cleanups.unshift(() => reopened.close());
-    expect(createSettingsRepository(reopened).get()).toEqual({ settings, updatedAt: '2026-12-01T10:00:00.000Z' });
+    expect(createSettingsRepository(reopened).get()).toEqual({
+      settings,
+      updatedAt: '2026-12-01T10:00:00.000Z',
+    });
   });
 });
 
@@ -55,7 +58,11 @@ describe('safety acknowledgement repository', () => {
     repository.record('0.2.0', 'M.K.', new Date('2026-12-02T08:00:00Z'));
     expect(repository.isAcknowledged('0.1.0')).toBe(true);
     expect(repository.isAcknowledged('0.3.0')).toBe(false);
-    expect(repository.latest()).toEqual({ acknowledgedAt: '2026-12-02T08:00:00.000Z', appVersion: '0.2.0', acknowledgedBy: 'M.K.' });
+    expect(repository.latest()).toEqual({
+      acknowledgedAt: '2026-12-02T08:00:00.000Z',
+      appVersion: '0.2.0',
+      acknowledgedBy: 'M.K.',
+    });
     expect(db.prepare('SELECT count(*) FROM safety_acknowledgements').pluck().get()).toBe(2);
   });
 });

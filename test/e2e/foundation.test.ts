@@ -26,10 +26,14 @@ describe('first run, settings and restart in headless Chromium', () => {
       await shoot(page, '01-cautions');
 
       await page.getByRole('button', { name: 'Acknowledge and continue' }).click();
-      await expect(page.getByText('Enter your name or initials so the acknowledgement is attributable.').isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByText('Enter your name or initials so the acknowledgement is attributable.').isVisible(),
+      ).resolves.toBe(true);
       await page.getByLabel('Your name or initials').fill('R.W.');
       await page.getByRole('button', { name: 'Acknowledge and continue' }).click();
-      await expect(page.getByText('Tick the box to confirm you have read the cautions.').isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByText('Tick the box to confirm you have read the cautions.').isVisible(),
+      ).resolves.toBe(true);
       await page.getByLabel(/I have read these cautions/).check();
       await page.getByRole('button', { name: 'Acknowledge and continue' }).click();
 
@@ -61,7 +65,7 @@ describe('first run, settings and restart in headless Chromium', () => {
       await page.keyboard.press('Alt+5');
       await page.getByRole('heading', { name: 'Worksheets' }).waitFor();
       expect(await page.locator('.data-table tbody tr').count()).toBe(0);
-      expect(pageErrors, pageErrors.join("\n")).toEqual([]);
+      expect(pageErrors, pageErrors.join('\n')).toEqual([]);
     } finally {
       await page.close();
       await host.stop();
@@ -79,7 +83,9 @@ describe('first run, settings and restart in headless Chromium', () => {
       await expect(page2.getByLabel('kilograms (kg)').isChecked()).resolves.toBe(true);
       await expect(page2.getByLabel('kPa').isChecked()).resolves.toBe(true);
       await expect(page2.getByLabel('US Letter').isChecked()).resolves.toBe(true);
-      await expect(page2.getByText('Heron Lane Bird Clinic', { exact: true }).first().isVisible()).resolves.toBe(true);
+      await expect(
+        page2.getByText('Heron Lane Bird Clinic', { exact: true }).first().isVisible(),
+      ).resolves.toBe(true);
       await shoot(page2, '05-settings-after-restart');
     } finally {
       await page2.close();

@@ -8,16 +8,39 @@ import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
-export type RunningHost = { url: string; origin: string; port: number; process: ChildProcess; output: () => string; stop: () => Promise<number | null> };
+export type RunningHost = {
+  url: string;
+  origin: string;
+  port: number;
+  process: ChildProcess;
+  output: () => string;
+  stop: () => Promise<number | null>;
+};
 
 const root = findProjectRoot();
 
 /** Starts `node build/main/host/start.js` as `npm start` does and waits for the URL line. */
-export function startHostProcess(dataDirectory: string, extraArguments: string[] = [], timeoutMs = 10_000): Promise<RunningHost> {
-  const child = spawn(process.execPath, [path.join(root, 'build', 'main', 'host', 'start.js'), '--no-open', '--port', '0', '--data', dataDirectory, ...extraArguments], {
-    env: { ...process.env, CI: 'true', DISPLAY: '' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+export function startHostProcess(
+  dataDirectory: string,
+  extraArguments: string[] = [],
+  timeoutMs = 10_000,
+): Promise<RunningHost> {
+  const child = spawn(
+    process.execPath,
+    [
+      path.join(root, 'build', 'main', 'host', 'start.js'),
+      '--no-open',
+      '--port',
+      '0',
+      '--data',
+      dataDirectory,
+      ...extraArguments,
+    ],
+    {
+      env: { ...process.env, CI: 'true', DISPLAY: '' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
   let output = '';
   child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
   child.stderr.on('data', (chunk: Buffer) => (output += chunk.toString()));
@@ -72,7 +95,11 @@ export function ensureScreenshotFolder(): string {
  * Acknowledges the cautions and saves clinic settings through the bridge, as a returning clinic
  * would have done, so a test can start at the screen it is about.
  */
-export async function completeFirstRun(page: import('playwright-core').Page, url: string, initials = 'RW'): Promise<void> {
+export async function completeFirstRun(
+  page: import('playwright-core').Page,
+  url: string,
+  initials = 'RW',
+): Promise<void> {
   await page.goto(url);
   for (const [channel, body] of [
     ['safety:acknowledge', { acknowledgedBy: initials, accepted: true }],
@@ -86,11 +113,19 @@ export async function completeFirstRun(page: import('playwright-core').Page, url
 }
 
 /** A contract call through the loopback bridge, as the screens make it, answered as a Result. */
-export async function callBridge<T = unknown>(page: import('playwright-core').Page, channel: string, body: unknown): Promise<{ ok: boolean; value?: T; error?: unknown }> {
+export async function callBridge<T = unknown>(
+  page: import('playwright-core').Page,
+  channel: string,
+  body: unknown,
+): Promise<{ ok: boolean; value?: T; error?: unknown }> {
   return page.evaluate(
     async ({ channel: name, body: payload }) => {
       const token = window.sessionStorage.getItem('tidewing.token') ?? '';
-      const response = await fetch(`/api/${name}`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-tidewing-token': token }, body: JSON.stringify(payload) });
+      const response = await fetch(`/api/${name}`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-tidewing-token': token },
+        body: JSON.stringify(payload),
+      });
       return (await response.json()) as { ok: boolean; value?: T; error?: unknown };
     },
     { channel, body },
@@ -124,7 +159,11 @@ export function sharedBrowser(prefix: string): { readonly browser: Browser; read
  * One headless Chromium and one loopback host on a fresh data folder for a test file, started
  * before its tests and stopped after them.
  */
-export function sharedHost(prefix: string): { readonly browser: Browser; readonly host: RunningHost; readonly dataFolder: string } {
+export function sharedHost(prefix: string): {
+  readonly browser: Browser;
+  readonly host: RunningHost;
+  readonly dataFolder: string;
+} {
   const session = sharedBrowser(prefix);
   let host: RunningHost | null = null;
   beforeAll(async () => {

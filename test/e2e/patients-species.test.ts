@@ -7,7 +7,8 @@ import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-pro
 const session = sharedHost('tidewing-e2e-patients-');
 const shots = ensureScreenshotFolder();
 
-const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+const shoot = (page: Page, name: string) =>
+  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
 
 describe('patients, weights and species in headless Chromium', () => {
   it('creates a species-linked patient, adds two weights, sees the loss flag and corrects a weight with its history', async () => {
@@ -44,8 +45,17 @@ describe('patients, weights and species in headless Chromium', () => {
     await page.getByRole('cell', { name: '28 g' }).waitFor();
     const alert = page.locator('.flag.danger');
     await alert.first().waitFor();
-    expect(await alert.allTextContents()).toEqual(expect.arrayContaining([expect.stringMatching(/Lost 6\.0 g \(17\.6 %\) since the previous weight: band 15-20 %/)]));
-    await expect(page.getByText('Basis: Weight-loss bands <5, <10, <15, <20, >20 % (IVAPM pain scale for birds)').first().isVisible()).resolves.toBe(true);
+    expect(await alert.allTextContents()).toEqual(
+      expect.arrayContaining([
+        expect.stringMatching(/Lost 6\.0 g \(17\.6 %\) since the previous weight: band 15-20 %/),
+      ]),
+    );
+    await expect(
+      page
+        .getByText('Basis: Weight-loss bands <5, <10, <15, <20, >20 % (IVAPM pain scale for birds)')
+        .first()
+        .isVisible(),
+    ).resolves.toBe(true);
     await shoot(page, '21-patient-weights-flag');
 
     await page.getByRole('row', { name: /28 g/ }).getByRole('button', { name: 'Correct' }).click();
@@ -73,8 +83,14 @@ describe('patients, weights and species in headless Chromium', () => {
     await page.keyboard.press('Alt+6');
     await page.getByRole('heading', { name: 'Data and backups' }).waitFor();
     await page.getByText(/Latest: /).waitFor();
-    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export the whole database as JSON' }).click()]);
-    const exported = JSON.parse(fs.readFileSync(await download.path(), 'utf8')) as { format: string; tables: Record<string, { rows: Record<string, unknown>[] }> };
+    const [download] = await Promise.all([
+      page.waitForEvent('download'),
+      page.getByRole('button', { name: 'Export the whole database as JSON' }).click(),
+    ]);
+    const exported = JSON.parse(fs.readFileSync(await download.path(), 'utf8')) as {
+      format: string;
+      tables: Record<string, { rows: Record<string, unknown>[] }>;
+    };
     expect(exported.format).toBe('tidewing-database-export');
     expect(exported.tables['patient_versions']?.rows.map((row) => row['name'])).toEqual(['Pip']);
     expect(exported.tables['weights']?.rows.map((row) => row['mass_g'])).toEqual([34, 28, 31]);
@@ -103,18 +119,28 @@ describe('patients, weights and species in headless Chromium', () => {
     const highest = page.getByRole('group', { name: 'Typical adult mass' }).getByLabel('Highest');
     const before = await highest.inputValue();
     await highest.fill('60');
-    await page.getByRole('group', { name: 'Typical adult mass' }).getByLabel('Source').fill('Exhibition budgerigars seen at this clinic (common practice)');
+    await page
+      .getByRole('group', { name: 'Typical adult mass' })
+      .getByLabel('Source')
+      .fill('Exhibition budgerigars seen at this clinic (common practice)');
     await page.getByRole('button', { name: 'Save changes' }).click();
     await page.getByText('Say why the value changes; the reason is kept with the history.').waitFor();
     await page.getByLabel('Reason for the change').fill('Many exhibition birds on our list');
     await page.getByRole('button', { name: 'Save changes' }).click();
-    await page.getByText(/^Saved /).waitFor({ timeout: 5000 }).catch(async (error: unknown) => {
-      await shoot(page, '25-species-edit-failed');
-      throw error;
-    });
-    const history = await page.locator('section[aria-labelledby="species-history-title"] li').allTextContents();
+    await page
+      .getByText(/^Saved /)
+      .waitFor({ timeout: 5000 })
+      .catch(async (error: unknown) => {
+        await shoot(page, '25-species-edit-failed');
+        throw error;
+      });
+    const history = await page
+      .locator('section[aria-labelledby="species-history-title"] li')
+      .allTextContents();
     expect(history).toHaveLength(2);
-    expect(history[0]).toMatch(/why: Many exhibition birds on our list · mass \d+-60 g \(Exhibition budgerigars seen at this clinic/);
+    expect(history[0]).toMatch(
+      /why: Many exhibition birds on our list · mass \d+-60 g \(Exhibition budgerigars seen at this clinic/,
+    );
     expect(history[1]).toContain(`-${before} g`);
     await shoot(page, '25-species-edit-history');
     await page.close();

@@ -3,12 +3,18 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
-import { callBridge as bridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
+import {
+  callBridge as bridge,
+  completeFirstRun,
+  ensureScreenshotFolder,
+  sharedHost,
+} from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-planning-');
 const shots = ensureScreenshotFolder();
 
-const shoot = (page: Page, name: string) => page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+const shoot = (page: Page, name: string) =>
+  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
 
 const inductionText = (page: Page) => page.getByTestId('induction-time').innerText();
 
@@ -21,13 +27,31 @@ describe('planning from a patient in headless Chromium', () => {
     await completeFirstRun(page, host.url);
     const meta = { enteredBy: 'RW', reason: '' };
     const created = await bridge(page, 'patients:create', {
-      values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', hatchDate: null, ageText: 'adult', ringId: 'HL-24-117', microchipId: '', ownerReference: 'Owner 5521', notes: '' },
+      values: {
+        name: 'Pip',
+        speciesKey: 'budgerigar',
+        sex: 'male',
+        hatchDate: null,
+        ageText: 'adult',
+        ringId: 'HL-24-117',
+        microchipId: '',
+        ownerReference: 'Owner 5521',
+        notes: '',
+      },
       meta,
     });
     expect(created.ok).toBe(true);
     const patientId = (created.value as { id: number }).id;
-    await bridge(page, 'weights:add', { patientId, values: { weighedOn: '2026-11-20', massG: 33, bodyCondition: 'ideal', weighedBy: 'RW' }, meta });
-    await bridge(page, 'weights:add', { patientId, values: { weighedOn: '2026-12-01', massG: 32, bodyCondition: 'ideal', weighedBy: 'RW' }, meta });
+    await bridge(page, 'weights:add', {
+      patientId,
+      values: { weighedOn: '2026-11-20', massG: 33, bodyCondition: 'ideal', weighedBy: 'RW' },
+      meta,
+    });
+    await bridge(page, 'weights:add', {
+      patientId,
+      values: { weighedOn: '2026-12-01', massG: 32, bodyCondition: 'ideal', weighedBy: 'RW' },
+      meta,
+    });
 
     await page.goto(`${host.origin}/#/patients/${patientId}`);
     await page.getByRole('heading', { name: /Pip/ }).waitFor();
@@ -35,7 +59,10 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByRole('heading', { name: /New anaesthetic plan/ }).waitFor();
     await expect(page.getByLabel(/^Body mass/).inputValue()).resolves.toBe('32');
     await page.getByTestId('induction-time').waitFor();
-    await page.getByText(/5th-95th percentile: \d/).first().waitFor({ timeout: 30_000 });
+    await page
+      .getByText(/5th-95th percentile: \d/)
+      .first()
+      .waitFor({ timeout: 30_000 });
     const chart = page.locator('.plan-results canvas').first();
     await chart.waitFor();
     const before = await inductionText(page);
@@ -49,7 +76,9 @@ describe('planning from a patient in headless Chromium', () => {
     // Change the dial: the curve and the induction time change with no button pressed.
     await page.getByLabel(/^Induction dial/).fill('2.5');
     await expect.poll(() => inductionText(page), { timeout: 15_000 }).not.toBe(before);
-    await expect.poll(async () => Buffer.compare(await chart.screenshot(), pixelsBefore) !== 0, { timeout: 15_000 }).toBe(true);
+    await expect
+      .poll(async () => Buffer.compare(await chart.screenshot(), pixelsBefore) !== 0, { timeout: 15_000 })
+      .toBe(true);
     await page.getByLabel(/^Induction dial/).fill('4');
 
     // Compare with a variant on sevoflurane.
@@ -59,9 +88,18 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByLabel(/^Maintenance dial/).fill('3');
     const table = page.getByRole('table', { name: 'Comparison of plan A and plan B' });
     await table.waitFor();
-    await expect.poll(async () => table.locator('tr[data-differs="true"]').count(), { timeout: 15_000 }).toBeGreaterThan(2);
-    expect(await table.locator('tr').filter({ has: page.getByRole('rowheader', { name: 'Agent', exact: true }) }).getAttribute('data-differs')).toBe('true');
-    const routeRow = table.locator('tr').filter({ has: page.getByRole('rowheader', { name: 'Route', exact: true }) });
+    await expect
+      .poll(async () => table.locator('tr[data-differs="true"]').count(), { timeout: 15_000 })
+      .toBeGreaterThan(2);
+    expect(
+      await table
+        .locator('tr')
+        .filter({ has: page.getByRole('rowheader', { name: 'Agent', exact: true }) })
+        .getAttribute('data-differs'),
+    ).toBe('true');
+    const routeRow = table
+      .locator('tr')
+      .filter({ has: page.getByRole('rowheader', { name: 'Route', exact: true }) });
     await expect(routeRow.innerText()).resolves.toMatch(/Face mask\s+Face mask/);
     await shoot(page, '41-planning-compare');
     await page.getByRole('button', { name: 'Stop comparing' }).click();
@@ -73,13 +111,23 @@ describe('planning from a patient in headless Chromium', () => {
     const planId = Number(/plans\/(\d+)/.exec(page.url())?.[1]);
     expect(planId).toBeGreaterThan(0);
     const saved = await bridge(page, 'plans:get', { id: planId });
-    const plan = (saved.value as { plan: { input: { bodyMassG: number; schedule: { vaporPct: number }[] }; result: { modelVersion: string; milestones: { inductionMin: number } }; checklist: { asaGrade: number } } }).plan;
+    const plan = (
+      saved.value as {
+        plan: {
+          input: { bodyMassG: number; schedule: { vaporPct: number }[] };
+          result: { modelVersion: string; milestones: { inductionMin: number } };
+          checklist: { asaGrade: number };
+        };
+      }
+    ).plan;
     expect(plan.input.bodyMassG).toBe(32);
     expect(plan.input.schedule[0]?.vaporPct).toBe(4);
     expect(plan.checklist.asaGrade).toBe(2);
     expect(plan.result.modelVersion).toMatch(/^\d+\.\d+\.\d+$/);
     const shownInduction = await inductionText(page);
-    expect(shownInduction).toContain(`${String(Number(plan.result.milestones.inductionMin.toFixed(1)))}`.slice(0, 3));
+    expect(shownInduction).toContain(
+      `${String(Number(plan.result.milestones.inductionMin.toFixed(1)))}`.slice(0, 3),
+    );
 
     // The worksheet of the saved plan, printed to PDF and read back.
     const inductionShown = (await inductionText(page)).split('\n')[0] ?? '';
@@ -90,14 +138,21 @@ describe('planning from a patient in headless Chromium', () => {
     const pdfFile = path.join(session.dataFolder, 'planning-worksheet.pdf');
     await page.pdf({ path: pdfFile, preferCSSPageSize: true, printBackground: true });
     await page.emulateMedia({ media: 'screen' });
-    const pdfText = execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    const pdfText = execFileSync('pdftotext', ['-layout', pdfFile, '-'], { encoding: 'utf8' }).replace(
+      /\s+/g,
+      ' ',
+    );
     expect(pdfText).toContain('Pip');
     expect(pdfText).toContain('32 g');
     expect(pdfText).toContain(inductionShown.replace(/\s+/g, ' ').trim());
-    const savedResult = (saved.value as { plan: { result: { cautions: { message: string }[] } } }).plan.result;
-    for (const caution of savedResult.cautions) expect(pdfText).toContain(caution.message.replace(/\s+/g, ' '));
+    const savedResult = (saved.value as { plan: { result: { cautions: { message: string }[] } } }).plan
+      .result;
+    for (const caution of savedResult.cautions)
+      expect(pdfText).toContain(caution.message.replace(/\s+/g, ' '));
     execFileSync('pdftoppm', ['-png', '-r', '60', pdfFile, path.join(shots, '43-planning-worksheet-page')]);
-    expect(fs.readdirSync(shots).filter((name) => name.startsWith('43-planning-worksheet-page')).length).toBeGreaterThanOrEqual(2);
+    expect(
+      fs.readdirSync(shots).filter((name) => name.startsWith('43-planning-worksheet-page')).length,
+    ).toBeGreaterThanOrEqual(2);
 
     // Reopen and edit: a new version.
     await page.goto(`${host.origin}/#/plans/${planId}`);
@@ -112,7 +167,9 @@ describe('planning from a patient in headless Chromium', () => {
     await page.goto(`${host.origin}/#/plans`);
     await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
     await page.getByRole('link', { name: new RegExp(`^${newId} · crop biopsy$`) }).waitFor();
-    await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(/Day total: [\d.]+ mL liquid isoflurane and [\d.]+ L oxygen/);
+    await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(
+      /Day total: [\d.]+ mL liquid isoflurane and [\d.]+ L oxygen/,
+    );
     await expect(page.getByRole('table').first().innerText()).resolves.toContain('Isoflurane, face mask');
     await shoot(page, '42-day-list');
 
@@ -127,8 +184,14 @@ describe('planning from a patient in headless Chromium', () => {
     await page.getByLabel('Staff initials').fill('RW');
     await page.getByRole('button', { name: 'Start procedure record' }).click();
     await page.getByRole('region', { name: `Plan ${newId} beside the log` }).waitFor();
-    await page.getByLabel(/^Vaporiser/).first().fill('3');
-    await page.getByLabel(/^Vaporiser/).first().press('Enter');
+    await page
+      .getByLabel(/^Vaporiser/)
+      .first()
+      .fill('3');
+    await page
+      .getByLabel(/^Vaporiser/)
+      .first()
+      .press('Enter');
     await page.getByRole('cell', { name: '3', exact: true }).first().waitFor();
     await shoot(page, '44-record-with-plan');
 
@@ -140,8 +203,19 @@ describe('planning from a patient in headless Chromium', () => {
     await editor.getByText('Say why the record is corrected; the reason is kept with the history.').waitFor();
     await editor.getByLabel('Reason for the correction').fill('Regraded after the crop examination');
     await editor.getByRole('button', { name: 'Save correction' }).click();
-    await expect.poll(() => editor.getByRole('list', { name: "History of the record's details" }).locator('li').count(), { timeout: 10_000 }).toBe(2);
-    expect(await editor.getByRole('list', { name: "History of the record's details" }).locator('li').first().innerText()).toMatch(/why: Regraded after the crop examination · crop biopsy, ASA 3/);
+    await expect
+      .poll(
+        () => editor.getByRole('list', { name: "History of the record's details" }).locator('li').count(),
+        { timeout: 10_000 },
+      )
+      .toBe(2);
+    expect(
+      await editor
+        .getByRole('list', { name: "History of the record's details" })
+        .locator('li')
+        .first()
+        .innerText(),
+    ).toMatch(/why: Regraded after the crop examination · crop biopsy, ASA 3/);
     await expect(page.locator('.record-facts').innerText()).resolves.toContain('ASA 3');
     expect(problems).toEqual([]);
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));

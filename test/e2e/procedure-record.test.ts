@@ -13,12 +13,19 @@ async function shoot(page: Page, name: string) {
 }
 
 /** Calls a contract channel the way the bridge does, with the tab's token. */
-async function callApi(page: Page, channel: string, request: unknown): Promise<{ ok: boolean; value?: { id: number }; error?: { message: string } }> {
+async function callApi(
+  page: Page,
+  channel: string,
+  request: unknown,
+): Promise<{ ok: boolean; value?: { id: number }; error?: { message: string } }> {
   return page.evaluate(
     async ([name, body]) => {
       const response = await fetch(`/api/${name}`, {
         method: 'POST',
-        headers: { 'content-type': 'application/json', 'x-tidewing-token': window.sessionStorage.getItem('tidewing.token') ?? '' },
+        headers: {
+          'content-type': 'application/json',
+          'x-tidewing-token': window.sessionStorage.getItem('tidewing.token') ?? '',
+        },
         body: JSON.stringify(body),
       });
       return response.json();
@@ -38,7 +45,11 @@ async function clockPlan(page: Page) {
       const at = new Date(start.getTime() + offset * 60_000);
       return `${pad(at.getHours())}:${pad(at.getMinutes())}`;
     });
-    return { startLocal: local, rowTimes: rows, today: `${start.getFullYear()}-${pad(start.getMonth() + 1)}-${pad(start.getDate())}` };
+    return {
+      startLocal: local,
+      rowTimes: rows,
+      today: `${start.getFullYear()}-${pad(start.getMonth() + 1)}-${pad(start.getDate())}`,
+    };
   });
 }
 
@@ -87,7 +98,10 @@ async function typeRow(page: Page, entryForm: Locator, time: string, readings: r
 describe('procedure record screens in headless Chromium', () => {
   it('starts a record, logs rows and events by keyboard, corrects and voids rows, and exports the CSV', async () => {
     const host = await startHostProcess(session.dataFolder);
-    const page = await session.browser.newPage({ viewport: { width: 1366, height: 768 }, acceptDownloads: true });
+    const page = await session.browser.newPage({
+      viewport: { width: 1366, height: 768 },
+      acceptDownloads: true,
+    });
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
     page.on('console', (message) => {
@@ -108,10 +122,17 @@ describe('procedure record screens in headless Chromium', () => {
       await page.getByText(/^Saved /).waitFor();
 
       const clock = await clockPlan(page);
-      const created = await callApi(page, 'patients:create', { values: { name: 'Kiwi', speciesKey: 'cockatiel', ringId: 'HL-2041' }, meta: { enteredBy: 'RW' } });
+      const created = await callApi(page, 'patients:create', {
+        values: { name: 'Kiwi', speciesKey: 'cockatiel', ringId: 'HL-2041' },
+        meta: { enteredBy: 'RW' },
+      });
       expect(created.ok, JSON.stringify(created.error)).toBe(true);
       const patientId = created.value?.id ?? 0;
-      const weighed = await callApi(page, 'weights:add', { patientId, values: { weighedOn: clock.today, massG: 92 }, meta: { enteredBy: 'RW' } });
+      const weighed = await callApi(page, 'weights:add', {
+        patientId,
+        values: { weighedOn: clock.today, massG: 92 },
+        meta: { enteredBy: 'RW' },
+      });
       expect(weighed.ok, JSON.stringify(weighed.error)).toBe(true);
 
       // New record: validation beside the fields first.
@@ -120,8 +141,12 @@ describe('procedure record screens in headless Chromium', () => {
       await expect(page.getByText('Kiwi, Cockatiel, 92 g').isVisible()).resolves.toBe(true);
       await page.getByRole('button', { name: 'Start procedure record' }).click();
       await page.getByText('Enter the procedure.').waitFor();
-      await expect(page.getByText('Choose mask, chamber, endotracheal tube or air-sac tube.').isVisible()).resolves.toBe(true);
-      await expect(page.getByText('Choose non-rebreathing system or circle.').isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByText('Choose mask, chamber, endotracheal tube or air-sac tube.').isVisible(),
+      ).resolves.toBe(true);
+      await expect(page.getByText('Choose non-rebreathing system or circle.').isVisible()).resolves.toBe(
+        true,
+      );
       await shoot(page, '01-new-validation');
 
       await page.getByLabel('Procedure', { exact: true }).fill('Beak and nail trim');
@@ -153,11 +178,18 @@ describe('procedure record screens in headless Chromium', () => {
       await expect(header.getByText('latest weight 92 g').isVisible()).resolves.toBe(true);
       await expect(page.getByText('No plan linked.').isVisible()).resolves.toBe(true);
       // Started 25 minutes ago with no vitals: the reminder is showing.
-      await expect(page.getByRole('alert').filter({ hasText: 'Time to log vitals' }).isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByRole('alert').filter({ hasText: 'Time to log vitals' }).isVisible(),
+      ).resolves.toBe(true);
       await shoot(page, '03-live-empty');
 
       const entryForm = page.getByRole('form', { name: 'New row of readings' });
-      await expect(entryForm.getByLabel('SpO2').getAttribute('aria-describedby').then((id) => page.locator(`[id="${id ?? ''}"]`).innerText())).resolves.toBe('trend only in birds');
+      await expect(
+        entryForm
+          .getByLabel('SpO2')
+          .getAttribute('aria-describedby')
+          .then((id) => page.locator(`[id="${id ?? ''}"]`).innerText()),
+      ).resolves.toBe('trend only in birds');
       const rows: readonly (readonly string[])[] = [
         ['4', '1', '280', '20', '104', '5.3', ''],
         ['2.5', '1', '300', '18', '103.5', '5.6', '96'],
@@ -171,9 +203,13 @@ describe('procedure record screens in headless Chromium', () => {
         await expect.poll(() => entryRows.count()).toBe(index + 1);
       }
       // Enter put focus back in the first reading.
-      await expect(page.evaluate(() => document.activeElement?.getAttribute('id') ?? '')).resolves.toMatch(/vaporPct$/);
+      await expect(page.evaluate(() => document.activeElement?.getAttribute('id') ?? '')).resolves.toMatch(
+        /vaporPct$/,
+      );
       // The last row is five minutes old: with a 5-minute interval the reminder stays.
-      await expect(page.getByRole('alert').filter({ hasText: 'Time to log vitals' }).isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByRole('alert').filter({ hasText: 'Time to log vitals' }).isVisible(),
+      ).resolves.toBe(true);
 
       // A row with nothing in it is refused beside the row.
       await entryForm.getByLabel('Vaporiser').focus();
@@ -191,7 +227,12 @@ describe('procedure record screens in headless Chromium', () => {
       await shoot(page, '04-apnoea-danger');
       await page.keyboard.press('F2');
       await expect.poll(() => entryRows.count()).toBe(7);
-      await expect(page.locator('.record-entries').getByText(/Apnoea: lasted 1\d s \(stopwatch\)/).isVisible()).resolves.toBe(true);
+      await expect(
+        page
+          .locator('.record-entries')
+          .getByText(/Apnoea: lasted 1\d s \(stopwatch\)/)
+          .isVisible(),
+      ).resolves.toBe(true);
       await shoot(page, '05-rows-and-events');
 
       // A sixth row at the current time clears the reminder; voiding it brings the reminder back.
@@ -219,7 +260,9 @@ describe('procedure record screens in headless Chromium', () => {
       await expect(correction.getByLabel('Temp').inputValue()).resolves.toBe('103.1');
       await correction.getByLabel('HR').fill('312');
       await correction.getByRole('button', { name: 'Save correction' }).click();
-      await correction.getByText('Say why the record is corrected; the reason is kept with the history.').waitFor();
+      await correction
+        .getByText('Say why the record is corrected; the reason is kept with the history.')
+        .waitFor();
       await correction.getByLabel('Reason (kept with the history)').fill('Misread the monitor');
       await correction.getByLabel('Reason (kept with the history)').press('Enter');
       await page.locator('.record-corrected').waitFor();
@@ -243,20 +286,30 @@ describe('procedure record screens in headless Chromium', () => {
 
       // The drug form takes the drug and dose as the clinic writes them; nothing is suggested.
       await page.getByRole('button', { name: 'Drug given…' }).click();
-      await expect(page.getByText('Entered by the clinic; Tidewing suggests no dose.').isVisible()).resolves.toBe(true);
+      await expect(
+        page.getByText('Entered by the clinic; Tidewing suggests no dose.').isVisible(),
+      ).resolves.toBe(true);
       await page.getByRole('button', { name: 'Log drug' }).click();
       await page.locator('.record-events').getByText('Name the drug given.').waitFor();
       await shoot(page, '06b-drug-form');
       await page.getByRole('button', { name: 'Drug given…' }).click();
 
       // Milestones, chart and layout on a 1366 x 768 screen.
-      await expect(page.getByLabel('Recovery milestones').getByText('Gas off').isVisible()).resolves.toBe(true);
+      await expect(page.getByLabel('Recovery milestones').getByText('Gas off').isVisible()).resolves.toBe(
+        true,
+      );
       await expect(page.locator('.record-live .uplot').count()).resolves.toBe(1);
-      const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+      const widths = await page.evaluate(() => ({
+        scroll: document.documentElement.scrollWidth,
+        client: document.documentElement.clientWidth,
+      }));
       expect(widths.scroll).toBeLessThanOrEqual(widths.client);
 
       // CSV export through the browser download.
-      const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download CSV' }).click()]);
+      const [download] = await Promise.all([
+        page.waitForEvent('download'),
+        page.getByRole('button', { name: 'Download CSV' }).click(),
+      ]);
       expect(download.suggestedFilename()).toMatch(/^tidewing-procedure-\d+-Kiwi-\d{4}-\d{2}-\d{2}\.csv$/);
       const csvPath = await download.path();
       const csv = fs.readFileSync(csvPath, 'utf8');
@@ -271,7 +324,12 @@ describe('procedure record screens in headless Chromium', () => {
       const cells = table.slice(headerIndex + 1).filter((row) => row.length > 1);
       const column = (name: (typeof procedureCsvHeaders)[number]) => procedureCsvHeaders.indexOf(name);
       expect(cells.filter((row) => row[column('kind')] === 'vitals')).toHaveLength(5);
-      expect(cells.filter((row) => row[column('kind')] === 'event').map((row) => row[column('event')]).sort()).toEqual(['apnoea', 'induction']);
+      expect(
+        cells
+          .filter((row) => row[column('kind')] === 'event')
+          .map((row) => row[column('event')])
+          .sort(),
+      ).toEqual(['apnoea', 'induction']);
       const first = cells.find((row) => row[column('minutes from start')] === '0');
       // 104 °F is 40 °C and 5.3 kPa is 39.75 mmHg (760/101.325 mmHg per kPa, units.ts).
       expect(first?.[column('temperature (C)')]).toBe('40');

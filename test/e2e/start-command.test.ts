@@ -11,10 +11,12 @@ import { startHostProcess } from './host-process.js';
 
 function status(url: string): Promise<number> {
   return new Promise((resolve, reject) => {
-    http.get(url, (response) => {
-      response.resume();
-      resolve(response.statusCode ?? 0);
-    }).on('error', reject);
+    http
+      .get(url, (response) => {
+        response.resume();
+        resolve(response.statusCode ?? 0);
+      })
+      .on('error', reject);
   });
 }
 
@@ -57,17 +59,28 @@ describe('npm start on a machine without a display', () => {
     try {
       const file = path.join(data.folder, 'tidewing.db');
       const writer = new Database(file);
-      writer.exec('CREATE TABLE notes (body TEXT); INSERT INTO notes VALUES (\'from the future\');');
+      writer.exec("CREATE TABLE notes (body TEXT); INSERT INTO notes VALUES ('from the future');");
       writer.pragma('user_version = 42');
       writer.close();
       const before = crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
-      const result = spawnSync(process.execPath, [path.join(findProjectRoot(), 'build', 'main', 'host', 'start.js'), '--no-open', '--data', data.folder], {
-        env: { ...process.env, CI: 'true', DISPLAY: '' },
-        encoding: 'utf8',
-        timeout: 10_000,
-      });
+      const result = spawnSync(
+        process.execPath,
+        [
+          path.join(findProjectRoot(), 'build', 'main', 'host', 'start.js'),
+          '--no-open',
+          '--data',
+          data.folder,
+        ],
+        {
+          env: { ...process.env, CI: 'true', DISPLAY: '' },
+          encoding: 'utf8',
+          timeout: 10_000,
+        },
+      );
       expect(result.status).toBe(1);
-      expect(result.stderr).toMatch(/written by a newer version of Tidewing \(schema 42; this version understands up to \d+\)/);
+      expect(result.stderr).toMatch(
+        /written by a newer version of Tidewing \(schema 42; this version understands up to \d+\)/,
+      );
       expect(result.stdout).not.toMatch(/Open:/);
       expect(crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex')).toBe(before);
       expect(fs.readdirSync(data.folder)).toEqual(['tidewing.db']);

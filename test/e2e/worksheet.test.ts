@@ -6,7 +6,14 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import { callBridge, completeFirstRun, ensureScreenshotFolder, launchChromium, startHostProcess, type RunningHost } from './host-process.js';
+import {
+  callBridge,
+  completeFirstRun,
+  ensureScreenshotFolder,
+  launchChromium,
+  startHostProcess,
+  type RunningHost,
+} from './host-process.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 
 const run = promisify(execFile);
@@ -38,21 +45,47 @@ async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T>
 const squash = (text: string) => text.replace(/\s+/g, ' ').trim();
 
 /** Renders the worksheet PDF with the command line, against the running host's data folder. */
-async function worksheetPdf(planId: number, name: string): Promise<{ file: string; text: string; pageCount: number; pageWidthPt: number; pageHeightPt: number }> {
+async function worksheetPdf(
+  planId: number,
+  name: string,
+): Promise<{ file: string; text: string; pageCount: number; pageWidthPt: number; pageHeightPt: number }> {
   const file = path.join(output.folder, `${name}.pdf`);
-  await run(process.execPath, [path.join(root, 'build', 'main', 'cli', 'cli-entry.js'), 'worksheet', '--plan', String(planId), '--data', data.folder, '--out', file], { timeout: 60_000 });
+  await run(
+    process.execPath,
+    [
+      path.join(root, 'build', 'main', 'cli', 'cli-entry.js'),
+      'worksheet',
+      '--plan',
+      String(planId),
+      '--data',
+      data.folder,
+      '--out',
+      file,
+    ],
+    { timeout: 60_000 },
+  );
   const text = (await run('pdftotext', [file, '-'])).stdout;
   const info = (await run('pdfinfo', [file])).stdout;
   const size = /Page size:\s+([\d.]+) x ([\d.]+) pts/.exec(info);
-  return { file, text: squash(text), pageCount: Number(/Pages:\s+(\d+)/.exec(info)?.[1] ?? 0), pageWidthPt: Number(size?.[1]), pageHeightPt: Number(size?.[2]) };
+  return {
+    file,
+    text: squash(text),
+    pageCount: Number(/Pages:\s+(\d+)/.exec(info)?.[1] ?? 0),
+    pageWidthPt: Number(size?.[1]),
+    pageHeightPt: Number(size?.[2]),
+  };
 }
 
 /** Page images at 60 dpi into the artefact folder; returns their paths. */
 async function pageImages(file: string, prefix: string): Promise<string[]> {
-  for (const old of fs.readdirSync(shots).filter((entry) => entry.startsWith(`${prefix}-`))) fs.rmSync(path.join(shots, old));
+  for (const old of fs.readdirSync(shots).filter((entry) => entry.startsWith(`${prefix}-`)))
+    fs.rmSync(path.join(shots, old));
   const stem = path.join(output.folder, prefix);
   await run('pdftoppm', ['-png', '-r', '60', file, stem]);
-  const images = fs.readdirSync(output.folder).filter((entry) => entry.startsWith(`${prefix}-`) && entry.endsWith('.png')).sort();
+  const images = fs
+    .readdirSync(output.folder)
+    .filter((entry) => entry.startsWith(`${prefix}-`) && entry.endsWith('.png'))
+    .sort();
   return images.map((image) => {
     const number = Number(/-(\d+)\.png$/.exec(image)?.[1] ?? 0);
     const target = path.join(shots, `${prefix}-${number}.png`);
@@ -73,14 +106,29 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', ringId: 'HL-24-117' },
       meta: { enteredBy: 'RW' },
     });
-    await bridge(page, 'weights:add', { patientId: patient.id, values: { weighedOn: '2026-11-01', massG: 34 }, meta: { enteredBy: 'RW' } });
-    await bridge(page, 'weights:add', { patientId: patient.id, values: { weighedOn: '2026-12-01', massG: 32 }, meta: { enteredBy: 'RW' } });
+    await bridge(page, 'weights:add', {
+      patientId: patient.id,
+      values: { weighedOn: '2026-11-01', massG: 34 },
+      meta: { enteredBy: 'RW' },
+    });
+    await bridge(page, 'weights:add', {
+      patientId: patient.id,
+      values: { weighedOn: '2026-12-01', massG: 32 },
+      meta: { enteredBy: 'RW' },
+    });
 
     // The clinic's own drugs through the settings screen; neutral names, the clinic's numbers.
     await page.goto(`${host.origin}/#/settings`);
     await page.getByRole('heading', { name: 'Emergency drugs' }).waitFor();
     await page.getByText('No emergency drugs entered yet').waitFor();
-    const addDrug = async (drug: { name: string; concentration: string; low: string; high: string; route: string; source: string }) => {
+    const addDrug = async (drug: {
+      name: string;
+      concentration: string;
+      low: string;
+      high: string;
+      route: string;
+      source: string;
+    }) => {
       await page.getByRole('button', { name: 'Add emergency drug' }).click();
       await page.getByLabel('Drug name').fill(drug.name);
       await page.getByLabel('Concentration (mg/mL)').fill(drug.concentration);
@@ -96,35 +144,85 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     await page.getByLabel('Concentration (mg/mL)').fill('1');
     await page.getByLabel('Dose, low (mg/kg)').fill('0.5');
     await page.getByRole('button', { name: 'Save drug' }).click();
-    await page.getByText('Enter the source of the dose (formulary, paper or clinic protocol); it is printed on the emergency card.').waitFor();
+    await page
+      .getByText(
+        'Enter the source of the dose (formulary, paper or clinic protocol); it is printed on the emergency card.',
+      )
+      .waitFor();
     await page.getByText('Enter the route, e.g. IV, IM, IO or intratracheal.').waitFor();
     await page.screenshot({ path: path.join(shots, '3x-worksheet-drug-validation.png'), fullPage: true });
     await page.getByRole('button', { name: 'Cancel' }).click();
-    await addDrug({ name: 'Clinic drug A', concentration: '1', low: '0.5', high: '1', route: 'IV or IO', source: 'Heron Lane emergency protocol 2026' });
-    await addDrug({ name: 'Clinic drug B', concentration: '50', low: '20', high: '', route: 'IM', source: 'Clinic formulary p. 12' });
+    await addDrug({
+      name: 'Clinic drug A',
+      concentration: '1',
+      low: '0.5',
+      high: '1',
+      route: 'IV or IO',
+      source: 'Heron Lane emergency protocol 2026',
+    });
+    await addDrug({
+      name: 'Clinic drug B',
+      concentration: '50',
+      low: '20',
+      high: '',
+      route: 'IM',
+      source: 'Clinic formulary p. 12',
+    });
     // A correction needs a reason; a removal keeps the row in the history but takes it off the card.
-    await page.getByRole('row', { name: /Clinic drug B/ }).getByRole('button', { name: 'Correct' }).click();
+    await page
+      .getByRole('row', { name: /Clinic drug B/ })
+      .getByRole('button', { name: 'Correct' })
+      .click();
     await page.getByLabel('Notes').fill('Draw up with a 1 mL syringe');
     await page.getByRole('button', { name: 'Save correction' }).click();
     await page.getByText('Say why; the reason is kept with the history.').waitFor();
     await page.getByLabel('Reason').fill('Added handling note');
     await page.getByRole('button', { name: 'Save correction' }).click();
     await page.getByRole('cell', { name: 'Draw up with a 1 mL syringe' }).waitFor();
-    await addDrug({ name: 'Clinic drug C', concentration: '10', low: '1', high: '', route: 'IV', source: 'Entered by mistake' });
-    await page.getByRole('row', { name: /Clinic drug C/ }).getByRole('button', { name: 'Remove' }).click();
+    await addDrug({
+      name: 'Clinic drug C',
+      concentration: '10',
+      low: '1',
+      high: '',
+      route: 'IV',
+      source: 'Entered by mistake',
+    });
+    await page
+      .getByRole('row', { name: /Clinic drug C/ })
+      .getByRole('button', { name: 'Remove' })
+      .click();
     await page.getByLabel('Reason').fill('Not stocked');
     await page.getByRole('button', { name: 'Remove from the card' }).click();
     await page.getByText('Removed Clinic drug C.').waitFor();
     // The list reloads after the confirmation appears.
-    await expect.poll(() => page.getByRole('cell', { name: 'Clinic drug C', exact: true }).count(), { timeout: 10_000 }).toBe(0);
+    await expect
+      .poll(() => page.getByRole('cell', { name: 'Clinic drug C', exact: true }).count(), { timeout: 10_000 })
+      .toBe(0);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-drugs-settings.png'), fullPage: true });
 
-    const input = JSON.parse(fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8')) as Record<string, unknown>;
-    const checklist = { asaGrade: 2, items: { fastingAndCrop: 'done', hydration: 'done', bloods: 'not applicable', equipmentLeakCheck: 'done', oxygenSupply: 'done', scavenging: 'open', emergencyCard: 'open' } };
-    const saved = await bridge<{ id: number; result: { cautions: { message: string; reason: string }[] } }>(page, 'plans:save', {
-      fields: { patientId: patient.id, plannedFor: '2026-12-02', label: 'Beak trim', input, checklist },
-      meta: { enteredBy: 'RW' },
-    });
+    const input = JSON.parse(
+      fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
+    ) as Record<string, unknown>;
+    const checklist = {
+      asaGrade: 2,
+      items: {
+        fastingAndCrop: 'done',
+        hydration: 'done',
+        bloods: 'not applicable',
+        equipmentLeakCheck: 'done',
+        oxygenSupply: 'done',
+        scavenging: 'open',
+        emergencyCard: 'open',
+      },
+    };
+    const saved = await bridge<{ id: number; result: { cautions: { message: string; reason: string }[] } }>(
+      page,
+      'plans:save',
+      {
+        fields: { patientId: patient.id, plannedFor: '2026-12-02', label: 'Beak trim', input, checklist },
+        meta: { enteredBy: 'RW' },
+      },
+    );
 
     await page.goto(`${host.origin}/#/worksheets`);
     await page.getByRole('link', { name: 'Pip' }).click();
@@ -142,8 +240,18 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     // common practice arithmetic: 0.5-1 mg/kg x 0.032 kg / 1 mg/mL = 0.016-0.032 mL; 20 mg/kg x 0.032 kg / 50 mg/mL = 0.0128 mL, printed to 0.001 mL
     expect(shown).toContain('0.016-0.032 mL');
     expect(shown).toContain('0.013 mL');
-    const induction = squash(await page.getByRole('row', { name: /Predicted induction/ }).locator('td').innerText());
-    const recovery = squash(await page.getByRole('row', { name: /Predicted recovery/ }).locator('td').innerText());
+    const induction = squash(
+      await page
+        .getByRole('row', { name: /Predicted induction/ })
+        .locator('td')
+        .innerText(),
+    );
+    const recovery = squash(
+      await page
+        .getByRole('row', { name: /Predicted recovery/ })
+        .locator('td')
+        .innerText(),
+    );
     expect(induction).toMatch(/^\d+(\.\d+)? min/);
     expect(recovery).toMatch(/^\d+(\.\d+)? min/);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-screen.png'), fullPage: true });
@@ -159,7 +267,18 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     // ISO 216 A4 is 210 x 297 mm = 595.3 x 841.9 pt (common practice); Chromium rounds to whole CSS pixels
     expect(a4.pageWidthPt).toBeCloseTo(595.3, 0);
     expect(a4.pageHeightPt).toBeCloseTo(841.9, 0);
-    for (const expected of ['Heron Lane Bird Clinic', 'Pip', '32 g', induction, recovery, 'NIOSH 1977', 'Clinic drug A', '0.016-0.032 mL', 'Draw up with a 1 mL syringe']) expect(a4.text, expected).toContain(expected);
+    for (const expected of [
+      'Heron Lane Bird Clinic',
+      'Pip',
+      '32 g',
+      induction,
+      recovery,
+      'NIOSH 1977',
+      'Clinic drug A',
+      '0.016-0.032 mL',
+      'Draw up with a 1 mL syringe',
+    ])
+      expect(a4.text, expected).toContain(expected);
     expect(a4.text).not.toContain('Clinic drug C');
     for (const caution of saved.result.cautions) {
       expect(a4.text).toContain(squash(caution.message));
@@ -175,7 +294,14 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     // US Letter is 8.5 x 11 in = 612 x 792 pt (common practice)
     expect(letter.pageWidthPt).toBeCloseTo(612, 0);
     expect(letter.pageHeightPt).toBeCloseTo(792, 0);
-    for (const expected of ['Pip', '32 g', induction, recovery, 'The responsible licensed veterinarian decides']) expect(letter.text, expected).toContain(expected);
+    for (const expected of [
+      'Pip',
+      '32 g',
+      induction,
+      recovery,
+      'The responsible licensed veterinarian decides',
+    ])
+      expect(letter.text, expected).toContain(expected);
     const letterPages = await pageImages(letter.file, '3x-worksheet-letter-page');
     expect(letterPages.length).toBe(letter.pageCount);
     expect(problems).toEqual([]);

@@ -4,32 +4,48 @@ import { defaultDataDirectory } from '../../main/back-end/data-directory.js';
 
 describe('start arguments', () => {
   it('defaults to any free port, the platform data folder and opening the browser', () => {
-    expect(parseStartArguments([], {})).toEqual({ port: 0, dataDirectory: null, open: true, forceBrowser: false });
+    expect(parseStartArguments([], {})).toEqual({
+      port: 0,
+      dataDirectory: null,
+      open: true,
+      forceBrowser: false,
+    });
   });
 
   it('reads --port, --data, --no-open and --browser', () => {
-    expect(parseStartArguments(['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser'], {})).toEqual({
-      port: 8123,
-      dataDirectory: '/tmp/x',
-      open: false,
-      forceBrowser: true,
-    });
+    expect(parseStartArguments(['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser'], {})).toEqual(
+      {
+        port: 8123,
+        dataDirectory: '/tmp/x',
+        open: false,
+        forceBrowser: true,
+      },
+    );
   });
 
   it('does not open a browser when CI is set', () => {
     expect(parseStartArguments([], { CI: 'true' }).open).toBe(false);
   });
 
-  it.each([[['--port', '70000']], [['--port', 'abc']], [['--data']], [['--verbose']]])('rejects %j with a message', (argv) => {
-    expect(() => parseStartArguments(argv, {})).toThrow(/--port|--data|Unknown option/);
-  });
+  it.each([[['--port', '70000']], [['--port', 'abc']], [['--data']], [['--verbose']]])(
+    'rejects %j with a message',
+    (argv) => {
+      expect(() => parseStartArguments(argv, {})).toThrow(/--port|--data|Unknown option/);
+    },
+  );
 });
 
 describe('default data folder', () => {
   it('follows each platform’s per-user data convention', () => {
     expect(defaultDataDirectory('linux', {}, '/home/vet')).toBe('/home/vet/.local/share/tidewing');
-    expect(defaultDataDirectory('linux', { XDG_DATA_HOME: '/data/xdg' }, '/home/vet')).toBe('/data/xdg/tidewing');
-    expect(defaultDataDirectory('darwin', {}, '/Users/vet')).toBe('/Users/vet/Library/Application Support/Tidewing');
-    expect(defaultDataDirectory('win32', { APPDATA: 'C:\\Users\\vet\\AppData\\Roaming' }, 'C:\\Users\\vet')).toBe('C:\\Users\\vet\\AppData\\Roaming\\Tidewing');
+    expect(defaultDataDirectory('linux', { XDG_DATA_HOME: '/data/xdg' }, '/home/vet')).toBe(
+      '/data/xdg/tidewing',
+    );
+    expect(defaultDataDirectory('darwin', {}, '/Users/vet')).toBe(
+      '/Users/vet/Library/Application Support/Tidewing',
+    );
+    expect(
+      defaultDataDirectory('win32', { APPDATA: 'C:\\Users\\vet\\AppData\\Roaming' }, 'C:\\Users\\vet'),
+    ).toBe('C:\\Users\\vet\\AppData\\Roaming\\Tidewing');
   });
 });

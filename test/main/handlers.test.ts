@@ -8,7 +8,12 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 
 function backEnd(now = new Date('2026-12-01T09:30:00Z')): BackEnd {
   const temp = temporaryFolder();
-  const started = startBackEnd({ dataDirectory: temp.folder, appVersion: '9.8.7', host: 'browser', now: () => now });
+  const started = startBackEnd({
+    dataDirectory: temp.folder,
+    appVersion: '9.8.7',
+    host: 'browser',
+    now: () => now,
+  });
   cleanups.push(() => {
     started.close();
     temp.remove();
@@ -29,11 +34,18 @@ const validSettings = {
 describe('contract dispatcher', () => {
   it('refuses an unknown channel without throwing', async () => {
     const result = await backEnd().dispatch('patients:drop-all', {});
-    expect(result).toEqual({ ok: false, error: { code: 'unknown-channel', message: 'There is no channel called patients:drop-all.' } });
+    expect(result).toEqual({
+      ok: false,
+      error: { code: 'unknown-channel', message: 'There is no channel called patients:drop-all.' },
+    });
   });
 
   it('names the bad field and why when a payload fails its schema', async () => {
-    const result = await backEnd().dispatch('settings:save', { ...validSettings, clinicName: '   ', massUnit: 'lb' });
+    const result = await backEnd().dispatch('settings:save', {
+      ...validSettings,
+      clinicName: '   ',
+      massUnit: 'lb',
+    });
     expect(result.ok).toBe(false);
     if (result.ok) return;
     expect(result.error.code).toBe('invalid-request');
@@ -51,29 +63,46 @@ describe('contract dispatcher', () => {
 
   it('saves trimmed settings with the time of saving and reads them back', async () => {
     const api = backEnd();
-    expect(await api.dispatch('settings:get', {})).toEqual({ ok: true, value: { settings: null, updatedAt: null } });
+    expect(await api.dispatch('settings:get', {})).toEqual({
+      ok: true,
+      value: { settings: null, updatedAt: null },
+    });
     const saved = await api.dispatch('settings:save', validSettings);
     expect(saved).toEqual({
       ok: true,
-      value: { settings: { ...validSettings, clinicName: 'Heron Lane Bird Clinic' }, updatedAt: '2026-12-01T09:30:00.000Z' },
+      value: {
+        settings: { ...validSettings, clinicName: 'Heron Lane Bird Clinic' },
+        updatedAt: '2026-12-01T09:30:00.000Z',
+      },
     });
     expect(await api.dispatch('settings:get', {})).toEqual(saved);
   });
 
   it('requires a named acknowledgement of the cautions and records the app version', async () => {
     const api = backEnd();
-    expect(await api.dispatch('safety:status', {})).toEqual({ ok: true, value: { acknowledged: false, appVersion: '9.8.7', last: null } });
+    expect(await api.dispatch('safety:status', {})).toEqual({
+      ok: true,
+      value: { acknowledged: false, appVersion: '9.8.7', last: null },
+    });
     const refused = await api.dispatch('safety:acknowledge', { acknowledgedBy: 'R.W.', accepted: false });
     expect(refused.ok).toBe(false);
     const accepted = await api.dispatch('safety:acknowledge', { acknowledgedBy: 'R.W.', accepted: true });
     expect(accepted).toEqual({
       ok: true,
-      value: { acknowledged: true, appVersion: '9.8.7', last: { acknowledgedAt: '2026-12-01T09:30:00.000Z', appVersion: '9.8.7', acknowledgedBy: 'R.W.' } },
+      value: {
+        acknowledged: true,
+        appVersion: '9.8.7',
+        last: { acknowledgedAt: '2026-12-01T09:30:00.000Z', appVersion: '9.8.7', acknowledgedBy: 'R.W.' },
+      },
     });
   });
 
   it('reports the app and schema version and the data folder', async () => {
     const result = await backEnd().dispatch('app:info', {});
-    expect(result.ok && result.value).toMatchObject({ appVersion: '9.8.7', schemaVersion: latestSchemaVersion, host: 'browser' });
+    expect(result.ok && result.value).toMatchObject({
+      appVersion: '9.8.7',
+      schemaVersion: latestSchemaVersion,
+      host: 'browser',
+    });
   });
 });

@@ -17,21 +17,51 @@ async function host(): Promise<LoopbackHost> {
   const renderer = path.join(temp.folder, 'renderer');
   fs.mkdirSync(renderer);
   fs.writeFileSync(path.join(renderer, 'index.html'), '<!doctype html><div id="root"></div>');
-  const backEnd = startBackEnd({ dataDirectory: path.join(temp.folder, 'data'), appVersion: '1.0.0', host: 'browser' });
-  const started = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch: backEnd.dispatch });
-  cleanups.push(temp.remove, () => backEnd.close(), () => started.close());
+  const backEnd = startBackEnd({
+    dataDirectory: path.join(temp.folder, 'data'),
+    appVersion: '1.0.0',
+    host: 'browser',
+  });
+  const started = await startLoopbackHost({
+    port: 0,
+    rendererDirectory: renderer,
+    dispatch: backEnd.dispatch,
+  });
+  cleanups.push(
+    temp.remove,
+    () => backEnd.close(),
+    () => started.close(),
+  );
   return started;
 }
 
 type Reply = { status: number; body: string; headers: http.IncomingHttpHeaders };
 
-function request(port: number, options: { path: string; method?: string; headers?: Record<string, string>; body?: string }): Promise<Reply> {
+function request(
+  port: number,
+  options: { path: string; method?: string; headers?: Record<string, string>; body?: string },
+): Promise<Reply> {
   return new Promise((resolve, reject) => {
-    const outgoing = http.request({ host: '127.0.0.1', port, path: options.path, method: options.method ?? 'GET', headers: options.headers }, (response) => {
-      const chunks: Buffer[] = [];
-      response.on('data', (chunk: Buffer) => chunks.push(chunk));
-      response.on('end', () => resolve({ status: response.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8'), headers: response.headers }));
-    });
+    const outgoing = http.request(
+      {
+        host: '127.0.0.1',
+        port,
+        path: options.path,
+        method: options.method ?? 'GET',
+        headers: options.headers,
+      },
+      (response) => {
+        const chunks: Buffer[] = [];
+        response.on('data', (chunk: Buffer) => chunks.push(chunk));
+        response.on('end', () =>
+          resolve({
+            status: response.statusCode ?? 0,
+            body: Buffer.concat(chunks).toString('utf8'),
+            headers: response.headers,
+          }),
+        );
+      },
+    );
     outgoing.on('error', reject);
     outgoing.end(options.body);
   });
@@ -52,12 +82,17 @@ describe('loopback browser host', () => {
     const started = await host();
     expect((await request(started.port, { path: '/' })).status).toBe(403);
     expect((await request(started.port, { path: '/?token=wrong' })).status).toBe(403);
-    expect((await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}' })).status).toBe(403);
+    expect(
+      (await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}' })).status,
+    ).toBe(403);
   });
 
   it('refuses a foreign Host header (DNS rebinding) with 421', async () => {
     const started = await host();
-    const reply = await request(started.port, { path: `/?token=${started.token}`, headers: { host: `evil.example:${started.port}` } });
+    const reply = await request(started.port, {
+      path: `/?token=${started.token}`,
+      headers: { host: `evil.example:${started.port}` },
+    });
     expect(reply.status).toBe(421);
   });
 
@@ -65,15 +100,34 @@ describe('loopback browser host', () => {
     const started = await host();
     const cookie = `tidewing_token=${started.token}`;
     expect((await request(started.port, { path: '/', headers: { cookie } })).status).toBe(200);
-    expect((await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}', headers: { cookie } })).status).toBe(403);
-    const answer = await request(started.port, { path: '/api/settings:get', method: 'POST', body: '{}', headers: { 'x-tidewing-token': started.token } });
+    expect(
+      (
+        await request(started.port, {
+          path: '/api/settings:get',
+          method: 'POST',
+          body: '{}',
+          headers: { cookie },
+        })
+      ).status,
+    ).toBe(403);
+    const answer = await request(started.port, {
+      path: '/api/settings:get',
+      method: 'POST',
+      body: '{}',
+      headers: { 'x-tidewing-token': started.token },
+    });
     expect(answer.status).toBe(200);
     expect(JSON.parse(answer.body)).toEqual({ ok: true, value: { settings: null, updatedAt: null } });
   });
 
   it('answers malformed JSON with a clear error and refuses paths outside the renderer', async () => {
     const started = await host();
-    const bad = await request(started.port, { path: '/api/settings:save', method: 'POST', body: '{nope', headers: { 'x-tidewing-token': started.token } });
+    const bad = await request(started.port, {
+      path: '/api/settings:save',
+      method: 'POST',
+      body: '{nope',
+      headers: { 'x-tidewing-token': started.token },
+    });
     expect(bad.status).toBe(400);
     expect(JSON.parse(bad.body)).toMatchObject({ ok: false, error: { code: 'invalid-request' } });
     const traversal = await request(started.port, { path: `/..%2f..%2fpackage.json?token=${started.token}` });

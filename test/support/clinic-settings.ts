@@ -10,4 +10,8 @@ export const heronLaneSettings = {
 } as const;
 
 /** Settings of the throw-away clinic the benches create. */
-export const benchClinicSettings = { ...heronLaneSettings, clinicName: 'Bench Clinic', addressLine: '' } as const;
+export const benchClinicSettings = {
+  ...heronLaneSettings,
+  clinicName: 'Bench Clinic',
+  addressLine: '',
+} as const;

@@ -7,7 +7,13 @@
  * the vapour leaves at concentration c). The clinical rule of thumb (Dhulkhed et al. 2013) uses
  * FGF x c; the two differ by the factor 1 / (1 - c), 2 % at a 2 % dial.
  */
-import { agents, molarVolumeLAt20C, standardAtmosphereMmHg, type AgentId, type SourcedValue } from '../agents.js';
+import {
+  agents,
+  molarVolumeLAt20C,
+  standardAtmosphereMmHg,
+  type AgentId,
+  type SourcedValue,
+} from '../agents.js';
 
 /** One vaporiser step: from `atMin` on, the dial reads `vaporPct` (until the next step). */
 export type VaporiserStep = {
@@ -34,7 +40,11 @@ export const vaporiserTemperatureRangeC: readonly [number, number] = [10, 35];
  * Isoflurane saturated vapour pressure equation from the product label:
  * log10 P(mmHg) = 8.056 - 1664.58 / T(K). Gives 238.7 mmHg at 20 C.
  */
-export const isofluraneVapourPressureEquation = { a: 8.056, b: 1664.58, basis: 'Product label (isoflurane): log10 P(mmHg) = 8.056 - 1664.58/T(K)' } as const;
+export const isofluraneVapourPressureEquation = {
+  a: 8.056,
+  b: 1664.58,
+  basis: 'Product label (isoflurane): log10 P(mmHg) = 8.056 - 1664.58/T(K)',
+} as const;
 
 /** Basis text for the liquid-use figures, shown beside them. */
 export const consumptionBasis =
@@ -42,9 +52,16 @@ export const consumptionBasis =
   'vapour delivered = carrier flow x c / (1 - c) for a dial concentration c. Agrees within 10 % with the rule of thumb ' +
   'mL/h = 3 x FGF x dial % (3.3 for sevoflurane) (Dhulkhed et al. 2013, Indian J Anaesth 57:455-463).';
 
-function assertFinite(value: number, name: string, min = Number.NEGATIVE_INFINITY, max = Number.POSITIVE_INFINITY): void {
+function assertFinite(
+  value: number,
+  name: string,
+  min = Number.NEGATIVE_INFINITY,
+  max = Number.POSITIVE_INFINITY,
+): void {
   if (!Number.isFinite(value) || value < min || value > max) {
-    throw new RangeError(`${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`);
+    throw new RangeError(
+      `${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`,
+    );
   }
 }
 
@@ -62,7 +79,9 @@ export function vapourMlPerLiquidMl(agent: AgentId, temperatureC = 20): number {
   assertFinite(temperatureC, 'temperatureC', vaporiserTemperatureRangeC[0], vaporiserTemperatureRangeC[1]);
   const properties = agents[agent];
   const molarVolumeL = (molarVolumeLAt20C * (temperatureC + 273.15)) / referenceTemperatureK;
-  return (properties.liquidDensityGPerMl.value / properties.molecularWeightGPerMol.value) * molarVolumeL * 1000;
+  return (
+    (properties.liquidDensityGPerMl.value / properties.molecularWeightGPerMol.value) * molarVolumeL * 1000
+  );
 }
 
 /**
@@ -99,7 +118,11 @@ export function saturatedVapourPressureMmHg(agent: AgentId, temperatureC = 20): 
  * @param barometricMmHg barometric pressure in mmHg, 300 to 800; default 760
  * @returns saturated concentration in vol %
  */
-export function saturatedConcentrationPct(agent: AgentId, temperatureC = 20, barometricMmHg = standardAtmosphereMmHg): number {
+export function saturatedConcentrationPct(
+  agent: AgentId,
+  temperatureC = 20,
+  barometricMmHg = standardAtmosphereMmHg,
+): number {
   assertFinite(barometricMmHg, 'barometricMmHg', 300, 800);
   const vapourPressure = saturatedVapourPressureMmHg(agent, temperatureC).value;
   return Math.min(100, (vapourPressure / barometricMmHg) * 100);
@@ -119,7 +142,12 @@ export function vapourFlowMlPerMin(freshGasLpm: number, vaporPct: number): numbe
 }
 
 /** Value of a step schedule at time t (the last step at or before t), or `before` ahead of the first step. */
-function stepValueAt<T extends { readonly atMin: number }>(steps: readonly T[], timeMin: number, read: (step: T) => number, before: number): number {
+function stepValueAt<T extends { readonly atMin: number }>(
+  steps: readonly T[],
+  timeMin: number,
+  read: (step: T) => number,
+  before: number,
+): number {
   let value = before;
   for (const step of steps) {
     if (step.atMin <= timeMin) value = read(step);
@@ -132,7 +160,8 @@ function assertSorted(steps: readonly { readonly atMin: number }[], name: string
   let previous = Number.NEGATIVE_INFINITY;
   steps.forEach((step, index) => {
     assertFinite(step.atMin, `${name}[${String(index)}].atMin`, 0);
-    if (step.atMin < previous) throw new RangeError(`${name}[${String(index)}].atMin: steps must be in time order`);
+    if (step.atMin < previous)
+      throw new RangeError(`${name}[${String(index)}].atMin: steps must be in time order`);
     previous = step.atMin;
   });
 }
@@ -151,8 +180,15 @@ export function flowSteps(freshGas: FreshGasInput): readonly FlowStep[] {
  * @param breakpoints every atMin of the schedules involved
  * @param integrand value of the product on an interval, given its midpoint
  */
-export function integrateSteps(startMin: number, endMin: number, breakpoints: readonly number[], integrand: (midMin: number) => number): number {
-  const cuts = [startMin, ...breakpoints.filter((t) => t > startMin && t < endMin), endMin].sort((a, b) => a - b);
+export function integrateSteps(
+  startMin: number,
+  endMin: number,
+  breakpoints: readonly number[],
+  integrand: (midMin: number) => number,
+): number {
+  const cuts = [startMin, ...breakpoints.filter((t) => t > startMin && t < endMin), endMin].sort(
+    (a, b) => a - b,
+  );
   let total = 0;
   for (let index = 0; index + 1 < cuts.length; index += 1) {
     const from = cuts[index] ?? startMin;
@@ -221,5 +257,8 @@ export type HourlyConsumptionInput = {
  * @returns liquid agent in mL/h
  */
 export function liquidMlPerHour(input: HourlyConsumptionInput): number {
-  return (vapourFlowMlPerMin(input.freshGasLpm, input.vaporPct) * 60) / vapourMlPerLiquidMl(input.agent, input.temperatureC ?? 20);
+  return (
+    (vapourFlowMlPerMin(input.freshGasLpm, input.vaporPct) * 60) /
+    vapourMlPerLiquidMl(input.agent, input.temperatureC ?? 20)
+  );
 }

@@ -12,21 +12,37 @@ export const routes: readonly Route[] = ['mask', 'chamber', 'endotracheal', 'air
 export const circuits: readonly Circuit[] = ['nonRebreathing', 'circle'];
 
 /** Non-rebreathing flow as multiples of minute ventilation: 2-3 x VE (common practice). */
-export const nonRebreathingMinuteVentilationMultiple = { minimum: 2, recommended: 3, basis: 'Non-rebreathing fresh gas flow 2-3 x minute ventilation (common practice)', kind: 'common practice' } as const;
+export const nonRebreathingMinuteVentilationMultiple = {
+  minimum: 2,
+  recommended: 3,
+  basis: 'Non-rebreathing fresh gas flow 2-3 x minute ventilation (common practice)',
+  kind: 'common practice',
+} as const;
 
 /** Weight-based non-rebreathing flows of general veterinary teaching, mL/kg/min. */
 export const nonRebreathingWeightFlows = {
   reasonablySafeMlPerKgMin: [200, 300] as const,
   preventsRebreathingMlPerKgMin: 500,
-  basis: 'Non-rebreathing flow 200-300 mL/kg/min reasonably safe, 500 mL/kg/min prevents rebreathing (Massey University, Mapleson D circuits)',
+  basis:
+    'Non-rebreathing flow 200-300 mL/kg/min reasonably safe, 500 mL/kg/min prevents rebreathing (Massey University, Mapleson D circuits)',
   kind: 'published',
 } as const;
 
 /** Practical floor of fresh gas flow, L/min: vaporiser output is least reliable at very low flows. */
-export const practicalFloorFlowLpm = { value: 0.5, range: [0.5, 1] as const, basis: 'Practical floor of about 0.5-1 L/min (common practice)', kind: 'common practice' } as const;
+export const practicalFloorFlowLpm = {
+  value: 0.5,
+  range: [0.5, 1] as const,
+  basis: 'Practical floor of about 0.5-1 L/min (common practice)',
+  kind: 'common practice',
+} as const;
 
 /** Body mass above which a circle (rebreathing) system is usual instead of a non-rebreathing one, g. */
-export const circleAboveMassG = { value: 7000, range: [7000, 10000] as const, basis: 'Non-rebreathing systems below about 7-10 kg (common practice)', kind: 'common practice' } as const;
+export const circleAboveMassG = {
+  value: 7000,
+  range: [7000, 10000] as const,
+  basis: 'Non-rebreathing systems below about 7-10 kg (common practice)',
+  kind: 'common practice',
+} as const;
 
 /** Default time for an induction chamber to reach 95 % of the dial setting, min (assumption). */
 export const defaultChamberTargetMin = 5;
@@ -76,16 +92,25 @@ export type FreshGasRecommendation = {
 
 function assertRange(value: number, name: string, min: number, max: number): void {
   if (!Number.isFinite(value) || value < min || value > max) {
-    throw new RangeError(`${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`);
+    throw new RangeError(
+      `${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`,
+    );
   }
 }
 
-function nonRebreathingFlows(bodyMassG: number, minuteVentilationMlMin: number): { minimumLpm: number; recommendedLpm: number; weightFlowLpm: number } {
+function nonRebreathingFlows(
+  bodyMassG: number,
+  minuteVentilationMlMin: number,
+): { minimumLpm: number; recommendedLpm: number; weightFlowLpm: number } {
   const minuteVentilationLpm = minuteVentilationMlMin / 1000;
   const weightFlowLpm = (nonRebreathingWeightFlows.preventsRebreathingMlPerKgMin * gToKg(bodyMassG)) / 1000;
   return {
     minimumLpm: nonRebreathingMinuteVentilationMultiple.minimum * minuteVentilationLpm,
-    recommendedLpm: Math.max(nonRebreathingMinuteVentilationMultiple.recommended * minuteVentilationLpm, weightFlowLpm, practicalFloorFlowLpm.value),
+    recommendedLpm: Math.max(
+      nonRebreathingMinuteVentilationMultiple.recommended * minuteVentilationLpm,
+      weightFlowLpm,
+      practicalFloorFlowLpm.value,
+    ),
     weightFlowLpm,
   };
 }
@@ -109,7 +134,8 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
   assertRange(input.minuteVentilationMlMin, 'minuteVentilationMlMin', 0.1, 100000);
   const threeTau = timeConstantsToFraction(0.95);
   if (input.route === 'chamber') {
-    if (input.chamberVolumeL === undefined) throw new RangeError('chamberVolumeL: the chamber volume is needed for the chamber route');
+    if (input.chamberVolumeL === undefined)
+      throw new RangeError('chamberVolumeL: the chamber volume is needed for the chamber route');
     assertRange(input.chamberVolumeL, 'chamberVolumeL', 0.1, 100);
     const targetMin = input.chamberTargetMin ?? defaultChamberTargetMin;
     assertRange(targetMin, 'chamberTargetMin', 0.5, 30);
@@ -124,14 +150,21 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
   if (input.circuit === 'circle' && input.route !== 'airSacTube') {
     const targetMin = input.circleTargetMin ?? defaultCircleTargetMin;
     assertRange(targetMin, 'circleTargetMin', 1, 60);
-    const circuitFlowLpm = input.circuitVolumeL === undefined ? 0 : (threeTau * input.circuitVolumeL) / targetMin;
+    const circuitFlowLpm =
+      input.circuitVolumeL === undefined ? 0 : (threeTau * input.circuitVolumeL) / targetMin;
     if (input.circuitVolumeL !== undefined) assertRange(input.circuitVolumeL, 'circuitVolumeL', 0.1, 20);
     return {
-      recommendedLpm: Math.max(input.minuteVentilationMlMin / 1000, circuitFlowLpm, practicalFloorFlowLpm.value),
+      recommendedLpm: Math.max(
+        input.minuteVentilationMlMin / 1000,
+        circuitFlowLpm,
+        practicalFloorFlowLpm.value,
+      ),
       minimumLpm: practicalFloorFlowLpm.value,
       rule:
         'Circle: at least the minute ventilation' +
-        (input.circuitVolumeL === undefined ? '' : ` and 3 x circuit volume / ${String(targetMin)} min so the circle follows a dial change to 95 %`) +
+        (input.circuitVolumeL === undefined
+          ? ''
+          : ` and 3 x circuit volume / ${String(targetMin)} min so the circle follows a dial change to 95 %`) +
         '; never below the practical floor',
       basis: `Time constant tau = volume / flow (OpenAnesthesia, "Time constant"), ignoring uptake (assumption); ${practicalFloorFlowLpm.basis}; ${circleAboveMassG.basis}`,
       kind: 'assumption',
@@ -200,7 +233,13 @@ export function rebreathingCheck(input: RebreathingCheckInput): RebreathingCheck
   const ratio = (input.freshGasLpm * 1000) / input.minuteVentilationMlMin;
   const belowPracticalFloor = input.freshGasLpm < practicalFloorFlowLpm.value;
   if (route === 'chamber') {
-    return { rebreathing: false, belowPracticalFloor, flowToMinuteVentilationRatio: ratio, minimumLpm: 0, reason: 'Induction chamber: the bird breathes the chamber gas; no breathing system to rebreathe from' };
+    return {
+      rebreathing: false,
+      belowPracticalFloor,
+      flowToMinuteVentilationRatio: ratio,
+      minimumLpm: 0,
+      reason: 'Induction chamber: the bird breathes the chamber gas; no breathing system to rebreathe from',
+    };
   }
   if (input.circuit === 'circle' && route !== 'airSacTube') {
     return {
@@ -233,7 +272,11 @@ export function rebreathingCheck(input: RebreathingCheckInput): RebreathingCheck
  * @param fraction fraction of the step to reach, 0 to below 1; default 0.95
  * @returns time in min
  */
-export function chamberTimeToFractionMin(chamberVolumeL: number, freshGasLpm: number, fraction = 0.95): number {
+export function chamberTimeToFractionMin(
+  chamberVolumeL: number,
+  freshGasLpm: number,
+  fraction = 0.95,
+): number {
   assertRange(chamberVolumeL, 'chamberVolumeL', Number.MIN_VALUE, 1000);
   assertRange(freshGasLpm, 'freshGasLpm', Number.MIN_VALUE, 100);
   assertRange(fraction, 'fraction', 0, 0.999999);

@@ -42,7 +42,8 @@ export const cylinderPresets: Readonly<Record<CylinderPresetId, CylinderPreset>>
     fullContentL: 2 * metricFillPressureBar,
     fullContentRangeL: [2 * metricFillPressureBar, 2 * metricFillPressureBar],
     fullPressureBar: metricFillPressureBar,
-    basis: 'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
+    basis:
+      'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
     kind: 'derived',
   },
   'metric-10l-200bar': {
@@ -51,7 +52,8 @@ export const cylinderPresets: Readonly<Record<CylinderPresetId, CylinderPreset>>
     fullContentL: 10 * metricFillPressureBar,
     fullContentRangeL: [10 * metricFillPressureBar, 10 * metricFillPressureBar],
     fullPressureBar: metricFillPressureBar,
-    basis: 'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
+    basis:
+      'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
     kind: 'derived',
   },
 };
@@ -61,7 +63,12 @@ export const cylinderPresets: Readonly<Record<CylinderPresetId, CylinderPreset>>
  * capacity and gauge pressure (metric labelling), or by a known content in litres.
  */
 export type CylinderSpec =
-  | { readonly kind: 'preset'; readonly presetId: CylinderPresetId; readonly gaugePressureBar?: number; readonly gaugePressurePsi?: number }
+  | {
+      readonly kind: 'preset';
+      readonly presetId: CylinderPresetId;
+      readonly gaugePressureBar?: number;
+      readonly gaugePressurePsi?: number;
+    }
   | { readonly kind: 'waterCapacity'; readonly waterCapacityL: number; readonly pressureBar: number }
   | { readonly kind: 'content'; readonly contentL: number };
 
@@ -74,7 +81,9 @@ export type CylinderContent = {
 
 function assertRange(value: number, name: string, min: number, max: number): void {
   if (!Number.isFinite(value) || value < min || value > max) {
-    throw new RangeError(`${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`);
+    throw new RangeError(
+      `${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`,
+    );
   }
 }
 
@@ -91,8 +100,11 @@ export function cylinderContent(spec: CylinderSpec): CylinderContent {
   switch (spec.kind) {
     case 'preset': {
       const preset = cylinderPresets[spec.presetId];
-      const gaugeBar = spec.gaugePressureBar ?? (spec.gaugePressurePsi === undefined ? undefined : psiToBar(spec.gaugePressurePsi));
-      if (gaugeBar === undefined) return { contentL: preset.fullContentL, basis: preset.basis, kind: preset.kind };
+      const gaugeBar =
+        spec.gaugePressureBar ??
+        (spec.gaugePressurePsi === undefined ? undefined : psiToBar(spec.gaugePressurePsi));
+      if (gaugeBar === undefined)
+        return { contentL: preset.fullContentL, basis: preset.basis, kind: preset.kind };
       assertRange(gaugeBar, 'gaugePressureBar', 0, 300);
       return {
         contentL: (preset.fullContentL * gaugeBar) / preset.fullPressureBar,

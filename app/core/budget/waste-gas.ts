@@ -12,11 +12,20 @@
  */
 import { agents, type AgentId } from '../agents.js';
 import { ppmToMgPerM3 } from '../units.js';
-import { vapourFlowMlPerMin, vapourMlForSchedule, type FreshGasInput, type VaporiserStep } from './consumption.js';
+import {
+  vapourFlowMlPerMin,
+  vapourMlForSchedule,
+  type FreshGasInput,
+  type VaporiserStep,
+} from './consumption.js';
 import type { Route } from './flows.js';
 
 /** NIOSH 1977 (Pub. 77-140) recommended exposure limit for halogenated agents: 2 ppm ceiling over up to 1 h. */
-export const nioshCeilingPpm = { value: 2, basis: 'NIOSH 1977 (Pub. 77-140): 2 ppm ceiling for halogenated agents over up to 1 h', kind: 'published' } as const;
+export const nioshCeilingPpm = {
+  value: 2,
+  basis: 'NIOSH 1977 (Pub. 77-140): 2 ppm ceiling for halogenated agents over up to 1 h',
+  kind: 'published',
+} as const;
 
 /**
  * Fraction of the breathing system's exhaust captured by active scavenging (assumption). Informed by
@@ -25,13 +34,16 @@ export const nioshCeilingPpm = { value: 2, basis: 'NIOSH 1977 (Pub. 77-140): 2 p
  */
 export const defaultScavengingCaptureFraction = {
   value: 0.8,
-  basis: 'Assumption informed by Friembichler et al. 2011 (11.2 ppm without and 2.0 ppm with scavenging: 82 % lower)',
+  basis:
+    'Assumption informed by Friembichler et al. 2011 (11.2 ppm without and 2.0 ppm with scavenging: 82 % lower)',
   kind: 'assumption',
 } as const;
 
 function assertRange(value: number, name: string, min: number, max: number): void {
   if (!Number.isFinite(value) || value < min || value > max) {
-    throw new RangeError(`${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`);
+    throw new RangeError(
+      `${name}: must be a number between ${String(min)} and ${String(max)} (got ${String(value)})`,
+    );
   }
 }
 
@@ -55,7 +67,12 @@ export function chamberOpeningVapourMl(chamberVolumeL: number, chamberConcentrat
  * @param durationMin mask time in min, 0 to 1440
  * @returns vapour in mL
  */
-export function maskLeakVapourMl(leakFraction: number, freshGasLpm: number, vaporPct: number, durationMin: number): number {
+export function maskLeakVapourMl(
+  leakFraction: number,
+  freshGasLpm: number,
+  vaporPct: number,
+  durationMin: number,
+): number {
   assertRange(leakFraction, 'leakFraction', 0, 1);
   assertRange(durationMin, 'durationMin', 0, 1440);
   return leakFraction * vapourFlowMlPerMin(freshGasLpm, vaporPct) * durationMin;
@@ -106,8 +123,15 @@ export type WasteGasRelease = {
  * not counted.
  */
 export function wasteGasRelease(input: WasteGasReleaseInput): WasteGasRelease {
-  const deliveredVapourMl = vapourMlForSchedule({ agent: input.agent, schedule: input.schedule, freshGasLpm: input.freshGasLpm, endMin: input.endMin });
-  const capture = input.scavenging ? (input.scavengingCaptureFraction ?? defaultScavengingCaptureFraction.value) : 0;
+  const deliveredVapourMl = vapourMlForSchedule({
+    agent: input.agent,
+    schedule: input.schedule,
+    freshGasLpm: input.freshGasLpm,
+    endMin: input.endMin,
+  });
+  const capture = input.scavenging
+    ? (input.scavengingCaptureFraction ?? defaultScavengingCaptureFraction.value)
+    : 0;
   assertRange(capture, 'scavengingCaptureFraction', 0, 1);
   const sources: WasteGasSourceAmount[] = [];
   let unscavengeable = 0;
@@ -115,14 +139,22 @@ export function wasteGasRelease(input: WasteGasReleaseInput): WasteGasRelease {
     assertRange(input.maskLeakFraction, 'maskLeakFraction', 0, 1);
     const leaked = input.maskLeakFraction * deliveredVapourMl;
     unscavengeable += leaked;
-    sources.push({ source: 'maskLeak', vapourMl: leaked, basis: 'Leak fraction x vapour delivered during the mask time' });
+    sources.push({
+      source: 'maskLeak',
+      vapourMl: leaked,
+      basis: 'Leak fraction x vapour delivered during the mask time',
+    });
   }
   if (input.route === 'chamber' && input.chamberVolumeL !== undefined) {
     const highestDial = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
     const atOpening = Math.min(input.chamberConcentrationAtOpeningPct ?? highestDial, highestDial);
     const opened = Math.min(chamberOpeningVapourMl(input.chamberVolumeL, atOpening), deliveredVapourMl);
     unscavengeable += opened;
-    sources.push({ source: 'chamberOpened', vapourMl: opened, basis: 'Chamber volume x agent concentration when the chamber is opened' });
+    sources.push({
+      source: 'chamberOpened',
+      vapourMl: opened,
+      basis: 'Chamber volume x agent concentration when the chamber is opened',
+    });
   }
   const exhaust = Math.max(0, deliveredVapourMl - unscavengeable) * (1 - capture);
   sources.push({
@@ -136,7 +168,8 @@ export function wasteGasRelease(input: WasteGasReleaseInput): WasteGasRelease {
     sources,
     deliveredVapourMl,
     releasedVapourMl: sources.reduce((sum, source) => sum + source.vapourMl, 0),
-    basis: 'Vapour delivered = integral of carrier flow x c / (1 - c); all of it leaves the breathing system (conservative: uptake is exhaled at recovery)',
+    basis:
+      'Vapour delivered = integral of carrier flow x c / (1 - c); all of it leaves the breathing system (conservative: uptake is exhaled at recovery)',
   };
 }
 
@@ -194,7 +227,12 @@ export type WasteGasExposure = {
 const puffDurationMin = 1e-6;
 
 /** Room concentration (ppm) at time t from one release, analytic solution of V dC/dt = G - Q C. */
-function releasePpmAt(release: RoomRelease, ventilationM3PerMin: number, roomVolumeM3: number, timeMin: number): number {
+function releasePpmAt(
+  release: RoomRelease,
+  ventilationM3PerMin: number,
+  roomVolumeM3: number,
+  timeMin: number,
+): number {
   const elapsed = timeMin - release.startMin;
   const puff = release.durationMin < puffDurationMin;
   if (elapsed < 0 || (elapsed === 0 && !puff)) return 0;
@@ -203,16 +241,24 @@ function releasePpmAt(release: RoomRelease, ventilationM3PerMin: number, roomVol
   // mL per minute over m3 per minute is ppm (1 mL per m3 = 1 ppm by volume).
   const steady = release.vapourMl / release.durationMin / ventilationM3PerMin;
   if (elapsed <= release.durationMin) return steady * -Math.expm1(-rate * elapsed);
-  return steady * -Math.expm1(-rate * release.durationMin) * Math.exp(-rate * (elapsed - release.durationMin));
+  return (
+    steady * -Math.expm1(-rate * release.durationMin) * Math.exp(-rate * (elapsed - release.durationMin))
+  );
 }
 
 /** Integral of the room concentration (ppm x min) from one release over [0, t]. */
-function releasePpmMinUntil(release: RoomRelease, ventilationM3PerMin: number, roomVolumeM3: number, timeMin: number): number {
+function releasePpmMinUntil(
+  release: RoomRelease,
+  ventilationM3PerMin: number,
+  roomVolumeM3: number,
+  timeMin: number,
+): number {
   const elapsed = timeMin - release.startMin;
   if (elapsed <= 0) return 0;
   const rate = ventilationM3PerMin / roomVolumeM3;
   const tau = 1 / rate;
-  if (release.durationMin < puffDurationMin) return (release.vapourMl / roomVolumeM3) * tau * -Math.expm1(-elapsed / tau);
+  if (release.durationMin < puffDurationMin)
+    return (release.vapourMl / roomVolumeM3) * tau * -Math.expm1(-elapsed / tau);
   const steady = release.vapourMl / release.durationMin / ventilationM3PerMin;
   const during = Math.min(elapsed, release.durationMin);
   const rising = steady * (during + tau * Math.expm1(-during / tau));
@@ -235,7 +281,9 @@ export function wasteGasExposure(input: WasteGasExposureInput): WasteGasExposure
   assertRange(input.airChangesPerHour, 'airChangesPerHour', 0.1, 60);
   const sampleMin = input.sampleMin ?? 1;
   assertRange(sampleMin, 'sampleMin', 0.1, 60);
-  const releases: RoomRelease[] = [{ startMin: 0, durationMin: input.releaseDurationMin, vapourMl: input.releasedVapourMl }];
+  const releases: RoomRelease[] = [
+    { startMin: 0, durationMin: input.releaseDurationMin, vapourMl: input.releasedVapourMl },
+  ];
   (input.extraReleases ?? []).forEach((release, index) => {
     assertRange(release.startMin, `extraReleases[${String(index)}].startMin`, 0, 1440);
     assertRange(release.durationMin, `extraReleases[${String(index)}].durationMin`, 0, 1440);
@@ -244,13 +292,23 @@ export function wasteGasExposure(input: WasteGasExposureInput): WasteGasExposure
   });
   const ventilationM3PerMin = (input.airChangesPerHour * input.roomVolumeM3) / 60;
   const timeConstantMin = 60 / input.airChangesPerHour;
-  const lastReleaseEnd = releases.reduce((latest, release) => Math.max(latest, release.startMin + release.durationMin), 0);
+  const lastReleaseEnd = releases.reduce(
+    (latest, release) => Math.max(latest, release.startMin + release.durationMin),
+    0,
+  );
   const horizonMin = input.horizonMin ?? Math.max(60, lastReleaseEnd + 3 * timeConstantMin);
   assertRange(horizonMin, 'horizonMin', 0, 10000);
 
-  const ppmAt = (timeMin: number): number => releases.reduce((sum, release) => sum + releasePpmAt(release, ventilationM3PerMin, input.roomVolumeM3, timeMin), 0);
+  const ppmAt = (timeMin: number): number =>
+    releases.reduce(
+      (sum, release) => sum + releasePpmAt(release, ventilationM3PerMin, input.roomVolumeM3, timeMin),
+      0,
+    );
   const ppmMinUntil = (timeMin: number): number =>
-    releases.reduce((sum, release) => sum + releasePpmMinUntil(release, ventilationM3PerMin, input.roomVolumeM3, timeMin), 0);
+    releases.reduce(
+      (sum, release) => sum + releasePpmMinUntil(release, ventilationM3PerMin, input.roomVolumeM3, timeMin),
+      0,
+    );
 
   const timeline: RoomConcentrationSample[] = [];
   const sampleCount = Math.floor(horizonMin / sampleMin + 1e-9);
@@ -291,7 +349,10 @@ export function wasteGasExposure(input: WasteGasExposureInput): WasteGasExposure
   }
 
   const molecularWeight = agents[input.agent].molecularWeightGPerMol.value;
-  const steadyStatePpm = input.releaseDurationMin >= puffDurationMin ? input.releasedVapourMl / input.releaseDurationMin / ventilationM3PerMin : 0;
+  const steadyStatePpm =
+    input.releaseDurationMin >= puffDurationMin
+      ? input.releasedVapourMl / input.releaseDurationMin / ventilationM3PerMin
+      : 0;
   return {
     timeline,
     peakPpm,

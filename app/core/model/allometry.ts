@@ -4,7 +4,12 @@
  * Body mass M is in kg inside the equations. Every estimate is returned with its basis: the
  * equation and its source, 'measured' when the clinic entered the value, or 'assumption'.
  */
-import { airSacVolumeFraction, bodyDensityGPerMl, lungVolumeFraction, posteriorSacShare } from './parameters.js';
+import {
+  airSacVolumeFraction,
+  bodyDensityGPerMl,
+  lungVolumeFraction,
+  posteriorSacShare,
+} from './parameters.js';
 
 export type Estimate = {
   readonly value: number;
@@ -104,7 +109,10 @@ function measuredOr(measured: number | undefined, estimate: Estimate): Estimate 
  * @param bodyMassG body mass in g, 5-15000
  * @param overrides measured values (all optional, each > 0)
  */
-export function estimateRespiratory(bodyMassG: number, overrides: MeasuredOverrides = {}): RespiratoryEstimates {
+export function estimateRespiratory(
+  bodyMassG: number,
+  overrides: MeasuredOverrides = {},
+): RespiratoryEstimates {
   const massKgText = `M = ${(bodyMassG / 1000).toPrecision(3)} kg`;
   const tidal = measuredOr(overrides.tidalVolumeMl, {
     value: tidalVolumeMl(bodyMassG),
@@ -146,7 +154,10 @@ export function estimateRespiratory(bodyMassG: number, overrides: MeasuredOverri
       basis: `measured heart rate x Grubb 1983 stroke volume 1.72 * M^0.97 mL, ${massKgText}`,
     };
   } else {
-    output = { value: cardiacOutputMlMin(bodyMassG), basis: `Grubb 1983: 290.7 * M^0.69 mL/min, ${massKgText}` };
+    output = {
+      value: cardiacOutputMlMin(bodyMassG),
+      basis: `Grubb 1983: 290.7 * M^0.69 mL/min, ${massKgText}`,
+    };
   }
   return {
     tidalVolumeMl: tidal,
@@ -154,8 +165,14 @@ export function estimateRespiratory(bodyMassG: number, overrides: MeasuredOverri
     minuteVentilationMlMin: { value: tidal.value * rate.value, basis: minuteVentilationBasis },
     trachealDeadSpaceMl: trachea,
     lungVolumeMl: lung,
-    anteriorSacsMl: { value: sacs.value * (1 - posteriorSacShare.value), basis: `air-sac volume split: ${splitBasis}` },
-    posteriorSacsMl: { value: sacs.value * posteriorSacShare.value, basis: `air-sac volume split: ${splitBasis}` },
+    anteriorSacsMl: {
+      value: sacs.value * (1 - posteriorSacShare.value),
+      basis: `air-sac volume split: ${splitBasis}`,
+    },
+    posteriorSacsMl: {
+      value: sacs.value * posteriorSacShare.value,
+      basis: `air-sac volume split: ${splitBasis}`,
+    },
     airSacVolumeMl: sacs,
     heartRatePerMin: heart,
     cardiacOutputMlMin: output,

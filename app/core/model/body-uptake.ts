@@ -37,13 +37,19 @@ export function bodyBloodFlowMlMin(body: BodyModel): number {
  * @param state [Pv, P_vesselRich, P_muscle, P_fat]
  * @param derivative output array of length 4
  */
-export function bodyUptakeDerivatives(body: BodyModel, arterialFraction: number, state: ArrayLike<number>, derivative: { [index: number]: number }): void {
+export function bodyUptakeDerivatives(
+  body: BodyModel,
+  arterialFraction: number,
+  state: ArrayLike<number>,
+  derivative: { [index: number]: number },
+): void {
   const venous = state[0] ?? 0;
   let returning = 0;
   for (let index = 0; index < 3; index += 1) {
     const group = body.groups[index] as TissueGroup;
     const tissue = state[index + 1] ?? 0;
-    derivative[index + 1] = (group.flowMlMin * (arterialFraction - tissue)) / (group.tissueBloodPartition * group.volumeMl);
+    derivative[index + 1] =
+      (group.flowMlMin * (arterialFraction - tissue)) / (group.tissueBloodPartition * group.volumeMl);
     returning += group.flowMlMin * tissue;
   }
   derivative[0] = (returning - bodyBloodFlowMlMin(body) * venous) / body.bloodVolumeMl;
@@ -74,7 +80,13 @@ export function bodyContentMl(body: BodyModel, state: ArrayLike<number>): number
  * @param decay per-group exp(-Qi dt / (lambdaTissue_i Vi)) for this step length
  * @param stepMin step length in minutes, small against Vblood / Q
  */
-export function advanceBody(body: BodyModel, arterialFraction: number, state: Float64Array, decay: Float64Array, stepMin: number): void {
+export function advanceBody(
+  body: BodyModel,
+  arterialFraction: number,
+  state: Float64Array,
+  decay: Float64Array,
+  stepMin: number,
+): void {
   const venousStart = state[0] as number;
   let tissueGain = 0;
   for (let index = 0; index < 3; index += 1) {
@@ -85,7 +97,8 @@ export function advanceBody(body: BodyModel, arterialFraction: number, state: Fl
     tissueGain += group.tissueBloodPartition * group.volumeMl * (after - before);
   }
   const flow = bodyBloodFlowMlMin(body);
-  state[0] = venousStart + (flow * stepMin * (arterialFraction - venousStart) - tissueGain) / body.bloodVolumeMl;
+  state[0] =
+    venousStart + (flow * stepMin * (arterialFraction - venousStart) - tissueGain) / body.bloodVolumeMl;
 }
 
 /**

@@ -3,8 +3,18 @@
  * milestones, uncertainty bands, flows, budgets, waste gas and cautions.
  */
 import { agents } from '../agents.js';
-import { liquidAgentMlForSchedule, liquidMlPerHour, saturatedConcentrationPct, vapourMlPerLiquidMl } from '../budget/consumption.js';
-import { chamberTimeToFractionMin, rebreathingCheck, recommendFreshGas, type FreshGasInputs } from '../budget/flows.js';
+import {
+  liquidAgentMlForSchedule,
+  liquidMlPerHour,
+  saturatedConcentrationPct,
+  vapourMlPerLiquidMl,
+} from '../budget/consumption.js';
+import {
+  chamberTimeToFractionMin,
+  rebreathingCheck,
+  recommendFreshGas,
+  type FreshGasInputs,
+} from '../budget/flows.js';
 import { oxygenBudget } from '../budget/oxygen.js';
 import { nioshCeilingPpm, wasteGasExposure, wasteGasRelease, type RoomRelease } from '../budget/waste-gas.js';
 import { collectCautions, type Caution, type CautionContext } from '../cautions.js';
@@ -46,7 +56,12 @@ export const defaultRecoveryWindowMin = 30;
 /** Default number of uncertainty samples and seed. */
 export const defaultUncertainty = { samples: 200, seed: 1 } as const;
 
-export type ResolvedMac = { readonly valuePct: number; readonly basis: string; readonly publishedForBird: boolean; readonly sdPct: number | null };
+export type ResolvedMac = {
+  readonly valuePct: number;
+  readonly basis: string;
+  readonly publishedForBird: boolean;
+  readonly sdPct: number | null;
+};
 
 /**
  * MAC in use: the plan's value, else the species' published value, else the agent default.
@@ -54,7 +69,8 @@ export type ResolvedMac = { readonly valuePct: number; readonly basis: string; r
  * @param species species row, if any
  */
 export function resolveMac(input: PlanInput, species: SpeciesReference | undefined): ResolvedMac {
-  if (input.macPct !== undefined) return { valuePct: input.macPct, basis: 'entered for this bird', publishedForBird: true, sdPct: null };
+  if (input.macPct !== undefined)
+    return { valuePct: input.macPct, basis: 'entered for this bird', publishedForBird: true, sdPct: null };
   const published = species?.macByAgent[input.agent];
   if (published !== undefined && species !== undefined) {
     return {
@@ -89,16 +105,22 @@ export function planEndMin(input: PlanInput): number {
  * @param cardiacOutputMlMin cardiac output in mL/min
  * @param agentId agent
  */
-export function buildBodyModel(bodyMassG: number, cardiacOutputMlMin: number, agentId: PlanInput['agent']): BodyModel {
+export function buildBodyModel(
+  bodyMassG: number,
+  cardiacOutputMlMin: number,
+  agentId: PlanInput['agent'],
+): BodyModel {
   const agent = agents[agentId];
-  const partitions = [agent.vesselRichBloodPartition.value, agent.muscleBloodPartition.value, agent.fatBloodPartition.value];
-  const groups = tissueGroups.map(
-    (group, index): TissueGroup => ({
-      volumeMl: group.volumeFraction.value * bodyMassG,
-      flowMlMin: group.flowFraction.value * cardiacOutputMlMin,
-      tissueBloodPartition: partitions[index] as number,
-    }),
-  );
+  const partitions = [
+    agent.vesselRichBloodPartition.value,
+    agent.muscleBloodPartition.value,
+    agent.fatBloodPartition.value,
+  ];
+  const groups = tissueGroups.map((group, index): TissueGroup => ({
+    volumeMl: group.volumeFraction.value * bodyMassG,
+    flowMlMin: group.flowFraction.value * cardiacOutputMlMin,
+    tissueBloodPartition: partitions[index] as number,
+  }));
   return {
     bloodGasPartition: agent.bloodGasPartition.value,
     bloodVolumeMl: bloodVolumeFraction.value * bodyMassG,
@@ -112,10 +134,15 @@ export function buildBodyModel(bodyMassG: number, cardiacOutputMlMin: number, ag
  * @param estimates respiratory estimates of the bird
  * @param mac MAC in use
  */
-export function buildSimulationSetup(input: PlanInput, estimates: RespiratoryEstimates, mac: ResolvedMac): SimulationSetup {
+export function buildSimulationSetup(
+  input: PlanInput,
+  estimates: RespiratoryEstimates,
+  mac: ResolvedMac,
+): SimulationSetup {
   const circuit = input.circuit ?? 'nonRebreathing';
   const mixed = input.route === 'chamber' || circuit === 'circle';
-  const mixedVolumeMl = input.route === 'chamber' ? (input.chamberVolumeL ?? 1) * 1000 : (input.circuitVolumeL ?? 3) * 1000;
+  const mixedVolumeMl =
+    input.route === 'chamber' ? (input.chamberVolumeL ?? 1) * 1000 : (input.circuitVolumeL ?? 3) * 1000;
   const endMin = planEndMin(input);
   const ventilation = input.ventilation ?? { mode: 'spontaneous' as const };
   const targetMultiple = input.targetMacMultiple ?? defaultTargetMacMultiple.value;
@@ -135,7 +162,8 @@ export function buildSimulationSetup(input: PlanInput, estimates: RespiratoryEst
       mixedVolumeMl,
       rebreathingFlowMultiple: rebreathingFlowMultiple.value,
       interface: input.route === 'mask' ? 'mask' : input.route === 'airSacTube' ? 'airSacTube' : 'direct',
-      maskDeadSpaceMl: input.maskDeadSpaceMl ?? defaultMaskDeadSpaceTidalMultiple.value * estimates.tidalVolumeMl.value,
+      maskDeadSpaceMl:
+        input.maskDeadSpaceMl ?? defaultMaskDeadSpaceTidalMultiple.value * estimates.tidalVolumeMl.value,
       maskLeakFraction: input.maskLeakFraction ?? defaultMaskLeakFraction.value,
     },
     ventilation: {
@@ -145,7 +173,11 @@ export function buildSimulationSetup(input: PlanInput, estimates: RespiratoryEst
       depressionFloor: ventilatoryDepressionFloor.value,
       ippv:
         ventilation.mode === 'ippv'
-          ? { fromMin: ventilation.fromMin ?? 0, breathsPerMin: ventilation.breathsPerMin, tidalVolumeMl: ventilation.tidalVolumeMl }
+          ? {
+              fromMin: ventilation.fromMin ?? 0,
+              breathsPerMin: ventilation.breathsPerMin,
+              tidalVolumeMl: ventilation.tidalVolumeMl,
+            }
           : null,
     },
     schedule: input.schedule,
@@ -190,7 +222,8 @@ function timelineOf(outcome: SimulationOutcome, intervalMin: number): PlanTimeli
  * @param tables the species reference
  */
 export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
-  const species = input.speciesId === undefined ? undefined : tables.species.find((row) => row.id === input.speciesId);
+  const species =
+    input.speciesId === undefined ? undefined : tables.species.find((row) => row.id === input.speciesId);
   const estimates = estimateRespiratory(input.bodyMassG, input.overrides ?? {});
   const mac = resolveMac(input, species);
   const setup = buildSimulationSetup(input, estimates, mac);
@@ -213,7 +246,10 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     direction: 'in',
     airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
   });
-  const offVentilation = outcome.atOff ?? { tidalVolumeMl: startVentilation.tidal, breathsPerMin: startVentilation.rate };
+  const offVentilation = outcome.atOff ?? {
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+  };
   const washOut = gasSpaceWash({
     gasPath: setup.gasPath,
     body: setup.body,
@@ -254,7 +290,10 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     route,
     ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
   });
-  const chamberTime = route === 'chamber' && input.chamberVolumeL !== undefined ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm) : null;
+  const chamberTime =
+    route === 'chamber' && input.chamberVolumeL !== undefined
+      ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm)
+      : null;
 
   // Consumption.
   const temperatureC = input.vaporiserTemperatureC ?? 20;
@@ -263,19 +302,42 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
   const consumption = {
     vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
-    liquidMl: liquidAgentMlForSchedule({ agent: input.agent, schedule: input.schedule, freshGasLpm: input.freshGasLpm, endMin, temperatureC }),
+    liquidMl: liquidAgentMlForSchedule({
+      agent: input.agent,
+      schedule: input.schedule,
+      freshGasLpm: input.freshGasLpm,
+      endMin,
+      temperatureC,
+    }),
     maintenanceVaporPct,
-    liquidMlPerHour: liquidMlPerHour({ agent: input.agent, vaporPct: maintenanceVaporPct, freshGasLpm: input.freshGasLpm, temperatureC }),
-    basis: 'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
+    liquidMlPerHour: liquidMlPerHour({
+      agent: input.agent,
+      vaporPct: maintenanceVaporPct,
+      freshGasLpm: input.freshGasLpm,
+      temperatureC,
+    }),
+    basis:
+      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
   };
 
   // Oxygen.
   const oxygenUsedL = input.freshGasLpm * endMin;
   const oxygen =
     input.cylinder === undefined
-      ? { durationMin: endMin, usedL: oxygenUsedL, cylinderContentL: null, enduranceMin: null, suffices: null, basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given' }
+      ? {
+          durationMin: endMin,
+          usedL: oxygenUsedL,
+          cylinderContentL: null,
+          enduranceMin: null,
+          suffices: null,
+          basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given',
+        }
       : (() => {
-          const budget = oxygenBudget({ freshGasLpm: input.freshGasLpm, durationMin: endMin, cylinder: input.cylinder });
+          const budget = oxygenBudget({
+            freshGasLpm: input.freshGasLpm,
+            durationMin: endMin,
+            cylinder: input.cylinder,
+          });
           return {
             durationMin: endMin,
             usedL: budget.usedL,
@@ -288,7 +350,10 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
 
   // Waste gas.
   const scavenging = input.scavenging ?? false;
-  const room = input.room ?? { volumeM3: defaultRoom.volumeM3, airChangesPerHour: defaultRoom.airChangesPerHour };
+  const room = input.room ?? {
+    volumeM3: defaultRoom.volumeM3,
+    airChangesPerHour: defaultRoom.airChangesPerHour,
+  };
   const release = wasteGasRelease({
     agent: input.agent,
     route,
@@ -297,14 +362,21 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     endMin,
     scavenging,
     ...(route === 'chamber' && input.chamberVolumeL !== undefined
-      ? { chamberVolumeL: input.chamberVolumeL, chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction) }
+      ? {
+          chamberVolumeL: input.chamberVolumeL,
+          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
+        }
       : {}),
     ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
   });
   const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
-  const steady = release.sources.filter((source) => source.source !== 'chamberOpened').reduce((sum, source) => sum + source.vapourMl, 0);
+  const steady = release.sources
+    .filter((source) => source.source !== 'chamberOpened')
+    .reduce((sum, source) => sum + source.vapourMl, 0);
   const extraReleases: RoomRelease[] =
-    chamberOpened === undefined ? [] : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }];
+    chamberOpened === undefined
+      ? []
+      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }];
   const exposure = wasteGasExposure({
     agent: input.agent,
     releasedVapourMl: steady,
@@ -317,7 +389,11 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     scavenging,
     roomVolumeM3: room.volumeM3,
     airChangesPerHour: room.airChangesPerHour,
-    sources: release.sources.map((source) => ({ source: source.source, vapourMl: source.vapourMl, basis: source.basis })),
+    sources: release.sources.map((source) => ({
+      source: source.source,
+      vapourMl: source.vapourMl,
+      basis: source.basis,
+    })),
     releasedVapourMl: release.releasedVapourMl,
     peakPpm: exposure.peakPpm,
     highestHourMeanPpm: exposure.highestHourMeanPpm,
@@ -330,7 +406,13 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   const highestDialPct = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
   const cautionContext: CautionContext = {
     bodyMassG: input.bodyMassG,
-    ...(species === undefined ? {} : { speciesName: species.commonName, speciesMassRangeG: { minG: species.typicalMassG.minG, maxG: species.typicalMassG.maxG }, anatomyNotes: species.anatomyNotes }),
+    ...(species === undefined
+      ? {}
+      : {
+          speciesName: species.commonName,
+          speciesMassRangeG: { minG: species.typicalMassG.minG, maxG: species.typicalMassG.maxG },
+          anatomyNotes: species.anatomyNotes,
+        }),
     ...(species?.apnoeaMacMultiple === undefined ? {} : { apnoeaMacMultiple: species.apnoeaMacMultiple }),
     agent: input.agent,
     highestDialPct,
@@ -348,13 +430,17 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     wasteGasHourMeanPpm: exposure.highestHourMeanPpm,
     ventilationMode: input.ventilation?.mode ?? 'spontaneous',
   };
-  const cautions: Caution[] = [...collectCautions(cautionContext), ...modelCautions(input, outcome, offMin, endMin)];
+  const cautions: Caution[] = [
+    ...collectCautions(cautionContext),
+    ...modelCautions(input, outcome, offMin, endMin),
+  ];
   if (input.speciesId !== undefined && species === undefined) {
     cautions.push({
       code: 'unknown-species',
       severity: 'notice',
       message: `No species "${input.speciesId}" in the reference: mass range and published MAC are not checked`,
-      reason: 'The species reference has no row with this id; the agent default MAC is used unless one is entered',
+      reason:
+        'The species reference has no row with this id; the agent default MAC is used unless one is entered',
     });
   }
 
@@ -418,7 +504,12 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   };
 }
 
-function modelCautions(input: PlanInput, outcome: SimulationOutcome, offMin: number | null, endMin: number): Caution[] {
+function modelCautions(
+  input: PlanInput,
+  outcome: SimulationOutcome,
+  offMin: number | null,
+  endMin: number,
+): Caution[] {
   const cautions: Caution[] = [];
   if (outcome.inductionMin === null && input.schedule.some((step) => step.vaporPct > 0)) {
     cautions.push({
@@ -433,7 +524,8 @@ function modelCautions(input: PlanInput, outcome: SimulationOutcome, offMin: num
       code: 'recovery-not-within-window',
       severity: 'notice',
       message: 'Recovery is not predicted within the simulated window after the vaporiser is off',
-      reason: 'Model prediction: lengthen recoveryWindowMin to see the recovery time (estimate, see docs/model.md)',
+      reason:
+        'Model prediction: lengthen recoveryWindowMin to see the recovery time (estimate, see docs/model.md)',
     });
   }
   if (outcome.lowestVentilationFraction <= ventilatoryDepressionFloor.value + 1e-9) {

@@ -13,7 +13,11 @@
  * @param bloodFlowMlMin blood flow in mL/min, >= 0
  * @param ventilationMlMin ventilation of the exchanging gas in mL/min, > 0
  */
-export function perfusionVentilationK(bloodGasPartition: number, bloodFlowMlMin: number, ventilationMlMin: number): number {
+export function perfusionVentilationK(
+  bloodGasPartition: number,
+  bloodFlowMlMin: number,
+  ventilationMlMin: number,
+): number {
   return (bloodGasPartition * bloodFlowMlMin) / ventilationMlMin;
 }
 

@@ -16,7 +16,8 @@ export type ModelParameter = {
 export const lungVolumeFraction: ModelParameter = {
   value: 0.02,
   range: [0.01, 0.03],
-  basis: 'Lung 1-3 % of body volume (from memory); the whole lung volume is taken as exchanging parabronchial gas (assumption)',
+  basis:
+    'Lung 1-3 % of body volume (from memory); the whole lung volume is taken as exchanging parabronchial gas (assumption)',
 };
 
 /** Air-sac (non-exchanging reservoir) volume as a fraction of body volume. */
@@ -30,7 +31,8 @@ export const airSacVolumeFraction: ModelParameter = {
 export const posteriorSacShare: ModelParameter = {
   value: 0.55,
   range: [0.45, 0.65],
-  basis: 'Assumption: caudal thoracic and abdominal sacs hold a little over half the air-sac gas and take the same share of each breath',
+  basis:
+    'Assumption: caudal thoracic and abdominal sacs hold a little over half the air-sac gas and take the same share of each breath',
 };
 
 /** Body density used to turn body mass into body volume, g/mL. */
@@ -62,18 +64,43 @@ export type TissueGroupParameters = {
 export const tissueGroups: readonly TissueGroupParameters[] = [
   {
     id: 'vesselRich',
-    volumeFraction: { value: 0.09, range: [0.07, 0.11], basis: 'Assumption: mammalian vessel-rich group about 9 % of body mass (from memory)' },
-    flowFraction: { value: 0.75, range: [0.65, 0.8], basis: 'Assumption: mammalian vessel-rich group about 75 % of cardiac output (from memory)' },
+    volumeFraction: {
+      value: 0.09,
+      range: [0.07, 0.11],
+      basis: 'Assumption: mammalian vessel-rich group about 9 % of body mass (from memory)',
+    },
+    flowFraction: {
+      value: 0.75,
+      range: [0.65, 0.8],
+      basis: 'Assumption: mammalian vessel-rich group about 75 % of cardiac output (from memory)',
+    },
   },
   {
     id: 'muscle',
-    volumeFraction: { value: 0.5, range: [0.4, 0.55], basis: 'Assumption: muscle group about half of body mass (from memory; flight muscle is large in birds)' },
-    flowFraction: { value: 0.2, range: [0.15, 0.3], basis: 'Assumption: muscle group about 20 % of cardiac output at rest (from memory)' },
+    volumeFraction: {
+      value: 0.5,
+      range: [0.4, 0.55],
+      basis:
+        'Assumption: muscle group about half of body mass (from memory; flight muscle is large in birds)',
+    },
+    flowFraction: {
+      value: 0.2,
+      range: [0.15, 0.3],
+      basis: 'Assumption: muscle group about 20 % of cardiac output at rest (from memory)',
+    },
   },
   {
     id: 'fat',
-    volumeFraction: { value: 0.08, range: [0.03, 0.2], basis: 'Assumption: fat about 8 % of body mass in a lean pet bird, wide range for body condition' },
-    flowFraction: { value: 0.05, range: [0.03, 0.07], basis: 'Assumption: fat group about 5 % of cardiac output (from memory)' },
+    volumeFraction: {
+      value: 0.08,
+      range: [0.03, 0.2],
+      basis: 'Assumption: fat about 8 % of body mass in a lean pet bird, wide range for body condition',
+    },
+    flowFraction: {
+      value: 0.05,
+      range: [0.03, 0.07],
+      basis: 'Assumption: fat group about 5 % of cardiac output (from memory)',
+    },
   },
 ];
 
@@ -81,14 +108,16 @@ export const tissueGroups: readonly TissueGroupParameters[] = [
 export const ventilatoryDepressionSlope: ModelParameter = {
   value: 0.3,
   range: [0.15, 0.45],
-  basis: 'Assumption: spontaneous minute ventilation falls linearly with the brain MAC multiple (0.3 per MAC), reaching the floor near the published apnoea multiples (duck above 1.5 MAC, Ludders, Mitchell & Rode 1990; chicken 2.8 MAC, Midon et al. 2021)',
+  basis:
+    'Assumption: spontaneous minute ventilation falls linearly with the brain MAC multiple (0.3 per MAC), reaching the floor near the published apnoea multiples (duck above 1.5 MAC, Ludders, Mitchell & Rode 1990; chicken 2.8 MAC, Midon et al. 2021)',
 };
 
 /** Lowest fraction of resting ventilation kept by the depression rule. */
 export const ventilatoryDepressionFloor: ModelParameter = {
   value: 0.15,
   range: [0.1, 0.25],
-  basis: 'Assumption: ventilation is not taken below 15 % of resting; real apnoea is flagged as a caution instead of being simulated',
+  basis:
+    'Assumption: ventilation is not taken below 15 % of resting; real apnoea is flagged as a caution instead of being simulated',
 };
 
 /**
@@ -99,7 +128,8 @@ export const ventilatoryDepressionFloor: ModelParameter = {
 export const rebreathingFlowMultiple: ModelParameter = {
   value: 2,
   range: [1.5, 3],
-  basis: 'Assumption based on the common-practice rule of 2-3 x minute ventilation for non-rebreathing systems',
+  basis:
+    'Assumption based on the common-practice rule of 2-3 x minute ventilation for non-rebreathing systems',
 };
 
 /** Default mask apparatus dead space as a multiple of the bird\'s tidal volume. */
@@ -134,14 +164,16 @@ export const defaultTargetMacMultiple: ModelParameter = {
 export const cardiacOutputSpread: ModelParameter = {
   value: 1,
   range: [0.7, 1.3],
-  basis: 'Assumption: individual and anaesthetic-depressed cardiac output within +/-30 % of the Grubb 1983 regression',
+  basis:
+    'Assumption: individual and anaesthetic-depressed cardiac output within +/-30 % of the Grubb 1983 regression',
 };
 
 /** Tidal volume and breathing rate spread sampled by the uncertainty run. */
 export const ventilationSpread: ModelParameter = {
   value: 1,
   range: [0.75, 1.25],
-  basis: 'Assumption: individual resting ventilation within +/-25 % of the Lasiewski & Calder 1971 regressions',
+  basis:
+    'Assumption: individual resting ventilation within +/-25 % of the Lasiewski & Calder 1971 regressions',
 };
 
 /** MAC spread when the species reference gives no standard deviation. */

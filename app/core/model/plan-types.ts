@@ -12,7 +12,12 @@ import type { AgentTotals } from './simulation.js';
 
 export type PlanVentilation =
   | { readonly mode: 'spontaneous' }
-  | { readonly mode: 'ippv'; readonly breathsPerMin: number; readonly tidalVolumeMl: number; readonly fromMin?: number | undefined };
+  | {
+      readonly mode: 'ippv';
+      readonly breathsPerMin: number;
+      readonly tidalVolumeMl: number;
+      readonly fromMin?: number | undefined;
+    };
 
 export type PlanScheduleStep = { readonly atMin: number; readonly vaporPct: number };
 
@@ -82,7 +87,12 @@ export type PlanMilestones = {
 
 export type Percentiles = { readonly p5: number; readonly p50: number; readonly p95: number };
 
-export type UncertaintyParameter = { readonly name: string; readonly low: number; readonly high: number; readonly basis: string };
+export type UncertaintyParameter = {
+  readonly name: string;
+  readonly low: number;
+  readonly high: number;
+  readonly basis: string;
+};
 
 export type PlanUncertainty = {
   readonly samples: number;

@@ -50,7 +50,11 @@ export type VentilationSetup = {
   readonly depressionSlope: number;
   /** Lowest fraction of resting tidal volume kept. */
   readonly depressionFloor: number;
-  readonly ippv: { readonly fromMin: number; readonly breathsPerMin: number; readonly tidalVolumeMl: number } | null;
+  readonly ippv: {
+    readonly fromMin: number;
+    readonly breathsPerMin: number;
+    readonly tidalVolumeMl: number;
+  } | null;
 };
 
 export type ScheduleStep = { readonly atMin: number; readonly vaporPct: number };
@@ -261,8 +265,16 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const sampleInterval = setup.sampleIntervalMin;
   const sampleCount = Math.floor(endMin / sampleInterval + 1e-9) + 1;
   const timeline: SimulationTimeline = {
-    timeMin: [], inspiredPct: [], tracheaPct: [], posteriorSacsPct: [], parabronchialPct: [],
-    anteriorSacsPct: [], arterialPct: [], brainPct: [], musclePct: [], fatPct: [],
+    timeMin: [],
+    inspiredPct: [],
+    tracheaPct: [],
+    posteriorSacsPct: [],
+    parabronchialPct: [],
+    anteriorSacsPct: [],
+    arterialPct: [],
+    brainPct: [],
+    musclePct: [],
+    fatPct: [],
   };
   let sampled = 0;
   let nextSample = 0;
@@ -282,8 +294,21 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const offMin = setup.offMin;
   const observer = setup.onPhase;
   const snapshot: PhaseSnapshot = {
-    phase: 'inspiration', breathIndex: 0, timeMin: 0, inspiredFraction: 0, trachea: 0, posterior: 0, lung: 0,
-    anterior: 0, arterial: 0, brain: 0, exhaledMl: 0, posteriorContentMl: 0, lungContentMl: 0, anteriorContentMl: 0, tracheaContentMl: 0,
+    phase: 'inspiration',
+    breathIndex: 0,
+    timeMin: 0,
+    inspiredFraction: 0,
+    trachea: 0,
+    posterior: 0,
+    lung: 0,
+    anterior: 0,
+    arterial: 0,
+    brain: 0,
+    exhaledMl: 0,
+    posteriorContentMl: 0,
+    lungContentMl: 0,
+    anteriorContentMl: 0,
+    tracheaContentMl: 0,
   };
   let stopRequested = false;
 
@@ -328,13 +353,17 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       tidal = restingTidal * depressionUsed;
       rate = restingRate;
     }
-    if (offMin !== null && atOff === null && time >= offMin) atOff = { tidalVolumeMl: tidal, breathsPerMin: rate };
+    if (offMin !== null && atOff === null && time >= offMin)
+      atOff = { tidalVolumeMl: tidal, breathsPerMin: rate };
     if (tidal !== cachedTidal || rate !== cachedRate) {
       cachedTidal = tidal;
       cachedRate = rate;
       phaseMin = 0.5 / rate;
       const tubeFlowPerPhase = tube ? freshFlow * phaseMin : 0;
-      const needed = Math.max(1, Math.ceil((Math.max(aShare, pShare) * tidal + tubeFlowPerPhase) / lungVolume - 1e-12));
+      const needed = Math.max(
+        1,
+        Math.ceil((Math.max(aShare, pShare) * tidal + tubeFlowPerPhase) / lungVolume - 1e-12),
+      );
       overflow = needed > maxSubsteps;
       substeps = overflow ? maxSubsteps : needed;
       stepMin = phaseMin / substeps;
@@ -356,7 +385,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / maskVolume) : 1;
       freshShare = Math.min(1, freshFlow / (rebreathingMultiple * tidal * rate));
     }
-    while (scheduleIndex + 1 < schedule.length && (schedule[scheduleIndex + 1] as ScheduleStep).atMin <= time) scheduleIndex += 1;
+    while (scheduleIndex + 1 < schedule.length && (schedule[scheduleIndex + 1] as ScheduleStep).atMin <= time)
+      scheduleIndex += 1;
     const currentStep = schedule[scheduleIndex];
     const fresh = currentStep !== undefined && currentStep.atMin <= time ? currentStep.vaporPct / 100 : 0;
 
@@ -392,10 +422,14 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       const posteriorBefore = posteriorVolume + pShare * stepTidal * sub;
       let lungInlet = posterior;
       if (overflow) {
-        lungInlet = (posteriorBefore * posterior + toPosterior + stepTube * tubeGas) / (posteriorBefore + stepTidal + stepTube);
+        lungInlet =
+          (posteriorBefore * posterior + toPosterior + stepTube * tubeGas) /
+          (posteriorBefore + stepTidal + stepTube);
         posterior = lungInlet;
       } else {
-        posterior = (posteriorBefore * posterior + toPosterior + stepTube * tubeGas - inspiratoryLungFlow * lungInlet) / (posteriorBefore + pShare * stepTidal);
+        posterior =
+          (posteriorBefore * posterior + toPosterior + stepTube * tubeGas - inspiratoryLungFlow * lungInlet) /
+          (posteriorBefore + pShare * stepTidal);
       }
       const endGas = venous + (lungInlet - venous) * inspiratoryEndFactor;
       arterial = venous + (lungInlet - venous) * inspiratoryArterialFactor;
@@ -410,13 +444,15 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       }
       // Anterior sacs fill with start-of-step lung gas; tube flow leaves the lung to the room.
       const anteriorBefore = anteriorVolume + aShare * stepTidal * sub;
-      anterior = (anteriorBefore * anterior + aShare * stepTidal * lungOutlet) / (anteriorBefore + aShare * stepTidal);
+      anterior =
+        (anteriorBefore * anterior + aShare * stepTidal * lungOutlet) / (anteriorBefore + aShare * stepTidal);
       exhaledThisPhase += stepTube * lungOutlet;
       // Body: tissues by their exact exponential, venous pool by conservation.
       const brainNext = arterial + (brain - arterial) * decay0;
       const muscleNext = arterial + (muscle - arterial) * decay1;
       const fatNext = arterial + (fat - arterial) * decay2;
-      const tissueGain = capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
+      const tissueGain =
+        capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
       venous += (bloodFlow * stepMin * (arterial - venous) - tissueGain) / bloodVolume;
       brain = brainNext;
       muscle = muscleNext;
@@ -425,10 +461,24 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     exhaled += exhaledThisPhase;
     vaporiserOutput += freshFlow * phaseMin * fresh;
     if (mixed) mixedGas = fresh + (mixedGas - fresh) * freshDecay;
-    if (mask) maskGas = tidal >= maskVolume ? source : ((maskVolume - tidal) * maskGas + tidal * source) / maskVolume;
+    if (mask)
+      maskGas = tidal >= maskVolume ? source : ((maskVolume - tidal) * maskGas + tidal * source) / maskVolume;
     time += phaseMin;
     if (observer !== undefined) {
-      fillSnapshot(snapshot, 'inspiration', breath, time, inspired, exhaledThisPhase, trachea, posterior, lung, anterior, arterial, brain);
+      fillSnapshot(
+        snapshot,
+        'inspiration',
+        breath,
+        time,
+        inspired,
+        exhaledThisPhase,
+        trachea,
+        posterior,
+        lung,
+        anterior,
+        arterial,
+        brain,
+      );
       setContents(snapshot, gasPath, tidal);
       if (observer(snapshot) === true) stopRequested = true;
     }
@@ -444,7 +494,9 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
         lungInlet = (posteriorFull * posterior + stepTube * tubeGas) / (posteriorFull + stepTube);
         posterior = lungInlet;
       } else {
-        posterior = (posteriorFull * posterior + stepTube * tubeGas - expiratoryLungFlow * lungInlet) / (posteriorFull - pShare * stepTidal);
+        posterior =
+          (posteriorFull * posterior + stepTube * tubeGas - expiratoryLungFlow * lungInlet) /
+          (posteriorFull - pShare * stepTidal);
       }
       deliveredToBird += stepTube * tubeGas;
       const endGas = venous + (lungInlet - venous) * expiratoryEndFactor;
@@ -475,7 +527,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       const brainNext = arterial + (brain - arterial) * decay0;
       const muscleNext = arterial + (muscle - arterial) * decay1;
       const fatNext = arterial + (fat - arterial) * decay2;
-      const tissueGain = capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
+      const tissueGain =
+        capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
       venous += (bloodFlow * stepMin * (arterial - venous) - tissueGain) / bloodVolume;
       brain = brainNext;
       muscle = muscleNext;
@@ -486,18 +539,38 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     vaporiserOutput += freshFlow * phaseMin * fresh;
     if (mixed) {
       // Exhaled gas returns to the chamber or circle and displaces the same volume to the vent.
-      if (!tube) mixedGas = tidal >= mixedVolume ? openingOut / tidal : (mixedGas * (mixedVolume - tidal) + openingOut) / mixedVolume;
+      if (!tube)
+        mixedGas =
+          tidal >= mixedVolume
+            ? openingOut / tidal
+            : (mixedGas * (mixedVolume - tidal) + openingOut) / mixedVolume;
       mixedGas = fresh + (mixedGas - fresh) * freshDecay;
     }
     if (mask) {
       const expiredTail = tidal > 0 ? expiredMixTotal / tidal : maskGas;
-      maskGas = tidal >= maskVolume ? expiredTail : ((maskVolume - tidal) * maskGas + tidal * expiredTail) / maskVolume;
+      maskGas =
+        tidal >= maskVolume
+          ? expiredTail
+          : ((maskVolume - tidal) * maskGas + tidal * expiredTail) / maskVolume;
       maskGas = source + (maskGas - source) * maskDecay;
     }
     time += phaseMin;
     breath += 1;
     if (observer !== undefined) {
-      fillSnapshot(snapshot, 'expiration', breath - 1, time, inspired, exhaledThisPhase, trachea, posterior, lung, anterior, arterial, brain);
+      fillSnapshot(
+        snapshot,
+        'expiration',
+        breath - 1,
+        time,
+        inspired,
+        exhaledThisPhase,
+        trachea,
+        posterior,
+        lung,
+        anterior,
+        arterial,
+        brain,
+      );
       setContents(snapshot, gasPath, 0);
       if (observer(snapshot) === true) stopRequested = true;
     }
@@ -513,11 +586,26 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       mixedAtInduction = mixedGas;
     }
     if (offMin !== null && recoveryMin === null && time >= offMin && brain < recoveryLevel) {
-      const crossing = brainBefore >= recoveryLevel ? interpolateCrossing(time - 2 * phaseMin, brainBefore, time, brain, recoveryLevel) : time;
+      const crossing =
+        brainBefore >= recoveryLevel
+          ? interpolateCrossing(time - 2 * phaseMin, brainBefore, time, brain, recoveryLevel)
+          : time;
       recoveryMin = Math.max(0, crossing - offMin);
     }
     while (sampled < sampleCount && time >= nextSample - 1e-9) {
-      recordSample(timeline, nextSample, delivered, trachea, posterior, lung, anterior, arterial, brain, muscle, fat);
+      recordSample(
+        timeline,
+        nextSample,
+        delivered,
+        trachea,
+        posterior,
+        lung,
+        anterior,
+        arterial,
+        brain,
+        muscle,
+        fat,
+      );
       sampled += 1;
       nextSample = sampled * sampleInterval;
     }
@@ -535,7 +623,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     inspiredGrid[index] = last;
   }
   const bodyState = new Float64Array([venous, brain, muscle, fat]);
-  const gasStored = trachea * deadSpace + posterior * posteriorVolume + lung * lungVolume + anterior * anteriorVolume;
+  const gasStored =
+    trachea * deadSpace + posterior * posteriorVolume + lung * lungVolume + anterior * anteriorVolume;
   return {
     timeline,
     inductionMin,
@@ -604,8 +693,10 @@ function fillSnapshot(
 function setContents(target: PhaseSnapshot, gasPath: GasPath, expansionMl: number): void {
   target.tracheaContentMl = target.trachea * gasPath.trachealVolumeMl;
   target.lungContentMl = target.lung * gasPath.lungVolumeMl;
-  target.posteriorContentMl = target.posterior * (gasPath.posteriorSacsMl + gasPath.posteriorShare * expansionMl);
-  target.anteriorContentMl = target.anterior * (gasPath.anteriorSacsMl + (1 - gasPath.posteriorShare) * expansionMl);
+  target.posteriorContentMl =
+    target.posterior * (gasPath.posteriorSacsMl + gasPath.posteriorShare * expansionMl);
+  target.anteriorContentMl =
+    target.anterior * (gasPath.anteriorSacsMl + (1 - gasPath.posteriorShare) * expansionMl);
 }
 
 function recordSample(

@@ -9,7 +9,16 @@
  * nominal milestones are scaled to the breath-resolved nominal ones, so the p50 stays close to
  * the deterministic prediction and the band shows the spread from the parameters.
  */
-import { tissueGroups, airSacVolumeFraction, bloodVolumeFraction, cardiacOutputSpread, macRelativeSpread, ventilationSpread, ventilatoryDepressionSlope, lungVolumeFraction } from './parameters.js';
+import {
+  tissueGroups,
+  airSacVolumeFraction,
+  bloodVolumeFraction,
+  cardiacOutputSpread,
+  macRelativeSpread,
+  ventilationSpread,
+  ventilatoryDepressionSlope,
+  lungVolumeFraction,
+} from './parameters.js';
 import type { Percentiles, PlanUncertainty, UncertaintyParameter } from './plan-types.js';
 import { depressionQuantum, dialPctAt, type SimulationOutcome, type SimulationSetup } from './simulation.js';
 
@@ -71,7 +80,10 @@ export const averagedSteps = { minStepMin: 0.02, maxStepMin: 1, ageDivisor: 8 } 
  * @param toNextChangeMin minutes to the next change or the end, > 0
  */
 export function averagedStepMin(ageMin: number, toNextChangeMin: number): number {
-  const step = Math.min(averagedSteps.maxStepMin, Math.max(averagedSteps.minStepMin, ageMin / averagedSteps.ageDivisor));
+  const step = Math.min(
+    averagedSteps.maxStepMin,
+    Math.max(averagedSteps.minStepMin, ageMin / averagedSteps.ageDivisor),
+  );
   return Math.min(step, toNextChangeMin);
 }
 
@@ -91,7 +103,13 @@ export type BrainCurve = { readonly timesMin: readonly number[]; readonly brainP
  * @param gridStepMin step of that grid, minutes
  * @param sample sampled parameters (nominal: all multiples 1)
  */
-export function runAveraged(setup: SimulationSetup, inspiredGrid: Float64Array, gridStepMin: number, sample: SampleParameters, curve?: BrainCurve): AveragedResult {
+export function runAveraged(
+  setup: SimulationSetup,
+  inspiredGrid: Float64Array,
+  gridStepMin: number,
+  sample: SampleParameters,
+  curve?: BrainCurve,
+): AveragedResult {
   const gas = setup.gasPath;
   const vt0 = setup.ventilation.restingTidalVolumeMl * sample.tidalVolumeMultiple;
   const rate0 = setup.ventilation.restingBreathsPerMin * sample.breathsPerMinMultiple;
@@ -102,7 +120,9 @@ export function runAveraged(setup: SimulationSetup, inspiredGrid: Float64Array, 
   const pShare = gas.posteriorShare;
   const aShare = 1 - pShare;
   const body = setup.body;
-  const cardiac = (body.groups[0].flowMlMin + body.groups[1].flowMlMin + body.groups[2].flowMlMin) * sample.cardiacOutputMultiple;
+  const cardiac =
+    (body.groups[0].flowMlMin + body.groups[1].flowMlMin + body.groups[2].flowMlMin) *
+    sample.cardiacOutputMultiple;
   const q0 = cardiac * sample.flowFractions[0];
   const q1 = cardiac * sample.flowFractions[1];
   const q2 = cardiac * sample.flowFractions[2];
@@ -229,13 +249,17 @@ export function runAveraged(setup: SimulationSetup, inspiredGrid: Float64Array, 
       if (offMin === null && curve === undefined) break;
     }
     if (offMin !== null && recoveryMin === null && end >= offMin - 1e-9 && brain < recoveryLevel) {
-      const crossing = brainBefore >= recoveryLevel && time >= offMin - 1e-9 ? time + (dt * (brainBefore - recoveryLevel)) / (brainBefore - brain) : end;
+      const crossing =
+        brainBefore >= recoveryLevel && time >= offMin - 1e-9
+          ? time + (dt * (brainBefore - recoveryLevel)) / (brainBefore - brain)
+          : end;
       recoveryMin = Math.max(0, crossing - offMin);
       if (curve === undefined) break;
     }
     time = end;
   }
-  if (curve !== undefined) for (; curveIndex < curveTimes.length; curveIndex += 1) curve.brainPct[curveIndex] = brain * 100;
+  if (curve !== undefined)
+    for (; curveIndex < curveTimes.length; curveIndex += 1) curve.brainPct[curveIndex] = brain * 100;
   return { inductionMin, recoveryMin };
 }
 
@@ -309,30 +333,51 @@ export function runUncertainty(input: UncertaintyInput): PlanUncertainty {
   // the breath-resolved curve, so the band is centred on what the screen draws.
   const timeline = input.brainTimeline;
   const points = timeline === undefined || input.samples === 0 ? 0 : timeline.timeMin.length;
-  const nominalCurve = points === 0 ? null : { timesMin: (timeline as NonNullable<typeof timeline>).timeMin, brainPct: new Float64Array(points) };
-  if (nominalCurve !== null) runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, nominal, nominalCurve);
-  const sampleCurve = nominalCurve === null ? undefined : { timesMin: nominalCurve.timesMin, brainPct: new Float64Array(points) };
+  const nominalCurve =
+    points === 0
+      ? null
+      : { timesMin: (timeline as NonNullable<typeof timeline>).timeMin, brainPct: new Float64Array(points) };
+  if (nominalCurve !== null)
+    runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, nominal, nominalCurve);
+  const sampleCurve =
+    nominalCurve === null
+      ? undefined
+      : { timesMin: nominalCurve.timesMin, brainPct: new Float64Array(points) };
   const curves = new Float64Array(points * input.samples);
   for (let index = 0; index < input.samples; index += 1) {
     sample.bloodGasPartition = uniform(random, input.bloodGasRange[0], input.bloodGasRange[1]);
-    sample.cardiacOutputMultiple = uniform(random, cardiacOutputSpread.range[0], cardiacOutputSpread.range[1]);
+    sample.cardiacOutputMultiple = uniform(
+      random,
+      cardiacOutputSpread.range[0],
+      cardiacOutputSpread.range[1],
+    );
     sample.tidalVolumeMultiple = uniform(random, ventilationSpread.range[0], ventilationSpread.range[1]);
     sample.breathsPerMinMultiple = uniform(random, ventilationSpread.range[0], ventilationSpread.range[1]);
-    sample.airSacMultiple = uniform(random, airSacVolumeFraction.range[0], airSacVolumeFraction.range[1]) / nominalAirSac;
-    sample.lungMultiple = uniform(random, lungVolumeFraction.range[0], lungVolumeFraction.range[1]) / nominalLung;
-    sample.bloodVolumeMultiple = uniform(random, bloodVolumeFraction.range[0], bloodVolumeFraction.range[1]) / nominalBlood;
+    sample.airSacMultiple =
+      uniform(random, airSacVolumeFraction.range[0], airSacVolumeFraction.range[1]) / nominalAirSac;
+    sample.lungMultiple =
+      uniform(random, lungVolumeFraction.range[0], lungVolumeFraction.range[1]) / nominalLung;
+    sample.bloodVolumeMultiple =
+      uniform(random, bloodVolumeFraction.range[0], bloodVolumeFraction.range[1]) / nominalBlood;
     let flowTotal = 0;
     for (let group = 0; group < 3; group += 1) {
       const parameters = tissueGroups[group];
       if (parameters === undefined) continue;
-      sample.volumeMultiples[group] = uniform(random, parameters.volumeFraction.range[0], parameters.volumeFraction.range[1]) / parameters.volumeFraction.value;
+      sample.volumeMultiples[group] =
+        uniform(random, parameters.volumeFraction.range[0], parameters.volumeFraction.range[1]) /
+        parameters.volumeFraction.value;
       const flow = uniform(random, parameters.flowFraction.range[0], parameters.flowFraction.range[1]);
       sample.flowFractions[group] = flow;
       flowTotal += flow;
     }
-    for (let group = 0; group < 3; group += 1) sample.flowFractions[group] = (sample.flowFractions[group] as number) / flowTotal;
+    for (let group = 0; group < 3; group += 1)
+      sample.flowFractions[group] = (sample.flowFractions[group] as number) / flowTotal;
     sample.macMultiple = Math.max(0.3, 1 + macRelativeSd * normal(random));
-    sample.depressionSlope = uniform(random, ventilatoryDepressionSlope.range[0], ventilatoryDepressionSlope.range[1]);
+    sample.depressionSlope = uniform(
+      random,
+      ventilatoryDepressionSlope.range[0],
+      ventilatoryDepressionSlope.range[1],
+    );
     const result = runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, sample, sampleCurve);
     if (sampleCurve !== undefined && nominalCurve !== null && timeline !== undefined) {
       for (let point = 0; point < points; point += 1) {
@@ -346,24 +391,77 @@ export function runUncertainty(input: UncertaintyInput): PlanUncertainty {
     if (result.recoveryMin !== null) recoveries.push(result.recoveryMin * recoveryScale);
   }
   const parameters: UncertaintyParameter[] = [
-    { name: 'bloodGasPartition', low: input.bloodGasRange[0], high: input.bloodGasRange[1], basis: 'Human blood/gas range of the agent (see app/core/agents.ts); assumption for birds' },
-    { name: 'cardiacOutputMultiple', low: cardiacOutputSpread.range[0], high: cardiacOutputSpread.range[1], basis: cardiacOutputSpread.basis },
-    { name: 'tidalVolumeMultiple', low: ventilationSpread.range[0], high: ventilationSpread.range[1], basis: ventilationSpread.basis },
-    { name: 'breathsPerMinMultiple', low: ventilationSpread.range[0], high: ventilationSpread.range[1], basis: ventilationSpread.basis },
-    { name: 'airSacVolumeFraction', low: airSacVolumeFraction.range[0], high: airSacVolumeFraction.range[1], basis: airSacVolumeFraction.basis },
-    { name: 'lungVolumeFraction', low: lungVolumeFraction.range[0], high: lungVolumeFraction.range[1], basis: lungVolumeFraction.basis },
-    { name: 'bloodVolumeFraction', low: bloodVolumeFraction.range[0], high: bloodVolumeFraction.range[1], basis: bloodVolumeFraction.basis },
+    {
+      name: 'bloodGasPartition',
+      low: input.bloodGasRange[0],
+      high: input.bloodGasRange[1],
+      basis: 'Human blood/gas range of the agent (see app/core/agents.ts); assumption for birds',
+    },
+    {
+      name: 'cardiacOutputMultiple',
+      low: cardiacOutputSpread.range[0],
+      high: cardiacOutputSpread.range[1],
+      basis: cardiacOutputSpread.basis,
+    },
+    {
+      name: 'tidalVolumeMultiple',
+      low: ventilationSpread.range[0],
+      high: ventilationSpread.range[1],
+      basis: ventilationSpread.basis,
+    },
+    {
+      name: 'breathsPerMinMultiple',
+      low: ventilationSpread.range[0],
+      high: ventilationSpread.range[1],
+      basis: ventilationSpread.basis,
+    },
+    {
+      name: 'airSacVolumeFraction',
+      low: airSacVolumeFraction.range[0],
+      high: airSacVolumeFraction.range[1],
+      basis: airSacVolumeFraction.basis,
+    },
+    {
+      name: 'lungVolumeFraction',
+      low: lungVolumeFraction.range[0],
+      high: lungVolumeFraction.range[1],
+      basis: lungVolumeFraction.basis,
+    },
+    {
+      name: 'bloodVolumeFraction',
+      low: bloodVolumeFraction.range[0],
+      high: bloodVolumeFraction.range[1],
+      basis: bloodVolumeFraction.basis,
+    },
     ...tissueGroups.flatMap((group) => [
-      { name: `${group.id}VolumeFraction`, low: group.volumeFraction.range[0], high: group.volumeFraction.range[1], basis: group.volumeFraction.basis },
-      { name: `${group.id}FlowFraction`, low: group.flowFraction.range[0], high: group.flowFraction.range[1], basis: `${group.flowFraction.basis} (fractions renormalised to sum 1)` },
+      {
+        name: `${group.id}VolumeFraction`,
+        low: group.volumeFraction.range[0],
+        high: group.volumeFraction.range[1],
+        basis: group.volumeFraction.basis,
+      },
+      {
+        name: `${group.id}FlowFraction`,
+        low: group.flowFraction.range[0],
+        high: group.flowFraction.range[1],
+        basis: `${group.flowFraction.basis} (fractions renormalised to sum 1)`,
+      },
     ]),
     {
       name: 'macMultiple',
       low: Math.max(0.3, 1 - 2.5 * macRelativeSd),
       high: 1 + 2.5 * macRelativeSd,
-      basis: input.macSdPct !== null ? 'Normal with the published SD of the MAC in use, truncated at 2.5 SD' : `${macRelativeSpread.basis}; normal, truncated at 2.5 SD`,
+      basis:
+        input.macSdPct !== null
+          ? 'Normal with the published SD of the MAC in use, truncated at 2.5 SD'
+          : `${macRelativeSpread.basis}; normal, truncated at 2.5 SD`,
     },
-    { name: 'depressionSlope', low: ventilatoryDepressionSlope.range[0], high: ventilatoryDepressionSlope.range[1], basis: ventilatoryDepressionSlope.basis },
+    {
+      name: 'depressionSlope',
+      low: ventilatoryDepressionSlope.range[0],
+      high: ventilatoryDepressionSlope.range[1],
+      basis: ventilatoryDepressionSlope.basis,
+    },
   ];
   return {
     samples: input.samples,

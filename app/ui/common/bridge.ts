@@ -33,11 +33,25 @@ function loopbackApi(): TidewingApi {
           body: JSON.stringify(request),
         });
         if (response.status === 403) {
-          return { ok: false, error: { code: 'invalid-request', message: 'This page has lost its access token. Open the full address Tidewing printed when it started.' } };
+          return {
+            ok: false,
+            error: {
+              code: 'invalid-request',
+              message:
+                'This page has lost its access token. Open the full address Tidewing printed when it started.',
+            },
+          };
         }
         return (await response.json()) as Result<ResponseOf<C>>;
       } catch {
-        return { ok: false, error: { code: 'internal', message: 'Tidewing is not answering. Check that it is still running, then try again; nothing has been saved since the last confirmation.' } };
+        return {
+          ok: false,
+          error: {
+            code: 'internal',
+            message:
+              'Tidewing is not answering. Check that it is still running, then try again; nothing has been saved since the last confirmation.',
+          },
+        };
       }
     },
   };

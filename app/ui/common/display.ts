@@ -10,7 +10,9 @@ export function displayMass(massG: number, preference: MassUnit): string {
 /** Local date and time, short, for record stamps. */
 export function displayDateTime(iso: string): string {
   const date = new Date(iso);
-  return Number.isNaN(date.getTime()) ? iso : date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+  return Number.isNaN(date.getTime())
+    ? iso
+    : date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
 }
 
 /** Today as YYYY-MM-DD in local time. */

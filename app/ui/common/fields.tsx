@@ -8,7 +8,15 @@ type Base = {
   readonly name?: string;
 };
 
-function FieldMessages({ id, error, hint }: { readonly id: string; readonly error: string | undefined; readonly hint: ReactNode }) {
+function FieldMessages({
+  id,
+  error,
+  hint,
+}: {
+  readonly id: string;
+  readonly error: string | undefined;
+  readonly hint: ReactNode;
+}) {
   return (
     <>
       {hint !== undefined && <p className="hint">{hint}</p>}
@@ -22,7 +30,15 @@ function FieldMessages({ id, error, hint }: { readonly id: string; readonly erro
 }
 
 /** A labelled text input with its hint and its validation message. */
-export function TextField(props: Base & { readonly value: string; readonly onChange: (value: string) => void; readonly type?: 'text' | 'date' | 'datetime-local' | 'search'; readonly placeholder?: string; readonly multiline?: boolean }) {
+export function TextField(
+  props: Base & {
+    readonly value: string;
+    readonly onChange: (value: string) => void;
+    readonly type?: 'text' | 'date' | 'datetime-local' | 'search';
+    readonly placeholder?: string;
+    readonly multiline?: boolean;
+  },
+) {
   const id = useId();
   const common = {
     id,
@@ -39,7 +55,11 @@ export function TextField(props: Base & { readonly value: string; readonly onCha
       {props.multiline === true ? (
         <textarea {...common} rows={3} onChange={(event) => props.onChange(event.target.value)} />
       ) : (
-        <input {...common} type={props.type ?? 'text'} onChange={(event) => props.onChange(event.target.value)} />
+        <input
+          {...common}
+          type={props.type ?? 'text'}
+          onChange={(event) => props.onChange(event.target.value)}
+        />
       )}
       <FieldMessages id={id} error={props.error} hint={props.hint} />
     </div>
@@ -50,7 +70,14 @@ export function TextField(props: Base & { readonly value: string; readonly onCha
  * A labelled number input that keeps what was typed (so "0." survives) and reports a number, or
  * null when blank. The unit is shown beside the box.
  */
-export function NumberField(props: Base & { readonly value: string; readonly onChange: (text: string) => void; readonly unit: string; readonly step?: string }) {
+export function NumberField(
+  props: Base & {
+    readonly value: string;
+    readonly onChange: (text: string) => void;
+    readonly unit: string;
+    readonly step?: string;
+  },
+) {
   const id = useId();
   return (
     <div className="field">
@@ -76,7 +103,13 @@ export function NumberField(props: Base & { readonly value: string; readonly onC
 }
 
 /** A labelled drop-down list. */
-export function SelectField<T extends string>(props: Base & { readonly value: T; readonly options: readonly { readonly value: T; readonly label: string }[]; readonly onChange: (value: T) => void }) {
+export function SelectField<T extends string>(
+  props: Base & {
+    readonly value: T;
+    readonly options: readonly { readonly value: T; readonly label: string }[];
+    readonly onChange: (value: T) => void;
+  },
+) {
   const id = useId();
   return (
     <div className="field">
@@ -130,7 +163,13 @@ export function Choice<T extends string>(props: {
       <div className="choice-options">
         {props.options.map((option) => (
           <label key={option}>
-            <input type="radio" name={props.name} value={option} checked={props.value === option} onChange={() => props.onChange(option)} />
+            <input
+              type="radio"
+              name={props.name}
+              value={option}
+              checked={props.value === option}
+              onChange={() => props.onChange(option)}
+            />
             {props.labels?.[option] ?? option}
           </label>
         ))}

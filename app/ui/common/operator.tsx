@@ -28,7 +28,15 @@ export function OperatorField() {
   return (
     <div className="operator">
       <label htmlFor={id}>Your initials</label>
-      <input id={id} value={initials} maxLength={40} size={6} placeholder="e.g. RW" onChange={(event) => setInitials(event.target.value)} aria-invalid={initials === ''} />
+      <input
+        id={id}
+        value={initials}
+        maxLength={40}
+        size={6}
+        placeholder="e.g. RW"
+        onChange={(event) => setInitials(event.target.value)}
+        aria-invalid={initials === ''}
+      />
     </div>
   );
 }

@@ -37,7 +37,12 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
   const host = useRef<HTMLDivElement | null>(null);
   const plot = useRef<uPlot | null>(null);
 
-  const shape = JSON.stringify({ labels: series.map((item) => [item.label, item.scale, item.stroke, item.dash, item.bandTo]), axes, title, height });
+  const shape = JSON.stringify({
+    labels: series.map((item) => [item.label, item.scale, item.stroke, item.dash, item.bandTo]),
+    axes,
+    title,
+    height,
+  });
 
   useEffect(() => {
     const element = host.current;
@@ -52,7 +57,13 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
       cursor: { drag: { x: false, y: false } },
       axes: [
         { label: xLabel, stroke: '#1b1f24', grid: { stroke: '#e3e6ea' } },
-        ...parsedAxes.map((axis) => ({ scale: axis.scale, label: axis.label, side: axis.side === 'right' ? 1 : 3, stroke: '#1b1f24', grid: { show: axis.side !== 'right', stroke: '#e3e6ea' } })),
+        ...parsedAxes.map((axis) => ({
+          scale: axis.scale,
+          label: axis.label,
+          side: axis.side === 'right' ? 1 : 3,
+          stroke: '#1b1f24',
+          grid: { show: axis.side !== 'right', stroke: '#e3e6ea' },
+        })),
       ],
       series: [
         { label: xLabel },
@@ -67,12 +78,20 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
         })),
       ],
       // A draw counter on the element lets tests and the benchmark see each redraw.
-      hooks: { draw: [() => (element.dataset['drawn'] = String(Number(element.dataset['drawn'] ?? '0') + 1))] },
-      bands: series.flatMap((item, index) => (item.bandTo === undefined ? [] : [{ series: [index + 1, item.bandTo + 1] as [number, number], fill: 'rgba(31, 78, 121, 0.15)' }])),
+      hooks: {
+        draw: [() => (element.dataset['drawn'] = String(Number(element.dataset['drawn'] ?? '0') + 1))],
+      },
+      bands: series.flatMap((item, index) =>
+        item.bandTo === undefined
+          ? []
+          : [{ series: [index + 1, item.bandTo + 1] as [number, number], fill: 'rgba(31, 78, 121, 0.15)' }],
+      ),
     };
     const instance = new uPlot(options, [[], ...series.map(() => [])] as uPlot.AlignedData, element);
     plot.current = instance;
-    const resize = new ResizeObserver(() => instance.setSize({ width: Math.max(320, element.clientWidth), height }));
+    const resize = new ResizeObserver(() =>
+      instance.setSize({ width: Math.max(320, element.clientWidth), height }),
+    );
     resize.observe(element);
     return () => {
       resize.disconnect();
@@ -84,7 +103,10 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
   }, [shape]);
 
   useEffect(() => {
-    plot.current?.setData([x as number[], ...series.map((item) => item.values as (number | null)[])] as uPlot.AlignedData);
+    plot.current?.setData([
+      x as number[],
+      ...series.map((item) => item.values as (number | null)[]),
+    ] as uPlot.AlignedData);
   }, [x, series, shape]);
 
   return (

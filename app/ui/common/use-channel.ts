@@ -3,10 +3,14 @@ import type { ChannelName, RequestOf, ResponseOf } from '../../contract/channels
 import type { ContractError } from '../../contract/result.js';
 import { api } from './bridge.js';
 
-export type Loadable<T> = { state: 'loading' } | { state: 'ready'; value: T } | { state: 'failed'; error: ContractError };
+export type Loadable<T> =
+  { state: 'loading' } | { state: 'ready'; value: T } | { state: 'failed'; error: ContractError };
 
 /** Loads one channel's answer when the screen mounts; `reload` asks again. */
-export function useChannel<C extends ChannelName>(channel: C, request: RequestOf<C>): [Loadable<ResponseOf<C>>, () => void] {
+export function useChannel<C extends ChannelName>(
+  channel: C,
+  request: RequestOf<C>,
+): [Loadable<ResponseOf<C>>, () => void] {
   const [result, setResult] = useState<Loadable<ResponseOf<C>>>({ state: 'loading' });
   const [generation, setGeneration] = useState(0);
   const key = JSON.stringify(request);
@@ -14,7 +18,9 @@ export function useChannel<C extends ChannelName>(channel: C, request: RequestOf
     let live = true;
     void api.invoke(channel, JSON.parse(key) as RequestOf<C>).then((answer) => {
       if (!live) return;
-      setResult(answer.ok ? { state: 'ready', value: answer.value } : { state: 'failed', error: answer.error });
+      setResult(
+        answer.ok ? { state: 'ready', value: answer.value } : { state: 'failed', error: answer.error },
+      );
     });
     return () => {
       live = false;

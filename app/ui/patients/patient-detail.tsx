@@ -7,7 +7,8 @@ import { WeightsPanel } from './weights-panel.js';
 
 function PatientPlans({ patientId }: { readonly patientId: number }) {
   const [load] = useChannel('plans:for-patient', { patientId });
-  if (load.state !== 'ready') return load.state === 'failed' ? <p className="form-error">{load.error.message}</p> : null;
+  if (load.state !== 'ready')
+    return load.state === 'failed' ? <p className="form-error">{load.error.message}</p> : null;
   if (load.value.length === 0) return <p className="muted">No plans yet.</p>;
   return (
     <ul>
@@ -18,7 +19,9 @@ function PatientPlans({ patientId }: { readonly patientId: number }) {
             {plan.label === '' ? '' : ` (${plan.label})`}
           </a>{' '}
           · <a href={href('worksheets', plan.id)}>worksheet</a>
-          {plan.openChecklistItems > 0 && <span className="muted"> · checklist {plan.openChecklistItems} open</span>}
+          {plan.openChecklistItems > 0 && (
+            <span className="muted"> · checklist {plan.openChecklistItems} open</span>
+          )}
         </li>
       ))}
     </ul>
@@ -30,7 +33,12 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
   const [load, reload] = useChannel('patients:get', { id: patientId });
   const [showHistory, setShowHistory] = useState(false);
   if (load.state === 'loading') return <p aria-busy="true">Loading…</p>;
-  if (load.state === 'failed') return <p className="form-error" role="alert">{load.error.message}</p>;
+  if (load.state === 'failed')
+    return (
+      <p className="form-error" role="alert">
+        {load.error.message}
+      </p>
+    );
   const detail = load.value;
   const { patient, species } = detail;
   const values = patient.values;
@@ -48,8 +56,15 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
           <dl className="details">
             <dt>Species</dt>
             <dd>
-              {species === null ? values.speciesKey : `${species.values.commonName}${species.values.scientificName === '' ? '' : ` (${species.values.scientificName})`}`}
-              {species !== null && <span className="basis">Typical adult mass {species.values.massMinG}-{species.values.massMaxG} g · {species.values.massBasis}</span>}
+              {species === null
+                ? values.speciesKey
+                : `${species.values.commonName}${species.values.scientificName === '' ? '' : ` (${species.values.scientificName})`}`}
+              {species !== null && (
+                <span className="basis">
+                  Typical adult mass {species.values.massMinG}-{species.values.massMaxG} g ·{' '}
+                  {species.values.massBasis}
+                </span>
+              )}
             </dd>
             <dt>Sex</dt>
             <dd>{values.sex}</dd>
@@ -82,7 +97,11 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
               Correct details
             </a>
             {detail.history.length > 1 && (
-              <button type="button" onClick={() => setShowHistory((value) => !value)} aria-expanded={showHistory}>
+              <button
+                type="button"
+                onClick={() => setShowHistory((value) => !value)}
+                aria-expanded={showHistory}
+              >
                 {showHistory ? 'Hide' : 'Show'} history ({detail.history.length} versions)
               </button>
             )}
@@ -92,8 +111,10 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
               {detail.history.map((version) => (
                 <li key={version.stamp.versionId}>
                   {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
-                  {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · name {version.values.name}, species {version.values.speciesKey}, ring {version.values.ringId || '—'}, microchip{' '}
-                  {version.values.microchipId || '—'}, owner {version.values.ownerReference || '—'}
+                  {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · name{' '}
+                  {version.values.name}, species {version.values.speciesKey}, ring{' '}
+                  {version.values.ringId || '—'}, microchip {version.values.microchipId || '—'}, owner{' '}
+                  {version.values.ownerReference || '—'}
                 </li>
               ))}
             </ol>
@@ -110,7 +131,12 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
                   <a href={href('records', record.id)}>
                     {record.values.procedureName}, {displayDateTime(record.values.startedAt)}
                   </a>{' '}
-                  {record.values.asaGrade !== null && <span className="muted">ASA {record.values.asaGrade}{record.values.emergency ? 'E' : ''}</span>}
+                  {record.values.asaGrade !== null && (
+                    <span className="muted">
+                      ASA {record.values.asaGrade}
+                      {record.values.emergency ? 'E' : ''}
+                    </span>
+                  )}
                 </li>
               ))}
             </ul>

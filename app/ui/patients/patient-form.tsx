@@ -20,7 +20,17 @@ type Draft = {
   notes: string;
 };
 
-const emptyDraft: Draft = { name: '', speciesKey: '', sex: 'unknown', hatchDate: '', ageText: '', ringId: '', microchipId: '', ownerReference: '', notes: '' };
+const emptyDraft: Draft = {
+  name: '',
+  speciesKey: '',
+  sex: 'unknown',
+  hatchDate: '',
+  ageText: '',
+  ringId: '',
+  microchipId: '',
+  ownerReference: '',
+  notes: '',
+};
 
 function toDraft(values: PatientValues): Draft {
   return { ...values, hatchDate: values.hatchDate ?? '' };
@@ -47,14 +57,23 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
     });
   }, [patientId]);
 
-  const set = <K extends keyof Draft>(key: K) => (value: Draft[K]) => setDraft((current) => ({ ...current, [key]: value }));
+  const set =
+    <K extends keyof Draft>(key: K) =>
+    (value: Draft[K]) =>
+      setDraft((current) => ({ ...current, [key]: value }));
 
   async function submit(event: FormEvent) {
     event.preventDefault();
     setFailure(null);
-    const parsed = patientValuesSchema.safeParse({ ...draft, hatchDate: draft.hatchDate === '' ? null : draft.hatchDate });
+    const parsed = patientValuesSchema.safeParse({
+      ...draft,
+      hatchDate: draft.hatchDate === '' ? null : draft.hatchDate,
+    });
     const local = parsed.success ? {} : fieldErrorsFrom(describeIssues(parsed.error.issues));
-    const reasonError: Record<string, string> = patientId !== null && reason.trim() === '' ? { reason: 'Say why the record is corrected; the reason is kept with the history.' } : {};
+    const reasonError: Record<string, string> =
+      patientId !== null && reason.trim() === ''
+        ? { reason: 'Say why the record is corrected; the reason is kept with the history.' }
+        : {};
     if (!parsed.success || Object.keys(reasonError).length > 0) {
       setErrors({ ...local, ...reasonError });
       return;
@@ -76,11 +95,21 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
       return;
     }
     const contractErrors = fieldErrorsFromContract(answer.error);
-    setErrors(Object.fromEntries(Object.entries(contractErrors).map(([field, message]) => [field.replace(/^values\./, ''), message])));
+    setErrors(
+      Object.fromEntries(
+        Object.entries(contractErrors).map(([field, message]) => [field.replace(/^values\./, ''), message]),
+      ),
+    );
     setFailure(answer.error.message);
   }
 
-  const speciesOptions = speciesLoad.state === 'ready' ? speciesLoad.value.map((species) => ({ value: species.key, label: `${species.values.commonName} (${species.values.massMinG}-${species.values.massMaxG} g)` })) : [];
+  const speciesOptions =
+    speciesLoad.state === 'ready'
+      ? speciesLoad.value.map((species) => ({
+          value: species.key,
+          label: `${species.values.commonName} (${species.values.massMinG}-${species.values.massMaxG} g)`,
+        }))
+      : [];
   const title = patientId === null ? 'New patient' : 'Correct patient details';
   if (!loaded) return <p aria-busy="true">{failure ?? 'Loading…'}</p>;
   return (
@@ -88,7 +117,14 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
       <h1 id="patient-form-title">{title}</h1>
       <form className="form" noValidate onSubmit={(event) => void submit(event)}>
         <div className="form-grid">
-          <TextField label="Name or clinic ID" name="name" value={draft.name} error={errors['name']} autoFocus onChange={set('name')} />
+          <TextField
+            label="Name or clinic ID"
+            name="name"
+            value={draft.name}
+            error={errors['name']}
+            autoFocus
+            onChange={set('name')}
+          />
           <SelectField
             label="Species"
             name="speciesKey"
@@ -98,16 +134,76 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
             hint={<a href={href('species')}>Species not listed? Add it under Species.</a>}
             onChange={set('speciesKey')}
           />
-          <SelectField label="Sex" name="sex" value={draft.sex} error={errors['sex']} options={sexes.map((sex) => ({ value: sex, label: sex }))} onChange={set('sex')} />
-          <TextField label="Hatch date" name="hatchDate" type="date" value={draft.hatchDate} error={errors['hatchDate']} hint="Leave blank if unknown." onChange={set('hatchDate')} />
-          <TextField label="Age (if hatch date unknown)" name="ageText" value={draft.ageText} error={errors['ageText']} placeholder="e.g. adult, about 3 years" onChange={set('ageText')} />
-          <TextField label="Ring ID" name="ringId" value={draft.ringId} error={errors['ringId']} onChange={set('ringId')} />
-          <TextField label="Microchip ID" name="microchipId" value={draft.microchipId} error={errors['microchipId']} onChange={set('microchipId')} />
-          <TextField label="Owner reference" name="ownerReference" value={draft.ownerReference} error={errors['ownerReference']} hint="Your practice system's owner number or name." onChange={set('ownerReference')} />
+          <SelectField
+            label="Sex"
+            name="sex"
+            value={draft.sex}
+            error={errors['sex']}
+            options={sexes.map((sex) => ({ value: sex, label: sex }))}
+            onChange={set('sex')}
+          />
+          <TextField
+            label="Hatch date"
+            name="hatchDate"
+            type="date"
+            value={draft.hatchDate}
+            error={errors['hatchDate']}
+            hint="Leave blank if unknown."
+            onChange={set('hatchDate')}
+          />
+          <TextField
+            label="Age (if hatch date unknown)"
+            name="ageText"
+            value={draft.ageText}
+            error={errors['ageText']}
+            placeholder="e.g. adult, about 3 years"
+            onChange={set('ageText')}
+          />
+          <TextField
+            label="Ring ID"
+            name="ringId"
+            value={draft.ringId}
+            error={errors['ringId']}
+            onChange={set('ringId')}
+          />
+          <TextField
+            label="Microchip ID"
+            name="microchipId"
+            value={draft.microchipId}
+            error={errors['microchipId']}
+            onChange={set('microchipId')}
+          />
+          <TextField
+            label="Owner reference"
+            name="ownerReference"
+            value={draft.ownerReference}
+            error={errors['ownerReference']}
+            hint="Your practice system's owner number or name."
+            onChange={set('ownerReference')}
+          />
         </div>
-        <TextField label="Notes" name="notes" multiline value={draft.notes} error={errors['notes']} onChange={set('notes')} />
-        {patientId !== null && <TextField label="Reason for the correction" name="reason" value={reason} error={errors['reason']} onChange={setReason} />}
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        <TextField
+          label="Notes"
+          name="notes"
+          multiline
+          value={draft.notes}
+          error={errors['notes']}
+          onChange={set('notes')}
+        />
+        {patientId !== null && (
+          <TextField
+            label="Reason for the correction"
+            name="reason"
+            value={reason}
+            error={errors['reason']}
+            onChange={setReason}
+          />
+        )}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>
             {busy ? 'Saving…' : patientId === null ? 'Save patient' : 'Save correction'}

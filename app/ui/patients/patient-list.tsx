@@ -32,7 +32,11 @@ export function PatientListScreen() {
 
   useEffect(() => {
     function onKey(event: KeyboardEvent) {
-      if (event.key === '/' && document.activeElement?.tagName !== 'INPUT' && document.activeElement?.tagName !== 'TEXTAREA') {
+      if (
+        event.key === '/' &&
+        document.activeElement?.tagName !== 'INPUT' &&
+        document.activeElement?.tagName !== 'TEXTAREA'
+      ) {
         event.preventDefault();
         searchBox.current?.focus();
       }
@@ -57,7 +61,8 @@ export function PatientListScreen() {
             placeholder="Type to search; / jumps here"
             onChange={(event) => setQuery(event.target.value)}
             onKeyDown={(event) => {
-              if (event.key === 'Enter' && first !== undefined) window.location.hash = href('patients', first.id);
+              if (event.key === 'Enter' && first !== undefined)
+                window.location.hash = href('patients', first.id);
             }}
           />
         </div>
@@ -65,7 +70,11 @@ export function PatientListScreen() {
           New patient
         </a>
       </div>
-      {error !== null && <p className="form-error" role="alert">{error}</p>}
+      {error !== null && (
+        <p className="form-error" role="alert">
+          {error}
+        </p>
+      )}
       {results === null ? (
         <p aria-busy="true">Searching…</p>
       ) : results.total === 0 ? (
@@ -73,7 +82,9 @@ export function PatientListScreen() {
       ) : (
         <>
           <p className="muted" role="status">
-            {query.trim() === '' ? `Latest of ${results.total} patients.` : `${results.patients.length} match${results.patients.length === 1 ? '' : 'es'} of ${results.total} patients.`}
+            {query.trim() === ''
+              ? `Latest of ${results.total} patients.`
+              : `${results.patients.length} match${results.patients.length === 1 ? '' : 'es'} of ${results.total} patients.`}
           </p>
           <table className="data-table">
             <thead>
@@ -97,7 +108,9 @@ export function PatientListScreen() {
                   <td>{patient.microchipId}</td>
                   <td>{patient.ownerReference}</td>
                   <td className="number">
-                    {patient.latestMassG === null ? '—' : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn ?? ''})`}
+                    {patient.latestMassG === null
+                      ? '—'
+                      : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn ?? ''})`}
                   </td>
                 </tr>
               ))}

@@ -58,11 +58,19 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     setFailure(null);
     const typed = parseNumber(massText);
     const massG = typed === null || Number.isNaN(typed) ? typed : unit === 'kg' ? kgToG(typed) : typed;
-    const parsed = weightValuesSchema.safeParse({ weighedOn, massG: massG ?? undefined, bodyCondition, weighedBy: weighedBy.trim() === '' ? initials : weighedBy });
-    const fieldErrors: Record<string, string> = parsed.success ? {} : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
+    const parsed = weightValuesSchema.safeParse({
+      weighedOn,
+      massG: massG ?? undefined,
+      bodyCondition,
+      weighedBy: weighedBy.trim() === '' ? initials : weighedBy,
+    });
+    const fieldErrors: Record<string, string> = parsed.success
+      ? {}
+      : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
     if (massG === null) fieldErrors['massG'] = `Enter the weight in ${unit}.`;
     else if (Number.isNaN(massG)) fieldErrors['massG'] = `Weight must be a number in ${unit}.`;
-    if (editing !== null && reason.trim() === '') fieldErrors['reason'] = 'Say why; the reason is kept with the history.';
+    if (editing !== null && reason.trim() === '')
+      fieldErrors['reason'] = 'Say why; the reason is kept with the history.';
     if (!parsed.success || Object.keys(fieldErrors).length > 0) {
       setErrors(fieldErrors);
       return;
@@ -75,12 +83,27 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     }
     const answer =
       editing === null
-        ? await api.invoke('weights:add', { patientId: detail.patient.id, values: parsed.data, meta: who.meta })
+        ? await api.invoke('weights:add', {
+            patientId: detail.patient.id,
+            values: parsed.data,
+            meta: who.meta,
+          })
         : editing.mode === 'void'
           ? await api.invoke('weights:void', { id: editing.weight.id, meta: who.meta })
-          : await api.invoke('weights:correct', { id: editing.weight.id, values: parsed.data, meta: who.meta });
+          : await api.invoke('weights:correct', {
+              id: editing.weight.id,
+              values: parsed.data,
+              meta: who.meta,
+            });
     if (!answer.ok) {
-      setErrors(Object.fromEntries(Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [field.replace(/^(values|meta)\./, ''), message])));
+      setErrors(
+        Object.fromEntries(
+          Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [
+            field.replace(/^(values|meta)\./, ''),
+            message,
+          ]),
+        ),
+      );
       setFailure(answer.error.message);
       return;
     }
@@ -99,12 +122,32 @@ export function WeightsPanel({ detail, onChanged }: Props) {
   const range = detail.species === null ? null : detail.species.values;
   const shownMass = (massG: number) => displayMass(massG, unit);
   const series = [
-    { label: `Weight (${unit})`, values: weights.map((weight) => (unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG)), stroke: '#1f4e79', points: true, scale: 'mass' },
+    {
+      label: `Weight (${unit})`,
+      values: weights.map((weight) => (unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG)),
+      stroke: '#1f4e79',
+      points: true,
+      scale: 'mass',
+    },
     ...(range === null
       ? []
       : [
-          { label: 'Typical range, low', values: weights.map(() => (unit === 'kg' ? gToKg(range.massMinG) : range.massMinG)), stroke: '#6b7480', dash: [6, 4], width: 1, scale: 'mass' },
-          { label: 'Typical range, high', values: weights.map(() => (unit === 'kg' ? gToKg(range.massMaxG) : range.massMaxG)), stroke: '#6b7480', dash: [2, 3], width: 1, scale: 'mass' },
+          {
+            label: 'Typical range, low',
+            values: weights.map(() => (unit === 'kg' ? gToKg(range.massMinG) : range.massMinG)),
+            stroke: '#6b7480',
+            dash: [6, 4],
+            width: 1,
+            scale: 'mass',
+          },
+          {
+            label: 'Typical range, high',
+            values: weights.map(() => (unit === 'kg' ? gToKg(range.massMaxG) : range.massMaxG)),
+            stroke: '#6b7480',
+            dash: [2, 3],
+            width: 1,
+            scale: 'mass',
+          },
         ]),
   ];
 
@@ -112,7 +155,11 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     <section className="panel" aria-labelledby="weights-title">
       <h2 id="weights-title">Weights</h2>
       {detail.trend.flags.map((flag) => (
-        <div key={flag.code} className={`flag ${flag.severity}`} role={flag.severity === 'danger' ? 'alert' : 'note'}>
+        <div
+          key={flag.code}
+          className={`flag ${flag.severity}`}
+          role={flag.severity === 'danger' ? 'alert' : 'note'}
+        >
           <strong>{flag.severity}</strong>
           {flag.message}
           <span className="basis">Basis: {flag.reason}</span>
@@ -164,7 +211,9 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                 <td>{weight.values.weighedBy || '—'}</td>
                 <td>
                   {weight.stamp.enteredBy}, {displayDateTime(weight.stamp.enteredAt)}
-                  {weight.stamp.correctsId !== null && <span className="basis">Corrected: {weight.stamp.reason}</span>}
+                  {weight.stamp.correctsId !== null && (
+                    <span className="basis">Corrected: {weight.stamp.reason}</span>
+                  )}
                 </td>
                 <td className="row-actions">
                   <button type="button" onClick={() => startEdit(weight, 'correct')}>
@@ -190,7 +239,8 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           <ol className="history">
             {history.versions.map((version) => (
               <li key={version.id}>
-                {version.voided ? 'Voided' : shownMass(version.values.massG)} on {version.values.weighedOn} · entered by {version.stamp.enteredBy}, {displayDateTime(version.stamp.enteredAt)}
+                {version.voided ? 'Voided' : shownMass(version.values.massG)} on {version.values.weighedOn} ·
+                entered by {version.stamp.enteredBy}, {displayDateTime(version.stamp.enteredAt)}
                 {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`}
               </li>
             ))}
@@ -200,18 +250,68 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           </button>
         </div>
       )}
-      <form className="form" noValidate onSubmit={(event) => void submit(event)} aria-label={editing === null ? 'Add a weight' : 'Correct a weight'}>
-        <h3>{editing === null ? 'Add a weight' : editing.mode === 'void' ? `Void the weight of ${editing.weight.values.weighedOn}` : `Correct the weight of ${editing.weight.values.weighedOn}`}</h3>
+      <form
+        className="form"
+        noValidate
+        onSubmit={(event) => void submit(event)}
+        aria-label={editing === null ? 'Add a weight' : 'Correct a weight'}
+      >
+        <h3>
+          {editing === null
+            ? 'Add a weight'
+            : editing.mode === 'void'
+              ? `Void the weight of ${editing.weight.values.weighedOn}`
+              : `Correct the weight of ${editing.weight.values.weighedOn}`}
+        </h3>
         {editing?.mode !== 'void' && (
           <div className="form-grid">
-            <TextField label="Date" name="weighedOn" type="date" value={weighedOn} error={errors['weighedOn']} onChange={setWeighedOn} />
-            <NumberField label="Weight" name="massG" unit={unit} value={massText} error={errors['massG']} onChange={setMassText} />
-            <SelectField label="Body condition" name="bodyCondition" value={bodyCondition} options={bodyConditions.map((value) => ({ value, label: value === '' ? 'not scored' : value }))} onChange={setBodyCondition} />
-            <TextField label="Weighed by" name="weighedBy" value={weighedBy} placeholder={initials || 'initials'} onChange={setWeighedBy} />
+            <TextField
+              label="Date"
+              name="weighedOn"
+              type="date"
+              value={weighedOn}
+              error={errors['weighedOn']}
+              onChange={setWeighedOn}
+            />
+            <NumberField
+              label="Weight"
+              name="massG"
+              unit={unit}
+              value={massText}
+              error={errors['massG']}
+              onChange={setMassText}
+            />
+            <SelectField
+              label="Body condition"
+              name="bodyCondition"
+              value={bodyCondition}
+              options={bodyConditions.map((value) => ({ value, label: value === '' ? 'not scored' : value }))}
+              onChange={setBodyCondition}
+            />
+            <TextField
+              label="Weighed by"
+              name="weighedBy"
+              value={weighedBy}
+              placeholder={initials || 'initials'}
+              onChange={setWeighedBy}
+            />
           </div>
         )}
-        {editing !== null && <TextField label="Reason" name="reason" value={reason} error={errors['reason']} autoFocus onChange={setReason} />}
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        {editing !== null && (
+          <TextField
+            label="Reason"
+            name="reason"
+            value={reason}
+            error={errors['reason']}
+            autoFocus
+            onChange={setReason}
+          />
+        )}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
         <div className="form-actions">
           <button type="submit" className="primary">
             {editing === null ? 'Add weight' : editing.mode === 'void' ? 'Void weight' : 'Save correction'}

@@ -17,14 +17,24 @@ export function DayList() {
     <section className="screen" aria-labelledby="day-title">
       <h1 id="day-title">Anaesthetic plans</h1>
       <div className="toolbar">
-        <TextField label="Day" name="day" type="date" value={date} onChange={(value) => value !== '' && setDate(value)} />
+        <TextField
+          label="Day"
+          name="day"
+          type="date"
+          value={date}
+          onChange={(value) => value !== '' && setDate(value)}
+        />
         <a className="button-link" href={href('plans', 'new')}>
           Quick plan
         </a>
         <p className="hint">To plan for a patient, open the patient and choose New plan.</p>
       </div>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
-      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {load.error.message}
+        </p>
+      )}
       {load.state === 'ready' &&
         (load.value.plans.length === 0 ? (
           <p className="muted">No plans for {date}.</p>
@@ -55,9 +65,7 @@ export function DayList() {
                     </td>
                     <td>{plan.patientName ?? 'quick plan'}</td>
                     <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
-                    <td>
-                      {agentRouteText(plan.agent, plan.route)}
-                    </td>
+                    <td>{agentRouteText(plan.agent, plan.route)}</td>
                     <td className="number">{minutes(plan.inductionMin)}</td>
                     <td className="number">{figure(plan.liquidMl)} mL</td>
                     <td className="number">{figure(plan.oxygenL)} L</td>
@@ -69,7 +77,10 @@ export function DayList() {
             <p className="day-totals" role="status">
               Day total:{' '}
               {Object.entries(load.value.totals.liquidMlByAgent)
-                .map(([agent, ml]) => `${figure(ml)} mL liquid ${agents[agent as AgentId].displayName.toLowerCase()}`)
+                .map(
+                  ([agent, ml]) =>
+                    `${figure(ml)} mL liquid ${agents[agent as AgentId].displayName.toLowerCase()}`,
+                )
                 .join(', ')}{' '}
               and {figure(load.value.totals.oxygenL)} L oxygen, before priming, leaks and spillage.
             </p>

@@ -16,27 +16,36 @@ const rows: readonly { key: keyof PlanResult['estimates']; label: string; unit: 
 ];
 
 /** The bird's estimates; each shows its basis on hover, and on tap or Enter for keyboards. */
-export const EstimateList = memo(function EstimateList({ estimates }: { readonly estimates: PlanResult['estimates'] }) {
-  const [open, setOpen] = useState<string | null>(null);
-  return (
-    <dl className="estimates">
-      {rows.map((row) => {
-        const estimate = estimates[row.key];
-        const shown = open === row.key;
-        return (
-          <div key={row.key} className="estimate">
-            <dt>{row.label}</dt>
-            <dd>
-              <button type="button" className="estimate-value" title={estimate.basis} aria-expanded={shown} onClick={() => setOpen(shown ? null : row.key)}>
-                {figure(estimate.value)} {row.unit}
-                {estimate.basis === 'measured' && <span className="tag">measured</span>}
-                {/^assumption/i.test(estimate.basis) && <span className="tag">assumption</span>}
-              </button>
-              {shown && <span className="basis">Basis: {estimate.basis}</span>}
-            </dd>
-          </div>
-        );
-      })}
-    </dl>
-  );
-}, (previous, next) => JSON.stringify(previous.estimates) === JSON.stringify(next.estimates));
+export const EstimateList = memo(
+  function EstimateList({ estimates }: { readonly estimates: PlanResult['estimates'] }) {
+    const [open, setOpen] = useState<string | null>(null);
+    return (
+      <dl className="estimates">
+        {rows.map((row) => {
+          const estimate = estimates[row.key];
+          const shown = open === row.key;
+          return (
+            <div key={row.key} className="estimate">
+              <dt>{row.label}</dt>
+              <dd>
+                <button
+                  type="button"
+                  className="estimate-value"
+                  title={estimate.basis}
+                  aria-expanded={shown}
+                  onClick={() => setOpen(shown ? null : row.key)}
+                >
+                  {figure(estimate.value)} {row.unit}
+                  {estimate.basis === 'measured' && <span className="tag">measured</span>}
+                  {/^assumption/i.test(estimate.basis) && <span className="tag">assumption</span>}
+                </button>
+                {shown && <span className="basis">Basis: {estimate.basis}</span>}
+              </dd>
+            </div>
+          );
+        })}
+      </dl>
+    );
+  },
+  (previous, next) => JSON.stringify(previous.estimates) === JSON.stringify(next.estimates),
+);

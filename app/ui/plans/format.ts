@@ -14,7 +14,9 @@ export function minutes(value: number | null | undefined, notReached = 'not reac
 
 /** A p5-p95 range in minutes. */
 export function range(percentiles: { p5: number; p95: number } | null | undefined): string {
-  return percentiles === null || percentiles === undefined ? 'range not available' : `${figure(percentiles.p5, 2)}-${figure(percentiles.p95, 2)} min`;
+  return percentiles === null || percentiles === undefined
+    ? 'range not available'
+    : `${figure(percentiles.p5, 2)}-${figure(percentiles.p95, 2)} min`;
 }
 
 /** Plain names of the waste-gas sources the budget reports (`source` in the plan result). */

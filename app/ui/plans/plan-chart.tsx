@@ -17,16 +17,71 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
   const band = result.uncertainty.brainBandPct;
   const bandUsable = band !== null && band.p5.length === x.length;
   const list: ChartSeries[] = [
-    { label: 'Inspired', values: timeline.inspiredPct, stroke: '#6b7480', dash: [10, 5], width: 1.5, scale: 'pct' },
-    { label: 'Posterior air sacs', values: timeline.posteriorSacsPct, stroke: '#b7791f', dash: [4, 3], width: 1.5, scale: 'pct' },
-    { label: 'Parabronchial end gas', values: timeline.parabronchialPct, stroke: '#2f855a', dash: [1, 3], width: 2, scale: 'pct' },
-    { label: 'Arterial', values: timeline.arterialPct, stroke: '#8a1c1c', dash: [8, 3, 2, 3], width: 1.5, scale: 'pct' },
+    {
+      label: 'Inspired',
+      values: timeline.inspiredPct,
+      stroke: '#6b7480',
+      dash: [10, 5],
+      width: 1.5,
+      scale: 'pct',
+    },
+    {
+      label: 'Posterior air sacs',
+      values: timeline.posteriorSacsPct,
+      stroke: '#b7791f',
+      dash: [4, 3],
+      width: 1.5,
+      scale: 'pct',
+    },
+    {
+      label: 'Parabronchial end gas',
+      values: timeline.parabronchialPct,
+      stroke: '#2f855a',
+      dash: [1, 3],
+      width: 2,
+      scale: 'pct',
+    },
+    {
+      label: 'Arterial',
+      values: timeline.arterialPct,
+      stroke: '#8a1c1c',
+      dash: [8, 3, 2, 3],
+      width: 1.5,
+      scale: 'pct',
+    },
     { label: 'Brain', values: timeline.brainPct, stroke: '#1f4e79', width: 3, scale: 'pct' },
-    { label: 'Planned depth', values: constant(depthPct), stroke: '#1b1f24', dash: [2, 2], width: 1, scale: 'pct' },
-    { label: 'Arousal threshold', values: constant(arousalPct), stroke: '#1b1f24', dash: [12, 4, 2, 4], width: 1, scale: 'pct' },
+    {
+      label: 'Planned depth',
+      values: constant(depthPct),
+      stroke: '#1b1f24',
+      dash: [2, 2],
+      width: 1,
+      scale: 'pct',
+    },
+    {
+      label: 'Arousal threshold',
+      values: constant(arousalPct),
+      stroke: '#1b1f24',
+      dash: [12, 4, 2, 4],
+      width: 1,
+      scale: 'pct',
+    },
     // The shaded band lies between the two percentile curves (uPlot band between series).
-    { label: 'Brain, 5th percentile', values: bandUsable ? band.p5 : x.map(() => null), stroke: 'rgba(31, 78, 121, 0.4)', width: 1, scale: 'pct', bandTo: 8 },
-    { label: 'Brain, 95th percentile', values: bandUsable ? band.p95 : x.map(() => null), stroke: 'rgba(31, 78, 121, 0.4)', width: 1, scale: 'pct' },
+    {
+      label: 'Brain, 5th percentile',
+      values: bandUsable ? band.p5 : x.map(() => null),
+      stroke: 'rgba(31, 78, 121, 0.4)',
+      width: 1,
+      scale: 'pct',
+      bandTo: 8,
+    },
+    {
+      label: 'Brain, 95th percentile',
+      values: bandUsable ? band.p95 : x.map(() => null),
+      stroke: 'rgba(31, 78, 121, 0.4)',
+      width: 1,
+      scale: 'pct',
+    },
   ];
   if (compareWith !== undefined && compareWith.result.timeline.timeMin.length === x.length) {
     // Drawn at the same MAC multiple on this plan's axis, so plans with different agents compare fairly.

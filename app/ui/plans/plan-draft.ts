@@ -116,7 +116,10 @@ function number(text: string): number | undefined | 'not a number' {
  * The plan input for a draft, or the problems keyed by the draft field to blame, in the words
  * of the contract's validation. `uncertaintySamples` 0 gives a fast first answer while typing.
  */
-export function draftToInput(draft: PlanDraft, uncertaintySamples: number): { input: PlanInput } | { problems: DraftProblems } {
+export function draftToInput(
+  draft: PlanDraft,
+  uncertaintySamples: number,
+): { input: PlanInput } | { problems: DraftProblems } {
   const problems: Record<string, string> = {};
   const read = (key: keyof PlanDraft, label: string): number | undefined => {
     const value = number(String(draft[key]));
@@ -138,12 +141,20 @@ export function draftToInput(draft: PlanDraft, uncertaintySamples: number): { in
     agent: draft.agent,
     ...(read('macText', 'MAC') === undefined ? {} : { macPct: read('macText', 'MAC') }),
     route: draft.route,
-    ...(draft.route === 'chamber' ? {} : { circuit: draft.route === 'airSacTube' ? 'nonRebreathing' : draft.circuit }),
+    ...(draft.route === 'chamber'
+      ? {}
+      : { circuit: draft.route === 'airSacTube' ? 'nonRebreathing' : draft.circuit }),
     freshGasLpm: read('freshGasText', 'Fresh gas flow'),
     ...(draft.route === 'chamber' ? { chamberVolumeL: read('chamberVolumeText', 'Chamber volume') } : {}),
-    ...(draft.route === 'mask' && read('maskDeadSpaceText', 'Mask dead space') !== undefined ? { maskDeadSpaceMl: read('maskDeadSpaceText', 'Mask dead space') } : {}),
-    ...(draft.route === 'mask' && read('maskLeakText', 'Mask leak') !== undefined ? { maskLeakFraction: (read('maskLeakText', 'Mask leak') ?? 0) / 100 } : {}),
-    ...(draft.route !== 'chamber' && draft.route !== 'airSacTube' && draft.circuit === 'circle' ? { circuitVolumeL: read('circuitVolumeText', 'Circle volume') } : {}),
+    ...(draft.route === 'mask' && read('maskDeadSpaceText', 'Mask dead space') !== undefined
+      ? { maskDeadSpaceMl: read('maskDeadSpaceText', 'Mask dead space') }
+      : {}),
+    ...(draft.route === 'mask' && read('maskLeakText', 'Mask leak') !== undefined
+      ? { maskLeakFraction: (read('maskLeakText', 'Mask leak') ?? 0) / 100 }
+      : {}),
+    ...(draft.route !== 'chamber' && draft.route !== 'airSacTube' && draft.circuit === 'circle'
+      ? { circuitVolumeL: read('circuitVolumeText', 'Circle volume') }
+      : {}),
     schedule: [
       { atMin: 0, vaporPct: inductionPct },
       { atMin: inductionMin, vaporPct: maintenancePct },
@@ -156,15 +167,28 @@ export function draftToInput(draft: PlanDraft, uncertaintySamples: number): { in
             mode: 'ippv',
             breathsPerMin: read('ippvRateText', 'Ventilator rate'),
             tidalVolumeMl: read('ippvTidalText', 'Ventilator tidal volume'),
-            ...(read('ippvFromText', 'Ventilation start') === undefined ? {} : { fromMin: read('ippvFromText', 'Ventilation start') }),
+            ...(read('ippvFromText', 'Ventilation start') === undefined
+              ? {}
+              : { fromMin: read('ippvFromText', 'Ventilation start') }),
           },
-    ...(read('targetMacText', 'Planned depth') === undefined ? {} : { targetMacMultiple: read('targetMacText', 'Planned depth') }),
-    ...(read('recoveryFractionText', 'Recovery threshold') === undefined ? {} : { recoveryMacFraction: read('recoveryFractionText', 'Recovery threshold') }),
+    ...(read('targetMacText', 'Planned depth') === undefined
+      ? {}
+      : { targetMacMultiple: read('targetMacText', 'Planned depth') }),
+    ...(read('recoveryFractionText', 'Recovery threshold') === undefined
+      ? {}
+      : { recoveryMacFraction: read('recoveryFractionText', 'Recovery threshold') }),
     scavenging: draft.scavenging,
-    room: { volumeM3: read('roomVolumeText', 'Room volume'), airChangesPerHour: read('roomChangesText', 'Room air changes') },
+    room: {
+      volumeM3: read('roomVolumeText', 'Room volume'),
+      airChangesPerHour: read('roomChangesText', 'Room air changes'),
+    },
     cylinder:
       draft.cylinder === 'waterCapacity'
-        ? { kind: 'waterCapacity', waterCapacityL: read('cylinderWaterText', 'Cylinder water capacity'), pressureBar: read('cylinderBarText', 'Cylinder pressure') }
+        ? {
+            kind: 'waterCapacity',
+            waterCapacityL: read('cylinderWaterText', 'Cylinder water capacity'),
+            pressureBar: read('cylinderBarText', 'Cylinder pressure'),
+          }
         : { kind: 'preset', presetId: draft.cylinder },
     uncertainty: { samples: uncertaintySamples, seed: 1 },
   };
@@ -174,7 +198,8 @@ export function draftToInput(draft: PlanDraft, uncertaintySamples: number): { in
   for (const issue of parsed.error.issues) {
     const path = issue.path.map(String).join('.');
     const field = fieldOfPath[path] ?? 'form';
-    if (problems[field] === undefined) problems[field] = issue.message.charAt(0).toUpperCase() + issue.message.slice(1) + '.';
+    if (problems[field] === undefined)
+      problems[field] = issue.message.charAt(0).toUpperCase() + issue.message.slice(1) + '.';
   }
   return { problems };
 }
@@ -196,7 +221,8 @@ export function inputToDraft(input: PlanInput, massUnit: 'g' | 'kg'): PlanDraft 
     freshGasText: String(input.freshGasLpm),
     chamberVolumeText: text(input.chamberVolumeL) || base.chamberVolumeText,
     maskDeadSpaceText: text(input.maskDeadSpaceMl),
-    maskLeakText: input.maskLeakFraction === undefined ? '' : String(Math.round(input.maskLeakFraction * 1000) / 10),
+    maskLeakText:
+      input.maskLeakFraction === undefined ? '' : String(Math.round(input.maskLeakFraction * 1000) / 10),
     circuitVolumeText: text(input.circuitVolumeL) || base.circuitVolumeText,
     inductionPctText: text(first?.vaporPct),
     inductionMinText: text(second?.atMin),
@@ -209,8 +235,14 @@ export function inputToDraft(input: PlanInput, massUnit: 'g' | 'kg'): PlanDraft 
     targetMacText: text(input.targetMacMultiple) || base.targetMacText,
     recoveryFractionText: text(input.recoveryMacFraction),
     scavenging: input.scavenging ?? true,
-    cylinder: cylinder === undefined ? base.cylinder : cylinder.kind === 'preset' ? cylinder.presetId : 'waterCapacity',
-    cylinderWaterText: cylinder?.kind === 'waterCapacity' ? String(cylinder.waterCapacityL) : base.cylinderWaterText,
+    cylinder:
+      cylinder === undefined
+        ? base.cylinder
+        : cylinder.kind === 'preset'
+          ? cylinder.presetId
+          : 'waterCapacity',
+    cylinderWaterText:
+      cylinder?.kind === 'waterCapacity' ? String(cylinder.waterCapacityL) : base.cylinderWaterText,
     cylinderBarText: cylinder?.kind === 'waterCapacity' ? String(cylinder.pressureBar) : base.cylinderBarText,
     roomVolumeText: input.room === undefined ? base.roomVolumeText : String(input.room.volumeM3),
     roomChangesText: input.room === undefined ? base.roomChangesText : String(input.room.airChangesPerHour),

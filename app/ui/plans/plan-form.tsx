@@ -14,25 +14,49 @@ type Props = {
   readonly speciesLocked: boolean;
 };
 
-
 /** The plan's inputs. Every change is a new draft; the results follow without a button. */
 export const PlanForm = memo(function PlanForm({ draft, problems, species, onChange, speciesLocked }: Props) {
-  const set = <K extends keyof PlanDraft>(key: K) => (value: PlanDraft[K]) => onChange({ ...draft, [key]: value });
+  const set =
+    <K extends keyof PlanDraft>(key: K) =>
+    (value: PlanDraft[K]) =>
+      onChange({ ...draft, [key]: value });
   const current = species.find((entry) => entry.key === draft.speciesId);
   const publishedMac = current?.values.mac[draft.agent] ?? null;
   return (
-    <form className="form plan-form" noValidate onSubmit={(event) => event.preventDefault()} aria-label="Plan inputs">
+    <form
+      className="form plan-form"
+      noValidate
+      onSubmit={(event) => event.preventDefault()}
+      aria-label="Plan inputs"
+    >
       <fieldset className="group">
         <legend>Bird</legend>
         <div className="form-grid">
-          <NumberField label="Body mass" name="bodyMass" unit={draft.massUnit} value={draft.massText} error={problems['massText']} autoFocus onChange={set('massText')} />
+          <NumberField
+            label="Body mass"
+            name="bodyMass"
+            unit={draft.massUnit}
+            value={draft.massText}
+            error={problems['massText']}
+            autoFocus
+            onChange={set('massText')}
+          />
           <SelectField
             label="Species"
             name="speciesId"
             value={draft.speciesId}
             error={problems['speciesId']}
-            options={[{ value: '', label: 'Not chosen (no species defaults)' }, ...species.map((entry) => ({ value: entry.key, label: entry.values.commonName }))]}
-            hint={speciesLocked ? 'From the patient record.' : current === undefined ? undefined : `Typical ${current.values.massMinG}-${current.values.massMaxG} g`}
+            options={[
+              { value: '', label: 'Not chosen (no species defaults)' },
+              ...species.map((entry) => ({ value: entry.key, label: entry.values.commonName })),
+            ]}
+            hint={
+              speciesLocked
+                ? 'From the patient record.'
+                : current === undefined
+                  ? undefined
+                  : `Typical ${current.values.massMinG}-${current.values.massMaxG} g`
+            }
             onChange={speciesLocked ? () => undefined : set('speciesId')}
           />
         </div>
@@ -40,7 +64,15 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
 
       <fieldset className="group">
         <legend>Agent</legend>
-        <Choice legend="Inhalant" name="agent" options={agentIds} labels={Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]))} value={draft.agent} error={undefined} onChange={set('agent')} />
+        <Choice
+          legend="Inhalant"
+          name="agent"
+          options={agentIds}
+          labels={Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]))}
+          value={draft.agent}
+          error={undefined}
+          onChange={set('agent')}
+        />
         <NumberField
           label="MAC for this bird"
           name="macPct"
@@ -59,27 +91,78 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
       <fieldset className="group">
         <legend>Route and circuit</legend>
         <div className="form-grid">
-          <SelectField label="Route" name="route" value={draft.route} options={(Object.keys(routeLabels) as (keyof typeof routeLabels)[]).map((value) => ({ value, label: routeLabels[value] }))} onChange={set('route')} />
+          <SelectField
+            label="Route"
+            name="route"
+            value={draft.route}
+            options={(Object.keys(routeLabels) as (keyof typeof routeLabels)[]).map((value) => ({
+              value,
+              label: routeLabels[value],
+            }))}
+            onChange={set('route')}
+          />
           {draft.route !== 'chamber' && draft.route !== 'airSacTube' && (
             <SelectField
               label="Breathing system"
               name="circuit"
               value={draft.circuit}
               error={problems['circuit']}
-              options={(Object.keys(circuitLabels) as (keyof typeof circuitLabels)[]).map((value) => ({ value, label: circuitLabels[value] }))}
+              options={(Object.keys(circuitLabels) as (keyof typeof circuitLabels)[]).map((value) => ({
+                value,
+                label: circuitLabels[value],
+              }))}
               onChange={set('circuit')}
             />
           )}
-          <NumberField label="Fresh gas flow" name="freshGas" unit="L/min" value={draft.freshGasText} error={problems['freshGasText']} onChange={set('freshGasText')} />
-          {draft.route === 'chamber' && <NumberField label="Chamber volume" name="chamberVolume" unit="L" value={draft.chamberVolumeText} error={problems['chamberVolumeText']} onChange={set('chamberVolumeText')} />}
+          <NumberField
+            label="Fresh gas flow"
+            name="freshGas"
+            unit="L/min"
+            value={draft.freshGasText}
+            error={problems['freshGasText']}
+            onChange={set('freshGasText')}
+          />
+          {draft.route === 'chamber' && (
+            <NumberField
+              label="Chamber volume"
+              name="chamberVolume"
+              unit="L"
+              value={draft.chamberVolumeText}
+              error={problems['chamberVolumeText']}
+              onChange={set('chamberVolumeText')}
+            />
+          )}
           {draft.route === 'mask' && (
             <>
-              <NumberField label="Mask dead space" name="maskDeadSpace" unit="mL" value={draft.maskDeadSpaceText} error={problems['maskDeadSpaceText']} hint="Blank: model default (assumption)." onChange={set('maskDeadSpaceText')} />
-              <NumberField label="Mask leak" name="maskLeak" unit="% of flow" value={draft.maskLeakText} error={problems['maskLeakText']} hint="Blank: model default (assumption)." onChange={set('maskLeakText')} />
+              <NumberField
+                label="Mask dead space"
+                name="maskDeadSpace"
+                unit="mL"
+                value={draft.maskDeadSpaceText}
+                error={problems['maskDeadSpaceText']}
+                hint="Blank: model default (assumption)."
+                onChange={set('maskDeadSpaceText')}
+              />
+              <NumberField
+                label="Mask leak"
+                name="maskLeak"
+                unit="% of flow"
+                value={draft.maskLeakText}
+                error={problems['maskLeakText']}
+                hint="Blank: model default (assumption)."
+                onChange={set('maskLeakText')}
+              />
             </>
           )}
           {draft.route !== 'chamber' && draft.route !== 'airSacTube' && draft.circuit === 'circle' && (
-            <NumberField label="Circle volume" name="circuitVolume" unit="L" value={draft.circuitVolumeText} error={problems['circuitVolumeText']} onChange={set('circuitVolumeText')} />
+            <NumberField
+              label="Circle volume"
+              name="circuitVolume"
+              unit="L"
+              value={draft.circuitVolumeText}
+              error={problems['circuitVolumeText']}
+              onChange={set('circuitVolumeText')}
+            />
           )}
         </div>
       </fieldset>
@@ -87,10 +170,39 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
       <fieldset className="group">
         <legend>Vaporiser schedule</legend>
         <div className="form-grid">
-          <NumberField label="Induction dial" name="inductionPct" unit="%" value={draft.inductionPctText} error={problems['inductionPctText']} onChange={set('inductionPctText')} />
-          <NumberField label="Maintenance from" name="inductionMin" unit="min" value={draft.inductionMinText} error={problems['inductionMinText']} onChange={set('inductionMinText')} />
-          <NumberField label="Maintenance dial" name="maintenancePct" unit="%" value={draft.maintenancePctText} error={problems['maintenancePctText']} onChange={set('maintenancePctText')} />
-          <NumberField label="Vaporiser off at" name="endMin" unit="min" value={draft.endMinText} error={problems['endMinText']} hint="The planned end of the procedure." onChange={set('endMinText')} />
+          <NumberField
+            label="Induction dial"
+            name="inductionPct"
+            unit="%"
+            value={draft.inductionPctText}
+            error={problems['inductionPctText']}
+            onChange={set('inductionPctText')}
+          />
+          <NumberField
+            label="Maintenance from"
+            name="inductionMin"
+            unit="min"
+            value={draft.inductionMinText}
+            error={problems['inductionMinText']}
+            onChange={set('inductionMinText')}
+          />
+          <NumberField
+            label="Maintenance dial"
+            name="maintenancePct"
+            unit="%"
+            value={draft.maintenancePctText}
+            error={problems['maintenancePctText']}
+            onChange={set('maintenancePctText')}
+          />
+          <NumberField
+            label="Vaporiser off at"
+            name="endMin"
+            unit="min"
+            value={draft.endMinText}
+            error={problems['endMinText']}
+            hint="The planned end of the procedure."
+            onChange={set('endMinText')}
+          />
         </div>
       </fieldset>
 
@@ -107,9 +219,30 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
         />
         {draft.ventilation === 'ippv' && (
           <div className="form-grid">
-            <NumberField label="Ventilator rate" name="ippvRate" unit="/min" value={draft.ippvRateText} error={problems['ippvRateText']} onChange={set('ippvRateText')} />
-            <NumberField label="Ventilator tidal volume" name="ippvTidal" unit="mL" value={draft.ippvTidalText} error={problems['ippvTidalText']} onChange={set('ippvTidalText')} />
-            <NumberField label="IPPV from" name="ippvFrom" unit="min" value={draft.ippvFromText} error={problems['ippvFromText']} onChange={set('ippvFromText')} />
+            <NumberField
+              label="Ventilator rate"
+              name="ippvRate"
+              unit="/min"
+              value={draft.ippvRateText}
+              error={problems['ippvRateText']}
+              onChange={set('ippvRateText')}
+            />
+            <NumberField
+              label="Ventilator tidal volume"
+              name="ippvTidal"
+              unit="mL"
+              value={draft.ippvTidalText}
+              error={problems['ippvTidalText']}
+              onChange={set('ippvTidalText')}
+            />
+            <NumberField
+              label="IPPV from"
+              name="ippvFrom"
+              unit="min"
+              value={draft.ippvFromText}
+              error={problems['ippvFromText']}
+              onChange={set('ippvFromText')}
+            />
           </div>
         )}
       </fieldset>
@@ -117,7 +250,14 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
       <fieldset className="group">
         <legend>Depth and recovery</legend>
         <div className="form-grid">
-          <NumberField label="Planned depth" name="targetMac" unit="× MAC" value={draft.targetMacText} error={problems['targetMacText']} onChange={set('targetMacText')} />
+          <NumberField
+            label="Planned depth"
+            name="targetMac"
+            unit="× MAC"
+            value={draft.targetMacText}
+            error={problems['targetMacText']}
+            onChange={set('targetMacText')}
+          />
           <NumberField
             label="Arousal threshold"
             name="recoveryFraction"
@@ -147,20 +287,65 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           />
           {draft.cylinder === 'waterCapacity' && (
             <>
-              <NumberField label="Water capacity" name="cylinderWater" unit="L" value={draft.cylinderWaterText} error={problems['cylinderWaterText']} onChange={set('cylinderWaterText')} />
-              <NumberField label="Pressure" name="cylinderBar" unit="bar" value={draft.cylinderBarText} error={problems['cylinderBarText']} onChange={set('cylinderBarText')} />
+              <NumberField
+                label="Water capacity"
+                name="cylinderWater"
+                unit="L"
+                value={draft.cylinderWaterText}
+                error={problems['cylinderWaterText']}
+                onChange={set('cylinderWaterText')}
+              />
+              <NumberField
+                label="Pressure"
+                name="cylinderBar"
+                unit="bar"
+                value={draft.cylinderBarText}
+                error={problems['cylinderBarText']}
+                onChange={set('cylinderBarText')}
+              />
             </>
           )}
-          <NumberField label="Room volume" name="roomVolume" unit="m³" value={draft.roomVolumeText} error={problems['roomVolumeText']} onChange={set('roomVolumeText')} />
-          <NumberField label="Room air changes" name="roomChanges" unit="/h" value={draft.roomChangesText} error={problems['roomChangesText']} onChange={set('roomChangesText')} />
+          <NumberField
+            label="Room volume"
+            name="roomVolume"
+            unit="m³"
+            value={draft.roomVolumeText}
+            error={problems['roomVolumeText']}
+            onChange={set('roomVolumeText')}
+          />
+          <NumberField
+            label="Room air changes"
+            name="roomChanges"
+            unit="/h"
+            value={draft.roomChangesText}
+            error={problems['roomChangesText']}
+            onChange={set('roomChangesText')}
+          />
         </div>
         <div className="field checkbox">
-          <input id="plan-scavenging" type="checkbox" checked={draft.scavenging} onChange={(event) => set('scavenging')(event.target.checked)} />
+          <input
+            id="plan-scavenging"
+            type="checkbox"
+            checked={draft.scavenging}
+            onChange={(event) => set('scavenging')(event.target.checked)}
+          />
           <label htmlFor="plan-scavenging">Scavenging connected</label>
         </div>
       </fieldset>
-      {problems['form'] !== undefined && <p className="form-error" role="alert">{problems['form']}</p>}
-      {!speciesLocked && <TextField label="Bird's name (quick plan)" name="patientName" value={draft.patientName} error={problems['patientName']} onChange={set('patientName')} />}
+      {problems['form'] !== undefined && (
+        <p className="form-error" role="alert">
+          {problems['form']}
+        </p>
+      )}
+      {!speciesLocked && (
+        <TextField
+          label="Bird's name (quick plan)"
+          name="patientName"
+          value={draft.patientName}
+          error={problems['patientName']}
+          onChange={set('patientName')}
+        />
+      )}
     </form>
   );
 });

@@ -19,9 +19,12 @@ function sameContent(previous: unknown, next: unknown): boolean {
   return JSON.stringify(previous) === JSON.stringify(next);
 }
 
-const Section = memo(function Section({ children }: { readonly children: ReactNode; readonly content: unknown }) {
-  return <>{children}</>;
-}, (previous, next) => sameContent(previous.content, next.content));
+const Section = memo(
+  function Section({ children }: { readonly children: ReactNode; readonly content: unknown }) {
+    return <>{children}</>;
+  },
+  (previous, next) => sameContent(previous.content, next.content),
+);
 
 /** Cautions, ordered danger first; always the first thing in the results. */
 export function CautionList({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
@@ -63,26 +66,39 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
             <dt>Time to planned depth ({result.targetMacMultiple} × MAC)</dt>
             <dd data-testid="induction-time">
               {minutes(milestones.inductionMin)}
-              <span className="basis">5th-95th percentile: {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.inductionMin)}</span>
+              <span className="basis">
+                5th-95th percentile:{' '}
+                {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.inductionMin)}
+              </span>
             </dd>
           </div>
           <div>
             <dt>Recovery after vaporiser off (below {result.recoveryMacFraction.value} × MAC)</dt>
             <dd data-testid="recovery-time">
-              {minutes(milestones.recoveryMin, milestones.vaporiserOffMin === null ? 'vaporiser never turned off' : 'not within the window')}
-              <span className="basis">5th-95th percentile: {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.recoveryMin)}</span>
+              {minutes(
+                milestones.recoveryMin,
+                milestones.vaporiserOffMin === null ? 'vaporiser never turned off' : 'not within the window',
+              )}
+              <span className="basis">
+                5th-95th percentile:{' '}
+                {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.recoveryMin)}
+              </span>
             </dd>
           </div>
           <div>
             <dt>Air sacs at 95 % of inspired</dt>
             <dd>
-              {milestones.airSacWashin95Breaths === null ? 'not reached' : `${figure(milestones.airSacWashin95Breaths, 2)} breaths, ${minutes(milestones.airSacWashin95Min)}`}
+              {milestones.airSacWashin95Breaths === null
+                ? 'not reached'
+                : `${figure(milestones.airSacWashin95Breaths, 2)} breaths, ${minutes(milestones.airSacWashin95Min)}`}
             </dd>
           </div>
           <div>
             <dt>Air sacs washed out to 5 %</dt>
             <dd>
-              {milestones.airSacWashout95Breaths === null ? 'not reached' : `${figure(milestones.airSacWashout95Breaths, 2)} breaths, ${minutes(milestones.airSacWashout95Min)}`}
+              {milestones.airSacWashout95Breaths === null
+                ? 'not reached'
+                : `${figure(milestones.airSacWashout95Breaths, 2)} breaths, ${minutes(milestones.airSacWashout95Min)}`}
             </dd>
           </div>
           <div>
@@ -91,66 +107,94 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           </div>
         </dl>
         <p className="basis">
-          MAC used: {figure(result.mac.valuePct)} % ({result.mac.basis}). Arousal threshold: {result.recoveryMacFraction.basis}. {milestones.basis}
+          MAC used: {figure(result.mac.valuePct)} % ({result.mac.basis}). Arousal threshold:{' '}
+          {result.recoveryMacFraction.basis}. {milestones.basis}
         </p>
         <PlanChart result={result} compareWith={compareWith} />
-        <p className="basis">Range from {uncertainty.samples} samples: {uncertainty.method}</p>
+        <p className="basis">
+          Range from {uncertainty.samples} samples: {uncertainty.method}
+        </p>
       </section>
 
       <Section content={[result.flows, result.consumption, result.oxygen, result.agent, setFreshGasLpm]}>
-      <section className="panel" aria-labelledby="flows-heading">
-        <h2 id="flows-heading">Fresh gas, agent and oxygen</h2>
-        <dl className="details">
-          <dt>Recommended fresh gas</dt>
-          <dd>
-            {figure(flows.recommendedLpm)} L/min (rebreathing below {figure(flows.minimumLpm)} L/min){setFreshGasLpm !== null && <> · set: <strong className={setFreshGasLpm < flows.minimumLpm ? 'too-low' : undefined}>{figure(setFreshGasLpm)} L/min</strong></>}
-            <span className="basis">{flows.rule}. {flows.basis}</span>
-            {flows.rebreathing && <span className="basis too-low">{flows.rebreathingReason}</span>}
-          </dd>
-          {flows.chamberTimeTo95Min !== null && (
-            <>
-              <dt>Chamber at 95 % of the dial</dt>
-              <dd>
-                {minutes(flows.chamberTimeTo95Min)}
-                <span className="basis">3 time constants, tau = chamber volume / fresh gas flow (OpenAnesthesia)</span>
-              </dd>
-            </>
-          )}
-          <dt>Liquid {result.agent}</dt>
-          <dd>
-            {figure(result.consumption.liquidMl)} mL for the plan · {figure(result.consumption.liquidMlPerHour)} mL/h at {figure(result.consumption.maintenanceVaporPct)} %
-            <span className="basis">
-              {figure(result.consumption.vapourMlPerLiquidMl)} mL vapour per mL liquid at 20 °C. {result.consumption.basis}
-            </span>
-          </dd>
-          <dt>Oxygen</dt>
-          <dd>
-            {figure(result.oxygen.usedL)} L over {figure(result.oxygen.durationMin)} min
-            {result.oxygen.cylinderContentL !== null && ` · cylinder ${figure(result.oxygen.cylinderContentL)} L, lasts ${minutes(result.oxygen.enduranceMin, 'no flow')} at the set flow`}
-            {result.oxygen.suffices === false && <strong className="too-low"> · not enough for the plan</strong>}
-            <span className="basis">{result.oxygen.basis}</span>
-          </dd>
-        </dl>
-      </section>
+        <section className="panel" aria-labelledby="flows-heading">
+          <h2 id="flows-heading">Fresh gas, agent and oxygen</h2>
+          <dl className="details">
+            <dt>Recommended fresh gas</dt>
+            <dd>
+              {figure(flows.recommendedLpm)} L/min (rebreathing below {figure(flows.minimumLpm)} L/min)
+              {setFreshGasLpm !== null && (
+                <>
+                  {' '}
+                  · set:{' '}
+                  <strong className={setFreshGasLpm < flows.minimumLpm ? 'too-low' : undefined}>
+                    {figure(setFreshGasLpm)} L/min
+                  </strong>
+                </>
+              )}
+              <span className="basis">
+                {flows.rule}. {flows.basis}
+              </span>
+              {flows.rebreathing && <span className="basis too-low">{flows.rebreathingReason}</span>}
+            </dd>
+            {flows.chamberTimeTo95Min !== null && (
+              <>
+                <dt>Chamber at 95 % of the dial</dt>
+                <dd>
+                  {minutes(flows.chamberTimeTo95Min)}
+                  <span className="basis">
+                    3 time constants, tau = chamber volume / fresh gas flow (OpenAnesthesia)
+                  </span>
+                </dd>
+              </>
+            )}
+            <dt>Liquid {result.agent}</dt>
+            <dd>
+              {figure(result.consumption.liquidMl)} mL for the plan ·{' '}
+              {figure(result.consumption.liquidMlPerHour)} mL/h at{' '}
+              {figure(result.consumption.maintenanceVaporPct)} %
+              <span className="basis">
+                {figure(result.consumption.vapourMlPerLiquidMl)} mL vapour per mL liquid at 20 °C.{' '}
+                {result.consumption.basis}
+              </span>
+            </dd>
+            <dt>Oxygen</dt>
+            <dd>
+              {figure(result.oxygen.usedL)} L over {figure(result.oxygen.durationMin)} min
+              {result.oxygen.cylinderContentL !== null &&
+                ` · cylinder ${figure(result.oxygen.cylinderContentL)} L, lasts ${minutes(result.oxygen.enduranceMin, 'no flow')} at the set flow`}
+              {result.oxygen.suffices === false && (
+                <strong className="too-low"> · not enough for the plan</strong>
+              )}
+              <span className="basis">{result.oxygen.basis}</span>
+            </dd>
+          </dl>
+        </section>
       </Section>
 
       <Section content={waste}>
-      <section className="panel" aria-labelledby="waste-heading">
-        <h2 id="waste-heading">Waste gas in the room</h2>
-        <p>
-          Peak <strong className={waste.exceedsCeiling ? 'too-low' : undefined}>{figure(waste.peakPpm)} ppm</strong> against the {waste.ceilingPpm} ppm ceiling (NIOSH 1977) · highest 1-h mean{' '}
-          {figure(waste.highestHourMeanPpm)} ppm · {figure(waste.releasedVapourMl)} mL vapour released · {waste.scavenging ? 'scavenged' : 'not scavenged'} · room {figure(waste.roomVolumeM3)} m³,{' '}
-          {figure(waste.airChangesPerHour)} air changes/h
-        </p>
-        <ul className="compact">
-          {waste.sources.map((source) => (
-            <li key={source.source}>
-              {wasteGasSourceLabel(source.source)}: {figure(source.vapourMl)} mL of vapour<span className="basis">{source.basis}</span>
-            </li>
-          ))}
-        </ul>
-        <p className="basis">{waste.basis}</p>
-      </section>
+        <section className="panel" aria-labelledby="waste-heading">
+          <h2 id="waste-heading">Waste gas in the room</h2>
+          <p>
+            Peak{' '}
+            <strong className={waste.exceedsCeiling ? 'too-low' : undefined}>
+              {figure(waste.peakPpm)} ppm
+            </strong>{' '}
+            against the {waste.ceilingPpm} ppm ceiling (NIOSH 1977) · highest 1-h mean{' '}
+            {figure(waste.highestHourMeanPpm)} ppm · {figure(waste.releasedVapourMl)} mL vapour released ·{' '}
+            {waste.scavenging ? 'scavenged' : 'not scavenged'} · room {figure(waste.roomVolumeM3)} m³,{' '}
+            {figure(waste.airChangesPerHour)} air changes/h
+          </p>
+          <ul className="compact">
+            {waste.sources.map((source) => (
+              <li key={source.source}>
+                {wasteGasSourceLabel(source.source)}: {figure(source.vapourMl)} mL of vapour
+                <span className="basis">{source.basis}</span>
+              </li>
+            ))}
+          </ul>
+          <p className="basis">{waste.basis}</p>
+        </section>
       </Section>
 
       <section className="panel" aria-labelledby="estimates-heading">
@@ -160,14 +204,14 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
       </section>
 
       <Section content={result.assumptions}>
-      <section className="panel" aria-labelledby="assumptions-heading">
-        <h2 id="assumptions-heading">Assumptions</h2>
-        <ul className="compact basis-list">
-          {result.assumptions.map((assumption) => (
-            <li key={assumption}>{assumption}</li>
-          ))}
-        </ul>
-      </section>
+        <section className="panel" aria-labelledby="assumptions-heading">
+          <h2 id="assumptions-heading">Assumptions</h2>
+          <ul className="compact basis-list">
+            {result.assumptions.map((assumption) => (
+              <li key={assumption}>{assumption}</li>
+            ))}
+          </ul>
+        </section>
       </Section>
     </div>
   );

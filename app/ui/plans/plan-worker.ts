@@ -3,7 +3,11 @@ import { computePlan } from '../../core/model/compute-plan.js';
 import type { PlanInput } from '../../core/model/plan-types.js';
 import type { SpeciesReference } from '../../core/species-reference.js';
 
-export type PlanRequest = { readonly id: number; readonly input: PlanInput; readonly species: readonly SpeciesReference[] };
+export type PlanRequest = {
+  readonly id: number;
+  readonly input: PlanInput;
+  readonly species: readonly SpeciesReference[];
+};
 
 type WorkerScope = {
   onmessage: ((event: MessageEvent<PlanRequest>) => void) | null;

@@ -16,7 +16,10 @@ import { CautionList, PlanResults } from './plan-results.js';
 import { usePlanComputation } from './use-plan-computation.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
-export type PlanningStart = { readonly kind: 'quick' } | { readonly kind: 'patient'; readonly patientId: number } | { readonly kind: 'saved'; readonly planId: number };
+export type PlanningStart =
+  | { readonly kind: 'quick' }
+  | { readonly kind: 'patient'; readonly patientId: number }
+  | { readonly kind: 'saved'; readonly planId: number };
 
 type Context = {
   readonly patientId: number | null;
@@ -32,19 +35,28 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const settings = useClinicSettings();
   const writeMeta = useWriteMeta();
   const [species, setSpecies] = useState<Species[]>([]);
-  const [draftA, setDraftA] = useState<PlanDraft>(() => defaultDraft(settings.defaultAgent, settings.massUnit));
+  const [draftA, setDraftA] = useState<PlanDraft>(() =>
+    defaultDraft(settings.defaultAgent, settings.massUnit),
+  );
   const [draftB, setDraftB] = useState<PlanDraft | null>(null);
   const [active, setActive] = useState<'A' | 'B'>('A');
   const [checklist, setChecklist] = useState<Checklist>(emptyChecklist);
   const [plannedFor, setPlannedFor] = useState(todayIso());
   const [label, setLabel] = useState('');
-  const [context, setContext] = useState<Context>({ patientId: null, patientLabel: null, savedPlanId: null, savedStamp: null });
+  const [context, setContext] = useState<Context>({
+    patientId: null,
+    patientLabel: null,
+    savedPlanId: null,
+    savedStamp: null,
+  });
   const [loadFailure, setLoadFailure] = useState<string | null>(null);
   const [saveMessage, setSaveMessage] = useState<SaveMessage | null>(null);
   const [loaded, setLoaded] = useState(start.kind === 'quick');
 
   useEffect(() => {
-    void api.invoke('species:list', {}).then((answer) => (answer.ok ? setSpecies(answer.value) : setLoadFailure(answer.error.message)));
+    void api
+      .invoke('species:list', {})
+      .then((answer) => (answer.ok ? setSpecies(answer.value) : setLoadFailure(answer.error.message)));
   }, []);
 
   useEffect(() => {
@@ -59,8 +71,16 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           speciesId: patient.values.speciesKey,
           massText: massG === null ? '' : String(settings.massUnit === 'kg' ? massG / 1000 : massG),
         }));
-        const weightText = trend.latest === null ? 'no weight recorded' : `${displayMass(trend.latest.massG, settings.massUnit)} on ${trend.latest.weighedOn}`;
-        setContext({ patientId: patient.id, patientLabel: `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey} · ${weightText}`, savedPlanId: null, savedStamp: null });
+        const weightText =
+          trend.latest === null
+            ? 'no weight recorded'
+            : `${displayMass(trend.latest.massG, settings.massUnit)} on ${trend.latest.weighedOn}`;
+        setContext({
+          patientId: patient.id,
+          patientLabel: `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey} · ${weightText}`,
+          savedPlanId: null,
+          savedStamp: null,
+        });
         setLoaded(true);
       });
     } else if (start.kind === 'saved') {
@@ -73,7 +93,10 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         setLabel(plan.label);
         setContext({
           patientId: plan.patientId,
-          patientLabel: patient === null ? (plan.input.patientName ?? null) : `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey}`,
+          patientLabel:
+            patient === null
+              ? (plan.input.patientName ?? null)
+              : `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey}`,
           savedPlanId: plan.id,
           savedStamp: `${displayDateTime(plan.stamp.enteredAt)} by ${plan.stamp.enteredBy}`,
         });
@@ -100,21 +123,39 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       return;
     }
     const fields = { patientId: context.patientId, plannedFor, label, input: computationA.input, checklist };
-    const answer = context.savedPlanId === null ? await api.invoke('plans:save', { fields, meta: who.meta }) : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
+    const answer =
+      context.savedPlanId === null
+        ? await api.invoke('plans:save', { fields, meta: who.meta })
+        : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
     if (!answer.ok) {
       setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
       return;
     }
-    setContext((current) => ({ ...current, savedPlanId: answer.value.id, savedStamp: `${displayDateTime(answer.value.stamp.enteredAt)} by ${answer.value.stamp.enteredBy}` }));
-    setSaveMessage({ kind: 'saved', text: `Saved as plan ${answer.value.id} (model ${answer.value.modelVersion}).` });
+    setContext((current) => ({
+      ...current,
+      savedPlanId: answer.value.id,
+      savedStamp: `${displayDateTime(answer.value.stamp.enteredAt)} by ${answer.value.stamp.enteredBy}`,
+    }));
+    setSaveMessage({
+      kind: 'saved',
+      text: `Saved as plan ${answer.value.id} (model ${answer.value.modelVersion}).`,
+    });
     window.history.replaceState(null, '', href('plans', answer.value.id));
   }
 
   const editingB = active === 'B' && draftB !== null;
   // Stable, so the memoised form does not re-render when only the results change.
-  const setShownDraft = useCallback((draft: PlanDraft) => (editingB ? setDraftB(draft) : setDraftA(draft)), [editingB]);
+  const setShownDraft = useCallback(
+    (draft: PlanDraft) => (editingB ? setDraftB(draft) : setDraftA(draft)),
+    [editingB],
+  );
 
-  if (loadFailure !== null) return <p className="form-error" role="alert">{loadFailure}</p>;
+  if (loadFailure !== null)
+    return (
+      <p className="form-error" role="alert">
+        {loadFailure}
+      </p>
+    );
   if (!loaded) return <p aria-busy="true">Loading…</p>;
   const comparing = draftB !== null;
 
@@ -130,8 +171,20 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         </p>
       )}
       <div className="save-bar">
-        <TextField label="Planned for" name="plannedFor" type="date" value={plannedFor} onChange={setPlannedFor} />
-        <TextField label="Label" name="label" value={label} placeholder="e.g. crop biopsy" onChange={setLabel} />
+        <TextField
+          label="Planned for"
+          name="plannedFor"
+          type="date"
+          value={plannedFor}
+          onChange={setPlannedFor}
+        />
+        <TextField
+          label="Label"
+          name="label"
+          value={label}
+          placeholder="e.g. crop biopsy"
+          onChange={setLabel}
+        />
         <button type="button" className="primary" onClick={() => void save()}>
           {context.savedPlanId === null ? 'Save plan' : 'Save changes'}
         </button>
@@ -186,22 +239,45 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       </div>
       <div className="planning">
         <div>
-          <PlanForm draft={shownDraft} problems={shownComputation.problems} species={species} speciesLocked={context.patientId !== null} onChange={setShownDraft} />
+          <PlanForm
+            draft={shownDraft}
+            problems={shownComputation.problems}
+            species={species}
+            speciesLocked={context.patientId !== null}
+            onChange={setShownDraft}
+          />
           <ChecklistPanel checklist={checklist} onChange={setChecklist} />
         </div>
         <div>
-          {comparing && computationA.result !== null && computationB.result !== null && computationA.input !== null && computationB.input !== null && (
-            <section className="panel" aria-labelledby="compare-heading">
-              <h2 id="compare-heading">Plan A and plan B</h2>
-              <CompareTable inputA={computationA.input} inputB={computationB.input} resultA={computationA.result} resultB={computationB.result} />
-              <h3>Cautions of plan {active === 'A' ? 'B' : 'A'}</h3>
-              <CautionList cautions={(active === 'A' ? computationB.result : computationA.result).cautions} />
-            </section>
+          {comparing &&
+            computationA.result !== null &&
+            computationB.result !== null &&
+            computationA.input !== null &&
+            computationB.input !== null && (
+              <section className="panel" aria-labelledby="compare-heading">
+                <h2 id="compare-heading">Plan A and plan B</h2>
+                <CompareTable
+                  inputA={computationA.input}
+                  inputB={computationB.input}
+                  resultA={computationA.result}
+                  resultB={computationB.result}
+                />
+                <h3>Cautions of plan {active === 'A' ? 'B' : 'A'}</h3>
+                <CautionList
+                  cautions={(active === 'A' ? computationB.result : computationA.result).cautions}
+                />
+              </section>
+            )}
+          {shownComputation.failure !== null && (
+            <p className="form-error" role="alert">
+              The model could not run: {shownComputation.failure}
+            </p>
           )}
-          {shownComputation.failure !== null && <p className="form-error" role="alert">The model could not run: {shownComputation.failure}</p>}
           {shownComputation.result === null ? (
             <p className="muted" aria-live="polite">
-              {Object.keys(shownComputation.problems).length > 0 ? 'Enter the body mass and the marked fields to see predictions.' : 'Computing…'}
+              {Object.keys(shownComputation.problems).length > 0
+                ? 'Enter the body mass and the marked fields to see predictions.'
+                : 'Computing…'}
             </p>
           ) : (
             <PlanResults

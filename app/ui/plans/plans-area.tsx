@@ -10,7 +10,9 @@ export function PlansArea({ route }: { readonly route: Route }) {
     if (first === undefined) return null;
     if (first === 'new') {
       const patientId = Number(second);
-      return second !== undefined && Number.isInteger(patientId) && patientId > 0 ? { kind: 'patient', patientId } : { kind: 'quick' };
+      return second !== undefined && Number.isInteger(patientId) && patientId > 0
+        ? { kind: 'patient', patientId }
+        : { kind: 'quick' };
     }
     const planId = Number(first);
     return Number.isInteger(planId) && planId > 0 ? { kind: 'saved', planId } : null;

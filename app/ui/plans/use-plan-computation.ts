@@ -26,7 +26,10 @@ type FullAnswer = { result: PlanResult | null; key: string; failure: string | nu
 
 let nextId = 1;
 
-function quickRun(input: PlanInput, species: readonly SpeciesReference[]): { result: PlanResult } | { failure: string } {
+function quickRun(
+  input: PlanInput,
+  species: readonly SpeciesReference[],
+): { result: PlanResult } | { failure: string } {
   try {
     return { result: computePlan(input, { species }) };
   } catch (error) {
@@ -40,7 +43,11 @@ function quickRun(input: PlanInput, species: readonly SpeciesReference[]): { res
  * keystroke; the full run with the uncertainty samples runs in a Web Worker once typing pauses,
  * so typing never waits for it.
  */
-export function usePlanComputation(draft: PlanDraft, species: readonly SpeciesReference[], enabled = true): Computation {
+export function usePlanComputation(
+  draft: PlanDraft,
+  species: readonly SpeciesReference[],
+  enabled = true,
+): Computation {
   const worker = useRef<Worker | null>(null);
   const newestFull = useRef(0);
   const requestKeys = useRef(new Map<number, string>());
@@ -48,7 +55,10 @@ export function usePlanComputation(draft: PlanDraft, species: readonly SpeciesRe
   const quickInput = useMemo(() => draftToInput(draft, 0), [draft]);
   const fullInput = useMemo(() => draftToInput(draft, fullUncertaintySamples), [draft]);
   const fullKey = useMemo(() => ('input' in fullInput ? JSON.stringify(fullInput.input) : ''), [fullInput]);
-  const quick = useMemo(() => (enabled && 'input' in quickInput ? quickRun(quickInput.input, species) : null), [enabled, quickInput, species]);
+  const quick = useMemo(
+    () => (enabled && 'input' in quickInput ? quickRun(quickInput.input, species) : null),
+    [enabled, quickInput, species],
+  );
 
   useEffect(() => {
     const created = new Worker(new URL('./plan-worker.ts', import.meta.url), { type: 'module' });

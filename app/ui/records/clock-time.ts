@@ -7,7 +7,9 @@
 /** How far ahead of now a typed time may be: clocks in a theatre disagree by a minute or two. */
 export const futureToleranceMs = 2 * 60_000;
 
-export type ClockTimeResult = { readonly ok: true; readonly iso: string; readonly date: Date } | { readonly ok: false; readonly message: string };
+export type ClockTimeResult =
+  | { readonly ok: true; readonly iso: string; readonly date: Date }
+  | { readonly ok: false; readonly message: string };
 
 /**
  * Resolves a typed time of day to an instant.
@@ -20,22 +22,39 @@ export function resolveClockTime(text: string, now: Date, reference: Date = now)
   const trimmed = text.trim();
   if (trimmed === '') return { ok: true, iso: reference.toISOString(), date: reference };
   const match = /^(\d{1,2}):?(\d{2})(?::(\d{2}))?$/.exec(trimmed);
-  if (match === null) return { ok: false, message: 'Type the time as HH:MM (24-hour), or leave it blank for now.' };
+  if (match === null)
+    return { ok: false, message: 'Type the time as HH:MM (24-hour), or leave it blank for now.' };
   const hours = Number(match[1]);
   const minutes = Number(match[2]);
   const seconds = match[3] === undefined ? 0 : Number(match[3]);
-  if (hours > 23 || minutes > 59 || seconds > 59) return { ok: false, message: 'That is not a time of day; type HH:MM from 00:00 to 23:59.' };
-  const candidates = [-1, 0, 1].map((offset) => new Date(reference.getFullYear(), reference.getMonth(), reference.getDate() + offset, hours, minutes, seconds));
+  if (hours > 23 || minutes > 59 || seconds > 59)
+    return { ok: false, message: 'That is not a time of day; type HH:MM from 00:00 to 23:59.' };
+  const candidates = [-1, 0, 1].map(
+    (offset) =>
+      new Date(
+        reference.getFullYear(),
+        reference.getMonth(),
+        reference.getDate() + offset,
+        hours,
+        minutes,
+        seconds,
+      ),
+  );
   let best = candidates[1] as Date;
-  for (const candidate of candidates) if (Math.abs(candidate.getTime() - reference.getTime()) < Math.abs(best.getTime() - reference.getTime())) best = candidate;
-  if (best.getTime() - now.getTime() > futureToleranceMs) return { ok: false, message: 'That time is still to come; type the time the reading was taken.' };
+  for (const candidate of candidates)
+    if (Math.abs(candidate.getTime() - reference.getTime()) < Math.abs(best.getTime() - reference.getTime()))
+      best = candidate;
+  if (best.getTime() - now.getTime() > futureToleranceMs)
+    return { ok: false, message: 'That time is still to come; type the time the reading was taken.' };
   return { ok: true, iso: best.toISOString(), date: best };
 }
 
 /** `HH:MM:SS` on the clinic's clock, for tables. */
 export function clockText(iso: string): string {
   const date = new Date(iso);
-  return [date.getHours(), date.getMinutes(), date.getSeconds()].map((part) => String(part).padStart(2, '0')).join(':');
+  return [date.getHours(), date.getMinutes(), date.getSeconds()]
+    .map((part) => String(part).padStart(2, '0'))
+    .join(':');
 }
 
 /** `HH:MM` on the clinic's clock, for the time box. */
@@ -69,6 +88,13 @@ export function fromLocalInputValue(value: string): string | null {
   const match = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/.exec(value);
   if (match === null) return null;
   const [, year, month, day, hours, minutes, seconds] = match;
-  const date = new Date(Number(year), Number(month) - 1, Number(day), Number(hours), Number(minutes), Number(seconds ?? 0));
+  const date = new Date(
+    Number(year),
+    Number(month) - 1,
+    Number(day),
+    Number(hours),
+    Number(minutes),
+    Number(seconds ?? 0),
+  );
   return Number.isNaN(date.getTime()) ? null : date.toISOString();
 }

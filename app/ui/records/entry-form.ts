@@ -1,19 +1,46 @@
 import type { z } from 'zod';
-import { procedureEntryValuesSchema, type EventType, type ProcedureEntryValues } from '../../contract/records.js';
+import {
+  procedureEntryValuesSchema,
+  type EventType,
+  type ProcedureEntryValues,
+} from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
-import { cToF, fToC, kpaToMmHg, mmHgToKpa, type PressureUnit, type TemperatureUnit } from '../../core/units.js';
+import {
+  cToF,
+  fToC,
+  kpaToMmHg,
+  mmHgToKpa,
+  type PressureUnit,
+  type TemperatureUnit,
+} from '../../core/units.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { fieldErrorsFrom } from '../common/field-errors.js';
 import { resolveClockTime } from './clock-time.js';
 
 /** The readings of one row, in the order the keyboard visits them. */
-export const readingFields = ['vaporPct', 'oxygenLpm', 'heartRatePerMin', 'breathsPerMin', 'temperatureC', 'etco2Mmhg', 'spo2Pct'] as const;
+export const readingFields = [
+  'vaporPct',
+  'oxygenLpm',
+  'heartRatePerMin',
+  'breathsPerMin',
+  'temperatureC',
+  'etco2Mmhg',
+  'spo2Pct',
+] as const;
 export type ReadingField = (typeof readingFields)[number];
 
 /** What the person typed: text per box, in the clinic's display units; blank means not measured. */
 export type ReadingDraft = Readonly<Record<ReadingField, string>>;
 
-export const emptyReadings: ReadingDraft = { vaporPct: '', oxygenLpm: '', heartRatePerMin: '', breathsPerMin: '', temperatureC: '', etco2Mmhg: '', spo2Pct: '' };
+export const emptyReadings: ReadingDraft = {
+  vaporPct: '',
+  oxygenLpm: '',
+  heartRatePerMin: '',
+  breathsPerMin: '',
+  temperatureC: '',
+  etco2Mmhg: '',
+  spo2Pct: '',
+};
 
 export type DisplayUnits = { readonly temperature: TemperatureUnit; readonly pressure: PressureUnit };
 
@@ -26,7 +53,10 @@ function round(value: number, decimals: number): number {
 }
 
 /** Label with the unit shown on screen for each reading. */
-export function readingLabel(field: ReadingField, units: DisplayUnits): { readonly label: string; readonly unit: string } {
+export function readingLabel(
+  field: ReadingField,
+  units: DisplayUnits,
+): { readonly label: string; readonly unit: string } {
   switch (field) {
     case 'vaporPct':
       return { label: 'Vaporiser', unit: '%' };
@@ -84,7 +114,9 @@ export function readingBounds(field: ReadingField): { readonly min: number; read
 }
 
 function boundsMessage(field: ReadingField, units: DisplayUnits): string | null {
-  const converted = (field === 'temperatureC' && units.temperature === 'F') || (field === 'etco2Mmhg' && units.pressure === 'kPa');
+  const converted =
+    (field === 'temperatureC' && units.temperature === 'F') ||
+    (field === 'etco2Mmhg' && units.pressure === 'kPa');
   if (!converted) return null;
   const { min, max } = readingBounds(field);
   const { label, unit } = readingLabel(field, units);
@@ -112,7 +144,9 @@ export type EntryInput = {
   readonly drugDose?: string;
 };
 
-export type EntryCheck = { readonly ok: true; readonly values: ProcedureEntryValues } | { readonly ok: false; readonly errors: FieldErrors };
+export type EntryCheck =
+  | { readonly ok: true; readonly values: ProcedureEntryValues }
+  | { readonly ok: false; readonly errors: FieldErrors };
 
 /**
  * Turns a typed row into contract values (°C, mmHg) and checks it with the contract's own schema,
@@ -121,7 +155,11 @@ export type EntryCheck = { readonly ok: true; readonly values: ProcedureEntryVal
  */
 export function checkEntry(input: EntryInput, units: DisplayUnits, now: Date): EntryCheck {
   const errors: Record<string, string> = {};
-  const at = resolveClockTime(input.timeText, now, input.originalAt === undefined ? now : new Date(input.originalAt));
+  const at = resolveClockTime(
+    input.timeText,
+    now,
+    input.originalAt === undefined ? now : new Date(input.originalAt),
+  );
   if (!at.ok) errors['at'] = at.message;
   const readings: Partial<Record<ReadingField, number | null>> = {};
   for (const field of readingFields) {
@@ -146,7 +184,10 @@ export function checkEntry(input: EntryInput, units: DisplayUnits, now: Date): E
     const fromSchema = fieldErrorsFrom(describeIssues(parsed.error.issues));
     for (const [field, message] of Object.entries(fromSchema)) {
       if (errors[field] !== undefined) continue;
-      const converted = (readingFields as readonly string[]).includes(field) && message.includes(' to ') ? boundsMessage(field as ReadingField, units) : null;
+      const converted =
+        (readingFields as readonly string[]).includes(field) && message.includes(' to ')
+          ? boundsMessage(field as ReadingField, units)
+          : null;
       errors[field] = converted ?? message;
     }
   }

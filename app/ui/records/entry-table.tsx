@@ -1,9 +1,23 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
-import { correctionMetaSchema, type ProcedureEntry, type ProcedureEntryValues } from '../../contract/records.js';
+import {
+  correctionMetaSchema,
+  type ProcedureEntry,
+  type ProcedureEntryValues,
+} from '../../contract/records.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { api } from '../common/bridge.js';
 import { clockText } from './clock-time.js';
-import { checkEntry, readingFields, readingLabel, readingsSummary, readingsToDraft, toDisplayReading, type DisplayUnits, type ReadingDraft, type ReadingField } from './entry-form.js';
+import {
+  checkEntry,
+  readingFields,
+  readingLabel,
+  readingsSummary,
+  readingsToDraft,
+  toDisplayReading,
+  type DisplayUnits,
+  type ReadingDraft,
+  type ReadingField,
+} from './entry-form.js';
 import { eventSummary, minutesFromStart } from './monitoring.js';
 
 export type TableEntry = ProcedureEntry & { readonly corrected: boolean };
@@ -24,12 +38,26 @@ function reasonError(reason: string): string | undefined {
   return checked.success ? undefined : checked.error.issues[0]?.message;
 }
 
-function ReasonBox({ value, error, onChange }: { readonly value: string; readonly error: string | undefined; readonly onChange: (value: string) => void }) {
+function ReasonBox({
+  value,
+  error,
+  onChange,
+}: {
+  readonly value: string;
+  readonly error: string | undefined;
+  readonly onChange: (value: string) => void;
+}) {
   const id = useId();
   return (
     <div className="field record-reason">
       <label htmlFor={id}>Reason (kept with the history)</label>
-      <input id={id} value={value} size={30} aria-invalid={error !== undefined} onChange={(event) => onChange(event.target.value)} />
+      <input
+        id={id}
+        value={value}
+        size={30}
+        aria-invalid={error !== undefined}
+        onChange={(event) => onChange(event.target.value)}
+      />
       {error !== undefined && (
         <p className="field-error" role="alert">
           {error}
@@ -39,7 +67,17 @@ function ReasonBox({ value, error, onChange }: { readonly value: string; readonl
   );
 }
 
-function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableEntry; readonly units: DisplayUnits; readonly onSave: Props['onCorrect']; readonly onClose: () => void }) {
+function CorrectForm({
+  entry,
+  units,
+  onSave,
+  onClose,
+}: {
+  readonly entry: TableEntry;
+  readonly units: DisplayUnits;
+  readonly onSave: Props['onCorrect'];
+  readonly onClose: () => void;
+}) {
   const [timeText, setTimeText] = useState(clockText(entry.values.at));
   const [readings, setReadings] = useState<ReadingDraft>(() => readingsToDraft(entry.values, units));
   const [note, setNote] = useState(entry.values.eventNote);
@@ -54,7 +92,16 @@ function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableE
   async function submit(event: FormEvent) {
     event.preventDefault();
     const checked = checkEntry(
-      { timeText, originalAt: entry.values.at, readings, kind: entry.values.kind, eventType: entry.values.eventType, eventNote: note, drugName, drugDose },
+      {
+        timeText,
+        originalAt: entry.values.at,
+        readings,
+        kind: entry.values.kind,
+        eventType: entry.values.eventType,
+        eventNote: note,
+        drugName,
+        drugDose,
+      },
       units,
       new Date(),
     );
@@ -72,12 +119,27 @@ function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableE
 
   const isVitals = entry.values.kind === 'vitals';
   return (
-    <form className="record-edit" onSubmit={(event) => void submit(event)} noValidate aria-label={`Correct the row at ${clockText(entry.values.at)}`}>
+    <form
+      className="record-edit"
+      onSubmit={(event) => void submit(event)}
+      noValidate
+      aria-label={`Correct the row at ${clockText(entry.values.at)}`}
+    >
       <div className="record-edit-fields">
         <div className="field record-cell">
           <label htmlFor={`${baseId}-time`}>Time</label>
-          <input id={`${baseId}-time`} value={timeText} size={8} aria-invalid={errors['at'] !== undefined} onChange={(event) => setTimeText(event.target.value)} />
-          {errors['at'] !== undefined && <p className="field-error" role="alert">{errors['at']}</p>}
+          <input
+            id={`${baseId}-time`}
+            value={timeText}
+            size={8}
+            aria-invalid={errors['at'] !== undefined}
+            onChange={(event) => setTimeText(event.target.value)}
+          />
+          {errors['at'] !== undefined && (
+            <p className="field-error" role="alert">
+              {errors['at']}
+            </p>
+          )}
         </div>
         {isVitals &&
           readingFields.map((field: ReadingField) => {
@@ -93,9 +155,15 @@ function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableE
                   inputMode="decimal"
                   size={5}
                   aria-invalid={errors[field] !== undefined}
-                  onChange={(event) => setReadings((current) => ({ ...current, [field]: event.target.value }))}
+                  onChange={(event) =>
+                    setReadings((current) => ({ ...current, [field]: event.target.value }))
+                  }
                 />
-                {errors[field] !== undefined && <p className="field-error" role="alert">{errors[field]}</p>}
+                {errors[field] !== undefined && (
+                  <p className="field-error" role="alert">
+                    {errors[field]}
+                  </p>
+                )}
               </div>
             );
           })}
@@ -103,19 +171,39 @@ function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableE
           <>
             <div className="field record-cell">
               <label htmlFor={`${baseId}-drug`}>Drug</label>
-              <input id={`${baseId}-drug`} value={drugName} size={14} aria-invalid={errors['drugName'] !== undefined} onChange={(event) => setDrugName(event.target.value)} />
-              {errors['drugName'] !== undefined && <p className="field-error" role="alert">{errors['drugName']}</p>}
+              <input
+                id={`${baseId}-drug`}
+                value={drugName}
+                size={14}
+                aria-invalid={errors['drugName'] !== undefined}
+                onChange={(event) => setDrugName(event.target.value)}
+              />
+              {errors['drugName'] !== undefined && (
+                <p className="field-error" role="alert">
+                  {errors['drugName']}
+                </p>
+              )}
             </div>
             <div className="field record-cell">
               <label htmlFor={`${baseId}-dose`}>Dose as given</label>
-              <input id={`${baseId}-dose`} value={drugDose} size={14} onChange={(event) => setDrugDose(event.target.value)} />
+              <input
+                id={`${baseId}-dose`}
+                value={drugDose}
+                size={14}
+                onChange={(event) => setDrugDose(event.target.value)}
+              />
             </div>
           </>
         )}
         {!isVitals && (
           <div className="field record-cell">
             <label htmlFor={`${baseId}-note`}>Note</label>
-            <input id={`${baseId}-note`} value={note} size={24} onChange={(event) => setNote(event.target.value)} />
+            <input
+              id={`${baseId}-note`}
+              value={note}
+              size={24}
+              onChange={(event) => setNote(event.target.value)}
+            />
           </div>
         )}
         <ReasonBox value={reason} error={errors['reason']} onChange={setReason} />
@@ -127,13 +215,25 @@ function CorrectForm({ entry, units, onSave, onClose }: { readonly entry: TableE
         <button type="button" onClick={onClose}>
           Cancel
         </button>
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
       </div>
     </form>
   );
 }
 
-function VoidForm({ entry, onVoid, onClose }: { readonly entry: TableEntry; readonly onVoid: Props['onVoid']; readonly onClose: () => void }) {
+function VoidForm({
+  entry,
+  onVoid,
+  onClose,
+}: {
+  readonly entry: TableEntry;
+  readonly onVoid: Props['onVoid'];
+  readonly onClose: () => void;
+}) {
   const [reason, setReason] = useState('');
   const [error, setError] = useState<string | undefined>(undefined);
   const [failure, setFailure] = useState<string | null>(null);
@@ -147,8 +247,16 @@ function VoidForm({ entry, onVoid, onClose }: { readonly entry: TableEntry; read
     else setFailure(answer);
   }
   return (
-    <form className="record-edit" onSubmit={(event) => void submit(event)} noValidate aria-label={`Void the row at ${clockText(entry.values.at)}`}>
-      <p className="hint">The row stays in the history, marked as entered in error; it leaves the chart, the table and the export.</p>
+    <form
+      className="record-edit"
+      onSubmit={(event) => void submit(event)}
+      noValidate
+      aria-label={`Void the row at ${clockText(entry.values.at)}`}
+    >
+      <p className="hint">
+        The row stays in the history, marked as entered in error; it leaves the chart, the table and the
+        export.
+      </p>
       <div className="record-edit-fields">
         <ReasonBox value={reason} error={error} onChange={setReason} />
       </div>
@@ -159,7 +267,11 @@ function VoidForm({ entry, onVoid, onClose }: { readonly entry: TableEntry; read
         <button type="button" onClick={onClose}>
           Cancel
         </button>
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
       </div>
     </form>
   );
@@ -179,7 +291,12 @@ function History({ entry, units }: { readonly entry: TableEntry; readonly units:
       live = false;
     };
   }, [entry.id]);
-  if (failure !== null) return <p className="form-error" role="alert">History could not be loaded: {failure}</p>;
+  if (failure !== null)
+    return (
+      <p className="form-error" role="alert">
+        History could not be loaded: {failure}
+      </p>
+    );
   if (versions === null) return <p aria-busy="true">Loading history…</p>;
   return (
     <table className="record-history" aria-label={`History of the row at ${clockText(entry.values.at)}`}>
@@ -197,9 +314,16 @@ function History({ entry, units }: { readonly entry: TableEntry; readonly units:
       <tbody>
         {versions.map((version, index) => (
           <tr key={version.id} className={index === 0 ? 'record-history-current' : undefined}>
-            <td>{index === 0 ? 'current' : index === versions.length - 1 ? 'original' : 'earlier'}{version.voided ? ' (voided)' : ''}</td>
+            <td>
+              {index === 0 ? 'current' : index === versions.length - 1 ? 'original' : 'earlier'}
+              {version.voided ? ' (voided)' : ''}
+            </td>
             <td>{clockText(version.values.at)}</td>
-            <td>{version.values.kind === 'vitals' ? readingsSummary(version.values, units) : eventSummary(version.values)}</td>
+            <td>
+              {version.values.kind === 'vitals'
+                ? readingsSummary(version.values, units)
+                : eventSummary(version.values)}
+            </td>
             <td>{version.stamp.enteredBy}</td>
             <td>{new Date(version.stamp.enteredAt).toLocaleString()}</td>
             <td>{version.stamp.reason === '' ? '—' : version.stamp.reason}</td>
@@ -218,7 +342,9 @@ function readingCell(values: ProcedureEntryValues, field: ReadingField, units: D
 /** The logged rows, newest first, with Correct, Void and History. */
 export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Props) {
   const [mode, setMode] = useState<Mode>(null);
-  const newestFirst = [...entries].sort((a, b) => Date.parse(b.values.at) - Date.parse(a.values.at) || b.id - a.id);
+  const newestFirst = [...entries].sort(
+    (a, b) => Date.parse(b.values.at) - Date.parse(a.values.at) || b.id - a.id,
+  );
   const columns = 2 + readingFields.length + 3;
   if (entries.length === 0) return <p className="hint">No rows logged yet.</p>;
   return (
@@ -270,14 +396,27 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
               <td>{entry.stamp.enteredBy}</td>
               <td>
                 <div className="record-actions">
-                  <button type="button" aria-label={`Correct the row at ${clockText(entry.values.at)}`} onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}>
+                  <button
+                    type="button"
+                    aria-label={`Correct the row at ${clockText(entry.values.at)}`}
+                    onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}
+                  >
                     Correct
                   </button>
-                  <button type="button" aria-label={`Void the row at ${clockText(entry.values.at)}`} onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}>
+                  <button
+                    type="button"
+                    aria-label={`Void the row at ${clockText(entry.values.at)}`}
+                    onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}
+                  >
                     Void
                   </button>
                   {entry.corrected && (
-                    <button type="button" aria-label={`History of the row at ${clockText(entry.values.at)}`} aria-expanded={open === 'history'} onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}>
+                    <button
+                      type="button"
+                      aria-label={`History of the row at ${clockText(entry.values.at)}`}
+                      aria-expanded={open === 'history'}
+                      onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}
+                    >
                       History
                     </button>
                   )}
@@ -287,7 +426,9 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
             open !== null && (
               <tr key={`${entry.id}-${open}`} className="record-detail-row">
                 <td colSpan={columns}>
-                  {open === 'correct' && <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} />}
+                  {open === 'correct' && (
+                    <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} />
+                  )}
                   {open === 'void' && <VoidForm entry={entry} onVoid={onVoid} onClose={close} />}
                   {open === 'history' && <History entry={entry} units={units} />}
                 </td>

@@ -14,7 +14,18 @@ type TextBoxProps = {
 };
 
 /** A labelled text box with its hint and its own error message beside it. */
-export function TextBox({ label, name, value, error, hint, type = 'text', inputMode, size, autoFocus, onChange }: TextBoxProps) {
+export function TextBox({
+  label,
+  name,
+  value,
+  error,
+  hint,
+  type = 'text',
+  inputMode,
+  size,
+  autoFocus,
+  onChange,
+}: TextBoxProps) {
   const id = useId();
   return (
     <div className="field">
@@ -55,7 +66,14 @@ type RadioGroupProps<T extends string | number> = {
 };
 
 /** A set of radio buttons with a legend and its own error message. */
-export function RadioGroup<T extends string | number>({ legend, name, options, value, error, onChange }: RadioGroupProps<T>) {
+export function RadioGroup<T extends string | number>({
+  legend,
+  name,
+  options,
+  value,
+  error,
+  onChange,
+}: RadioGroupProps<T>) {
   const errorId = useId();
   return (
     <fieldset className="field choice" aria-describedby={error !== undefined ? errorId : undefined}>
@@ -63,7 +81,13 @@ export function RadioGroup<T extends string | number>({ legend, name, options, v
       <div className="choice-options">
         {options.map((option) => (
           <label key={String(option.value)}>
-            <input type="radio" name={name} value={String(option.value)} checked={value === option.value} onChange={() => onChange(option.value)} />
+            <input
+              type="radio"
+              name={name}
+              value={String(option.value)}
+              checked={value === option.value}
+              onChange={() => onChange(option.value)}
+            />
             {option.label}
           </label>
         ))}

@@ -8,7 +8,10 @@ type Write = (enteredBy: string) => void;
  * set, the write waits while a small form asks for them, then goes ahead.
  * Returns the form to render (null when nothing is waiting) and `withInitials` to wrap a write.
  */
-export function useInitialsGate(): { readonly gate: ReactNode; readonly withInitials: (write: Write, cancelled?: () => void) => void } {
+export function useInitialsGate(): {
+  readonly gate: ReactNode;
+  readonly withInitials: (write: Write, cancelled?: () => void) => void;
+} {
   const { initials, setInitials } = useOperator();
   const pending = useRef<{ write: Write; cancelled: (() => void) | undefined } | null>(null);
   const [asking, setAsking] = useState(false);
@@ -47,7 +50,14 @@ export function useInitialsGate(): { readonly gate: ReactNode; readonly withInit
         Who is entering this? Your initials are saved with every row.
       </p>
       <label htmlFor={id}>Your initials</label>
-      <input id={id} value={typed} autoFocus maxLength={40} size={8} aria-invalid={error !== null} onChange={(event) => setTyped(event.target.value)}
+      <input
+        id={id}
+        value={typed}
+        autoFocus
+        maxLength={40}
+        size={8}
+        aria-invalid={error !== null}
+        onChange={(event) => setTyped(event.target.value)}
         onKeyDown={(event) => {
           if (event.key !== 'Enter') return;
           event.preventDefault();
@@ -68,7 +78,11 @@ export function useInitialsGate(): { readonly gate: ReactNode; readonly withInit
       >
         Cancel
       </button>
-      {error !== null && <p className="field-error" role="alert">{error}</p>}
+      {error !== null && (
+        <p className="field-error" role="alert">
+          {error}
+        </p>
+      )}
     </div>
   ) : null;
 

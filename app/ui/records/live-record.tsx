@@ -10,10 +10,30 @@ import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { clockMinutesText, clockText, formatElapsed } from './clock-time.js';
 import { downloadText } from '../common/download.js';
-import { checkEntry, emptyReadings, parseNumber, readingFields, readingLabel, toDisplayReading, type DisplayUnits, type ReadingDraft } from './entry-form.js';
+import {
+  checkEntry,
+  emptyReadings,
+  parseNumber,
+  readingFields,
+  readingLabel,
+  toDisplayReading,
+  type DisplayUnits,
+  type ReadingDraft,
+} from './entry-form.js';
 import { EntryTable } from './entry-table.js';
 import { useInitialsGate } from './initials-gate.js';
-import { apnoeaActionSeconds, apnoeaNote, eventLabels, promptState, recoveryMilestones, stoppedStopwatch, stopwatchLevel, stopwatchSeconds, toggleStopwatch, type Stopwatch } from './monitoring.js';
+import {
+  apnoeaActionSeconds,
+  apnoeaNote,
+  eventLabels,
+  promptState,
+  recoveryMilestones,
+  stoppedStopwatch,
+  stopwatchLevel,
+  stopwatchSeconds,
+  toggleStopwatch,
+  type Stopwatch,
+} from './monitoring.js';
 import { airwayText, asaText, circuitLabels } from './record-form.js';
 import { PlanComparison } from './plan-comparison.js';
 import { RecordDetailsEditor } from './record-details-editor.js';
@@ -51,7 +71,12 @@ export function LiveRecord({ recordId }: { readonly recordId: number }) {
   return <LiveRecordScreen detail={load.value} reload={reload} />;
 }
 
-const chartStyle: Readonly<Record<'heartRatePerMin' | 'breathsPerMin' | 'temperatureC' | 'etco2Mmhg' | 'vaporPct', { stroke: string; dash?: number[]; scale: string }>> = {
+const chartStyle: Readonly<
+  Record<
+    'heartRatePerMin' | 'breathsPerMin' | 'temperatureC' | 'etco2Mmhg' | 'vaporPct',
+    { stroke: string; dash?: number[]; scale: string }
+  >
+> = {
   heartRatePerMin: { stroke: '#8a1c1c', scale: 'rate' },
   breathsPerMin: { stroke: '#1f4e79', dash: [8, 4], scale: 'rate' },
   temperatureC: { stroke: '#b7791f', dash: [2, 3], scale: 'temperature' },
@@ -59,9 +84,18 @@ const chartStyle: Readonly<Record<'heartRatePerMin' | 'breathsPerMin' | 'tempera
   vaporPct: { stroke: '#6b3fa0', scale: 'vapor' },
 };
 
-function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail; readonly reload: () => void }) {
+function LiveRecordScreen({
+  detail,
+  reload,
+}: {
+  readonly detail: ProcedureDetail;
+  readonly reload: () => void;
+}) {
   const settings = useClinicSettings();
-  const units: DisplayUnits = useMemo(() => ({ temperature: settings.temperatureUnit, pressure: settings.pressureUnit }), [settings.temperatureUnit, settings.pressureUnit]);
+  const units: DisplayUnits = useMemo(
+    () => ({ temperature: settings.temperatureUnit, pressure: settings.pressureUnit }),
+    [settings.temperatureUnit, settings.pressureUnit],
+  );
   const nowMs = useNowMs();
   const { record, patient, species, latestMassG, entries } = detail;
   const values = record.values;
@@ -90,20 +124,44 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
 
   function addEntry(entryValues: ProcedureEntryValues): Promise<string | null> {
     return write(async (enteredBy) => {
-      const answer = await api.invoke('entries:add', { recordId: record.id, values: entryValues, meta: { enteredBy, reason: '' } });
+      const answer = await api.invoke('entries:add', {
+        recordId: record.id,
+        values: entryValues,
+        meta: { enteredBy, reason: '' },
+      });
       return answer.ok ? null : `Not saved: ${answer.error.message}`;
     });
   }
 
-  function logEvent(eventType: EventType, extra: { at?: string; eventNote?: string; drugName?: string; drugDose?: string } = {}): Promise<string | null> {
-    const checked = checkEntry({ timeText: '', readings: emptyReadings, kind: 'event', eventType, eventNote: extra.eventNote ?? '', drugName: extra.drugName ?? '', drugDose: extra.drugDose ?? '' }, units, new Date());
-    if (!checked.ok) return Promise.resolve(Object.values(checked.errors)[0] ?? 'The event could not be checked.');
+  function logEvent(
+    eventType: EventType,
+    extra: { at?: string; eventNote?: string; drugName?: string; drugDose?: string } = {},
+  ): Promise<string | null> {
+    const checked = checkEntry(
+      {
+        timeText: '',
+        readings: emptyReadings,
+        kind: 'event',
+        eventType,
+        eventNote: extra.eventNote ?? '',
+        drugName: extra.drugName ?? '',
+        drugDose: extra.drugDose ?? '',
+      },
+      units,
+      new Date(),
+    );
+    if (!checked.ok)
+      return Promise.resolve(Object.values(checked.errors)[0] ?? 'The event could not be checked.');
     return addEntry({ ...checked.values, at: extra.at ?? checked.values.at });
   }
 
   function correctRecord(next: ProcedureRecordValues, reason: string): Promise<string | null> {
     return write(async (enteredBy) => {
-      const answer = await api.invoke('procedures:correct', { id: record.id, values: next, meta: { enteredBy, reason } });
+      const answer = await api.invoke('procedures:correct', {
+        id: record.id,
+        values: next,
+        meta: { enteredBy, reason },
+      });
       return answer.ok ? null : `Not saved: ${answer.error.message}`;
     });
   }
@@ -114,7 +172,11 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
     toggleRef.current = () => {
       const { next, finished } = toggleStopwatch(stopwatch, Date.now());
       setStopwatch(next);
-      if (finished !== null) void logEvent('apnoea', { at: new Date(finished.startedAtMs).toISOString(), eventNote: apnoeaNote(finished.durationS) });
+      if (finished !== null)
+        void logEvent('apnoea', {
+          at: new Date(finished.startedAtMs).toISOString(),
+          eventNote: apnoeaNote(finished.durationS),
+        });
     };
   });
   useEffect(() => {
@@ -127,7 +189,9 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
     return () => window.removeEventListener('keydown', onKey);
   }, []);
 
-  const vitalsTimes = entries.filter((entry) => entry.values.kind === 'vitals').map((entry) => Date.parse(entry.values.at));
+  const vitalsTimes = entries
+    .filter((entry) => entry.values.kind === 'vitals')
+    .map((entry) => Date.parse(entry.values.at));
   const prompt = promptState(startedAtMs, vitalsTimes, nowMs, values.promptIntervalMin, endedAtMs);
   const level = stopwatchLevel(stopwatch, nowMs);
   const seconds = stopwatchSeconds(stopwatch, nowMs);
@@ -143,14 +207,19 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
       <header className="record-header">
         <div className="record-header-main">
           <h1 id="record-title">
-            {patient.values.name} <span className="record-species">{species?.values.commonName ?? patient.values.speciesKey}</span>
+            {patient.values.name}{' '}
+            <span className="record-species">{species?.values.commonName ?? patient.values.speciesKey}</span>
           </h1>
           <p className="record-facts">
             <span>{values.procedureName}</span>
             <span>ASA {asaText(values)}</span>
             <span>{airwayText(values)}</span>
             <span>{circuitLabels[values.circuit]}</span>
-            <span>{latestMassG === null ? 'no weight recorded' : `latest weight ${formatMass(latestMassG, settings.massUnit).text}`}</span>
+            <span>
+              {latestMassG === null
+                ? 'no weight recorded'
+                : `latest weight ${formatMass(latestMassG, settings.massUnit).text}`}
+            </span>
             <span>staff {values.staffInitials}</span>
           </p>
         </div>
@@ -163,11 +232,20 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
           <button type="button" onClick={() => void exportCsv()}>
             Download CSV
           </button>
-          <button type="button" aria-expanded={editingDetails} onClick={() => setEditingDetails((open) => !open)}>
+          <button
+            type="button"
+            aria-expanded={editingDetails}
+            onClick={() => setEditingDetails((open) => !open)}
+          >
             Correct details
           </button>
           {endedAtMs === null ? (
-            <button type="button" onClick={() => void correctRecord({ ...values, endedAt: new Date().toISOString() }, 'Procedure ended')}>
+            <button
+              type="button"
+              onClick={() =>
+                void correctRecord({ ...values, endedAt: new Date().toISOString() }, 'Procedure ended')
+              }
+            >
               End procedure
             </button>
           ) : (
@@ -176,11 +254,19 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
         </div>
       </header>
 
-      {editingDetails && <RecordDetailsEditor recordId={record.id} values={values} onSave={correctRecord} onClose={() => setEditingDetails(false)} />}
+      {editingDetails && (
+        <RecordDetailsEditor
+          recordId={record.id}
+          values={values}
+          onSave={correctRecord}
+          onClose={() => setEditingDetails(false)}
+        />
+      )}
 
       {prompt.due && (
         <div className="record-prompt" role="alert">
-          Time to log vitals: no row for {Math.floor(prompt.sinceLastMin)} min (reminder every {values.promptIntervalMin} min).
+          Time to log vitals: no row for {Math.floor(prompt.sinceLastMin)} min (reminder every{' '}
+          {values.promptIntervalMin} min).
         </div>
       )}
       {gate}
@@ -190,7 +276,11 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
         </p>
       )}
 
-      <EntryRow units={units} lastEntry={entries.filter((entry) => entry.values.kind === 'vitals').at(-1)?.values ?? null} onSave={addEntry} />
+      <EntryRow
+        units={units}
+        lastEntry={entries.filter((entry) => entry.values.kind === 'vitals').at(-1)?.values ?? null}
+        onSave={addEntry}
+      />
 
       <div className="record-toolbar">
         <div className="record-stopwatch">
@@ -201,7 +291,8 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
             aria-keyshortcuts={apnoeaKey}
             onClick={() => toggleRef.current()}
           >
-            {level === 'stopped' ? 'Start apnoea stopwatch' : `Apnoea ${seconds} s: stop and log`} <kbd>{apnoeaKey}</kbd>
+            {level === 'stopped' ? 'Start apnoea stopwatch' : `Apnoea ${seconds} s: stop and log`}{' '}
+            <kbd>{apnoeaKey}</kbd>
           </button>
           {level === 'danger' && (
             <span className="record-apnoea-warning" role="alert">
@@ -216,8 +307,17 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
 
       <div className="record-body">
         <div className="record-chart-panel">
-          <RecordChart startedAt={values.startedAt} entries={entries} units={units} untilMinutes={Math.ceil(((endedAtMs ?? nowMs) - startedAtMs) / 60_000) + 1} />
-          {values.planId === null ? <p className="record-plan-line">No plan linked.</p> : <PlanComparison planId={values.planId} startedAt={values.startedAt} entries={entries} />}
+          <RecordChart
+            startedAt={values.startedAt}
+            entries={entries}
+            units={units}
+            untilMinutes={Math.ceil(((endedAtMs ?? nowMs) - startedAtMs) / 60_000) + 1}
+          />
+          {values.planId === null ? (
+            <p className="record-plan-line">No plan linked.</p>
+          ) : (
+            <PlanComparison planId={values.planId} startedAt={values.startedAt} entries={entries} />
+          )}
           <PromptInterval values={values} onSave={correctRecord} />
         </div>
         <EntryTable
@@ -226,7 +326,11 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
           units={units}
           onCorrect={(id, next, reason) =>
             write(async (enteredBy) => {
-              const answer = await api.invoke('entries:correct', { id, values: next, meta: { enteredBy, reason } });
+              const answer = await api.invoke('entries:correct', {
+                id,
+                values: next,
+                meta: { enteredBy, reason },
+              });
               return answer.ok ? null : answer.error.message;
             })
           }
@@ -242,7 +346,15 @@ function LiveRecordScreen({ detail, reload }: { readonly detail: ProcedureDetail
   );
 }
 
-function EntryRow({ units, lastEntry, onSave }: { readonly units: DisplayUnits; readonly lastEntry: ProcedureEntryValues | null; readonly onSave: (values: ProcedureEntryValues) => Promise<string | null> }) {
+function EntryRow({
+  units,
+  lastEntry,
+  onSave,
+}: {
+  readonly units: DisplayUnits;
+  readonly lastEntry: ProcedureEntryValues | null;
+  readonly onSave: (values: ProcedureEntryValues) => Promise<string | null>;
+}) {
   const [timeText, setTimeText] = useState('');
   const [readings, setReadings] = useState<ReadingDraft>(emptyReadings);
   const [errors, setErrors] = useState<FieldErrors>({});
@@ -271,7 +383,12 @@ function EntryRow({ units, lastEntry, onSave }: { readonly units: DisplayUnits; 
   }
 
   return (
-    <form className="record-entry" onSubmit={(event) => void submit(event)} noValidate aria-label="New row of readings">
+    <form
+      className="record-entry"
+      onSubmit={(event) => void submit(event)}
+      noValidate
+      aria-label="New row of readings"
+    >
       <div className="record-entry-fields">
         <div className="field record-cell">
           <label htmlFor={`${baseId}-time`}>Time</label>
@@ -338,14 +455,34 @@ function EntryRow({ units, lastEntry, onSave }: { readonly units: DisplayUnits; 
           ))}
         </ul>
       )}
-      <p className="hint">Blank boxes are not measured. Time blank means now; type HH:MM for an earlier reading. Placeholders show the last row.</p>
+      <p className="hint">
+        Blank boxes are not measured. Time blank means now; type HH:MM for an earlier reading. Placeholders
+        show the last row.
+      </p>
     </form>
   );
 }
 
-const buttonEvents: readonly EventType[] = ['induction', 'intubation', 'ippvOn', 'ippvOff', 'vaporiserOff', 'extubation', 'regurgitation', 'firstMovement', 'standing'];
+const buttonEvents: readonly EventType[] = [
+  'induction',
+  'intubation',
+  'ippvOn',
+  'ippvOff',
+  'vaporiserOff',
+  'extubation',
+  'regurgitation',
+  'firstMovement',
+  'standing',
+];
 
-function EventButtons({ onLog }: { readonly onLog: (eventType: EventType, extra?: { eventNote?: string; drugName?: string; drugDose?: string }) => Promise<string | null> }) {
+function EventButtons({
+  onLog,
+}: {
+  readonly onLog: (
+    eventType: EventType,
+    extra?: { eventNote?: string; drugName?: string; drugDose?: string },
+  ) => Promise<string | null>;
+}) {
   const [open, setOpen] = useState<'drugGiven' | 'note' | null>(null);
   const [note, setNote] = useState('');
   const [drugName, setDrugName] = useState('');
@@ -354,7 +491,10 @@ function EventButtons({ onLog }: { readonly onLog: (eventType: EventType, extra?
   const [logged, setLogged] = useState<string | null>(null);
   const baseId = useId();
 
-  async function log(eventType: EventType, extra?: { eventNote?: string; drugName?: string; drugDose?: string }) {
+  async function log(
+    eventType: EventType,
+    extra?: { eventNote?: string; drugName?: string; drugDose?: string },
+  ) {
     const message = await onLog(eventType, extra);
     setError(message);
     if (message === null) {
@@ -390,10 +530,18 @@ function EventButtons({ onLog }: { readonly onLog: (eventType: EventType, extra?
           {eventLabels[eventType]}
         </button>
       ))}
-      <button type="button" aria-expanded={open === 'drugGiven'} onClick={() => setOpen(open === 'drugGiven' ? null : 'drugGiven')}>
+      <button
+        type="button"
+        aria-expanded={open === 'drugGiven'}
+        onClick={() => setOpen(open === 'drugGiven' ? null : 'drugGiven')}
+      >
         Drug given…
       </button>
-      <button type="button" aria-expanded={open === 'note'} onClick={() => setOpen(open === 'note' ? null : 'note')}>
+      <button
+        type="button"
+        aria-expanded={open === 'note'}
+        onClick={() => setOpen(open === 'note' ? null : 'note')}
+      >
         Note…
       </button>
       {open !== null && (
@@ -401,17 +549,37 @@ function EventButtons({ onLog }: { readonly onLog: (eventType: EventType, extra?
           {open === 'drugGiven' && (
             <>
               <label htmlFor={`${baseId}-drug`}>Drug</label>
-              <input id={`${baseId}-drug`} value={drugName} size={14} autoFocus aria-invalid={error === 'Name the drug given.'} onChange={(event) => setDrugName(event.target.value)} />
+              <input
+                id={`${baseId}-drug`}
+                value={drugName}
+                size={14}
+                autoFocus
+                aria-invalid={error === 'Name the drug given.'}
+                onChange={(event) => setDrugName(event.target.value)}
+              />
               <label htmlFor={`${baseId}-dose`}>Dose and route as given</label>
-              <input id={`${baseId}-dose`} value={drugDose} size={16} onChange={(event) => setDrugDose(event.target.value)} />
+              <input
+                id={`${baseId}-dose`}
+                value={drugDose}
+                size={16}
+                onChange={(event) => setDrugDose(event.target.value)}
+              />
             </>
           )}
           <label htmlFor={`${baseId}-note`}>Note</label>
-          <input id={`${baseId}-note`} value={note} size={24} autoFocus={open === 'note'} onChange={(event) => setNote(event.target.value)} />
+          <input
+            id={`${baseId}-note`}
+            value={note}
+            size={24}
+            autoFocus={open === 'note'}
+            onChange={(event) => setNote(event.target.value)}
+          />
           <button type="submit" className="primary">
             Log {open === 'note' ? 'note' : 'drug'}
           </button>
-          {open === 'drugGiven' && <span className="hint">Entered by the clinic; Tidewing suggests no dose.</span>}
+          {open === 'drugGiven' && (
+            <span className="hint">Entered by the clinic; Tidewing suggests no dose.</span>
+          )}
         </form>
       )}
       {error !== null && (
@@ -433,11 +601,16 @@ function Milestones({ entries }: { readonly entries: readonly { readonly values:
   return (
     <dl className="record-milestones" aria-label="Recovery milestones">
       {milestones.map((milestone) => (
-        <div key={milestone.eventType} className={milestone.at === null ? 'record-milestone-pending' : 'record-milestone-done'}>
+        <div
+          key={milestone.eventType}
+          className={milestone.at === null ? 'record-milestone-pending' : 'record-milestone-done'}
+        >
           <dt>{milestone.label}</dt>
           <dd>
             {milestone.at === null ? '—' : clockText(milestone.at)}
-            {milestone.minutesAfterGasOff !== null && milestone.eventType !== 'vaporiserOff' && ` (+${milestone.minutesAfterGasOff} min)`}
+            {milestone.minutesAfterGasOff !== null &&
+              milestone.eventType !== 'vaporiserOff' &&
+              ` (+${milestone.minutesAfterGasOff} min)`}
           </dd>
         </div>
       ))}
@@ -454,17 +627,36 @@ type RecordChartProps = {
 };
 
 function RecordChart({ startedAt, entries, units, untilMinutes }: RecordChartProps) {
-  const data = useMemo(() => recordSeries(startedAt, entries, units, untilMinutes), [startedAt, entries, units, untilMinutes]);
+  const data = useMemo(
+    () => recordSeries(startedAt, entries, units, untilMinutes),
+    [startedAt, entries, units, untilMinutes],
+  );
   const series: ChartSeries[] = useMemo(() => {
     const list: ChartSeries[] = (Object.keys(chartStyle) as (keyof typeof chartStyle)[]).map((field) => {
       const style = chartStyle[field];
       const { label, unit } = readingLabel(field, units);
-      return { label: `${label} (${unit})`, values: data.readings[field], stroke: style.stroke, scale: style.scale, points: true, ...(style.dash === undefined ? {} : { dash: style.dash }) };
+      return {
+        label: `${label} (${unit})`,
+        values: data.readings[field],
+        stroke: style.stroke,
+        scale: style.scale,
+        points: true,
+        ...(style.dash === undefined ? {} : { dash: style.dash }),
+      };
     });
-    list.push({ label: 'Event markers (listed below)', values: data.events, stroke: '#555d66', scale: 'events', points: false, width: 1.5, dash: [3, 4] });
+    list.push({
+      label: 'Event markers (listed below)',
+      values: data.events,
+      stroke: '#555d66',
+      scale: 'events',
+      points: false,
+      width: 1.5,
+      dash: [3, 4],
+    });
     return list;
   }, [data, units]);
-  if (data.minutes.length === 0) return <p className="hint record-chart-empty">The chart appears once rows are logged.</p>;
+  if (data.minutes.length === 0)
+    return <p className="hint record-chart-empty">The chart appears once rows are logged.</p>;
   const temperatureUnit = readingLabel('temperatureC', units).unit;
   const summary = `Logged vitals and events over ${untilMinutes} minutes since the start: ${entries.length - data.eventList.length} rows of vitals, ${data.eventList.length} events.`;
   return (
@@ -496,7 +688,13 @@ function RecordChart({ startedAt, entries, units, untilMinutes }: RecordChartPro
   );
 }
 
-function PromptInterval({ values, onSave }: { readonly values: ProcedureRecordValues; readonly onSave: (next: ProcedureRecordValues, reason: string) => Promise<string | null> }) {
+function PromptInterval({
+  values,
+  onSave,
+}: {
+  readonly values: ProcedureRecordValues;
+  readonly onSave: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+}) {
   const [text, setText] = useState(String(values.promptIntervalMin));
   const [error, setError] = useState<string | null>(null);
   const id = useId();
@@ -508,13 +706,23 @@ function PromptInterval({ values, onSave }: { readonly values: ProcedureRecordVa
       return;
     }
     if (parsed === values.promptIntervalMin) return;
-    const message = await onSave({ ...values, promptIntervalMin: parsed }, `Prompt interval changed from ${values.promptIntervalMin} to ${parsed} min`);
+    const message = await onSave(
+      { ...values, promptIntervalMin: parsed },
+      `Prompt interval changed from ${values.promptIntervalMin} to ${parsed} min`,
+    );
     setError(message);
   }
   return (
     <form className="record-interval" onSubmit={(event) => void submit(event)} noValidate>
       <label htmlFor={id}>Remind me to log vitals every</label>
-      <input id={id} value={text} size={3} inputMode="decimal" aria-invalid={error !== null} onChange={(event) => setText(event.target.value)} />
+      <input
+        id={id}
+        value={text}
+        size={3}
+        inputMode="decimal"
+        aria-invalid={error !== null}
+        onChange={(event) => setText(event.target.value)}
+      />
       <span>min</span>
       <button type="submit">Set</button>
       {error !== null && (

@@ -31,7 +31,13 @@ export type PromptState = {
  * @param intervalMin the reminder interval in minutes, 1 to 30
  * @param endedAtMs end of the procedure, or null while it runs: no reminder after the end
  */
-export function promptState(startedAtMs: number, vitalsAtMs: readonly number[], nowMs: number, intervalMin: number, endedAtMs: number | null = null): PromptState {
+export function promptState(
+  startedAtMs: number,
+  vitalsAtMs: readonly number[],
+  nowMs: number,
+  intervalMin: number,
+  endedAtMs: number | null = null,
+): PromptState {
   const lastMs = vitalsAtMs.reduce((latest, at) => Math.max(latest, at), startedAtMs);
   const dueAtMs = lastMs + intervalMin * 60_000;
   const sinceLastMin = Math.max(0, (nowMs - lastMs) / 60_000);
@@ -43,9 +49,18 @@ export type Stopwatch = { readonly startedAtMs: number | null };
 export const stoppedStopwatch: Stopwatch = { startedAtMs: null };
 
 /** Starts the stopwatch, or stops it and reports the apnoea to log. */
-export function toggleStopwatch(stopwatch: Stopwatch, nowMs: number): { readonly next: Stopwatch; readonly finished: { readonly startedAtMs: number; readonly durationS: number } | null } {
+export function toggleStopwatch(
+  stopwatch: Stopwatch,
+  nowMs: number,
+): {
+  readonly next: Stopwatch;
+  readonly finished: { readonly startedAtMs: number; readonly durationS: number } | null;
+} {
   if (stopwatch.startedAtMs === null) return { next: { startedAtMs: nowMs }, finished: null };
-  return { next: stoppedStopwatch, finished: { startedAtMs: stopwatch.startedAtMs, durationS: stopwatchSeconds(stopwatch, nowMs) } };
+  return {
+    next: stoppedStopwatch,
+    finished: { startedAtMs: stopwatch.startedAtMs, durationS: stopwatchSeconds(stopwatch, nowMs) },
+  };
 }
 
 /** Whole seconds shown on a running stopwatch, 0 when stopped. */
@@ -73,7 +88,12 @@ export const milestoneEvents = [
   { eventType: 'standing', label: 'Standing / perching' },
 ] as const satisfies readonly { eventType: EventType; label: string }[];
 
-export type Milestone = { readonly eventType: EventType; readonly label: string; readonly at: string | null; readonly minutesAfterGasOff: number | null };
+export type Milestone = {
+  readonly eventType: EventType;
+  readonly label: string;
+  readonly at: string | null;
+  readonly minutesAfterGasOff: number | null;
+};
 
 /**
  * Recovery milestones: the first time each was logged (once the gas is off, when gas off is
@@ -86,10 +106,14 @@ export function recoveryMilestones(entries: readonly TimedValues[]): Milestone[]
   return milestoneEvents.map(({ eventType, label }) => {
     // Recovery begins when the gas goes off: an extubation before that was a tube change.
     const first =
-      sorted.find((entry) => entry.values.eventType === eventType && (eventType === 'vaporiserOff' || gasOffMs === null || Date.parse(entry.values.at) >= gasOffMs)) ??
-      null;
+      sorted.find(
+        (entry) =>
+          entry.values.eventType === eventType &&
+          (eventType === 'vaporiserOff' || gasOffMs === null || Date.parse(entry.values.at) >= gasOffMs),
+      ) ?? null;
     const at = first?.values.at ?? null;
-    const minutesAfterGasOff = at === null || gasOffMs === null ? null : Math.round((Date.parse(at) - gasOffMs) / 6000) / 10;
+    const minutesAfterGasOff =
+      at === null || gasOffMs === null ? null : Math.round((Date.parse(at) - gasOffMs) / 6000) / 10;
     return { eventType, label, at, minutesAfterGasOff };
   });
 }
@@ -115,8 +139,13 @@ export function minutesFromStart(startedAt: string, at: string): number {
 }
 
 /** One line for an event row: its label, the drug and dose as the clinic entered them, the note. */
-export function eventSummary(values: Pick<ProcedureEntryValues, 'eventType' | 'eventNote' | 'drugName' | 'drugDose'>): string {
+export function eventSummary(
+  values: Pick<ProcedureEntryValues, 'eventType' | 'eventNote' | 'drugName' | 'drugDose'>,
+): string {
   if (values.eventType === null) return values.eventNote;
-  const drug = values.eventType === 'drugGiven' ? [values.drugName, values.drugDose].filter((part) => part !== '').join(', ') : '';
+  const drug =
+    values.eventType === 'drugGiven'
+      ? [values.drugName, values.drugDose].filter((part) => part !== '').join(', ')
+      : '';
   return [eventLabels[values.eventType], drug, values.eventNote].filter((part) => part !== '').join(': ');
 }

@@ -25,8 +25,14 @@ function PatientPicker() {
         <label htmlFor={id}>Find a patient (name, ring, microchip or owner)</label>
         <input id={id} value={query} autoFocus onChange={(event) => setQuery(event.target.value)} />
       </div>
-      {results.state === 'failed' && <p className="form-error" role="alert">{results.error.message}</p>}
-      {results.state === 'ready' && results.value.patients.length === 0 && <p>No patient matches. Add the bird under Patients first.</p>}
+      {results.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {results.error.message}
+        </p>
+      )}
+      {results.state === 'ready' && results.value.patients.length === 0 && (
+        <p>No patient matches. Add the bird under Patients first.</p>
+      )}
       {results.state === 'ready' && results.value.patients.length > 0 && (
         <ul className="record-patient-list">
           {results.value.patients.map((patient) => (
@@ -53,7 +59,9 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
   const { initials } = useOperator();
   const settings = useClinicSettings();
   const [patient] = useChannel('patients:get', { id: patientId });
-  const [draft, setDraft] = useState<RecordDraft>(() => emptyRecordDraft(toLocalInputValue(new Date()), initials));
+  const [draft, setDraft] = useState<RecordDraft>(() =>
+    emptyRecordDraft(toLocalInputValue(new Date()), initials),
+  );
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
@@ -77,14 +85,23 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
     }
     withInitials((enteredBy) => {
       setBusy(true);
-      void api.invoke('procedures:create', { patientId, values: checked.values, meta: { enteredBy, reason: '' } }).then((answer) => {
-        setBusy(false);
-        if (answer.ok) window.location.hash = href('records', answer.value.id);
-        else {
-          setErrors(Object.fromEntries(Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [field.replace(/^values\./, ''), message])));
-          setFailure(`Not saved: ${answer.error.message}`);
-        }
-      });
+      void api
+        .invoke('procedures:create', { patientId, values: checked.values, meta: { enteredBy, reason: '' } })
+        .then((answer) => {
+          setBusy(false);
+          if (answer.ok) window.location.hash = href('records', answer.value.id);
+          else {
+            setErrors(
+              Object.fromEntries(
+                Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [
+                  field.replace(/^values\./, ''),
+                  message,
+                ]),
+              ),
+            );
+            setFailure(`Not saved: ${answer.error.message}`);
+          }
+        });
     });
   }
 
@@ -93,7 +110,9 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
     return (
       <section className="screen">
         <h1>New procedure record</h1>
-        <p className="form-error" role="alert">{patient.error.message}</p>
+        <p className="form-error" role="alert">
+          {patient.error.message}
+        </p>
       </section>
     );
   }
@@ -122,7 +141,9 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
                     airway: current.airway === '' ? (plan.route as RecordDraft['airway']) : current.airway,
                     procedureName: current.procedureName === '' ? plan.label : current.procedureName,
                     // The ASA grade given in the plan's checklist, unless one is chosen here.
-                    ...(current.asaGrade === 0 && plan.asaGrade !== null ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency } : {}),
+                    ...(current.asaGrade === 0 && plan.asaGrade !== null
+                      ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency }
+                      : {}),
                   }),
             }))
           }
@@ -145,10 +166,19 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
 }
 
 /** Choose the saved plan this procedure follows; its predicted curve is then drawn beside the log. */
-function LinkedPlan({ patientId, planId, onChoose }: { readonly patientId: number; readonly planId: number | null; readonly onChoose: (plan: PlanSummary | null) => void }) {
+function LinkedPlan({
+  patientId,
+  planId,
+  onChoose,
+}: {
+  readonly patientId: number;
+  readonly planId: number | null;
+  readonly onChoose: (plan: PlanSummary | null) => void;
+}) {
   const [plans] = useChannel('plans:for-patient', { patientId });
   const id = useId();
-  if (plans.state !== 'ready' || plans.value.length === 0) return <p className="hint">No saved plan for this bird; the record can still be kept.</p>;
+  if (plans.state !== 'ready' || plans.value.length === 0)
+    return <p className="hint">No saved plan for this bird; the record can still be kept.</p>;
   return (
     <div className="field">
       <label htmlFor={id}>Linked plan</label>
@@ -156,7 +186,9 @@ function LinkedPlan({ patientId, planId, onChoose }: { readonly patientId: numbe
         id={id}
         name="planId"
         value={planId === null ? '' : String(planId)}
-        onChange={(event) => onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)}
+        onChange={(event) =>
+          onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)
+        }
       >
         <option value="">no plan</option>
         {plans.value.map((plan) => (

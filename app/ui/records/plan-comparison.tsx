@@ -6,14 +6,31 @@ import { href } from '../shell/areas.js';
 import { planBesideLog } from './plan-beside-log.js';
 
 /** The linked plan's predicted curve and dial schedule beside the dial settings logged. */
-export function PlanComparison({ planId, startedAt, entries }: { readonly planId: number; readonly startedAt: string; readonly entries: readonly { readonly values: ProcedureEntryValues }[] }) {
+export function PlanComparison({
+  planId,
+  startedAt,
+  entries,
+}: {
+  readonly planId: number;
+  readonly startedAt: string;
+  readonly entries: readonly { readonly values: ProcedureEntryValues }[];
+}) {
   const [load] = useChannel('plans:get', { id: planId });
   const series = useMemo(() => {
     if (load.state !== 'ready') return null;
     const plan = load.value.plan;
-    return planBesideLog({ input: plan.input, timeline: plan.result.timeline, macPct: plan.result.mac.valuePct }, startedAt, entries);
+    return planBesideLog(
+      { input: plan.input, timeline: plan.result.timeline, macPct: plan.result.mac.valuePct },
+      startedAt,
+      entries,
+    );
   }, [load, startedAt, entries]);
-  if (load.state === 'failed') return <p className="form-error">Plan {planId}: {load.error.message}</p>;
+  if (load.state === 'failed')
+    return (
+      <p className="form-error">
+        Plan {planId}: {load.error.message}
+      </p>
+    );
   if (series === null || load.state !== 'ready') return <p aria-busy="true">Loading plan {planId}…</p>;
   const result = load.value.plan.result;
   return (
@@ -25,9 +42,29 @@ export function PlanComparison({ planId, startedAt, entries }: { readonly planId
         x={series.minutes}
         xLabel="Minutes from start"
         series={[
-          { label: 'Planned dial (%)', values: series.plannedDialPct, stroke: '#6b7480', dash: [8, 4], width: 1.5, scale: 'dial' },
-          { label: 'Logged dial (%)', values: series.loggedDialPct, stroke: '#b7791f', width: 2, points: true, scale: 'dial' },
-          { label: 'Predicted brain (× MAC)', values: series.predictedBrainMac, stroke: '#1f4e79', width: 2.5, scale: 'mac' },
+          {
+            label: 'Planned dial (%)',
+            values: series.plannedDialPct,
+            stroke: '#6b7480',
+            dash: [8, 4],
+            width: 1.5,
+            scale: 'dial',
+          },
+          {
+            label: 'Logged dial (%)',
+            values: series.loggedDialPct,
+            stroke: '#b7791f',
+            width: 2,
+            points: true,
+            scale: 'dial',
+          },
+          {
+            label: 'Predicted brain (× MAC)',
+            values: series.predictedBrainMac,
+            stroke: '#1f4e79',
+            width: 2.5,
+            scale: 'mac',
+          },
         ]}
         axes={[
           { scale: 'dial', label: 'Vaporiser dial (%)' },
@@ -37,7 +74,8 @@ export function PlanComparison({ planId, startedAt, entries }: { readonly planId
         summary={`Plan ${planId}: planned and logged vaporiser settings, and the predicted brain level as a multiple of MAC (${result.mac.valuePct} %).`}
       />
       <p className="basis">
-        Predicted for the plan's schedule, not for what was given: if the logged dial differs from the plan, the bird's level differs too. MAC {result.mac.valuePct} % ({result.mac.basis}).
+        Predicted for the plan's schedule, not for what was given: if the logged dial differs from the plan,
+        the bird's level differs too. MAC {result.mac.valuePct} % ({result.mac.basis}).
       </p>
     </section>
   );

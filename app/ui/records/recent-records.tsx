@@ -9,12 +9,16 @@ export function RecentRecords() {
     <section className="screen" aria-labelledby="records-title">
       <h1 id="records-title">Procedure records</h1>
       <p className="lead">
-        Start a record from a patient’s page, or <a href={href('records', 'new')}>choose a patient for a new procedure record</a>.
+        Start a record from a patient’s page, or{' '}
+        <a href={href('records', 'new')}>choose a patient for a new procedure record</a>.
       </p>
       {recent.state === 'loading' && <p aria-busy="true">Loading records…</p>}
       {recent.state === 'failed' && (
         <p className="form-error" role="alert">
-          Records could not be loaded: {recent.error.message} <button type="button" onClick={reload}>Try again</button>
+          Records could not be loaded: {recent.error.message}{' '}
+          <button type="button" onClick={reload}>
+            Try again
+          </button>
         </p>
       )}
       {recent.state === 'ready' && recent.value.length === 0 && <p>No procedure records yet.</p>}
@@ -40,7 +44,11 @@ export function RecentRecords() {
                 <td>{record.values.procedureName}</td>
                 <td>{new Date(record.values.startedAt).toLocaleString()}</td>
                 <td>{asaText(record.values)}</td>
-                <td>{record.values.endedAt === null ? 'open' : `ended ${new Date(record.values.endedAt).toLocaleTimeString()}`}</td>
+                <td>
+                  {record.values.endedAt === null
+                    ? 'open'
+                    : `ended ${new Date(record.values.endedAt).toLocaleTimeString()}`}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -33,7 +33,8 @@ export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props
     event.preventDefault();
     const checked = checkRecordDraft(draft);
     const found: Record<string, string> = checked.ok ? {} : { ...checked.errors };
-    if (reason.trim() === '') found['reason'] = 'Say why the record is corrected; the reason is kept with the history.';
+    if (reason.trim() === '')
+      found['reason'] = 'Say why the record is corrected; the reason is kept with the history.';
     if (!checked.ok || Object.keys(found).length > 0) {
       setErrors(found);
       return;
@@ -52,8 +53,18 @@ export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props
       <h2 id="record-details-title">Correct the record’s details</h2>
       <form className="form record-new-form" noValidate onSubmit={(event) => void submit(event)}>
         <RecordDetailsFields draft={draft} errors={errors} update={update} />
-        <TextBox label="Reason for the correction" name="reason" value={reason} error={errors['reason']} onChange={setReason} />
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        <TextBox
+          label="Reason for the correction"
+          name="reason"
+          value={reason}
+          error={errors['reason']}
+          onChange={setReason}
+        />
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
         <div className="form-actions">
           <button type="submit" className="primary">
             Save correction
@@ -69,7 +80,9 @@ export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props
           {history.value.map((version) => (
             <li key={version.stamp.versionId}>
               {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
-              {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · {version.values.procedureName}, ASA {asaText(version.values)}, {airwayText(version.values)}, staff {version.values.staffInitials}
+              {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} ·{' '}
+              {version.values.procedureName}, ASA {asaText(version.values)}, {airwayText(version.values)},
+              staff {version.values.staffInitials}
             </li>
           ))}
         </ol>

@@ -2,7 +2,13 @@ import { useId } from 'react';
 import { airways, circuits, cropStates, tubeTypes } from '../../contract/records.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { RadioGroup, TextBox } from './fields.js';
-import { airwayHasTube, airwayLabels, circuitLabels, tubeTypeLabels, type RecordDraft } from './record-form.js';
+import {
+  airwayHasTube,
+  airwayLabels,
+  circuitLabels,
+  tubeTypeLabels,
+  type RecordDraft,
+} from './record-form.js';
 
 type Props = {
   readonly draft: RecordDraft;
@@ -15,36 +21,113 @@ export function RecordDetailsFields({ draft, errors, update }: Props) {
   const emergencyId = useId();
   return (
     <>
-      <TextBox label="Procedure" name="procedureName" value={draft.procedureName} error={errors['procedureName']} autoFocus onChange={(value) => update('procedureName', value)} />
-      <TextBox label="Start" name="startedAt" type="datetime-local" value={draft.startedAtLocal} error={errors['startedAt']} hint="Now unless you change it." onChange={(value) => update('startedAtLocal', value)} />
+      <TextBox
+        label="Procedure"
+        name="procedureName"
+        value={draft.procedureName}
+        error={errors['procedureName']}
+        autoFocus
+        onChange={(value) => update('procedureName', value)}
+      />
+      <TextBox
+        label="Start"
+        name="startedAt"
+        type="datetime-local"
+        value={draft.startedAtLocal}
+        error={errors['startedAt']}
+        hint="Now unless you change it."
+        onChange={(value) => update('startedAtLocal', value)}
+      />
       <div className="record-form-pair">
         <RadioGroup
           legend="ASA grade"
           name="asaGrade"
-          options={[{ value: 0, label: 'not graded' }, ...[1, 2, 3, 4, 5].map((grade) => ({ value: grade as RecordDraft['asaGrade'], label: String(grade) }))]}
+          options={[
+            { value: 0, label: 'not graded' },
+            ...[1, 2, 3, 4, 5].map((grade) => ({
+              value: grade as RecordDraft['asaGrade'],
+              label: String(grade),
+            })),
+          ]}
           value={draft.asaGrade}
           error={errors['asaGrade']}
           onChange={(value) => update('asaGrade', value)}
         />
         <div className="field checkbox">
-          <input id={emergencyId} type="checkbox" checked={draft.emergency} onChange={(event) => update('emergency', event.target.checked)} />
+          <input
+            id={emergencyId}
+            type="checkbox"
+            checked={draft.emergency}
+            onChange={(event) => update('emergency', event.target.checked)}
+          />
           <label htmlFor={emergencyId}>E: emergency</label>
         </div>
       </div>
-      <TextBox label="Fasting" name="fasting" value={draft.fasting} error={errors['fasting']} hint="e.g. 2 h, food removed 08:00" onChange={(value) => update('fasting', value)} />
-      <RadioGroup legend="Crop check" name="cropChecked" options={cropStates.map((value) => ({ value, label: value }))} value={draft.cropChecked} error={errors['cropChecked']} onChange={(value) => update('cropChecked', value)} />
-      <RadioGroup legend="Airway" name="airway" options={airways.map((value) => ({ value, label: airwayLabels[value] }))} value={draft.airway} error={errors['airway']} onChange={(value) => update('airway', value)} />
+      <TextBox
+        label="Fasting"
+        name="fasting"
+        value={draft.fasting}
+        error={errors['fasting']}
+        hint="e.g. 2 h, food removed 08:00"
+        onChange={(value) => update('fasting', value)}
+      />
+      <RadioGroup
+        legend="Crop check"
+        name="cropChecked"
+        options={cropStates.map((value) => ({ value, label: value }))}
+        value={draft.cropChecked}
+        error={errors['cropChecked']}
+        onChange={(value) => update('cropChecked', value)}
+      />
+      <RadioGroup
+        legend="Airway"
+        name="airway"
+        options={airways.map((value) => ({ value, label: airwayLabels[value] }))}
+        value={draft.airway}
+        error={errors['airway']}
+        onChange={(value) => update('airway', value)}
+      />
       {airwayHasTube(draft.airway) && (
         <div className="record-form-pair">
-          <TextBox label="Tube size (mm)" name="tubeSizeMm" inputMode="decimal" size={6} value={draft.tubeSizeMm} error={errors['tubeSizeMm']} onChange={(value) => update('tubeSizeMm', value)} />
+          <TextBox
+            label="Tube size (mm)"
+            name="tubeSizeMm"
+            inputMode="decimal"
+            size={6}
+            value={draft.tubeSizeMm}
+            error={errors['tubeSizeMm']}
+            onChange={(value) => update('tubeSizeMm', value)}
+          />
           {draft.airway === 'endotracheal' && (
-            <RadioGroup legend="Tube" name="tubeType" options={tubeTypes.map((value) => ({ value, label: tubeTypeLabels[value] }))} value={draft.tubeType} error={errors['tubeType']} onChange={(value) => update('tubeType', value)} />
+            <RadioGroup
+              legend="Tube"
+              name="tubeType"
+              options={tubeTypes.map((value) => ({ value, label: tubeTypeLabels[value] }))}
+              value={draft.tubeType}
+              error={errors['tubeType']}
+              onChange={(value) => update('tubeType', value)}
+            />
           )}
         </div>
       )}
-      <RadioGroup legend="Circuit" name="circuit" options={circuits.map((value) => ({ value, label: circuitLabels[value] }))} value={draft.circuit} error={errors['circuit']} onChange={(value) => update('circuit', value)} />
+      <RadioGroup
+        legend="Circuit"
+        name="circuit"
+        options={circuits.map((value) => ({ value, label: circuitLabels[value] }))}
+        value={draft.circuit}
+        error={errors['circuit']}
+        onChange={(value) => update('circuit', value)}
+      />
       <div className="record-form-pair">
-        <TextBox label="Staff initials" name="staffInitials" size={10} value={draft.staffInitials} error={errors['staffInitials']} hint="Who is monitoring." onChange={(value) => update('staffInitials', value)} />
+        <TextBox
+          label="Staff initials"
+          name="staffInitials"
+          size={10}
+          value={draft.staffInitials}
+          error={errors['staffInitials']}
+          hint="Who is monitoring."
+          onChange={(value) => update('staffInitials', value)}
+        />
         <TextBox
           label="Prompt interval (min)"
           name="promptIntervalMin"

@@ -1,4 +1,11 @@
-import { airways, circuits, cropStates, procedureRecordValuesSchema, tubeTypes, type ProcedureRecordValues } from '../../contract/records.js';
+import {
+  airways,
+  circuits,
+  cropStates,
+  procedureRecordValuesSchema,
+  tubeTypes,
+  type ProcedureRecordValues,
+} from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
 import { fieldErrorsFrom, type FieldErrors } from '../common/field-errors.js';
 import { fromLocalInputValue, toLocalInputValue } from './clock-time.js';
@@ -57,14 +64,19 @@ export function airwayHasTube(airway: RecordDraft['airway']): boolean {
  * Checks the typed form with the contract's schema and returns the values to send, or a message
  * per field. Tube size and type are kept only for an airway that has a tube.
  */
-export function checkRecordDraft(draft: RecordDraft): { readonly ok: true; readonly values: ProcedureRecordValues } | { readonly ok: false; readonly errors: FieldErrors } {
+export function checkRecordDraft(
+  draft: RecordDraft,
+):
+  | { readonly ok: true; readonly values: ProcedureRecordValues }
+  | { readonly ok: false; readonly errors: FieldErrors } {
   const errors: Record<string, string> = {};
   const startedAt = fromLocalInputValue(draft.startedAtLocal);
   if (startedAt === null) errors['startedAt'] = 'Enter the start date and time.';
   const size = airwayHasTube(draft.airway) ? parseNumber(draft.tubeSizeMm) : null;
   if (size === 'invalid') errors['tubeSizeMm'] = 'Tube size must be a number in mm.';
   const interval = parseNumber(draft.promptIntervalMin);
-  if (interval === 'invalid' || interval === null) errors['promptIntervalMin'] = 'Prompt interval must be a number of minutes, 1 to 30.';
+  if (interval === 'invalid' || interval === null)
+    errors['promptIntervalMin'] = 'Prompt interval must be a number of minutes, 1 to 30.';
   const candidate = {
     planId: draft.planId,
     startedAt: startedAt ?? '',
@@ -83,7 +95,8 @@ export function checkRecordDraft(draft: RecordDraft): { readonly ok: true; reado
   };
   const parsed = procedureRecordValuesSchema.safeParse(candidate);
   if (!parsed.success) {
-    for (const [field, message] of Object.entries(fieldErrorsFrom(describeIssues(parsed.error.issues)))) errors[field] ??= message;
+    for (const [field, message] of Object.entries(fieldErrorsFrom(describeIssues(parsed.error.issues))))
+      errors[field] ??= message;
   }
   if (!parsed.success || Object.keys(errors).length > 0) return { ok: false, errors };
   return { ok: true, values: parsed.data };
@@ -109,7 +122,9 @@ export const tubeTypeLabels: Readonly<Record<(typeof tubeTypes)[number], string>
 };
 
 /** One line describing the airway, e.g. "Endotracheal tube 2.5 mm, uncuffed". */
-export function airwayText(values: Pick<ProcedureRecordValues, 'airway' | 'tubeSizeMm' | 'tubeType'>): string {
+export function airwayText(
+  values: Pick<ProcedureRecordValues, 'airway' | 'tubeSizeMm' | 'tubeType'>,
+): string {
   const size = values.tubeSizeMm === null ? '' : ` ${values.tubeSizeMm} mm`;
   const type = values.airway === 'endotracheal' && values.tubeType !== '' ? `, ${values.tubeType}` : '';
   return `${airwayLabels[values.airway]}${size}${type}`;

@@ -2,7 +2,13 @@ import type { EventType, ProcedureEntryValues } from '../../contract/records.js'
 import { toDisplayReading, type DisplayUnits, type ReadingField } from './entry-form.js';
 import { minutesFromStart } from './monitoring.js';
 
-export const chartedReadings = ['heartRatePerMin', 'breathsPerMin', 'temperatureC', 'etco2Mmhg', 'vaporPct'] as const satisfies readonly ReadingField[];
+export const chartedReadings = [
+  'heartRatePerMin',
+  'breathsPerMin',
+  'temperatureC',
+  'etco2Mmhg',
+  'vaporPct',
+] as const satisfies readonly ReadingField[];
 export type ChartedReading = (typeof chartedReadings)[number];
 
 export type RecordSeries = {
@@ -24,10 +30,21 @@ export type RecordSeries = {
  * @param untilMinutes where the time axis should reach (e.g. a minute past now), so that the
  *   latest row or event is not drawn on the chart's edge; ignored when not after the last row
  */
-export function recordSeries(startedAt: string, entries: readonly { readonly values: ProcedureEntryValues }[], units: DisplayUnits, untilMinutes: number | null = null): RecordSeries {
+export function recordSeries(
+  startedAt: string,
+  entries: readonly { readonly values: ProcedureEntryValues }[],
+  units: DisplayUnits,
+  untilMinutes: number | null = null,
+): RecordSeries {
   const sorted = [...entries].sort((a, b) => Date.parse(a.values.at) - Date.parse(b.values.at));
   const minutes: number[] = [];
-  const readings: Record<ChartedReading, (number | null)[]> = { heartRatePerMin: [], breathsPerMin: [], temperatureC: [], etco2Mmhg: [], vaporPct: [] };
+  const readings: Record<ChartedReading, (number | null)[]> = {
+    heartRatePerMin: [],
+    breathsPerMin: [],
+    temperatureC: [],
+    etco2Mmhg: [],
+    vaporPct: [],
+  };
   const events: (number | null)[] = [];
   const eventList: { minutes: number; eventType: EventType }[] = [];
   for (const { values } of sorted) {

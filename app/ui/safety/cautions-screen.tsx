@@ -67,7 +67,9 @@ export function CautionsScreen({ status, onAcknowledged }: Props) {
             onChange={(event) => setAcknowledgedBy(event.target.value)}
           />
           {errors['acknowledgedBy'] !== undefined && (
-            <p className="field-error" id={`${nameId}-error`} role="alert">{errors['acknowledgedBy']}</p>
+            <p className="field-error" id={`${nameId}-error`} role="alert">
+              {errors['acknowledgedBy']}
+            </p>
           )}
         </div>
         <div className="field checkbox">
@@ -83,9 +85,17 @@ export function CautionsScreen({ status, onAcknowledged }: Props) {
             I have read these cautions. I understand that Tidewing gives estimates for planning and that the
             responsible veterinarian decides.
           </label>
-          {errors['accepted'] !== undefined && <p className="field-error" role="alert">{errors['accepted']}</p>}
+          {errors['accepted'] !== undefined && (
+            <p className="field-error" role="alert">
+              {errors['accepted']}
+            </p>
+          )}
         </div>
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
         <button type="submit" className="primary" disabled={busy}>
           {busy ? 'Saving…' : 'Acknowledge and continue'}
         </button>

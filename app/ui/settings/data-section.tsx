@@ -30,14 +30,18 @@ export function DataSection() {
       <h2 id="data-title">Data and backups</h2>
       {info.state === 'ready' && (
         <p>
-          The clinic database is in <code>{info.value.dataDirectory}</code> (schema version {info.value.schemaVersion}).
+          The clinic database is in <code>{info.value.dataDirectory}</code> (schema version{' '}
+          {info.value.schemaVersion}).
         </p>
       )}
       {backups.state === 'ready' && (
         <p>
           Tidewing makes a backup in <code>{backups.value.folder}</code> at every start and keeps the last 10.{' '}
-          {backups.value.backups[0] === undefined ? 'No backup yet.' : `Latest: ${displayDateTime(backups.value.backups[0].takenAt)} (${backups.value.backups.length} kept).`} Copy them to another disk
-          regularly; <code>npx tidewing restore FILE</code> puts one back after checking it.
+          {backups.value.backups[0] === undefined
+            ? 'No backup yet.'
+            : `Latest: ${displayDateTime(backups.value.backups[0].takenAt)} (${backups.value.backups.length} kept).`}{' '}
+          Copy them to another disk regularly; <code>npx tidewing restore FILE</code> puts one back after
+          checking it.
         </p>
       )}
       <div className="form-actions">

@@ -1,5 +1,9 @@
 import { useState, type FormEvent } from 'react';
-import { emergencyDrugValuesSchema, type EmergencyDrug, type EmergencyDrugValues } from '../../contract/drug-channels.js';
+import {
+  emergencyDrugValuesSchema,
+  type EmergencyDrug,
+  type EmergencyDrugValues,
+} from '../../contract/drug-channels.js';
 import { describeIssues } from '../../contract/result.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -18,7 +22,15 @@ type Draft = {
   readonly notes: string;
 };
 
-const emptyDraft: Draft = { name: '', concentrationMgPerMl: '', doseLowMgPerKg: '', doseHighMgPerKg: '', route: '', doseSource: '', notes: '' };
+const emptyDraft: Draft = {
+  name: '',
+  concentrationMgPerMl: '',
+  doseLowMgPerKg: '',
+  doseHighMgPerKg: '',
+  route: '',
+  doseSource: '',
+  notes: '',
+};
 
 function draftOf(values: EmergencyDrugValues): Draft {
   return {
@@ -45,11 +57,16 @@ function valuesOf(draft: Draft): unknown {
 }
 
 function doseText(values: EmergencyDrugValues): string {
-  return values.doseHighMgPerKg === null ? `${values.doseLowMgPerKg} mg/kg` : `${values.doseLowMgPerKg}-${values.doseHighMgPerKg} mg/kg`;
+  return values.doseHighMgPerKg === null
+    ? `${values.doseLowMgPerKg} mg/kg`
+    : `${values.doseLowMgPerKg}-${values.doseHighMgPerKg} mg/kg`;
 }
 
 /** What the form edits: a new drug, or a correction or removal of an existing one. */
-type Editing = { readonly kind: 'add' } | { readonly kind: 'correct'; readonly drug: EmergencyDrug } | { readonly kind: 'void'; readonly drug: EmergencyDrug };
+type Editing =
+  | { readonly kind: 'add' }
+  | { readonly kind: 'correct'; readonly drug: EmergencyDrug }
+  | { readonly kind: 'void'; readonly drug: EmergencyDrug };
 
 /**
  * The clinic's emergency drugs for the worksheet's emergency card. Tidewing ships none and
@@ -99,7 +116,11 @@ export function EmergencyDrugs() {
       const local = emergencyDrugValuesSchema.safeParse(valuesOf(draft));
       if (!local.success) {
         setBusy(false);
-        setErrors(fieldErrorsFrom(describeIssues(local.error.issues).map((issue) => ({ ...issue, field: `values.${issue.field}` }))));
+        setErrors(
+          fieldErrorsFrom(
+            describeIssues(local.error.issues).map((issue) => ({ ...issue, field: `values.${issue.field}` })),
+          ),
+        );
         setMessage({ kind: 'failed', text: 'Not saved: correct the fields marked below.' });
         return;
       }
@@ -110,7 +131,13 @@ export function EmergencyDrugs() {
     }
     setBusy(false);
     if (answer.ok) {
-      setMessage({ kind: 'saved', text: editing.kind === 'void' ? `Removed ${answer.value.values.name}.` : `Saved ${answer.value.values.name}.` });
+      setMessage({
+        kind: 'saved',
+        text:
+          editing.kind === 'void'
+            ? `Removed ${answer.value.values.name}.`
+            : `Saved ${answer.value.values.name}.`,
+      });
       setEditing(null);
       reload();
     } else {
@@ -119,17 +146,29 @@ export function EmergencyDrugs() {
     }
   }
 
-  const formTitle = editing === null ? '' : editing.kind === 'add' ? 'Add an emergency drug' : editing.kind === 'correct' ? `Correct ${editing.drug.values.name}` : `Remove ${editing.drug.values.name}`;
+  const formTitle =
+    editing === null
+      ? ''
+      : editing.kind === 'add'
+        ? 'Add an emergency drug'
+        : editing.kind === 'correct'
+          ? `Correct ${editing.drug.values.name}`
+          : `Remove ${editing.drug.values.name}`;
 
   return (
     <section className="emergency-drugs" aria-labelledby="emergency-drugs-title">
       <h2 id="emergency-drugs-title">Emergency drugs</h2>
       <p className="hint">
-        Your clinic’s own emergency drugs for the worksheet’s emergency card, which turns each dose into mg and mL for the bird’s weight. Tidewing ships no drugs
-        and suggests no doses: enter each dose with the source you rely on.
+        Your clinic’s own emergency drugs for the worksheet’s emergency card, which turns each dose into mg
+        and mL for the bird’s weight. Tidewing ships no drugs and suggests no doses: enter each dose with the
+        source you rely on.
       </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
-      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {load.error.message}
+        </p>
+      )}
       {load.state === 'ready' &&
         (load.value.length === 0 ? (
           <p>No emergency drugs entered yet; the emergency card will be blank until you add them.</p>
@@ -183,13 +222,39 @@ export function EmergencyDrugs() {
           <SaveStatus message={message} />
         </div>
       ) : (
-        <form onSubmit={(event) => void submit(event)} noValidate className="form drug-form" aria-label={formTitle}>
+        <form
+          onSubmit={(event) => void submit(event)}
+          noValidate
+          className="form drug-form"
+          aria-label={formTitle}
+        >
           <h3>{formTitle}</h3>
           {editing.kind !== 'void' && (
             <>
-              <TextField label="Drug name" name="drugName" value={draft.name} error={errors['values.name']} autoFocus onChange={(value) => update('name', value)} />
-              <NumberField label="Concentration" name="concentration" unit="mg/mL" value={draft.concentrationMgPerMl} error={errors['values.concentrationMgPerMl']} onChange={(value) => update('concentrationMgPerMl', value)} />
-              <NumberField label="Dose, low" name="doseLow" unit="mg/kg" value={draft.doseLowMgPerKg} error={errors['values.doseLowMgPerKg']} onChange={(value) => update('doseLowMgPerKg', value)} />
+              <TextField
+                label="Drug name"
+                name="drugName"
+                value={draft.name}
+                error={errors['values.name']}
+                autoFocus
+                onChange={(value) => update('name', value)}
+              />
+              <NumberField
+                label="Concentration"
+                name="concentration"
+                unit="mg/mL"
+                value={draft.concentrationMgPerMl}
+                error={errors['values.concentrationMgPerMl']}
+                onChange={(value) => update('concentrationMgPerMl', value)}
+              />
+              <NumberField
+                label="Dose, low"
+                name="doseLow"
+                unit="mg/kg"
+                value={draft.doseLowMgPerKg}
+                error={errors['values.doseLowMgPerKg']}
+                onChange={(value) => update('doseLowMgPerKg', value)}
+              />
               <NumberField
                 label="Dose, high"
                 name="doseHigh"
@@ -199,7 +264,14 @@ export function EmergencyDrugs() {
                 error={errors['values.doseHighMgPerKg']}
                 onChange={(value) => update('doseHighMgPerKg', value)}
               />
-              <TextField label="Route" name="route" value={draft.route} error={errors['values.route']} placeholder="e.g. IV, IM, IO" onChange={(value) => update('route', value)} />
+              <TextField
+                label="Route"
+                name="route"
+                value={draft.route}
+                error={errors['values.route']}
+                placeholder="e.g. IV, IM, IO"
+                onChange={(value) => update('route', value)}
+              />
               <TextField
                 label="Source of the dose"
                 name="doseSource"
@@ -208,15 +280,34 @@ export function EmergencyDrugs() {
                 hint="Required: the formulary, paper or clinic protocol you rely on. Printed on the emergency card."
                 onChange={(value) => update('doseSource', value)}
               />
-              <TextField label="Notes" name="notes" value={draft.notes} error={errors['values.notes']} onChange={(value) => update('notes', value)} />
+              <TextField
+                label="Notes"
+                name="notes"
+                value={draft.notes}
+                error={errors['values.notes']}
+                onChange={(value) => update('notes', value)}
+              />
             </>
           )}
           {editing.kind !== 'add' && (
-            <TextField label="Reason" name="reason" value={reason} error={errors['meta.reason']} autoFocus={editing.kind === 'void'} onChange={setReason} />
+            <TextField
+              label="Reason"
+              name="reason"
+              value={reason}
+              error={errors['meta.reason']}
+              autoFocus={editing.kind === 'void'}
+              onChange={setReason}
+            />
           )}
           <div className="form-actions">
             <button type="submit" className="primary" disabled={busy}>
-              {busy ? 'Saving…' : editing.kind === 'add' ? 'Save drug' : editing.kind === 'correct' ? 'Save correction' : 'Remove from the card'}
+              {busy
+                ? 'Saving…'
+                : editing.kind === 'add'
+                  ? 'Save drug'
+                  : editing.kind === 'correct'
+                    ? 'Save correction'
+                    : 'Remove from the card'}
             </button>
             <button type="button" onClick={() => setEditing(null)}>
               Cancel

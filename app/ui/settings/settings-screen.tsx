@@ -55,7 +55,10 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
     if (answer.ok) {
       setErrors({});
       if (answer.value.settings !== null) setDraft(answer.value.settings);
-      setMessage({ kind: 'saved', text: `Saved ${new Date(answer.value.updatedAt ?? Date.now()).toLocaleString()}.` });
+      setMessage({
+        kind: 'saved',
+        text: `Saved ${new Date(answer.value.updatedAt ?? Date.now()).toLocaleString()}.`,
+      });
       onSaved(answer.value);
     } else {
       setErrors(fieldErrorsFromContract(answer.error));
@@ -66,9 +69,20 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
   return (
     <section className="screen" aria-labelledby="settings-title">
       <h1 id="settings-title">{firstRun ? 'Set up your clinic' : 'Settings'}</h1>
-      {firstRun && <p className="lead">Enter the clinic’s name and the units your staff read. You can change them later.</p>}
+      {firstRun && (
+        <p className="lead">
+          Enter the clinic’s name and the units your staff read. You can change them later.
+        </p>
+      )}
       <form onSubmit={(event) => void submit(event)} noValidate className="form settings-form">
-        <TextField label="Clinic name" name="clinicName" value={draft.clinicName} error={errors['clinicName']} autoFocus onChange={(value) => update('clinicName', value)} />
+        <TextField
+          label="Clinic name"
+          name="clinicName"
+          value={draft.clinicName}
+          error={errors['clinicName']}
+          autoFocus
+          onChange={(value) => update('clinicName', value)}
+        />
         <TextField
           label="Address line"
           name="addressLine"
@@ -77,11 +91,50 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           hint="Optional; printed under the clinic name on worksheets."
           onChange={(value) => update('addressLine', value)}
         />
-        <Choice legend="Body mass" name="massUnit" options={massUnits} labels={{ g: 'grams (g)', kg: 'kilograms (kg)' }} value={draft.massUnit} error={errors['massUnit']} onChange={(value) => update('massUnit', value)} />
-        <Choice legend="Pressure (EtCO2, cylinder)" name="pressureUnit" options={pressureUnits} value={draft.pressureUnit} error={errors['pressureUnit']} onChange={(value) => update('pressureUnit', value)} />
-        <Choice legend="Temperature" name="temperatureUnit" options={temperatureUnits} labels={{ C: '°C', F: '°F' }} value={draft.temperatureUnit} error={errors['temperatureUnit']} onChange={(value) => update('temperatureUnit', value)} />
-        <Choice legend="Default agent" name="defaultAgent" options={agentIds} labels={agentLabels} value={draft.defaultAgent} error={errors['defaultAgent']} onChange={(value) => update('defaultAgent', value)} />
-        <Choice legend="Worksheet paper" name="paperSize" options={paperSizes} labels={{ A4: 'A4', Letter: 'US Letter' }} value={draft.paperSize} error={errors['paperSize']} onChange={(value) => update('paperSize', value)} />
+        <Choice
+          legend="Body mass"
+          name="massUnit"
+          options={massUnits}
+          labels={{ g: 'grams (g)', kg: 'kilograms (kg)' }}
+          value={draft.massUnit}
+          error={errors['massUnit']}
+          onChange={(value) => update('massUnit', value)}
+        />
+        <Choice
+          legend="Pressure (EtCO2, cylinder)"
+          name="pressureUnit"
+          options={pressureUnits}
+          value={draft.pressureUnit}
+          error={errors['pressureUnit']}
+          onChange={(value) => update('pressureUnit', value)}
+        />
+        <Choice
+          legend="Temperature"
+          name="temperatureUnit"
+          options={temperatureUnits}
+          labels={{ C: '°C', F: '°F' }}
+          value={draft.temperatureUnit}
+          error={errors['temperatureUnit']}
+          onChange={(value) => update('temperatureUnit', value)}
+        />
+        <Choice
+          legend="Default agent"
+          name="defaultAgent"
+          options={agentIds}
+          labels={agentLabels}
+          value={draft.defaultAgent}
+          error={errors['defaultAgent']}
+          onChange={(value) => update('defaultAgent', value)}
+        />
+        <Choice
+          legend="Worksheet paper"
+          name="paperSize"
+          options={paperSizes}
+          labels={{ A4: 'A4', Letter: 'US Letter' }}
+          value={draft.paperSize}
+          error={errors['paperSize']}
+          onChange={(value) => update('paperSize', value)}
+        />
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>
             {busy ? 'Saving…' : 'Save settings'}
@@ -91,8 +144,8 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
       </form>
       {safety.last !== null && (
         <p className="provenance">
-          Cautions acknowledged by {safety.last.acknowledgedBy} on {new Date(safety.last.acknowledgedAt).toLocaleString()} for version{' '}
-          {safety.last.appVersion}.
+          Cautions acknowledged by {safety.last.acknowledgedBy} on{' '}
+          {new Date(safety.last.acknowledgedAt).toLocaleString()} for version {safety.last.appVersion}.
         </p>
       )}
       {!firstRun && <EmergencyDrugs />}

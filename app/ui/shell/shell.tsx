@@ -33,7 +33,8 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
           <span className="brand-clinic">{clinicName}</span>
         </div>
         <p className="standing-caution" role="note">
-          Planning aid: every figure is an estimate with its basis shown. The responsible veterinarian decides.
+          Planning aid: every figure is an estimate with its basis shown. The responsible veterinarian
+          decides.
         </p>
         <OperatorField />
       </header>
@@ -41,7 +42,12 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
         <ul>
           {areas.map((area, index) => (
             <li key={area.id}>
-              <a href={`#/${area.id}`} title={area.purpose} aria-current={area.id === current ? 'page' : undefined} className={area.id === current ? 'current' : undefined}>
+              <a
+                href={`#/${area.id}`}
+                title={area.purpose}
+                aria-current={area.id === current ? 'page' : undefined}
+                className={area.id === current ? 'current' : undefined}
+              >
                 <span>{area.title}</span>
                 <kbd aria-label={`Alt ${index + 1}`}>Alt+{index + 1}</kbd>
               </a>

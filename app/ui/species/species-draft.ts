@@ -2,7 +2,13 @@ import type { SpeciesValues } from '../../contract/records.js';
 import type { AgentId } from '../../core/agents.js';
 
 /** What the species form holds: numbers as typed, so partial input is never lost. */
-export type MacDraft = { macPct: string; sdPct: string; measure: 'MAC' | 'ED50' | 'minimum anaesthetic dose'; basis: string; note: string };
+export type MacDraft = {
+  macPct: string;
+  sdPct: string;
+  measure: 'MAC' | 'ED50' | 'minimum anaesthetic dose';
+  basis: string;
+  note: string;
+};
 export type RangeDraft = { min: string; max: string; basis: string };
 
 export type SpeciesDraft = {
@@ -19,7 +25,8 @@ export type SpeciesDraft = {
   anatomyNotes: { code: string; text: string; basis: string }[];
 };
 
-const text = (value: number | null | undefined) => (value === null || value === undefined ? '' : String(value));
+const text = (value: number | null | undefined) =>
+  value === null || value === undefined ? '' : String(value);
 const emptyMac = (): MacDraft => ({ macPct: '', sdPct: '', measure: 'MAC', basis: '', note: '' });
 const emptyRange = (): RangeDraft => ({ min: '', max: '', basis: '' });
 
@@ -40,9 +47,18 @@ export const emptySpeciesDraft = (): SpeciesDraft => ({
 export function speciesToDraft(values: SpeciesValues): SpeciesDraft {
   const mac = (agent: AgentId): MacDraft => {
     const value = values.mac[agent];
-    return value === null ? emptyMac() : { macPct: text(value.macPct), sdPct: text(value.sdPct), measure: value.measure, basis: value.basis, note: value.note ?? '' };
+    return value === null
+      ? emptyMac()
+      : {
+          macPct: text(value.macPct),
+          sdPct: text(value.sdPct),
+          measure: value.measure,
+          basis: value.basis,
+          note: value.note ?? '',
+        };
   };
-  const range = (value: SpeciesValues['heartRate']): RangeDraft => (value === null ? emptyRange() : { min: text(value.min), max: text(value.max), basis: value.basis });
+  const range = (value: SpeciesValues['heartRate']): RangeDraft =>
+    value === null ? emptyRange() : { min: text(value.min), max: text(value.max), basis: value.basis };
   return {
     commonName: values.commonName,
     scientificName: values.scientificName,
@@ -74,9 +90,17 @@ export function draftToCandidate(draft: SpeciesDraft): unknown {
   const mac = (value: MacDraft) =>
     value.macPct.trim() === '' && value.basis.trim() === ''
       ? null
-      : { macPct: numberOrText(value.macPct), sdPct: value.sdPct.trim() === '' ? null : numberOrText(value.sdPct), measure: value.measure, basis: value.basis, note: value.note.trim() === '' ? null : value.note };
+      : {
+          macPct: numberOrText(value.macPct),
+          sdPct: value.sdPct.trim() === '' ? null : numberOrText(value.sdPct),
+          measure: value.measure,
+          basis: value.basis,
+          note: value.note.trim() === '' ? null : value.note,
+        };
   const range = (value: RangeDraft) =>
-    value.min.trim() === '' && value.max.trim() === '' && value.basis.trim() === '' ? null : { min: numberOrText(value.min), max: numberOrText(value.max), basis: value.basis };
+    value.min.trim() === '' && value.max.trim() === '' && value.basis.trim() === ''
+      ? null
+      : { min: numberOrText(value.min), max: numberOrText(value.max), basis: value.basis };
   return {
     commonName: draft.commonName,
     scientificName: draft.scientificName,
@@ -85,8 +109,15 @@ export function draftToCandidate(draft: SpeciesDraft): unknown {
     massBasis: draft.massBasis,
     heartRate: range(draft.heartRate),
     breathsPerMin: range(draft.breathsPerMin),
-    mac: { isoflurane: mac(draft.mac.isoflurane), sevoflurane: mac(draft.mac.sevoflurane), desflurane: mac(draft.mac.desflurane) },
-    apnoeaMacMultiple: draft.apnoeaValue.trim() === '' && draft.apnoeaBasis.trim() === '' ? null : { value: numberOrText(draft.apnoeaValue), basis: draft.apnoeaBasis },
+    mac: {
+      isoflurane: mac(draft.mac.isoflurane),
+      sevoflurane: mac(draft.mac.sevoflurane),
+      desflurane: mac(draft.mac.desflurane),
+    },
+    apnoeaMacMultiple:
+      draft.apnoeaValue.trim() === '' && draft.apnoeaBasis.trim() === ''
+        ? null
+        : { value: numberOrText(draft.apnoeaValue), basis: draft.apnoeaBasis },
     anatomyNotes: draft.anatomyNotes.filter((note) => note.text.trim() !== '' || note.basis.trim() !== ''),
   };
 }

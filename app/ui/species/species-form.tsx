@@ -8,7 +8,14 @@ import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../c
 import { NumberField, SelectField, TextField } from '../common/fields.js';
 import { useWriteMeta } from '../common/write-meta.js';
 import { href } from '../shell/areas.js';
-import { draftToCandidate, emptySpeciesDraft, speciesToDraft, type MacDraft, type RangeDraft, type SpeciesDraft } from './species-draft.js';
+import {
+  draftToCandidate,
+  emptySpeciesDraft,
+  speciesToDraft,
+  type MacDraft,
+  type RangeDraft,
+  type SpeciesDraft,
+} from './species-draft.js';
 
 const basisHint = 'Give the source, or write common practice, from memory or assumption.';
 
@@ -40,16 +47,35 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
     setSaved(null);
   };
   const setMac = (agent: AgentId, key: keyof MacDraft) => (value: string) =>
-    update((current) => ({ ...current, mac: { ...current.mac, [agent]: { ...current.mac[agent], [key]: value } } }));
-  const setRange = (group: 'heartRate' | 'breathsPerMin', key: keyof RangeDraft) => (value: string) => update((current) => ({ ...current, [group]: { ...current[group], [key]: value } }));
-  const setText = (key: 'commonName' | 'scientificName' | 'massMinG' | 'massMaxG' | 'massBasis' | 'apnoeaValue' | 'apnoeaBasis') => (value: string) => update((current) => ({ ...current, [key]: value }));
+    update((current) => ({
+      ...current,
+      mac: { ...current.mac, [agent]: { ...current.mac[agent], [key]: value } },
+    }));
+  const setRange = (group: 'heartRate' | 'breathsPerMin', key: keyof RangeDraft) => (value: string) =>
+    update((current) => ({ ...current, [group]: { ...current[group], [key]: value } }));
+  const setText =
+    (
+      key:
+        | 'commonName'
+        | 'scientificName'
+        | 'massMinG'
+        | 'massMaxG'
+        | 'massBasis'
+        | 'apnoeaValue'
+        | 'apnoeaBasis',
+    ) =>
+    (value: string) =>
+      update((current) => ({ ...current, [key]: value }));
 
   async function submit(event: FormEvent) {
     event.preventDefault();
     setFailure(null);
     const parsed = speciesValuesSchema.safeParse(draftToCandidate(draft));
-    const found: Record<string, string> = parsed.success ? {} : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
-    if (speciesKey !== null && reason.trim() === '') found['reason'] = 'Say why the value changes; the reason is kept with the history.';
+    const found: Record<string, string> = parsed.success
+      ? {}
+      : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
+    if (speciesKey !== null && reason.trim() === '')
+      found['reason'] = 'Say why the value changes; the reason is kept with the history.';
     if (!parsed.success || Object.keys(found).length > 0) {
       setErrors(found);
       setFailure('Not saved: correct the fields marked.');
@@ -58,9 +84,19 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
     setErrors({});
     const who = writeMeta(reason.trim());
     if ('missing' in who) return setFailure(who.missing);
-    const answer = speciesKey === null ? await api.invoke('species:add', { values: parsed.data, meta: who.meta }) : await api.invoke('species:correct', { key: speciesKey, values: parsed.data, meta: who.meta });
+    const answer =
+      speciesKey === null
+        ? await api.invoke('species:add', { values: parsed.data, meta: who.meta })
+        : await api.invoke('species:correct', { key: speciesKey, values: parsed.data, meta: who.meta });
     if (!answer.ok) {
-      setErrors(Object.fromEntries(Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [field.replace(/^values\./, ''), message])));
+      setErrors(
+        Object.fromEntries(
+          Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [
+            field.replace(/^values\./, ''),
+            message,
+          ]),
+        ),
+      );
       setFailure(answer.error.message);
       return;
     }
@@ -80,9 +116,27 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
     <fieldset className="group">
       <legend>{label} (optional)</legend>
       <div className="form-grid">
-        <NumberField label="Lowest" unit={unit} value={draft[group].min} error={errors[`${group}.min`]} onChange={setRange(group, 'min')} />
-        <NumberField label="Highest" unit={unit} value={draft[group].max} error={errors[`${group}.max`]} onChange={setRange(group, 'max')} />
-        <TextField label="Source" value={draft[group].basis} error={errors[`${group}.basis`]} hint={basisHint} onChange={setRange(group, 'basis')} />
+        <NumberField
+          label="Lowest"
+          unit={unit}
+          value={draft[group].min}
+          error={errors[`${group}.min`]}
+          onChange={setRange(group, 'min')}
+        />
+        <NumberField
+          label="Highest"
+          unit={unit}
+          value={draft[group].max}
+          error={errors[`${group}.max`]}
+          onChange={setRange(group, 'max')}
+        />
+        <TextField
+          label="Source"
+          value={draft[group].basis}
+          error={errors[`${group}.basis`]}
+          hint={basisHint}
+          onChange={setRange(group, 'basis')}
+        />
       </div>
     </fieldset>
   );
@@ -91,26 +145,69 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
       <p>
         <a href={href('species')}>← All species</a>
       </p>
-      <h1 id="species-form-title">{speciesKey === null ? 'Add species' : `Edit ${history[0]?.values.commonName ?? speciesKey}`}</h1>
+      <h1 id="species-form-title">
+        {speciesKey === null ? 'Add species' : `Edit ${history[0]?.values.commonName ?? speciesKey}`}
+      </h1>
       <form className="form wide-form" noValidate onSubmit={(event) => void submit(event)}>
         <div className="form-grid">
-          <TextField label="Common name" value={draft.commonName} error={errors['commonName']} autoFocus onChange={setText('commonName')} />
-          <TextField label="Scientific name" value={draft.scientificName} error={errors['scientificName']} onChange={setText('scientificName')} />
+          <TextField
+            label="Common name"
+            value={draft.commonName}
+            error={errors['commonName']}
+            autoFocus
+            onChange={setText('commonName')}
+          />
+          <TextField
+            label="Scientific name"
+            value={draft.scientificName}
+            error={errors['scientificName']}
+            onChange={setText('scientificName')}
+          />
         </div>
         <fieldset className="group">
           <legend>Typical adult mass</legend>
           <div className="form-grid">
-            <NumberField label="Lowest" unit="g" value={draft.massMinG} error={errors['massMinG']} onChange={setText('massMinG')} />
-            <NumberField label="Highest" unit="g" value={draft.massMaxG} error={errors['massMaxG']} onChange={setText('massMaxG')} />
-            <TextField label="Source" value={draft.massBasis} error={errors['massBasis']} hint={basisHint} onChange={setText('massBasis')} />
+            <NumberField
+              label="Lowest"
+              unit="g"
+              value={draft.massMinG}
+              error={errors['massMinG']}
+              onChange={setText('massMinG')}
+            />
+            <NumberField
+              label="Highest"
+              unit="g"
+              value={draft.massMaxG}
+              error={errors['massMaxG']}
+              onChange={setText('massMaxG')}
+            />
+            <TextField
+              label="Source"
+              value={draft.massBasis}
+              error={errors['massBasis']}
+              hint={basisHint}
+              onChange={setText('massBasis')}
+            />
           </div>
         </fieldset>
         {agentIds.map((agent) => (
           <fieldset className="group" key={agent}>
             <legend>MAC of {agents[agent].displayName} (end-tidal vol %, optional)</legend>
             <div className="form-grid">
-              <NumberField label="MAC" unit="%" value={draft.mac[agent].macPct} error={errors[`mac.${agent}.macPct`]} onChange={setMac(agent, 'macPct')} />
-              <NumberField label="SD" unit="%" value={draft.mac[agent].sdPct} error={errors[`mac.${agent}.sdPct`]} onChange={setMac(agent, 'sdPct')} />
+              <NumberField
+                label="MAC"
+                unit="%"
+                value={draft.mac[agent].macPct}
+                error={errors[`mac.${agent}.macPct`]}
+                onChange={setMac(agent, 'macPct')}
+              />
+              <NumberField
+                label="SD"
+                unit="%"
+                value={draft.mac[agent].sdPct}
+                error={errors[`mac.${agent}.sdPct`]}
+                onChange={setMac(agent, 'sdPct')}
+              />
               <SelectField
                 label="What was measured"
                 value={draft.mac[agent].measure}
@@ -121,8 +218,19 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
                 ]}
                 onChange={setMac(agent, 'measure')}
               />
-              <TextField label="Source" value={draft.mac[agent].basis} error={errors[`mac.${agent}.basis`]} hint={basisHint} onChange={setMac(agent, 'basis')} />
-              <TextField label="Conditions" value={draft.mac[agent].note} placeholder="e.g. after butorphanol" onChange={setMac(agent, 'note')} />
+              <TextField
+                label="Source"
+                value={draft.mac[agent].basis}
+                error={errors[`mac.${agent}.basis`]}
+                hint={basisHint}
+                onChange={setMac(agent, 'basis')}
+              />
+              <TextField
+                label="Conditions"
+                value={draft.mac[agent].note}
+                placeholder="e.g. after butorphanol"
+                onChange={setMac(agent, 'note')}
+              />
             </div>
           </fieldset>
         ))}
@@ -131,8 +239,20 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
         <fieldset className="group">
           <legend>Apnoea reported above (optional)</legend>
           <div className="form-grid">
-            <NumberField label="MAC multiple" unit="× MAC" value={draft.apnoeaValue} error={errors['apnoeaMacMultiple.value']} onChange={setText('apnoeaValue')} />
-            <TextField label="Source" value={draft.apnoeaBasis} error={errors['apnoeaMacMultiple.basis']} hint={basisHint} onChange={setText('apnoeaBasis')} />
+            <NumberField
+              label="MAC multiple"
+              unit="× MAC"
+              value={draft.apnoeaValue}
+              error={errors['apnoeaMacMultiple.value']}
+              onChange={setText('apnoeaValue')}
+            />
+            <TextField
+              label="Source"
+              value={draft.apnoeaBasis}
+              error={errors['apnoeaMacMultiple.basis']}
+              hint={basisHint}
+              onChange={setText('apnoeaBasis')}
+            />
           </div>
         </fieldset>
         <fieldset className="group">
@@ -143,33 +263,78 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
                 label={`Note ${index + 1}`}
                 value={note.text}
                 error={errors[`anatomyNotes.${index}.text`]}
-                onChange={(value) => update((current) => ({ ...current, anatomyNotes: current.anatomyNotes.map((item, at) => (at === index ? { ...item, text: value } : item)) }))}
+                onChange={(value) =>
+                  update((current) => ({
+                    ...current,
+                    anatomyNotes: current.anatomyNotes.map((item, at) =>
+                      at === index ? { ...item, text: value } : item,
+                    ),
+                  }))
+                }
               />
               <TextField
                 label="Source"
                 value={note.basis}
                 error={errors[`anatomyNotes.${index}.basis`]}
-                onChange={(value) => update((current) => ({ ...current, anatomyNotes: current.anatomyNotes.map((item, at) => (at === index ? { ...item, basis: value } : item)) }))}
+                onChange={(value) =>
+                  update((current) => ({
+                    ...current,
+                    anatomyNotes: current.anatomyNotes.map((item, at) =>
+                      at === index ? { ...item, basis: value } : item,
+                    ),
+                  }))
+                }
               />
               <div className="field">
                 <span className="muted">&nbsp;</span>
-                <button type="button" onClick={() => update((current) => ({ ...current, anatomyNotes: current.anatomyNotes.filter((_item, at) => at !== index) }))}>
+                <button
+                  type="button"
+                  onClick={() =>
+                    update((current) => ({
+                      ...current,
+                      anatomyNotes: current.anatomyNotes.filter((_item, at) => at !== index),
+                    }))
+                  }
+                >
                   Remove note {index + 1}
                 </button>
               </div>
             </div>
           ))}
-          <button type="button" onClick={() => update((current) => ({ ...current, anatomyNotes: [...current.anatomyNotes, { code: '', text: '', basis: '' }] }))}>
+          <button
+            type="button"
+            onClick={() =>
+              update((current) => ({
+                ...current,
+                anatomyNotes: [...current.anatomyNotes, { code: '', text: '', basis: '' }],
+              }))
+            }
+          >
             Add a note
           </button>
         </fieldset>
-        {speciesKey !== null && <TextField label="Reason for the change" value={reason} error={errors['reason']} onChange={setReason} />}
-        {failure !== null && <p className="form-error" role="alert">{failure}</p>}
+        {speciesKey !== null && (
+          <TextField
+            label="Reason for the change"
+            value={reason}
+            error={errors['reason']}
+            onChange={setReason}
+          />
+        )}
+        {failure !== null && (
+          <p className="form-error" role="alert">
+            {failure}
+          </p>
+        )}
         <div className="form-actions">
           <button type="submit" className="primary">
             {speciesKey === null ? 'Add species' : 'Save changes'}
           </button>
-          {saved !== null && <p className="status-saved" role="status">{saved}</p>}
+          {saved !== null && (
+            <p className="status-saved" role="status">
+              {saved}
+            </p>
+          )}
         </div>
       </form>
       {history.length > 0 && (
@@ -179,10 +344,13 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
             {history.map((version) => (
               <li key={version.stamp.versionId}>
                 {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
-                {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · mass {version.values.massMinG}-{version.values.massMaxG} g ({version.values.massBasis})
+                {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · mass{' '}
+                {version.values.massMinG}-{version.values.massMaxG} g ({version.values.massBasis})
                 {agentIds.map((agent) => {
                   const mac = version.values.mac[agent];
-                  return mac === null ? null : ` · ${agents[agent].displayName} ${mac.macPct} % (${mac.basis})`;
+                  return mac === null
+                    ? null
+                    : ` · ${agents[agent].displayName} ${mac.macPct} % (${mac.basis})`;
                 })}
               </li>
             ))}

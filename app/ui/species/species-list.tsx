@@ -3,7 +3,13 @@ import { agentIds, agents } from '../../core/agents.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 
-function MacCell({ species, agent }: { readonly species: Species; readonly agent: (typeof agentIds)[number] }) {
+function MacCell({
+  species,
+  agent,
+}: {
+  readonly species: Species;
+  readonly agent: (typeof agentIds)[number];
+}) {
   const mac = species.values.mac[agent];
   if (mac === null) return <span className="muted">not published</span>;
   return (
@@ -23,10 +29,12 @@ export function SpeciesListScreen() {
     <section className="screen" aria-labelledby="species-title">
       <h1 id="species-title">Species</h1>
       <p className="lead">
-        Typical values with their sources. Typical masses are editable typical ranges, not norms. Edits keep the earlier value and its source in the history.
+        Typical values with their sources. Typical masses are editable typical ranges, not norms. Edits keep
+        the earlier value and its source in the history.
       </p>
       <p className="flag notice">
-        Every bird has complete tracheal rings: use an uncuffed tube or leave the cuff down (Elliott 2014, WSAVA proceedings). Species notes below add to this.
+        Every bird has complete tracheal rings: use an uncuffed tube or leave the cuff down (Elliott 2014,
+        WSAVA proceedings). Species notes below add to this.
       </p>
       <p>
         <a className="button-link" href={href('species', 'new')}>
@@ -34,7 +42,11 @@ export function SpeciesListScreen() {
         </a>
       </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
-      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {load.error.message}
+        </p>
+      )}
       {load.state === 'ready' && (
         <table className="data-table species-table">
           <thead>
@@ -56,10 +68,17 @@ export function SpeciesListScreen() {
                   <span className="basis">
                     <i>{species.values.scientificName}</i>
                   </span>
-                  <span className="basis">{species.origin === 'clinic' ? 'added by the clinic' : species.stamp.correctsId === null ? 'Tidewing reference' : 'edited by the clinic'}</span>
+                  <span className="basis">
+                    {species.origin === 'clinic'
+                      ? 'added by the clinic'
+                      : species.stamp.correctsId === null
+                        ? 'Tidewing reference'
+                        : 'edited by the clinic'}
+                  </span>
                 </td>
                 <td>
-                  {species.values.massMinG}-{species.values.massMaxG} g<span className="basis">{species.values.massBasis}</span>
+                  {species.values.massMinG}-{species.values.massMaxG} g
+                  <span className="basis">{species.values.massBasis}</span>
                 </td>
                 {agentIds.map((agent) => (
                   <td key={agent}>
@@ -71,18 +90,21 @@ export function SpeciesListScreen() {
                     <span className="muted">—</span>
                   ) : (
                     <>
-                      above {Number(species.values.apnoeaMacMultiple.value.toFixed(2))} MAC<span className="basis">{species.values.apnoeaMacMultiple.basis}</span>
+                      above {Number(species.values.apnoeaMacMultiple.value.toFixed(2))} MAC
+                      <span className="basis">{species.values.apnoeaMacMultiple.basis}</span>
                     </>
                   )}
                 </td>
                 <td>
                   <ul className="compact">
-                    {species.values.anatomyNotes.filter((note) => note.code !== 'complete-tracheal-rings').map((note) => (
-                      <li key={note.text}>
-                        {note.text}
-                        <span className="basis">{note.basis}</span>
-                      </li>
-                    ))}
+                    {species.values.anatomyNotes
+                      .filter((note) => note.code !== 'complete-tracheal-rings')
+                      .map((note) => (
+                        <li key={note.text}>
+                          {note.text}
+                          <span className="basis">{note.basis}</span>
+                        </li>
+                      ))}
                   </ul>
                 </td>
               </tr>

@@ -12,9 +12,16 @@ export function RecentPlans() {
   return (
     <section className="screen" aria-labelledby="worksheets-title">
       <h1 id="worksheets-title">Worksheets</h1>
-      <p className="lead">Open a saved plan to print its pre-procedure worksheet: the plan, the predicted times, an emergency card in your clinic’s doses and a monitoring grid.</p>
+      <p className="lead">
+        Open a saved plan to print its pre-procedure worksheet: the plan, the predicted times, an emergency
+        card in your clinic’s doses and a monitoring grid.
+      </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
-      {load.state === 'failed' && <p className="form-error" role="alert">{load.error.message}</p>}
+      {load.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {load.error.message}
+        </p>
+      )}
       {load.state === 'ready' &&
         (load.value.length === 0 ? (
           <p>No saved plans yet. Save a plan from Anaesthetic plans first.</p>
@@ -25,9 +32,15 @@ export function RecentPlans() {
                 <th scope="col">Planned for</th>
                 <th scope="col">Patient</th>
                 <th scope="col">Plan</th>
-                <th scope="col" className="number">Weight</th>
-                <th scope="col" className="number">Predicted induction</th>
-                <th scope="col" className="number">Open checklist items</th>
+                <th scope="col" className="number">
+                  Weight
+                </th>
+                <th scope="col" className="number">
+                  Predicted induction
+                </th>
+                <th scope="col" className="number">
+                  Open checklist items
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -42,7 +55,9 @@ export function RecentPlans() {
                     {agentRouteText(plan.agent, plan.route)}
                   </td>
                   <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
-                  <td className="number">{plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}</td>
+                  <td className="number">
+                    {plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}
+                  </td>
                   <td className="number">{plan.openChecklistItems}</td>
                 </tr>
               ))}

@@ -36,7 +36,11 @@ function Row({ label, children }: { readonly label: string; readonly children: R
 }
 
 function scheduleText(input: PlanInput): string {
-  return input.schedule.map((step) => `${figure(step.atMin)} min: ${figure(step.vaporPct)} %${step.vaporPct === 0 ? ' (off)' : ''}`).join('; ');
+  return input.schedule
+    .map(
+      (step) => `${figure(step.atMin)} min: ${figure(step.vaporPct)} %${step.vaporPct === 0 ? ' (off)' : ''}`,
+    )
+    .join('; ');
 }
 
 function ventilationText(input: PlanInput): string {
@@ -49,9 +53,19 @@ function cylinderText(input: PlanInput): string {
   const cylinder = input.cylinder;
   if (cylinder === undefined) return 'not given';
   if (cylinder.kind === 'content') return `${figure(cylinder.contentL)} L of oxygen`;
-  if (cylinder.kind === 'waterCapacity') return `${figure(cylinder.waterCapacityL)} L water capacity at ${figure(cylinder.pressureBar)} bar`;
-  const names = { 'us-e': 'US E cylinder', 'metric-2l-200bar': '2 L cylinder at 200 bar', 'metric-10l-200bar': '10 L cylinder at 200 bar' } as const;
-  const gauge = cylinder.gaugePressureBar !== undefined ? `, gauge ${figure(cylinder.gaugePressureBar)} bar` : cylinder.gaugePressurePsi !== undefined ? `, gauge ${figure(cylinder.gaugePressurePsi)} psi` : ', full';
+  if (cylinder.kind === 'waterCapacity')
+    return `${figure(cylinder.waterCapacityL)} L water capacity at ${figure(cylinder.pressureBar)} bar`;
+  const names = {
+    'us-e': 'US E cylinder',
+    'metric-2l-200bar': '2 L cylinder at 200 bar',
+    'metric-10l-200bar': '10 L cylinder at 200 bar',
+  } as const;
+  const gauge =
+    cylinder.gaugePressureBar !== undefined
+      ? `, gauge ${figure(cylinder.gaugePressureBar)} bar`
+      : cylinder.gaugePressurePsi !== undefined
+        ? `, gauge ${figure(cylinder.gaugePressurePsi)} psi`
+        : ', full';
   return `${names[cylinder.presetId]}${gauge}`;
 }
 
@@ -59,8 +73,10 @@ function deliveryDetails(input: PlanInput): string[] {
   const details: string[] = [];
   if (input.chamberVolumeL !== undefined) details.push(`chamber ${figure(input.chamberVolumeL)} L`);
   if (input.circuitVolumeL !== undefined) details.push(`circle volume ${figure(input.circuitVolumeL)} L`);
-  if (input.maskDeadSpaceMl !== undefined) details.push(`mask dead space ${figure(input.maskDeadSpaceMl)} mL`);
-  if (input.maskLeakFraction !== undefined) details.push(`mask leak ${figure(input.maskLeakFraction * 100)} %`);
+  if (input.maskDeadSpaceMl !== undefined)
+    details.push(`mask dead space ${figure(input.maskDeadSpaceMl)} mL`);
+  if (input.maskLeakFraction !== undefined)
+    details.push(`mask leak ${figure(input.maskLeakFraction * 100)} %`);
   return details;
 }
 
@@ -90,12 +106,27 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const input = plan.input;
   const result: PlanResult = plan.result;
   const agent = agents[input.agent];
-  const card = useMemo(() => emergencyCard(drugs.map((drug) => drug.values), input.bodyMassG), [drugs, input.bodyMassG]);
-  const recoveryWindowMin = input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
-  const endMin = plannedEndMin(result.milestones.vaporiserOffMin, recoveryWindowMin, result.oxygen.durationMin);
+  const card = useMemo(
+    () =>
+      emergencyCard(
+        drugs.map((drug) => drug.values),
+        input.bodyMassG,
+      ),
+    [drugs, input.bodyMassG],
+  );
+  const recoveryWindowMin =
+    input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
+  const endMin = plannedEndMin(
+    result.milestones.vaporiserOffMin,
+    recoveryWindowMin,
+    result.oxygen.durationMin,
+  );
   const rows = monitoringRows(input.schedule, endMin);
   const columns = monitoringColumns(settings.temperatureUnit, settings.pressureUnit);
-  const checklistLines = checklistItems.map((item) => ({ label: item.label, state: plan.checklist.items[item.key] }));
+  const checklistLines = checklistItems.map((item) => ({
+    label: item.label,
+    state: plan.checklist.items[item.key],
+  }));
   const open = openChecklistItems(checklistLines, plan.checklist.asaGrade);
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
   const depthPct = result.targetMacMultiple * result.mac.valuePct;
@@ -103,10 +134,17 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const sheetClass = settings.paperSize === 'Letter' ? 'sheet-letter' : 'sheet-a4';
 
   return (
-    <article className={`worksheet ${sheetClass}`} data-ready={drawn ? 'true' : 'false'} data-paper={settings.paperSize} aria-labelledby="worksheet-title">
+    <article
+      className={`worksheet ${sheetClass}`}
+      data-ready={drawn ? 'true' : 'false'}
+      data-paper={settings.paperSize}
+      aria-labelledby="worksheet-title"
+    >
       <header className="ws-header">
         <div>
-          <p className="ws-clinic">{settings.clinicName === '' ? 'Clinic name not set' : settings.clinicName}</p>
+          <p className="ws-clinic">
+            {settings.clinicName === '' ? 'Clinic name not set' : settings.clinicName}
+          </p>
           {settings.addressLine !== '' && <p className="ws-address">{settings.addressLine}</p>}
         </div>
         <div className="ws-title-block">
@@ -126,23 +164,33 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
             <Row label="Patient">
               <strong className="ws-patient-name">{patientName}</strong>
               {patient !== null && patient.values.ringId !== '' ? ` · ring ${patient.values.ringId}` : ''}
-              {patient !== null && patient.values.microchipId !== '' ? ` · chip ${patient.values.microchipId}` : ''}
+              {patient !== null && patient.values.microchipId !== ''
+                ? ` · chip ${patient.values.microchipId}`
+                : ''}
               {patient !== null ? ` · ${patient.values.sex}` : ''}
             </Row>
             <Row label="Species">
-              {species === null ? (input.speciesId ?? 'not given') : `${species.values.commonName}${species.values.scientificName === '' ? '' : ` (${species.values.scientificName})`}`}
+              {species === null
+                ? (input.speciesId ?? 'not given')
+                : `${species.values.commonName}${species.values.scientificName === '' ? '' : ` (${species.values.scientificName})`}`}
             </Row>
             <Row label="Weight for this plan">
               <strong>{displayMass(input.bodyMassG, settings.massUnit)}</strong>
               {weightTrendText !== null && <span className="ws-trend"> · {weightTrendText}</span>}
             </Row>
             <Row label="ASA grade">
-              {plan.checklist.asaGrade === null ? <strong className="ws-open">NOT SET</strong> : <strong>ASA {plan.checklist.asaGrade}</strong>}
+              {plan.checklist.asaGrade === null ? (
+                <strong className="ws-open">NOT SET</strong>
+              ) : (
+                <strong>ASA {plan.checklist.asaGrade}</strong>
+              )}
               <span className="ws-small">
                 {' '}
                 ·{' '}
                 {plan.checklist.asaGrade === null
-                  ? `published death within 48 h by grade: ${Object.entries(asaMortality.percentByGrade).map(([grade, percent]) => `ASA ${grade} ${String(percent)} %`).join(', ')} (${asaMortality.source})`
+                  ? `published death within 48 h by grade: ${Object.entries(asaMortality.percentByGrade)
+                      .map(([grade, percent]) => `ASA ${grade} ${String(percent)} %`)
+                      .join(', ')} (${asaMortality.source})`
                   : asaMortalityText(plan.checklist.asaGrade).replace(/^ASA \d: /, '')}
               </span>
             </Row>
@@ -159,7 +207,11 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
             </li>
           ))}
         </ul>
-        <p className={open.length === 0 ? 'ws-small' : 'ws-open-summary'}>{open.length === 0 ? 'All checklist items are done or not applicable.' : `Still open: ${open.join(', ')}.`}</p>
+        <p className={open.length === 0 ? 'ws-small' : 'ws-open-summary'}>
+          {open.length === 0
+            ? 'All checklist items are done or not applicable.'
+            : `Still open: ${open.join(', ')}.`}
+        </p>
         {plan.checklist.notes !== '' && <p className="ws-small">Checklist notes: {plan.checklist.notes}</p>}
       </section>
 
@@ -171,7 +223,15 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           <ul>
             {result.cautions.map((caution) => (
               <li key={caution.code} className={`ws-caution ws-${caution.severity}`}>
-                <strong>{caution.severity === 'danger' ? 'DANGER' : caution.severity === 'warning' ? 'WARNING' : 'NOTICE'}:</strong> {caution.message}
+                <strong>
+                  {caution.severity === 'danger'
+                    ? 'DANGER'
+                    : caution.severity === 'warning'
+                      ? 'WARNING'
+                      : 'NOTICE'}
+                  :
+                </strong>{' '}
+                {caution.message}
                 <br />
                 <span className="ws-basis">Why: {caution.reason}</span>
               </li>
@@ -186,7 +246,8 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
         <table className="ws-facts">
           <tbody>
             <Row label="Agent">
-              {agent.displayName}; MAC used {figure(result.mac.valuePct)} % <span className="ws-basis">({result.mac.basis})</span>
+              {agent.displayName}; MAC used {figure(result.mac.valuePct)} %{' '}
+              <span className="ws-basis">({result.mac.basis})</span>
             </Row>
             <Row label="Route and circuit">
               {routeLabels[input.route]}
@@ -200,11 +261,14 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
               {figure(result.targetMacMultiple)} x MAC = {figure(depthPct)} % in the brain
             </Row>
             <Row label="Recovery threshold">
-              {figure(result.recoveryMacFraction.value)} x MAC = {figure(arousalPct)} % <span className="ws-basis">({result.recoveryMacFraction.basis})</span>
+              {figure(result.recoveryMacFraction.value)} x MAC = {figure(arousalPct)} %{' '}
+              <span className="ws-basis">({result.recoveryMacFraction.basis})</span>
             </Row>
             <Row label="Recovery window">{figure(recoveryWindowMin)} min after the last vaporiser step</Row>
             <Row label="Scavenging and room">
-              {result.wasteGas.scavenging ? 'Scavenged' : 'Not scavenged'}; room {figure(result.wasteGas.roomVolumeM3)} m³, {figure(result.wasteGas.airChangesPerHour)} air changes/h
+              {result.wasteGas.scavenging ? 'Scavenged' : 'Not scavenged'}; room{' '}
+              {figure(result.wasteGas.roomVolumeM3)} m³, {figure(result.wasteGas.airChangesPerHour)} air
+              changes/h
             </Row>
             <Row label="Oxygen cylinder">{cylinderText(input)}</Row>
           </tbody>
@@ -217,24 +281,41 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
         <table className="ws-facts ws-milestones">
           <tbody>
             <Row label="Predicted induction (time to planned depth)">
-              <strong>{minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}</strong>
+              <strong>
+                {minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}
+              </strong>
             </Row>
-            <Row label="Vaporiser off">{result.milestones.vaporiserOffMin === null ? 'not in the schedule' : `at ${figure(result.milestones.vaporiserOffMin)} min`}</Row>
+            <Row label="Vaporiser off">
+              {result.milestones.vaporiserOffMin === null
+                ? 'not in the schedule'
+                : `at ${figure(result.milestones.vaporiserOffMin)} min`}
+            </Row>
             <Row label="Predicted recovery (after vaporiser off)">
-              <strong>{minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}</strong>
+              <strong>
+                {minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}
+              </strong>
             </Row>
             <Row label="Air sacs 95 % washed in">
-              {result.milestones.airSacWashin95Breaths === null ? 'not reached' : `${figure(result.milestones.airSacWashin95Breaths, 2)} breaths (${minutesText(result.milestones.airSacWashin95Min)})`}
+              {result.milestones.airSacWashin95Breaths === null
+                ? 'not reached'
+                : `${figure(result.milestones.airSacWashin95Breaths, 2)} breaths (${minutesText(result.milestones.airSacWashin95Min)})`}
             </Row>
             <Row label="Air sacs 95 % washed out">
-              {result.milestones.airSacWashout95Breaths === null ? 'not reached' : `${figure(result.milestones.airSacWashout95Breaths, 2)} breaths (${minutesText(result.milestones.airSacWashout95Min)})`}
+              {result.milestones.airSacWashout95Breaths === null
+                ? 'not reached'
+                : `${figure(result.milestones.airSacWashout95Breaths, 2)} breaths (${minutesText(result.milestones.airSacWashout95Min)})`}
             </Row>
-            <Row label="Deepest predicted level">{figure(result.milestones.peakBrainMacMultiple, 2)} x MAC in the brain</Row>
-            <Row label="Lowest predicted breathing">{figure(result.milestones.lowestVentilationFraction * 100, 2)} % of resting ventilation</Row>
+            <Row label="Deepest predicted level">
+              {figure(result.milestones.peakBrainMacMultiple, 2)} x MAC in the brain
+            </Row>
+            <Row label="Lowest predicted breathing">
+              {figure(result.milestones.lowestVentilationFraction * 100, 2)} % of resting ventilation
+            </Row>
           </tbody>
         </table>
         <p className="ws-basis">
-          {result.milestones.basis} Ranges are the 5th to 95th percentiles of {result.uncertainty.samples} model runs with sampled parameters ({result.uncertainty.method}).
+          {result.milestones.basis} Ranges are the 5th to 95th percentiles of {result.uncertainty.samples}{' '}
+          model runs with sampled parameters ({result.uncertainty.method}).
         </p>
       </section>
 
@@ -243,33 +324,58 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
         <table className="ws-facts">
           <tbody>
             <Row label="Fresh gas flow">
-              recommended <strong>{figure(result.flows.recommendedLpm, 2)} L/min</strong> (at least {figure(result.flows.minimumLpm, 2)} L/min); set <strong>{figure(input.freshGasLpm, 2)} L/min</strong>
-              {input.freshGasLpm < result.flows.minimumLpm ? <strong className="ws-open"> · BELOW THE MINIMUM</strong> : ''}
+              recommended <strong>{figure(result.flows.recommendedLpm, 2)} L/min</strong> (at least{' '}
+              {figure(result.flows.minimumLpm, 2)} L/min); set{' '}
+              <strong>{figure(input.freshGasLpm, 2)} L/min</strong>
+              {input.freshGasLpm < result.flows.minimumLpm ? (
+                <strong className="ws-open"> · BELOW THE MINIMUM</strong>
+              ) : (
+                ''
+              )}
               <br />
               <span className="ws-basis">
                 {result.flows.rule}. {result.flows.basis}
                 {result.flows.rebreathing ? ` Rebreathing: ${result.flows.rebreathingReason}` : ''}
-                {result.flows.chamberTimeTo95Min === null ? '' : ` Chamber reaches 95 % of the dial in ${figure(result.flows.chamberTimeTo95Min, 2)} min.`}
+                {result.flows.chamberTimeTo95Min === null
+                  ? ''
+                  : ` Chamber reaches 95 % of the dial in ${figure(result.flows.chamberTimeTo95Min, 2)} min.`}
               </span>
             </Row>
             <Row label={`Liquid ${agent.displayName.toLowerCase()}`}>
-              <strong>{figure(result.consumption.liquidMl, 2)} mL</strong> for the plan; {figure(result.consumption.liquidMlPerHour, 2)} mL/h at {figure(result.consumption.maintenanceVaporPct)} % maintenance
+              <strong>{figure(result.consumption.liquidMl, 2)} mL</strong> for the plan;{' '}
+              {figure(result.consumption.liquidMlPerHour, 2)} mL/h at{' '}
+              {figure(result.consumption.maintenanceVaporPct)} % maintenance
               <br />
               <span className="ws-basis">
-                1 mL of liquid gives {figure(result.consumption.vapourMlPerLiquidMl)} mL of vapour. {result.consumption.basis}
+                1 mL of liquid gives {figure(result.consumption.vapourMlPerLiquidMl)} mL of vapour.{' '}
+                {result.consumption.basis}
               </span>
             </Row>
             <Row label="Oxygen">
               <strong>{figure(result.oxygen.usedL, 2)} L</strong> over {figure(result.oxygen.durationMin)} min
-              {result.oxygen.cylinderContentL === null ? '' : `; cylinder holds ${figure(result.oxygen.cylinderContentL)} L`}
-              {result.oxygen.enduranceMin === null ? '' : `, lasts ${figure(result.oxygen.enduranceMin)} min at this flow`}
-              {result.oxygen.suffices === false ? <strong className="ws-open"> · NOT ENOUGH OXYGEN</strong> : ''}
+              {result.oxygen.cylinderContentL === null
+                ? ''
+                : `; cylinder holds ${figure(result.oxygen.cylinderContentL)} L`}
+              {result.oxygen.enduranceMin === null
+                ? ''
+                : `, lasts ${figure(result.oxygen.enduranceMin)} min at this flow`}
+              {result.oxygen.suffices === false ? (
+                <strong className="ws-open"> · NOT ENOUGH OXYGEN</strong>
+              ) : (
+                ''
+              )}
               <br />
               <span className="ws-basis">{result.oxygen.basis}</span>
             </Row>
             <Row label="Waste gas in the room">
-              peak {figure(result.wasteGas.peakPpm, 2)} ppm; highest 1 h mean {figure(result.wasteGas.highestHourMeanPpm, 2)} ppm against the {figure(result.wasteGas.ceilingPpm)} ppm ceiling (NIOSH 1977)
-              {result.wasteGas.exceedsCeiling ? <strong className="ws-open"> · ABOVE THE CEILING</strong> : ''}
+              peak {figure(result.wasteGas.peakPpm, 2)} ppm; highest 1 h mean{' '}
+              {figure(result.wasteGas.highestHourMeanPpm, 2)} ppm against the{' '}
+              {figure(result.wasteGas.ceilingPpm)} ppm ceiling (NIOSH 1977)
+              {result.wasteGas.exceedsCeiling ? (
+                <strong className="ws-open"> · ABOVE THE CEILING</strong>
+              ) : (
+                ''
+              )}
               <br />
               <span className="ws-basis">
                 {figure(result.wasteGas.releasedVapourMl, 2)} mL of vapour released. {result.wasteGas.basis}
@@ -311,7 +417,10 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       <section className="ws-section ws-emergency ws-break-before" aria-labelledby="ws-emergency">
         <h2 id="ws-emergency">Emergency card for {displayMass(input.bodyMassG, settings.massUnit)}</h2>
         {card.length === 0 ? (
-          <p className="ws-open-summary">No emergency drugs entered. Add your clinic’s drugs, concentrations, doses and their sources in Settings; Tidewing ships no doses.</p>
+          <p className="ws-open-summary">
+            No emergency drugs entered. Add your clinic’s drugs, concentrations, doses and their sources in
+            Settings; Tidewing ships no doses.
+          </p>
         ) : (
           <table className="ws-grid-table ws-card-table">
             <thead>
@@ -338,7 +447,11 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
                     <td>{line.doseText}</td>
                     <td className="ws-volume">
                       <strong>{line.volumeText}</strong>
-                      {line.smallVolume && <span className="ws-basis ws-block">under 0.1 mL: consider diluting to measure it</span>}
+                      {line.smallVolume && (
+                        <span className="ws-basis ws-block">
+                          under 0.1 mL: consider diluting to measure it
+                        </span>
+                      )}
                     </td>
                     <td className="ws-basis">{line.doseSource}</td>
                   </tr>
@@ -355,7 +468,8 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           </table>
         )}
         <p className="ws-basis">
-          Volume = clinic dose (mg/kg) x {figure(input.bodyMassG / 1000, 3)} kg / concentration (mg/mL), 3 significant figures. Doses and sources are the clinic’s own; check them before giving any drug.
+          Volume = clinic dose (mg/kg) x {figure(input.bodyMassG / 1000, 3)} kg / concentration (mg/mL), 3
+          significant figures. Doses and sources are the clinic’s own; check them before giving any drug.
         </p>
       </section>
 
@@ -364,8 +478,9 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           Monitoring record · {patientName} · {displayMass(input.bodyMassG, settings.massUnit)}
         </h2>
         <p className="ws-small">
-          A row every 5 min from 0 to {figure(endMin)} min. Targets to watch: EtCO2 {etco2RangeText(settings)}, cloacal temperature {temperatureRangeText(settings)}; apnoea of 10-15 s calls for action.
-          Pulse oximetry and indirect blood pressure are unreliable in birds.
+          A row every 5 min from 0 to {figure(endMin)} min. Targets to watch: EtCO2 {etco2RangeText(settings)}
+          , cloacal temperature {temperatureRangeText(settings)}; apnoea of 10-15 s calls for action. Pulse
+          oximetry and indirect blood pressure are unreliable in birds.
         </p>
         <table className="ws-monitoring-grid">
           <thead>
@@ -392,10 +507,10 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       </section>
 
       <footer className="ws-footer">
-        Tidewing {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId} saved by {plan.stamp.enteredBy} · printed{' '}
+        Tidewing {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId}{' '}
+        saved by {plan.stamp.enteredBy} · printed{' '}
         {printedAt.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
       </footer>
     </article>
   );
 }
-

@@ -4,7 +4,12 @@ import { brainBand } from '../../core/worksheet.js';
 import { TimeChart, type ChartSeries } from '../common/time-chart.js';
 import { figure } from './labels.js';
 
-type Line = { readonly label: string; readonly stroke: string; readonly dash: readonly number[]; readonly width: number };
+type Line = {
+  readonly label: string;
+  readonly stroke: string;
+  readonly dash: readonly number[];
+  readonly width: number;
+};
 
 // Black and grey with distinct dash patterns, so the curves stay apart on a black-and-white copy.
 const lines = {
@@ -20,7 +25,15 @@ const lines = {
 function KeySample({ line }: { readonly line: Line }) {
   return (
     <svg width="40" height="10" viewBox="0 0 40 10" aria-hidden="true" focusable="false">
-      <line x1="0" y1="5" x2="40" y2="5" stroke={line.stroke} strokeWidth={line.width} strokeDasharray={line.dash.length === 0 ? undefined : line.dash.join(' ')} />
+      <line
+        x1="0"
+        y1="5"
+        x2="40"
+        y2="5"
+        stroke={line.stroke}
+        strokeWidth={line.width}
+        strokeDasharray={line.dash.length === 0 ? undefined : line.dash.join(' ')}
+      />
     </svg>
   );
 }
@@ -32,7 +45,9 @@ type PercentileCurves = { readonly p5: readonly number[]; readonly p95: readonly
 function modelBand(uncertainty: PlanResult['uncertainty']): PercentileCurves | null {
   const loose: unknown = uncertainty;
   const band = (loose as { brainBandPct?: PercentileCurves | null }).brainBandPct;
-  return band === undefined || band === null || !Array.isArray(band.p5) || !Array.isArray(band.p95) ? null : band;
+  return band === undefined || band === null || !Array.isArray(band.p5) || !Array.isArray(band.p95)
+    ? null
+    : band;
 }
 
 /** The predicted partial pressures over time, with the planned depth and the arousal threshold. */
@@ -40,12 +55,23 @@ export function WorksheetChart({ result, onDrawn }: Props) {
   const { timeline, milestones, uncertainty, mac } = result;
   const depthPct = result.targetMacMultiple * mac.valuePct;
   const arousalPct = result.recoveryMacFraction.value * mac.valuePct;
-  const band = useMemo((): { lowPct: readonly number[]; highPct: readonly number[]; fromModel: boolean } | null => {
+  const band = useMemo((): {
+    lowPct: readonly number[];
+    highPct: readonly number[];
+    fromModel: boolean;
+  } | null => {
     // Newer model versions report percentile curves of the brain; older snapshots only the
     // ranges of the times, from which an approximate band is drawn.
     const reported = modelBand(uncertainty);
-    if (reported !== null && reported.p5.length === timeline.timeMin.length) return { lowPct: reported.p5, highPct: reported.p95, fromModel: true };
-    const approximate = brainBand(timeline.timeMin, timeline.brainPct, milestones.vaporiserOffMin, uncertainty.inductionMin, uncertainty.recoveryMin);
+    if (reported !== null && reported.p5.length === timeline.timeMin.length)
+      return { lowPct: reported.p5, highPct: reported.p95, fromModel: true };
+    const approximate = brainBand(
+      timeline.timeMin,
+      timeline.brainPct,
+      milestones.vaporiserOffMin,
+      uncertainty.inductionMin,
+      uncertainty.recoveryMin,
+    );
     return approximate === null ? null : { ...approximate, fromModel: false };
   }, [timeline, milestones.vaporiserOffMin, uncertainty]);
   const series = useMemo((): ChartSeries[] => {
@@ -61,7 +87,13 @@ export function WorksheetChart({ result, onDrawn }: Props) {
     ];
     if (band !== null) {
       list.push({ label: 'Brain band low', stroke: '#8c8c8c', width: 0.5, values: band.lowPct });
-      list.push({ label: 'Brain band high', stroke: '#8c8c8c', width: 0.5, values: band.highPct, bandTo: list.length - 1 });
+      list.push({
+        label: 'Brain band high',
+        stroke: '#8c8c8c',
+        width: 0.5,
+        values: band.highPct,
+        bandTo: list.length - 1,
+      });
     }
     return list;
   }, [timeline, depthPct, arousalPct, band]);
@@ -86,13 +118,24 @@ export function WorksheetChart({ result, onDrawn }: Props) {
   }.`;
   return (
     <div className="worksheet-chart" ref={wrapper}>
-      <TimeChart x={timeline.timeMin} xLabel="Time (min)" series={series} axes={[{ scale: 'y', label: 'Agent (vol %)' }]} height={250} summary={summary} />
+      <TimeChart
+        x={timeline.timeMin}
+        xLabel="Time (min)"
+        series={series}
+        axes={[{ scale: 'y', label: 'Agent (vol %)' }]}
+        height={250}
+        summary={summary}
+      />
       <ul className="chart-key">
         {Object.values(lines).map((line) => (
           <li key={line.label}>
             <KeySample line={line} /> {line.label}
-            {line === lines.depth ? ` (${figure(result.targetMacMultiple)} x MAC = ${figure(depthPct)} %)` : ''}
-            {line === lines.arousal ? ` (${figure(result.recoveryMacFraction.value)} x MAC = ${figure(arousalPct)} %)` : ''}
+            {line === lines.depth
+              ? ` (${figure(result.targetMacMultiple)} x MAC = ${figure(depthPct)} %)`
+              : ''}
+            {line === lines.arousal
+              ? ` (${figure(result.recoveryMacFraction.value)} x MAC = ${figure(arousalPct)} %)`
+              : ''}
           </li>
         ))}
         {band !== null && (

@@ -6,7 +6,9 @@ import { href } from '../shell/areas.js';
 import { Sheet } from './sheet.js';
 
 /** The desktop preload adds this; the browser host does not have it. */
-type DesktopPdf = { saveWorksheetPdf?: (suggestedName: string) => Promise<{ saved: boolean; file?: string; error?: string }> };
+type DesktopPdf = {
+  saveWorksheetPdf?: (suggestedName: string) => Promise<{ saved: boolean; file?: string; error?: string }>;
+};
 
 function desktopPdf(): DesktopPdf['saveWorksheetPdf'] {
   const bridge = globalThis.tidewing as (TidewingApi & DesktopPdf) | undefined;
@@ -37,9 +39,13 @@ export function Worksheet({ planId }: { readonly planId: number }) {
       </section>
     );
   }
-  if (detail.state !== 'ready' || drugs.state !== 'ready' || info.state !== 'ready') return <p aria-busy="true">Loading the worksheet…</p>;
+  if (detail.state !== 'ready' || drugs.state !== 'ready' || info.state !== 'ready')
+    return <p aria-busy="true">Loading the worksheet…</p>;
 
-  const name = (detail.value.patient?.values.name ?? detail.value.plan.input.patientName ?? 'plan').replace(/[^A-Za-z0-9-]+/g, '-');
+  const name = (detail.value.patient?.values.name ?? detail.value.plan.input.patientName ?? 'plan').replace(
+    /[^A-Za-z0-9-]+/g,
+    '-',
+  );
   return (
     <div className="worksheet-screen">
       <div className="ws-toolbar no-print">
@@ -53,17 +59,31 @@ export function Worksheet({ planId }: { readonly planId: number }) {
             onClick={() => {
               setPdfMessage('Saving…');
               void savePdf(`tidewing-worksheet-${planId}-${name}.pdf`).then((answer) =>
-                setPdfMessage(answer.saved ? `Saved ${answer.file ?? ''}` : answer.error === undefined ? 'Not saved.' : `Not saved: ${answer.error}`),
+                setPdfMessage(
+                  answer.saved
+                    ? `Saved ${answer.file ?? ''}`
+                    : answer.error === undefined
+                      ? 'Not saved.'
+                      : `Not saved: ${answer.error}`,
+                ),
               );
             }}
           >
             Save as PDF
           </button>
         )}
-        <span className="ws-small">Paper: {settings.paperSize === 'Letter' ? 'US Letter' : 'A4'} (change in Settings)</span>
+        <span className="ws-small">
+          Paper: {settings.paperSize === 'Letter' ? 'US Letter' : 'A4'} (change in Settings)
+        </span>
         {pdfMessage !== null && <span role="status">{pdfMessage}</span>}
       </div>
-      <Sheet detail={detail.value} drugs={drugs.value} appVersion={info.value.appVersion} settings={settings} printedAt={printedAt} />
+      <Sheet
+        detail={detail.value}
+        drugs={drugs.value}
+        appVersion={info.value.appVersion}
+        settings={settings}
+        printedAt={printedAt}
+      />
     </div>
   );
 }

@@ -10,7 +10,11 @@ import {
 } from '../../../app/core/budget/consumption.js';
 
 /** Rule of thumb: mL/h = 3 x FGF (L/min) x dial % (3.3 for sevoflurane) (Dhulkhed et al. 2013, Indian J Anaesth 57:455-463). */
-function ruleOfThumbMlPerHour(agent: 'isoflurane' | 'sevoflurane', freshGasLpm: number, vaporPct: number): number {
+function ruleOfThumbMlPerHour(
+  agent: 'isoflurane' | 'sevoflurane',
+  freshGasLpm: number,
+  vaporPct: number,
+): number {
   return (agent === 'sevoflurane' ? 3.3 : 3) * freshGasLpm * vaporPct;
 }
 
@@ -31,7 +35,10 @@ describe('vapour per millilitre of liquid', () => {
 
   it('yields more vapour in a warmer room, in proportion to absolute temperature', () => {
     // ideal gas: molar volume proportional to absolute temperature (common practice)
-    expect(vapourMlPerLiquidMl('isoflurane', 30) / vapourMlPerLiquidMl('isoflurane', 20)).toBeCloseTo(303.15 / 293.15, 10);
+    expect(vapourMlPerLiquidMl('isoflurane', 30) / vapourMlPerLiquidMl('isoflurane', 20)).toBeCloseTo(
+      303.15 / 293.15,
+      10,
+    );
   });
 
   it('refuses a temperature outside 10-35 C', () => {
@@ -63,7 +70,9 @@ describe('saturated concentration', () => {
   });
 
   it('rises with temperature for isoflurane and says when the 20 C value stands in for another agent', () => {
-    expect(saturatedConcentrationPct('isoflurane', 25)).toBeGreaterThan(saturatedConcentrationPct('isoflurane', 20));
+    expect(saturatedConcentrationPct('isoflurane', 25)).toBeGreaterThan(
+      saturatedConcentrationPct('isoflurane', 20),
+    );
     const sevoflurane = saturatedVapourPressureMmHg('sevoflurane', 25);
     expect(sevoflurane.kind).toBe('assumption');
     expect(sevoflurane.basis).toMatch(/20 C value is used/);
@@ -111,8 +120,13 @@ describe('liquid agent use', () => {
       { atMin: 60, vaporPct: 0 },
     ];
     const expectedVapour = vapourFlowMlPerMin(1, 5) * 3 + vapourFlowMlPerMin(1, 2) * 57;
-    expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 90 })).toBeCloseTo(expectedVapour, 9);
-    expect(liquidAgentMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 90 })).toBeCloseTo(expectedVapour / vapourMlPerLiquidMl('isoflurane'), 9);
+    expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 90 })).toBeCloseTo(
+      expectedVapour,
+      9,
+    );
+    expect(
+      liquidAgentMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 90 }),
+    ).toBeCloseTo(expectedVapour / vapourMlPerLiquidMl('isoflurane'), 9);
   });
 
   it('matches the hourly figure when one setting is held for an hour', () => {
@@ -128,12 +142,17 @@ describe('liquid agent use', () => {
       { atMin: 10, freshGasLpm: 1 },
     ];
     const expected = vapourFlowMlPerMin(2, 2) * 10 + vapourFlowMlPerMin(1, 2) * 20;
-    expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: flows, endMin: 30 })).toBeCloseTo(expected, 9);
+    expect(
+      vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: flows, endMin: 30 }),
+    ).toBeCloseTo(expected, 9);
   });
 
   it('counts nothing before the first step and nothing after the end', () => {
     const schedule = [{ atMin: 10, vaporPct: 2 }];
-    expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 20 })).toBeCloseTo(vapourFlowMlPerMin(1, 2) * 10, 9);
+    expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 20 })).toBeCloseTo(
+      vapourFlowMlPerMin(1, 2) * 10,
+      9,
+    );
     expect(vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 5 })).toBe(0);
   });
 
@@ -142,6 +161,8 @@ describe('liquid agent use', () => {
       { atMin: 5, vaporPct: 2 },
       { atMin: 1, vaporPct: 3 },
     ];
-    expect(() => liquidAgentMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 20 })).toThrow(/schedule\[1\]\.atMin/);
+    expect(() =>
+      liquidAgentMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 20 }),
+    ).toThrow(/schedule\[1\]\.atMin/);
   });
 });

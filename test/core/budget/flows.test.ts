@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { chamberTimeToFractionMin, rebreathingCheck, recommendFreshGas } from '../../../app/core/budget/flows.js';
+import {
+  chamberTimeToFractionMin,
+  rebreathingCheck,
+  recommendFreshGas,
+} from '../../../app/core/budget/flows.js';
 
 describe('chamber wash-in time', () => {
   it('reaches 95 % after three time constants (tau = V / FGF)', () => {
@@ -22,7 +26,12 @@ describe('recommended fresh gas flow', () => {
   it('sets 2-3 x minute ventilation on a non-rebreathing system', () => {
     // non-rebreathing 2-3 x minute ventilation [common practice]; 1 kg bird, minute ventilation 284 mL/min
     // (Lasiewski & Calder 1971 at 1 kg, from memory)
-    const flow = recommendFreshGas({ route: 'endotracheal', circuit: 'nonRebreathing', bodyMassG: 1000, minuteVentilationMlMin: 284 });
+    const flow = recommendFreshGas({
+      route: 'endotracheal',
+      circuit: 'nonRebreathing',
+      bodyMassG: 1000,
+      minuteVentilationMlMin: 284,
+    });
     expect(flow.minimumLpm).toBeCloseTo(0.568, 9);
     expect(flow.recommendedLpm).toBeCloseTo(0.852, 9);
     expect(flow.basis).toMatch(/2-3 x minute ventilation/);
@@ -30,47 +39,94 @@ describe('recommended fresh gas flow', () => {
 
   it('keeps a small bird at the practical floor of 0.5 L/min', () => {
     // practical floor of about 0.5-1 L/min [common practice]
-    const flow = recommendFreshGas({ route: 'mask', circuit: 'nonRebreathing', bodyMassG: 32, minuteVentilationMlMin: 20 });
+    const flow = recommendFreshGas({
+      route: 'mask',
+      circuit: 'nonRebreathing',
+      bodyMassG: 32,
+      minuteVentilationMlMin: 20,
+    });
     expect(flow.recommendedLpm).toBe(0.5);
     expect(flow.minimumLpm).toBeCloseTo(0.04, 9);
   });
 
   it('raises the flow to 500 mL/kg/min when that is higher than 3 x minute ventilation', () => {
     // 500 mL/kg/min prevents rebreathing (Massey University, Mapleson D circuits) [published]
-    const flow = recommendFreshGas({ route: 'endotracheal', circuit: 'nonRebreathing', bodyMassG: 8000, minuteVentilationMlMin: 1000 });
+    const flow = recommendFreshGas({
+      route: 'endotracheal',
+      circuit: 'nonRebreathing',
+      bodyMassG: 8000,
+      minuteVentilationMlMin: 1000,
+    });
     expect(flow.recommendedLpm).toBeCloseTo(4, 9);
     expect(flow.basis).toMatch(/Massey University/);
   });
 
   it('raises a leaking mask flow by 1 / (1 - leak)', () => {
-    const tight = recommendFreshGas({ route: 'mask', circuit: 'nonRebreathing', bodyMassG: 1000, minuteVentilationMlMin: 284 });
-    const leaky = recommendFreshGas({ route: 'mask', circuit: 'nonRebreathing', bodyMassG: 1000, minuteVentilationMlMin: 284, maskLeakFraction: 0.2 });
+    const tight = recommendFreshGas({
+      route: 'mask',
+      circuit: 'nonRebreathing',
+      bodyMassG: 1000,
+      minuteVentilationMlMin: 284,
+    });
+    const leaky = recommendFreshGas({
+      route: 'mask',
+      circuit: 'nonRebreathing',
+      bodyMassG: 1000,
+      minuteVentilationMlMin: 284,
+      maskLeakFraction: 0.2,
+    });
     expect(leaky.recommendedLpm).toBeCloseTo(tight.recommendedLpm / 0.8, 9);
     expect(leaky.rule).toMatch(/assumption/);
   });
 
   it('sets a chamber flow that reaches 95 % in the target time', () => {
     // 95 % after 3 tau (OpenAnesthesia, "Time constant"): 5 L in 5 min needs about 3 L/min
-    const flow = recommendFreshGas({ route: 'chamber', circuit: 'nonRebreathing', bodyMassG: 60, minuteVentilationMlMin: 35, chamberVolumeL: 5, chamberTargetMin: 5 });
+    const flow = recommendFreshGas({
+      route: 'chamber',
+      circuit: 'nonRebreathing',
+      bodyMassG: 60,
+      minuteVentilationMlMin: 35,
+      chamberVolumeL: 5,
+      chamberTargetMin: 5,
+    });
     expect(flow.recommendedLpm).toBeCloseTo(3, 2);
     expect(chamberTimeToFractionMin(5, flow.recommendedLpm)).toBeCloseTo(5, 9);
     expect(chamberTimeToFractionMin(5, flow.minimumLpm)).toBeCloseTo(10, 9);
   });
 
   it('asks for the chamber volume on the chamber route', () => {
-    expect(() => recommendFreshGas({ route: 'chamber', circuit: 'nonRebreathing', bodyMassG: 60, minuteVentilationMlMin: 35 })).toThrow(/chamberVolumeL/);
+    expect(() =>
+      recommendFreshGas({
+        route: 'chamber',
+        circuit: 'nonRebreathing',
+        bodyMassG: 60,
+        minuteVentilationMlMin: 35,
+      }),
+    ).toThrow(/chamberVolumeL/);
   });
 
   it('gives a circle at least the minute ventilation and a flow that follows dial changes', () => {
     // tau = volume / flow (OpenAnesthesia, "Time constant"); circle rule is an assumption of ours
-    const flow = recommendFreshGas({ route: 'endotracheal', circuit: 'circle', bodyMassG: 9000, minuteVentilationMlMin: 1500, circuitVolumeL: 6, circleTargetMin: 10 });
+    const flow = recommendFreshGas({
+      route: 'endotracheal',
+      circuit: 'circle',
+      bodyMassG: 9000,
+      minuteVentilationMlMin: 1500,
+      circuitVolumeL: 6,
+      circleTargetMin: 10,
+    });
     expect(flow.recommendedLpm).toBeCloseTo(Math.max(1.5, (-Math.log(0.05) * 6) / 10), 9);
     expect(flow.minimumLpm).toBe(0.5);
     expect(flow.kind).toBe('assumption');
   });
 
   it('treats an air-sac tube as non-rebreathing even when a circle is chosen', () => {
-    const flow = recommendFreshGas({ route: 'airSacTube', circuit: 'circle', bodyMassG: 1000, minuteVentilationMlMin: 284 });
+    const flow = recommendFreshGas({
+      route: 'airSacTube',
+      circuit: 'circle',
+      bodyMassG: 1000,
+      minuteVentilationMlMin: 284,
+    });
     expect(flow.minimumLpm).toBeCloseTo(0.568, 9);
     expect(flow.rule).toMatch(/air-sac tube/);
   });
@@ -79,23 +135,43 @@ describe('recommended fresh gas flow', () => {
 describe('rebreathing check', () => {
   it('flags a non-rebreathing system below 2 x minute ventilation and clears it above', () => {
     // non-rebreathing 2-3 x minute ventilation [common practice]
-    const low = rebreathingCheck({ circuit: 'nonRebreathing', freshGasLpm: 0.5, minuteVentilationMlMin: 300, bodyMassG: 1000 });
+    const low = rebreathingCheck({
+      circuit: 'nonRebreathing',
+      freshGasLpm: 0.5,
+      minuteVentilationMlMin: 300,
+      bodyMassG: 1000,
+    });
     expect(low.rebreathing).toBe(true);
     expect(low.flowToMinuteVentilationRatio).toBeCloseTo(0.5 / 0.3, 9);
     expect(low.reason).toMatch(/below the 2 x/);
-    const enough = rebreathingCheck({ circuit: 'nonRebreathing', freshGasLpm: 0.6, minuteVentilationMlMin: 300, bodyMassG: 1000 });
+    const enough = rebreathingCheck({
+      circuit: 'nonRebreathing',
+      freshGasLpm: 0.6,
+      minuteVentilationMlMin: 300,
+      bodyMassG: 1000,
+    });
     expect(enough.rebreathing).toBe(false);
   });
 
   it('never flags a circle, which rebreathes through its absorber by design', () => {
-    const circle = rebreathingCheck({ circuit: 'circle', freshGasLpm: 0.5, minuteVentilationMlMin: 1500, bodyMassG: 9000 });
+    const circle = rebreathingCheck({
+      circuit: 'circle',
+      freshGasLpm: 0.5,
+      minuteVentilationMlMin: 1500,
+      bodyMassG: 9000,
+    });
     expect(circle.rebreathing).toBe(false);
     expect(circle.reason).toMatch(/absorber/);
   });
 
   it('reports a flow below the practical floor separately from rebreathing', () => {
     // practical floor of about 0.5-1 L/min [common practice]
-    const tiny = rebreathingCheck({ circuit: 'nonRebreathing', freshGasLpm: 0.3, minuteVentilationMlMin: 20, bodyMassG: 30 });
+    const tiny = rebreathingCheck({
+      circuit: 'nonRebreathing',
+      freshGasLpm: 0.3,
+      minuteVentilationMlMin: 20,
+      bodyMassG: 30,
+    });
     expect(tiny.rebreathing).toBe(false);
     expect(tiny.belowPracticalFloor).toBe(true);
   });

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { cylinderContent, cylinderContentL, cylinderPresets, defaultOxygenReservePct, oxygenBudget } from '../../../app/core/budget/oxygen.js';
+import {
+  cylinderContent,
+  cylinderContentL,
+  cylinderPresets,
+  defaultOxygenReservePct,
+  oxygenBudget,
+} from '../../../app/core/budget/oxygen.js';
 
 describe('cylinder content', () => {
   it('holds a US E cylinder within its published 622-680 L', () => {
@@ -14,17 +20,26 @@ describe('cylinder content', () => {
     // metric cylinders: content (L) = water capacity (L) x pressure (bar) [derived]
     expect(cylinderContentL({ kind: 'waterCapacity', waterCapacityL: 10, pressureBar: 200 })).toBe(2000);
     expect(cylinderContentL({ kind: 'waterCapacity', waterCapacityL: 2, pressureBar: 137 })).toBe(274);
-    expect(cylinderContent({ kind: 'waterCapacity', waterCapacityL: 2, pressureBar: 137 }).kind).toBe('derived');
+    expect(cylinderContent({ kind: 'waterCapacity', waterCapacityL: 2, pressureBar: 137 }).kind).toBe(
+      'derived',
+    );
   });
 
   it('scales a preset by its gauge reading, in bar or psi', () => {
     // US E cylinder 622 L at 2000 psi [published, secondary]; content in proportion to pressure [derived]
-    expect(cylinderContentL({ kind: 'preset', presetId: 'us-e', gaugePressurePsi: 1000 })).toBeCloseTo(311, 6);
-    expect(cylinderContentL({ kind: 'preset', presetId: 'metric-10l-200bar', gaugePressureBar: 50 })).toBeCloseTo(500, 9);
+    expect(cylinderContentL({ kind: 'preset', presetId: 'us-e', gaugePressurePsi: 1000 })).toBeCloseTo(
+      311,
+      6,
+    );
+    expect(
+      cylinderContentL({ kind: 'preset', presetId: 'metric-10l-200bar', gaugePressureBar: 50 }),
+    ).toBeCloseTo(500, 9);
   });
 
   it('refuses a pressure no medical cylinder holds', () => {
-    expect(() => cylinderContentL({ kind: 'waterCapacity', waterCapacityL: 10, pressureBar: 900 })).toThrow(/pressureBar/);
+    expect(() => cylinderContentL({ kind: 'waterCapacity', waterCapacityL: 10, pressureBar: 900 })).toThrow(
+      /pressureBar/,
+    );
   });
 });
 
@@ -48,7 +63,9 @@ describe('oxygen budget', () => {
     expect(budget.usedL).toBeCloseTo(80, 9);
     expect(budget.usableL).toBeCloseTo(75, 9);
     expect(budget.suffices).toBe(false);
-    expect(oxygenBudget({ freshGasLpm: 2, durationMin: 40, cylinder: small, reservePct: 10 }).suffices).toBe(true);
+    expect(oxygenBudget({ freshGasLpm: 2, durationMin: 40, cylinder: small, reservePct: 10 }).suffices).toBe(
+      true,
+    );
   });
 
   it('sums a flow schedule and rates endurance at its highest flow', () => {

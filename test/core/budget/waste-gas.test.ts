@@ -16,16 +16,32 @@ import { ppmToMgPerM3 } from '../../../app/core/units.js';
  * independently of the closed form under test. Puffs are added as a jump at their start.
  * Returns ppm (mL per m3) at `atMin`.
  */
-function integrateRoom(releases: readonly RoomRelease[], roomVolumeM3: number, airChangesPerHour: number, atMin: number, stepMin = 0.005): number {
+function integrateRoom(
+  releases: readonly RoomRelease[],
+  roomVolumeM3: number,
+  airChangesPerHour: number,
+  atMin: number,
+  stepMin = 0.005,
+): number {
   const ventilation = (airChangesPerHour * roomVolumeM3) / 60;
   const generation = (timeMin: number): number =>
-    releases.reduce((sum, release) => (release.durationMin > 0 && timeMin >= release.startMin && timeMin < release.startMin + release.durationMin ? sum + release.vapourMl / release.durationMin : sum), 0);
-  const derivative = (timeMin: number, contentMl: number): number => generation(timeMin) - (ventilation / roomVolumeM3) * contentMl;
+    releases.reduce(
+      (sum, release) =>
+        release.durationMin > 0 &&
+        timeMin >= release.startMin &&
+        timeMin < release.startMin + release.durationMin
+          ? sum + release.vapourMl / release.durationMin
+          : sum,
+      0,
+    );
+  const derivative = (timeMin: number, contentMl: number): number =>
+    generation(timeMin) - (ventilation / roomVolumeM3) * contentMl;
   let contentMl = 0;
   let time = 0;
   const puffs = releases.filter((release) => release.durationMin === 0);
   while (time < atMin - 1e-12) {
-    for (const puff of puffs) if (puff.startMin >= time && puff.startMin < time + stepMin / 2) contentMl += puff.vapourMl;
+    for (const puff of puffs)
+      if (puff.startMin >= time && puff.startMin < time + stepMin / 2) contentMl += puff.vapourMl;
     const h = Math.min(stepMin, atMin - time);
     const k1 = derivative(time, contentMl);
     const k2 = derivative(time + h / 2, contentMl + (h / 2) * k1);
@@ -45,7 +61,13 @@ describe('ppm and mg/m3', () => {
 
   it('reports the peak in mg/m3 with the agent molecular weight', () => {
     // isoflurane MW 184.5 [published, label]
-    const exposure = wasteGasExposure({ agent: 'isoflurane', releasedVapourMl: 600, releaseDurationMin: 30, roomVolumeM3: 40, airChangesPerHour: 6 });
+    const exposure = wasteGasExposure({
+      agent: 'isoflurane',
+      releasedVapourMl: 600,
+      releaseDurationMin: 30,
+      roomVolumeM3: 40,
+      airChangesPerHour: 6,
+    });
     expect(exposure.peakMgPerM3).toBeCloseTo((exposure.peakPpm * 184.5) / 24.45, 9);
   });
 });
@@ -54,7 +76,13 @@ describe('well-mixed room', () => {
   it('approaches the analytic steady state, generation rate / ventilation rate', () => {
     // well-mixed room mass balance: steady state C = G / Q [derived]; 20 mL/min into 30 m3 at 10 air changes
     // per hour (Q = 5 m3/min) gives 4 ppm
-    const exposure = wasteGasExposure({ agent: 'isoflurane', releasedVapourMl: 20 * 600, releaseDurationMin: 600, roomVolumeM3: 30, airChangesPerHour: 10 });
+    const exposure = wasteGasExposure({
+      agent: 'isoflurane',
+      releasedVapourMl: 20 * 600,
+      releaseDurationMin: 600,
+      roomVolumeM3: 30,
+      airChangesPerHour: 10,
+    });
     expect(exposure.steadyStatePpm).toBeCloseTo(4, 12);
     expect(exposure.peakPpm).toBeCloseTo(4, 6);
     expect(exposure.highestHourMeanPpm).toBeCloseTo(4, 6);
@@ -63,7 +91,15 @@ describe('well-mixed room', () => {
 
   it('decays by e after one time constant of 60 / air changes per hour minutes', () => {
     // first-order dilution: tau = V / Q = 60 / ACH min; C falls to e^-1 after one tau [derived]
-    const exposure = wasteGasExposure({ agent: 'sevoflurane', releasedVapourMl: 300, releaseDurationMin: 20, roomVolumeM3: 50, airChangesPerHour: 6, sampleMin: 1, horizonMin: 60 });
+    const exposure = wasteGasExposure({
+      agent: 'sevoflurane',
+      releasedVapourMl: 300,
+      releaseDurationMin: 20,
+      roomVolumeM3: 50,
+      airChangesPerHour: 6,
+      sampleMin: 1,
+      horizonMin: 60,
+    });
     expect(exposure.timeConstantMin).toBe(10);
     const atEnd = exposure.timeline.find((sample) => sample.atMin === 20)?.ppm ?? Number.NaN;
     const oneTauLater = exposure.timeline.find((sample) => sample.atMin === 30)?.ppm ?? Number.NaN;
@@ -97,7 +133,13 @@ describe('well-mixed room', () => {
 
   it('stays below the 2 ppm ceiling for a small release in a well-ventilated room', () => {
     // NIOSH 1977 (Pub. 77-140): 2 ppm ceiling for halogenated agents over up to 1 h [published]
-    const exposure = wasteGasExposure({ agent: 'isoflurane', releasedVapourMl: 100, releaseDurationMin: 60, roomVolumeM3: 60, airChangesPerHour: 12 });
+    const exposure = wasteGasExposure({
+      agent: 'isoflurane',
+      releasedVapourMl: 100,
+      releaseDurationMin: 60,
+      roomVolumeM3: 60,
+      airChangesPerHour: 12,
+    });
     expect(exposure.ceilingPpm).toBe(nioshCeilingPpm.value);
     expect(exposure.ceilingPpm).toBe(2);
     expect(exposure.exceedsCeiling).toBe(false);
@@ -106,7 +148,15 @@ describe('well-mixed room', () => {
   });
 
   it('refuses a room with no air change', () => {
-    expect(() => wasteGasExposure({ agent: 'isoflurane', releasedVapourMl: 100, releaseDurationMin: 60, roomVolumeM3: 60, airChangesPerHour: 0 })).toThrow(/airChangesPerHour/);
+    expect(() =>
+      wasteGasExposure({
+        agent: 'isoflurane',
+        releasedVapourMl: 100,
+        releaseDurationMin: 60,
+        roomVolumeM3: 60,
+        airChangesPerHour: 0,
+      }),
+    ).toThrow(/airChangesPerHour/);
   });
 });
 
@@ -118,7 +168,14 @@ describe('release to the room', () => {
   ];
 
   it('sends all delivered vapour to the room without scavenging', () => {
-    const release = wasteGasRelease({ agent: 'isoflurane', route: 'endotracheal', schedule, freshGasLpm: 1, endMin: 60, scavenging: false });
+    const release = wasteGasRelease({
+      agent: 'isoflurane',
+      route: 'endotracheal',
+      schedule,
+      freshGasLpm: 1,
+      endMin: 60,
+      scavenging: false,
+    });
     const delivered = vapourMlForSchedule({ agent: 'isoflurane', schedule, freshGasLpm: 1, endMin: 60 });
     expect(release.deliveredVapourMl).toBeCloseTo(delivered, 9);
     expect(release.releasedVapourMl).toBeCloseTo(delivered, 9);
@@ -126,12 +183,31 @@ describe('release to the room', () => {
 
   it('lets the uncaptured share of the exhaust through with scavenging', () => {
     // capture fraction 0.8 is an assumption informed by Friembichler et al. 2011 (11.2 vs 2.0 ppm)
-    const release = wasteGasRelease({ agent: 'isoflurane', route: 'endotracheal', schedule, freshGasLpm: 1, endMin: 60, scavenging: true });
-    expect(release.releasedVapourMl).toBeCloseTo(release.deliveredVapourMl * (1 - defaultScavengingCaptureFraction.value), 9);
+    const release = wasteGasRelease({
+      agent: 'isoflurane',
+      route: 'endotracheal',
+      schedule,
+      freshGasLpm: 1,
+      endMin: 60,
+      scavenging: true,
+    });
+    expect(release.releasedVapourMl).toBeCloseTo(
+      release.deliveredVapourMl * (1 - defaultScavengingCaptureFraction.value),
+      9,
+    );
   });
 
   it('never scavenges the mask leak or the chamber contents', () => {
-    const mask = wasteGasRelease({ agent: 'isoflurane', route: 'mask', schedule, freshGasLpm: 1, endMin: 60, scavenging: true, scavengingCaptureFraction: 1, maskLeakFraction: 0.3 });
+    const mask = wasteGasRelease({
+      agent: 'isoflurane',
+      route: 'mask',
+      schedule,
+      freshGasLpm: 1,
+      endMin: 60,
+      scavenging: true,
+      scavengingCaptureFraction: 1,
+      maskLeakFraction: 0.3,
+    });
     expect(mask.releasedVapourMl).toBeCloseTo(0.3 * mask.deliveredVapourMl, 9);
     const chamber = wasteGasRelease({
       agent: 'isoflurane',

@@ -56,7 +56,8 @@ describe('bird trachea against the mammalian trachea', () => {
     expect(birdExponent).toBeCloseTo(1.09, 6); // Hinds & Calder 1971, from memory
     expect(Math.abs(birdExponent - mammalExponent)).toBeLessThan(0.05);
     // Over the clinic's whole range the ratio drifts by 1000^(1.09 - 1.05) = 1.32 at most.
-    const drift = trachealVolumeMl(10_000) / 10_000 ** mammalExponent / (trachealVolumeMl(10) / 10 ** mammalExponent);
+    const drift =
+      trachealVolumeMl(10_000) / 10_000 ** mammalExponent / (trachealVolumeMl(10) / 10 ** mammalExponent);
     expect(drift).toBeGreaterThan(1);
     expect(drift).toBeLessThan(1.35);
     // The level of the ratio (4.49 at equal mass) needs a mammalian tracheal-volume coefficient,
@@ -83,7 +84,11 @@ describe('dead space against the chicken measurement', () => {
 
 describe('measured overrides', () => {
   it('replace the estimate and are marked measured', () => {
-    const estimates = estimateRespiratory(400, { tidalVolumeMl: 7.5, breathsPerMin: 20, trachealVolumeMl: 1.1 });
+    const estimates = estimateRespiratory(400, {
+      tidalVolumeMl: 7.5,
+      breathsPerMin: 20,
+      trachealVolumeMl: 1.1,
+    });
     expect(estimates.tidalVolumeMl).toEqual({ value: 7.5, basis: 'measured' });
     expect(estimates.breathsPerMin).toEqual({ value: 20, basis: 'measured' });
     expect(estimates.trachealDeadSpaceMl).toEqual({ value: 1.1, basis: 'measured' });
@@ -112,6 +117,9 @@ describe('volumes from body-volume fractions', () => {
     expect(estimates.airSacVolumeMl.value).toBeLessThanOrEqual(150);
     expect(estimates.lungVolumeMl.value).toBeGreaterThanOrEqual(10);
     expect(estimates.lungVolumeMl.value).toBeLessThanOrEqual(30);
-    expect(estimates.anteriorSacsMl.value + estimates.posteriorSacsMl.value).toBeCloseTo(estimates.airSacVolumeMl.value, 10);
+    expect(estimates.anteriorSacsMl.value + estimates.posteriorSacsMl.value).toBeCloseTo(
+      estimates.airSacVolumeMl.value,
+      10,
+    );
   });
 });

@@ -17,12 +17,22 @@ describe('computePlan', () => {
     const plan: PlanInput = { ...duckPlan, uncertainty: { samples: 30, seed: 9 } };
     expect(computePlan(plan, tables)).toEqual(computePlan(plan, tables));
   });
-  it('uses the species\' published MAC with its source, else the agent default labelled assumption', () => {
+  it("uses the species' published MAC with its source, else the agent default labelled assumption", () => {
     const duck = computePlan({ ...duckPlan, speciesId: 'pekin-duck' }, tables);
     // Pekin duck isoflurane MAC 1.30 +/- 0.23 % (Ludders, Mitchell & Rode 1990, Vet Surg 19) [published]
     expect(duck.mac.valuePct).toBe(1.3);
     expect(duck.mac.basis).toContain('Ludders');
-    const unknown = computePlan({ ...duckPlan, agent: 'desflurane', schedule: [{ atMin: 0, vaporPct: 8 }, { atMin: 30, vaporPct: 0 }] }, tables);
+    const unknown = computePlan(
+      {
+        ...duckPlan,
+        agent: 'desflurane',
+        schedule: [
+          { atMin: 0, vaporPct: 8 },
+          { atMin: 30, vaporPct: 0 },
+        ],
+      },
+      tables,
+    );
     expect(unknown.mac.basis).toContain('Assumption');
     const entered = computePlan({ ...duckPlan, macPct: 1.5 }, tables);
     expect(entered.mac).toEqual({ valuePct: 1.5, basis: 'entered for this bird' });
@@ -34,7 +44,10 @@ describe('computePlan', () => {
   });
   it('flags a likely unit slip (12 kg entered for a 12 g zebra finch)', () => {
     // Zebra finch typical mass 10-16 g [common practice]
-    const result = computePlan({ ...twoHourBudgerigarPlan, speciesId: 'zebra-finch', bodyMassG: 12000 }, tables);
+    const result = computePlan(
+      { ...twoHourBudgerigarPlan, speciesId: 'zebra-finch', bodyMassG: 12000 },
+      tables,
+    );
     expect(result.cautions.map((caution) => caution.code)).toContain('mass-unit-slip');
   });
   it('warns when a non-rebreathing flow is far too low and the model rebreathes', () => {
@@ -44,11 +57,20 @@ describe('computePlan', () => {
   });
   it('reports the chamber time to 95 % as 3 time constants', () => {
     // tau = V / FGF; 95 % at 3 tau (OpenAnesthesia, "Time constant") [published; derived]: 4 L at 2 L/min -> 6.0 min
-    const result = computePlan({ ...twoHourBudgerigarPlan, route: 'chamber', chamberVolumeL: 4, freshGasLpm: 2 }, tables);
+    const result = computePlan(
+      { ...twoHourBudgerigarPlan, route: 'chamber', chamberVolumeL: 4, freshGasLpm: 2 },
+      tables,
+    );
     expect(result.flows.chamberTimeTo95Min ?? 0).toBeCloseTo(5.99, 1);
   });
   it('counts the vaporiser as off from the first of the trailing zero steps', () => {
-    expect(vaporiserOffMin([{ atMin: 0, vaporPct: 3 }, { atMin: 20, vaporPct: 0 }, { atMin: 30, vaporPct: 0 }])).toBe(20);
+    expect(
+      vaporiserOffMin([
+        { atMin: 0, vaporPct: 3 },
+        { atMin: 20, vaporPct: 0 },
+        { atMin: 30, vaporPct: 0 },
+      ]),
+    ).toBe(20);
     expect(vaporiserOffMin([{ atMin: 0, vaporPct: 3 }])).toBeNull();
     expect(vaporiserOffMin([{ atMin: 0, vaporPct: 0 }])).toBeNull();
   });
@@ -70,7 +92,10 @@ describe('validation against clinical observations', () => {
   it('puts isoflurane recovery of small psittacines after 45 min near the usual 5-10 min', () => {
     // Isoflurane recovery usually 5-10 min in small psittacines [common practice]. The model's p5-p95 band
     // must overlap it; the point prediction (4-5 min) sits at the low end (see docs/model.md, validation).
-    for (const [massG, speciesId] of [[32, 'budgerigar'], [95, 'cockatiel']] as const) {
+    for (const [massG, speciesId] of [
+      [32, 'budgerigar'],
+      [95, 'cockatiel'],
+    ] as const) {
       const result = computePlan(
         {
           bodyMassG: massG,
@@ -78,7 +103,11 @@ describe('validation against clinical observations', () => {
           agent: 'isoflurane',
           route: 'endotracheal',
           freshGasLpm: 1,
-          schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 5, vaporPct: 2 }, { atMin: 45, vaporPct: 0 }],
+          schedule: [
+            { atMin: 0, vaporPct: 4 },
+            { atMin: 5, vaporPct: 2 },
+            { atMin: 45, vaporPct: 0 },
+          ],
           uncertainty: { samples: 100, seed: 1 },
         },
         tables,

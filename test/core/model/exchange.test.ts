@@ -45,7 +45,13 @@ describe('a well-mixed volume without uptake', () => {
     const tauMin = chamberMl / flowMlMin;
     const samples: { timeMin: number; inspired: number }[] = [];
     const setup: SimulationSetup = {
-      gasPath: { trachealVolumeMl: 0.03, lungVolumeMl: 0.2, anteriorSacsMl: 0.5, posteriorSacsMl: 0.6, posteriorShare: 0.55 },
+      gasPath: {
+        trachealVolumeMl: 0.03,
+        lungVolumeMl: 0.2,
+        anteriorSacsMl: 0.5,
+        posteriorSacsMl: 0.6,
+        posteriorShare: 0.55,
+      },
       body: {
         bloodGasPartition: 0,
         bloodVolumeMl: 1,
@@ -55,8 +61,22 @@ describe('a well-mixed volume without uptake', () => {
           { volumeMl: 1, flowMlMin: 0.3, tissueBloodPartition: 45 },
         ],
       },
-      delivery: { source: 'mixed', freshGasMlMin: flowMlMin, mixedVolumeMl: chamberMl, rebreathingFlowMultiple: 2, interface: 'direct', maskDeadSpaceMl: 0, maskLeakFraction: 0 },
-      ventilation: { restingTidalVolumeMl: 0.1, restingBreathsPerMin: 60, depressionSlope: 0, depressionFloor: 1, ippv: null },
+      delivery: {
+        source: 'mixed',
+        freshGasMlMin: flowMlMin,
+        mixedVolumeMl: chamberMl,
+        rebreathingFlowMultiple: 2,
+        interface: 'direct',
+        maskDeadSpaceMl: 0,
+        maskLeakFraction: 0,
+      },
+      ventilation: {
+        restingTidalVolumeMl: 0.1,
+        restingBreathsPerMin: 60,
+        depressionSlope: 0,
+        depressionFloor: 1,
+        ippv: null,
+      },
       schedule: [{ atMin: 0, vaporPct: 4 }],
       endMin: 3 * tauMin + 0.1,
       macPct: 1.3,
@@ -65,7 +85,8 @@ describe('a well-mixed volume without uptake', () => {
       offMin: null,
       sampleIntervalMin: 1,
       onPhase: (snapshot) => {
-        if (snapshot.phase === 'inspiration') samples.push({ timeMin: snapshot.timeMin, inspired: snapshot.inspiredFraction });
+        if (snapshot.phase === 'inspiration')
+          samples.push({ timeMin: snapshot.timeMin, inspired: snapshot.inspiredFraction });
       },
     };
     simulate(setup);

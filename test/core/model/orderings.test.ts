@@ -25,7 +25,10 @@ describe('agent ordering', () => {
       ...cockatiel,
       agent: 'sevoflurane',
       macPct: sevoMac,
-      schedule: cockatiel.schedule.map((step) => ({ atMin: step.atMin, vaporPct: (step.vaporPct * sevoMac) / isoMac })),
+      schedule: cockatiel.schedule.map((step) => ({
+        atMin: step.atMin,
+        vaporPct: (step.vaporPct * sevoMac) / isoMac,
+      })),
     });
     expect(isoflurane.inductionMin).not.toBeNull();
     expect(isoflurane.recoveryMin).not.toBeNull();
@@ -38,7 +41,14 @@ describe('recovery ordering', () => {
   it('lengthens recovery with a higher maintenance dial setting', () => {
     const recoveries = [1.5, 2, 2.5, 3].map(
       (maintenance) =>
-        runPlan({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: maintenance }, { atMin: 60, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
+        runPlan({
+          ...cockatiel,
+          schedule: [
+            { atMin: 0, vaporPct: 4 },
+            { atMin: 10, vaporPct: maintenance },
+            { atMin: 60, vaporPct: 0 },
+          ],
+        }).recoveryMin ?? Number.NaN,
     );
     for (let index = 1; index < recoveries.length; index += 1) {
       expect(recoveries[index]).toBeGreaterThan(recoveries[index - 1] as number);
@@ -46,7 +56,15 @@ describe('recovery ordering', () => {
   });
   it('lengthens recovery with a longer maintenance', () => {
     const recoveries = [20, 60, 180].map(
-      (offMin) => runPlan({ ...cockatiel, schedule: [{ atMin: 0, vaporPct: 4 }, { atMin: 10, vaporPct: 2 }, { atMin: offMin, vaporPct: 0 }] }).recoveryMin ?? Number.NaN,
+      (offMin) =>
+        runPlan({
+          ...cockatiel,
+          schedule: [
+            { atMin: 0, vaporPct: 4 },
+            { atMin: 10, vaporPct: 2 },
+            { atMin: offMin, vaporPct: 0 },
+          ],
+        }).recoveryMin ?? Number.NaN,
     );
     for (let index = 1; index < recoveries.length; index += 1) {
       expect(recoveries[index]).toBeGreaterThan(recoveries[index - 1] as number);
@@ -59,7 +77,16 @@ describe('chamber ordering', () => {
     // tau = V / FGF (OpenAnesthesia, "Time constant"): more flow, faster chamber, faster induction
     const inductions = [0.5, 1, 2, 4].map(
       (freshGasLpm) =>
-        runPlan({ ...cockatiel, route: 'chamber', chamberVolumeL: 4, freshGasLpm, schedule: [{ atMin: 0, vaporPct: 5 }, { atMin: 30, vaporPct: 0 }] }).inductionMin ?? Number.NaN,
+        runPlan({
+          ...cockatiel,
+          route: 'chamber',
+          chamberVolumeL: 4,
+          freshGasLpm,
+          schedule: [
+            { atMin: 0, vaporPct: 5 },
+            { atMin: 30, vaporPct: 0 },
+          ],
+        }).inductionMin ?? Number.NaN,
     );
     for (let index = 1; index < inductions.length; index += 1) {
       expect(inductions[index]).toBeLessThan(inductions[index - 1] as number);
@@ -70,7 +97,16 @@ describe('chamber ordering', () => {
 describe('rebreathing', () => {
   it('slows induction on a non-rebreathing system when the flow is far below twice the minute ventilation', () => {
     // Non-rebreathing flow 2-3 x minute ventilation [common practice]
-    const duck: PlanInput = { bodyMassG: 2400, agent: 'isoflurane', route: 'endotracheal', freshGasLpm: 2, schedule: [{ atMin: 0, vaporPct: 3 }, { atMin: 60, vaporPct: 0 }] };
+    const duck: PlanInput = {
+      bodyMassG: 2400,
+      agent: 'isoflurane',
+      route: 'endotracheal',
+      freshGasLpm: 2,
+      schedule: [
+        { atMin: 0, vaporPct: 3 },
+        { atMin: 60, vaporPct: 0 },
+      ],
+    };
     const ample = runPlan(duck);
     const starved = runPlan({ ...duck, freshGasLpm: 0.2 });
     expect(starved.inductionMin ?? Infinity).toBeGreaterThan(ample.inductionMin ?? Infinity);

@@ -1,11 +1,19 @@
 import { estimateRespiratory } from '../../../app/core/model/allometry.js';
 import { buildSimulationSetup, resolveMac } from '../../../app/core/model/compute-plan.js';
 import type { PlanInput } from '../../../app/core/model/plan-types.js';
-import { simulate, type SimulationOutcome, type SimulationSetup } from '../../../app/core/model/simulation.js';
+import {
+  simulate,
+  type SimulationOutcome,
+  type SimulationSetup,
+} from '../../../app/core/model/simulation.js';
 
 /** The simulation set-up of a plan, from its mass and any measured overrides, without a species table. */
 export function setupFor(plan: PlanInput): SimulationSetup {
-  return buildSimulationSetup(plan, estimateRespiratory(plan.bodyMassG, plan.overrides ?? {}), resolveMac(plan, undefined));
+  return buildSimulationSetup(
+    plan,
+    estimateRespiratory(plan.bodyMassG, plan.overrides ?? {}),
+    resolveMac(plan, undefined),
+  );
 }
 
 /** Runs the breath-resolved simulation of a plan (see setupFor). */

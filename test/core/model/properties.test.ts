@@ -9,9 +9,16 @@ import { runPlan } from './plan-fixtures.js';
 
 const planArbitrary: fc.Arbitrary<PlanInput> = fc
   .record({
-    bodyMassG: fc.double({ min: Math.log(10), max: Math.log(10000), noNaN: true }).map((log) => Math.round(Math.exp(log))),
+    bodyMassG: fc
+      .double({ min: Math.log(10), max: Math.log(10000), noNaN: true })
+      .map((log) => Math.round(Math.exp(log))),
     agent: fc.constantFrom('isoflurane' as const, 'sevoflurane' as const, 'desflurane' as const),
-    route: fc.constantFrom('mask' as const, 'chamber' as const, 'endotracheal' as const, 'airSacTube' as const),
+    route: fc.constantFrom(
+      'mask' as const,
+      'chamber' as const,
+      'endotracheal' as const,
+      'airSacTube' as const,
+    ),
     circle: fc.boolean(),
     freshGasLpm: fc.double({ min: 0.1, max: 5, noNaN: true }),
     induction: fc.double({ min: 0.5, max: 6, noNaN: true }),
@@ -21,7 +28,8 @@ const planArbitrary: fc.Arbitrary<PlanInput> = fc
     ippv: fc.boolean(),
   })
   .map((draw): PlanInput => {
-    const circuit = draw.circle && draw.route !== 'airSacTube' && draw.route !== 'chamber' ? 'circle' : 'nonRebreathing';
+    const circuit =
+      draw.circle && draw.route !== 'airSacTube' && draw.route !== 'chamber' ? 'circle' : 'nonRebreathing';
     const tidal = estimateRespiratory(draw.bodyMassG).tidalVolumeMl.value;
     const canVentilate = draw.route === 'endotracheal' || draw.route === 'airSacTube';
     return {
@@ -30,7 +38,10 @@ const planArbitrary: fc.Arbitrary<PlanInput> = fc
       route: draw.route,
       circuit,
       // An air-sac tube carries a small flow (it all passes through the bird).
-      freshGasLpm: draw.route === 'airSacTube' ? Math.min(draw.freshGasLpm, (draw.bodyMassG / 1000) * 0.5 + 0.05) : draw.freshGasLpm,
+      freshGasLpm:
+        draw.route === 'airSacTube'
+          ? Math.min(draw.freshGasLpm, (draw.bodyMassG / 1000) * 0.5 + 0.05)
+          : draw.freshGasLpm,
       ...(draw.route === 'chamber' ? { chamberVolumeL: 2 } : {}),
       ...(circuit === 'circle' ? { circuitVolumeL: 3 } : {}),
       schedule: [
@@ -39,11 +50,23 @@ const planArbitrary: fc.Arbitrary<PlanInput> = fc
         { atMin: draw.offMin, vaporPct: 0 },
       ],
       recoveryWindowMin: 10,
-      ...(draw.ippv && canVentilate ? { ventilation: { mode: 'ippv' as const, breathsPerMin: 10, tidalVolumeMl: Math.max(0.05, tidal) } } : {}),
+      ...(draw.ippv && canVentilate
+        ? { ventilation: { mode: 'ippv' as const, breathsPerMin: 10, tidalVolumeMl: Math.max(0.05, tidal) } }
+        : {}),
     };
   });
 
-const channels = ['inspiredPct', 'tracheaPct', 'posteriorSacsPct', 'parabronchialPct', 'anteriorSacsPct', 'arterialPct', 'brainPct', 'musclePct', 'fatPct'] as const;
+const channels = [
+  'inspiredPct',
+  'tracheaPct',
+  'posteriorSacsPct',
+  'parabronchialPct',
+  'anteriorSacsPct',
+  'arterialPct',
+  'brainPct',
+  'musclePct',
+  'fatPct',
+] as const;
 
 describe('properties over valid plans', () => {
   it('generates only plans the contract accepts', () => {
@@ -64,7 +87,8 @@ describe('properties over valid plans', () => {
         const bad: string[] = [];
         for (const channel of channels) {
           outcome.timeline[channel].forEach((value, index) => {
-            if (!Number.isFinite(value) || value < -1e-12 || value > ceiling * (1 + 1e-9) + 1e-12) bad.push(`${channel}[${String(index)}] = ${String(value)}`);
+            if (!Number.isFinite(value) || value < -1e-12 || value > ceiling * (1 + 1e-9) + 1e-12)
+              bad.push(`${channel}[${String(index)}] = ${String(value)}`);
           });
         }
         expect(bad).toEqual([]);
@@ -77,7 +101,10 @@ describe('properties over valid plans', () => {
   it('is monotone in the dial setting: a higher schedule never gives a lower brain partial pressure', () => {
     fc.assert(
       fc.property(planArbitrary, fc.double({ min: 1.05, max: 2, noNaN: true }), (plan, factor) => {
-        const higher = { ...plan, schedule: plan.schedule.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct * factor })) };
+        const higher = {
+          ...plan,
+          schedule: plan.schedule.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct * factor })),
+        };
         const low = runPlan(plan).timeline;
         const high = runPlan(higher).timeline;
         // Body groups only: a deeper bird breathes less (depression), so its air sacs may fill more
@@ -86,7 +113,8 @@ describe('properties over valid plans', () => {
         for (const channel of ['brainPct', 'musclePct', 'fatPct'] as const) {
           low[channel].forEach((value, index) => {
             const raised = high[channel][index] ?? Number.NaN;
-            if (!(raised >= value * (1 - 1e-9) - 1e-12)) bad.push(`${channel}[${String(index)}]: ${String(raised)} < ${String(value)}`);
+            if (!(raised >= value * (1 - 1e-9) - 1e-12))
+              bad.push(`${channel}[${String(index)}]: ${String(raised)} < ${String(value)}`);
           });
         }
         expect(bad).toEqual([]);
@@ -114,7 +142,12 @@ const anyPlanArbitrary = fc
       ),
       agent: fc.constantFrom('isoflurane' as const, 'sevoflurane' as const, 'desflurane' as const),
       macPct: fc.double({ min: 0.1, max: 15, noNaN: true }),
-      route: fc.constantFrom('mask' as const, 'chamber' as const, 'endotracheal' as const, 'airSacTube' as const),
+      route: fc.constantFrom(
+        'mask' as const,
+        'chamber' as const,
+        'endotracheal' as const,
+        'airSacTube' as const,
+      ),
       circuit: fc.constantFrom('nonRebreathing' as const, 'circle' as const),
       freshGasLpm: fc.double({ min: 0.05, max: 20, noNaN: true }),
       chamberVolumeL: fc.double({ min: 0.1, max: 100, noNaN: true }),
@@ -141,7 +174,14 @@ const anyPlanArbitrary = fc
     },
     { requiredKeys: ['bodyMassG', 'agent', 'route', 'freshGasLpm', 'dial', 'offMin'] },
   )
-  .map(({ dial, offMin, ...rest }) => ({ ...rest, schedule: [{ atMin: 0, vaporPct: dial }, { atMin: offMin, vaporPct: 0 }], uncertainty: { samples: 5, seed: 1 } }))
+  .map(({ dial, offMin, ...rest }) => ({
+    ...rest,
+    schedule: [
+      { atMin: 0, vaporPct: dial },
+      { atMin: offMin, vaporPct: 0 },
+    ],
+    uncertainty: { samples: 5, seed: 1 },
+  }))
   .filter((plan) => planInputSchema.safeParse(plan).success);
 
 describe('any plan the contract accepts', () => {

@@ -10,9 +10,16 @@ type OdexSolver = {
   absoluteTolerance: number;
   relativeTolerance: number;
   maxSteps: number;
-  solve(derivative: (x: number, y: number[]) => number[], x0: number, y0: number[], x1: number): { y: number[]; outcome: number };
+  solve(
+    derivative: (x: number, y: number[]) => number[],
+    x0: number,
+    y0: number[],
+    x1: number,
+  ): { y: number[]; outcome: number };
 };
-const { Solver } = createRequire(import.meta.url)('odex') as { Solver: new (dimension: number) => OdexSolver };
+const { Solver } = createRequire(import.meta.url)('odex') as {
+  Solver: new (dimension: number) => OdexSolver;
+};
 
 describe('body uptake against an independent ODE solver (odex, Gragg-Bulirsch-Stoer)', () => {
   // Plan: a 95 g cockatiel on isoflurane; arterial blood held at 1.6 % for 40 min, then 0 for 30 min.
@@ -38,10 +45,15 @@ describe('body uptake against an independent ODE solver (odex, Gragg-Bulirsch-St
         const from = boundaries[index - 1] as number;
         const to = boundaries[index] as number;
         const arterial = arterialAt((from + to) / 2);
-        state = solver.solve((_x, y) => {
-          bodyUptakeDerivatives(body, arterial, y, derivative);
-          return [...derivative];
-        }, from, state, to).y;
+        state = solver.solve(
+          (_x, y) => {
+            bodyUptakeDerivatives(body, arterial, y, derivative);
+            return [...derivative];
+          },
+          from,
+          state,
+          to,
+        ).y;
       }
       time = checkpoint;
       results.push([...state]);
@@ -80,7 +92,9 @@ describe('body uptake against an independent ODE solver (odex, Gragg-Bulirsch-St
         const actual = model[rowIndex]?.[column] ?? Number.NaN;
         // Requirement of the model issue: agree within 0.5 % (relative to the value, floor of 1e-7 absolute)
         if (Math.abs(actual - expected) > 0.005 * Math.abs(expected) + 1e-7) {
-          worst.push(`${names[column] ?? '?'} at ${String(checkpoints[rowIndex])} min: model ${String(actual)} vs odex ${String(expected)}`);
+          worst.push(
+            `${names[column] ?? '?'} at ${String(checkpoints[rowIndex])} min: model ${String(actual)} vs odex ${String(expected)}`,
+          );
         }
       });
     });

@@ -42,7 +42,10 @@ describe('uncertainty of the milestones', () => {
 
   it('is reproducible for a seed', () => {
     expect(computePlan(plan, { species: speciesReference }).uncertainty).toEqual(result.uncertainty);
-    const other = computePlan({ ...plan, uncertainty: { samples: 150, seed: 6 } }, { species: speciesReference }).uncertainty;
+    const other = computePlan(
+      { ...plan, uncertainty: { samples: 150, seed: 6 } },
+      { species: speciesReference },
+    ).uncertainty;
     expect(other.inductionMin).not.toEqual(result.uncertainty.inductionMin);
   });
   it('orders p5 <= p50 <= p95 and brackets the deterministic prediction', () => {
@@ -82,17 +85,25 @@ describe('uncertainty band on the brain curve', () => {
     expect(band.p95).toHaveLength(result.timeline.timeMin.length);
     expect(band.p5[0]).toBe(0);
     band.p5.forEach((low, index) => expect(low).toBeLessThanOrEqual((band.p95[index] as number) + 1e-9));
-    expect(Math.max(...band.p95.map((high, index) => high - (band.p5[index] as number)))).toBeGreaterThan(0.05);
+    expect(Math.max(...band.p95.map((high, index) => high - (band.p5[index] as number)))).toBeGreaterThan(
+      0.05,
+    );
   });
 
   it('contains the drawn brain curve at nearly every point', () => {
     if (band === null) return;
-    const inside = result.timeline.brainPct.filter((value, index) => value >= (band.p5[index] as number) - 1e-6 && value <= (band.p95[index] as number) + 1e-6).length;
+    const inside = result.timeline.brainPct.filter(
+      (value, index) =>
+        value >= (band.p5[index] as number) - 1e-6 && value <= (band.p95[index] as number) + 1e-6,
+    ).length;
     expect(inside / result.timeline.brainPct.length).toBeGreaterThan(0.95);
   });
 
   it('is absent when no samples are asked for', () => {
-    const quick = computePlan({ ...plan, uncertainty: { samples: 0, seed: 3 } }, { species: speciesReference });
+    const quick = computePlan(
+      { ...plan, uncertainty: { samples: 0, seed: 3 } },
+      { species: speciesReference },
+    );
     expect(quick.uncertainty.brainBandPct).toBeNull();
   });
 });

@@ -14,7 +14,10 @@ const plan: PlanInput = {
   route: 'chamber',
   chamberVolumeL: 2.5,
   freshGasLpm: 1.5,
-  schedule: [{ atMin: 0, vaporPct: 3 }, { atMin: 20, vaporPct: 0 }],
+  schedule: [
+    { atMin: 0, vaporPct: 3 },
+    { atMin: 20, vaporPct: 0 },
+  ],
   uncertainty: { samples: 0, seed: 1 },
 };
 
@@ -30,7 +33,12 @@ describe('unit conversions of the model against convert-units', () => {
     const setup = setupFor(plan);
     const mlPerMin = convert(plan.freshGasLpm).from('l/min').to('ml/s') * convert(1).from('min').to('s');
     expect(setup.delivery.freshGasMlMin).toBeCloseTo(mlPerMin, 9);
-    expect(setup.delivery.mixedVolumeMl).toBeCloseTo(convert(plan.chamberVolumeL ?? 0).from('l').to('ml'), 9);
+    expect(setup.delivery.mixedVolumeMl).toBeCloseTo(
+      convert(plan.chamberVolumeL ?? 0)
+        .from('l')
+        .to('ml'),
+      9,
+    );
   });
   it('reports oxygen litres as litres per minute times minutes', () => {
     const result = computePlan(plan, { species: [] });

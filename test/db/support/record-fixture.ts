@@ -20,15 +20,23 @@ export function fixtureFolder(): Fixture {
 
 /** One patient with a current version and one procedure record; returns the record id. */
 export function addPatientAndRecord(db: TidewingDatabase, name = 'Kiwi'): number {
-  const patientId = Number(db.prepare('INSERT INTO patients (created_at) VALUES (?)').run(enteredAt).lastInsertRowid);
+  const patientId = Number(
+    db.prepare('INSERT INTO patients (created_at) VALUES (?)').run(enteredAt).lastInsertRowid,
+  );
   const versionId = Number(
     db
-      .prepare("INSERT INTO patient_versions (patient_id, name, species_key, sex, entered_at, entered_by) VALUES (?, ?, 'budgerigar', 'female', ?, 'AB')")
+      .prepare(
+        "INSERT INTO patient_versions (patient_id, name, species_key, sex, entered_at, entered_by) VALUES (?, ?, 'budgerigar', 'female', ?, 'AB')",
+      )
       .run(patientId, name, enteredAt).lastInsertRowid,
   );
   db.prepare('INSERT INTO patient_current (patient_id, version_id) VALUES (?, ?)').run(patientId, versionId);
   db.prepare('INSERT INTO patient_search (rowid, search_text) VALUES (?, ?)').run(patientId, name);
-  const recordId = Number(db.prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)').run(patientId, enteredAt).lastInsertRowid);
+  const recordId = Number(
+    db
+      .prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)')
+      .run(patientId, enteredAt).lastInsertRowid,
+  );
   db.prepare(
     "INSERT INTO procedure_record_versions (record_id, started_at, procedure_name, airway, circuit, staff_initials, entered_at, entered_by) VALUES (?, ?, 'Wing radiograph', 'mask', 'nonRebreathing', 'AB', ?, 'AB')",
   ).run(recordId, enteredAt, enteredAt);
@@ -41,7 +49,8 @@ export function addEntries(db: TidewingDatabase, recordId: number, count: number
     "INSERT INTO procedure_entries (record_id, at, kind, vapor_pct, oxygen_lpm, heart_rate_per_min, breaths_per_min, entered_at, entered_by) VALUES (?, ?, 'vitals', 2.5, 1, 300, 30, ?, 'AB')",
   );
   const ids: number[] = [];
-  for (let index = 0; index < count; index += 1) ids.push(Number(insert.run(recordId, enteredAt, enteredAt).lastInsertRowid));
+  for (let index = 0; index < count; index += 1)
+    ids.push(Number(insert.run(recordId, enteredAt, enteredAt).lastInsertRowid));
   return ids;
 }
 
@@ -59,7 +68,8 @@ export function fixtureWithEntries(entries: number): Fixture & { readonly entryI
   }
 }
 
-export const sha256 = (file: string): string => crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
+export const sha256 = (file: string): string =>
+  crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex');
 
 export const listing = (folder: string): string[] => fs.readdirSync(folder).sort();
 

@@ -1,8 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { clockText, formatElapsed, fromLocalInputValue, resolveClockTime, toLocalInputValue } from '../../../app/ui/records/clock-time.js';
+import {
+  clockText,
+  formatElapsed,
+  fromLocalInputValue,
+  resolveClockTime,
+  toLocalInputValue,
+} from '../../../app/ui/records/clock-time.js';
 
 // Times are built on the local clock so the checks hold in any time zone.
-const at = (day: number, hours: number, minutes: number, seconds = 0) => new Date(2026, 2, day, hours, minutes, seconds);
+const at = (day: number, hours: number, minutes: number, seconds = 0) =>
+  new Date(2026, 2, day, hours, minutes, seconds);
 
 function resolved(text: string, now: Date, reference?: Date): Date {
   const result = resolveClockTime(text, now, reference);

@@ -16,7 +16,10 @@ import {
 const minute = 60_000;
 const start = Date.parse('2026-03-10T09:00:00.000Z');
 
-function event(eventType: ProcedureEntryValues['eventType'], minutes: number): { values: ProcedureEntryValues } {
+function event(
+  eventType: ProcedureEntryValues['eventType'],
+  minutes: number,
+): { values: ProcedureEntryValues } {
   return {
     values: {
       at: new Date(start + minutes * minute).toISOString(),
@@ -52,7 +55,11 @@ describe('reminder to log vitals', () => {
   it('counts from the latest vitals row whatever order the rows come in', () => {
     const rows = [start + 3 * minute, start + 1 * minute];
     expect(promptState(start, rows, start + 7 * minute, 5).due).toBe(false);
-    expect(promptState(start, rows, start + 8 * minute, 5)).toEqual({ due: true, sinceLastMin: 5, dueAtMs: start + 8 * minute });
+    expect(promptState(start, rows, start + 8 * minute, 5)).toEqual({
+      due: true,
+      sinceLastMin: 5,
+      dueAtMs: start + 8 * minute,
+    });
   });
 
   it('follows an edited interval and stays quiet after the procedure has ended', () => {
@@ -87,14 +94,31 @@ describe('apnoea stopwatch', () => {
 
 describe('recovery milestones and event lines', () => {
   it('gives each milestone its first time and minutes after the gas was turned off', () => {
-    const entries = [event('induction', 0), event('extubation', 2), event('vaporiserOff', 40), event('firstMovement', 43), event('extubation', 44.5), event('firstMovement', 50)];
+    const entries = [
+      event('induction', 0),
+      event('extubation', 2),
+      event('vaporiserOff', 40),
+      event('firstMovement', 43),
+      event('extubation', 44.5),
+      event('firstMovement', 50),
+    ];
     const milestones = recoveryMilestones(entries);
-    expect(milestones.map((item) => item.label)).toEqual(['Gas off', 'First movement', 'Extubation', 'Standing / perching']);
+    expect(milestones.map((item) => item.label)).toEqual([
+      'Gas off',
+      'First movement',
+      'Extubation',
+      'Standing / perching',
+    ]);
     expect(milestones[0]?.minutesAfterGasOff).toBe(0);
     expect(milestones[1]?.minutesAfterGasOff).toBe(3);
     // The extubation at 2 min was before the gas went off: a tube change, not recovery.
     expect(milestones[2]?.minutesAfterGasOff).toBe(4.5);
-    expect(milestones[3]).toEqual({ eventType: 'standing', label: 'Standing / perching', at: null, minutesAfterGasOff: null });
+    expect(milestones[3]).toEqual({
+      eventType: 'standing',
+      label: 'Standing / perching',
+      at: null,
+      minutesAfterGasOff: null,
+    });
   });
 
   it('shows milestones before gas off is logged, without minutes after it', () => {
@@ -104,7 +128,12 @@ describe('recovery milestones and event lines', () => {
   });
 
   it('shows a drug event with the drug and dose text as the clinic entered them', () => {
-    const drug = { ...event('drugGiven', 3).values, drugName: 'drug A', drugDose: 'as written by the clinic', eventNote: 'left pectoral' };
+    const drug = {
+      ...event('drugGiven', 3).values,
+      drugName: 'drug A',
+      drugDose: 'as written by the clinic',
+      eventNote: 'left pectoral',
+    };
     expect(eventSummary(drug)).toBe('Drug given: drug A, as written by the clinic: left pectoral');
     expect(eventSummary(event('ippvOn', 1).values)).toBe('IPPV on');
   });

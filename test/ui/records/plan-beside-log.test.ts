@@ -8,11 +8,25 @@ const schedule: PlanInput['schedule'] = [
   { atMin: 30, vaporPct: 0 },
 ];
 
-const blank = { vaporPct: null, oxygenLpm: null, heartRatePerMin: null, breathsPerMin: null, temperatureC: null, etco2Mmhg: null, spo2Pct: null, eventType: null, eventNote: '', drugName: '', drugDose: '' };
+const blank = {
+  vaporPct: null,
+  oxygenLpm: null,
+  heartRatePerMin: null,
+  breathsPerMin: null,
+  temperatureC: null,
+  etco2Mmhg: null,
+  spo2Pct: null,
+  eventType: null,
+  eventNote: '',
+  drugName: '',
+  drugDose: '',
+};
 
 describe('plan beside the log', () => {
   it('holds each dial step until the next one', () => {
-    expect([0, 4.99, 5, 29, 30, 45].map((minute) => plannedDialAt(schedule, minute))).toEqual([4, 4, 2, 2, 0, 0]);
+    expect([0, 4.99, 5, 29, 30, 45].map((minute) => plannedDialAt(schedule, minute))).toEqual([
+      4, 4, 2, 2, 0, 0,
+    ]);
   });
 
   it('places logged dial settings at their minute and gives the predicted brain level as a multiple of MAC', () => {

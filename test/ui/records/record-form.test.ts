@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { airwayText, asaText, checkRecordDraft, emptyRecordDraft, type RecordDraft } from '../../../app/ui/records/record-form.js';
+import {
+  airwayText,
+  asaText,
+  checkRecordDraft,
+  emptyRecordDraft,
+  type RecordDraft,
+} from '../../../app/ui/records/record-form.js';
 
 const filled: RecordDraft = {
   ...emptyRecordDraft('2026-03-10T09:00', 'RW'),
@@ -31,7 +37,16 @@ describe('new procedure record form', () => {
     const checked = checkRecordDraft(filled);
     expect(checked.ok).toBe(true);
     if (checked.ok) {
-      expect(checked.values).toMatchObject({ procedureName: 'Beak trim', asaGrade: 2, emergency: false, tubeSizeMm: 2.5, tubeType: 'uncuffed', promptIntervalMin: 5, planId: null, endedAt: null });
+      expect(checked.values).toMatchObject({
+        procedureName: 'Beak trim',
+        asaGrade: 2,
+        emergency: false,
+        tubeSizeMm: 2.5,
+        tubeType: 'uncuffed',
+        promptIntervalMin: 5,
+        planId: null,
+        endedAt: null,
+      });
       expect(checked.values.startedAt).toBe(new Date(2026, 2, 10, 9, 0).toISOString());
     }
   });
@@ -52,7 +67,9 @@ describe('new procedure record form', () => {
   });
 
   it('writes the airway and ASA grade as a record shows them', () => {
-    expect(airwayText({ airway: 'endotracheal', tubeSizeMm: 2.5, tubeType: 'cuffed, cuff down' })).toBe('Endotracheal tube 2.5 mm, cuffed, cuff down');
+    expect(airwayText({ airway: 'endotracheal', tubeSizeMm: 2.5, tubeType: 'cuffed, cuff down' })).toBe(
+      'Endotracheal tube 2.5 mm, cuffed, cuff down',
+    );
     expect(airwayText({ airway: 'airSacTube', tubeSizeMm: 3, tubeType: '' })).toBe('Air-sac tube 3 mm');
     expect(asaText({ asaGrade: 4, emergency: true })).toBe('4E');
     expect(asaText({ asaGrade: null, emergency: false })).toBe('not graded');
