@@ -119,12 +119,10 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
     /** Current entries of a record in time order, each flagged when it has earlier versions. */
     list(recordId: number): (ProcedureEntry & { corrected: boolean })[] {
       const withHistory = new Set(correctedIds.all(recordId).map((row) => row.id));
-      return listCurrent
-        .all(recordId)
-        .map((row) => ({
-          ...rowToEntry(row),
-          corrected: row.corrects_id !== null && withHistory.has(row.corrects_id),
-        }));
+      return listCurrent.all(recordId).map((row) => ({
+        ...rowToEntry(row),
+        corrected: row.corrects_id !== null && withHistory.has(row.corrects_id),
+      }));
     },
     history(entryId: number): ProcedureEntry[] {
       return chainIds(db, 'procedure_entries', entryId).map((id) => rowToEntry(byId.get(id) as EntryRow));
