@@ -94,12 +94,27 @@ export type ValidationOutcome = {
 };
 
 /**
+ * Plan fields a sensitivity run may change (the milestone thresholds a clinic can set per plan).
+ * Used only to explore on the fit split; the stated bands are always checked without them.
+ */
+export type PlanThresholds = {
+  /** Planned depth, multiple of MAC (0.5-3). */
+  readonly targetMacMultiple?: number;
+  /** Recovery threshold, fraction of MAC (0.1-0.95). */
+  readonly recoveryMacFraction?: number;
+};
+
+/**
  * Runs one published observation through the product's plan code.
  * @param row a published observation
+ * @param thresholds optional milestone thresholds written into the plan (exploration only)
  * @throws Error naming the row and the schema's messages when the plan is refused
  */
-export function runObservation(row: PublishedObservation): ValidationOutcome {
-  const parsed = planInputSchema.safeParse(planForObservation(row));
+export function runObservation(
+  row: PublishedObservation,
+  thresholds: PlanThresholds = {},
+): ValidationOutcome {
+  const parsed = planInputSchema.safeParse({ ...planForObservation(row), ...thresholds });
   if (!parsed.success) {
     throw new Error(`${row.id}: the plan is refused: ${planIssueMessages(parsed.error).join('; ')}`);
   }
