@@ -255,10 +255,11 @@ export function validationChartSvg(outcomes: readonly ValidationOutcome[]): stri
     }
     const cx = x(outcome.row.observedMin);
     const cy = y(outcome.predictedMin);
+    const row = `data-row="${escapeXml(outcome.row.id)}"`;
     const shape =
       outcome.phase === 'induction'
-        ? `<circle cx="${cx.toFixed(1)}" cy="${cy.toFixed(1)}" r="5" fill="${colour}"/>`
-        : `<rect x="${(cx - 5).toFixed(1)}" y="${(cy - 5).toFixed(1)}" width="10" height="10" fill="${colour}"/>`;
+        ? `<circle ${row} cx="${cx.toFixed(1)}" cy="${cy.toFixed(1)}" r="5" fill="${colour}"/>`
+        : `<rect ${row} x="${(cx - 5).toFixed(1)}" y="${(cy - 5).toFixed(1)}" width="10" height="10" fill="${colour}"/>`;
     parts.push(
       shape,
       `<text x="${(cx + 7).toFixed(1)}" y="${(cy - 6).toFixed(1)}" font-size="10">${String(index + 1)}</text>`,

@@ -12,7 +12,12 @@
 import { describe, expect, it } from 'vitest';
 import { planInputSchema } from '../../app/contract/plan.js';
 import { publishedObservations } from './published-observations.js';
-import { runObservation, targetRatioFactor, type ValidationOutcome } from './validation-runner.js';
+import {
+  runObservation,
+  targetRatioFactor,
+  validationChartSvg,
+  type ValidationOutcome,
+} from './validation-runner.js';
 
 /** Stated ratio bands (model / published), each beside the source of the published time. */
 const statedBands: Readonly<Record<string, readonly [low: number, high: number]>> = {
@@ -109,5 +114,21 @@ describe('model against published avian induction and recovery times', () => {
       schedule: [{ atMin: 0, vaporPct: 2 }],
     });
     expect(parsed.success).toBe(false);
+  });
+
+  it('the chart plots one marker per reached row and names the rows the model never reaches', () => {
+    const reached = [...outcomes.values()];
+    const first = reached[0];
+    if (first === undefined) throw new Error('no rows');
+    const withMiss: ValidationOutcome[] = [
+      ...reached.slice(1),
+      { ...first, predictedMin: null, ratio: null, withinTarget: false },
+    ];
+    const svg = validationChartSvg(withMiss);
+    expect(svg.match(/data-row="/g)?.length).toBe(reached.length - 1);
+    expect(svg).not.toContain(`data-row="${first.row.id}"`);
+    expect(svg).toContain(
+      `Not reached by the model (not plotted): ${String(withMiss.length)}. ${first.row.id}`,
+    );
   });
 });
