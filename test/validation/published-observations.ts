@@ -183,7 +183,7 @@ const botmanMac = {
 const botmanFlow = { value: 1, basis: 'Assumption: fresh gas flow is not given in the abstract; 1 L/min' };
 
 const langloisCitation =
-  'Langlois I., Harvey R.C., Jones M.P., Schumacher J. (2003) Cardiopulmonary and anesthetic effects of isoflurane and propofol in Hispaniolan Amazon parrots (Amazona ventralis). Journal of Avian Medicine and Surgery 17(1):4-10. doi:10.1647/1082-6742(2003)017[0004:CAAEOI]2.0.CO;2';
+  'Langlois I., Harvey R.C., Jones M.P., Schumacher J. (2003) Cardiopulmonary and anesthetic effects of isoflurane and propofol in Hispaniolan Amazon parrots (Amazona ventralis). Journal of Avian Medicine and Surgery 17(1):4- (first page from the DOI; last page not read). doi:10.1647/1082-6742(2003)017[0004:CAAEOI]2.0.CO;2';
 const klaphakeCitation =
   "Klaphake E., Schumacher J., Greenacre C., Jones M.P., Zagaya N. (2006) Comparative anesthetic and cardiopulmonary effects of pre- versus postoperative butorphanol administration in Hispaniolan Amazon parrots (Amazona ventralis) anesthetized with sevoflurane. Journal of Avian Medicine and Surgery 20(1):2-7. doi:10.1647/1082-6742(2006)20[2:CAACEO]2.0.CO;2 (numbers from the same group's AAZV 2004 conference abstract)";
 const amazonMass = {
@@ -350,7 +350,7 @@ export const publishedObservations: readonly PublishedObservation[] = [
     spread: { kind: 'SD', valueMin: 27 / 60 },
     n: 6,
     assumptions: [
-      'The published time is pooled over the runs of the study (1.5 % and 3.0 %, spontaneous and IPPV); the row runs the mildest one: spontaneous ventilation at 1.5 %',
+      'The abstract does not say which runs the reflex times come from; read as pooled over the runs (1.5 % and 3.0 %, spontaneous and IPPV); the row runs the mildest one: spontaneous ventilation at 1.5 %',
       'Induction lasts 5 min and maintenance 60 min (the companion 2012 study monitored for one hour); neither is in the abstract',
       'Body mass and flow not given in the abstract',
     ],
