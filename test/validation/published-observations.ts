@@ -221,13 +221,12 @@ export const publishedObservations: readonly PublishedObservation[] = [
     endpoint: 'inductionUnspecified',
     endpointDefinition: 'Time to induction of anaesthesia (not defined in the text read)',
     observedMin: 38 / 60,
-    spread: { kind: 'SD', valueMin: 8 / 60 },
+    spread: { kind: 'SD or SE (not stated)', valueMin: 8 / 60 },
     n: 11,
     assumptions: [
       'Dial not given in the abstract: 8 % (the sevoflurane vaporiser maximum, a common fast mask induction)',
       'Body mass and flow not given in the abstract',
       'No Hispaniolan Amazon row in the species reference: the agent default MAC is used',
-      'Spread read as SD ("38±8 sec"; the abstract uses mean ± SD elsewhere)',
     ],
   },
   {
@@ -347,7 +346,7 @@ export const publishedObservations: readonly PublishedObservation[] = [
     endpointDefinition:
       'Appearance of the body jerk reflex during recovery (the first of the reflexes to return)',
     observedMin: 126 / 60,
-    spread: { kind: 'SD', valueMin: 27 / 60 },
+    spread: { kind: 'SD or SE (not stated)', valueMin: 27 / 60 },
     n: 6,
     assumptions: [
       'The abstract does not say which runs the reflex times come from; read as pooled over the runs (1.5 % and 3.0 %, spontaneous and IPPV); the row runs the mildest one: spontaneous ventilation at 1.5 %',
