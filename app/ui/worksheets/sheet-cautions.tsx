@@ -1,8 +1,9 @@
+import type { PlanResult } from '../../contract/plan.js';
+
+/** Printed under the cautions: the sheet is a planning aid and the veterinarian decides. */
 export const deferralText =
   'Tidewing is a planning aid. Every figure on this sheet is an estimate from population equations and assumptions, with its basis shown; this bird can differ. ' +
   'The responsible licensed veterinarian decides on the anaesthetic, any drug and dose, and the monitoring, under local regulations. Watch the bird, not the plan.';
-
-import type { PlanResult } from '../../contract/plan.js';
 
 /** The model's cautions with their reasons, and who decides. */
 export function CautionsSection({ result }: { readonly result: PlanResult }) {
