@@ -1,0 +1,142 @@
+import { useId, useState, type FormEvent } from 'react';
+import type { EventType } from '../../contract/records.js';
+import { clockText } from './clock-time.js';
+import { eventLabels } from './monitoring.js';
+
+/** Events common enough for a button of their own, in the order they usually happen. */
+const buttonEvents: readonly EventType[] = [
+  'induction',
+  'intubation',
+  'ippvOn',
+  'ippvOff',
+  'vaporiserOff',
+  'extubation',
+  'regurgitation',
+  'firstMovement',
+  'standing',
+];
+
+/**
+ * One button per common event, and small forms for a drug given or a note. `onLog` answers null
+ * when logged or the message to show.
+ */
+export function EventButtons({
+  onLog,
+}: {
+  readonly onLog: (
+    eventType: EventType,
+    extra?: { eventNote?: string; drugName?: string; drugDose?: string },
+  ) => Promise<string | null>;
+}) {
+  const [open, setOpen] = useState<'drugGiven' | 'note' | null>(null);
+  const [note, setNote] = useState('');
+  const [drugName, setDrugName] = useState('');
+  const [drugDose, setDrugDose] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const [logged, setLogged] = useState<string | null>(null);
+  const baseId = useId();
+
+  async function log(
+    eventType: EventType,
+    extra?: { eventNote?: string; drugName?: string; drugDose?: string },
+  ) {
+    const message = await onLog(eventType, extra);
+    setError(message);
+    if (message === null) {
+      setLogged(`${eventLabels[eventType]} logged at ${clockText(new Date().toISOString())}.`);
+      setOpen(null);
+      setNote('');
+      setDrugName('');
+      setDrugDose('');
+    }
+  }
+
+  function submitDetail(event: FormEvent) {
+    event.preventDefault();
+    if (open === 'note') {
+      if (note.trim() === '') {
+        setError('Type the note first.');
+        return;
+      }
+      void log('note', { eventNote: note.trim() });
+    } else if (open === 'drugGiven') {
+      if (drugName.trim() === '') {
+        setError('Name the drug given.');
+        return;
+      }
+      void log('drugGiven', { drugName: drugName.trim(), drugDose: drugDose.trim(), eventNote: note.trim() });
+    }
+  }
+
+  return (
+    <div className="record-events" role="group" aria-label="Events">
+      {buttonEvents.map((eventType) => (
+        <button type="button" key={eventType} onClick={() => void log(eventType)}>
+          {eventLabels[eventType]}
+        </button>
+      ))}
+      <button
+        type="button"
+        aria-expanded={open === 'drugGiven'}
+        onClick={() => setOpen(open === 'drugGiven' ? null : 'drugGiven')}
+      >
+        Drug given…
+      </button>
+      <button
+        type="button"
+        aria-expanded={open === 'note'}
+        onClick={() => setOpen(open === 'note' ? null : 'note')}
+      >
+        Note…
+      </button>
+      {open !== null && (
+        <form className="record-event-detail" onSubmit={submitDetail} noValidate>
+          {open === 'drugGiven' && (
+            <>
+              <label htmlFor={`${baseId}-drug`}>Drug</label>
+              <input
+                id={`${baseId}-drug`}
+                value={drugName}
+                size={14}
+                autoFocus
+                aria-invalid={error === 'Name the drug given.'}
+                onChange={(event) => setDrugName(event.target.value)}
+              />
+              <label htmlFor={`${baseId}-dose`}>Dose and route as given</label>
+              <input
+                id={`${baseId}-dose`}
+                value={drugDose}
+                size={16}
+                onChange={(event) => setDrugDose(event.target.value)}
+              />
+            </>
+          )}
+          <label htmlFor={`${baseId}-note`}>Note</label>
+          <input
+            id={`${baseId}-note`}
+            value={note}
+            size={24}
+            autoFocus={open === 'note'}
+            onChange={(event) => setNote(event.target.value)}
+          />
+          <button type="submit" className="primary">
+            Log {open === 'note' ? 'note' : 'drug'}
+          </button>
+          {open === 'drugGiven' && (
+            <span className="hint">Entered by the clinic; Tidewing suggests no dose.</span>
+          )}
+        </form>
+      )}
+      {error !== null && (
+        <p className="field-error" role="alert">
+          {error}
+        </p>
+      )}
+      {logged !== null && error === null && (
+        <p className="status-saved" role="status">
+          {logged}
+        </p>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,116 @@
+import { useState, type ReactNode } from 'react';
+import type { EventType, ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import { api } from '../common/bridge.js';
+import { downloadText } from '../common/download.js';
+import { checkEntry, emptyReadings, type DisplayUnits } from './entry-form.js';
+import { useInitialsGate } from './initials-gate.js';
+
+type Write = (enteredBy: string) => Promise<string | null>;
+
+/** Details an event row may carry besides its type; `at` (ISO 8601) back-dates it. */
+export type EventExtra = { at?: string; eventNote?: string; drugName?: string; drugDose?: string };
+
+export type RecordWrites = {
+  /** The initials prompt, shown when a write needs initials not yet given. */
+  readonly gate: ReactNode;
+  /** The message of the last failed write or export, null after a success. */
+  readonly writeFailure: string | null;
+  readonly addEntry: (values: ProcedureEntryValues) => Promise<string | null>;
+  readonly logEvent: (eventType: EventType, extra?: EventExtra) => Promise<string | null>;
+  readonly correctRecord: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+  readonly correctEntry: (id: number, next: ProcedureEntryValues, reason: string) => Promise<string | null>;
+  readonly voidEntry: (id: number, reason: string) => Promise<string | null>;
+  readonly exportCsv: () => Promise<void>;
+};
+
+/**
+ * Every write of the live record screen. Each runs once initials are known, answers null when
+ * saved or the message to show, and reloads the record after a success.
+ */
+export function useRecordWrites(recordId: number, units: DisplayUnits, reload: () => void): RecordWrites {
+  const { gate, withInitials } = useInitialsGate();
+  const [writeFailure, setWriteFailure] = useState<string | null>(null);
+
+  /** Runs a write once initials are known; reports the outcome to the caller and reloads. */
+  function write(run: Write): Promise<string | null> {
+    return new Promise((resolve) => {
+      withInitials(
+        (enteredBy) => {
+          void run(enteredBy).then((message) => {
+            if (message === null) reload();
+            setWriteFailure(message);
+            resolve(message);
+          });
+        },
+        () => resolve('Not saved: enter your initials to save.'),
+      );
+    });
+  }
+
+  function addEntry(entryValues: ProcedureEntryValues): Promise<string | null> {
+    return write(async (enteredBy) => {
+      const answer = await api.invoke('entries:add', {
+        recordId,
+        values: entryValues,
+        meta: { enteredBy, reason: '' },
+      });
+      return answer.ok ? null : `Not saved: ${answer.error.message}`;
+    });
+  }
+
+  function logEvent(eventType: EventType, extra: EventExtra = {}): Promise<string | null> {
+    const checked = checkEntry(
+      {
+        timeText: '',
+        readings: emptyReadings,
+        kind: 'event',
+        eventType,
+        eventNote: extra.eventNote ?? '',
+        drugName: extra.drugName ?? '',
+        drugDose: extra.drugDose ?? '',
+      },
+      units,
+      new Date(),
+    );
+    if (!checked.ok)
+      return Promise.resolve(Object.values(checked.errors)[0] ?? 'The event could not be checked.');
+    return addEntry({ ...checked.values, at: extra.at ?? checked.values.at });
+  }
+
+  function correctRecord(next: ProcedureRecordValues, reason: string): Promise<string | null> {
+    return write(async (enteredBy) => {
+      const answer = await api.invoke('procedures:correct', {
+        id: recordId,
+        values: next,
+        meta: { enteredBy, reason },
+      });
+      return answer.ok ? null : `Not saved: ${answer.error.message}`;
+    });
+  }
+
+  function correctEntry(id: number, next: ProcedureEntryValues, reason: string): Promise<string | null> {
+    return write(async (enteredBy) => {
+      const answer = await api.invoke('entries:correct', {
+        id,
+        values: next,
+        meta: { enteredBy, reason },
+      });
+      return answer.ok ? null : answer.error.message;
+    });
+  }
+
+  function voidEntry(id: number, reason: string): Promise<string | null> {
+    return write(async (enteredBy) => {
+      const answer = await api.invoke('entries:void', { id, meta: { enteredBy, reason } });
+      return answer.ok ? null : answer.error.message;
+    });
+  }
+
+  async function exportCsv() {
+    const answer = await api.invoke('procedures:export-csv', { id: recordId });
+    if (answer.ok) downloadText(answer.value.fileName, answer.value.csv, 'text/csv;charset=utf-8');
+    setWriteFailure(answer.ok ? null : `Export failed: ${answer.error.message}`);
+  }
+
+  return { gate, writeFailure, addEntry, logEvent, correctRecord, correctEntry, voidEntry, exportCsv };
+}

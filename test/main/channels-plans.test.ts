@@ -1,0 +1,318 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import type { RequestOf } from '../../app/contract/channels.js';
+import { modelVersion } from '../../app/core/model/compute-plan.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
+import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
+import { correctionBy, enteredByRw, kiwiValues, pipValues } from '../support/clinic-birds.js';
+
+const open: ChannelHarness[] = [];
+afterEach(() => open.splice(0).forEach((harness) => harness.close()));
+function harness(): ChannelHarness {
+  const opened = openChannelHarness();
+  open.push(opened);
+  return opened;
+}
+
+type PlanInputRequest = RequestOf<'plans:save'>['fields']['input'];
+
+/** A plan input from examples/plans, as the planning screen would send it. */
+function example(name: string): PlanInputRequest {
+  const file = path.join(findProjectRoot(), 'examples', 'plans', `${name}.json`);
+  return JSON.parse(fs.readFileSync(file, 'utf8')) as PlanInputRequest;
+}
+
+const pipInput = example('pip-budgerigar-mask-isoflurane');
+const doraIsofluraneInput = {
+  ...example('dora-pekin-duck-endotracheal-sevoflurane'),
+  agent: 'isoflurane',
+} as const;
+
+const allOpen = {
+  asaGrade: null,
+  emergency: false,
+  items: {
+    fastingAndCrop: 'open',
+    hydration: 'open',
+    bloods: 'open',
+    equipmentLeakCheck: 'open',
+    oxygenSupply: 'open',
+    scavenging: 'open',
+    emergencyCard: 'open',
+  },
+  notes: '',
+} as const;
+
+const mostlyDone = {
+  ...allOpen,
+  asaGrade: 2,
+  items: {
+    ...allOpen.items,
+    fastingAndCrop: 'done',
+    hydration: 'done',
+    bloods: 'not applicable',
+    equipmentLeakCheck: 'done',
+    oxygenSupply: 'done',
+  },
+} as const;
+
+describe('plan channels', () => {
+  it('plans:save computes the snapshot in the back end and stamps it with the model version', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const saved = await api.answer('plans:save', {
+      fields: {
+        patientId: pip.id,
+        plannedFor: '2026-12-02',
+        label: 'Wing radiograph',
+        input: pipInput,
+        checklist: mostlyDone,
+      },
+      meta: enteredByRw,
+    });
+    expect(saved).toMatchObject({
+      patientId: pip.id,
+      plannedFor: '2026-12-02',
+      label: 'Wing radiograph',
+      input: pipInput,
+      checklist: mostlyDone,
+      modelVersion,
+      stamp: { enteredBy: 'RW', enteredAt: '2026-12-01T09:30:00.000Z', correctsId: null },
+    });
+    expect(saved.result.modelVersion).toBe(modelVersion);
+    expect(saved.result.consumption.liquidMl).toBeGreaterThan(0);
+    expect(saved.result.oxygen.usedL).toBeGreaterThan(0);
+    // The same input saved again gives the same snapshot: the model run is deterministic.
+    const again = await api.answer('plans:save', {
+      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      meta: enteredByRw,
+    });
+    expect(again.result).toEqual(saved.result);
+  });
+
+  it('plans:save uses the clinic’s own species MAC for new plans', async () => {
+    const api = harness();
+    const fields = {
+      patientId: null,
+      plannedFor: '2026-12-02',
+      input: doraIsofluraneInput,
+      checklist: allOpen,
+    };
+    const before = await api.answer('plans:save', { fields, meta: enteredByRw });
+    // Pekin duck isoflurane MAC 1.30 % (Ludders, Mitchell & Rode 1990), from the shipped reference.
+    expect(before.result.mac.valuePct).toBe(1.3);
+    expect(before.result.mac.basis).toMatch(/Ludders/);
+    const [duck] = (await api.answer('species:list', {})).filter((species) => species.key === 'pekin-duck');
+    if (duck?.values.mac.isoflurane == null) return expect.fail('Pekin duck has no isoflurane MAC');
+    await api.answer('species:correct', {
+      key: 'pekin-duck',
+      values: {
+        ...duck.values,
+        mac: {
+          ...duck.values.mac,
+          isoflurane: {
+            ...duck.values.mac.isoflurane,
+            macPct: 1.4,
+            basis: 'Clinic protocol 2026 (assumption)',
+          },
+        },
+      },
+      meta: correctionBy('MK', 'Our protocol'),
+    });
+    const after = await api.answer('plans:save', { fields, meta: enteredByRw });
+    expect(after.result.mac).toMatchObject({ valuePct: 1.4 });
+    expect(after.result.mac.basis).toMatch(/Clinic protocol 2026/);
+  });
+
+  it('plans:save names the field of a bad plan input, a bad date and a patient that does not exist', async () => {
+    const api = harness();
+    const save = (fields: Record<string, unknown>) =>
+      api.refusal('plans:save', {
+        fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen, ...fields },
+        meta: enteredByRw,
+      });
+    const mass = await save({ input: { ...pipInput, bodyMassG: -32 } });
+    expect(mass).toMatchObject({ code: 'invalid-request', field: 'fields.input.bodyMassG' });
+    const date = await save({ plannedFor: '2 December' });
+    expect(date).toMatchObject({ field: 'fields.plannedFor', message: 'Use a date as YYYY-MM-DD.' });
+    const asa = await save({ checklist: { ...allOpen, asaGrade: 6 } });
+    expect(asa).toMatchObject({ field: 'fields.checklist.asaGrade', message: 'ASA grade is 1 to 5.' });
+    const nobody = await save({ patientId: 77 });
+    expect(nobody).toMatchObject({ code: 'not-found', field: 'fields.patientId' });
+    const noInitials = await api.refusal('plans:save', {
+      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      meta: { enteredBy: ' ' },
+    });
+    expect(noInitials).toMatchObject({
+      field: 'meta.enteredBy',
+      message: 'Enter your initials at the top of the screen first; every record carries them.',
+    });
+    expect(await api.answer('plans:recent', {})).toEqual([]);
+  });
+
+  it('plans:get shows the plan with its patient, species, weight trend and version history', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const weight = { bodyCondition: 'ideal', weighedBy: 'RW' } as const;
+    await api.answer('weights:add', {
+      patientId: pip.id,
+      values: { ...weight, weighedOn: '2026-11-01', massG: 40 },
+      meta: enteredByRw,
+    });
+    await api.answer('weights:add', {
+      patientId: pip.id,
+      values: { ...weight, weighedOn: '2026-11-29', massG: 36 },
+      meta: enteredByRw,
+    });
+    const saved = await api.answer('plans:save', {
+      fields: { patientId: pip.id, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      meta: enteredByRw,
+    });
+    const detail = await api.answer('plans:get', { id: saved.id });
+    expect(detail.plan).toEqual(saved);
+    expect(detail.patient?.values.name).toBe('Pip');
+    expect(detail.species?.key).toBe('budgerigar');
+    // 40 g to 36 g: a 10 % loss, band 10-15 % (IVAPM pain scale for birds).
+    expect(detail.weightTrendText).toMatch(
+      /^latest 36 g on 2026-11-29; -10\.0 % since the previous weight; /,
+    );
+    expect(detail.weightTrendText).toContain('band 10-15 %');
+    expect(detail.history).toEqual([{ id: saved.id, stamp: saved.stamp, modelVersion }]);
+  });
+
+  it('plans:get says a missing plan was not found', async () => {
+    const api = harness();
+    expect(await api.refusal('plans:get', { id: 5 })).toMatchObject({
+      code: 'not-found',
+      message: 'Plan 5 was not found.',
+    });
+    expect(await api.refusal('plans:get', { id: 1.5 })).toMatchObject({
+      code: 'invalid-request',
+      field: 'id',
+    });
+  });
+
+  it('plans:correct makes a new version; correcting the replaced one again conflicts', async () => {
+    const api = harness();
+    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen };
+    const first = await api.answer('plans:save', { fields, meta: enteredByRw });
+    api.clock.set('2026-12-01T12:00:00.000Z');
+    const second = await api.answer('plans:correct', {
+      id: first.id,
+      fields: { ...fields, label: 'Moved to Thursday', plannedFor: '2026-12-03' },
+      meta: { enteredBy: 'MK', reason: 'Owner asked for Thursday' },
+    });
+    expect(second).toMatchObject({
+      plannedFor: '2026-12-03',
+      label: 'Moved to Thursday',
+      stamp: { correctsId: first.id, enteredBy: 'MK', enteredAt: '2026-12-01T12:00:00.000Z' },
+    });
+    const history = (await api.answer('plans:get', { id: second.id })).history;
+    expect(history.map((version) => version.id)).toEqual([second.id, first.id]);
+    expect(await api.refusal('plans:correct', { id: first.id, fields, meta: enteredByRw })).toMatchObject({
+      code: 'conflict',
+      message: 'This plan was changed since you opened it; open its newest version and edit that.',
+    });
+    expect(await api.refusal('plans:correct', { id: 999, fields, meta: enteredByRw })).toMatchObject({
+      code: 'not-found',
+    });
+    expect(
+      await api.refusal('plans:correct', {
+        id: second.id,
+        fields: { ...fields, label: 'x'.repeat(121) },
+        meta: enteredByRw,
+      }),
+    ).toMatchObject({ field: 'fields.label', message: 'Label must be at most 120 characters.' });
+  });
+
+  it('plans:for-patient, plans:recent and plans:day summarise the newest version of each plan', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const kiwi = await api.answer('patients:create', { values: kiwiValues, meta: enteredByRw });
+    const pipPlan = await api.answer('plans:save', {
+      fields: {
+        patientId: pip.id,
+        plannedFor: '2026-12-02',
+        label: 'Radiograph',
+        input: pipInput,
+        checklist: mostlyDone,
+      },
+      meta: enteredByRw,
+    });
+    const kiwiInput: PlanInputRequest = {
+      ...pipInput,
+      patientName: 'Kiwi',
+      speciesId: 'cockatiel',
+      bodyMassG: 95,
+    };
+    const kiwiPlan = await api.answer('plans:save', {
+      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', input: kiwiInput, checklist: allOpen },
+      meta: enteredByRw,
+    });
+    const later = await api.answer('plans:save', {
+      fields: {
+        patientId: pip.id,
+        plannedFor: '2026-12-09',
+        label: 'Recheck',
+        input: pipInput,
+        checklist: allOpen,
+      },
+      meta: enteredByRw,
+    });
+
+    const forPip = await api.answer('plans:for-patient', { patientId: pip.id });
+    expect(forPip.map((plan) => plan.id)).toEqual([later.id, pipPlan.id]);
+    expect(forPip[1]).toEqual({
+      id: pipPlan.id,
+      patientId: pip.id,
+      patientName: 'Pip',
+      plannedFor: '2026-12-02',
+      label: 'Radiograph',
+      agent: 'isoflurane',
+      route: 'mask',
+      bodyMassG: 32,
+      liquidMl: pipPlan.result.consumption.liquidMl,
+      oxygenL: pipPlan.result.oxygen.usedL,
+      inductionMin: pipPlan.result.milestones.inductionMin,
+      // Two checklist items left open (scavenging, emergency card); the ASA grade is given.
+      openChecklistItems: 2,
+      asaGrade: 2,
+      emergency: false,
+    });
+    // Seven open items plus the missing ASA grade.
+    expect(forPip[0]?.openChecklistItems).toBe(8);
+    expect(await api.answer('plans:for-patient', { patientId: 404 })).toEqual([]);
+
+    const recent = await api.answer('plans:recent', { limit: 2 });
+    expect(recent.map((plan) => plan.id)).toEqual([later.id, kiwiPlan.id]);
+
+    const day = await api.answer('plans:day', { date: '2026-12-02' });
+    expect(day.date).toBe('2026-12-02');
+    expect(day.plans.map((plan) => plan.patientName)).toEqual(['Pip', 'Kiwi']);
+    expect(Object.keys(day.totals.liquidMlByAgent)).toEqual(['isoflurane']);
+    expect(day.totals.liquidMlByAgent['isoflurane']).toBeCloseTo(
+      pipPlan.result.consumption.liquidMl + kiwiPlan.result.consumption.liquidMl,
+      12,
+    );
+    expect(day.totals.oxygenL).toBeCloseTo(pipPlan.result.oxygen.usedL + kiwiPlan.result.oxygen.usedL, 12);
+    expect(await api.answer('plans:day', { date: '2026-12-25' })).toEqual({
+      date: '2026-12-25',
+      plans: [],
+      totals: { liquidMlByAgent: {}, oxygenL: 0 },
+    });
+  });
+
+  it('plans:for-patient, plans:recent and plans:day name the field they refuse', async () => {
+    const api = harness();
+    expect(await api.refusal('plans:for-patient', { patientId: 0 })).toMatchObject({
+      code: 'invalid-request',
+      field: 'patientId',
+    });
+    expect(await api.refusal('plans:recent', { limit: 501 })).toMatchObject({ field: 'limit' });
+    expect(await api.refusal('plans:day', { date: '2026-12-2' })).toMatchObject({
+      field: 'date',
+      message: 'Use a date as YYYY-MM-DD.',
+    });
+  });
+});
