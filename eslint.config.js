@@ -2,14 +2,18 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
-import { tidewingPlugin } from './eslint-rules/import-boundaries.js';
+import { tidewingPlugin } from './eslint-rules/plugin.js';
 
 export default tseslint.config(
   { ignores: ['build/**', 'dist/**', 'node_modules/**', 'test-artifacts/**', 'docs/**'] },
   js.configs.recommended,
   ...tseslint.configs.strict,
   {
+    // Node's globals everywhere but app/core, which sees the language's own globals only.
+    ignores: ['app/core/**'],
     languageOptions: { globals: { ...globals.node } },
+  },
+  {
     plugins: { tidewing: tidewingPlugin },
     rules: {
       'tidewing/import-boundaries': 'error',
@@ -22,6 +26,13 @@ export default tseslint.config(
         { selector: 'ExportDefaultDeclaration', message: 'Use named exports.' },
       ],
     },
+  },
+  {
+    // app/core: plain ECMAScript globals only (ESLint adds those of the language level itself),
+    // no clock and no Math.random; the rule reports any other global by its own name.
+    files: ['app/core/**'],
+    languageOptions: { globals: { ...globals.es2023 } },
+    rules: { 'tidewing/pure-core': 'error' },
   },
   {
     files: ['app/ui/**/*.{ts,tsx}'],

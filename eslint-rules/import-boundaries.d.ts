@@ -1,4 +1,3 @@
 import type { Rule } from 'eslint';
 
 export declare const importBoundaries: Rule.RuleModule;
-export declare const tidewingPlugin: { rules: Record<string, Rule.RuleModule> };

@@ -3,10 +3,34 @@
 //   app/contract  imports only app/core, app/contract and zod
 //   app/ui        never imports main/ or db/, Node built-ins, better-sqlite3 or electron
 //   db/           never imports app/ui or main/
-//   electron      only from main/
+//   main/         is sorted by the runtime a file runs in:
+//     main/electron   the Electron main process and preload: the only place that imports electron
+//     main/host       `npm start` and the loopback host (plain Node)
+//     main/cli        the command line and headless printing (plain Node)
+//     main/back-end   handlers and dispatch, shared by every host (plain Node)
+//   so main/host, main/cli and main/back-end never import main/electron.
 import path from 'node:path';
 
-const layers = ['app/core', 'app/contract', 'app/ui', 'main', 'db', 'test', 'eslint-rules', 'bin'];
+const ruleName = 'tidewing/import-boundaries';
+
+// The main/ runtimes come before main itself so that the longest folder wins.
+const mainRuntimes = ['main/electron', 'main/host', 'main/cli', 'main/back-end'];
+const layers = [
+  'app/core',
+  'app/contract',
+  'app/ui',
+  ...mainRuntimes,
+  'main',
+  'db',
+  'test',
+  'eslint-rules',
+  'bin',
+];
+
+/** @param {string | null} layer */
+function isMain(layer) {
+  return layer === 'main' || (layer !== null && layer.startsWith('main/'));
+}
 
 /** @param {string} relativePath */
 function layerOf(relativePath) {
@@ -53,7 +77,8 @@ function refusal(fromLayer, target) {
   if (target.kind === 'package') {
     const name = target.name;
     const isNode = name.startsWith('node:') || nodeBuiltins.has(name);
-    if (name === 'electron' && fromLayer !== 'main') return 'only main/ may import electron';
+    if (name === 'electron' && fromLayer !== 'main/electron')
+      return 'only main/electron/ may import electron (the host, command line and back end run in plain Node)';
     if (fromLayer === 'app/core')
       return 'app/core imports nothing outside itself (no packages, no Node built-ins)';
     if (fromLayer === 'app/contract' && name !== 'zod') return 'app/contract imports only app/core and zod';
@@ -65,14 +90,13 @@ function refusal(fromLayer, target) {
   if (fromLayer === 'app/core' && to !== 'app/core') return 'app/core imports nothing outside itself';
   if (fromLayer === 'app/contract' && to !== 'app/core' && to !== 'app/contract')
     return 'app/contract imports only app/core and zod';
-  if (fromLayer === 'app/ui' && (to === 'main' || to === 'db'))
+  if (fromLayer === 'app/ui' && (isMain(to) || to === 'db'))
     return 'app/ui talks to the back end only through app/contract';
-  if (fromLayer === 'db' && (to === 'app/ui' || to === 'main')) return 'db/ never imports app/ui or main/';
+  if (fromLayer === 'db' && (to === 'app/ui' || isMain(to))) return 'db/ never imports app/ui or main/';
+  if (isMain(fromLayer) && fromLayer !== 'main/electron' && to === 'main/electron')
+    return `${fromLayer}/ runs without Electron, so it never imports main/electron/`;
   if (
-    (fromLayer === 'app/core' ||
-      fromLayer === 'app/contract' ||
-      fromLayer === 'db' ||
-      fromLayer === 'main') &&
+    (fromLayer === 'app/core' || fromLayer === 'app/contract' || fromLayer === 'db' || isMain(fromLayer)) &&
     to === 'test'
   )
     return 'product code never imports tests';
@@ -85,7 +109,7 @@ export const importBoundaries = {
     type: 'problem',
     docs: { description: 'Keep each layer to the imports the architecture allows' },
     schema: [{ type: 'object', properties: { root: { type: 'string' } }, additionalProperties: false }],
-    messages: { refused: 'Import of "{{source}}" is not allowed here: {{why}}.' },
+    messages: { refused: `${ruleName}: import of "{{source}}" is not allowed here: {{why}}.` },
   },
   create(context) {
     const options = context.options[0] ?? {};
@@ -120,6 +144,12 @@ export const importBoundaries = {
       ImportExpression(node) {
         if (node.source.type === 'Literal') check(node, node.source.value);
       },
+      // `import x = require('...')`, as the CommonJS preload writes it in TypeScript.
+      TSImportEqualsDeclaration(node) {
+        const reference = node.moduleReference;
+        if (reference.type === 'TSExternalModuleReference' && reference.expression.type === 'Literal')
+          check(node, reference.expression.value);
+      },
       CallExpression(node) {
         if (
           node.callee.type === 'Identifier' &&
@@ -132,5 +162,3 @@ export const importBoundaries = {
     };
   },
 };
-
-export const tidewingPlugin = { rules: { 'import-boundaries': importBoundaries } };

@@ -1,11 +1,13 @@
 /**
  * Writes docs/plan-input.schema.json from the zod plan schema, so the committed JSON Schema
- * always matches the validation the program applies.
+ * always matches the validation the program applies. `npm run schema` runs this file.
  */
 import fs from 'node:fs/promises';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { z } from 'zod';
 import { planInputSchema } from '../../app/contract/plan.js';
+import { findProjectRoot } from '../back-end/project-paths.js';
 
 /** Relative path of the committed schema inside the repository. */
 export const planInputSchemaPath = 'docs/plan-input.schema.json';
@@ -33,4 +35,10 @@ export async function writePlanInputJsonSchema(rootDirectory: string): Promise<s
   await fs.mkdir(path.dirname(target), { recursive: true });
   await fs.writeFile(target, planInputJsonSchemaText(), 'utf8');
   return target;
+}
+
+// Run as a program (`npm run schema`), not when a test imports the module.
+if (process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const written = await writePlanInputJsonSchema(findProjectRoot());
+  process.stdout.write(`Wrote ${path.relative(process.cwd(), written)}\n`);
 }

@@ -9,6 +9,7 @@ import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import { startLoopbackHost } from '../../main/host/loopback-host.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/back-end/project-paths.js';
+import { chromiumOrReason } from '../support/chromium.js';
 import { median, type Figure } from './figures.js';
 import { benchClinicSettings } from '../support/clinic-settings.js';
 
@@ -61,11 +62,11 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
  */
 export async function benchWorksheet(): Promise<Figure[]> {
   const root = findProjectRoot();
-  const executablePath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-  if (!fs.existsSync(executablePath))
-    return [
-      { name: 'worksheet PDF', value: Number.NaN, unit: 'ms', note: `no Chromium at ${executablePath}` },
-    ];
+  // Under CI a missing Chromium fails the run; elsewhere the figure says what is missing.
+  const found = chromiumOrReason();
+  if ('missing' in found)
+    return [{ name: 'worksheet PDF', value: Number.NaN, unit: 'ms', note: found.missing }];
+  const { executablePath } = found;
   const data = await preparedData(root);
   const out = path.join(data.folder, 'bench.pdf');
   try {

@@ -1,13 +1,13 @@
 import { execFileSync, spawn } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { PageNotReadyError, printPageToPdf } from '../../main/cli/headless-pdf.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
+import { chromiumPath as chromiumAt, needBuilt, needChromium } from '../support/chromium.js';
 
-const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-const hasChromium = fs.existsSync(chromiumPath);
+const chromiumPath = chromiumAt();
 const compiled = path.join(findProjectRoot(), 'build', 'main', 'cli', 'headless-pdf.js');
 
 const cleanups: (() => void)[] = [];
@@ -35,7 +35,8 @@ function expectCleanedUp(folder: string): void {
   expect(processesUsing(folder)).toEqual([]);
 }
 
-describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', () => {
+describe('headless Chromium print over the DevTools pipe', () => {
+  beforeEach((context) => void needChromium(context));
   it('waits for the ready mark, prints the page to PDF and leaves nothing running', async () => {
     const folder = scratch();
     const html = `<style>@page { size: A4; margin: 10mm; }</style><h1>Heron Lane test sheet</h1>
@@ -103,7 +104,11 @@ describe.runIf(hasChromium)('headless Chromium print over the DevTools pipe', ()
   }, 60_000);
 });
 
-describe.runIf(hasChromium && fs.existsSync(compiled))('headless print interrupted', () => {
+describe('headless print interrupted', () => {
+  beforeEach((context) => {
+    needChromium(context);
+    needBuilt(context, compiled);
+  });
   it('stops Chromium and removes its profile when the command is interrupted (Ctrl+C), then ends by that signal', async () => {
     const folder = scratch();
     const script = `const { printPageToPdf } = await import(${JSON.stringify(new URL(`file://${compiled}`).href)});

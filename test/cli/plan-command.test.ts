@@ -84,6 +84,9 @@ describe('tidewing plan', () => {
 describe('the committed JSON Schema', () => {
   it('equals a fresh generation from the zod schema', async () => {
     const committed = await readFile(new URL(planInputSchemaPath, root), 'utf8');
-    expect(committed).toBe(planInputJsonSchemaText());
+    expect(
+      committed,
+      `${planInputSchemaPath} no longer matches the zod plan schema: run \`npm run schema\` and commit the file`,
+    ).toBe(planInputJsonSchemaText());
   });
 });

@@ -8,6 +8,7 @@ import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
+import { needBuilt, needChromium } from '../support/chromium.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -16,9 +17,12 @@ const root = findProjectRoot();
 const pipInput = JSON.parse(
   fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
 ) as unknown;
-const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-const canRender =
-  fs.existsSync(chromiumPath) && fs.existsSync(path.join(root, 'build', 'renderer', 'index.html'));
+
+/** Chromium and the built print page, which the command needs before it reads the plan. */
+function needPrinting(context: { skip: (note?: string) => never }): void {
+  needChromium(context);
+  needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
+}
 
 function captured() {
   const out: string[] = [];
@@ -92,7 +96,9 @@ describe('tidewing worksheet', () => {
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it('exits 1 and leaves a database from a newer Tidewing untouched', async () => {
+  it('exits 1 and leaves a database from a newer Tidewing untouched', async (context) => {
+    // The command checks for Chromium and the built page before it opens the database.
+    needPrinting(context);
     const folder = scratch();
     const file = path.join(folder, 'tidewing.db');
     const newer = new Database(file);
@@ -110,7 +116,9 @@ describe('tidewing worksheet', () => {
     expect(fs.readFileSync(file).equals(before)).toBe(true);
   });
 
-  it('exits 1 and names the plan when it is not in the database', async () => {
+  it('exits 1 and names the plan when it is not in the database', async (context) => {
+    // The command checks for Chromium and the built page before it opens the database.
+    needPrinting(context);
     const data = await dataWithPlan();
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
@@ -124,7 +132,9 @@ describe('tidewing worksheet', () => {
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it('exits 1 and says to open the app first when the cautions are not acknowledged', async () => {
+  it('exits 1 and says to open the app first when the cautions are not acknowledged', async (context) => {
+    // The command checks for Chromium and the built page before it opens the database.
+    needPrinting(context);
     const data = await dataWithPlan({ acknowledged: false });
     const run = captured();
     const out = path.join(scratch(), 'sheet.pdf');
@@ -149,28 +159,23 @@ describe('tidewing worksheet', () => {
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it.runIf(canRender)(
-    'writes a PDF of the worksheet with the patient, the clinic and the predicted times',
-    async () => {
-      const data = await dataWithPlan();
-      const run = captured();
-      const out = path.join(scratch(), 'pip.pdf');
-      expect(
-        await runWorksheetCommand(
-          ['--plan', String(data.planId), '--data', data.folder, '--out', out],
-          run.io,
-        ),
-      ).toBe(0);
-      expect(run.stdout()).toContain(`Wrote the worksheet of plan ${data.planId} to ${out}`);
-      expect(fs.readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
-      const text = execFileSync('pdftotext', ['-layout', out, '-'], { encoding: 'utf8' });
-      expect(text).toContain('Heron Lane Bird Clinic');
-      expect(text).toContain('Pip');
-      expect(text).toContain('32 g');
-      expect(text).toMatch(/Predicted induction/);
-      expect(text).toMatch(/NIOSH 1977/);
-      expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
-    },
-    60_000,
-  );
+  it('writes a PDF of the worksheet with the patient, the clinic and the predicted times', async (context) => {
+    needChromium(context);
+    needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
+    const data = await dataWithPlan();
+    const run = captured();
+    const out = path.join(scratch(), 'pip.pdf');
+    expect(
+      await runWorksheetCommand(['--plan', String(data.planId), '--data', data.folder, '--out', out], run.io),
+    ).toBe(0);
+    expect(run.stdout()).toContain(`Wrote the worksheet of plan ${data.planId} to ${out}`);
+    expect(fs.readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
+    const text = execFileSync('pdftotext', ['-layout', out, '-'], { encoding: 'utf8' });
+    expect(text).toContain('Heron Lane Bird Clinic');
+    expect(text).toContain('Pip');
+    expect(text).toContain('32 g');
+    expect(text).toMatch(/Predicted induction/);
+    expect(text).toMatch(/NIOSH 1977/);
+    expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
+  }, 60_000);
 });

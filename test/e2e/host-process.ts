@@ -2,11 +2,12 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser } from 'playwright-core';
-import { afterAll, beforeAll } from 'vitest';
+import { afterAll, beforeAll, beforeEach } from 'vitest';
 import { chromiumArguments } from '../../main/cli/headless-pdf.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
+import { chromiumOrReason, needChromium } from '../support/chromium.js';
 
 export type RunningHost = {
   url: string;
@@ -75,10 +76,15 @@ export function startHostProcess(
   });
 }
 
-/** Headless Debian Chromium, as the project's tests and benchmarks use it. */
+/**
+ * Headless Debian Chromium, as the project's tests and benchmarks use it. Fails with the message
+ * of test/support/chromium.ts (how to install it) when it is missing.
+ */
 export function launchChromium(): Promise<Browser> {
+  const found = chromiumOrReason();
+  if ('missing' in found) return Promise.reject(new Error(found.missing));
   return chromium.launch({
-    executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
+    executablePath: found.executablePath,
     headless: true,
     args: [...chromiumArguments],
   });
@@ -134,14 +140,18 @@ export async function callBridge<T = unknown>(
 
 /**
  * One headless Chromium and a fresh data folder for a test file, started before its tests and
- * removed after them; for files that start (and restart) their own host.
+ * removed after them; for files that start (and restart) their own host. Without Chromium the
+ * file's tests fail under CI and are skipped elsewhere, saying how to install it.
  */
 export function sharedBrowser(prefix: string): { readonly browser: Browser; readonly dataFolder: string } {
   const data = temporaryFolder(prefix);
   let browser: Browser | null = null;
   beforeAll(async () => {
+    // Under CI a missing Chromium throws here and fails every test of the file with the message.
+    if ('missing' in chromiumOrReason()) return;
     browser = await launchChromium();
   });
+  beforeEach((context) => void needChromium(context));
   afterAll(async () => {
     await browser?.close();
     data.remove();

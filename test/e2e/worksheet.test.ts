@@ -2,38 +2,19 @@ import { execFile } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { afterAll, describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
-import {
-  callBridge,
-  completeFirstRun,
-  ensureScreenshotFolder,
-  launchChromium,
-  startHostProcess,
-  type RunningHost,
-} from './host-process.js';
+import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 
 const run = promisify(execFile);
 const root = findProjectRoot();
-let browser: Browser;
-let host: RunningHost;
+const session = sharedHost('tidewing-e2e-worksheet-');
 const shots = ensureScreenshotFolder();
-const data = temporaryFolder('tidewing-e2e-worksheet-');
 const output = temporaryFolder('tidewing-e2e-worksheet-pdf-');
-
-beforeAll(async () => {
-  browser = await launchChromium();
-  host = await startHostProcess(data.folder);
-});
-afterAll(async () => {
-  await browser.close();
-  await host.stop();
-  data.remove();
-  output.remove();
-});
+afterAll(() => output.remove());
 
 /** Calls a contract channel through the loopback bridge, as the screens do; throws on refusal. */
 async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T> {
@@ -58,7 +39,7 @@ async function worksheetPdf(
       '--plan',
       String(planId),
       '--data',
-      data.folder,
+      session.dataFolder,
       '--out',
       file,
     ],
@@ -96,6 +77,7 @@ async function pageImages(file: string, prefix: string): Promise<string[]> {
 
 describe('pre-procedure worksheet in headless Chromium', () => {
   it('shows a saved plan with the clinic’s emergency drugs, and prints the same page to PDF on A4 and US Letter', async () => {
+    const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
     const problems: string[] = [];
     page.on('pageerror', (error) => problems.push(error.message));
