@@ -187,6 +187,11 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     }
     const startCode = url.searchParams.get(startParameter);
     if (startCode !== null) {
+      // Only a page load spends the code, not a HEAD from a link checker or preview.
+      if (request.method !== 'GET') {
+        send(response, 405, 'Open this address in a browser.', textType, { allow: 'GET' });
+        return;
+      }
       useStartCode(response, url, startCode);
       return;
     }

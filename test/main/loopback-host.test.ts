@@ -128,6 +128,13 @@ describe('loopback browser host', () => {
 
   it('refuses a start address used once already, and accepts a newly issued one', async () => {
     const started = await host();
+    const address0 = new URL(started.url);
+    // A HEAD request (a link preview) does not spend the code.
+    const head = await request(started.port, {
+      path: `${address0.pathname}${address0.search}`,
+      method: 'HEAD',
+    });
+    expect(head.status).toBe(405);
     await open(started);
     const address = new URL(started.url);
     const reuse = await request(started.port, { path: `${address.pathname}${address.search}` });
