@@ -158,6 +158,22 @@ describe('loopback browser host', () => {
     expect(reply.headers.location).toBe('/print.html?paper=a4');
   });
 
+  it('keeps two hosts in one browser apart: each reads its own cookie among both', async () => {
+    const first = await host();
+    const second = await host();
+    const a = await open(first);
+    const b = await open(second);
+    expect(a.cookie.split('=')[0]).not.toBe(b.cookie.split('=')[0]);
+    // The browser sends every 127.0.0.1 cookie to both ports, in either order.
+    for (const cookie of [`${a.cookie}; ${b.cookie}`, `${b.cookie}; ${a.cookie}`]) {
+      expect((await request(first.port, { path: '/', headers: { cookie } })).status).toBe(200);
+      expect((await request(second.port, { path: '/', headers: { cookie } })).status).toBe(200);
+    }
+    // One host's cookie opens nothing on the other, even under the other's name.
+    const foreign = `tidewing_files_${first.port}=${b.cookie.split('=')[1] ?? ''}`;
+    expect((await request(first.port, { path: '/', headers: { cookie: foreign } })).status).toBe(403);
+  });
+
   it('refuses files without the cookie, with a wrong one, or with the token in its place (403)', async () => {
     const started = await host();
     expect((await request(started.port, { path: '/' })).status).toBe(403);
