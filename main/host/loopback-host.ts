@@ -117,7 +117,11 @@ function withToken(html: Buffer, token: string): Buffer {
   return Buffer.from(`${text.slice(0, at)}${meta}${text.slice(at)}`, 'utf8');
 }
 
-type Session = { tokenHandedOver: boolean };
+/** One use of a start code: the page it opens may take the bridge token once, soon after. */
+type Session = { tokenHandedOver: boolean; readonly handOverUntilMs: number };
+
+/** How long after a start code is used its page may still take the token, ms (a slow browser start). */
+const handOverWindowMs = 2 * 60 * 1000;
 
 /**
  * Serves the built renderer and the contract bridge on 127.0.0.1 only.
@@ -211,7 +215,12 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       return;
     }
     let body = file.body;
-    if (file.extension === '.html' && request.method === 'GET' && !session.tokenHandedOver) {
+    if (
+      file.extension === '.html' &&
+      request.method === 'GET' &&
+      !session.tokenHandedOver &&
+      Date.now() <= session.handOverUntilMs
+    ) {
       // Only the first page after the start address gets the token; it keeps it for its tab.
       session.tokenHandedOver = true;
       body = withToken(body, token);
@@ -237,7 +246,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     unusedStartCodes.delete(known);
     usedStartCodes.add(known);
     const fileKey = randomSecret();
-    sessions.set(fileKey, { tokenHandedOver: false });
+    sessions.set(fileKey, { tokenHandedOver: false, handOverUntilMs: Date.now() + handOverWindowMs });
     url.searchParams.delete(startParameter);
     const search = url.searchParams.toString();
     send(response, 303, 'Opening Tidewing…', textType, {

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { startBackEnd } from '../../main/back-end/back-end.js';
 import { startLoopbackHost, type LoopbackHost } from '../../main/host/loopback-host.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
@@ -124,6 +124,20 @@ describe('loopback browser host', () => {
     expect(again.status).toBe(200);
     expect(again.body).not.toMatch(tokenMeta);
     expect((await request(started.port, { path: '/app.js', headers: { cookie } })).status).toBe(200);
+  });
+
+  it('does not hand the token over when the page comes long after the start address was used', async () => {
+    const started = await host();
+    const { cookie } = await open(started);
+    // A page that never loaded leaves a session whose cookie must not fetch the token later.
+    vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + 3 * 60 * 1000 });
+    try {
+      const late = await request(started.port, { path: '/', headers: { cookie } });
+      expect(late.status).toBe(200);
+      expect(late.body).not.toMatch(tokenMeta);
+    } finally {
+      vi.useRealTimers();
+    }
   });
 
   it('refuses a start address used once already, and accepts a newly issued one', async () => {
