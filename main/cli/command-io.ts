@@ -133,7 +133,9 @@ export function parseArguments(
       }
       if (!spec.valueOptions.includes(name)) {
         const known = [...spec.valueOptions, ...(spec.flagOptions ?? [])].join(', ');
-        throw new UsageError(`Unknown option "${name}"${known === '' ? '' : `; options: ${known}`}.`);
+        throw new UsageError(
+          `Unknown option "${escapeForTerminal(name)}"${known === '' ? '' : `; options: ${known}`}.`,
+        );
       }
       if (values.has(name)) throw new UsageError(`${name} is given twice.`);
       let value: string | undefined;
@@ -147,7 +149,7 @@ export function parseArguments(
       values.set(name, value);
     } else {
       if (positionals.length >= spec.maxPositionals)
-        throw new UsageError(`Unexpected argument "${argument}".`);
+        throw new UsageError(`Unexpected argument "${escapeForTerminal(argument)}".`);
       positionals.push(argument);
     }
   }

@@ -4,7 +4,13 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
-import { endQuietlyOnClosedPipe, escapeForTerminal, jsonForTerminal } from '../../main/cli/command-io.js';
+import {
+  endQuietlyOnClosedPipe,
+  escapeForTerminal,
+  jsonForTerminal,
+  parseArguments,
+  UsageError,
+} from '../../main/cli/command-io.js';
 
 /** True when the text holds a character a terminal acts on (all but the line feed). */
 function hasTerminalControls(text: string): boolean {
@@ -44,6 +50,18 @@ describe('escapeForTerminal', () => {
 
   it('keeps line breaks and tabs only when asked', () => {
     expect(escapeForTerminal('a\n\tb\r', { keepLineBreaks: true })).toBe('a\n\tb\\x0D');
+  });
+});
+
+describe('parseArguments', () => {
+  it('escapes an unknown option or argument it quotes back', () => {
+    const spec = { valueOptions: ['--data'], maxPositionals: 0 };
+    expect(() => parseArguments(['--x\u001b[2J'], spec)).toThrow(
+      new UsageError('Unknown option "--x\\x1B[2J"; options: --data.'),
+    );
+    expect(() => parseArguments(['a\u202Eb'], spec)).toThrow(
+      new UsageError('Unexpected argument "a\\u{202E}b".'),
+    );
   });
 });
 
