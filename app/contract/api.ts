@@ -8,5 +8,10 @@ export type TidewingApi = {
 
 /** The token header the loopback host requires on every bridge call. */
 export const tokenHeader = 'x-tidewing-token';
+/**
+ * Name of the `<meta>` element through which the loopback host hands the bridge token to the
+ * first page loaded after a start address is used (never in an address, a cookie or a log).
+ */
+export const tokenMetaName = 'tidewing-bridge-token';
 /** Path prefix of the loopback bridge; the channel name follows. */
 export const bridgePathPrefix = '/api/';

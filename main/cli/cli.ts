@@ -1,5 +1,5 @@
 import fs from 'node:fs/promises';
-import { processIo } from './command-io.js';
+import { escapeForTerminal, processIo } from './command-io.js';
 
 // Each command loads its own modules when it runs, so that a quick command does not wait for
 // the database driver or the model it does not use.
@@ -7,7 +7,8 @@ type Command = { readonly summary: string; run(args: string[]): Promise<number> 
 
 const commands: Readonly<Record<string, Command>> = {
   plan: {
-    summary: 'predictions for a plan file as JSON: FILE or - for standard input [--summary]',
+    summary:
+      'predictions for a plan file as JSON: FILE or - for standard input [--summary] [--allow-unknown-species]',
     run: async (args) =>
       (await import('./plan-command.js')).runPlanCommand(args, {
         stdin: process.stdin,
@@ -54,7 +55,7 @@ export async function runCli(argv: string[]): Promise<number> {
   }
   const command = commands[name];
   if (command === undefined) {
-    process.stderr.write(`tidewing: unknown command "${name}".\n${usage()}\n`);
+    process.stderr.write(`tidewing: unknown command "${escapeForTerminal(name)}".\n${usage()}\n`);
     return 2;
   }
   return command.run(rest);

@@ -1,12 +1,15 @@
 /**
  * `tidewing plan FILE` (or `-` for standard input): validates a plan, computes it and prints the
  * result JSON, or with `--summary` a short table. Invalid input: exit code 2, one line per bad
- * field on standard error, nothing on standard output.
+ * field on standard error, nothing on standard output. A UTF-8 byte-order mark is skipped; every
+ * piece of the input it echoes is escaped for the terminal; an unknown `speciesId` is refused
+ * unless `--allow-unknown-species` is given.
  */
 import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
 import { computePlan } from '../../app/core/model/compute-plan.js';
 import type { PlanResult } from '../../app/core/model/plan-types.js';
 import { speciesReference } from '../../app/core/species-reference.js';
+import { escapeForTerminal, jsonForTerminal } from './command-io.js';
 
 export type PlanCommandIo = {
   readonly stdin: NodeJS.ReadableStream;
@@ -15,13 +18,22 @@ export type PlanCommandIo = {
   readonly readFile: (path: string) => Promise<string>;
 };
 
-export const planCommandUsage = 'Usage: tidewing plan FILE [--summary]   (FILE may be - for standard input)';
+export const planCommandUsage =
+  'Usage: tidewing plan FILE [--summary] [--allow-unknown-species]   (FILE may be - for standard input)';
 
 async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
-  const chunks: string[] = [];
+  // Decoded once at the end, so a character split between two chunks stays whole.
+  const chunks: Buffer[] = [];
   for await (const chunk of stream)
-    chunks.push(typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8'));
-  return chunks.join('');
+    chunks.push(typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : Buffer.from(chunk));
+  return Buffer.concat(chunks).toString('utf8');
+}
+
+/** Input shown in a message: escaped, so it can neither drive the terminal nor fake a line. */
+const shown = (text: string): string => escapeForTerminal(text);
+
+function errorMessage(error: unknown): string {
+  return shown(error instanceof Error ? error.message : String(error));
 }
 
 /**
@@ -32,14 +44,16 @@ async function readStream(stream: NodeJS.ReadableStream): Promise<string> {
  */
 export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise<number> {
   let summary = false;
+  let allowUnknownSpecies = false;
   const files: string[] = [];
   for (const arg of args) {
     if (arg === '--summary') summary = true;
+    else if (arg === '--allow-unknown-species') allowUnknownSpecies = true;
     else if (arg === '--help' || arg === '-h') {
       io.stdout(`${planCommandUsage}\n`);
       return 0;
     } else if (arg.startsWith('--')) {
-      io.stderr(`tidewing plan: unknown option ${arg}\n${planCommandUsage}\n`);
+      io.stderr(`tidewing plan: unknown option ${shown(arg)}\n${planCommandUsage}\n`);
       return 2;
     } else files.push(arg);
   }
@@ -48,29 +62,42 @@ export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise
     io.stderr(`tidewing plan: give exactly one plan file\n${planCommandUsage}\n`);
     return 2;
   }
+  const source = file === '-' ? 'standard input' : shown(file);
   let text: string;
   try {
     text = file === '-' ? await readStream(io.stdin) : await io.readFile(file);
   } catch (error) {
-    io.stderr(
-      `tidewing plan: cannot read ${file}: ${error instanceof Error ? error.message : String(error)}\n`,
-    );
+    io.stderr(`tidewing plan: cannot read ${source}: ${errorMessage(error)}\n`);
     return 2;
   }
+  // Editors on some systems start UTF-8 files with a byte-order mark; JSON.parse refuses it.
+  if (text.startsWith('\uFEFF')) text = text.slice(1);
   let json: unknown;
   try {
     json = JSON.parse(text);
   } catch (error) {
-    io.stderr(
-      `tidewing plan: ${file === '-' ? 'standard input' : file} is not valid JSON (${error instanceof Error ? error.message : String(error)})\n`,
-    );
+    io.stderr(`tidewing plan: ${source} is not valid JSON (${errorMessage(error)})\n`);
     return 2;
   }
   const parsed = planInputSchema.safeParse(json);
   if (!parsed.success) {
-    const lines = planIssueMessages(parsed.error);
+    const lines = planIssueMessages(parsed.error).map(shown);
     io.stderr(
       `tidewing plan: the plan has ${String(lines.length)} problem${lines.length === 1 ? '' : 's'}:\n${lines.map((line) => `  ${line}`).join('\n')}\n`,
+    );
+    return 2;
+  }
+  const speciesId = parsed.data.speciesId;
+  if (
+    speciesId !== undefined &&
+    !allowUnknownSpecies &&
+    !speciesReference.some((row) => row.id === speciesId)
+  ) {
+    // A misspelt id would silently lose the species' mass range and published MAC.
+    io.stderr(
+      `tidewing plan: speciesId "${shown(speciesId)}" is not in the species reference, so its mass range and published MAC could not be checked. ` +
+        `Use one of: ${speciesReference.map((row) => row.id).join(', ')}; or leave speciesId out; ` +
+        'or add --allow-unknown-species to compute with the agent default MAC.\n',
     );
     return 2;
   }
@@ -78,12 +105,10 @@ export async function runPlanCommand(args: string[], io: PlanCommandIo): Promise
   try {
     result = computePlan(parsed.data, { species: speciesReference });
   } catch (error) {
-    io.stderr(
-      `tidewing plan: the plan could not be computed: ${error instanceof Error ? error.message : String(error)}\n`,
-    );
+    io.stderr(`tidewing plan: the plan could not be computed: ${errorMessage(error)}\n`);
     return 1;
   }
-  io.stdout(summary ? formatPlanSummary(result) : `${JSON.stringify(result, null, 2)}\n`);
+  io.stdout(summary ? formatPlanSummary(result) : `${jsonForTerminal(result)}\n`);
   return 0;
 }
 
@@ -105,7 +130,7 @@ export function formatPlanSummary(result: PlanResult): string {
   const rows: [string, string][] = [
     [
       'Patient',
-      `${result.patientName ?? '(unnamed)'}${result.speciesId === null ? '' : `, ${result.speciesId}`}`,
+      `${result.patientName === null ? '(unnamed)' : shown(result.patientName)}${result.speciesId === null ? '' : `, ${shown(result.speciesId)}`}`,
     ],
     ['Agent / MAC', `${result.agent}, MAC ${result.mac.valuePct.toFixed(2)} % (${result.mac.basis})`],
     ['Tidal volume', `${e.tidalVolumeMl.value.toPrecision(3)} mL`],
@@ -153,6 +178,7 @@ export function formatPlanSummary(result: PlanResult): string {
   ];
   const width = Math.max(...rows.map(([label]) => label.length));
   const lines = rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`);
-  const cautions = result.cautions.map((caution) => `  [${caution.severity}] ${caution.message}`);
+  // Caution messages may quote the input (an unknown species id, say).
+  const cautions = result.cautions.map((caution) => `  [${caution.severity}] ${shown(caution.message)}`);
   return `${lines.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
 }

@@ -122,8 +122,9 @@ export async function runWorksheetCommand(
     // Chromium takes about half a second to start: start it on the worksheet's address first,
     // and open the database (which takes a few hundred milliseconds to load) while it starts.
     host = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch });
-    // The worksheet alone (print.html), with the token query before the hash: the page keeps
-    // the token and drops it from the address.
+    // The worksheet alone (print.html), on the host's one-time start address: the host trades
+    // the code for a session and redirects to /print.html (the browser keeps the hash), whose
+    // HTML hands the page the bridge token. The code on Chromium's command line is spent then.
     const page = new URL(host.url);
     page.pathname = '/print.html';
     page.hash = `#/worksheets/${planId}`;

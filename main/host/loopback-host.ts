@@ -1,16 +1,23 @@
 import crypto from 'node:crypto';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { bridgePathPrefix, tokenHeader } from '../../app/contract/api.js';
+import { bridgePathPrefix, tokenHeader, tokenMetaName } from '../../app/contract/api.js';
 import type { Dispatcher } from '../back-end/handlers.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
 import { readRendererFile } from '../back-end/static-files.js';
 
 export type LoopbackHost = {
+  /**
+   * The first one-time start address (`http://127.0.0.1:PORT/?start=CODE`): printed and given to
+   * the browser. It works once; afterwards it is refused.
+   */
   readonly url: string;
   readonly origin: string;
   readonly port: number;
+  /** The bridge token, for in-process callers and tests; never printed, never in an address. */
   readonly token: string;
+  /** Issues another one-time start address, for another tab or browser. */
+  newStartUrl(): string;
   close(): Promise<void>;
 };
 
@@ -22,23 +29,32 @@ export type LoopbackOptions = {
   /** Fixed only by tests; a fresh random token per run otherwise. */
   readonly token?: string;
   readonly log?: (message: string) => void;
+  /** Called each time a start address is used (after its session is set up). */
+  readonly onStartAddressUsed?: () => void;
 };
 
-const cookieName = 'tidewing_token';
-const maxBodyBytes = 2 * 1024 * 1024;
+/** Largest bridge request body, bytes (a plan with its snapshot is a few hundred KiB at most). */
+export const maxBodyBytes = 2 * 1024 * 1024;
+const startParameter = 'start';
+const textType = 'text/plain; charset=utf-8';
+const jsonType = 'application/json; charset=utf-8';
 
-function sameToken(expected: string, offered: string | undefined): boolean {
+function randomSecret(): string {
+  return crypto.randomBytes(24).toString('base64url');
+}
+
+function sameSecret(expected: string, offered: string | undefined): boolean {
   if (offered === undefined) return false;
   const a = Buffer.from(expected);
   const b = Buffer.from(offered);
   return a.length === b.length && crypto.timingSafeEqual(a, b);
 }
 
-function cookieToken(header: string | undefined): string | undefined {
+function cookieValue(header: string | undefined, name: string): string | undefined {
   if (header === undefined) return undefined;
   for (const part of header.split(';')) {
-    const [name, ...rest] = part.trim().split('=');
-    if (name === cookieName) return rest.join('=');
+    const [key, ...rest] = part.trim().split('=');
+    if (key === name) return rest.join('=');
   }
   return undefined;
 }
@@ -54,15 +70,34 @@ function send(
   response.end(body);
 }
 
+function sendBridgeError(response: http.ServerResponse, status: number, message: string): void {
+  send(
+    response,
+    status,
+    JSON.stringify({ ok: false, error: { code: 'invalid-request', message } }),
+    jsonType,
+  );
+}
+
+class BodyTooLargeError extends Error {}
+
+/**
+ * Reads a request body of at most `maxBodyBytes`. Past the limit it stops keeping the bytes but
+ * goes on reading (and discarding) them, so the 413 answer reaches the client instead of a
+ * connection reset.
+ */
 function readBody(request: http.IncomingMessage): Promise<string> {
   return new Promise((resolve, reject) => {
     const chunks: Buffer[] = [];
     let size = 0;
+    let tooLarge = false;
     request.on('data', (chunk: Buffer) => {
       size += chunk.length;
+      if (tooLarge) return;
       if (size > maxBodyBytes) {
-        reject(new Error('Request body too large'));
-        request.destroy();
+        tooLarge = true;
+        chunks.length = 0;
+        reject(new BodyTooLargeError());
         return;
       }
       chunks.push(chunk);
@@ -72,112 +107,215 @@ function readBody(request: http.IncomingMessage): Promise<string> {
   });
 }
 
+/** Puts the bridge token into the page's head as a `<meta>` element the bridge reads once. */
+function withToken(html: Buffer, token: string): Buffer {
+  const text = html.toString('utf8');
+  const meta = `<meta name="${tokenMetaName}" content="${token}" />`;
+  const head = /<head[^>]*>/i.exec(text);
+  if (head === null) return Buffer.from(`${meta}${text}`, 'utf8');
+  const at = head.index + head[0].length;
+  return Buffer.from(`${text.slice(0, at)}${meta}${text.slice(at)}`, 'utf8');
+}
+
+/** One use of a start code: the page it opens may take the bridge token once, soon after. */
+type Session = { tokenHandedOver: boolean; readonly handOverUntilMs: number };
+
+/** How long after a start code is used its page may still take the token, ms (a slow browser start). */
+const handOverWindowMs = 2 * 60 * 1000;
+
 /**
- * Serves the built renderer and the contract bridge on 127.0.0.1 only. Every request must carry
- * the per-run token (query on the first page load, then an HttpOnly cookie for files and the
- * token header for bridge calls); the Host header must name this loopback address and port,
- * which defeats DNS rebinding.
+ * Serves the built renderer and the contract bridge on 127.0.0.1 only.
+ * - The address it prints carries a one-time start code. Its first use sets a cookie (a separate
+ *   random value, named after the port, good only for the app's files) and redirects to the
+ *   clean address; the page loaded next gets the bridge token inside its HTML. A used code is
+ *   refused, so what a process list or a browser command line shows is useless once opened.
+ * - Bridge calls (`POST /api/<channel>`) need the token header, and an Origin, when the browser
+ *   sends one, equal to this host's own origin; so a page of another local server (which the
+ *   browser also sends our cookie to) can do nothing with it.
+ * - The Host header must name this loopback address and port (defeats DNS rebinding).
+ * - Malformed addresses answer 400, bodies over `maxBodyBytes` 413.
  */
 export async function startLoopbackHost(options: LoopbackOptions): Promise<LoopbackHost> {
-  const token = options.token ?? crypto.randomBytes(24).toString('base64url');
+  const token = options.token ?? randomSecret();
   const log = options.log ?? (() => undefined);
   let allowedHosts = new Set<string>();
+  let allowedOrigins = new Set<string>();
+  let cookieName = '';
+  let origin = '';
+  const unusedStartCodes = new Set<string>();
+  const usedStartCodes = new Set<string>();
+  // Keyed by the cookie value; each use of a start code opens one session.
+  const sessions = new Map<string, Session>();
 
   const server = http.createServer((request, response) => {
     void handle(request, response).catch((error: unknown) => {
       log(`Request failed: ${error instanceof Error ? error.message : String(error)}`);
-      if (!response.headersSent) send(response, 500, 'Internal error', 'text/plain; charset=utf-8');
+      if (!response.headersSent) send(response, 500, 'Internal error', textType);
       else response.end();
     });
   });
 
+  function sessionOf(request: http.IncomingMessage): Session | undefined {
+    const offered = cookieValue(request.headers.cookie, cookieName);
+    if (offered === undefined) return undefined;
+    for (const [key, session] of sessions) if (sameSecret(key, offered)) return session;
+    return undefined;
+  }
+
   async function handle(request: http.IncomingMessage, response: http.ServerResponse): Promise<void> {
     const host = request.headers.host;
     if (host === undefined || !allowedHosts.has(host.toLowerCase())) {
-      send(
-        response,
-        421,
-        'This Tidewing host answers only on its loopback address.',
-        'text/plain; charset=utf-8',
-      );
+      send(response, 421, 'This Tidewing host answers only on its loopback address.', textType);
       return;
     }
-    const url = new URL(request.url ?? '/', `http://${host}`);
-    const headerToken = request.headers[tokenHeader];
-    const offeredHeader = typeof headerToken === 'string' ? headerToken : undefined;
-    const offeredQuery = url.searchParams.get('token') ?? undefined;
-    const offeredCookie = cookieToken(request.headers.cookie);
+    const target = request.url ?? '';
+    let url: URL;
+    try {
+      if (!target.startsWith('/')) throw new Error('not a path');
+      // Joined rather than resolved, so that `//name/...` stays a path and never becomes a host.
+      url = new URL(`${origin}${target}`);
+      decodeURIComponent(url.pathname);
+    } catch {
+      send(response, 400, 'Malformed address: check the percent-encoding of the path.', textType);
+      return;
+    }
 
     if (url.pathname.startsWith(bridgePathPrefix)) {
-      // Bridge calls need the header: a cookie alone could be replayed by another page.
-      if (!sameToken(token, offeredHeader)) {
-        send(
-          response,
-          403,
-          JSON.stringify({
-            ok: false,
-            error: { code: 'invalid-request', message: 'Missing or wrong access token.' },
-          }),
-          'application/json; charset=utf-8',
-        );
-        return;
-      }
-      if (request.method !== 'POST') {
-        send(response, 405, 'Use POST', 'text/plain; charset=utf-8', { allow: 'POST' });
-        return;
-      }
-      const channel = decodeURIComponent(url.pathname.slice(bridgePathPrefix.length));
-      let payload: unknown;
-      try {
-        const text = await readBody(request);
-        payload = text === '' ? {} : JSON.parse(text);
-      } catch (error) {
-        const message = error instanceof Error ? error.message : String(error);
-        send(
-          response,
-          400,
-          JSON.stringify({
-            ok: false,
-            error: { code: 'invalid-request', message: `The request body is not valid JSON: ${message}` },
-          }),
-          'application/json; charset=utf-8',
-        );
-        return;
-      }
-      const result = await options.dispatch(channel, payload);
-      send(response, 200, JSON.stringify(result), 'application/json; charset=utf-8');
+      await bridgeCall(request, response, decodeURIComponent(url.pathname.slice(bridgePathPrefix.length)));
       return;
     }
 
-    const viaQuery = sameToken(token, offeredQuery);
-    if (!viaQuery && !sameToken(token, offeredCookie) && !sameToken(token, offeredHeader)) {
+    if (request.method !== 'GET' && request.method !== 'HEAD') {
+      send(response, 405, 'Use GET', textType, { allow: 'GET, HEAD' });
+      return;
+    }
+    const startCode = url.searchParams.get(startParameter);
+    if (startCode !== null) {
+      // Only a page load spends the code, not a HEAD from a link checker or preview.
+      if (request.method !== 'GET') {
+        send(response, 405, 'Open this address in a browser.', textType, { allow: 'GET' });
+        return;
+      }
+      useStartCode(response, url, startCode);
+      return;
+    }
+    const session = sessionOf(request);
+    if (session === undefined) {
       send(
         response,
         403,
-        'Access refused: open the full address Tidewing printed, including its token.',
-        'text/plain; charset=utf-8',
+        'Access refused: open the one-time address Tidewing printed in its terminal (each address works once; Tidewing prints the next one after each use).',
+        textType,
       );
-      return;
-    }
-    if (request.method !== 'GET' && request.method !== 'HEAD') {
-      send(response, 405, 'Use GET', 'text/plain; charset=utf-8', { allow: 'GET, HEAD' });
       return;
     }
     const file = await readRendererFile(options.rendererDirectory, url.pathname);
     if (file === null) {
-      send(response, 404, 'Not found', 'text/plain; charset=utf-8');
+      send(response, 404, 'Not found', textType);
       return;
     }
-    const extra: Record<string, string> = viaQuery
-      ? { 'set-cookie': `${cookieName}=${token}; HttpOnly; SameSite=Strict; Path=/` }
-      : {};
-    send(
+    let body = file.body;
+    if (
+      file.extension === '.html' &&
+      request.method === 'GET' &&
+      !session.tokenHandedOver &&
+      Date.now() <= session.handOverUntilMs
+    ) {
+      // Only the first page after the start address gets the token; it keeps it for its tab.
+      session.tokenHandedOver = true;
+      body = withToken(body, token);
+    }
+    send(response, 200, request.method === 'HEAD' ? Buffer.alloc(0) : body, contentTypeFor(file.extension));
+  }
+
+  function useStartCode(response: http.ServerResponse, url: URL, offered: string): void {
+    let known: string | undefined;
+    for (const code of unusedStartCodes) if (sameSecret(code, offered)) known = code;
+    if (known === undefined) {
+      const used = [...usedStartCodes].some((code) => sameSecret(code, offered));
+      send(
+        response,
+        403,
+        used
+          ? 'This one-time address has already been used. Open the newest address Tidewing printed in its terminal. If you did not open this one yourself, stop Tidewing (Ctrl+C) and start it again.'
+          : 'This start address is not valid for this Tidewing. Open the address it printed in its terminal.',
+        textType,
+      );
+      return;
+    }
+    unusedStartCodes.delete(known);
+    usedStartCodes.add(known);
+    const fileKey = randomSecret();
+    sessions.set(fileKey, { tokenHandedOver: false, handOverUntilMs: Date.now() + handOverWindowMs });
+    url.searchParams.delete(startParameter);
+    const search = url.searchParams.toString();
+    send(response, 303, 'Opening Tidewing…', textType, {
+      location: `${url.pathname}${search === '' ? '' : `?${search}`}`,
+      'set-cookie': `${cookieName}=${fileKey}; HttpOnly; SameSite=Strict; Path=/`,
+    });
+    options.onStartAddressUsed?.();
+  }
+
+  async function bridgeCall(
+    request: http.IncomingMessage,
+    response: http.ServerResponse,
+    channel: string,
+  ): Promise<void> {
+    // A declared oversize body is refused before anything else, and read to its end unkept.
+    const declaredLength = Number(request.headers['content-length'] ?? 0);
+    if (declaredLength > maxBodyBytes) {
+      sendTooLarge(response);
+      request.resume();
+      return;
+    }
+    // Bridge calls need the header: a cookie alone could be replayed by another page.
+    const headerToken = request.headers[tokenHeader];
+    if (!sameSecret(token, typeof headerToken === 'string' ? headerToken : undefined)) {
+      sendBridgeError(response, 403, 'Missing or wrong access token.');
+      return;
+    }
+    const requestOrigin = request.headers.origin;
+    const fetchSite = request.headers['sec-fetch-site'];
+    if (
+      (requestOrigin !== undefined && !allowedOrigins.has(requestOrigin.toLowerCase())) ||
+      (fetchSite !== undefined && fetchSite !== 'same-origin')
+    ) {
+      sendBridgeError(response, 403, 'Calls from another web page are refused.');
+      return;
+    }
+    if (request.method !== 'POST') {
+      send(response, 405, 'Use POST', textType, { allow: 'POST' });
+      return;
+    }
+    let payload: unknown;
+    try {
+      const text = await readBody(request);
+      payload = text === '' ? {} : JSON.parse(text);
+    } catch (error) {
+      if (error instanceof BodyTooLargeError) {
+        sendTooLarge(response);
+        return;
+      }
+      const message = error instanceof Error ? error.message : String(error);
+      sendBridgeError(response, 400, `The request body is not valid JSON: ${message}`);
+      return;
+    }
+    const result = await options.dispatch(channel, payload);
+    send(response, 200, JSON.stringify(result), jsonType);
+  }
+
+  function sendTooLarge(response: http.ServerResponse): void {
+    sendBridgeError(
       response,
-      200,
-      request.method === 'HEAD' ? Buffer.alloc(0) : file.body,
-      contentTypeFor(file.extension),
-      extra,
+      413,
+      `The request is larger than ${maxBodyBytes / 1024 / 1024} MiB and was not read. Shorten the text in it and try again.`,
     );
+  }
+
+  function newStartUrl(): string {
+    const code = randomSecret();
+    unusedStartCodes.add(code);
+    return `${origin}/?${startParameter}=${code}`;
   }
 
   await new Promise<void>((resolve, reject) => {
@@ -189,13 +327,18 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
   });
   const port = (server.address() as AddressInfo).port;
   allowedHosts = new Set([`127.0.0.1:${port}`, `localhost:${port}`]);
-  const origin = `http://127.0.0.1:${port}`;
+  allowedOrigins = new Set([`http://127.0.0.1:${port}`, `http://localhost:${port}`]);
+  // Browsers send a host's cookies to every port on it: one name per port keeps two instances
+  // in one browser apart.
+  cookieName = `tidewing_files_${port}`;
+  origin = `http://127.0.0.1:${port}`;
 
   return {
-    url: `${origin}/?token=${token}`,
+    url: newStartUrl(),
     origin,
     port,
     token,
+    newStartUrl,
     close: () =>
       new Promise<void>((resolve) => {
         server.closeAllConnections();

@@ -5,7 +5,7 @@ import { startBackEnd } from '../back-end/back-end.js';
 import { defaultDataDirectory } from '../back-end/data-directory.js';
 import { electronAvailability } from './electron-availability.js';
 import { installedElectronVersion, prepareElectronSqlite } from '../back-end/electron-native.js';
-import { startLoopbackHost } from './loopback-host.js';
+import { startLoopbackHost, type LoopbackHost } from './loopback-host.js';
 import { openInSystemBrowser } from './open-browser.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
 
@@ -56,18 +56,26 @@ async function main(): Promise<number> {
     process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
   }
-  const host = await startLoopbackHost({
+  // Each printed address works once (the browser's command line and the process list show it):
+  // after each use, print the next one for another tab or browser.
+  const host: LoopbackHost = await startLoopbackHost({
     port: args.port,
     rendererDirectory: rendererDirectory(root),
     dispatch: backEnd.dispatch,
     log: (message) => process.stderr.write(`${message}\n`),
+    onStartAddressUsed: () =>
+      process.stdout.write(
+        `Opened in a browser. For another tab or browser, open this one-time address: ${host.newStartUrl()}\n`,
+      ),
   });
   process.stdout.write(
     `Tidewing ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`,
   );
   process.stdout.write(`Data folder: ${dataDirectory}\n`);
   process.stdout.write(`Open: ${host.url}\n`);
-  process.stdout.write(`(ready in ${Math.round(performance.now() - startedAt)} ms; press Ctrl+C to stop)\n`);
+  process.stdout.write(
+    `(ready in ${Math.round(performance.now() - startedAt)} ms; the address works once; press Ctrl+C to stop)\n`,
+  );
   if (args.open) openInSystemBrowser(host.url);
 
   return new Promise((resolve) => {

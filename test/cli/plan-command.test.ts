@@ -81,6 +81,98 @@ describe('tidewing plan', () => {
   });
 });
 
+/** True when the text holds a character a terminal acts on (all but the line feed). */
+function hasTerminalControls(text: string): boolean {
+  return [...text].some((character) => {
+    const code = character.codePointAt(0) ?? 0;
+    return (
+      (code <= 0x1f && code !== 0x0a) ||
+      (code >= 0x7f && code <= 0x9f) ||
+      (code >= 0x202a && code <= 0x202e) ||
+      code === 0x2028 ||
+      code === 0x2029 ||
+      (code >= 0xd800 && code <= 0xdfff)
+    );
+  });
+}
+
+describe('tidewing plan with unusual input', () => {
+  const kiwi = {
+    patientName: 'Kiwi',
+    bodyMassG: 95,
+    speciesId: 'cockatiel',
+    agent: 'isoflurane',
+    route: 'chamber',
+    freshGasLpm: 2,
+    chamberVolumeL: 3,
+    schedule: [
+      { atMin: 0, vaporPct: 5 },
+      { atMin: 10, vaporPct: 0 },
+    ],
+    scavenging: false,
+  };
+
+  it('reads a plan file that starts with a UTF-8 byte-order mark, from a file and from standard input', async () => {
+    const text = `\uFEFF${JSON.stringify(kiwi)}`;
+    const fromFile = await run(['kiwi.json'], '', { 'kiwi.json': text });
+    expect(fromFile.stderr).toBe('');
+    expect(fromFile.code).toBe(0);
+    expect(JSON.parse(fromFile.stdout).patientName).toBe('Kiwi');
+    // The mark as its three UTF-8 bytes, split between two chunks of the stream.
+    const bytes = Buffer.from(text, 'utf8');
+    let stdout = '';
+    const code = await runPlanCommand(['-'], {
+      stdin: Readable.from([bytes.subarray(0, 2), bytes.subarray(2)]),
+      stdout: (chunk) => {
+        stdout += chunk;
+      },
+      stderr: () => undefined,
+      readFile: () => Promise.reject(new Error('not used')),
+    });
+    expect(code).toBe(0);
+    expect(JSON.parse(stdout).patientName).toBe('Kiwi');
+  });
+
+  it('refuses an unknown speciesId with exit 2 and a message naming it and the way out', async () => {
+    const plan = JSON.stringify({ ...kiwi, speciesId: 'cockateil' });
+    const refused = await run(['kiwi.json'], '', { 'kiwi.json': plan });
+    expect(refused.code).toBe(2);
+    expect(refused.stdout).toBe('');
+    expect(refused.stderr).toContain('speciesId "cockateil" is not in the species reference');
+    expect(refused.stderr).toContain('cockatiel');
+    expect(refused.stderr).toContain('--allow-unknown-species');
+    const allowed = await run(['kiwi.json', '--allow-unknown-species'], '', { 'kiwi.json': plan });
+    expect(allowed.code).toBe(0);
+    expect(JSON.parse(allowed.stdout).cautions.map((caution: { code: string }) => caution.code)).toContain(
+      'unknown-species',
+    );
+  });
+
+  it('escapes escape sequences, control characters and bidi overrides it echoes from the input', async () => {
+    const hostile = '\u001b[2J\u001b]0;owned\u0007Pip\u202Egnp.exe\r\n';
+    // In a field name (zod names unknown fields in its message) and in the file name.
+    const badKey = await run([`plan\u001b[31m.json`], '', {
+      [`plan\u001b[31m.json`]: JSON.stringify({ ...kiwi, [hostile]: 1 }),
+    });
+    expect(badKey.code).toBe(2);
+    expect(hasTerminalControls(badKey.stderr)).toBe(false);
+    expect(badKey.stderr).toContain('\\x1B[2J\\x1B]0;owned\\x07Pip\\u{202E}gnp.exe\\x0D\\x0A');
+    // In a JSON syntax error that quotes the input.
+    const badJson = await run(['-'], '{"patientName": "\u001b[31mred\u001b[0m", oops}');
+    expect(badJson.code).toBe(2);
+    expect(badJson.stderr).not.toContain('\u001b');
+    // In the summary's patient name; the JSON output stays parseable and equal.
+    const named = { ...kiwi, patientName: 'Ki\u202Ewi\u0085' };
+    const summary = await run(['kiwi.json', '--summary'], '', { 'kiwi.json': JSON.stringify(named) });
+    expect(summary.code).toBe(0);
+    expect(summary.stdout).toContain('Ki\\u{202E}wi\\x85');
+    const json = await run(['kiwi.json'], '', { 'kiwi.json': JSON.stringify(named) });
+    expect(json.code).toBe(0);
+    expect(json.stdout).not.toMatch(/[\u0085\u202E]/);
+    expect(JSON.parse(json.stdout).patientName).toBe('Ki\u202Ewi\u0085');
+  });
+});
+
 describe('the committed JSON Schema', () => {
   it('equals a fresh generation from the zod schema', async () => {
     const committed = await readFile(new URL(planInputSchemaPath, root), 'utf8');

@@ -22,7 +22,25 @@ describe('first run, settings and restart in headless Chromium', () => {
     try {
       await page.goto(host.url);
       await page.getByRole('heading', { name: 'Before you use Tidewing' }).waitFor();
-      expect(new URL(page.url()).searchParams.get('token')).toBeNull();
+      // The one-time code is gone from the address, the token from the page, and the file
+      // cookie (named after the port) is not the bridge token.
+      expect(new URL(page.url()).search).toBe('');
+      expect(await page.locator('meta[name="tidewing-bridge-token"]').count()).toBe(0);
+      const token = await page.evaluate(() => window.sessionStorage.getItem('tidewing.token'));
+      expect(token).toMatch(/^[\w-]{20,}$/);
+      const cookies = await page.context().cookies(host.origin);
+      expect(cookies.map((cookie) => cookie.name)).toEqual([`tidewing_files_${host.port}`]);
+      expect(cookies[0]?.value).not.toBe(token);
+      expect(cookies[0]?.httpOnly).toBe(true);
+      // What a process list showed is useless now: the same address is refused.
+      const reuse = await session.browser.newPage();
+      try {
+        const refused = await reuse.goto(host.url);
+        expect(refused?.status()).toBe(403);
+        await reuse.getByText(/already been used/).waitFor();
+      } finally {
+        await reuse.close();
+      }
       await shoot(page, '01-cautions');
 
       await page.getByRole('button', { name: 'Acknowledge and continue' }).click();

@@ -10,7 +10,13 @@ import { temporaryFolder } from '../support/temporary-folder.js';
 import { chromiumOrReason, needChromium } from '../support/chromium.js';
 
 export type RunningHost = {
+  /** The first one-time start address the host printed. */
   url: string;
+  /**
+   * The next one-time address the host printed (it prints one after each use of the previous
+   * one), waiting for it to appear; for a second page on the same host.
+   */
+  nextUrl: () => Promise<string>;
   origin: string;
   port: number;
   process: ChildProcess;
@@ -52,12 +58,14 @@ export function startHostProcess(
       reject(new Error(`No URL within ${timeoutMs} ms. Output so far:\n${output}`));
     }, timeoutMs);
     const check = () => {
-      const match = /Open: (http:\/\/127\.0\.0\.1:(\d+)\/\?token=\S+)/.exec(output);
+      const match = /Open: (http:\/\/127\.0\.0\.1:(\d+)\/\?start=[\w-]+)/.exec(output);
       if (match?.[1] === undefined || match[2] === undefined) return;
       clearTimeout(timer);
       const url = match[1];
+      let handedOut = 1;
       resolve({
         url,
+        nextUrl: () => nextStartAddress(child, () => output, handedOut++, timeoutMs),
         origin: new URL(url).origin,
         port: Number(match[2]),
         process: child,
@@ -73,6 +81,31 @@ export function startHostProcess(
       clearTimeout(timer);
       reject(new Error(`The host exited with code ${String(code)} before printing a URL:\n${output}`));
     });
+  });
+}
+
+/** The start address number `index` (0 the first) in the host's output, once it is printed. */
+function nextStartAddress(
+  child: ChildProcess,
+  output: () => string,
+  index: number,
+  timeoutMs: number,
+): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const find = () => {
+      const all = [...output().matchAll(/(http:\/\/127\.0\.0\.1:\d+\/\?start=[\w-]+)/g)];
+      const address = all[index]?.[1];
+      if (address === undefined) return false;
+      clearTimeout(timer);
+      child.stdout?.off('data', find);
+      resolve(address);
+      return true;
+    };
+    const timer = setTimeout(() => {
+      child.stdout?.off('data', find);
+      reject(new Error(`The host printed no start address number ${index + 1}. Output:\n${output()}`));
+    }, timeoutMs);
+    if (!find()) child.stdout?.on('data', find);
   });
 }
 

@@ -102,7 +102,7 @@ describe('patients, weights and species in headless Chromium', () => {
   it('shows species with their sources and keeps the earlier value when the clinic edits one', async () => {
     const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
-    await page.goto(host.url);
+    await page.goto(await host.nextUrl());
     await page.getByRole('heading', { name: 'Patients' }).waitFor();
     await page.getByLabel('Your initials').fill('MK');
     await page.keyboard.press('Alt+2');

@@ -38,15 +38,21 @@ function listeningAddresses(port: number): string[] {
 }
 
 describe('npm start on a machine without a display', () => {
-  it('prints a loopback URL within 10 s that serves the app only with its token, listening on 127.0.0.1 alone', async () => {
+  it('prints a one-time loopback URL within 10 s, refuses it once used, listening on 127.0.0.1 alone', async () => {
     const data = temporaryFolder();
     const startedAt = Date.now();
     const host = await startHostProcess(data.folder, [], 10_000);
     try {
       expect(Date.now() - startedAt).toBeLessThan(10_000);
       expect(host.output()).toMatch(/desktop window cannot open because there is no graphical display/);
-      expect(await status(host.url)).toBe(200);
+      // The printed address works once: it redirects to the clean address with the file cookie.
+      expect(await status(host.url)).toBe(303);
+      expect(await status(host.url)).toBe(403);
       expect(await status(`${host.origin}/`)).toBe(403);
+      // and the host prints the next one-time address for another tab or browser.
+      const next = await host.nextUrl();
+      expect(next).not.toBe(host.url);
+      expect(await status(next)).toBe(303);
       expect(listeningAddresses(host.port)).toEqual(['0100007F']); // 127.0.0.1 in /proc's byte order
     } finally {
       await host.stop();

@@ -1,4 +1,4 @@
-import { bridgePathPrefix, tokenHeader, type TidewingApi } from '../../contract/api.js';
+import { bridgePathPrefix, tokenHeader, tokenMetaName, type TidewingApi } from '../../contract/api.js';
 import type { ChannelName, RequestOf, ResponseOf } from '../../contract/channels.js';
 import type { Result } from '../../contract/result.js';
 
@@ -9,15 +9,20 @@ declare global {
 
 const tokenKey = 'tidewing.token';
 
-/** Keeps the loopback token for this tab and removes it from the address bar. */
+/**
+ * Keeps the loopback token for this tab. The host hands it over once, in a `<meta>` element of
+ * the first page after its one-time start address; the tab keeps it in sessionStorage (so a
+ * reload keeps working) and the element is removed from the page.
+ */
 function takeLoopbackToken(): string | null {
-  const url = new URL(window.location.href);
-  const fromUrl = url.searchParams.get('token');
-  if (fromUrl !== null) {
-    window.sessionStorage.setItem(tokenKey, fromUrl);
-    url.searchParams.delete('token');
-    window.history.replaceState(null, '', `${url.pathname}${url.search}${url.hash}`);
-    return fromUrl;
+  const meta = document.querySelector<HTMLMetaElement>(`meta[name="${tokenMetaName}"]`);
+  if (meta !== null) {
+    const handedOver = meta.content;
+    meta.remove();
+    if (handedOver !== '') {
+      window.sessionStorage.setItem(tokenKey, handedOver);
+      return handedOver;
+    }
   }
   return window.sessionStorage.getItem(tokenKey);
 }
@@ -38,7 +43,7 @@ function loopbackApi(): TidewingApi {
             error: {
               code: 'invalid-request',
               message:
-                'This page has lost its access token. Open the full address Tidewing printed when it started.',
+                'This tab has no access to Tidewing. Open the newest one-time address Tidewing printed in its terminal (each address works once, in one tab).',
             },
           };
         }
