@@ -20,7 +20,7 @@ export const clinicSettingsSchema = z.object({
   massUnit: z.enum(massUnits, { error: 'Choose g or kg for body mass.' }),
   pressureUnit: z.enum(pressureUnits, { error: 'Choose mmHg or kPa for pressures.' }),
   temperatureUnit: z.enum(temperatureUnits, { error: 'Choose C or F for temperature.' }),
-  defaultAgent: z.enum(agentIds as unknown as readonly ['isoflurane', 'sevoflurane', 'desflurane'], {
+  defaultAgent: z.enum(agentIds, {
     error: 'Choose isoflurane, sevoflurane or desflurane as the default agent.',
   }),
   paperSize: z.enum(paperSizes, { error: 'Choose A4 or Letter paper for worksheets.' }),

@@ -241,7 +241,7 @@ describe('airway and ventilation', () => {
     // IPPV peak pressure about 10-15 cmH2O [memory]
     const advice = collectCautions({ ventilationMode: 'ippv', ippvPeakPressureCmH2O: 12 });
     expect(advice.map((caution) => caution.code)).toEqual(['ippv-peak-pressure']);
-    expect(advice[0]?.reason).toMatch(/from memory/);
+    expect(advice[0]?.reason).toMatch(/unverified value/);
     expect(codes({ ventilationMode: 'ippv', ippvPeakPressureCmH2O: 20 })).toEqual([
       'ippv-peak-pressure-high',
     ]);

@@ -7,13 +7,8 @@
  * the vapour leaves at concentration c). The clinical rule of thumb (Dhulkhed et al. 2013) uses
  * FGF x c; the two differ by the factor 1 / (1 - c), 2 % at a 2 % dial.
  */
-import {
-  agents,
-  molarVolumeLAt20C,
-  standardAtmosphereMmHg,
-  type AgentId,
-  type SourcedValue,
-} from '../agents.js';
+import { agents, molarVolumeLAt20C, standardAtmosphereMmHg, type AgentId } from '../agents.js';
+import type { Sourced } from '../sourced.js';
 
 /** One vaporiser step: from `atMin` on, the dial reads `vaporPct` (until the next step). */
 export type VaporiserStep = {
@@ -92,12 +87,12 @@ export function vapourMlPerLiquidMl(agent: AgentId, temperatureC = 20): number {
  * @param temperatureC liquid temperature in C, 10 to 35; default 20
  * @returns vapour pressure in mmHg with its basis
  */
-export function saturatedVapourPressureMmHg(agent: AgentId, temperatureC = 20): SourcedValue {
+export function saturatedVapourPressureMmHg(agent: AgentId, temperatureC = 20): Sourced<number> {
   assertFinite(temperatureC, 'temperatureC', vaporiserTemperatureRangeC[0], vaporiserTemperatureRangeC[1]);
   if (agent === 'isoflurane') {
     const kelvin = temperatureC + 273.15;
     const { a, b, basis } = isofluraneVapourPressureEquation;
-    return { value: 10 ** (a - b / kelvin), basis, kind: 'equation' };
+    return { value: 10 ** (a - b / kelvin), basis, kind: 'published' };
   }
   const label = agents[agent].vapourPressureMmHgAt20C;
   if (temperatureC === 20) return label;

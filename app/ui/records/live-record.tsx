@@ -1,5 +1,7 @@
 import { useEffect, useId, useMemo, useRef, useState, type FormEvent } from 'react';
-import type { EventType, ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import type { ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import { circuitLabels } from '../../core/delivery.js';
+import { eventLabels, type EventType } from '../../core/procedure-events.js';
 import type { ProcedureDetail } from '../../contract/record-channels.js';
 import { formatMass } from '../../core/units.js';
 import { api } from '../common/bridge.js';
@@ -25,7 +27,6 @@ import { useInitialsGate } from './initials-gate.js';
 import {
   apnoeaActionSeconds,
   apnoeaNote,
-  eventLabels,
   promptState,
   recoveryMilestones,
   stoppedStopwatch,
@@ -34,7 +35,7 @@ import {
   toggleStopwatch,
   type Stopwatch,
 } from './monitoring.js';
-import { airwayText, asaText, circuitLabels } from './record-form.js';
+import { airwayText, asaText } from './record-form.js';
 import { PlanComparison } from './plan-comparison.js';
 import { RecordDetailsEditor } from './record-details-editor.js';
 import { recordSeries } from './record-series.js';

@@ -18,7 +18,8 @@ import {
   plannedEndMin,
 } from '../../core/worksheet.js';
 import { displayMass } from '../common/display.js';
-import { circuitLabels, estimateRows, figure, routeLabels } from './labels.js';
+import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { estimateRows, figure } from './labels.js';
 import { WorksheetChart } from './worksheet-chart.js';
 import './worksheet.css';
 
