@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
+import { cautionSeverities } from '../core/cautions.js';
 import { circuits, routes } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
@@ -421,7 +422,7 @@ export const planResultSchema = z.object({
   cautions: z.array(
     z.object({
       code: z.string(),
-      severity: z.enum(['danger', 'warning', 'notice']),
+      severity: z.enum(cautionSeverities),
       message: z.string(),
       reason: z.string(),
     }),

@@ -11,7 +11,9 @@ import { checkMassAgainstRange, unitSlipRule } from './mass-check.js';
 import { basisText, type Sourced } from './sourced.js';
 import type { AnatomyNote, MacMultiple, SpeciesReference } from './species-reference.js';
 
-export type CautionSeverity = 'danger' | 'warning' | 'notice';
+/** Severities of cautions and weight flags, most urgent first. */
+export const cautionSeverities = ['danger', 'warning', 'notice'] as const;
+export type CautionSeverity = (typeof cautionSeverities)[number];
 
 export type Caution = {
   /** Stable kebab-case code; screens and tests key on it. */

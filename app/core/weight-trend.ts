@@ -3,6 +3,7 @@
  * bands <5, <10, <15, <20 and >20 % used for pain scoring in birds (IVAPM pain scale for birds),
  * and warnings for a weight outside the species' typical range or one that looks like a unit slip.
  */
+import type { CautionSeverity } from './cautions.js';
 import { checkMassAgainstRange, unitSlipRule } from './mass-check.js';
 
 export type WeightPoint = { readonly weighedOn: string; readonly massG: number };
@@ -11,7 +12,7 @@ export type LossBand = 'no loss' | '<5 %' | '5-10 %' | '10-15 %' | '15-20 %' | '
 
 export type WeightFlag = {
   readonly code: string;
-  readonly severity: 'danger' | 'warning' | 'notice';
+  readonly severity: CautionSeverity;
   readonly message: string;
   readonly reason: string;
 };

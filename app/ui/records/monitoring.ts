@@ -84,9 +84,9 @@ export type TimedValues = { readonly values: ProcedureEntryValues };
 
 export const milestoneEvents = [
   { eventType: 'vaporiserOff', label: 'Gas off' },
-  { eventType: 'firstMovement', label: 'First movement' },
-  { eventType: 'extubation', label: 'Extubation' },
-  { eventType: 'standing', label: 'Standing / perching' },
+  { eventType: 'firstMovement', label: eventLabels.firstMovement },
+  { eventType: 'extubation', label: eventLabels.extubation },
+  { eventType: 'standing', label: eventLabels.standing },
 ] as const satisfies readonly { eventType: EventType; label: string }[];
 
 export type Milestone = {
