@@ -9,7 +9,7 @@ import { circleAboveMassG, practicalFloorFlowLpm, type Circuit, type Route } fro
 import { nioshCeilingPpm } from './budget/waste-gas.js';
 import { checkMassAgainstRange, unitSlipRule } from './mass-check.js';
 import { basisText, type Sourced } from './sourced.js';
-import type { AnatomyNote, MacMultiple, SpeciesReference } from './species-reference.js';
+import type { AnatomyNote, MacMultiple } from './species-reference.js';
 
 /** Severities of cautions and weight flags, most urgent first. */
 export const cautionSeverities = ['danger', 'warning', 'notice'] as const;
@@ -376,21 +376,4 @@ export function collectCautions(context: CautionContext): Caution[] {
       (a, b) => severityOrder[a.caution.severity] - severityOrder[b.caution.severity] || a.index - b.index,
     )
     .map(({ caution }) => caution);
-}
-
-/**
- * The species part of a caution context, taken from the species reference: name, typical mass
- * range, apnoea MAC multiple (published for isoflurane; used for every agent, as its basis says),
- * anatomy notes and whether a MAC is published for the agent.
- * @param species an entry of the species reference
- * @param agent the plan's agent, when known
- */
-export function speciesCautionContext(species: SpeciesReference, agent?: AgentId): CautionContext {
-  return {
-    speciesName: species.commonName,
-    speciesMassRangeG: { minG: species.typicalMassG.minG, maxG: species.typicalMassG.maxG },
-    anatomyNotes: species.anatomyNotes,
-    ...(species.apnoeaMacMultiple === undefined ? {} : { apnoeaMacMultiple: species.apnoeaMacMultiple }),
-    ...(agent === undefined ? {} : { macIsPublishedForBird: species.macByAgent[agent] !== undefined }),
-  };
 }

@@ -323,11 +323,3 @@ export const speciesReference: readonly SpeciesReference[] = [
     ],
   },
 ];
-
-/**
- * The species with this id, or undefined.
- * @param id a species id such as 'budgerigar'
- */
-export function findSpeciesReference(id: string): SpeciesReference | undefined {
-  return speciesReference.find((species) => species.id === id);
-}

@@ -1,10 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import {
-  findSpeciesReference,
-  speciesReference,
-  type SpeciesReference,
-} from '../../app/core/species-reference.js';
+import { speciesReference, type SpeciesReference } from '../../app/core/species-reference.js';
 import { basisText, sourceKinds } from '../../app/core/sourced.js';
+
+const findSpeciesReference = (id: string) => speciesReference.find((species) => species.id === id);
 
 /** Every object in the tree that holds a number beside a basis string, with its path. */
 function sourcedValues(

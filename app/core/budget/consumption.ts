@@ -41,12 +41,6 @@ export const isofluraneVapourPressureEquation = {
   basis: 'Product label (isoflurane): log10 P(mmHg) = 8.056 - 1664.58/T(K)',
 } as const;
 
-/** Basis text for the liquid-use figures, shown beside them. */
-export const consumptionBasis =
-  'Liquid used = vapour delivered / vapour per mL of liquid; vapour per mL = density / MW x molar volume (ideal gas, 1 atm); ' +
-  'vapour delivered = carrier flow x c / (1 - c) for a dial concentration c. Agrees within 10 % with the rule of thumb ' +
-  'mL/h = 3 x FGF x dial % (3.3 for sevoflurane) (Dhulkhed et al. 2013, Indian J Anaesth 57:455-463).';
-
 function assertFinite(
   value: number,
   name: string,
