@@ -4,6 +4,7 @@ import { acknowledgeRequestSchema, safetyStatusSchema } from './safety.js';
 import { recordChannels } from './record-channels.js';
 import { planChannels } from './plan-records.js';
 import { drugChannels } from './drug-channels.js';
+import { worksheetChannels } from './worksheet-channels.js';
 
 const empty = z.object({}).strict();
 
@@ -36,6 +37,7 @@ export const channels = {
   ...recordChannels,
   ...planChannels,
   ...drugChannels,
+  ...worksheetChannels,
 } as const;
 
 export type Channels = typeof channels;

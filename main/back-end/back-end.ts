@@ -4,11 +4,13 @@ import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
-import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
+import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
   readonly dispatch: Dispatcher;
+  /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
+  readonly handlers: HandlerTable;
   readonly databaseFile: string;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
@@ -55,6 +57,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   return {
     db,
     dispatch: createDispatcher(handlers, options.log),
+    handlers,
     databaseFile: file,
     backupSettled,
     close: () => {
