@@ -84,8 +84,8 @@ export function readBasis(text: string): { readonly basis: string; readonly kind
  */
 export function basisText(sourced: Basis): string {
   const label = sourceKindLabels[sourced.kind];
-  if (sourced.basis.toLowerCase().includes(label) || sourced.basis.trim() === '') {
-    return sourced.basis.trim() === '' ? label : sourced.basis;
-  }
-  return `${sourced.basis} (${label})`;
+  // Older bases say "from memory" in their words; the clinic reads that as an unverified value.
+  const basis = sourced.basis.trim().replace(/\bfrom memory\b/gi, sourceKindLabels['from memory']);
+  if (basis === '') return label;
+  return basis.toLowerCase().includes(label) ? basis : `${basis} (${label})`;
 }

@@ -27,5 +27,13 @@ export function todayIso(now: Date = new Date()): string {
  * mass (unverified value)". Never shows the stored tag.
  */
 export function displayBasis(stored: string): string {
-  return basisText(readBasis(stored));
+  return plainBasis(basisText(readBasis(stored)));
+}
+
+/**
+ * A basis written by the program (an estimate's, the MAC's) with "from memory" said as the clinic
+ * reads it: "unverified value" (the primary source was not read here; check before relying on it).
+ */
+export function plainBasis(basis: string): string {
+  return basis.replace(/\bfrom memory\b/gi, 'unverified value');
 }

@@ -17,7 +17,7 @@ import {
   openChecklistItems,
   plannedEndMin,
 } from '../../core/worksheet.js';
-import { displayMass } from '../common/display.js';
+import { displayMass, plainBasis } from '../common/display.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
 import { estimateRows, figure } from './labels.js';
 import { WorksheetChart } from './worksheet-chart.js';
@@ -248,7 +248,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           <tbody>
             <Row label="Agent">
               {agent.displayName}; MAC used {figure(result.mac.valuePct)} %{' '}
-              <span className="ws-basis">({result.mac.basis})</span>
+              <span className="ws-basis">({plainBasis(result.mac.basis)})</span>
             </Row>
             <Row label="Route and circuit">
               {routeLabels[input.route]}
@@ -407,7 +407,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
                   <td className="number">
                     {figure(estimate.value)} {row.unit}
                   </td>
-                  <td className="ws-basis">{estimate.basis}</td>
+                  <td className="ws-basis">{plainBasis(estimate.basis)}</td>
                 </tr>
               );
             })}
