@@ -8,11 +8,15 @@ import { worksheetChannels } from './worksheet-channels.js';
 
 const empty = z.object({}).strict();
 
+/** Where the screens run: the Electron window or a browser on the loopback host. */
+export const hosts = ['desktop', 'browser'] as const;
+export type Host = (typeof hosts)[number];
+
 export const appInfoSchema = z.object({
   appVersion: z.string(),
   schemaVersion: z.number().int(),
   dataDirectory: z.string(),
-  host: z.enum(['desktop', 'browser']),
+  host: z.enum(hosts),
 });
 
 /**

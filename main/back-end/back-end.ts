@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import type { Host } from '../../app/contract/channels.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/connection.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
@@ -20,7 +21,7 @@ export type BackEnd = {
 export type BackEndOptions = {
   readonly dataDirectory: string;
   readonly appVersion: string;
-  readonly host: 'desktop' | 'browser';
+  readonly host: Host;
   readonly now?: () => Date;
   readonly openOptions?: OpenOptions;
   readonly log?: (message: string) => void;

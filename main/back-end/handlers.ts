@@ -3,6 +3,7 @@ import {
   channels,
   isChannelName,
   type ChannelName,
+  type Host,
   type ParsedRequestOf,
   type ResponseOf,
 } from '../../app/contract/channels.js';
@@ -23,7 +24,7 @@ export type HandlerContext = {
   readonly db: TidewingDatabase;
   readonly appVersion: string;
   readonly dataDirectory: string;
-  readonly host: 'desktop' | 'browser';
+  readonly host: Host;
   /** Injected so tests control time. */
   readonly now: () => Date;
 };
