@@ -1,9 +1,7 @@
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
+import { massUnits, pressureUnits, temperatureUnits } from '../core/units.js';
 
-export const massUnits = ['g', 'kg'] as const;
-export const pressureUnits = ['mmHg', 'kPa'] as const;
-export const temperatureUnits = ['C', 'F'] as const;
 export const paperSizes = ['A4', 'Letter'] as const;
 
 /** Clinic settings as the screens edit them. Messages are shown beside each field. */

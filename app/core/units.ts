@@ -107,9 +107,13 @@ export function ppmToMgPerM3(concentrationPpm: number, molecularWeightGPerMol: n
 // ---------------------------------------------------------------------------------------------
 // Display formatting by the clinic's preferred units.
 
-export type MassUnit = 'g' | 'kg';
-export type PressureUnit = 'mmHg' | 'kPa';
-export type TemperatureUnit = 'C' | 'F';
+/** Display units the clinic can choose, declared once (the settings contract reads these lists). */
+export const massUnits = ['g', 'kg'] as const;
+export const pressureUnits = ['mmHg', 'kPa'] as const;
+export const temperatureUnits = ['C', 'F'] as const;
+export type MassUnit = (typeof massUnits)[number];
+export type PressureUnit = (typeof pressureUnits)[number];
+export type TemperatureUnit = (typeof temperatureUnits)[number];
 
 /** A number ready for display: the rounded value, its unit string and both joined. */
 export type FormattedQuantity = {
