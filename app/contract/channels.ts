@@ -4,14 +4,19 @@ import { acknowledgeRequestSchema, safetyStatusSchema } from './safety.js';
 import { recordChannels } from './record-channels.js';
 import { planChannels } from './plan-records.js';
 import { drugChannels } from './drug-channels.js';
+import { worksheetChannels } from './worksheet-channels.js';
 
 const empty = z.object({}).strict();
+
+/** Where the screens run: the Electron window or a browser on the loopback host. */
+export const hosts = ['desktop', 'browser'] as const;
+export type Host = (typeof hosts)[number];
 
 export const appInfoSchema = z.object({
   appVersion: z.string(),
   schemaVersion: z.number().int(),
   dataDirectory: z.string(),
-  host: z.enum(['desktop', 'browser']),
+  host: z.enum(hosts),
 });
 
 /**
@@ -36,6 +41,7 @@ export const channels = {
   ...recordChannels,
   ...planChannels,
   ...drugChannels,
+  ...worksheetChannels,
 } as const;
 
 export type Channels = typeof channels;

@@ -7,4 +7,5 @@ export * from './record-channels.js';
 export * from './records.js';
 export * from './drug-channels.js';
 export * from './plan-records.js';
+export * from './worksheet-channels.js';
 export * from './species-mapping.js';

@@ -105,7 +105,6 @@ const meta = z.object({
 
 /** Planning channels, merged into the one channel table. */
 export const planChannels = {
-  'plans:compute': { request: z.object({ input: planInputSchema }), response: planResultSchema },
   'plans:save': { request: z.object({ fields: planFieldsSchema, meta }), response: savedPlanSchema },
   'plans:correct': {
     request: z.object({ id: z.number().int().positive(), fields: planFieldsSchema, meta }),

@@ -4,6 +4,9 @@
  * wrong in plain words, and planIssueMessages() puts the field's path in front of it.
  */
 import { z } from 'zod';
+import { agentIds } from '../core/agents.js';
+import { cautionSeverities } from '../core/cautions.js';
+import { circuits, routes } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
 
@@ -42,13 +45,13 @@ function strict<T extends z.ZodRawShape>(shape: T, what: string) {
 
 const kebabCase = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
 
-export const agentSchema = z.enum(['isoflurane', 'sevoflurane', 'desflurane'], {
+export const agentSchema = z.enum(agentIds, {
   error: 'agent must be isoflurane, sevoflurane or desflurane',
 });
-export const routeSchema = z.enum(['mask', 'chamber', 'endotracheal', 'airSacTube'], {
+export const routeSchema = z.enum(routes, {
   error: 'route must be mask, chamber, endotracheal or airSacTube',
 });
-export const circuitSchema = z.enum(['nonRebreathing', 'circle'], {
+export const circuitSchema = z.enum(circuits, {
   error: 'circuit must be nonRebreathing or circle',
 });
 
@@ -419,7 +422,7 @@ export const planResultSchema = z.object({
   cautions: z.array(
     z.object({
       code: z.string(),
-      severity: z.enum(['danger', 'warning', 'notice']),
+      severity: z.enum(cautionSeverities),
       message: z.string(),
       reason: z.string(),
     }),

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { cautionSeverities } from '../core/cautions.js';
 import {
   changeMetaSchema,
   correctionMetaSchema,
@@ -19,7 +20,7 @@ const id = z.number({ error: 'An id must be a number.' }).int().positive();
 
 export const weightFlagSchema = z.object({
   code: z.string(),
-  severity: z.enum(['danger', 'warning', 'notice']),
+  severity: z.enum(cautionSeverities),
   message: z.string(),
   reason: z.string(),
 });

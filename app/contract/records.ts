@@ -1,4 +1,7 @@
 import { z } from 'zod';
+import { circuits, routes } from '../core/delivery.js';
+import { eventTypes } from '../core/procedure-events.js';
+import { potencyMeasures } from '../core/species-reference.js';
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date as YYYY-MM-DD.' });
 const person = (what: string) =>
@@ -42,7 +45,9 @@ export const recordStampSchema = z.object({
 const basisText = z
   .string()
   .trim()
-  .min(1, { error: 'Give the source, or write common practice, from memory or assumption.' })
+  .min(1, {
+    error: 'Give the source; without one, end with (common practice), (unverified value) or (assumption).',
+  })
   .max(300);
 
 export const speciesMacSchema = z.object({
@@ -51,7 +56,7 @@ export const speciesMacSchema = z.object({
     .min(0.1, { error: 'MAC must be at least 0.1 %.' })
     .max(15, { error: 'MAC must be at most 15 %.' }),
   sdPct: z.number().min(0).max(5).nullable().default(null),
-  measure: z.enum(['MAC', 'ED50', 'minimum anaesthetic dose']).default('MAC'),
+  measure: z.enum(potencyMeasures).default('MAC'),
   basis: basisText,
   note: z.string().trim().max(300).nullable().default(null),
 });
@@ -184,8 +189,6 @@ export type Weight = z.infer<typeof weightSchema>;
 
 // Procedure records -----------------------------------------------------------------------------
 
-export const airways = ['mask', 'chamber', 'endotracheal', 'airSacTube'] as const;
-export const circuits = ['nonRebreathing', 'circle'] as const;
 export const tubeTypes = ['', 'uncuffed', 'cuffed, cuff down', 'cuffed, cuff up'] as const;
 export const cropStates = ['not checked', 'empty', 'not empty'] as const;
 
@@ -208,7 +211,7 @@ export const procedureRecordValuesSchema = z.object({
   procedureName: z.string().trim().min(1, { error: 'Enter the procedure.' }).max(200),
   fasting: optionalText(200, 'Fasting'),
   cropChecked: z.enum(cropStates).default('not checked'),
-  airway: z.enum(airways, { error: 'Choose mask, chamber, endotracheal tube or air-sac tube.' }),
+  airway: z.enum(routes, { error: 'Choose mask, chamber, endotracheal tube or air-sac tube.' }),
   tubeSizeMm: z
     .number()
     .min(1, { error: 'Tube size is 1 to 15 mm.' })
@@ -233,22 +236,6 @@ export const procedureRecordSchema = z.object({
   stamp: recordStampSchema,
 });
 export type ProcedureRecord = z.infer<typeof procedureRecordSchema>;
-
-export const eventTypes = [
-  'induction',
-  'intubation',
-  'apnoea',
-  'ippvOn',
-  'ippvOff',
-  'vaporiserOff',
-  'extubation',
-  'regurgitation',
-  'drugGiven',
-  'note',
-  'firstMovement',
-  'standing',
-] as const;
-export type EventType = (typeof eventTypes)[number];
 
 const reading = (min: number, max: number, what: string, unit: string) =>
   z

@@ -7,6 +7,8 @@ export const errorCodes = [
   'not-found',
   'conflict',
   'database',
+  /** The channel exists but this host cannot do it (for example saving a PDF in the browser host). */
+  'unavailable',
   'internal',
 ] as const;
 

@@ -1,9 +1,7 @@
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
+import { massUnits, pressureUnits, temperatureUnits } from '../core/units.js';
 
-export const massUnits = ['g', 'kg'] as const;
-export const pressureUnits = ['mmHg', 'kPa'] as const;
-export const temperatureUnits = ['C', 'F'] as const;
 export const paperSizes = ['A4', 'Letter'] as const;
 
 /** Clinic settings as the screens edit them. Messages are shown beside each field. */
@@ -20,7 +18,7 @@ export const clinicSettingsSchema = z.object({
   massUnit: z.enum(massUnits, { error: 'Choose g or kg for body mass.' }),
   pressureUnit: z.enum(pressureUnits, { error: 'Choose mmHg or kPa for pressures.' }),
   temperatureUnit: z.enum(temperatureUnits, { error: 'Choose C or F for temperature.' }),
-  defaultAgent: z.enum(agentIds as unknown as readonly ['isoflurane', 'sevoflurane', 'desflurane'], {
+  defaultAgent: z.enum(agentIds, {
     error: 'Choose isoflurane, sevoflurane or desflurane as the default agent.',
   }),
   paperSize: z.enum(paperSizes, { error: 'Choose A4 or Letter paper for worksheets.' }),

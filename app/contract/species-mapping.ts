@@ -1,44 +1,24 @@
-import type { AgentId, BasisKind } from '../core/agents.js';
+import { agentIds } from '../core/agents.js';
 import type { SpeciesReference } from '../core/species-reference.js';
+import { readBasis } from '../core/sourced.js';
 import type { Species } from './records.js';
-
-const agentsWithMac: readonly AgentId[] = ['isoflurane', 'sevoflurane', 'desflurane'];
-
-const kinds: readonly BasisKind[] = [
-  'published',
-  'derived',
-  'memory',
-  'assumption',
-  'common practice',
-  'measured',
-  'equation',
-];
-
-/**
- * The tag at the end of a stored basis ("... [published]"), as the seed writes it; a value the
- * clinic typed without a tag counts as the clinic's own ('common practice').
- */
-export function basisKind(basis: string): BasisKind {
-  const tag = /\[([a-z ]+)\]\s*$/.exec(basis)?.[1];
-  return kinds.find((kind) => kind === tag) ?? 'common practice';
-}
 
 /**
  * The clinic's species record (possibly edited) in the shape the model reads, so a clinic's
- * edit of a MAC or mass range flows into every new plan. Bases keep the clinic's wording.
+ * edit of a MAC or mass range flows into every new plan. Bases keep the clinic's wording; the kind is
+ * read from the tag at the end of each stored basis (see readBasis).
  */
 export function speciesToReference(species: Species): SpeciesReference {
   const values = species.values;
   const macByAgent: SpeciesReference['macByAgent'] = {};
-  for (const agent of agentsWithMac) {
+  for (const agent of agentIds) {
     const mac = values.mac[agent];
     if (mac === null) continue;
     macByAgent[agent] = {
       macPct: mac.macPct,
       ...(mac.sdPct === null ? {} : { sdPct: mac.sdPct }),
       measure: mac.measure,
-      basis: mac.basis,
-      kind: basisKind(mac.basis),
+      ...readBasis(mac.basis),
       ...(mac.note === null ? {} : { note: mac.note }),
     };
   }
@@ -49,8 +29,7 @@ export function speciesToReference(species: Species): SpeciesReference {
     typicalMassG: {
       minG: values.massMinG,
       maxG: values.massMaxG,
-      basis: values.massBasis,
-      kind: basisKind(values.massBasis),
+      ...readBasis(values.massBasis),
     },
     ...(values.heartRate === null
       ? {}
@@ -58,8 +37,7 @@ export function speciesToReference(species: Species): SpeciesReference {
           restingHeartRatePerMin: {
             minPerMin: values.heartRate.min,
             maxPerMin: values.heartRate.max,
-            basis: values.heartRate.basis,
-            kind: basisKind(values.heartRate.basis),
+            ...readBasis(values.heartRate.basis),
           },
         }),
     ...(values.breathsPerMin === null
@@ -68,8 +46,7 @@ export function speciesToReference(species: Species): SpeciesReference {
           restingBreathsPerMin: {
             minPerMin: values.breathsPerMin.min,
             maxPerMin: values.breathsPerMin.max,
-            basis: values.breathsPerMin.basis,
-            kind: basisKind(values.breathsPerMin.basis),
+            ...readBasis(values.breathsPerMin.basis),
           },
         }),
     macByAgent,
@@ -78,15 +55,13 @@ export function speciesToReference(species: Species): SpeciesReference {
       : {
           apnoeaMacMultiple: {
             value: values.apnoeaMacMultiple.value,
-            basis: values.apnoeaMacMultiple.basis,
-            kind: basisKind(values.apnoeaMacMultiple.basis),
+            ...readBasis(values.apnoeaMacMultiple.basis),
           },
         }),
     anatomyNotes: values.anatomyNotes.map((note) => ({
       code: note.code,
       text: note.text,
-      basis: note.basis,
-      kind: basisKind(note.basis),
+      ...readBasis(note.basis),
     })),
   };
 }

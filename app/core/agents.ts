@@ -1,45 +1,34 @@
 /**
  * Physical and pharmacological properties of the inhalant agents.
  *
- * Every value carries its basis. Tags follow the project's reference list:
- * 'published' (read in the named source), 'derived' (arithmetic from published inputs),
- * 'memory' (a coefficient known from memory whose primary paper was not read here),
- * 'assumption' (a choice of ours, shown to the user as such).
+ * Every value carries its basis and the kind of that basis (see ./sourced.ts).
  */
+import type { Sourced } from './sourced.js';
 
-export type AgentId = 'isoflurane' | 'sevoflurane' | 'desflurane';
-
-export const agentIds: readonly AgentId[] = ['isoflurane', 'sevoflurane', 'desflurane'];
-
-export type BasisKind =
-  'published' | 'derived' | 'memory' | 'assumption' | 'common practice' | 'measured' | 'equation';
-
-export type SourcedValue = {
-  readonly value: number;
-  readonly basis: string;
-  readonly kind: BasisKind;
-};
+/** The inhalant agents, declared once: the contract's enum and every agent list read this. */
+export const agentIds = ['isoflurane', 'sevoflurane', 'desflurane'] as const;
+export type AgentId = (typeof agentIds)[number];
 
 export type AgentProperties = {
   readonly id: AgentId;
   readonly displayName: string;
-  readonly molecularWeightGPerMol: SourcedValue;
-  readonly liquidDensityGPerMl: SourcedValue;
-  readonly vapourPressureMmHgAt20C: SourcedValue;
+  readonly molecularWeightGPerMol: Sourced<number>;
+  readonly liquidDensityGPerMl: Sourced<number>;
+  readonly vapourPressureMmHgAt20C: Sourced<number>;
   /** Blood/gas partition coefficient at 37 C (human). No avian measurement was found. */
-  readonly bloodGasPartition: SourcedValue;
+  readonly bloodGasPartition: Sourced<number>;
   /** Plausible range of the blood/gas coefficient, used by the uncertainty run. */
   readonly bloodGasRange: readonly [number, number];
   /** Tissue/blood partition coefficients (human), assumptions for birds. */
-  readonly vesselRichBloodPartition: SourcedValue;
-  readonly muscleBloodPartition: SourcedValue;
-  readonly fatBloodPartition: SourcedValue;
+  readonly vesselRichBloodPartition: Sourced<number>;
+  readonly muscleBloodPartition: Sourced<number>;
+  readonly fatBloodPartition: Sourced<number>;
   /** MAC used when neither the plan nor the species gives one. */
-  readonly fallbackMacPct: SourcedValue;
+  readonly fallbackMacPct: Sourced<number>;
 };
 
 const humanTissueBasis =
-  'Human tissue/blood partition coefficient (from memory; classic uptake-model tables); mammalian value is an assumption for birds';
+  'Human tissue/blood partition coefficient (unverified value; classic uptake-model tables); mammalian value is an assumption for birds';
 
 export const agents: Readonly<Record<AgentId, AgentProperties>> = {
   isoflurane: {
@@ -55,9 +44,9 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
       kind: 'published',
     },
     bloodGasRange: [1.21, 1.69],
-    vesselRichBloodPartition: { value: 1.6, basis: humanTissueBasis, kind: 'memory' },
-    muscleBloodPartition: { value: 2.9, basis: humanTissueBasis, kind: 'memory' },
-    fatBloodPartition: { value: 45, basis: humanTissueBasis, kind: 'memory' },
+    vesselRichBloodPartition: { value: 1.6, basis: humanTissueBasis, kind: 'from memory' },
+    muscleBloodPartition: { value: 2.9, basis: humanTissueBasis, kind: 'from memory' },
+    fatBloodPartition: { value: 45, basis: humanTissueBasis, kind: 'from memory' },
     fallbackMacPct: {
       value: 1.3,
       basis:
@@ -78,9 +67,9 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
       kind: 'published',
     },
     bloodGasRange: [0.65, 0.86],
-    vesselRichBloodPartition: { value: 1.7, basis: humanTissueBasis, kind: 'memory' },
-    muscleBloodPartition: { value: 3.1, basis: humanTissueBasis, kind: 'memory' },
-    fatBloodPartition: { value: 48, basis: humanTissueBasis, kind: 'memory' },
+    vesselRichBloodPartition: { value: 1.7, basis: humanTissueBasis, kind: 'from memory' },
+    muscleBloodPartition: { value: 3.1, basis: humanTissueBasis, kind: 'from memory' },
+    fatBloodPartition: { value: 48, basis: humanTissueBasis, kind: 'from memory' },
     fallbackMacPct: {
       value: 2.3,
       basis:
@@ -94,8 +83,8 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
     molecularWeightGPerMol: { value: 168.04, basis: 'Product label (desflurane)', kind: 'published' },
     liquidDensityGPerMl: {
       value: 1.465,
-      basis: 'Liquid density of desflurane at 20 C (from memory)',
-      kind: 'memory',
+      basis: 'Liquid density of desflurane at 20 C (unverified value)',
+      kind: 'from memory',
     },
     vapourPressureMmHgAt20C: { value: 669, basis: 'Product label (desflurane), 20 C', kind: 'published' },
     bloodGasPartition: {
@@ -105,13 +94,13 @@ export const agents: Readonly<Record<AgentId, AgentProperties>> = {
       kind: 'published',
     },
     bloodGasRange: [0.42, 0.65],
-    vesselRichBloodPartition: { value: 1.3, basis: humanTissueBasis, kind: 'memory' },
-    muscleBloodPartition: { value: 2.0, basis: humanTissueBasis, kind: 'memory' },
-    fatBloodPartition: { value: 27, basis: humanTissueBasis, kind: 'memory' },
+    vesselRichBloodPartition: { value: 1.3, basis: humanTissueBasis, kind: 'from memory' },
+    muscleBloodPartition: { value: 2.0, basis: humanTissueBasis, kind: 'from memory' },
+    fatBloodPartition: { value: 27, basis: humanTissueBasis, kind: 'from memory' },
     fallbackMacPct: {
       value: 6.0,
       basis:
-        'Assumption: no avian desflurane MAC was found; human adult value (from memory) used until the clinic enters one',
+        'Assumption: no avian desflurane MAC was found; human adult value (unverified value) used until the clinic enters one',
       kind: 'assumption',
     },
   },
@@ -122,3 +111,10 @@ export const molarVolumeLAt20C = 24.055;
 
 /** Standard atmosphere in mmHg. */
 export const standardAtmosphereMmHg = 760;
+
+/** Plain names of the agents, as the screens and the worksheet show them. */
+export const agentLabels: Readonly<Record<AgentId, string>> = {
+  isoflurane: agents.isoflurane.displayName,
+  sevoflurane: agents.sevoflurane.displayName,
+  desflurane: agents.desflurane.displayName,
+};

@@ -7,9 +7,13 @@ import { agents, type AgentId } from './agents.js';
 import { saturatedConcentrationPct } from './budget/consumption.js';
 import { circleAboveMassG, practicalFloorFlowLpm, type Circuit, type Route } from './budget/flows.js';
 import { nioshCeilingPpm } from './budget/waste-gas.js';
-import type { AnatomyNote, MacMultiple, SpeciesReference } from './species-reference.js';
+import { checkMassAgainstRange, unitSlipRule } from './mass-check.js';
+import { basisText, type Sourced } from './sourced.js';
+import type { AnatomyNote, MacMultiple } from './species-reference.js';
 
-export type CautionSeverity = 'danger' | 'warning' | 'notice';
+/** Severities of cautions and weight flags, most urgent first. */
+export const cautionSeverities = ['danger', 'warning', 'notice'] as const;
+export type CautionSeverity = (typeof cautionSeverities)[number];
 
 export type Caution = {
   /** Stable kebab-case code; screens and tests key on it. */
@@ -68,35 +72,21 @@ export const lowestPublishedApnoeaMacMultiple = {
   value: 1.5,
   basis: 'Duck apnoea common above 1.5 MAC isoflurane (Ludders, Mitchell & Rode 1990, Vet Surg 19)',
   kind: 'published',
-} as const;
+} as const satisfies Sourced<number>;
 
 /** Chamber time above which the chamber caution fires, min (assumption). */
 export const longChamberExposureMin = {
   value: 10,
   basis: 'Assumption: about 10 min in a chamber, where the bird cannot be watched or supported closely',
   kind: 'assumption',
-} as const;
+} as const satisfies Sourced<number>;
 
 /** IPPV peak inspiratory pressure usually kept to about 10-15 cmH2O (from memory). */
 export const ippvPeakPressureCmH2O = {
-  range: [10, 15] as const,
-  basis: 'IPPV peak pressure about 10-15 cmH2O (from memory)',
-  kind: 'memory',
-} as const;
-
-/** How far (as a factor) a mass sits from a range; 1 inside it. */
-function factorOutside(massG: number, minG: number, maxG: number): number {
-  if (massG < minG) return minG / massG;
-  if (massG > maxG) return massG / maxG;
-  return 1;
-}
-
-/** True when mass x 1000 or mass / 1000 falls within a factor of 2 of the range: a likely g/kg slip. */
-function looksLikeUnitSlip(massG: number, minG: number, maxG: number): 'too-heavy' | 'too-light' | null {
-  if (massG > maxG && factorOutside(massG / 1000, minG, maxG) <= 2) return 'too-heavy';
-  if (massG < minG && factorOutside(massG * 1000, minG, maxG) <= 2) return 'too-light';
-  return null;
-}
+  value: [10, 15],
+  basis: 'IPPV peak pressure about 10-15 cmH2O (unverified value)',
+  kind: 'from memory',
+} as const satisfies Sourced<readonly [number, number]>;
 
 const severityOrder: Record<CautionSeverity, number> = { danger: 0, warning: 1, notice: 2 };
 
@@ -109,29 +99,27 @@ function massCautions(context: CautionContext): Caution[] {
   if (bodyMassG === undefined || speciesMassRangeG === undefined || !(bodyMassG > 0)) return [];
   const { minG, maxG } = speciesMassRangeG;
   const species = context.speciesName ?? 'this species';
-  const slip = looksLikeUnitSlip(bodyMassG, minG, maxG);
-  if (slip !== null) {
+  const check = checkMassAgainstRange(bodyMassG, speciesMassRangeG);
+  if (check.verdict === 'unit-slip') {
     return [
       {
         code: 'mass-unit-slip',
-        severity: 'danger',
+        severity: check.severity,
         message:
-          slip === 'too-heavy'
+          check.slip === 'kg-as-g'
             ? `Body mass ${format(bodyMassG, 0)} g is about 1000 times the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: was the mass entered in kilograms as grams?`
             : `Body mass ${format(bodyMassG, 3)} g is about 1/1000 of the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: was the mass entered in grams as kilograms?`,
-        reason:
-          'A mass 1000 times off the species range is most likely a g/kg unit slip; every flow, volume and budget scales with mass (species typical mass: common practice)',
+        reason: `${unitSlipRule.toleranceFactor.basis}; every flow, volume and budget scales with mass. ${unitSlipRule.rangeBasis}`,
       },
     ];
   }
-  if (bodyMassG < minG || bodyMassG > maxG) {
+  if (check.verdict === 'outside') {
     return [
       {
         code: 'mass-outside-species-range',
-        severity: 'warning',
+        severity: check.severity,
         message: `Body mass ${format(bodyMassG, 1)} g is outside the typical ${format(minG, 0)}-${format(maxG, 0)} g of ${species}: check the weight and the species`,
-        reason:
-          'Typical adult mass ranges are editable guides, not norms (common practice, owner-facing sources); estimates scale with mass',
+        reason: `${unitSlipRule.rangeBasis}; estimates scale with mass`,
       },
     ];
   }
@@ -337,7 +325,7 @@ function airwayCautions(context: CautionContext): Caution[] {
   }
   if (context.ventilationMode === 'ippv') {
     const pressure = context.ippvPeakPressureCmH2O;
-    const [low, high] = ippvPeakPressureCmH2O.range;
+    const [low, high] = ippvPeakPressureCmH2O.value;
     cautions.push(
       pressure !== undefined && pressure > high
         ? {
@@ -360,7 +348,7 @@ function airwayCautions(context: CautionContext): Caution[] {
       code: `anatomy-${note.code}`,
       severity: 'notice',
       message: note.text,
-      reason: note.basis,
+      reason: basisText(note),
     });
   }
   return cautions;
@@ -388,21 +376,4 @@ export function collectCautions(context: CautionContext): Caution[] {
       (a, b) => severityOrder[a.caution.severity] - severityOrder[b.caution.severity] || a.index - b.index,
     )
     .map(({ caution }) => caution);
-}
-
-/**
- * The species part of a caution context, taken from the species reference: name, typical mass
- * range, apnoea MAC multiple (published for isoflurane; used for every agent, as its basis says),
- * anatomy notes and whether a MAC is published for the agent.
- * @param species an entry of the species reference
- * @param agent the plan's agent, when known
- */
-export function speciesCautionContext(species: SpeciesReference, agent?: AgentId): CautionContext {
-  return {
-    speciesName: species.commonName,
-    speciesMassRangeG: { minG: species.typicalMassG.minG, maxG: species.typicalMassG.maxG },
-    anatomyNotes: species.anatomyNotes,
-    ...(species.apnoeaMacMultiple === undefined ? {} : { apnoeaMacMultiple: species.apnoeaMacMultiple }),
-    ...(agent === undefined ? {} : { macIsPublishedForBird: species.macByAgent[agent] !== undefined }),
-  };
 }

@@ -7,53 +7,42 @@
  * Resting heart and breathing rates are left out: no species-specific source was read for them,
  * and the model estimates both from body mass (Grubb 1983; Lasiewski & Calder 1971).
  */
-import type { AgentId, BasisKind } from './agents.js';
+import type { AgentId } from './agents.js';
+import type { Basis, SourceKind, Sourced } from './sourced.js';
 
 /** Typical adult body mass range. An editable typical range, not a norm. */
-export type MassRange = {
+export type MassRange = Basis & {
   readonly minG: number;
   readonly maxG: number;
-  readonly basis: string;
-  readonly kind: BasisKind;
 };
 
 /** What a published anaesthetic potency figure measured. */
-export type PotencyMeasure = 'MAC' | 'ED50' | 'minimum anaesthetic dose';
+export const potencyMeasures = ['MAC', 'ED50', 'minimum anaesthetic dose'] as const;
+export type PotencyMeasure = (typeof potencyMeasures)[number];
 
 /** A published anaesthetic potency of an agent in a species, end-tidal vol %. */
-export type SpeciesMac = {
+export type SpeciesMac = Basis & {
   readonly macPct: number;
   /** Standard deviation, vol %, where published. */
   readonly sdPct?: number;
   readonly measure: PotencyMeasure;
-  /** Source, in the words of the project's reference list. */
-  readonly basis: string;
-  readonly kind: BasisKind;
   /** Conditions that matter when using the value (stimulus, premedication, species studied). */
   readonly note?: string;
 };
 
 /** A multiple of MAC with its basis (e.g. where apnoea becomes common). */
-export type MacMultiple = {
-  readonly value: number;
-  readonly basis: string;
-  readonly kind: BasisKind;
-};
+export type MacMultiple = Sourced<number>;
 
 /** An anatomy note that matters for the airway or the gas path. */
-export type AnatomyNote = {
+export type AnatomyNote = Basis & {
   readonly code: string;
   readonly text: string;
-  readonly basis: string;
-  readonly kind: BasisKind;
 };
 
 /** A resting rate range, per minute, with its basis. */
-export type RateRange = {
+export type RateRange = Basis & {
   readonly minPerMin: number;
   readonly maxPerMin: number;
-  readonly basis: string;
-  readonly kind: BasisKind;
 };
 
 export type SpeciesReference = {
@@ -86,7 +75,7 @@ function mass(
   minG: number,
   maxG: number,
   basis = typicalMassBasis,
-  kind: BasisKind = 'common practice',
+  kind: SourceKind = 'common practice',
 ): MassRange {
   return { minG, maxG, basis, kind };
 }
@@ -213,7 +202,7 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'thick-billed-parrot',
     commonName: 'Thick-billed parrot',
     scientificName: 'Rhynchopsitta pachyrhyncha',
-    typicalMassG: mass(300, 400, 'Typical adult mass (from memory)', 'memory'),
+    typicalMassG: mass(300, 400, 'Typical adult mass', 'from memory'),
     macByAgent: {
       sevoflurane: {
         macPct: 2.35,
@@ -237,7 +226,7 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'chicken',
     commonName: 'Chicken',
     scientificName: 'Gallus gallus domesticus',
-    typicalMassG: mass(500, 4500, 'Typical adult mass, bantams to heavy breeds (from memory)', 'memory'),
+    typicalMassG: mass(500, 4500, 'Typical adult mass, bantams to heavy breeds', 'from memory'),
     macByAgent: {
       isoflurane: { macPct: 1.18, sdPct: 0.09, measure: 'MAC', basis: midon2021, kind: 'published' },
       sevoflurane: {
@@ -259,7 +248,12 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'pekin-duck',
     commonName: 'Pekin duck',
     scientificName: 'Anas platyrhynchos domesticus',
-    typicalMassG: mass(2500, 4000, `About 3000 g in ${ludders1990} (published); range from memory`, 'memory'),
+    typicalMassG: mass(
+      2500,
+      4000,
+      `About 3000 g in ${ludders1990} (published); range unverified`,
+      'from memory',
+    ),
     macByAgent: {
       isoflurane: { macPct: 1.3, sdPct: 0.23, measure: 'MAC', basis: ludders1990, kind: 'published' },
     },
@@ -273,14 +267,14 @@ export const speciesReference: readonly SpeciesReference[] = [
       {
         code: 'tracheal-bulla',
         text: 'Males have a tracheal (syringeal) bulla, an extra gas volume at the syrinx (vocal organ) that adds dead space',
-        basis: 'Tracheal bulla in male ducks (Anatidae) (from memory)',
-        kind: 'memory',
+        basis: 'Tracheal bulla in male ducks (Anatidae)',
+        kind: 'from memory',
       },
       {
         code: 'dive-response',
         text: 'Ducks may hold their breath with a slow heart rate when a mask or chamber is applied (dive response)',
-        basis: 'Dive response of ducks at induction (from memory)',
-        kind: 'memory',
+        basis: 'Dive response of ducks at induction',
+        kind: 'from memory',
       },
     ],
   },
@@ -300,7 +294,7 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'barn-owl',
     commonName: 'Barn owl',
     scientificName: 'Tyto alba',
-    typicalMassG: mass(250, 500, 'Typical adult mass (from memory)', 'memory'),
+    typicalMassG: mass(250, 500, 'Typical adult mass', 'from memory'),
     macByAgent: {},
     anatomyNotes: [completeTrachealRingsNote],
   },
@@ -308,7 +302,7 @@ export const speciesReference: readonly SpeciesReference[] = [
     id: 'sandhill-crane',
     commonName: 'Sandhill crane',
     scientificName: 'Antigone canadensis',
-    typicalMassG: mass(3000, 6000, 'Typical adult mass (from memory)', 'memory'),
+    typicalMassG: mass(3000, 6000, 'Typical adult mass', 'from memory'),
     macByAgent: {
       isoflurane: {
         macPct: 1.34,
@@ -323,17 +317,9 @@ export const speciesReference: readonly SpeciesReference[] = [
       {
         code: 'tracheal-loops',
         text: 'The trachea coils in loops within the keel: a long trachea with a large dead space, and a tube reaches only its first part',
-        basis: 'Tracheal loops in cranes (from memory)',
-        kind: 'memory',
+        basis: 'Tracheal loops in cranes',
+        kind: 'from memory',
       },
     ],
   },
 ];
-
-/**
- * The species with this id, or undefined.
- * @param id a species id such as 'budgerigar'
- */
-export function findSpeciesReference(id: string): SpeciesReference | undefined {
-  return speciesReference.find((species) => species.id === id);
-}

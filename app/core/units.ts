@@ -12,15 +12,6 @@
 /** Grams in one kilogram. */
 export const gramsPerKilogram = 1000;
 
-/** Millilitres in one litre. */
-export const millilitresPerLitre = 1000;
-
-/** Litres in one cubic metre. */
-export const litresPerCubicMetre = 1000;
-
-/** Minutes in one hour. */
-export const minutesPerHour = 60;
-
 /** Kilopascals in one standard atmosphere (definition). */
 export const kilopascalsPerAtmosphere = 101.325;
 
@@ -38,9 +29,6 @@ export const kilopascalsPerPsi = 6.894757293168;
  * ppm into mg/m3 for workplace exposure limits (ppm x MW / 24.45).
  */
 export const molarVolumeLAt25C = 24.45;
-
-/** Offset between the Celsius and Kelvin scales (definition). */
-export const kelvinAtZeroCelsius = 273.15;
 
 /**
  * Grams to kilograms.
@@ -97,123 +85,12 @@ export function fToC(temperatureF: number): number {
 }
 
 /**
- * Degrees Celsius to kelvin.
- * @param temperatureC temperature in C, at or above -273.15
- * @returns temperature in K
- */
-export function cToK(temperatureC: number): number {
-  return temperatureC + kelvinAtZeroCelsius;
-}
-
-/**
- * Litres to millilitres.
- * @param volumeL volume in L, any finite number
- * @returns volume in mL
- */
-export function lToMl(volumeL: number): number {
-  return volumeL * millilitresPerLitre;
-}
-
-/**
- * Millilitres to litres.
- * @param volumeMl volume in mL, any finite number
- * @returns volume in L
- */
-export function mlToL(volumeMl: number): number {
-  return volumeMl / millilitresPerLitre;
-}
-
-/**
- * Cubic metres to litres.
- * @param volumeM3 volume in m3, any finite number
- * @returns volume in L
- */
-export function m3ToL(volumeM3: number): number {
-  return volumeM3 * litresPerCubicMetre;
-}
-
-/**
- * Litres to cubic metres.
- * @param volumeL volume in L, any finite number
- * @returns volume in m3
- */
-export function lToM3(volumeL: number): number {
-  return volumeL / litresPerCubicMetre;
-}
-
-/**
- * Minutes to hours.
- * @param durationMin duration in min, any finite number
- * @returns duration in h
- */
-export function minToH(durationMin: number): number {
-  return durationMin / minutesPerHour;
-}
-
-/**
- * Hours to minutes.
- * @param durationH duration in h, any finite number
- * @returns duration in min
- */
-export function hToMin(durationH: number): number {
-  return durationH * minutesPerHour;
-}
-
-/**
  * Pounds per square inch to bar (gauge stays gauge, absolute stays absolute).
  * @param pressurePsi pressure in psi, any finite number
  * @returns pressure in bar
  */
 export function psiToBar(pressurePsi: number): number {
   return (pressurePsi * kilopascalsPerPsi) / kilopascalsPerBar;
-}
-
-/**
- * Bar to pounds per square inch.
- * @param pressureBar pressure in bar, any finite number
- * @returns pressure in psi
- */
-export function barToPsi(pressureBar: number): number {
-  return (pressureBar * kilopascalsPerBar) / kilopascalsPerPsi;
-}
-
-/**
- * Volume percent of a gas in a mixture to its partial pressure (Dalton's law).
- * @param concentrationPct concentration in vol %, 0 to 100
- * @param barometricMmHg total (barometric) pressure in mmHg, above 0; 760 at sea level
- * @returns partial pressure in mmHg
- */
-export function vaporPctToPartialPressureMmHg(
-  concentrationPct: number,
-  barometricMmHg = millimetresMercuryPerAtmosphere,
-): number {
-  return (concentrationPct / 100) * barometricMmHg;
-}
-
-/**
- * Partial pressure of a gas to its volume percent in the mixture (Dalton's law).
- * @param partialPressureMmHg partial pressure in mmHg, 0 to barometricMmHg
- * @param barometricMmHg total (barometric) pressure in mmHg, above 0; 760 at sea level
- * @returns concentration in vol %
- */
-export function partialPressureMmHgToVaporPct(
-  partialPressureMmHg: number,
-  barometricMmHg = millimetresMercuryPerAtmosphere,
-): number {
-  return (partialPressureMmHg / barometricMmHg) * 100;
-}
-
-/**
- * Volume percent to partial pressure in kPa (Dalton's law).
- * @param concentrationPct concentration in vol %, 0 to 100
- * @param barometricKpa total pressure in kPa, above 0; 101.325 at sea level
- * @returns partial pressure in kPa
- */
-export function vaporPctToPartialPressureKpa(
-  concentrationPct: number,
-  barometricKpa = kilopascalsPerAtmosphere,
-): number {
-  return (concentrationPct / 100) * barometricKpa;
 }
 
 /**
@@ -227,32 +104,16 @@ export function ppmToMgPerM3(concentrationPpm: number, molecularWeightGPerMol: n
   return (concentrationPpm * molecularWeightGPerMol) / molarVolumeLAt25C;
 }
 
-/**
- * Milligrams per cubic metre at 25 C and 1 atm to parts per million by volume.
- * @param concentrationMgPerM3 concentration in mg/m3, 0 or more
- * @param molecularWeightGPerMol molar mass in g/mol, above 0
- * @returns concentration in ppm by volume
- */
-export function mgPerM3ToPpm(concentrationMgPerM3: number, molecularWeightGPerMol: number): number {
-  return (concentrationMgPerM3 * molarVolumeLAt25C) / molecularWeightGPerMol;
-}
-
 // ---------------------------------------------------------------------------------------------
 // Display formatting by the clinic's preferred units.
 
-export type MassUnit = 'g' | 'kg';
-export type PressureUnit = 'mmHg' | 'kPa';
-export type TemperatureUnit = 'C' | 'F';
-
-/** The clinic's preferred display units. */
-export type UnitPreferences = {
-  readonly mass: MassUnit;
-  readonly pressure: PressureUnit;
-  readonly temperature: TemperatureUnit;
-};
-
-/** Default display units: grams, mmHg and Celsius (a choice of ours; the clinic can change it). */
-export const defaultUnitPreferences: UnitPreferences = { mass: 'g', pressure: 'mmHg', temperature: 'C' };
+/** Display units the clinic can choose, declared once (the settings contract reads these lists). */
+export const massUnits = ['g', 'kg'] as const;
+export const pressureUnits = ['mmHg', 'kPa'] as const;
+export const temperatureUnits = ['C', 'F'] as const;
+export type MassUnit = (typeof massUnits)[number];
+export type PressureUnit = (typeof pressureUnits)[number];
+export type TemperatureUnit = (typeof temperatureUnits)[number];
 
 /** A number ready for display: the rounded value, its unit string and both joined. */
 export type FormattedQuantity = {
@@ -319,24 +180,4 @@ export function formatPressure(
   return unit === 'mmHg'
     ? formatQuantity(pressureMmHg, 'mmHg', significantDigits)
     : formatQuantity(mmHgToKpa(pressureMmHg), 'kPa', significantDigits);
-}
-
-/**
- * Formats a temperature in the preferred temperature unit, to a fixed number of decimals
- * (body temperatures are read to a tenth of a degree on either scale).
- * @param temperatureC temperature in C
- * @param unit 'C' or 'F'
- * @param decimals 0 to 3, default 1 (38.5 °C, 101.3 °F)
- */
-export function formatTemperature(
-  temperatureC: number,
-  unit: TemperatureUnit,
-  decimals = 1,
-): FormattedQuantity {
-  const value = unit === 'C' ? temperatureC : cToF(temperatureC);
-  const unitText = unit === 'C' ? '°C' : '°F';
-  if (!Number.isFinite(value)) return { value, unit: unitText, text: `- ${unitText}` };
-  const rounded = Number(value.toFixed(Math.min(3, Math.max(0, Math.round(decimals)))));
-  const normalised = Object.is(rounded, -0) ? 0 : rounded;
-  return { value: normalised, unit: unitText, text: `${String(normalised)} ${unitText}` };
 }

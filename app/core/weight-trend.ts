@@ -3,6 +3,8 @@
  * bands <5, <10, <15, <20 and >20 % used for pain scoring in birds (IVAPM pain scale for birds),
  * and warnings for a weight outside the species' typical range or one that looks like a unit slip.
  */
+import type { CautionSeverity } from './cautions.js';
+import { checkMassAgainstRange, unitSlipRule } from './mass-check.js';
 
 export type WeightPoint = { readonly weighedOn: string; readonly massG: number };
 
@@ -10,7 +12,7 @@ export type LossBand = 'no loss' | '<5 %' | '5-10 %' | '10-15 %' | '15-20 %' | '
 
 export type WeightFlag = {
   readonly code: string;
-  readonly severity: 'danger' | 'warning' | 'notice';
+  readonly severity: CautionSeverity;
   readonly message: string;
   readonly reason: string;
 };
@@ -25,9 +27,6 @@ export type WeightTrend = {
 };
 
 export const lossBandBasis = 'Weight-loss bands <5, <10, <15, <20, >20 % (IVAPM pain scale for birds)';
-
-/** A mass this many times outside the typical range is more likely a unit slip (g vs kg) than a bird. */
-export const unitSlipFactor = 20;
 
 /** Band of a weight loss given as a positive percentage of the earlier weight. */
 export function lossBand(lossPct: number): LossBand {
@@ -54,36 +53,37 @@ const bandSeverity: Readonly<Record<LossBand, WeightFlag['severity'] | null>> = 
 };
 
 /**
- * Flags for one mass against a species' typical adult range (g). Returns an empty list when the
- * range is unknown.
+ * Flags for one mass against a species' typical adult range (g), by the one rule the plan's
+ * cautions use (./mass-check.ts). Returns an empty list when the range is unknown.
  */
 export function massRangeFlags(
   massG: number,
   range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null,
 ): WeightFlag[] {
-  if (range === null) return [];
+  if (range === null || !(massG > 0)) return [];
   const rangeText = `${range.minG}-${range.maxG} g`;
-  if (massG > range.maxG * unitSlipFactor || massG < range.minG / unitSlipFactor) {
-    const asKg = massG / 1000;
-    const asG = massG * 1000;
+  const check = checkMassAgainstRange(massG, range);
+  if (check.verdict === 'unit-slip') {
     const hint =
-      massG < range.minG ? `Was ${massG} kg meant (${asG} g)?` : `Was ${asKg} kg entered as grams?`;
+      check.slip === 'g-as-kg'
+        ? `Was ${massG} kg meant (${check.meantG} g)?`
+        : `Was ${check.meantG} kg entered as grams?`;
     return [
       {
         code: 'weight-unit-slip',
-        severity: 'danger',
+        severity: check.severity,
         message: `${massG} g is far outside the typical ${range.speciesName} range (${rangeText}): probably a unit slip. ${hint}`,
-        reason: `More than ${unitSlipFactor} times outside the species' typical adult range (common practice)`,
+        reason: unitSlipRule.toleranceFactor.basis,
       },
     ];
   }
-  if (massG < range.minG || massG > range.maxG) {
+  if (check.verdict === 'outside') {
     return [
       {
         code: 'weight-outside-species-range',
-        severity: 'notice',
+        severity: check.severity,
         message: `${massG} g is outside the typical ${range.speciesName} range (${rangeText}). Check the scale and the species.`,
-        reason: 'Typical adult mass range of the species (an editable typical range, not a norm)',
+        reason: unitSlipRule.rangeBasis,
       },
     ];
   }

@@ -4,7 +4,13 @@
  * mortality figures. Pure: plain data in, plain data out. Tidewing ships no drug and no dose;
  * every dose here is one the clinic entered with its source.
  */
-import { formatQuantity, gToKg, roundToSignificant } from './units.js';
+import {
+  formatQuantity,
+  gToKg,
+  roundToSignificant,
+  type PressureUnit,
+  type TemperatureUnit,
+} from './units.js';
 
 /** One of the clinic's emergency drugs as the clinic entered it. */
 export type EmergencyDrugEntry = {
@@ -122,7 +128,7 @@ export type MonitoringRow = {
  * @param temperatureUnit 'C' or 'F'
  * @param pressureUnit 'mmHg' or 'kPa' (EtCO2)
  */
-export function monitoringColumns(temperatureUnit: 'C' | 'F', pressureUnit: 'mmHg' | 'kPa'): string[] {
+export function monitoringColumns(temperatureUnit: TemperatureUnit, pressureUnit: PressureUnit): string[] {
   return [
     'Time (min)',
     'Planned dial (%)',

@@ -1,10 +1,9 @@
 import type { Species, SpeciesValues } from '../../app/contract/records.js';
-import type { SpeciesReference } from '../../app/core/species-reference.js';
+import { agentIds, type AgentId } from '../../app/core/agents.js';
+import { storedBasis } from '../../app/core/sourced.js';
+import type { PotencyMeasure, SpeciesReference } from '../../app/core/species-reference.js';
 import type { TidewingDatabase } from '../connection.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
-
-type MacAgent = 'isoflurane' | 'sevoflurane' | 'desflurane';
-const macAgents: readonly MacAgent[] = ['isoflurane', 'sevoflurane', 'desflurane'];
 
 type SpeciesRow = StampRow & {
   species_key: string;
@@ -23,14 +22,14 @@ type SpeciesRow = StampRow & {
   apnoea_mac_multiple: number | null;
   apnoea_basis: string | null;
   anatomy_notes_json: string;
-} & Record<`mac_${MacAgent}_${'pct' | 'sd_pct'}`, number | null> &
-  Record<`mac_${MacAgent}_${'measure' | 'basis' | 'note'}`, string | null>;
+} & Record<`mac_${AgentId}_${'pct' | 'sd_pct'}`, number | null> &
+  Record<`mac_${AgentId}_${'measure' | 'basis' | 'note'}`, string | null>;
 
 type Meta = { enteredBy: string; reason: string };
 
 function rowToSpecies(row: SpeciesRow): Species {
   const mac = Object.fromEntries(
-    macAgents.map((agent) => {
+    agentIds.map((agent) => {
       const pct = row[`mac_${agent}_pct`];
       return [
         agent,
@@ -39,7 +38,7 @@ function rowToSpecies(row: SpeciesRow): Species {
           : {
               macPct: pct,
               sdPct: row[`mac_${agent}_sd_pct`],
-              measure: (row[`mac_${agent}_measure`] ?? 'MAC') as 'MAC' | 'ED50' | 'minimum anaesthetic dose',
+              measure: (row[`mac_${agent}_measure`] ?? 'MAC') as PotencyMeasure,
               basis: row[`mac_${agent}_basis`] ?? '',
               note: row[`mac_${agent}_note`],
             },
@@ -99,7 +98,7 @@ function valuesToParameters(values: SpeciesValues) {
     apnoea_basis: values.apnoeaMacMultiple?.basis ?? null,
     anatomy_notes_json: JSON.stringify(values.anatomyNotes),
   };
-  for (const agent of macAgents) {
+  for (const agent of agentIds) {
     const mac = values.mac[agent];
     parameters[`mac_${agent}_pct`] = mac?.macPct ?? null;
     parameters[`mac_${agent}_sd_pct`] = mac?.sdPct ?? null;
@@ -113,7 +112,7 @@ function valuesToParameters(values: SpeciesValues) {
 /** Converts an entry of the shipped species reference into editable species values. */
 export function referenceToValues(reference: SpeciesReference): SpeciesValues {
   const mac = Object.fromEntries(
-    macAgents.map((agent) => {
+    agentIds.map((agent) => {
       const value = reference.macByAgent[agent];
       return [
         agent,
@@ -123,7 +122,7 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
               macPct: value.macPct,
               sdPct: value.sdPct ?? null,
               measure: value.measure,
-              basis: `${value.basis} [${value.kind}]`,
+              basis: storedBasis(value),
               note: value.note ?? null,
             },
       ];
@@ -134,14 +133,14 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
     scientificName: reference.scientificName,
     massMinG: reference.typicalMassG.minG,
     massMaxG: reference.typicalMassG.maxG,
-    massBasis: `${reference.typicalMassG.basis} [${reference.typicalMassG.kind}]`,
+    massBasis: storedBasis(reference.typicalMassG),
     heartRate:
       reference.restingHeartRatePerMin === undefined
         ? null
         : {
             min: reference.restingHeartRatePerMin.minPerMin,
             max: reference.restingHeartRatePerMin.maxPerMin,
-            basis: `${reference.restingHeartRatePerMin.basis} [${reference.restingHeartRatePerMin.kind}]`,
+            basis: storedBasis(reference.restingHeartRatePerMin),
           },
     breathsPerMin:
       reference.restingBreathsPerMin === undefined
@@ -149,7 +148,7 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
         : {
             min: reference.restingBreathsPerMin.minPerMin,
             max: reference.restingBreathsPerMin.maxPerMin,
-            basis: `${reference.restingBreathsPerMin.basis} [${reference.restingBreathsPerMin.kind}]`,
+            basis: storedBasis(reference.restingBreathsPerMin),
           },
     mac,
     apnoeaMacMultiple:
@@ -157,12 +156,12 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
         ? null
         : {
             value: reference.apnoeaMacMultiple.value,
-            basis: `${reference.apnoeaMacMultiple.basis} [${reference.apnoeaMacMultiple.kind}]`,
+            basis: storedBasis(reference.apnoeaMacMultiple),
           },
     anatomyNotes: reference.anatomyNotes.map((note) => ({
       code: note.code,
       text: note.text,
-      basis: `${note.basis} [${note.kind}]`,
+      basis: storedBasis(note),
     })),
   };
 }
@@ -182,7 +181,7 @@ const columns = [
   'apnoea_mac_multiple',
   'apnoea_basis',
   'anatomy_notes_json',
-  ...macAgents.flatMap((agent) =>
+  ...agentIds.flatMap((agent) =>
     ['pct', 'sd_pct', 'measure', 'basis', 'note'].map((part) => `mac_${agent}_${part}`),
   ),
 ];

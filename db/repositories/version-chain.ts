@@ -8,21 +8,6 @@ import type { TidewingDatabase } from '../connection.js';
 export type ChainTable =
   'species' | 'patient_versions' | 'weights' | 'plans' | 'procedure_record_versions' | 'procedure_entries';
 
-/** Id of the newest row in the chain that contains `id` (the row no other row corrects). */
-export function currentIdInChain(db: TidewingDatabase, table: ChainTable, id: number): number | null {
-  const row = db
-    .prepare<[number], { id: number }>(
-      `WITH RECURSIVE later(id) AS (
-         SELECT id FROM ${table} WHERE id = ?
-         UNION ALL
-         SELECT t.id FROM ${table} t JOIN later ON t.corrects_id = later.id
-       )
-       SELECT id FROM later ORDER BY id DESC LIMIT 1`,
-    )
-    .get(id);
-  return row?.id ?? null;
-}
-
 /** Every row id in the chain containing `id`, newest first. */
 export function chainIds(db: TidewingDatabase, table: ChainTable, id: number): number[] {
   const rows = db

@@ -1,14 +1,17 @@
 import fs from 'node:fs';
+import type { Host } from '../../app/contract/channels.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/connection.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
-import { createDispatcher, createHandlers, type Dispatcher } from './handlers.js';
+import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
   readonly dispatch: Dispatcher;
+  /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
+  readonly handlers: HandlerTable;
   readonly databaseFile: string;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
@@ -18,7 +21,7 @@ export type BackEnd = {
 export type BackEndOptions = {
   readonly dataDirectory: string;
   readonly appVersion: string;
-  readonly host: 'desktop' | 'browser';
+  readonly host: Host;
   readonly now?: () => Date;
   readonly openOptions?: OpenOptions;
   readonly log?: (message: string) => void;
@@ -55,6 +58,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   return {
     db,
     dispatch: createDispatcher(handlers, options.log),
+    handlers,
     databaseFile: file,
     backupSettled,
     close: () => {

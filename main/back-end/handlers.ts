@@ -3,10 +3,12 @@ import {
   channels,
   isChannelName,
   type ChannelName,
+  type Host,
   type ParsedRequestOf,
   type ResponseOf,
 } from '../../app/contract/channels.js';
 import { describeIssues, type ContractError, type Result } from '../../app/contract/result.js';
+import { worksheetPdfUnavailableMessage } from '../../app/contract/worksheet-channels.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { schemaVersion } from '../../db/connection.js';
 import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
@@ -22,12 +24,13 @@ export type HandlerContext = {
   readonly db: TidewingDatabase;
   readonly appVersion: string;
   readonly dataDirectory: string;
-  readonly host: 'desktop' | 'browser';
+  readonly host: Host;
   /** Injected so tests control time. */
   readonly now: () => Date;
 };
 
-type HandlerTable = {
+/** Every channel's handler; a host may replace one with its own implementation (see electron-main). */
+export type HandlerTable = {
   [C in ChannelName]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
 };
 
@@ -84,6 +87,11 @@ export function createHandlers(context: HandlerContext): HandlerTable {
           sizeBytes: backup.sizeBytes,
         })),
       };
+    },
+    // The desktop registers its own implementation (printToPDF of its window); every other host
+    // has no window of its own to print, so it says what to do instead.
+    'worksheets:save-pdf': () => {
+      throw new HandlerError('unavailable', worksheetPdfUnavailableMessage);
     },
     ...createRecordHandlers(context.db, context.now),
     ...createPlanHandlers(context.db, context.now),

@@ -60,7 +60,6 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
   }
 
   return {
-    'plans:compute': (request) => compute(request.input),
     'plans:save': (request) => plans.save(toStore(request.fields), request.meta, now()),
     'plans:correct': (request) => {
       const saved = plans.correct(request.id, toStore(request.fields), request.meta, now());

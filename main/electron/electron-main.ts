@@ -1,8 +1,9 @@
-import { app, BrowserWindow, dialog, ipcMain, protocol, session } from 'electron';
+import { app, BrowserWindow, dialog, ipcMain, protocol, session, type WebContents } from 'electron';
 import fs from 'node:fs';
 import path from 'node:path';
-import { channelNames } from '../../app/contract/channels.js';
+import { channelNames, type ParsedRequestOf, type ResponseOf } from '../../app/contract/channels.js';
 import { startBackEnd, type BackEnd } from '../back-end/back-end.js';
+import { createDispatcher, HandlerError } from '../back-end/handlers.js';
 import { electronSqliteBindingPath } from '../back-end/electron-native.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
 import { readRendererFile } from '../back-end/static-files.js';
@@ -80,6 +81,15 @@ function registerChannels(backEnd: BackEnd): void {
           },
         };
       }
+      if (channel === 'worksheets:save-pdf') {
+        // The one channel the desktop answers itself: it needs the asking window. The request and
+        // the answer still pass the contract's schemas in the shared dispatcher.
+        const desktop = createDispatcher({
+          ...backEnd.handlers,
+          'worksheets:save-pdf': (request) => saveWorksheetPdf(event.sender, request),
+        });
+        return desktop(channel, payload);
+      }
       return backEnd.dispatch(channel, payload);
     });
   }
@@ -98,33 +108,36 @@ function safePdfName(suggested: unknown): string {
 }
 
 /**
- * 'Save as PDF' for the worksheet: the window's own page printed by Chromium with the page size
- * the worksheet's CSS names (A4 or US Letter), written where the user chooses.
+ * The desktop's 'worksheets:save-pdf': the asking window's own page printed by Chromium with the
+ * page size the worksheet's CSS names (A4 or US Letter), written where the user chooses.
  */
-function registerWorksheetPdf(): void {
-  ipcMain.handle('tidewing:worksheet-pdf', async (event, suggestedName: unknown) => {
-    if (!isOwnFrame(event.senderFrame?.url))
-      return { saved: false, error: 'Refused: the request did not come from the Tidewing window.' };
-    const window = BrowserWindow.fromWebContents(event.sender);
-    const options = {
-      title: 'Save worksheet as PDF',
-      defaultPath: path.join(app.getPath('documents'), safePdfName(suggestedName)),
-      filters: [{ name: 'PDF', extensions: ['pdf'] }],
-    };
-    const choice =
-      window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
-    if (choice.canceled || choice.filePath === undefined) return { saved: false };
-    try {
-      const pdf = await event.sender.printToPDF({ preferCSSPageSize: true, printBackground: true });
-      // Written beside the target and renamed, so a failed write never leaves half a file under the chosen name.
-      const partial = `${choice.filePath}.partial`;
-      await fs.promises.writeFile(partial, pdf);
-      await fs.promises.rename(partial, choice.filePath);
-      return { saved: true, file: choice.filePath };
-    } catch (error) {
-      return { saved: false, error: error instanceof Error ? error.message : String(error) };
-    }
-  });
+async function saveWorksheetPdf(
+  sender: WebContents,
+  request: ParsedRequestOf<'worksheets:save-pdf'>,
+): Promise<ResponseOf<'worksheets:save-pdf'>> {
+  const window = BrowserWindow.fromWebContents(sender);
+  const options = {
+    title: 'Save worksheet as PDF',
+    defaultPath: path.join(app.getPath('documents'), safePdfName(request.suggestedName)),
+    filters: [{ name: 'PDF', extensions: ['pdf'] }],
+  };
+  const choice =
+    window === null ? await dialog.showSaveDialog(options) : await dialog.showSaveDialog(window, options);
+  if (choice.canceled || choice.filePath === undefined) return { saved: false };
+  try {
+    const pdf = await sender.printToPDF({ preferCSSPageSize: true, printBackground: true });
+    // Written beside the target and renamed, so a failed write never leaves half a file under the chosen name.
+    const partial = `${choice.filePath}.partial`;
+    await fs.promises.writeFile(partial, pdf);
+    await fs.promises.rename(partial, choice.filePath);
+    return { saved: true, file: choice.filePath };
+  } catch (error) {
+    const reason = error instanceof Error ? error.message : String(error);
+    throw new HandlerError(
+      'internal',
+      `The PDF could not be written to ${choice.filePath}: ${reason}. Choose another folder or use Print.`,
+    );
+  }
 }
 
 async function createWindow(root: string): Promise<void> {
@@ -174,7 +187,6 @@ async function main(): Promise<void> {
   harden();
   registerProtocol(root);
   registerChannels(backEnd);
-  registerWorksheetPdf();
   app.on('window-all-closed', () => {
     backEnd.close();
     app.quit();

@@ -1,4 +1,4 @@
-// Sandboxed preload: exposes two narrow functions. Channel names come from the main process, so
+// Sandboxed preload: exposes one function, `invoke`. Channel names come from the main process, so
 // the renderer can reach only the contract's channels and nothing else of Electron or Node.
 import electron = require('electron');
 
@@ -13,12 +13,5 @@ electron.contextBridge.exposeInMainWorld('tidewing', {
       });
     }
     return electron.ipcRenderer.invoke(channel, request);
-  },
-  /** Prints the shown worksheet to a PDF file the user picks; only a suggested file name crosses over. */
-  saveWorksheetPdf(suggestedName: string): Promise<unknown> {
-    return electron.ipcRenderer.invoke(
-      'tidewing:worksheet-pdf',
-      typeof suggestedName === 'string' ? suggestedName : '',
-    );
   },
 });

@@ -1,19 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import {
-  findSpeciesReference,
-  speciesReference,
-  type SpeciesReference,
-} from '../../app/core/species-reference.js';
+import { speciesReference, type SpeciesReference } from '../../app/core/species-reference.js';
+import { basisText, sourceKinds } from '../../app/core/sourced.js';
 
-const basisKinds = [
-  'published',
-  'derived',
-  'memory',
-  'assumption',
-  'common practice',
-  'measured',
-  'equation',
-];
+const findSpeciesReference = (id: string) => speciesReference.find((species) => species.id === id);
 
 /** Every object in the tree that holds a number beside a basis string, with its path. */
 function sourcedValues(
@@ -79,7 +68,7 @@ describe('species reference table', () => {
       expect(found.length, entry.id).toBe(expectedCount);
       for (const value of found) {
         expect(typeof value.basis === 'string' && value.basis.length > 5, value.path).toBe(true);
-        expect(basisKinds, value.path).toContain(value.kind);
+        expect(sourceKinds, value.path).toContain(value.kind);
       }
     }
   });
@@ -111,10 +100,11 @@ describe('species reference table', () => {
     expect(species('pekin-duck').typicalMassG.maxG).toBeGreaterThanOrEqual(3000);
   });
 
-  it('labels masses taken from memory as such', () => {
+  it('labels masses taken from memory as such, shown to the clinic as unverified values', () => {
     for (const id of ['barn-owl', 'sandhill-crane', 'chicken']) {
-      expect(species(id).typicalMassG.kind, id).toBe('memory');
-      expect(species(id).typicalMassG.basis, id).toMatch(/from memory/);
+      expect(species(id).typicalMassG.kind, id).toBe('from memory');
+      expect(basisText(species(id).typicalMassG), id).toMatch(/\(unverified value\)$/);
+      expect(basisText(species(id).typicalMassG), id).not.toMatch(/memory/);
     }
   });
 });
@@ -197,10 +187,10 @@ describe('airway anatomy notes', () => {
   it('notes the tracheal bulla of male ducks and the tracheal loops of cranes, from memory', () => {
     // tracheal bulla in male ducks (Anatidae) [memory]; tracheal loops in cranes [memory]
     expect(species('pekin-duck').anatomyNotes.find((note) => note.code === 'tracheal-bulla')?.kind).toBe(
-      'memory',
+      'from memory',
     );
     expect(species('sandhill-crane').anatomyNotes.find((note) => note.code === 'tracheal-loops')?.kind).toBe(
-      'memory',
+      'from memory',
     );
   });
 });

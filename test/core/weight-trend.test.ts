@@ -67,7 +67,8 @@ describe('species range and unit slips', () => {
   it('calls a kilogram figure typed as grams (or the reverse) a likely unit slip', () => {
     expect(massRangeFlags(0.032, budgerigar)[0]?.code).toBe('weight-unit-slip');
     expect(massRangeFlags(0.032, budgerigar)[0]?.message).toMatch(/Was 0.032 kg meant \(32 g\)\?/);
-    expect(massRangeFlags(3000, { minG: 12, maxG: 30, speciesName: 'canary' })[0]?.code).toBe(
+    // canary 12-30 g [common practice]: 25 kg typed where 25 g was meant
+    expect(massRangeFlags(25000, { minG: 12, maxG: 30, speciesName: 'canary' })[0]?.code).toBe(
       'weight-unit-slip',
     );
   });

@@ -211,8 +211,15 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     const sheet = page.locator('.worksheet[data-ready="true"]');
     await sheet.waitFor();
     expect(await page.getByRole('button', { name: 'Print' }).isVisible()).toBe(true);
-    // The browser host has no desktop bridge, so no Save as PDF button.
+    // The browser host cannot save where the user chooses: no Save as PDF button, the Print path
+    // instead, and the channel itself says so.
     expect(await page.getByRole('button', { name: 'Save as PDF' }).count()).toBe(0);
+    expect(await page.getByText('press Print and choose Save as PDF as the printer').isVisible()).toBe(true);
+    const pdfAnswer = await callBridge(page, 'worksheets:save-pdf', { suggestedName: 'pip.pdf' });
+    expect(pdfAnswer).toMatchObject({
+      ok: false,
+      error: { code: 'unavailable', message: expect.stringMatching(/Print.*npx tidewing worksheet/) },
+    });
     const shown = squash(await sheet.innerText());
     expect(shown).toContain('Heron Lane Bird Clinic');
     expect(shown).toContain('latest 32 g on 2026-12-01');

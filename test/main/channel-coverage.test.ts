@@ -14,13 +14,6 @@ import { channelNames } from '../../app/contract/channels.js';
 const testRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const thisFile = fileURLToPath(import.meta.url);
 
-/**
- * Channels on their way out of the contract, which get no new test. `plans:compute` is deleted
- * on another branch (nothing in the product calls it); remove this entry once that is merged.
- * A name here that is no longer in the contract changes nothing.
- */
-const leavingTheContract: readonly string[] = ['plans:compute'];
-
 /** What a test file must contain to count as going through the dispatcher. */
 const drivesDispatcher = /\bdispatch\s*\(|\bcreateDispatcher\s*\(|\bopenChannelHarness\s*\(/;
 
@@ -51,8 +44,7 @@ describe('channel coverage guard', () => {
   });
 
   it('every channel of the contract has a test through the dispatcher', () => {
-    const kept = channelNames.filter((name) => !leavingTheContract.includes(name));
-    expect(untestedChannels(kept, dispatcherTests)).toEqual([]);
+    expect(untestedChannels(channelNames, dispatcherTests)).toEqual([]);
   });
 
   it('reports a channel that no test names, and a name only inside a longer one does not count', () => {

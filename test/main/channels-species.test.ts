@@ -84,7 +84,8 @@ describe('species channels', () => {
     });
     expect(error).toMatchObject({
       field: 'values.massBasis',
-      message: 'Give the source, or write common practice, from memory or assumption.',
+      message:
+        'Give the source; without one, end with (common practice), (unverified value) or (assumption).',
     });
   });
 

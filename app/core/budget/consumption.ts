@@ -7,13 +7,8 @@
  * the vapour leaves at concentration c). The clinical rule of thumb (Dhulkhed et al. 2013) uses
  * FGF x c; the two differ by the factor 1 / (1 - c), 2 % at a 2 % dial.
  */
-import {
-  agents,
-  molarVolumeLAt20C,
-  standardAtmosphereMmHg,
-  type AgentId,
-  type SourcedValue,
-} from '../agents.js';
+import { agents, molarVolumeLAt20C, standardAtmosphereMmHg, type AgentId } from '../agents.js';
+import type { Sourced } from '../sourced.js';
 
 /** One vaporiser step: from `atMin` on, the dial reads `vaporPct` (until the next step). */
 export type VaporiserStep = {
@@ -45,12 +40,6 @@ export const isofluraneVapourPressureEquation = {
   b: 1664.58,
   basis: 'Product label (isoflurane): log10 P(mmHg) = 8.056 - 1664.58/T(K)',
 } as const;
-
-/** Basis text for the liquid-use figures, shown beside them. */
-export const consumptionBasis =
-  'Liquid used = vapour delivered / vapour per mL of liquid; vapour per mL = density / MW x molar volume (ideal gas, 1 atm); ' +
-  'vapour delivered = carrier flow x c / (1 - c) for a dial concentration c. Agrees within 10 % with the rule of thumb ' +
-  'mL/h = 3 x FGF x dial % (3.3 for sevoflurane) (Dhulkhed et al. 2013, Indian J Anaesth 57:455-463).';
 
 function assertFinite(
   value: number,
@@ -92,12 +81,12 @@ export function vapourMlPerLiquidMl(agent: AgentId, temperatureC = 20): number {
  * @param temperatureC liquid temperature in C, 10 to 35; default 20
  * @returns vapour pressure in mmHg with its basis
  */
-export function saturatedVapourPressureMmHg(agent: AgentId, temperatureC = 20): SourcedValue {
+export function saturatedVapourPressureMmHg(agent: AgentId, temperatureC = 20): Sourced<number> {
   assertFinite(temperatureC, 'temperatureC', vaporiserTemperatureRangeC[0], vaporiserTemperatureRangeC[1]);
   if (agent === 'isoflurane') {
     const kelvin = temperatureC + 273.15;
     const { a, b, basis } = isofluraneVapourPressureEquation;
-    return { value: 10 ** (a - b / kelvin), basis, kind: 'equation' };
+    return { value: 10 ** (a - b / kelvin), basis, kind: 'published' };
   }
   const label = agents[agent].vapourPressureMmHgAt20C;
   if (temperatureC === 20) return label;

@@ -2,14 +2,12 @@
  * Fresh gas flow for the route and circuit, the rebreathing check of a non-rebreathing system,
  * and the induction-chamber wash-in time.
  */
-import type { BasisKind } from '../agents.js';
+import type { SourceKind } from '../sourced.js';
 import { gToKg } from '../units.js';
 
-export type Route = 'mask' | 'chamber' | 'endotracheal' | 'airSacTube';
-export type Circuit = 'nonRebreathing' | 'circle';
+import type { Circuit, Route } from '../delivery.js';
 
-export const routes: readonly Route[] = ['mask', 'chamber', 'endotracheal', 'airSacTube'];
-export const circuits: readonly Circuit[] = ['nonRebreathing', 'circle'];
+export type { Circuit, Route } from '../delivery.js';
 
 /** Non-rebreathing flow as multiples of minute ventilation: 2-3 x VE (common practice). */
 export const nonRebreathingMinuteVentilationMultiple = {
@@ -87,7 +85,7 @@ export type FreshGasRecommendation = {
   readonly rule: string;
   /** Sources of the rule, in the project's basis words. */
   readonly basis: string;
-  readonly kind: BasisKind;
+  readonly kind: SourceKind;
 };
 
 function assertRange(value: number, name: string, min: number, max: number): void {

@@ -2,7 +2,7 @@
  * Oxygen cylinders and the oxygen budget of a plan: litres used, endurance at the set flow and
  * whether the cylinder lasts with a reserve left.
  */
-import type { BasisKind } from '../agents.js';
+import type { SourceKind } from '../sourced.js';
 import { psiToBar } from '../units.js';
 import { flowSteps, integrateSteps, type FreshGasInput } from './consumption.js';
 
@@ -19,7 +19,7 @@ export type CylinderPreset = {
   /** Gauge pressure when full, bar. */
   readonly fullPressureBar: number;
   readonly basis: string;
-  readonly kind: BasisKind;
+  readonly kind: SourceKind;
 };
 
 /** Typical fill pressure of metric medical oxygen cylinders, bar. */
@@ -76,7 +76,7 @@ export type CylinderSpec =
 export type CylinderContent = {
   readonly contentL: number;
   readonly basis: string;
-  readonly kind: BasisKind;
+  readonly kind: SourceKind;
 };
 
 function assertRange(value: number, name: string, min: number, max: number): void {

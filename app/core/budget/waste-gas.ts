@@ -12,12 +12,7 @@
  */
 import { agents, type AgentId } from '../agents.js';
 import { ppmToMgPerM3 } from '../units.js';
-import {
-  vapourFlowMlPerMin,
-  vapourMlForSchedule,
-  type FreshGasInput,
-  type VaporiserStep,
-} from './consumption.js';
+import { vapourMlForSchedule, type FreshGasInput, type VaporiserStep } from './consumption.js';
 import type { Route } from './flows.js';
 
 /** NIOSH 1977 (Pub. 77-140) recommended exposure limit for halogenated agents: 2 ppm ceiling over up to 1 h. */
@@ -57,25 +52,6 @@ export function chamberOpeningVapourMl(chamberVolumeL: number, chamberConcentrat
   assertRange(chamberVolumeL, 'chamberVolumeL', 0, 100);
   assertRange(chamberConcentrationPct, 'chamberConcentrationPct', 0, 100);
   return chamberVolumeL * 1000 * (chamberConcentrationPct / 100);
-}
-
-/**
- * Vapour lost around a face mask: leak fraction x vapour flow (carrier x c / (1 - c)) x time.
- * @param leakFraction fraction of mask flow escaping, 0 to 1
- * @param freshGasLpm carrier flow in L/min, 0 to 20
- * @param vaporPct dial % during the mask time, 0 to 99
- * @param durationMin mask time in min, 0 to 1440
- * @returns vapour in mL
- */
-export function maskLeakVapourMl(
-  leakFraction: number,
-  freshGasLpm: number,
-  vaporPct: number,
-  durationMin: number,
-): number {
-  assertRange(leakFraction, 'leakFraction', 0, 1);
-  assertRange(durationMin, 'durationMin', 0, 1440);
-  return leakFraction * vapourFlowMlPerMin(freshGasLpm, vaporPct) * durationMin;
 }
 
 export type WasteGasSource = 'chamberOpened' | 'maskLeak' | 'exhaust';

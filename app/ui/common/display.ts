@@ -1,3 +1,4 @@
+import { basisText, readBasis } from '../../core/sourced.js';
 import { formatMass, gToKg, type MassUnit } from '../../core/units.js';
 
 /** Mass as the clinic reads it: grams, with kilograms beside for large birds. */
@@ -19,4 +20,20 @@ export function displayDateTime(iso: string): string {
 export function todayIso(now: Date = new Date()): string {
   const local = new Date(now.getTime() - now.getTimezoneOffset() * 60_000);
   return local.toISOString().slice(0, 10);
+}
+
+/**
+ * A stored basis ("Typical adult mass [from memory]") in plain words for the clinic: "Typical adult
+ * mass (unverified value)". Never shows the stored tag.
+ */
+export function displayBasis(stored: string): string {
+  return plainBasis(basisText(readBasis(stored)));
+}
+
+/**
+ * A basis written by the program (an estimate's, the MAC's) with "from memory" said as the clinic
+ * reads it: "unverified value" (the primary source was not read here; check before relying on it).
+ */
+export function plainBasis(basis: string): string {
+  return basis.replace(/\bfrom memory\b/gi, 'unverified value');
 }

@@ -1,19 +1,5 @@
-import type { PlanInput } from '../../contract/plan.js';
-import { agents } from '../../core/agents.js';
-
-/** Plain names of the delivery routes, as the screens and the worksheet show them. */
-export const routeLabels: Readonly<Record<PlanInput['route'], string>> = {
-  mask: 'Face mask',
-  chamber: 'Induction chamber',
-  endotracheal: 'Endotracheal tube',
-  airSacTube: 'Air-sac tube',
-};
-
-/** Plain names of the breathing systems. */
-export const circuitLabels: Readonly<Record<NonNullable<PlanInput['circuit']>, string>> = {
-  nonRebreathing: 'Non-rebreathing system',
-  circle: 'Circle system (rebreathing)',
-};
+import { agentLabels } from '../../core/agents.js';
+import { routeLabels } from '../../core/delivery.js';
 
 function isKeyOf<T extends object>(table: T, key: string): key is Extract<keyof T, string> {
   return Object.hasOwn(table, key);
@@ -21,7 +7,7 @@ function isKeyOf<T extends object>(table: T, key: string): key is Extract<keyof 
 
 /** "Isoflurane, face mask": a saved plan's agent and route in a list line. */
 export function agentRouteText(agent: string, route: string): string {
-  const agentName = isKeyOf(agents, agent) ? agents[agent].displayName : agent;
+  const agentName = isKeyOf(agentLabels, agent) ? agentLabels[agent] : agent;
   const routeName = isKeyOf(routeLabels, route) ? routeLabels[route].toLowerCase() : route;
   return `${agentName}, ${routeName}`;
 }

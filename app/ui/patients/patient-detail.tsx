@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { displayDateTime } from '../common/display.js';
+import { displayBasis, displayDateTime } from '../common/display.js';
 import { agentRouteText } from '../common/plan-labels.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -62,7 +62,7 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
               {species !== null && (
                 <span className="basis">
                   Typical adult mass {species.values.massMinG}-{species.values.massMaxG} g ·{' '}
-                  {species.values.massBasis}
+                  {displayBasis(species.values.massBasis)}
                 </span>
               )}
             </dd>
@@ -86,7 +86,7 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
                 {species.values.anatomyNotes.map((note) => (
                   <li key={note.text}>
                     {note.text}
-                    <span className="basis">Basis: {note.basis}</span>
+                    <span className="basis">Basis: {displayBasis(note.basis)}</span>
                   </li>
                 ))}
               </ul>

@@ -1,7 +1,7 @@
 import type { PlanInput } from '../../contract/plan.js';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { agents } from '../../core/agents.js';
-import { circuitLabels, routeLabels } from '../common/plan-labels.js';
+import { circuitLabels, routeLabels } from '../../core/delivery.js';
 import { figure, minutes, range } from './format.js';
 
 type Row = { readonly label: string; readonly a: string; readonly b: string };

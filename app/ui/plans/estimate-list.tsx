@@ -1,5 +1,6 @@
 import { memo, useState } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
+import { plainBasis } from '../common/display.js';
 import { figure } from './format.js';
 
 const rows: readonly { key: keyof PlanResult['estimates']; label: string; unit: string }[] = [
@@ -31,7 +32,7 @@ export const EstimateList = memo(
                 <button
                   type="button"
                   className="estimate-value"
-                  title={estimate.basis}
+                  title={plainBasis(estimate.basis)}
                   aria-expanded={shown}
                   onClick={() => setOpen(shown ? null : row.key)}
                 >
@@ -39,7 +40,7 @@ export const EstimateList = memo(
                   {estimate.basis === 'measured' && <span className="tag">measured</span>}
                   {/^assumption/i.test(estimate.basis) && <span className="tag">assumption</span>}
                 </button>
-                {shown && <span className="basis">Basis: {estimate.basis}</span>}
+                {shown && <span className="basis">Basis: {plainBasis(estimate.basis)}</span>}
               </dd>
             </div>
           );

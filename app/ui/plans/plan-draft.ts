@@ -1,6 +1,6 @@
 import { planInputSchema, type PlanInput } from '../../contract/plan.js';
 import type { AgentId } from '../../core/agents.js';
-import { kgToG } from '../../core/units.js';
+import { kgToG, type MassUnit } from '../../core/units.js';
 
 /**
  * What the planning form holds. Numbers stay as typed so that a half-typed "0." is never
@@ -9,7 +9,7 @@ import { kgToG } from '../../core/units.js';
 export type PlanDraft = {
   patientName: string;
   massText: string;
-  massUnit: 'g' | 'kg';
+  massUnit: MassUnit;
   speciesId: string;
   agent: AgentId;
   macText: string;
@@ -39,7 +39,7 @@ export type PlanDraft = {
 };
 
 /** Typical starting values; each is shown as editable and none is a recommendation for a bird. */
-export function defaultDraft(agent: AgentId, massUnit: 'g' | 'kg'): PlanDraft {
+export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
   const sevo = agent === 'sevoflurane';
   return {
     patientName: '',
@@ -205,7 +205,7 @@ export function draftToInput(
 }
 
 /** A draft for a saved plan's inputs (the reverse of draftToInput for what the form shows). */
-export function inputToDraft(input: PlanInput, massUnit: 'g' | 'kg'): PlanDraft {
+export function inputToDraft(input: PlanInput, massUnit: MassUnit): PlanDraft {
   const base = defaultDraft(input.agent, massUnit);
   const [first, second, third] = input.schedule;
   const text = (value: number | undefined) => (value === undefined ? '' : String(value));

@@ -1,8 +1,10 @@
 import { memo } from 'react';
 import type { Species } from '../../contract/records.js';
-import { agentIds, agents } from '../../core/agents.js';
+import { agentIds, agentLabels, agents } from '../../core/agents.js';
+import { circuitLabels, circuits, routeLabels, routes } from '../../core/delivery.js';
+import { basisText } from '../../core/sourced.js';
+import { displayBasis } from '../common/display.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
-import { circuitLabels, routeLabels } from '../common/plan-labels.js';
 import type { DraftProblems, PlanDraft } from './plan-draft.js';
 
 type Props = {
@@ -68,7 +70,7 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           legend="Inhalant"
           name="agent"
           options={agentIds}
-          labels={Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]))}
+          labels={agentLabels}
           value={draft.agent}
           error={undefined}
           onChange={set('agent')}
@@ -81,8 +83,8 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           error={problems['macText']}
           hint={
             publishedMac !== null
-              ? `Blank uses ${publishedMac.macPct} % (${publishedMac.basis}).`
-              : `Blank uses ${agents[draft.agent].fallbackMacPct.value} % (${agents[draft.agent].fallbackMacPct.basis}).`
+              ? `Blank uses ${publishedMac.macPct} % (${displayBasis(publishedMac.basis)}).`
+              : `Blank uses ${agents[draft.agent].fallbackMacPct.value} % (${basisText(agents[draft.agent].fallbackMacPct)}).`
           }
           onChange={set('macText')}
         />
@@ -95,7 +97,7 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
             label="Route"
             name="route"
             value={draft.route}
-            options={(Object.keys(routeLabels) as (keyof typeof routeLabels)[]).map((value) => ({
+            options={routes.map((value) => ({
               value,
               label: routeLabels[value],
             }))}
@@ -107,7 +109,7 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
               name="circuit"
               value={draft.circuit}
               error={problems['circuit']}
-              options={(Object.keys(circuitLabels) as (keyof typeof circuitLabels)[]).map((value) => ({
+              options={circuits.map((value) => ({
                 value,
                 label: circuitLabels[value],
               }))}

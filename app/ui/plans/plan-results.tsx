@@ -1,5 +1,6 @@
 import { memo, type ReactNode } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
+import { plainBasis } from '../common/display.js';
 import { EstimateList } from './estimate-list.js';
 import { figure, minutes, range, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
@@ -107,7 +108,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           </div>
         </dl>
         <p className="basis">
-          MAC used: {figure(result.mac.valuePct)} % ({result.mac.basis}). Arousal threshold:{' '}
+          MAC used: {figure(result.mac.valuePct)} % ({plainBasis(result.mac.basis)}). Arousal threshold:{' '}
           {result.recoveryMacFraction.basis}. {milestones.basis}
         </p>
         <PlanChart result={result} compareWith={compareWith} />
@@ -208,7 +209,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           <h2 id="assumptions-heading">Assumptions</h2>
           <ul className="compact basis-list">
             {result.assumptions.map((assumption) => (
-              <li key={assumption}>{assumption}</li>
+              <li key={assumption}>{plainBasis(assumption)}</li>
             ))}
           </ul>
         </section>

@@ -1,9 +1,6 @@
 import type { z } from 'zod';
-import {
-  procedureEntryValuesSchema,
-  type EventType,
-  type ProcedureEntryValues,
-} from '../../contract/records.js';
+import { procedureEntryValuesSchema, type ProcedureEntryValues } from '../../contract/records.js';
+import type { EventType } from '../../core/procedure-events.js';
 import { describeIssues } from '../../contract/result.js';
 import {
   cToF,

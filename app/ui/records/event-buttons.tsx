@@ -1,7 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
-import type { EventType } from '../../contract/records.js';
+import { eventLabels, type EventType } from '../../core/procedure-events.js';
 import { clockText } from './clock-time.js';
-import { eventLabels } from './monitoring.js';
 
 /** Events common enough for a button of their own, in the order they usually happen. */
 const buttonEvents: readonly EventType[] = [

@@ -1,4 +1,5 @@
-import type { EventType, ProcedureEntryValues } from '../../contract/records.js';
+import type { ProcedureEntryValues } from '../../contract/records.js';
+import { eventLabels, type EventType } from '../../core/procedure-events.js';
 
 /**
  * Timing rules of the live record: the reminder to log vitals and the apnoea stopwatch.
@@ -83,9 +84,9 @@ export type TimedValues = { readonly values: ProcedureEntryValues };
 
 export const milestoneEvents = [
   { eventType: 'vaporiserOff', label: 'Gas off' },
-  { eventType: 'firstMovement', label: 'First movement' },
-  { eventType: 'extubation', label: 'Extubation' },
-  { eventType: 'standing', label: 'Standing / perching' },
+  { eventType: 'firstMovement', label: eventLabels.firstMovement },
+  { eventType: 'extubation', label: eventLabels.extubation },
+  { eventType: 'standing', label: eventLabels.standing },
 ] as const satisfies readonly { eventType: EventType; label: string }[];
 
 export type Milestone = {
@@ -117,21 +118,6 @@ export function recoveryMilestones(entries: readonly TimedValues[]): Milestone[]
     return { eventType, label, at, minutesAfterGasOff };
   });
 }
-
-export const eventLabels: Readonly<Record<EventType, string>> = {
-  induction: 'Induction',
-  intubation: 'Intubation',
-  apnoea: 'Apnoea',
-  ippvOn: 'IPPV on',
-  ippvOff: 'IPPV off',
-  vaporiserOff: 'Vaporiser off',
-  extubation: 'Extubation',
-  regurgitation: 'Regurgitation',
-  drugGiven: 'Drug given',
-  note: 'Note',
-  firstMovement: 'First movement',
-  standing: 'Standing / perching',
-};
 
 /** Minutes from the start of the procedure, one decimal. */
 export function minutesFromStart(startedAt: string, at: string): number {

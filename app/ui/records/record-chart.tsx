@@ -1,8 +1,8 @@
 import { useMemo } from 'react';
 import type { ProcedureEntryValues } from '../../contract/records.js';
+import { eventLabels } from '../../core/procedure-events.js';
 import { TimeChart, type ChartSeries } from '../common/time-chart.js';
 import { readingLabel, type DisplayUnits } from './entry-form.js';
-import { eventLabels } from './monitoring.js';
 import { recordSeries } from './record-series.js';
 
 const chartStyle: Readonly<

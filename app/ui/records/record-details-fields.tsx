@@ -1,14 +1,9 @@
 import { useId } from 'react';
-import { airways, circuits, cropStates, tubeTypes } from '../../contract/records.js';
+import { cropStates, tubeTypes } from '../../contract/records.js';
+import { circuitLabels, circuits, routeLabels, routes } from '../../core/delivery.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { RadioGroup, TextBox } from './fields.js';
-import {
-  airwayHasTube,
-  airwayLabels,
-  circuitLabels,
-  tubeTypeLabels,
-  type RecordDraft,
-} from './record-form.js';
+import { airwayHasTube, tubeTypeLabels, type RecordDraft } from './record-form.js';
 
 type Props = {
   readonly draft: RecordDraft;
@@ -82,7 +77,7 @@ export function RecordDetailsFields({ draft, errors, update }: Props) {
       <RadioGroup
         legend="Airway"
         name="airway"
-        options={airways.map((value) => ({ value, label: airwayLabels[value] }))}
+        options={routes.map((value) => ({ value, label: routeLabels[value] }))}
         value={draft.airway}
         error={errors['airway']}
         onChange={(value) => update('airway', value)}

@@ -1,6 +1,6 @@
+import type { Circuit, Route } from '../../core/delivery.js';
+import { routeLabels } from '../../core/delivery.js';
 import {
-  airways,
-  circuits,
   cropStates,
   procedureRecordValuesSchema,
   tubeTypes,
@@ -22,10 +22,10 @@ export type RecordDraft = {
   readonly emergency: boolean;
   readonly fasting: string;
   readonly cropChecked: (typeof cropStates)[number];
-  readonly airway: (typeof airways)[number] | '';
+  readonly airway: Route | '';
   readonly tubeSizeMm: string;
   readonly tubeType: (typeof tubeTypes)[number];
-  readonly circuit: (typeof circuits)[number] | '';
+  readonly circuit: Circuit | '';
   readonly staffInitials: string;
   readonly promptIntervalMin: string;
   /** The saved anaesthetic plan this procedure follows, if any. */
@@ -102,18 +102,6 @@ export function checkRecordDraft(
   return { ok: true, values: parsed.data };
 }
 
-export const airwayLabels: Readonly<Record<(typeof airways)[number], string>> = {
-  mask: 'Mask',
-  chamber: 'Induction chamber',
-  endotracheal: 'Endotracheal tube',
-  airSacTube: 'Air-sac tube',
-};
-
-export const circuitLabels: Readonly<Record<(typeof circuits)[number], string>> = {
-  nonRebreathing: 'Non-rebreathing system',
-  circle: 'Circle',
-};
-
 export const tubeTypeLabels: Readonly<Record<(typeof tubeTypes)[number], string>> = {
   '': 'not recorded',
   uncuffed: 'Uncuffed',
@@ -127,7 +115,7 @@ export function airwayText(
 ): string {
   const size = values.tubeSizeMm === null ? '' : ` ${values.tubeSizeMm} mm`;
   const type = values.airway === 'endotracheal' && values.tubeType !== '' ? `, ${values.tubeType}` : '';
-  return `${airwayLabels[values.airway]}${size}${type}`;
+  return `${routeLabels[values.airway]}${size}${type}`;
 }
 
 /** ASA grade as written on records: 1-5 with E for emergency. */

@@ -1,9 +1,10 @@
 import type { ProcedureDetail } from '../../contract/record-channels.js';
 import type { ProcedureRecordValues } from '../../contract/records.js';
+import { circuitLabels } from '../../core/delivery.js';
 import { formatMass } from '../../core/units.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { clockMinutesText, clockText, formatElapsed } from './clock-time.js';
-import { airwayText, asaText, circuitLabels } from './record-form.js';
+import { airwayText, asaText } from './record-form.js';
 
 /**
  * The head of the live record: the bird, the procedure's facts, the elapsed (or total) time, and

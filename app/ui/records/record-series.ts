@@ -1,4 +1,5 @@
-import type { EventType, ProcedureEntryValues } from '../../contract/records.js';
+import type { ProcedureEntryValues } from '../../contract/records.js';
+import type { EventType } from '../../core/procedure-events.js';
 import { toDisplayReading, type DisplayUnits, type ReadingField } from './entry-form.js';
 import { minutesFromStart } from './monitoring.js';
 

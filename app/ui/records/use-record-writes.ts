@@ -1,5 +1,6 @@
 import { useState, type ReactNode } from 'react';
-import type { EventType, ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import type { ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import type { EventType } from '../../core/procedure-events.js';
 import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { checkEntry, emptyReadings, type DisplayUnits } from './entry-form.js';

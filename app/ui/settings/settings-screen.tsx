@@ -2,16 +2,14 @@ import { useState, type FormEvent } from 'react';
 import {
   clinicSettingsSchema,
   defaultClinicSettings,
-  massUnits,
   paperSizes,
-  pressureUnits,
-  temperatureUnits,
   type ClinicSettings,
   type StoredSettings,
 } from '../../contract/settings.js';
 import type { SafetyStatus } from '../../contract/safety.js';
 import { describeIssues } from '../../contract/result.js';
-import { agentIds, agents } from '../../core/agents.js';
+import { agentIds, agentLabels } from '../../core/agents.js';
+import { massUnits, pressureUnits, temperatureUnits } from '../../core/units.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { Choice, TextField } from '../common/fields.js';
@@ -24,8 +22,6 @@ type Props = {
   readonly safety: SafetyStatus;
   readonly onSaved: (stored: StoredSettings) => void;
 };
-
-const agentLabels = Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]));
 
 /** Clinic name, address and preferred units; validated per field, saved to the clinic database. */
 export function SettingsScreen({ stored, safety, onSaved }: Props) {

@@ -1,11 +1,13 @@
 import type { SpeciesValues } from '../../contract/records.js';
 import type { AgentId } from '../../core/agents.js';
+import type { PotencyMeasure } from '../../core/species-reference.js';
+import { displayBasis } from '../common/display.js';
 
 /** What the species form holds: numbers as typed, so partial input is never lost. */
 export type MacDraft = {
   macPct: string;
   sdPct: string;
-  measure: 'MAC' | 'ED50' | 'minimum anaesthetic dose';
+  measure: PotencyMeasure;
   basis: string;
   note: string;
 };
@@ -53,24 +55,26 @@ export function speciesToDraft(values: SpeciesValues): SpeciesDraft {
           macPct: text(value.macPct),
           sdPct: text(value.sdPct),
           measure: value.measure,
-          basis: value.basis,
+          basis: displayBasis(value.basis),
           note: value.note ?? '',
         };
   };
   const range = (value: SpeciesValues['heartRate']): RangeDraft =>
-    value === null ? emptyRange() : { min: text(value.min), max: text(value.max), basis: value.basis };
+    value === null
+      ? emptyRange()
+      : { min: text(value.min), max: text(value.max), basis: displayBasis(value.basis) };
   return {
     commonName: values.commonName,
     scientificName: values.scientificName,
     massMinG: text(values.massMinG),
     massMaxG: text(values.massMaxG),
-    massBasis: values.massBasis,
+    massBasis: displayBasis(values.massBasis),
     heartRate: range(values.heartRate),
     breathsPerMin: range(values.breathsPerMin),
     mac: { isoflurane: mac('isoflurane'), sevoflurane: mac('sevoflurane'), desflurane: mac('desflurane') },
     apnoeaValue: text(values.apnoeaMacMultiple?.value),
-    apnoeaBasis: values.apnoeaMacMultiple?.basis ?? '',
-    anatomyNotes: values.anatomyNotes.map((note) => ({ ...note })),
+    apnoeaBasis: values.apnoeaMacMultiple === null ? '' : displayBasis(values.apnoeaMacMultiple.basis),
+    anatomyNotes: values.anatomyNotes.map((note) => ({ ...note, basis: displayBasis(note.basis) })),
   };
 }
 

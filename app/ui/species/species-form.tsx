@@ -2,6 +2,7 @@ import { useEffect, useState, type FormEvent } from 'react';
 import { speciesValuesSchema, type Species } from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
 import { agentIds, agents, type AgentId } from '../../core/agents.js';
+import { potencyMeasures } from '../../core/species-reference.js';
 import { api } from '../common/bridge.js';
 import { displayDateTime } from '../common/display.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -17,7 +18,8 @@ import {
   type SpeciesDraft,
 } from './species-draft.js';
 
-const basisHint = 'Give the source, or write common practice, from memory or assumption.';
+const basisHint =
+  'Give the source; without one, end with (common practice), (unverified value) or (assumption).';
 
 /** Add a species, or edit one (a reason is required; the earlier values stay in the history). */
 export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string | null }) {
@@ -211,11 +213,7 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
               <SelectField
                 label="What was measured"
                 value={draft.mac[agent].measure}
-                options={[
-                  { value: 'MAC', label: 'MAC' },
-                  { value: 'ED50', label: 'ED50' },
-                  { value: 'minimum anaesthetic dose', label: 'minimum anaesthetic dose' },
-                ]}
+                options={potencyMeasures.map((measure) => ({ value: measure, label: measure }))}
                 onChange={setMac(agent, 'measure')}
               />
               <TextField

@@ -1,5 +1,6 @@
 import type { Species } from '../../contract/records.js';
 import { agentIds, agents } from '../../core/agents.js';
+import { displayBasis } from '../common/display.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 
@@ -16,7 +17,7 @@ function MacCell({
     <>
       {mac.macPct} %{mac.sdPct === null ? '' : ` ± ${mac.sdPct}`}
       {mac.measure !== 'MAC' && ` (${mac.measure})`}
-      <span className="basis">{mac.basis}</span>
+      <span className="basis">{displayBasis(mac.basis)}</span>
       {mac.note !== null && <span className="basis">{mac.note}</span>}
     </>
   );
@@ -78,7 +79,7 @@ export function SpeciesListScreen() {
                 </td>
                 <td>
                   {species.values.massMinG}-{species.values.massMaxG} g
-                  <span className="basis">{species.values.massBasis}</span>
+                  <span className="basis">{displayBasis(species.values.massBasis)}</span>
                 </td>
                 {agentIds.map((agent) => (
                   <td key={agent}>
@@ -91,7 +92,7 @@ export function SpeciesListScreen() {
                   ) : (
                     <>
                       above {Number(species.values.apnoeaMacMultiple.value.toFixed(2))} MAC
-                      <span className="basis">{species.values.apnoeaMacMultiple.basis}</span>
+                      <span className="basis">{displayBasis(species.values.apnoeaMacMultiple.basis)}</span>
                     </>
                   )}
                 </td>
@@ -102,7 +103,7 @@ export function SpeciesListScreen() {
                       .map((note) => (
                         <li key={note.text}>
                           {note.text}
-                          <span className="basis">{note.basis}</span>
+                          <span className="basis">{displayBasis(note.basis)}</span>
                         </li>
                       ))}
                   </ul>

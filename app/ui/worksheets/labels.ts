@@ -1,7 +1,5 @@
 import { roundToSignificant } from '../../core/units.js';
 
-export { circuitLabels, routeLabels } from '../common/plan-labels.js';
-
 /** Labels and units of the model's estimates, in the order printed. */
 export const estimateRows = [
   { key: 'tidalVolumeMl', label: 'Tidal volume', unit: 'mL' },

@@ -1,4 +1,5 @@
 import type { PlanResult } from '../../contract/plan.js';
+import { plainBasis } from '../common/display.js';
 import { estimateRows, figure } from './labels.js';
 
 /** The allometric estimates for this bird, each with its basis. */
@@ -25,7 +26,7 @@ export function EstimatesSection({ result }: { readonly result: PlanResult }) {
                 <td className="number">
                   {figure(estimate.value)} {row.unit}
                 </td>
-                <td className="ws-basis">{estimate.basis}</td>
+                <td className="ws-basis">{plainBasis(estimate.basis)}</td>
               </tr>
             );
           })}

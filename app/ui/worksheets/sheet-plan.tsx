@@ -1,6 +1,8 @@
 import type { PlanInput, PlanResult } from '../../contract/plan.js';
 import { agents } from '../../core/agents.js';
-import { circuitLabels, figure, routeLabels } from './labels.js';
+import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { plainBasis } from '../common/display.js';
+import { figure } from './labels.js';
 import { Row } from './sheet-row.js';
 import { cylinderText, deliveryDetails, scheduleText, ventilationText } from './sheet-text.js';
 
@@ -24,7 +26,7 @@ export function PlanSection({
         <tbody>
           <Row label="Agent">
             {agent.displayName}; MAC used {figure(result.mac.valuePct)} %{' '}
-            <span className="ws-basis">({result.mac.basis})</span>
+            <span className="ws-basis">({plainBasis(result.mac.basis)})</span>
           </Row>
           <Row label="Route and circuit">
             {routeLabels[input.route]}

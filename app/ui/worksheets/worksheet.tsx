@@ -1,18 +1,15 @@
 import { useState } from 'react';
-import type { TidewingApi } from '../../contract/api.js';
+import { api } from '../common/bridge.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { Sheet } from './sheet.js';
 
-/** The desktop preload adds this; the browser host does not have it. */
-type DesktopPdf = {
-  saveWorksheetPdf?: (suggestedName: string) => Promise<{ saved: boolean; file?: string; error?: string }>;
-};
-
-function desktopPdf(): DesktopPdf['saveWorksheetPdf'] {
-  const bridge = globalThis.tidewing as (TidewingApi & DesktopPdf) | undefined;
-  return bridge?.saveWorksheetPdf;
+/** Asks the desktop to save the shown worksheet as a PDF; returns the line to show. */
+async function savePdf(suggestedName: string): Promise<string> {
+  const answer = await api.invoke('worksheets:save-pdf', { suggestedName });
+  if (!answer.ok) return `Not saved: ${answer.error.message}`;
+  return answer.value.saved ? `Saved ${answer.value.file}` : 'Not saved.';
 }
 
 /** `#/worksheets/<planId>`: the printable worksheet with Print and, in the desktop, Save as PDF. */
@@ -23,7 +20,6 @@ export function Worksheet({ planId }: { readonly planId: number }) {
   const settings = useClinicSettings();
   const [printedAt] = useState(() => new Date());
   const [pdfMessage, setPdfMessage] = useState<string | null>(null);
-  const savePdf = desktopPdf();
 
   const failed = [detail, drugs, info].find((load) => load.state === 'failed');
   if (failed !== undefined && failed.state === 'failed') {
@@ -53,24 +49,21 @@ export function Worksheet({ planId }: { readonly planId: number }) {
         <button type="button" className="primary" onClick={() => window.print()}>
           Print
         </button>
-        {savePdf !== undefined && (
+        {info.value.host === 'desktop' ? (
           <button
             type="button"
             onClick={() => {
               setPdfMessage('Saving…');
-              void savePdf(`tidewing-worksheet-${planId}-${name}.pdf`).then((answer) =>
-                setPdfMessage(
-                  answer.saved
-                    ? `Saved ${answer.file ?? ''}`
-                    : answer.error === undefined
-                      ? 'Not saved.'
-                      : `Not saved: ${answer.error}`,
-                ),
-              );
+              void savePdf(`tidewing-worksheet-${planId}-${name}.pdf`).then(setPdfMessage);
             }}
           >
             Save as PDF
           </button>
+        ) : (
+          <span className="ws-small">
+            For a PDF, press Print and choose Save as PDF as the printer, or run{' '}
+            <code>npx tidewing worksheet</code>.
+          </span>
         )}
         <span className="ws-small">
           Paper: {settings.paperSize === 'Letter' ? 'US Letter' : 'A4'} (change in Settings)

@@ -1,7 +1,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { liquidMlPerHour, vapourMlForSchedule } from '../../../app/core/budget/consumption.js';
-import { recommendFreshGas, routes, type Route } from '../../../app/core/budget/flows.js';
+import { recommendFreshGas } from '../../../app/core/budget/flows.js';
+import { routes, type Route } from '../../../app/core/delivery.js';
 import { oxygenBudget } from '../../../app/core/budget/oxygen.js';
 import { wasteGasExposure } from '../../../app/core/budget/waste-gas.js';
 

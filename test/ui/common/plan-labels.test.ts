@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { planInputSchema } from '../../../app/contract/plan.js';
-import { agentRouteText, circuitLabels, routeLabels } from '../../../app/ui/common/plan-labels.js';
+import { circuitLabels, routeLabels } from '../../../app/core/delivery.js';
+import { agentRouteText } from '../../../app/ui/common/plan-labels.js';
 
 describe('plain names of plan choices', () => {
   it('names every route and breathing system the plan contract accepts', () => {
