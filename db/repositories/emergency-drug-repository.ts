@@ -82,17 +82,21 @@ export function createEmergencyDrugRepository(db: TidewingDatabase) {
     },
     /** A new version of a drug; null when there is no such row. */
     correct(drugId: number, values: EmergencyDrugValues, meta: Meta, at: Date): EmergencyDrug | null {
-      return db.transaction(() => {
-        const previous = newestVersion(drugId);
-        return previous === null ? null : write(values, previous.id, false, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          const previous = newestVersion(drugId);
+          return previous === null ? null : write(values, previous.id, false, meta, at);
+        })
+        .immediate();
     },
     /** Takes a drug off the card; the row and its history stay, marked void. */
     void(drugId: number, meta: Meta, at: Date): EmergencyDrug | null {
-      return db.transaction(() => {
-        const previous = newestVersion(drugId);
-        return previous === null ? null : write(rowToDrug(previous).values, previous.id, true, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          const previous = newestVersion(drugId);
+          return previous === null ? null : write(rowToDrug(previous).values, previous.id, true, meta, at);
+        })
+        .immediate();
     },
     /** The current, not voided drugs, by name. */
     list(): EmergencyDrug[] {

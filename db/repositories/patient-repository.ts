@@ -133,35 +133,44 @@ export function createPatientRepository(db: TidewingDatabase) {
 
   return {
     create(values: PatientValues, meta: Meta, at: Date): Patient {
-      return db.transaction(() => {
-        const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
-        const versionId = Number(
-          insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta })
-            .lastInsertRowid,
-        );
-        setCurrent.run(patientId, versionId);
-        index(patientId, values);
-        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-      })();
+      return db
+        .transaction(() => {
+          const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
+          const versionId = Number(
+            insertVersion.run({
+              ...values,
+              patientId,
+              correctsId: null,
+              enteredAt: at.toISOString(),
+              ...meta,
+            }).lastInsertRowid,
+          );
+          setCurrent.run(patientId, versionId);
+          index(patientId, values);
+          return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+        })
+        .immediate();
     },
     /** Adds a corrected version; the earlier one stays in the history. */
     correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Patient | null {
-      return db.transaction(() => {
-        const current = currentRow.get(patientId);
-        if (current === undefined) return null;
-        const versionId = Number(
-          insertVersion.run({
-            ...values,
-            patientId,
-            correctsId: current.id,
-            enteredAt: at.toISOString(),
-            ...meta,
-          }).lastInsertRowid,
-        );
-        setCurrent.run(patientId, versionId);
-        index(patientId, values);
-        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-      })();
+      return db
+        .transaction(() => {
+          const current = currentRow.get(patientId);
+          if (current === undefined) return null;
+          const versionId = Number(
+            insertVersion.run({
+              ...values,
+              patientId,
+              correctsId: current.id,
+              enteredAt: at.toISOString(),
+              ...meta,
+            }).lastInsertRowid,
+          );
+          setCurrent.run(patientId, versionId);
+          index(patientId, values);
+          return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+        })
+        .immediate();
     },
     get(patientId: number): Patient | null {
       const row = currentRow.get(patientId);

@@ -88,11 +88,13 @@ export function createPlanRepository(db: TidewingDatabase) {
     },
     /** A new version of a plan; refuses to branch from a version that was already replaced. */
     correct(planId: number, plan: PlanToStore, meta: Meta, at: Date): SavedPlan | 'not-found' | 'stale' {
-      return db.transaction(() => {
-        if (byId.get(planId) === undefined) return 'not-found' as const;
-        if (isCorrected.get(planId) !== undefined) return 'stale' as const;
-        return write(plan, planId, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          if (byId.get(planId) === undefined) return 'not-found' as const;
+          if (isCorrected.get(planId) !== undefined) return 'stale' as const;
+          return write(plan, planId, meta, at);
+        })
+        .immediate();
     },
     get(planId: number): SavedPlan | null {
       const row = byId.get(planId);

@@ -103,18 +103,22 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
       return write(recordId, null, false, values, meta, at);
     },
     correct(entryId: number, values: ProcedureEntryValues, meta: Meta, at: Date): ProcedureEntry | null {
-      return db.transaction(() => {
-        const previous = newest(entryId);
-        return previous === null ? null : write(previous.record_id, previous.id, false, values, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          const previous = newest(entryId);
+          return previous === null ? null : write(previous.record_id, previous.id, false, values, meta, at);
+        })
+        .immediate();
     },
     void(entryId: number, meta: Meta, at: Date): ProcedureEntry | null {
-      return db.transaction(() => {
-        const previous = newest(entryId);
-        return previous === null
-          ? null
-          : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          const previous = newest(entryId);
+          return previous === null
+            ? null
+            : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
+        })
+        .immediate();
     },
     /** Current entries of a record in time order, each flagged when it has earlier versions. */
     list(recordId: number): (ProcedureEntry & { corrected: boolean })[] {

@@ -88,19 +88,23 @@ export function createProcedureRecordRepository(db: TidewingDatabase) {
 
   return {
     create(patientId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord {
-      return db.transaction(() => {
-        const recordId = Number(insertRecord.run(patientId, at.toISOString()).lastInsertRowid);
-        insertVersion.run(parameters(recordId, null, values, meta, at));
-        return rowToRecord(current.get(recordId) as RecordVersionRow);
-      })();
+      return db
+        .transaction(() => {
+          const recordId = Number(insertRecord.run(patientId, at.toISOString()).lastInsertRowid);
+          insertVersion.run(parameters(recordId, null, values, meta, at));
+          return rowToRecord(current.get(recordId) as RecordVersionRow);
+        })
+        .immediate();
     },
     correct(recordId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord | null {
-      return db.transaction(() => {
-        const previous = current.get(recordId);
-        if (previous === undefined) return null;
-        insertVersion.run(parameters(recordId, previous.id, values, meta, at));
-        return rowToRecord(current.get(recordId) as RecordVersionRow);
-      })();
+      return db
+        .transaction(() => {
+          const previous = current.get(recordId);
+          if (previous === undefined) return null;
+          insertVersion.run(parameters(recordId, previous.id, values, meta, at));
+          return rowToRecord(current.get(recordId) as RecordVersionRow);
+        })
+        .immediate();
     },
     get(recordId: number): ProcedureRecord | null {
       const row = current.get(recordId);

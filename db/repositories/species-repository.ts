@@ -255,37 +255,43 @@ export function createSpeciesRepository(db: TidewingDatabase) {
       return chainIds(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
     },
     add(values: SpeciesValues, meta: Meta, at: Date): Species {
-      return db.transaction(() => write(uniqueKey(values.commonName), 'clinic', null, values, meta, at))();
+      return db
+        .transaction(() => write(uniqueKey(values.commonName), 'clinic', null, values, meta, at))
+        .immediate();
     },
     /** Records an edit as a new version pointing at the one it replaces. */
     correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Species | null {
-      return db.transaction(() => {
-        const current = getCurrent.get(key);
-        if (current === undefined) return null;
-        return write(key, current.origin, current.id, values, meta, at);
-      })();
+      return db
+        .transaction(() => {
+          const current = getCurrent.get(key);
+          if (current === undefined) return null;
+          return write(key, current.origin, current.id, values, meta, at);
+        })
+        .immediate();
     },
     /** Adds every shipped reference species the database lacks; never touches clinic edits. */
     seedReference(reference: readonly SpeciesReference[], at: Date): number {
-      return db.transaction(() => {
-        let added = 0;
-        for (const entry of reference) {
-          if (keyExists.get(entry.id) !== undefined) continue;
-          write(
-            entry.id,
-            'reference',
-            null,
-            referenceToValues(entry),
-            {
-              enteredBy: 'Tidewing species reference',
-              reason: 'Seeded from the species reference shipped with Tidewing',
-            },
-            at,
-          );
-          added += 1;
-        }
-        return added;
-      })();
+      return db
+        .transaction(() => {
+          let added = 0;
+          for (const entry of reference) {
+            if (keyExists.get(entry.id) !== undefined) continue;
+            write(
+              entry.id,
+              'reference',
+              null,
+              referenceToValues(entry),
+              {
+                enteredBy: 'Tidewing species reference',
+                reason: 'Seeded from the species reference shipped with Tidewing',
+              },
+              at,
+            );
+            added += 1;
+          }
+          return added;
+        })
+        .immediate();
     },
   };
 }
