@@ -50,7 +50,7 @@ describe('write transactions', () => {
     // The repositories' writes, the migration and the export's read (from db/ as it is today).
     expect(calls.length).toBeGreaterThanOrEqual(16);
     for (const call of calls) {
-      const mode = /^\.(immediate|deferred)\(/.exec(call.after)?.[1];
+      const mode = /^\s*\.(immediate|deferred)\(/.exec(call.after)?.[1];
       expect(mode, `${call.file}: transaction(...)${call.after}`).toBeDefined();
       if (mode === 'deferred') expect(call.file).toBe(path.join('db', 'export.ts'));
     }
