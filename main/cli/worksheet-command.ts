@@ -138,9 +138,10 @@ export async function runWorksheetCommand(
     printing.catch(() => undefined);
 
     io.stderr(`worksheet: opening ${location.databaseFile}\n`);
-    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([
+    const [{ startBackEnd }, { DatabaseTooNewError }, { StartRefusedError }] = await Promise.all([
       import('../back-end/back-end.js'),
       import('../../db/connection.js'),
+      import('../back-end/start-up-guard.js'),
     ]);
     try {
       backEnd = startBackEnd({
@@ -150,7 +151,7 @@ export async function runWorksheetCommand(
       });
     } catch (error) {
       throw new Refusal(
-        error instanceof DatabaseTooNewError
+        error instanceof DatabaseTooNewError || error instanceof StartRefusedError
           ? error.message
           : `the database could not be opened: ${errorText(error)}`,
       );
