@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { listBackups } from '../../db/backup.js';
 import { clinicContentsOfFile, type ClinicContents } from '../../db/clinic-contents.js';
-import { checkDatabaseFile, type DatabaseCheck } from '../../db/integrity.js';
+import { checkDatabaseFile, formatBytes, type DatabaseCheck } from '../../db/integrity.js';
 import type { Migration } from '../../db/migrations/index.js';
 import { backupFolder } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
@@ -23,6 +23,8 @@ export type GuardProblem =
   | 'brokenLinks'
   /** Written by a newer Tidewing. */
   | 'tooNew'
+  /** No database, or an empty one, beside the write-ahead log (`-wal`) of the one that was there. */
+  | 'orphanLog'
   /** `--new-clinic` was asked for, but the data folder already holds a clinic's records. */
   | 'newClinicOverRecords';
 
@@ -202,6 +204,8 @@ const nothingChanged =
  *   records: refused (a first start, with no such backup, passes; `--new-clinic` passes too);
  * - a file failing SQLite's quick check, not SQLite, not Tidewing's, missing a table, with rows
  *   pointing at missing rows, or from a newer Tidewing: refused (the checks restore makes);
+ * - no database, or an empty one, beside a write-ahead log (`-wal`) with content: refused,
+ *   even with `--new-clinic` (the log would be replayed into the new file);
  * - `--new-clinic` while the database already holds records: refused.
  * A refusal names the problem, the newest good backup and the command that restores it.
  * Never throws for a bad file. A sound database costs one quick check (about 0.5 s for 50,000
@@ -275,6 +279,17 @@ export function checkBeforeStart(options: GuardOptions): GuardFinding {
   };
 
   const stat = fs.statSync(file, { throwIfNoEntry: false });
+  const logBytes = fs.statSync(`${file}-wal`, { throwIfNoEntry: false })?.size ?? 0;
+  if ((stat === undefined || (stat.isFile() && stat.size === 0)) && logBytes > 0) {
+    // SQLite would replay that log into the new database: a mix of two files, and the log's
+    // saved changes lost from the one they belong to.
+    return refuse(
+      'orphanLog',
+      `${stat === undefined ? `There is no clinic database at ${file}` : `The clinic database ${file} is empty (0 bytes)`}, but its write-ahead log ${file}-wal (${formatBytes(logBytes)}) is still there: it holds the latest saved changes of the database that was there. If you moved the database, put it back beside the log.`,
+      null,
+      false,
+    );
+  }
   if (stat === undefined) return absentOrEmpty('absent', `There is no clinic database at ${file}`);
   if (stat.isFile() && stat.size === 0)
     return absentOrEmpty('empty', `The clinic database ${file} is empty (0 bytes)`);

@@ -11,7 +11,8 @@ import {
   StartRefusedError,
 } from '../../main/back-end/start-up-guard.js';
 import { runRestoreCommand } from '../../main/cli/restore-command.js';
-import { damageMiddlePages, entryIdsIn, listing } from '../db/support/record-fixture.js';
+import { openDatabase } from '../../db/connection.js';
+import { addEntries, damageMiddlePages, entryIdsIn, listing } from '../db/support/record-fixture.js';
 import {
   backupFolder,
   clinicWithBackups,
@@ -98,6 +99,41 @@ describe('the start-up guard', () => {
     const backEnd = start(data.folder);
     await backEnd.backupSettled;
     backEnd.close();
+    expect(entryIdsIn(data.databaseFile)).toEqual(entryIdsIn(data.backups.at(-1) ?? ''));
+  });
+
+  it('refuses a deleted database whose write-ahead log is still there, even with --new-clinic; the restore keeps that log aside', async () => {
+    const data = await clinic();
+    // A log holding saved changes, as a database moved away while Tidewing ran leaves behind.
+    const writer = openDatabase(data.databaseFile);
+    const recordId = writer.prepare('SELECT id FROM procedure_records').pluck().get() as number;
+    writer.transaction(() => addEntries(writer, recordId, 3)).immediate();
+    const log = fs.readFileSync(`${data.databaseFile}-wal`);
+    writer.close();
+    fs.rmSync(data.databaseFile);
+    fs.writeFileSync(`${data.databaseFile}-wal`, log);
+    const before = snapshot(data.folder);
+
+    for (const newClinic of [false, true]) {
+      const error = refusal(data.folder, newClinic);
+      expect(error.finding.problem).toBe('orphanLog');
+      expect(error.message).toMatch(
+        /There is no clinic database at .*, but its write-ahead log .*-wal \(\d+ KB\) is still there/,
+      );
+      expect(error.message).not.toContain('--new-clinic');
+      expect(snapshot(data.folder)).toEqual(before);
+    }
+
+    const output: string[] = [];
+    const io = { stdout: (text: string) => output.push(text), stderr: (text: string) => output.push(text) };
+    expect(await runRestoreCommand([data.backups.at(-1) ?? '', '--data', data.folder], io)).toBe(0);
+    expect(output.join('')).toMatch(
+      /A log file left there without its database is kept at .*tidewing\.db\.replaced-.*-wal/,
+    );
+    const kept = fs.readdirSync(data.folder).filter((name) => name.endsWith('-wal'));
+    expect(kept).toHaveLength(1);
+    expect(fs.readFileSync(path.join(data.folder, kept[0] ?? ''))).toEqual(log);
+    start(data.folder).close();
     expect(entryIdsIn(data.databaseFile)).toEqual(entryIdsIn(data.backups.at(-1) ?? ''));
   });
 
