@@ -192,6 +192,30 @@ describe('the start-up guard', () => {
     expect(listBackups(backupFolder(data.folder))).toHaveLength(3);
   });
 
+  it('an emptied database started twelve times, refused each time; then twelve --new-clinic starts keep the backups with records', async () => {
+    const data = await clinic();
+    damages.emptied(data.databaseFile);
+    const withRecords = snapshot(backupFolder(data.folder));
+    for (let attempt = 0; attempt < 12; attempt += 1) refusal(data.folder);
+    expect(snapshot(backupFolder(data.folder))).toEqual(withRecords);
+    for (let day = 3; day < 15; day += 1) {
+      const backEnd = startBackEnd({
+        dataDirectory: data.folder,
+        appVersion: '9.8.7',
+        host: 'browser',
+        automaticBackup: true,
+        newClinic: true,
+        now: () => new Date(Date.UTC(2026, 3, day, 8, 0, 0)),
+      });
+      await backEnd.backupSettled;
+      backEnd.close();
+    }
+    const after = snapshot(backupFolder(data.folder));
+    for (const [name, hash] of Object.entries(withRecords)) expect(after[name]).toBe(hash);
+    // The new clinic's own backups rotate as usual: its last 10 are kept beside the two.
+    expect(listBackups(backupFolder(data.folder))).toHaveLength(2 + 10);
+  });
+
   it('refuses --new-clinic where the database holds records, and where the file is damaged', async () => {
     const data = await clinic();
     const before = snapshot(data.folder);
