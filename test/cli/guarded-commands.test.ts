@@ -4,6 +4,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { runBackupCommand } from '../../main/cli/backup-command.js';
 import { runCheckCommand } from '../../main/cli/check-command.js';
 import { runExportCommand } from '../../main/cli/export-command.js';
+import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import {
   clinicWithBackups,
   damages,
@@ -86,6 +87,25 @@ describe('commands on a live database the start-up guard refuses', () => {
       expect(snapshot(data.folder)).toEqual(before);
     },
   );
+
+  it('worksheet exits 1 on a deleted database with the backup to restore and its command', async () => {
+    const data = await clinic();
+    damages.deleted(data.databaseFile);
+    const before = snapshot(data.folder);
+    const out = outFolder();
+    const worksheet = captured();
+    expect(
+      await runWorksheetCommand(
+        ['--plan', '1', '--data', data.folder, '--out', path.join(out, 'sheet.pdf')],
+        worksheet.io,
+      ),
+    ).toBe(1);
+    expect(worksheet.stderr()).toContain(
+      `npx tidewing restore ${data.backups.at(-1) ?? ''} --data ${data.folder}`,
+    );
+    expect(fs.readdirSync(out)).toEqual([]);
+    expect(snapshot(data.folder)).toEqual(before);
+  });
 
   it('backup and export of an emptied database with no backups say there is no clinic in it', async () => {
     const temp = temporaryFolder();
