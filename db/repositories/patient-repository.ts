@@ -1,5 +1,6 @@
 import type { Patient, PatientSummary, PatientValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PatientVersionRow = StampRow & {
@@ -133,44 +134,35 @@ export function createPatientRepository(db: TidewingDatabase) {
 
   return {
     create(values: PatientValues, meta: Meta, at: Date): Patient {
-      return db
-        .transaction(() => {
-          const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
-          const versionId = Number(
-            insertVersion.run({
-              ...values,
-              patientId,
-              correctsId: null,
-              enteredAt: at.toISOString(),
-              ...meta,
-            }).lastInsertRowid,
-          );
-          setCurrent.run(patientId, versionId);
-          index(patientId, values);
-          return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
+        const versionId = Number(
+          insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta })
+            .lastInsertRowid,
+        );
+        setCurrent.run(patientId, versionId);
+        index(patientId, values);
+        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+      });
     },
     /** Adds a corrected version; the earlier one stays in the history. */
     correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Patient | null {
-      return db
-        .transaction(() => {
-          const current = currentRow.get(patientId);
-          if (current === undefined) return null;
-          const versionId = Number(
-            insertVersion.run({
-              ...values,
-              patientId,
-              correctsId: current.id,
-              enteredAt: at.toISOString(),
-              ...meta,
-            }).lastInsertRowid,
-          );
-          setCurrent.run(patientId, versionId);
-          index(patientId, values);
-          return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        const current = currentRow.get(patientId);
+        if (current === undefined) return null;
+        const versionId = Number(
+          insertVersion.run({
+            ...values,
+            patientId,
+            correctsId: current.id,
+            enteredAt: at.toISOString(),
+            ...meta,
+          }).lastInsertRowid,
+        );
+        setCurrent.run(patientId, versionId);
+        index(patientId, values);
+        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+      });
     },
     get(patientId: number): Patient | null {
       const row = currentRow.get(patientId);

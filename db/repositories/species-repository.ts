@@ -1,6 +1,7 @@
 import type { Species, SpeciesValues } from '../../app/contract/records.js';
 import type { SpeciesReference } from '../../app/core/species-reference.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type MacAgent = 'isoflurane' | 'sevoflurane' | 'desflurane';
@@ -255,43 +256,39 @@ export function createSpeciesRepository(db: TidewingDatabase) {
       return chainIds(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
     },
     add(values: SpeciesValues, meta: Meta, at: Date): Species {
-      return db
-        .transaction(() => write(uniqueKey(values.commonName), 'clinic', null, values, meta, at))
-        .immediate();
+      return writeTransaction(db, () =>
+        write(uniqueKey(values.commonName), 'clinic', null, values, meta, at),
+      );
     },
     /** Records an edit as a new version pointing at the one it replaces. */
     correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Species | null {
-      return db
-        .transaction(() => {
-          const current = getCurrent.get(key);
-          if (current === undefined) return null;
-          return write(key, current.origin, current.id, values, meta, at);
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        const current = getCurrent.get(key);
+        if (current === undefined) return null;
+        return write(key, current.origin, current.id, values, meta, at);
+      });
     },
     /** Adds every shipped reference species the database lacks; never touches clinic edits. */
     seedReference(reference: readonly SpeciesReference[], at: Date): number {
-      return db
-        .transaction(() => {
-          let added = 0;
-          for (const entry of reference) {
-            if (keyExists.get(entry.id) !== undefined) continue;
-            write(
-              entry.id,
-              'reference',
-              null,
-              referenceToValues(entry),
-              {
-                enteredBy: 'Tidewing species reference',
-                reason: 'Seeded from the species reference shipped with Tidewing',
-              },
-              at,
-            );
-            added += 1;
-          }
-          return added;
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        let added = 0;
+        for (const entry of reference) {
+          if (keyExists.get(entry.id) !== undefined) continue;
+          write(
+            entry.id,
+            'reference',
+            null,
+            referenceToValues(entry),
+            {
+              enteredBy: 'Tidewing species reference',
+              reason: 'Seeded from the species reference shipped with Tidewing',
+            },
+            at,
+          );
+          added += 1;
+        }
+        return added;
+      });
     },
   };
 }

@@ -1,5 +1,6 @@
 import type { Weight, WeightValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type WeightRow = StampRow & {
@@ -66,46 +67,42 @@ export function createWeightRepository(db: TidewingDatabase) {
       return rowToWeight(byId.get(id) as WeightRow);
     },
     correct(weightId: number, values: WeightValues, meta: Meta, at: Date): Weight | null {
-      return db
-        .transaction(() => {
-          const previous = latestVersion(weightId);
-          if (previous === null) return null;
-          const id = Number(
-            insert.run({
-              ...values,
-              patientId: previous.patient_id,
-              correctsId: previous.id,
-              voided: 0,
-              enteredAt: at.toISOString(),
-              ...meta,
-            }).lastInsertRowid,
-          );
-          return rowToWeight(byId.get(id) as WeightRow);
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        const previous = latestVersion(weightId);
+        if (previous === null) return null;
+        const id = Number(
+          insert.run({
+            ...values,
+            patientId: previous.patient_id,
+            correctsId: previous.id,
+            voided: 0,
+            enteredAt: at.toISOString(),
+            ...meta,
+          }).lastInsertRowid,
+        );
+        return rowToWeight(byId.get(id) as WeightRow);
+      });
     },
     /** Withdraws a weight entered in error; it stays in the history, marked void. */
     void(weightId: number, meta: Meta, at: Date): Weight | null {
-      return db
-        .transaction(() => {
-          const previous = latestVersion(weightId);
-          if (previous === null) return null;
-          const id = Number(
-            insert.run({
-              patientId: previous.patient_id,
-              correctsId: previous.id,
-              voided: 1,
-              weighedOn: previous.weighed_on,
-              massG: previous.mass_g,
-              bodyCondition: previous.body_condition,
-              weighedBy: previous.weighed_by,
-              enteredAt: at.toISOString(),
-              ...meta,
-            }).lastInsertRowid,
-          );
-          return rowToWeight(byId.get(id) as WeightRow);
-        })
-        .immediate();
+      return writeTransaction(db, () => {
+        const previous = latestVersion(weightId);
+        if (previous === null) return null;
+        const id = Number(
+          insert.run({
+            patientId: previous.patient_id,
+            correctsId: previous.id,
+            voided: 1,
+            weighedOn: previous.weighed_on,
+            massG: previous.mass_g,
+            bodyCondition: previous.body_condition,
+            weighedBy: previous.weighed_by,
+            enteredAt: at.toISOString(),
+            ...meta,
+          }).lastInsertRowid,
+        );
+        return rowToWeight(byId.get(id) as WeightRow);
+      });
     },
     /** Current, not voided weights of a patient, oldest first. */
     list(patientId: number): Weight[] {
