@@ -2,6 +2,7 @@ import Database from 'better-sqlite3';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+import { clinicContentsOfFile } from './clinic-contents.js';
 import type { TidewingDatabase } from './connection.js';
 import { checkDatabaseFile, openReadOnly, type ReadOnlyDatabase } from './integrity.js';
 
@@ -237,16 +238,32 @@ export type RollingBackupOptions = {
   readonly nativeBinding?: string;
 };
 
+/** Why a rolling backup beyond the newest `keep` was not deleted. */
+export type KeptReason = 'day' | 'moreRecords' | 'unreadable';
+
 export type RollingBackupResult = BackupResult & {
   /** Older rolling backups deleted to stay within `keep`. */
   readonly removed: readonly string[];
+  /** Older rolling backups beyond `keep` that were kept, and why. */
+  readonly keptBeyondLimit: readonly { readonly file: string; readonly reason: KeptReason }[];
 };
+
+/** Days (UTC) back from `now`, today included, for which one backup each is kept beyond `keep`. */
+export const dailyBackupDays = 7;
+
+const dayMs = 24 * 60 * 60 * 1000;
 
 /**
  * Makes `tidewing-backup-<UTC time>.db` in `backupFolder`, then deletes the oldest files of that
- * name pattern beyond `keep`. Only after the new backup is complete and checked is anything
- * deleted, and the new file is never among them (even when the clock was set back); files of
- * any other name in the folder are never touched.
+ * name pattern beyond `keep`, except:
+ * - the newest backup of each UTC day of the last 7 days (today included), so that a burst of
+ *   starts cannot push every backup of last week out;
+ * - any backup holding more clinic records than the new one (a database emptied or replaced
+ *   by mistake must not rotate the real clinic away);
+ * - any backup whose records cannot be counted (nothing unreadable is deleted unseen).
+ * Only after the new backup is complete and checked is anything deleted, and the new file is
+ * never among them (even when the clock was set back); files of any other name in the folder
+ * are never touched.
  */
 export async function rollingBackup(options: RollingBackupOptions): Promise<RollingBackupResult> {
   const keep = options.keep ?? 10;
@@ -269,10 +286,38 @@ export async function rollingBackup(options: RollingBackupOptions): Promise<Roll
     },
   );
   const older = namedBackups(options.backupFolder).filter((backup) => backup.file !== made.file);
+  const binding = options.nativeBinding === undefined ? {} : { nativeBinding: options.nativeBinding };
+  const firstDailyDay = new Date(options.now.getTime() - (dailyBackupDays - 1) * dayMs)
+    .toISOString()
+    .slice(0, 10);
+  const dayOf = (backup: { takenAt: string }) => backup.takenAt.slice(0, 10);
+  const coveredDays = new Set([
+    options.now.toISOString().slice(0, 10),
+    ...older.slice(0, keep - 1).map(dayOf),
+  ]);
+  let newestRecords: number | null | undefined;
   const removed: string[] = [];
+  const keptBeyondLimit: { file: string; reason: KeptReason }[] = [];
+  // Newest first, so that the backup kept for a day is that day's newest.
   for (const backup of older.slice(keep - 1)) {
+    const day = dayOf(backup);
+    if (day >= firstDailyDay && !coveredDays.has(day)) {
+      coveredDays.add(day);
+      keptBeyondLimit.push({ file: backup.file, reason: 'day' });
+      continue;
+    }
+    newestRecords ??= clinicContentsOfFile(made.file, binding)?.recordCount ?? null;
+    const contents = clinicContentsOfFile(backup.file, binding);
+    if (contents === null) {
+      keptBeyondLimit.push({ file: backup.file, reason: 'unreadable' });
+      continue;
+    }
+    if (newestRecords === null || contents.recordCount > newestRecords) {
+      keptBeyondLimit.push({ file: backup.file, reason: 'moreRecords' });
+      continue;
+    }
     fs.rmSync(backup.file, { force: true });
     removed.push(backup.file);
   }
-  return { ...made, removed };
+  return { ...made, removed, keptBeyondLimit };
 }

@@ -26,6 +26,8 @@ export type OpenOptions = {
   readonly busyTimeoutMs?: number;
   /** Migrations to apply; tests pass their own lists. */
   readonly migrations?: readonly Migration[];
+  /** Called with the text of every statement the connection runs (diagnostics and tests). */
+  readonly trace?: (sql: string) => void;
 };
 
 function readSchemaVersion(file: string, options: OpenOptions): number {
@@ -46,6 +48,9 @@ function bindingOption(options: OpenOptions): { nativeBinding?: string } {
 /**
  * Opens (creating if needed) the clinic database and brings its schema up to date.
  * Refuses, without writing, a database whose schema is newer than this code.
+ * Every write transaction in db/ starts with BEGIN IMMEDIATE, so that a writer waits up to
+ * `busyTimeoutMs` for another process on the same file instead of failing at once when a
+ * deferred transaction's read lock cannot be upgraded.
  */
 export function openDatabase(file: string, options: OpenOptions = {}): TidewingDatabase {
   const list = options.migrations ?? migrations;
@@ -53,12 +58,17 @@ export function openDatabase(file: string, options: OpenOptions = {}): TidewingD
   const fileVersion = readSchemaVersion(file, options);
   if (fileVersion > known) throw new DatabaseTooNewError(file, fileVersion, known);
 
-  const db = new Database(file, bindingOption(options));
+  const busyTimeoutMs = Math.round(options.busyTimeoutMs ?? 5000);
+  const db = new Database(file, {
+    ...bindingOption(options),
+    timeout: busyTimeoutMs,
+    ...(options.trace === undefined ? {} : { verbose: (sql: unknown) => options.trace?.(String(sql)) }),
+  });
   try {
+    db.pragma(`busy_timeout = ${busyTimeoutMs}`);
     db.pragma('journal_mode = WAL');
     db.pragma('synchronous = FULL');
     db.pragma('foreign_keys = ON');
-    db.pragma(`busy_timeout = ${Math.round(options.busyTimeoutMs ?? 5000)}`);
     migrate(db, list);
     return db;
   } catch (error) {
@@ -76,10 +86,15 @@ export function migrate(db: TidewingDatabase, list: readonly Migration[] = migra
   const current = db.pragma('user_version', { simple: true }) as number;
   if (current > list.length) throw new DatabaseTooNewError(db.name, current, list.length);
   for (const migration of list.slice(current)) {
+    // IMMEDIATE takes the write lock first (waiting up to the busy timeout), and the version is
+    // read again under it: a second Tidewing starting on the same folder at the same moment
+    // then finds the migration done instead of applying it twice.
     db.transaction(() => {
+      const now = db.pragma('user_version', { simple: true }) as number;
+      if (now >= migration.version) return;
       db.exec(migration.sql);
       db.pragma(`user_version = ${migration.version}`);
-    })();
+    }).immediate();
   }
   return db.pragma('user_version', { simple: true }) as number;
 }

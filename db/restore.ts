@@ -38,6 +38,8 @@ export type RestoreResult = {
   readonly databaseFile: string;
   /** Where the database that was replaced now is (`tidewing.db.replaced-<UTC time>`); null when there was none. */
   readonly replacedFile: string | null;
+  /** A `-wal`, `-shm` or `-journal` found without its database, kept as `tidewing.db.replaced-<UTC time>-wal` and so on. */
+  readonly setAside: readonly string[];
   /** The check of the source, made before anything was touched. */
   readonly sourceCheck: DatabaseCheck;
   /** The check of the database in its place after the restore. */
@@ -139,6 +141,7 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
   }
 
   let replacedFile: string | null = null;
+  const setAside: string[] = [];
   try {
     if (fs.existsSync(databaseFile)) {
       quiesce(databaseFile, binding);
@@ -155,6 +158,15 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
       for (const suffix of sidecarSuffixes) {
         if (fs.existsSync(`${databaseFile}${suffix}`))
           fs.renameSync(`${databaseFile}${suffix}`, `${replacedFile}${suffix}`);
+      }
+    } else {
+      // No database, but the log of one that was there (deleted or moved without it): it would
+      // be replayed into the restored file. Kept under the name a replaced database would get.
+      const base = freeName(`${databaseFile}.replaced-${fileTimestamp(options.now)}`);
+      for (const suffix of sidecarSuffixes) {
+        if (!fs.existsSync(`${databaseFile}${suffix}`)) continue;
+        fs.renameSync(`${databaseFile}${suffix}`, `${base}${suffix}`);
+        setAside.push(`${base}${suffix}`);
       }
     }
     fs.renameSync(staged, databaseFile);
@@ -176,5 +188,5 @@ export async function restoreDatabase(options: RestoreOptions): Promise<RestoreR
     ...binding,
     ...(options.migrations === undefined ? {} : { migrations: options.migrations }),
   });
-  return { databaseFile, replacedFile, sourceCheck, restoredCheck };
+  return { databaseFile, replacedFile, setAside, sourceCheck, restoredCheck };
 }

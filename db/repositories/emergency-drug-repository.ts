@@ -1,5 +1,6 @@
 import type { EmergencyDrug, EmergencyDrugValues } from '../../app/contract/drug-channels.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { stampOf, type StampRow } from './version-chain.js';
 
 type DrugRow = StampRow & {
@@ -82,17 +83,17 @@ export function createEmergencyDrugRepository(db: TidewingDatabase) {
     },
     /** A new version of a drug; null when there is no such row. */
     correct(drugId: number, values: EmergencyDrugValues, meta: Meta, at: Date): EmergencyDrug | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = newestVersion(drugId);
         return previous === null ? null : write(values, previous.id, false, meta, at);
-      })();
+      });
     },
     /** Takes a drug off the card; the row and its history stay, marked void. */
     void(drugId: number, meta: Meta, at: Date): EmergencyDrug | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = newestVersion(drugId);
         return previous === null ? null : write(rowToDrug(previous).values, previous.id, true, meta, at);
-      })();
+      });
     },
     /** The current, not voided drugs, by name. */
     list(): EmergencyDrug[] {

@@ -1,5 +1,6 @@
 import type { Patient, PatientSummary, PatientValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PatientVersionRow = StampRow & {
@@ -133,7 +134,7 @@ export function createPatientRepository(db: TidewingDatabase) {
 
   return {
     create(values: PatientValues, meta: Meta, at: Date): Patient {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
         const versionId = Number(
           insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta })
@@ -142,11 +143,11 @@ export function createPatientRepository(db: TidewingDatabase) {
         setCurrent.run(patientId, versionId);
         index(patientId, values);
         return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-      })();
+      });
     },
     /** Adds a corrected version; the earlier one stays in the history. */
     correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Patient | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const current = currentRow.get(patientId);
         if (current === undefined) return null;
         const versionId = Number(
@@ -161,7 +162,7 @@ export function createPatientRepository(db: TidewingDatabase) {
         setCurrent.run(patientId, versionId);
         index(patientId, values);
         return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
-      })();
+      });
     },
     get(patientId: number): Patient | null {
       const row = currentRow.get(patientId);

@@ -1,6 +1,7 @@
 import type { Checklist, SavedPlan } from '../../app/contract/plan-records.js';
 import type { PlanInput, PlanResult } from '../../app/contract/plan.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PlanRow = StampRow & {
@@ -88,11 +89,11 @@ export function createPlanRepository(db: TidewingDatabase) {
     },
     /** A new version of a plan; refuses to branch from a version that was already replaced. */
     correct(planId: number, plan: PlanToStore, meta: Meta, at: Date): SavedPlan | 'not-found' | 'stale' {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         if (byId.get(planId) === undefined) return 'not-found' as const;
         if (isCorrected.get(planId) !== undefined) return 'stale' as const;
         return write(plan, planId, meta, at);
-      })();
+      });
     },
     get(planId: number): SavedPlan | null {
       const row = byId.get(planId);

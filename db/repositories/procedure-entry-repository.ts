@@ -1,5 +1,6 @@
 import type { ProcedureEntry, ProcedureEntryValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type EntryRow = StampRow & {
@@ -103,18 +104,18 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
       return write(recordId, null, false, values, meta, at);
     },
     correct(entryId: number, values: ProcedureEntryValues, meta: Meta, at: Date): ProcedureEntry | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = newest(entryId);
         return previous === null ? null : write(previous.record_id, previous.id, false, values, meta, at);
-      })();
+      });
     },
     void(entryId: number, meta: Meta, at: Date): ProcedureEntry | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = newest(entryId);
         return previous === null
           ? null
           : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
-      })();
+      });
     },
     /** Current entries of a record in time order, each flagged when it has earlier versions. */
     list(recordId: number): (ProcedureEntry & { corrected: boolean })[] {

@@ -1,5 +1,6 @@
 import type { ProcedureRecord, ProcedureRecordValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type RecordVersionRow = StampRow & {
@@ -88,19 +89,19 @@ export function createProcedureRecordRepository(db: TidewingDatabase) {
 
   return {
     create(patientId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const recordId = Number(insertRecord.run(patientId, at.toISOString()).lastInsertRowid);
         insertVersion.run(parameters(recordId, null, values, meta, at));
         return rowToRecord(current.get(recordId) as RecordVersionRow);
-      })();
+      });
     },
     correct(recordId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = current.get(recordId);
         if (previous === undefined) return null;
         insertVersion.run(parameters(recordId, previous.id, values, meta, at));
         return rowToRecord(current.get(recordId) as RecordVersionRow);
-      })();
+      });
     },
     get(recordId: number): ProcedureRecord | null {
       const row = current.get(recordId);

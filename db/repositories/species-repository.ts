@@ -3,6 +3,7 @@ import { agentIds, type AgentId } from '../../app/core/agents.js';
 import { storedBasis } from '../../app/core/sourced.js';
 import type { PotencyMeasure, SpeciesReference } from '../../app/core/species-reference.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type SpeciesRow = StampRow & {
@@ -254,19 +255,21 @@ export function createSpeciesRepository(db: TidewingDatabase) {
       return chainIds(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
     },
     add(values: SpeciesValues, meta: Meta, at: Date): Species {
-      return db.transaction(() => write(uniqueKey(values.commonName), 'clinic', null, values, meta, at))();
+      return writeTransaction(db, () =>
+        write(uniqueKey(values.commonName), 'clinic', null, values, meta, at),
+      );
     },
     /** Records an edit as a new version pointing at the one it replaces. */
     correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Species | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const current = getCurrent.get(key);
         if (current === undefined) return null;
         return write(key, current.origin, current.id, values, meta, at);
-      })();
+      });
     },
     /** Adds every shipped reference species the database lacks; never touches clinic edits. */
     seedReference(reference: readonly SpeciesReference[], at: Date): number {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         let added = 0;
         for (const entry of reference) {
           if (keyExists.get(entry.id) !== undefined) continue;
@@ -284,7 +287,7 @@ export function createSpeciesRepository(db: TidewingDatabase) {
           added += 1;
         }
         return added;
-      })();
+      });
     },
   };
 }

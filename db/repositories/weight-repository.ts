@@ -1,5 +1,6 @@
 import type { Weight, WeightValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
+import { writeTransaction } from '../write-transaction.js';
 import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type WeightRow = StampRow & {
@@ -66,7 +67,7 @@ export function createWeightRepository(db: TidewingDatabase) {
       return rowToWeight(byId.get(id) as WeightRow);
     },
     correct(weightId: number, values: WeightValues, meta: Meta, at: Date): Weight | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = latestVersion(weightId);
         if (previous === null) return null;
         const id = Number(
@@ -80,11 +81,11 @@ export function createWeightRepository(db: TidewingDatabase) {
           }).lastInsertRowid,
         );
         return rowToWeight(byId.get(id) as WeightRow);
-      })();
+      });
     },
     /** Withdraws a weight entered in error; it stays in the history, marked void. */
     void(weightId: number, meta: Meta, at: Date): Weight | null {
-      return db.transaction(() => {
+      return writeTransaction(db, () => {
         const previous = latestVersion(weightId);
         if (previous === null) return null;
         const id = Number(
@@ -101,7 +102,7 @@ export function createWeightRepository(db: TidewingDatabase) {
           }).lastInsertRowid,
         );
         return rowToWeight(byId.get(id) as WeightRow);
-      })();
+      });
     },
     /** Current, not voided weights of a patient, oldest first. */
     list(patientId: number): Weight[] {

@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { rollingBackup } from '../../db/backup.js';
+import { rollingBackup, type KeptReason } from '../../db/backup.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 
 export type AutomaticBackupOptions = {
@@ -25,6 +25,16 @@ export type AutomaticBackupResult =
   | { readonly status: 'skipped'; readonly message: string }
   | { readonly status: 'failed'; readonly message: string };
 
+function keptNote(kept: readonly { reason: KeptReason }[], keep: number): string {
+  const count = (reason: KeptReason) => kept.filter((item) => item.reason === reason).length;
+  const parts = [
+    count('day') > 0 ? `${count('day')} as the last of a day this week` : '',
+    count('moreRecords') > 0 ? `${count('moreRecords')} holding more records than the database now` : '',
+    count('unreadable') > 0 ? `${count('unreadable')} that could not be read` : '',
+  ].filter((part) => part !== '');
+  return parts.length === 0 ? '' : `; kept beyond the last ${keep}: ${parts.join(', ')}`;
+}
+
 /** The folder inside a data folder that holds the rolling backups. */
 export function backupFolder(dataDirectory: string): string {
   return path.join(dataDirectory, 'backups');
@@ -32,7 +42,9 @@ export function backupFolder(dataDirectory: string): string {
 
 /**
  * The backup made each time Tidewing starts: a rolling copy of the database in
- * `<data>/backups/`, keeping the last `keep`. Call it before the database is opened (or with it
+ * `<data>/backups/`, keeping the last `keep` (and the older ones `rollingBackup` protects). Call it
+ * only once the start-up guard has passed (`checkBeforeStart`), so that an emptied or damaged
+ * database is never copied over the good backups. Call it before the database is opened (or with it
  * open; SQLite's online backup reads a consistent snapshot either way). Skipped on first run,
  * when there is no database yet. Never throws: a failure is returned as a message for the log,
  * and never deletes an older backup unless the new one was made and passed its check. Uses
@@ -58,7 +70,7 @@ export async function automaticBackupOnStart(
       file: made.file,
       sizeBytes: made.sizeBytes,
       removed: made.removed,
-      message: `Automatic backup: ${made.file}${made.removed.length > 0 ? ` (removed ${made.removed.length} older)` : ''}.`,
+      message: `Automatic backup: ${made.file}${made.removed.length > 0 ? ` (removed ${made.removed.length} older)` : ''}${keptNote(made.keptBeyondLimit, options.keep ?? 10)}.`,
     };
   } catch (error) {
     return {

@@ -6,6 +6,7 @@ import { createSpeciesRepository } from '../../db/repositories/species-repositor
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
+import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
@@ -27,10 +28,26 @@ export type BackEndOptions = {
   readonly log?: (message: string) => void;
   /** Make a rolling backup (last 10 kept) in `<data>/backups` at start. */
   readonly automaticBackup?: boolean;
+  /** `--new-clinic`: start an empty clinic although `backups/` holds backups with records. */
+  readonly newClinic?: boolean;
 };
 
-/** Opens the clinic database in a data folder and wires the contract's handler table to it. */
+/**
+ * Opens the clinic database in a data folder and wires the contract's handler table to it.
+ * The start-up guard runs first: a missing, emptied, damaged or foreign database is refused
+ * with StartRefusedError before anything is created, migrated, written or backed up.
+ */
 export function startBackEnd(options: BackEndOptions): BackEnd {
+  const finding = checkBeforeStart({
+    dataDirectory: options.dataDirectory,
+    newClinic: options.newClinic === true,
+    ...(options.openOptions?.nativeBinding === undefined
+      ? {}
+      : { nativeBinding: options.openOptions.nativeBinding }),
+    ...(options.openOptions?.migrations === undefined ? {} : { migrations: options.openOptions.migrations }),
+  });
+  if (!finding.ok) throw new StartRefusedError(finding);
+  if (finding.notice !== null) options.log?.(finding.notice);
   fs.mkdirSync(options.dataDirectory, { recursive: true });
   const file = databaseFile(options.dataDirectory);
   const db = openDatabase(file, options.openOptions);

@@ -1,8 +1,8 @@
 import path from 'node:path';
 import { BackupError, backupDatabase } from '../../db/backup.js';
 import { formatBytes } from '../../db/integrity.js';
+import { databaseReadyForReading } from './command-guard.js';
 import {
-  databaseExists,
   dataLocation,
   errorText,
   parseArguments,
@@ -28,7 +28,7 @@ export async function runBackupCommand(args: string[], io: CommandIo): Promise<n
   });
   if (parsed === null) return 2;
   const { outFile, location } = parsed;
-  if (!databaseExists(io, 'backup', location)) return 1;
+  if (!databaseReadyForReading(io, 'backup', location)) return 1;
   try {
     const made = await backupDatabase(location.databaseFile, outFile, progressPrinter(io, 'backup'), {
       verify: 'full',

@@ -2,6 +2,7 @@ import path from 'node:path';
 import { listBackups } from '../../db/backup.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { backupFolder } from '../back-end/automatic-backup.js';
+import { checkBeforeStart, restoreAdvice } from '../back-end/start-up-guard.js';
 import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 
 export const checkUsage =
@@ -59,6 +60,17 @@ export async function runCheckCommand(args: string[], io: CommandIo): Promise<nu
         ? `Automatic backups: none in ${backupFolder(dataDirectory)}`
         : `Automatic backups: ${backups.length} in ${backupFolder(dataDirectory)}, newest taken ${newest.takenAt}`,
     );
+  }
+  if (dataDirectory !== null) {
+    // What the app would do at start: the guard's finding, and for a database that cannot be
+    // used, the backup to restore and the command. Reads only, like the check above.
+    const finding = checkBeforeStart({ dataDirectory });
+    if (!finding.ok && finding.problem !== 'tooNew') {
+      lines.push('Tidewing will not start on this database.');
+      lines.push(finding.advice);
+    } else if (!check.ok && check.status !== 'tooNew' && check.status !== 'missing') {
+      lines.push(restoreAdvice({ dataDirectory }).advice);
+    }
   }
   io.stdout(`${lines.join('\n')}\n`);
   return check.ok ? 0 : 1;

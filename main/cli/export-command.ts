@@ -1,10 +1,10 @@
 import path from 'node:path';
 import { BackupError } from '../../db/backup.js';
 import { writeDatabaseJson } from '../../db/export.js';
-import { checkDatabaseFile, formatBytes, openReadOnly } from '../../db/integrity.js';
+import { formatBytes, openReadOnly } from '../../db/integrity.js';
 import { readAppVersion } from '../back-end/project-paths.js';
+import { databaseReadyForReading } from './command-guard.js';
 import {
-  databaseExists,
   dataLocation,
   errorText,
   parseArguments,
@@ -34,18 +34,8 @@ export async function runExportCommand(
   });
   if (parsed === null) return 2;
   const { outFile, location } = parsed;
-  if (!databaseExists(io, 'export', location)) return 1;
-  // A damaged file could export partly and look complete; refuse it instead.
-  const check = checkDatabaseFile(location.databaseFile, { quick: true });
-  if (
-    check.status === 'corrupt' ||
-    check.status === 'notDatabase' ||
-    check.status === 'unreadable' ||
-    check.status === 'notTidewing'
-  ) {
-    io.stderr(`tidewing export: ${check.message} Nothing was written.\n`);
-    return 1;
-  }
+  // A damaged file could export partly and look complete; the guard refuses it instead.
+  if (!databaseReadyForReading(io, 'export', location)) return 1;
   let opened;
   try {
     opened = openReadOnly(location.databaseFile);

@@ -160,6 +160,26 @@ async function stopBrowser(child: ChildProcess): Promise<void> {
   const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
   killGroup(child);
   await exited;
+  await groupGone(child);
+}
+
+/**
+ * Waits (at most `limitMs`) until no process of the browser's group is left: the browser's exit
+ * can be seen before its helpers (the zygote) have gone on a busy machine, and the scratch
+ * profile is removed only once nothing uses it.
+ */
+async function groupGone(child: ChildProcess, limitMs = 5_000): Promise<void> {
+  if (process.platform === 'win32' || child.pid === undefined) return;
+  const until = Date.now() + limitMs;
+  for (;;) {
+    try {
+      process.kill(-child.pid, 0);
+    } catch {
+      return;
+    }
+    if (Date.now() >= until) return;
+    await new Promise((resolve) => setTimeout(resolve, 20));
+  }
 }
 
 function killGroup(child: ChildProcess): void {

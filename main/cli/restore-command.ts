@@ -44,6 +44,8 @@ export async function runRestoreCommand(
         ? 'There was no database there before.\n'
         : `The database it replaced is kept at ${result.replacedFile}.\n`,
     );
+    for (const file of result.setAside)
+      io.stdout(`A log file left there without its database is kept at ${file}.\n`);
     io.stdout(`Check after restore: ${result.restoredCheck.message}\n`);
     return result.restoredCheck.ok ? 0 : 1;
   } catch (error) {

@@ -73,7 +73,15 @@ export async function runWorksheetCommand(
   const parsed = parseOrExplain(io, 'worksheet', worksheetUsage, () => parse(args));
   if (parsed === null) return 2;
   const { planId, outFile, location } = parsed;
-  if (!databaseExists(io, 'worksheet', location)) return 1;
+  if (!fs.existsSync(location.databaseFile)) {
+    // A database gone from beside backups with records: say which backup to restore. (Loaded
+    // here only, like the back end below, so that the database driver does not delay Chromium.)
+    const { checkBeforeStart } = await import('../back-end/start-up-guard.js');
+    const finding = checkBeforeStart({ dataDirectory: location.dataDirectory });
+    if (!finding.ok) io.stderr(`tidewing worksheet: ${finding.message}\n`);
+    else databaseExists(io, 'worksheet', location);
+    return 1;
+  }
   if (!fs.existsSync(path.dirname(outFile))) {
     io.stderr(
       `tidewing worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`,
@@ -139,9 +147,10 @@ export async function runWorksheetCommand(
     printing.catch(() => undefined);
 
     io.stderr(`worksheet: opening ${location.databaseFile}\n`);
-    const [{ startBackEnd }, { DatabaseTooNewError }] = await Promise.all([
+    const [{ startBackEnd }, { DatabaseTooNewError }, { StartRefusedError }] = await Promise.all([
       import('../back-end/back-end.js'),
       import('../../db/connection.js'),
+      import('../back-end/start-up-guard.js'),
     ]);
     try {
       backEnd = startBackEnd({
@@ -151,7 +160,7 @@ export async function runWorksheetCommand(
       });
     } catch (error) {
       throw new Refusal(
-        error instanceof DatabaseTooNewError
+        error instanceof DatabaseTooNewError || error instanceof StartRefusedError
           ? error.message
           : `the database could not be opened: ${errorText(error)}`,
       );

@@ -2,8 +2,11 @@ import { app, BrowserWindow, dialog, ipcMain, protocol, session, type WebContent
 import fs from 'node:fs';
 import path from 'node:path';
 import { channelNames, type ParsedRequestOf, type ResponseOf } from '../../app/contract/channels.js';
+import { restoreDatabase } from '../../db/restore.js';
 import { startBackEnd, type BackEnd } from '../back-end/back-end.js';
+import { databaseFile } from '../back-end/data-directory.js';
 import { createDispatcher, HandlerError } from '../back-end/handlers.js';
+import { StartRefusedError } from '../back-end/start-up-guard.js';
 import { electronSqliteBindingPath } from '../back-end/electron-native.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
 import { readRendererFile } from '../back-end/static-files.js';
@@ -162,25 +165,85 @@ async function createWindow(root: string): Promise<void> {
   await window.loadURL(`${appOrigin}/index.html`);
 }
 
+/**
+ * The start-up guard's screen: what was found, that nothing was changed, the newest good
+ * backup and the restore command, with a button that runs that restore. Resolves true when
+ * the backup was restored (the start is then tried again), false to quit.
+ */
+async function offerRestore(
+  refusal: StartRefusedError,
+  dataDirectory: string,
+  binding: string | undefined,
+): Promise<boolean> {
+  const { finding } = refusal;
+  const buttons = finding.goodBackup === null ? ['Quit'] : ['Restore this backup', 'Quit'];
+  const choice = await dialog.showMessageBox({
+    type: 'error',
+    title: 'Tidewing did not open the clinic database',
+    message: 'Tidewing did not open the clinic database. Nothing was changed.',
+    detail: finding.message,
+    buttons,
+    defaultId: buttons.length - 1,
+    cancelId: buttons.length - 1,
+    noLink: true,
+  });
+  if (finding.goodBackup === null || choice.response !== 0) return false;
+  try {
+    const restored = await restoreDatabase({
+      from: finding.goodBackup.file,
+      databaseFile: databaseFile(dataDirectory),
+      now: new Date(),
+      ...(binding === undefined ? {} : { nativeBinding: binding }),
+    });
+    await dialog.showMessageBox({
+      type: 'info',
+      title: 'Backup restored',
+      message: `Restored ${finding.goodBackup.file}.`,
+      detail:
+        restored.replacedFile === null
+          ? 'Tidewing will now open it.'
+          : `The file it replaced is kept at ${restored.replacedFile}. Tidewing will now open the restored database.`,
+      buttons: ['Open Tidewing'],
+    });
+    return true;
+  } catch (error) {
+    dialog.showErrorBox(
+      'The restore did not happen',
+      `${error instanceof Error ? error.message : String(error)}\n\nYou can run it yourself: ${finding.restoreCommand ?? ''}`,
+    );
+    return false;
+  }
+}
+
 async function main(): Promise<void> {
   await app.whenReady();
   const root = findProjectRoot();
   const dataDirectory = dataDirectoryFromArguments(process.argv) ?? app.getPath('userData');
-  let backEnd: BackEnd;
-  try {
-    const binding = electronSqliteBinding(root);
-    backEnd = startBackEnd({
-      dataDirectory,
-      appVersion: readAppVersion(root),
-      host: 'desktop',
-      automaticBackup: true,
-      ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
-    });
-  } catch (error) {
-    dialog.showErrorBox(
-      'Tidewing cannot open its database',
-      error instanceof Error ? error.message : String(error),
-    );
+  const binding = electronSqliteBinding(root);
+  let backEnd: BackEnd | null = null;
+  // A second try only after the guard's screen restored a backup.
+  for (let attempt = 0; backEnd === null && attempt < 2; attempt += 1) {
+    try {
+      backEnd = startBackEnd({
+        dataDirectory,
+        appVersion: readAppVersion(root),
+        host: 'desktop',
+        automaticBackup: true,
+        newClinic: process.argv.includes('--new-clinic'),
+        ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
+      });
+    } catch (error) {
+      if (error instanceof StartRefusedError && (await offerRestore(error, dataDirectory, binding))) continue;
+      if (!(error instanceof StartRefusedError))
+        dialog.showErrorBox(
+          'Tidewing cannot open its database',
+          error instanceof Error ? error.message : String(error),
+        );
+      app.exit(1);
+      return;
+    }
+  }
+  if (backEnd === null) {
     app.exit(1);
     return;
   }

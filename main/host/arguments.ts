@@ -3,12 +3,14 @@ export type StartArguments = {
   readonly dataDirectory: string | null;
   readonly open: boolean;
   readonly forceBrowser: boolean;
+  /** `--new-clinic`: start an empty clinic although `backups/` holds backups with records. */
+  readonly newClinic: boolean;
 };
 
 export class ArgumentError extends Error {}
 
 /**
- * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser]`.
+ * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser] [--new-clinic]`.
  * `--port 0` (the default) takes any free port.
  */
 export function parseStartArguments(argv: readonly string[], env: NodeJS.ProcessEnv = {}): StartArguments {
@@ -16,6 +18,7 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
   let dataDirectory: string | null = null;
   let open = env['CI'] === undefined || env['CI'] === '' || env['CI'] === 'false';
   let forceBrowser = false;
+  let newClinic = false;
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index];
     const next = () => {
@@ -45,11 +48,14 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
       case '--browser':
         forceBrowser = true;
         break;
+      case '--new-clinic':
+        newClinic = true;
+        break;
       default:
         throw new ArgumentError(
-          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser.`,
+          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser, --new-clinic.`,
         );
     }
   }
-  return { port, dataDirectory, open, forceBrowser };
+  return { port, dataDirectory, open, forceBrowser, newClinic };
 }

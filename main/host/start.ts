@@ -2,6 +2,7 @@ import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { ArgumentError, parseStartArguments } from './arguments.js';
 import { startBackEnd } from '../back-end/back-end.js';
+import { StartRefusedError } from '../back-end/start-up-guard.js';
 import { defaultDataDirectory } from '../back-end/data-directory.js';
 import { electronAvailability } from './electron-availability.js';
 import { installedElectronVersion, prepareElectronSqlite } from '../back-end/electron-native.js';
@@ -37,6 +38,7 @@ async function main(): Promise<number> {
   if (availability.ok) {
     const electronArgs = [path.join(root, 'build', 'main', 'electron', 'electron-main.js')];
     if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
+    if (args.newClinic) electronArgs.push('--new-clinic');
     const child = spawn(availability.binary, electronArgs, { stdio: 'inherit' });
     return new Promise((resolve) => child.on('close', (code) => resolve(code ?? 1)));
   }
@@ -50,9 +52,14 @@ async function main(): Promise<number> {
       appVersion,
       host: 'browser',
       automaticBackup: true,
+      newClinic: args.newClinic,
       log: (message) => process.stderr.write(`${message}\n`),
     });
   } catch (error) {
+    if (error instanceof StartRefusedError) {
+      process.stderr.write(`tidewing: Tidewing did not start.\n${error.message}\n`);
+      return 1;
+    }
     process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
   }

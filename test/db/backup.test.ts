@@ -159,6 +159,61 @@ describe('rollingBackup', () => {
     expect(listBackups(folder).at(-1)?.takenAt).toBe('2026-01-05T09:02:00.000Z');
   });
 
+  it('keeps the newest backup of each of the last 7 days (UTC) beyond `keep`', async () => {
+    const { databaseFile } = withEntries(1);
+    const folder = outFolder();
+    const hours = [8, 12, 16];
+    for (let day = 1; day <= 9; day += 1)
+      for (const hour of hours)
+        await rollingBackup({
+          databaseFile,
+          backupFolder: folder,
+          keep: 3,
+          now: new Date(Date.UTC(2026, 3, day, hour, 0, 0, 0)),
+        });
+    // The last 3, then each of the six days before (2026-04-03 to 04-08) by its newest backup;
+    // 2026-04-01 and 04-02 are more than 7 days back.
+    expect(listBackups(folder).map((backup) => backup.takenAt)).toEqual([
+      '2026-04-09T16:00:00.000Z',
+      '2026-04-09T12:00:00.000Z',
+      '2026-04-09T08:00:00.000Z',
+      ...[8, 7, 6, 5, 4, 3].map((day) => `2026-04-0${day}T16:00:00.000Z`),
+    ]);
+  });
+
+  it('never deletes a backup that holds more clinic records than the new one', async () => {
+    const clinic = withEntries(20);
+    const folder = outFolder();
+    for (let minute = 0; minute < 3; minute += 1)
+      await rollingBackup({
+        databaseFile: clinic.databaseFile,
+        backupFolder: folder,
+        keep: 2,
+        now: at(minute),
+      });
+    const withRecords = listBackups(folder).map((backup) => backup.file);
+    // The database is replaced by one holding fewer records (a mistaken fresh start), and the
+    // app starts five times more.
+    const smaller = withEntries(1);
+    const kept: string[][] = [];
+    for (let minute = 10; minute < 15; minute += 1) {
+      const made = await rollingBackup({
+        databaseFile: smaller.databaseFile,
+        backupFolder: folder,
+        keep: 2,
+        now: at(minute),
+      });
+      kept.push(
+        made.keptBeyondLimit.filter((item) => item.reason === 'moreRecords').map((item) => item.file),
+      );
+    }
+    for (const file of withRecords) expect(fs.existsSync(file)).toBe(true);
+    expect(kept.at(-1)).toEqual(withRecords);
+    // Only the smaller database's own older backups were rotated: 2 newest kept, 3 removed.
+    expect(listBackups(folder)).toHaveLength(withRecords.length + 2);
+    expect(entryIdsIn(withRecords[0] ?? '')).toEqual(clinic.entryIds);
+  });
+
   it('gives a second backup in the same millisecond its own name', async () => {
     const { databaseFile } = withEntries(1);
     const folder = outFolder();

@@ -6,8 +6,27 @@ import http from 'node:http';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
+import { clinicWithBackups, damages, snapshot, type DamageName } from '../support/guarded-clinic.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { startHostProcess } from './host-process.js';
+
+/** `node build/main/host/start.js --no-open --port 0 --data DIR ...`, as `npm start` runs it. */
+function startOnce(dataDirectory: string, extra: string[] = []) {
+  return spawnSync(
+    process.execPath,
+    [
+      path.join(findProjectRoot(), 'build', 'main', 'host', 'start.js'),
+      '--no-open',
+      '--port',
+      '0',
+      '--data',
+      dataDirectory,
+      ...extra,
+    ],
+    // A generous limit: the refusal comes after one read of the folder; this only stops a hang.
+    { env: { ...process.env, CI: 'true', DISPLAY: '' }, encoding: 'utf8', timeout: 60_000 },
+  );
+}
 
 function status(url: string): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -90,6 +109,55 @@ describe('npm start on a machine without a display', () => {
       expect(result.stdout).not.toMatch(/Open:/);
       expect(crypto.createHash('sha256').update(fs.readFileSync(file)).digest('hex')).toBe(before);
       expect(fs.readdirSync(data.folder)).toEqual(['tidewing.db']);
+    } finally {
+      data.remove();
+    }
+  });
+});
+
+describe('npm start on a data folder whose database went wrong (the start-up guard)', () => {
+  const cases: [DamageName, RegExp][] = [
+    ['emptied', /is empty \(0 bytes\)/],
+    ['deleted', /There is no clinic database at/],
+    ['damagedPage', /is damaged/],
+    ['foreign', /not a Tidewing database/],
+    ['missingTable', /lacks the table emergency_drugs/],
+  ];
+  it.each(cases)(
+    'database %s: exits non-zero without a URL, names the newest backup and the restore command, and changes no file',
+    async (damage, what) => {
+      const data = await clinicWithBackups();
+      try {
+        damages[damage](data.databaseFile);
+        const before = snapshot(data.folder);
+        const result = startOnce(data.folder);
+        expect(result.error).toBeUndefined();
+        expect(result.status).toBe(1);
+        expect(result.stdout).not.toMatch(/Open:|http:\/\//);
+        expect(result.stderr).toMatch(/Tidewing did not start/);
+        expect(result.stderr).toMatch(what);
+        const newest = data.backups.at(-1) ?? '';
+        expect(result.stderr).toContain(`The newest good backup is ${newest}`);
+        expect(result.stderr).toContain(`npx tidewing restore ${newest} --data ${data.folder}`);
+        // Every file byte for byte: the database as found, the backups, nothing added.
+        expect(snapshot(data.folder)).toEqual(before);
+      } finally {
+        data.remove();
+      }
+    },
+  );
+
+  it('starts a new, empty clinic with --new-clinic, keeping the backups with records', async () => {
+    const data = await clinicWithBackups();
+    try {
+      damages.emptied(data.databaseFile);
+      const backupsBefore = data.backups.map((file) => snapshot(path.dirname(file))[path.basename(file)]);
+      const host = await startHostProcess(data.folder, ['--new-clinic'], 60_000);
+      await host.stop();
+      expect(host.output()).toMatch(/Starting a new, empty clinic as asked \(--new-clinic\)/);
+      expect(data.backups.map((file) => snapshot(path.dirname(file))[path.basename(file)])).toEqual(
+        backupsBefore,
+      );
     } finally {
       data.remove();
     }

@@ -9,18 +9,23 @@ describe('start arguments', () => {
       dataDirectory: null,
       open: true,
       forceBrowser: false,
+      newClinic: false,
     });
   });
 
-  it('reads --port, --data, --no-open and --browser', () => {
-    expect(parseStartArguments(['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser'], {})).toEqual(
-      {
-        port: 8123,
-        dataDirectory: '/tmp/x',
-        open: false,
-        forceBrowser: true,
-      },
-    );
+  it('reads --port, --data, --no-open, --browser and --new-clinic', () => {
+    expect(
+      parseStartArguments(
+        ['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser', '--new-clinic'],
+        {},
+      ),
+    ).toEqual({
+      port: 8123,
+      dataDirectory: '/tmp/x',
+      open: false,
+      forceBrowser: true,
+      newClinic: true,
+    });
   });
 
   it('does not open a browser when CI is set', () => {
