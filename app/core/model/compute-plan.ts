@@ -267,6 +267,10 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
     bloodGasRange: agents[input.agent].bloodGasRange,
     brainTimeline: outcome.timeline,
+    maskEntered: {
+      deadSpace: input.maskDeadSpaceMl !== undefined,
+      leak: input.maskLeakFraction !== undefined,
+    },
   });
 
   // Flows.
@@ -433,6 +437,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   const cautions: Caution[] = [
     ...collectCautions(cautionContext),
     ...modelCautions(input, outcome, offMin, endMin),
+    ...bandCautions(uncertainty),
   ];
   if (input.speciesId !== undefined && species === undefined) {
     cautions.push({
@@ -519,7 +524,16 @@ function modelCautions(
       reason: `Model prediction: the brain never reaches ${String(input.targetMacMultiple ?? defaultTargetMacMultiple.value)} x MAC before ${endMin.toFixed(0)} min (estimate, see docs/model.md)`,
     });
   }
-  if (offMin !== null && outcome.recoveryMin === null) {
+  const recoveryFraction = input.recoveryMacFraction ?? defaultRecoveryMacFraction.value;
+  if (offMin !== null && outcome.recoveryMin === null && outcome.peakBrainMacMultiple < recoveryFraction) {
+    cautions.push({
+      code: 'recovery-level-never-reached',
+      severity: 'notice',
+      message:
+        'No recovery time: the brain never reaches the recovery level, so the bird is not predicted to be anaesthetised',
+      reason: `Model prediction: the brain peaks at ${outcome.peakBrainMacMultiple.toFixed(2)} x MAC, below the recovery level of ${recoveryFraction.toFixed(2)} x MAC (estimate, see docs/model.md)`,
+    });
+  } else if (offMin !== null && outcome.recoveryMin === null) {
     cautions.push({
       code: 'recovery-not-within-window',
       severity: 'notice',
@@ -536,5 +550,26 @@ function modelCautions(
       reason: `${ventilatoryDepressionFloor.basis}; ${ventilatoryDepressionSlope.basis}`,
     });
   }
+  return cautions;
+}
+
+/** Cautions for milestones that some sampled birds do not reach within the simulated window. */
+function bandCautions(uncertainty: PlanResult['uncertainty']): Caution[] {
+  const cautions: Caution[] = [];
+  const windowText = 'within the simulated window (a sample counts as beyond the window)';
+  if (uncertainty.inductionNote !== null)
+    cautions.push({
+      code: 'induction-not-reached-by-some',
+      severity: 'warning',
+      message: `Planned depth ${uncertainty.inductionNote}`,
+      reason: `${String(uncertainty.samples - uncertainty.inductionReached)} of ${String(uncertainty.samples)} model runs with sampled parameters do not reach the planned depth ${windowText}`,
+    });
+  if (uncertainty.recoveryNote !== null)
+    cautions.push({
+      code: 'recovery-not-reached-by-some',
+      severity: 'notice',
+      message: `Recovery ${uncertainty.recoveryNote} within the simulated window`,
+      reason: `${String(uncertainty.samples - uncertainty.recoveryReached)} of ${String(uncertainty.samples)} model runs with sampled parameters do not recover ${windowText}`,
+    });
   return cautions;
 }

@@ -182,3 +182,19 @@ export const macRelativeSpread: ModelParameter = {
   range: [0.15, 0.15],
   basis: 'Assumption: MAC varies about +/-15 % (1 SD) between individuals when the source gives no SD',
 };
+
+/** Spread of the tissue/blood partition coefficients sampled by the uncertainty run (one multiplier for all groups). */
+export const tissueBloodPartitionSpread: ModelParameter = {
+  value: 1,
+  range: [0.7, 1.4],
+  basis:
+    'Assumption: the human tissue/blood coefficients used for birds may be off by -30 % to +40 %; no avian measurement was found',
+};
+
+/** Spread of the tracheal dead space around the Hinds & Calder 1971 regression. */
+export const trachealVolumeSpread: ModelParameter = {
+  value: 1,
+  range: [0.7, 1.3],
+  basis:
+    'Assumption: individual tracheal volume within +/-30 % of the regression (the 2.2 kg chicken measured 7.0 mL against about 7.6 mL estimated)',
+};

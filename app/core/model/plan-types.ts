@@ -104,6 +104,12 @@ export type PlanUncertainty = {
   /** Samples in which the milestone was reached, out of `samples`. */
   readonly inductionReached: number;
   readonly recoveryReached: number;
+  /** Share of samples that reached the milestone within the window, 0-1 (1 without samples). */
+  readonly inductionReachedShare: number;
+  readonly recoveryReachedShare: number;
+  /** "not reached by N % of birds like this" when some samples did not reach it, else null. */
+  readonly inductionNote: string | null;
+  readonly recoveryNote: string | null;
   readonly parameters: readonly UncertaintyParameter[];
   readonly method: string;
 };
