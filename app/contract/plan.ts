@@ -319,6 +319,7 @@ function formatPath(path: readonly PropertyKey[]): string {
 const estimateSchema = z.object({ value: z.number(), basis: z.string() });
 const percentilesSchema = z.object({ p5: z.number(), p50: z.number(), p95: z.number() });
 const nullableNumber = z.number().nullable();
+const milestoneIdSchema = z.enum(['lossOfRighting', 'surgicalDepth', 'firstMovement', 'standing']);
 // A partial pressure is finite and never negative: a model result with NaN, Infinity or a negative
 // level is refused rather than shown.
 const partialPressuresPct = z.array(
@@ -372,6 +373,23 @@ export const planResultSchema = z.object({
     peakBrainMacMultiple: z.number(),
     lowestVentilationFraction: z.number(),
     basis: z.string(),
+    // Snapshots saved before the clinical milestones existed read them back as absent.
+    lossOfRightingMin: nullableNumber.default(null),
+    surgicalDepthMin: nullableNumber.default(null),
+    firstMovementMin: nullableNumber.default(null),
+    standingMin: nullableNumber.default(null),
+    definitions: z
+      .array(
+        z.object({
+          id: milestoneIdSchema,
+          label: z.string(),
+          macMultiple: z.number(),
+          when: z.enum(['rising', 'falling']),
+          definition: z.string(),
+          basis: z.string(),
+        }),
+      )
+      .default([]),
   }),
   uncertainty: z.object({
     samples: z.number(),
@@ -389,6 +407,16 @@ export const planResultSchema = z.object({
     recoveryNote: z.string().nullable().default(null),
     parameters: z.array(z.object({ name: z.string(), low: z.number(), high: z.number(), basis: z.string() })),
     method: z.string(),
+    milestones: z
+      .array(
+        z.object({
+          id: milestoneIdSchema,
+          percentiles: percentilesSchema.nullable(),
+          reachedShare: z.number().min(0).max(1),
+          note: z.string().nullable(),
+        }),
+      )
+      .default([]),
   }),
   flows: z.object({
     recommendedLpm: z.number(),

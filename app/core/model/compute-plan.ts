@@ -28,15 +28,26 @@ import {
   defaultMaskLeakFraction,
   defaultRecoveryMacFraction,
   defaultTargetMacMultiple,
+  lossOfRightingMacFraction,
   posteriorSacShare,
+  standingMacFraction,
+  type ModelParameter,
   rebreathingFlowMultiple,
   tissueGroups,
   ventilatoryDepressionFloor,
   ventilatoryDepressionSlope,
 } from './parameters.js';
-import type { PlanInput, PlanResult, PlanTimeline } from './plan-types.js';
+import type {
+  MilestoneDefinition,
+  MilestoneId,
+  MilestoneUncertainty,
+  PlanInput,
+  PlanResult,
+  PlanTimeline,
+  PlanUncertainty,
+} from './plan-types.js';
 import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
-import { runUncertainty } from './uncertainty.js';
+import { runUncertainty, type MilestoneBand } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
 export const modelVersion = '1.0.0';
@@ -185,9 +196,77 @@ export function buildSimulationSetup(
     macPct: mac.valuePct,
     inductionBrainPct: targetMultiple * mac.valuePct,
     recoveryBrainPct: recoveryFraction * mac.valuePct,
+    ...(input.recoveryMacFraction === undefined
+      ? { recoveryThresholdRange: rangeOf(defaultRecoveryMacFraction) }
+      : {}),
+    // Order as read back in computePlan: loss of righting, standing.
+    milestoneBrainPct: [
+      {
+        brainPct: lossOfRightingMacFraction.value * mac.valuePct,
+        direction: 'up',
+        thresholdRange: rangeOf(lossOfRightingMacFraction),
+      },
+      {
+        brainPct: standingMacFraction.value * mac.valuePct,
+        direction: 'down',
+        thresholdRange: rangeOf(standingMacFraction),
+      },
+    ],
     offMin: vaporiserOffMin(input.schedule),
     sampleIntervalMin: Math.max(0.05, Math.ceil(endMin / 480 / 0.05) * 0.05),
   };
+}
+
+/** [low, nominal, high] of a parameter, for the uncertainty run. */
+function rangeOf(parameter: ModelParameter): readonly [number, number, number] {
+  return [parameter.range[0], parameter.value, parameter.range[1]];
+}
+
+/**
+ * The clinical milestones' definitions for a plan.
+ * @param targetMultiple planned depth, multiple of MAC
+ * @param recoveryFraction first-movement threshold, fraction of MAC
+ * @param recoveryEntered whether the plan entered its own recovery threshold
+ */
+export function milestoneDefinitions(
+  targetMultiple: number,
+  recoveryFraction: number,
+  recoveryEntered: boolean,
+): MilestoneDefinition[] {
+  return [
+    {
+      id: 'lossOfRighting',
+      label: 'Loss of righting',
+      macMultiple: lossOfRightingMacFraction.value,
+      when: 'rising',
+      definition: `Light plane: the brain (vessel-rich group) rises through ${String(lossOfRightingMacFraction.value)} x MAC`,
+      basis: lossOfRightingMacFraction.basis,
+    },
+    {
+      id: 'surgicalDepth',
+      label: 'Planned surgical depth',
+      macMultiple: targetMultiple,
+      when: 'rising',
+      definition: `The brain reaches the planned depth of ${String(targetMultiple)} x MAC`,
+      basis: defaultTargetMacMultiple.basis,
+    },
+    {
+      id: 'firstMovement',
+      label: 'First movement or head lift',
+      macMultiple: recoveryFraction,
+      when: 'falling',
+      definition: `After the vaporiser is off, the brain falls below ${String(recoveryFraction)} x MAC`,
+      basis: recoveryEntered ? 'entered for this plan' : defaultRecoveryMacFraction.basis,
+    },
+    {
+      id: 'standing',
+      label: 'Standing or perching',
+      macMultiple: standingMacFraction.value,
+      when: 'falling',
+      definition: `After the vaporiser is off, the brain falls below ${String(standingMacFraction.value)} x MAC`,
+      basis: standingMacFraction.basis,
+    },
+  ];
 }
 
 function roundTo(value: number, digits: number): number {
@@ -259,7 +338,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
   });
 
-  const uncertainty = runUncertainty({
+  const sampled = runUncertainty({
     setup,
     outcome,
     macSdPct: mac.sdPct,
@@ -272,6 +351,56 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       leak: input.maskLeakFraction !== undefined,
     },
   });
+  const [rightingBand, standingBand] = sampled.milestoneBands;
+  const bandOf = (id: MilestoneId, band: MilestoneBand | undefined): MilestoneUncertainty => ({
+    id,
+    percentiles: band?.percentiles ?? null,
+    reachedShare: band?.reachedShare ?? 1,
+    note: band?.note ?? null,
+  });
+  const thresholdParameters = [
+    { name: 'lossOfRightingMacFraction', parameter: lossOfRightingMacFraction },
+    ...(input.recoveryMacFraction === undefined
+      ? [{ name: 'recoveryMacFraction', parameter: defaultRecoveryMacFraction }]
+      : []),
+    { name: 'standingMacFraction', parameter: standingMacFraction },
+  ].map(({ name, parameter }) => ({
+    name,
+    low: parameter.range[0],
+    high: parameter.range[1],
+    basis: parameter.basis,
+  }));
+  const uncertainty: PlanUncertainty = {
+    samples: sampled.samples,
+    seed: sampled.seed,
+    brainBandPct: sampled.brainBandPct,
+    inductionMin: sampled.inductionMin,
+    recoveryMin: sampled.recoveryMin,
+    inductionReached: sampled.inductionReached,
+    recoveryReached: sampled.recoveryReached,
+    inductionReachedShare: sampled.inductionReachedShare,
+    recoveryReachedShare: sampled.recoveryReachedShare,
+    inductionNote: sampled.inductionNote,
+    recoveryNote: sampled.recoveryNote,
+    parameters: [...sampled.parameters, ...thresholdParameters],
+    method: sampled.method,
+    milestones: [
+      bandOf('lossOfRighting', rightingBand),
+      {
+        id: 'surgicalDepth',
+        percentiles: sampled.inductionMin,
+        reachedShare: sampled.inductionReachedShare,
+        note: sampled.inductionNote,
+      },
+      {
+        id: 'firstMovement',
+        percentiles: sampled.recoveryMin,
+        reachedShare: sampled.recoveryReachedShare,
+        note: sampled.recoveryNote,
+      },
+      bandOf('standing', standingBand),
+    ],
+  };
 
   // Flows.
   // The flow rules accept 0.1-100000 mL/min; values outside are not a breathing bird.
@@ -473,8 +602,17 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       airSacWashout95Min: washOut.minutes,
       peakBrainMacMultiple: outcome.peakBrainMacMultiple,
       lowestVentilationFraction: outcome.lowestVentilationFraction,
+      lossOfRightingMin: outcome.milestoneMin[0] ?? null,
+      surgicalDepthMin: outcome.inductionMin,
+      firstMovementMin: outcome.recoveryMin,
+      standingMin: outcome.milestoneMin[1] ?? null,
+      definitions: milestoneDefinitions(
+        input.targetMacMultiple ?? defaultTargetMacMultiple.value,
+        input.recoveryMacFraction ?? defaultRecoveryMacFraction.value,
+        input.recoveryMacFraction !== undefined,
+      ),
       basis:
-        'Induction: brain (vessel-rich group) reaches the target MAC multiple; recovery: brain falls below the recovery fraction of MAC after the vaporiser is off; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
+        'Induction (planned surgical depth): brain (vessel-rich group) reaches the target MAC multiple; loss of righting: brain rises through the light-plane fraction of MAC; recovery (first movement or head lift): brain falls below the recovery fraction of MAC after the vaporiser is off; standing or perching: brain falls below the standing fraction of MAC; a recovery milestone is timed only for a brain that was above its level; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
     },
     uncertainty,
     flows: {

@@ -103,6 +103,8 @@ export type SimulationSetup = {
   readonly inductionBrainPct: number;
   /** Brain partial pressure (vol %) below which the bird is taken to be recovering. */
   readonly recoveryBrainPct: number;
+  /** Range of the recovery threshold as [low, nominal, high], sampled by the uncertainty run; absent: not sampled. */
+  readonly recoveryThresholdRange?: readonly [number, number, number];
   /** Time the vaporiser is turned off for good, or null. */
   readonly offMin: number | null;
   readonly sampleIntervalMin: number;
@@ -123,7 +125,15 @@ export type SimulationSetup = {
  * A brain level to time: 'up' from the start as the brain rises through it; 'down' after the
  * vaporiser is off as the brain falls below it (minutes after the vaporiser is off).
  */
-export type MilestoneLevel = { readonly brainPct: number; readonly direction: 'up' | 'down' };
+export type MilestoneLevel = {
+  readonly brainPct: number;
+  readonly direction: 'up' | 'down';
+  /**
+   * Range of the threshold as [low, nominal, high] (any unit: only ratios are used), sampled by the
+   * uncertainty run; absent: the level moves only with the sampled MAC.
+   */
+  readonly thresholdRange?: readonly [number, number, number];
+};
 
 export type SimulationTimeline = {
   readonly timeMin: number[];

@@ -82,6 +82,15 @@ function drawParameter(random: () => number, parameter: ModelParameter): number 
   return triangular(random, parameter.range[0], parameter.value, parameter.range[1]);
 }
 
+/** Sampled threshold over its nominal value (1 without a range). */
+function thresholdMultiple(
+  random: () => number,
+  range: readonly [number, number, number] | undefined,
+): number {
+  if (range === undefined || range[1] <= 0) return 1;
+  return triangular(random, range[0], range[1], range[2]) / range[1];
+}
+
 /** Standard normal by Box-Muller, truncated to +/-2.5 SD. */
 function normal(random: () => number): number {
   const u = Math.max(random(), 1e-12);
@@ -201,13 +210,14 @@ function drawSetup(
       },
       macPct: setup.macPct * macMultiple,
       inductionBrainPct: setup.inductionBrainPct * macMultiple,
-      recoveryBrainPct: setup.recoveryBrainPct * macMultiple,
+      recoveryBrainPct:
+        setup.recoveryBrainPct * macMultiple * thresholdMultiple(random, setup.recoveryThresholdRange),
       ...(setup.milestoneBrainPct === undefined
         ? {}
         : {
             milestoneBrainPct: setup.milestoneBrainPct.map((level) => ({
               ...level,
-              brainPct: level.brainPct * macMultiple,
+              brainPct: level.brainPct * macMultiple * thresholdMultiple(random, level.thresholdRange),
             })),
           }),
       onPhase: undefined,
@@ -258,7 +268,8 @@ export function milestoneBand(values: number[], windowMin: number): MilestoneBan
  * estimate, and the 5th-95th percentile band of the brain curve when a timeline is given.
  * @param input nominal setup and outcome, sample count (0-5000) and seed
  */
-export function runUncertainty(input: UncertaintyInput): PlanUncertainty & {
+export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, 'milestones'> & {
+  /** Bands of setup.milestoneBrainPct, in the same order. */
   readonly milestoneBands: readonly MilestoneBand[];
 } {
   const { setup } = input;
