@@ -4,12 +4,15 @@
  */
 import { agents } from '../agents.js';
 import {
+  vaporiserDialLimitPct,
+  vapourFlowMlPerMin,
   liquidAgentMlForSchedule,
   liquidMlPerHour,
   saturatedConcentrationPct,
   vapourMlPerLiquidMl,
 } from '../budget/consumption.js';
 import {
+  practicalMinimumFlowLpm,
   chamberTimeToFractionMin,
   rebreathingCheck,
   recommendFreshGas,
@@ -404,7 +407,17 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
 
   // Flows.
   // The flow rules accept 0.1-100000 mL/min; values outside are not a breathing bird.
-  const minuteVentilation = Math.min(100000, Math.max(0.1, estimates.minuteVentilationMlMin.value));
+  // Under IPPV the flow rules follow the set ventilation (the larger of resting and set when IPPV starts later).
+  const ventilationPlan = input.ventilation;
+  const setMinuteVentilation =
+    ventilationPlan?.mode === 'ippv' ? ventilationPlan.tidalVolumeMl * ventilationPlan.breathsPerMin : null;
+  const flowMinuteVentilation =
+    setMinuteVentilation === null
+      ? estimates.minuteVentilationMlMin.value
+      : (ventilationPlan?.mode === 'ippv' ? (ventilationPlan.fromMin ?? 0) : 0) > 0
+        ? Math.max(setMinuteVentilation, estimates.minuteVentilationMlMin.value)
+        : setMinuteVentilation;
+  const minuteVentilation = Math.min(100000, Math.max(0.1, flowMinuteVentilation));
   const flowInputs: FreshGasInputs = {
     route,
     circuit,
@@ -506,14 +519,17 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   const steady = release.sources
     .filter((source) => source.source !== 'chamberOpened')
     .reduce((sum, source) => sum + source.vapourMl, 0);
-  const extraReleases: RoomRelease[] =
-    chamberOpened === undefined
+  const extraReleases: RoomRelease[] = [
+    ...stepReleases(input.schedule, input.freshGasLpm, endMin, steady),
+    ...(chamberOpened === undefined
       ? []
-      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }];
+      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }]),
+  ];
   const exposure = wasteGasExposure({
     agent: input.agent,
-    releasedVapourMl: steady,
-    releaseDurationMin: endMin,
+    // Everything is released step by step (extraReleases), none spread over the whole plan.
+    releasedVapourMl: 0,
+    releaseDurationMin: 0,
     extraReleases,
     roomVolumeM3: room.volumeM3,
     airChangesPerHour: room.airChangesPerHour,
@@ -552,7 +568,8 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     saturatedPct: saturatedConcentrationPct(input.agent, temperatureC),
     temperatureC,
     freshGasLpm: input.freshGasLpm,
-    minimumFreshGasLpm: recommendation.minimumLpm,
+    // The rebreathing caution compares with the flow below which the system rebreathes; a chamber with its own minimum.
+    minimumFreshGasLpm: route === 'chamber' ? recommendation.minimumLpm : rebreathing.rebreathingBelowLpm,
     route,
     circuit,
     scavenging,
@@ -567,6 +584,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     ...collectCautions(cautionContext),
     ...modelCautions(input, outcome, offMin, endMin),
     ...bandCautions(uncertainty),
+    ...budgetCautions(input, recommendation.minimumLpm),
   ];
   if (input.speciesId !== undefined && species === undefined) {
     cautions.push({
@@ -708,6 +726,56 @@ function bandCautions(uncertainty: PlanResult['uncertainty']): Caution[] {
       severity: 'notice',
       message: `Recovery ${uncertainty.recoveryNote} within the simulated window`,
       reason: `${String(uncertainty.samples - uncertainty.recoveryReached)} of ${String(uncertainty.samples)} model runs with sampled parameters do not recover ${windowText}`,
+    });
+  return cautions;
+}
+
+/**
+ * Releases of waste gas to the room, one per vaporiser step that is on, at that step's rate: the
+ * vapour the vaporiser puts out in the step (carrier flow x c / (1 - c) x duration), scaled so
+ * that the steps together release `totalMl`.
+ * @param schedule vaporiser steps sorted by atMin
+ * @param freshGasLpm carrier flow, L/min
+ * @param endMin end of the plan, min
+ * @param totalMl vapour released to the room by the steady sources (exhaust, mask leak), mL
+ */
+export function stepReleases(
+  schedule: PlanInput['schedule'],
+  freshGasLpm: number,
+  endMin: number,
+  totalMl: number,
+): RoomRelease[] {
+  const steps = schedule.map((step, index) => {
+    const until = Math.min(endMin, schedule[index + 1]?.atMin ?? endMin);
+    const durationMin = Math.max(0, until - step.atMin);
+    const vapourMl = step.vaporPct > 0 ? vapourFlowMlPerMin(freshGasLpm, step.vaporPct) * durationMin : 0;
+    return { startMin: step.atMin, durationMin, vapourMl };
+  });
+  const delivered = steps.reduce((sum, step) => sum + step.vapourMl, 0);
+  if (!(delivered > 0) || !(totalMl > 0)) return [];
+  return steps
+    .filter((step) => step.vapourMl > 0 && step.durationMin > 0)
+    .map((step) => ({ ...step, vapourMl: (totalMl * step.vapourMl) / delivered }));
+}
+
+/** Cautions of the budgets: a dial above the agent's vaporiser, a flow below the practical minimum. */
+function budgetCautions(input: PlanInput, minimumLpm: number): Caution[] {
+  const cautions: Caution[] = [];
+  const limit = vaporiserDialLimitPct[input.agent];
+  const highest = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
+  if (highest > limit.value)
+    cautions.push({
+      code: 'dial-above-vaporiser-limit',
+      severity: 'warning',
+      message: `The schedule's dial setting ${String(highest)} % is above the ${String(limit.value)} % that a ${input.agent} vaporiser can be set to: lower the step in the vaporiser schedule`,
+      reason: limit.basis,
+    });
+  if (input.freshGasLpm < practicalMinimumFlowLpm.value)
+    cautions.push({
+      code: 'flow-below-practical-minimum',
+      severity: 'notice',
+      message: `Fresh gas flow ${String(input.freshGasLpm)} L/min is below the practical minimum of ${String(practicalMinimumFlowLpm.value)} L/min: set at least ${minimumLpm.toFixed(2)} L/min`,
+      reason: practicalMinimumFlowLpm.basis,
     });
   return cautions;
 }

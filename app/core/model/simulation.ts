@@ -161,7 +161,7 @@ export type AgentTotals = {
   readonly gasStoredMl: number;
   /** Held in blood and tissues at the end. */
   readonly bodyStoredMl: number;
-  /** Put out by the vaporiser: fresh gas flow x dial setting over the run. */
+  /** Put out by the vaporiser: carrier flow x c / (1 - c) over the run (the liquid-use convention). */
   readonly vaporiserOutputMl: number;
 };
 
@@ -427,6 +427,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       scheduleIndex += 1;
     const currentStep = schedule[scheduleIndex];
     const fresh = currentStep !== undefined && currentStep.atMin <= time ? currentStep.vaporPct / 100 : 0;
+    // The flowmeter sets the carrier: the vaporiser adds c / (1 - c) of it as vapour (as in consumption.ts).
+    const vapourPerCarrier = fresh < 1 ? fresh / (1 - fresh) : fresh;
 
     // Source gas offered at the airway opening during this inspiration.
     const source = mixed ? mixedGas : freshShare * fresh + (1 - freshShare) * lastExhaled;
@@ -476,7 +478,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     let exhaledThisPhase = tubePerPhase > 0 ? (lungOut * tubePerPhase) / inspiratoryLungFlow : 0;
     anterior = (anteriorVolume * anterior + lungOut - exhaledThisPhase) / (anteriorVolume + aShare * tidal);
     exhaled += exhaledThisPhase;
-    vaporiserOutput += freshFlow * phaseMin * fresh;
+    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
     if (mixed) mixedGas = fresh + (mixedGas - fresh) * freshDecay;
     if (mask)
       maskGas = tidal >= maskVolume ? source : ((maskVolume - tidal) * maskGas + tidal * source) / maskVolume;
@@ -534,7 +536,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     exhaledThisPhase = openingOut + lungToRoom;
     exhaled += exhaledThisPhase;
     if (tidal > 0) lastExhaled = openingOut / tidal;
-    vaporiserOutput += freshFlow * phaseMin * fresh;
+    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
     if (mixed) {
       // Exhaled gas returns to the chamber or circle and displaces the same volume to the vent.
       if (!tube)
