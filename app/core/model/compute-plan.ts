@@ -349,10 +349,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
     bloodGasRange: agents[input.agent].bloodGasRange,
     brainTimeline: outcome.timeline,
-    maskEntered: {
-      deadSpace: input.maskDeadSpaceMl !== undefined,
-      leak: input.maskLeakFraction !== undefined,
-    },
+    maskEntered: { deadSpace: input.maskDeadSpaceMl !== undefined },
   });
   const [rightingBand, standingBand] = sampled.milestoneBands;
   const bandOf = (id: MilestoneId, band: MilestoneBand | undefined): MilestoneUncertainty => ({

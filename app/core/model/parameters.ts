@@ -227,11 +227,12 @@ export const defaultMaskDeadSpaceTidalMultiple: ModelParameter = {
   kind: 'assumption',
 };
 
-/** Default fraction of inspired gas drawn from room air around a mask. */
+/** Default share of the mask's fresh gas that escapes to the room (budgets only). */
 export const defaultMaskLeakFraction: ModelParameter = {
   value: 0.1,
   range: [0, 0.3],
-  basis: 'Assumption: a loose-fitting mask entrains about 10 % room air',
+  basis:
+    'Assumption: about 10 % of the fresh gas fed to a loose-fitting mask escapes around it to the room (waste gas and flow budgets; room air drawn into the breath follows from fresh gas flow against peak inspiratory flow)',
   kind: 'assumption',
 };
 

@@ -51,6 +51,10 @@ export type DeliverySetup = {
   /** How the gas reaches the bird. */
   readonly interface: 'direct' | 'mask' | 'airSacTube';
   readonly maskDeadSpaceMl: number;
+  /**
+   * Share of the mask's fresh gas that escapes to the room (waste gas and flow budgets only): room
+   * air drawn into the breath follows from the flows instead (maskEntrainedShare).
+   */
   readonly maskLeakFraction: number;
 };
 
@@ -237,6 +241,24 @@ export function simulate(setup: SimulationSetup): SimulationOutcome {
 }
 
 /**
+ * Share of each breath drawn as room air around a face mask: the part of the inspiratory flow
+ * above the fresh gas flow. Inspiratory flow is taken as a half sine over an inspiration of half
+ * the breath (I:E 1:1, assumption), so its peak is pi x the minute ventilation; with
+ * r = FGF / peak below 1 the share above FGF is (2 sqrt(1 - r^2) - r (pi - 2 asin r)) / 2, and 0
+ * once the fresh gas flow meets the peak.
+ * @param freshGasMlMin fresh gas flow into the mask, mL/min, >= 0
+ * @param minuteVentilationMlMin tidal volume x rate, mL/min, > 0
+ * @returns share 0-1 of each breath that is room air
+ */
+export function maskEntrainedShare(freshGasMlMin: number, minuteVentilationMlMin: number): number {
+  const peak = Math.PI * minuteVentilationMlMin;
+  if (!(peak > 0)) return 0;
+  const ratio = freshGasMlMin / peak;
+  if (ratio >= 1) return 0;
+  return (2 * Math.sqrt(1 - ratio * ratio) - ratio * (Math.PI - 2 * Math.asin(ratio))) / 2;
+}
+
+/**
  * Agent (mL) in the slice [fromMl, toMl] of a compartment's outflow in one phase when the
  * outflow is taken first from the compartment's start-of-phase gas (`heldMl` mL at fraction
  * `held`) and, beyond it, from the gas arriving in the phase at fraction `arriving` (plug order).
@@ -297,7 +319,6 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const mask = delivery.interface === 'mask';
   const tube = delivery.interface === 'airSacTube';
   const maskVolume = Math.max(delivery.maskDeadSpaceMl, 1e-9);
-  const leak = mask ? delivery.maskLeakFraction : 0;
   const rebreathingMultiple = delivery.rebreathingFlowMultiple;
   const mac = setup.macPct / 100;
   const ippv = ventilation.ippv;
@@ -387,6 +408,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let freshDecay = 1;
   let maskDecay = 1;
   let freshShare = 1;
+  let entrained = 0;
   let scheduleIndex = 0;
 
   let time = 0;
@@ -422,6 +444,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       freshDecay = mixed ? Math.exp((-freshFlow * phaseMin) / mixedVolume) : 1;
       maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / maskVolume) : 1;
       freshShare = Math.min(1, freshFlow / (rebreathingMultiple * tidal * rate));
+      entrained = mask ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
     }
     while (scheduleIndex + 1 < schedule.length && (schedule[scheduleIndex + 1] as ScheduleStep).atMin <= time)
       scheduleIndex += 1;
@@ -437,7 +460,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       inspired = 0;
     } else if (mask) {
       const fromMask = tidal < maskVolume ? tidal : maskVolume;
-      inspired = (1 - leak) * ((fromMask * maskGas + (tidal - fromMask) * source) / tidal);
+      inspired = (1 - entrained) * ((fromMask * maskGas + (tidal - fromMask) * source) / tidal);
     } else {
       inspired = source;
     }

@@ -14,7 +14,6 @@ import {
   bloodVolumeFraction,
   cardiacOutputSpread,
   defaultMaskDeadSpaceTidalMultiple,
-  defaultMaskLeakFraction,
   lungVolumeFraction,
   macRelativeSpread,
   posteriorSacShare,
@@ -113,8 +112,8 @@ export type UncertaintyInput = {
    * 5th-95th percentile band of the sampled brain curves at the same times.
    */
   readonly brainTimeline?: { readonly timeMin: readonly number[]; readonly brainPct: readonly number[] };
-  /** Mask dead space and leak entered for this plan (not sampled) rather than defaults (sampled). */
-  readonly maskEntered?: { readonly deadSpace: boolean; readonly leak: boolean };
+  /** Mask dead space entered for this plan (not sampled) rather than the default (sampled). */
+  readonly maskEntered?: { readonly deadSpace: boolean };
 };
 
 /** One sampled set-up with the multipliers drawn for it. */
@@ -124,7 +123,7 @@ function drawSetup(
   input: UncertaintyInput,
   random: () => number,
   macRelativeSd: number,
-  maskDefaults: { deadSpace: boolean; leak: boolean },
+  maskDefaults: { deadSpace: boolean },
 ): Draw {
   const { setup } = input;
   const gas = setup.gasPath;
@@ -171,7 +170,6 @@ function drawSetup(
   const rebreathing = drawParameter(random, rebreathingFlowMultiple);
   const maskDeadSpaceMultiple =
     drawParameter(random, defaultMaskDeadSpaceTidalMultiple) / defaultMaskDeadSpaceTidalMultiple.value;
-  const leak = drawParameter(random, defaultMaskLeakFraction);
   const delivery = setup.delivery;
   return {
     macMultiple,
@@ -199,7 +197,6 @@ function drawSetup(
         maskDeadSpaceMl: maskDefaults.deadSpace
           ? delivery.maskDeadSpaceMl * maskDeadSpaceMultiple
           : delivery.maskDeadSpaceMl,
-        maskLeakFraction: maskDefaults.leak ? leak : delivery.maskLeakFraction,
       },
       ventilation: {
         ...setup.ventilation,
@@ -277,7 +274,6 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
   const macRelativeSd = input.macSdPct !== null ? input.macSdPct / setup.macPct : macRelativeSpread.value;
   const maskDefaults = {
     deadSpace: setup.delivery.interface === 'mask' && input.maskEntered?.deadSpace !== true,
-    leak: setup.delivery.interface === 'mask' && input.maskEntered?.leak !== true,
   };
   const inductions: number[] = [];
   const recoveries: number[] = [];
@@ -327,7 +323,7 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
 function sampledParameters(
   input: UncertaintyInput,
   macRelativeSd: number,
-  maskDefaults: { deadSpace: boolean; leak: boolean },
+  maskDefaults: { deadSpace: boolean },
 ): UncertaintyParameter[] {
   const of = (name: string, parameter: ModelParameter, note = ''): UncertaintyParameter => ({
     name,
@@ -368,7 +364,6 @@ function sampledParameters(
     of('depressionFloor', ventilatoryDepressionFloor),
     of('rebreathingFlowMultiple', rebreathingFlowMultiple),
     ...(maskDefaults.deadSpace ? [of('maskDeadSpaceTidalMultiple', defaultMaskDeadSpaceTidalMultiple)] : []),
-    ...(maskDefaults.leak ? [of('maskLeakFraction', defaultMaskLeakFraction)] : []),
   ];
 }
 

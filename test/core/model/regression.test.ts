@@ -30,12 +30,14 @@ const pinned: Record<string, Partial<Record<keyof PlanMilestones, number>>> = {
     peakBrainMacMultiple: 1.624,
     airSacWashin95Min: 1.738,
   },
+  // Updated with the mask entrainment from fresh gas flow against peak inspiratory flow: at 1 L/min
+  // the 32 g bird draws no room air (formerly a fixed 10 % of every breath).
   'pip-budgerigar-mask-isoflurane.json': {
-    lossOfRightingMin: 0.4929,
-    surgicalDepthMin: 2.603,
-    firstMovementMin: 2.907,
-    standingMin: 11.64,
-    peakBrainMacMultiple: 1.262,
+    lossOfRightingMin: 0.4457,
+    surgicalDepthMin: 1.685,
+    firstMovementMin: 3.687,
+    standingMin: 13.17,
+    peakBrainMacMultiple: 1.344,
     airSacWashin95Min: 1.36,
   },
 };

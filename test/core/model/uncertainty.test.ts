@@ -185,7 +185,6 @@ describe('an honest band', () => {
       'depressionFloor',
       'rebreathingFlowMultiple',
       'maskDeadSpaceTidalMultiple',
-      'maskLeakFraction',
       'lossOfRightingMacFraction',
       'recoveryMacFraction',
       'standingMacFraction',
