@@ -492,11 +492,11 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       lung,
       lungVolume,
     );
-    uptake += lastUptakeMl;
+    uptake += phaseResult[0] as number;
     posterior =
-      (posteriorVolume * posterior + toPosterior + tubePerPhase * tubeGas - lastInletMl) /
+      (posteriorVolume * posterior + toPosterior + tubePerPhase * tubeGas - (phaseResult[1] as number)) /
       (posteriorVolume + pShare * tidal);
-    lung = lastLung;
+    lung = phaseResult[2] as number;
     // The anterior sacs fill with the lung's outflow; tube flow leaves the lung to the room.
     let exhaledThisPhase = tubePerPhase > 0 ? (lungOut * tubePerPhase) / inspiratoryLungFlow : 0;
     anterior = (anteriorVolume * anterior + lungOut - exhaledThisPhase) / (anteriorVolume + aShare * tidal);
@@ -540,9 +540,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       lung,
       lungVolume,
     );
-    uptake += lastUptakeMl;
-    posterior = (posteriorFull * posterior + tubePerPhase * tubeGas - lastInletMl) / posteriorVolume;
-    lung = lastLung;
+    uptake += phaseResult[0] as number;
+    posterior =
+      (posteriorFull * posterior + tubePerPhase * tubeGas - (phaseResult[1] as number)) / posteriorVolume;
+    lung = phaseResult[2] as number;
     // Lung outflow (p VT) and the shrinking anterior sacs (a VT) leave through the trachea.
     const lungToRoom = tubePerPhase > 0 ? (lungOut * tubePerPhase) / expiratoryLungFlow : 0;
     const lungToTrachea = lungOut - lungToRoom;
@@ -665,18 +666,20 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   };
 }
 
-// Side results of exchangePhase (module scope keeps the hot call free of allocation).
-let lastUptakeMl = 0;
-let lastInletMl = 0;
-let lastLung = 0;
+/**
+ * Side results of exchangePhase: [agent handed to blood (mL), agent that left the sacs (mL), lung
+ * fraction at the end]. A typed array, because doubles kept in module-level variables are boxed and
+ * every write would allocate.
+ */
+const phaseResult = new Float64Array(3);
 
 /**
  * One phase of gas through the parabronchial lung. `flowMl` mL leave the upstream sacs
  * (`sacMl` mL at fraction `sac` at the start of the phase, topped up by gas at `arriving`) in
  * plug order and cross the lung in `substeps` equal parcels, each meeting the blood of one
  * exchange step (bodyExchangeStep). The lung (`lungMl` at `lung`) sends the same volume on in plug
- * order: first its start-of-phase gas, then the earliest parcels. Sets lastUptakeMl (agent handed
- * to blood), lastInletMl (agent that left the sacs) and lastLung (lung fraction at the end).
+ * order: first its start-of-phase gas, then the earliest parcels. Writes the agent handed to blood,
+ * the agent that left the sacs and the lung fraction at the end into phaseResult.
  * @returns agent (mL) that left the lung outlet in the phase
  */
 function exchangePhase(
@@ -703,18 +706,18 @@ function exchangePhase(
     endTotal += parcelMl * endGas;
     prefix[sub + 1] = endTotal;
   }
-  lastUptakeMl = inletTotal - endTotal;
-  lastInletMl = inletTotal;
+  phaseResult[0] = inletTotal - endTotal;
+  phaseResult[1] = inletTotal;
   if (flowMl <= 0) {
-    lastLung = lung;
+    phaseResult[2] = lung;
     return 0;
   }
   if (flowMl <= lungMl) {
-    lastLung = ((lungMl - flowMl) * lung + endTotal) / lungMl;
+    phaseResult[2] = ((lungMl - flowMl) * lung + endTotal) / lungMl;
     return flowMl * lung;
   }
   const passedMl = flowMl - lungMl;
-  lastLung = parcelSliceMl(prefix, substeps, parcelMl, passedMl, flowMl) / lungMl;
+  phaseResult[2] = parcelSliceMl(prefix, substeps, parcelMl, passedMl, flowMl) / lungMl;
   return lungMl * lung + parcelSliceMl(prefix, substeps, parcelMl, 0, passedMl);
 }
 
