@@ -438,115 +438,12 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm)
       : null;
 
-  // Consumption.
   const temperatureC = input.vaporiserTemperatureC ?? 20;
   const endMin = setup.endMin;
-  const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
-  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
-  const consumption = {
-    vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
-    liquidMl: liquidAgentMlForSchedule({
-      agent: input.agent,
-      schedule: input.schedule,
-      freshGasLpm: input.freshGasLpm,
-      endMin,
-      temperatureC,
-    }),
-    maintenanceVaporPct,
-    liquidMlPerHour: liquidMlPerHour({
-      agent: input.agent,
-      vaporPct: maintenanceVaporPct,
-      freshGasLpm: input.freshGasLpm,
-      temperatureC,
-    }),
-    basis:
-      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
-  };
-
-  // Oxygen.
-  const oxygenUsedL = input.freshGasLpm * endMin;
-  const oxygen =
-    input.cylinder === undefined
-      ? {
-          durationMin: endMin,
-          usedL: oxygenUsedL,
-          cylinderContentL: null,
-          enduranceMin: null,
-          suffices: null,
-          basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given',
-        }
-      : (() => {
-          const budget = oxygenBudget({
-            freshGasLpm: input.freshGasLpm,
-            durationMin: endMin,
-            cylinder: input.cylinder,
-          });
-          return {
-            durationMin: endMin,
-            usedL: budget.usedL,
-            cylinderContentL: budget.cylinderContentL,
-            enduranceMin: budget.enduranceMin,
-            suffices: budget.suffices,
-            basis: budget.basis,
-          };
-        })();
-
-  // Waste gas.
+  const consumption = consumptionOf(input, endMin, temperatureC);
+  const oxygen = oxygenOf(input, endMin);
   const scavenging = input.scavenging ?? false;
-  const room = input.room ?? {
-    volumeM3: defaultRoom.volumeM3,
-    airChangesPerHour: defaultRoom.airChangesPerHour,
-  };
-  const release = wasteGasRelease({
-    agent: input.agent,
-    route,
-    schedule: input.schedule,
-    freshGasLpm: input.freshGasLpm,
-    endMin,
-    scavenging,
-    ...(route === 'chamber' && input.chamberVolumeL !== undefined
-      ? {
-          chamberVolumeL: input.chamberVolumeL,
-          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
-        }
-      : {}),
-    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
-  });
-  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
-  const steady = release.sources
-    .filter((source) => source.source !== 'chamberOpened')
-    .reduce((sum, source) => sum + source.vapourMl, 0);
-  const extraReleases: RoomRelease[] = [
-    ...stepReleases(input.schedule, input.freshGasLpm, endMin, steady),
-    ...(chamberOpened === undefined
-      ? []
-      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }]),
-  ];
-  const exposure = wasteGasExposure({
-    agent: input.agent,
-    // Everything is released step by step (extraReleases), none spread over the whole plan.
-    releasedVapourMl: 0,
-    releaseDurationMin: 0,
-    extraReleases,
-    roomVolumeM3: room.volumeM3,
-    airChangesPerHour: room.airChangesPerHour,
-  });
-  const wasteGas = {
-    scavenging,
-    roomVolumeM3: room.volumeM3,
-    airChangesPerHour: room.airChangesPerHour,
-    sources: release.sources.map((source) => ({
-      source: source.source,
-      vapourMl: source.vapourMl,
-      basis: source.basis,
-    })),
-    releasedVapourMl: release.releasedVapourMl,
-    peakPpm: exposure.peakPpm,
-    highestHourMeanPpm: exposure.highestHourMeanPpm,
-    ceilingPpm: nioshCeilingPpm.value,
-    exceedsCeiling: exposure.exceedsCeiling,
-    basis: `${release.basis}; ${exposure.basis}${input.room === undefined ? `; ${defaultRoom.basis}` : ''}`,
-  };
+  const wasteGas = wasteGasOf(input, setup, outcome);
 
   // Cautions.
   const highestDialPct = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
@@ -573,8 +470,8 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     ...(route === 'chamber' ? { chamberExposureMin: outcome.inductionMin ?? endMin } : {}),
     predictedPeakBrainMacMultiple: outcome.peakBrainMacMultiple,
     macIsPublishedForBird: mac.publishedForBird,
-    wasteGasPeakPpm: exposure.peakPpm,
-    wasteGasHourMeanPpm: exposure.highestHourMeanPpm,
+    wasteGasPeakPpm: wasteGas.peakPpm,
+    wasteGasHourMeanPpm: wasteGas.highestHourMeanPpm,
     ventilationMode: input.ventilation?.mode ?? 'spontaneous',
   };
   const cautions: Caution[] = [
@@ -775,4 +672,142 @@ function budgetCautions(input: PlanInput, minimumLpm: number): Caution[] {
       reason: practicalMinimumFlowLpm.basis,
     });
   return cautions;
+}
+
+/**
+ * Liquid agent used by the plan's schedule and per hour at the maintenance dial.
+ * @param input plan
+ * @param endMin end of the simulated period, min
+ * @param temperatureC vaporiser temperature, C
+ */
+function consumptionOf(input: PlanInput, endMin: number, temperatureC: number): PlanResult['consumption'] {
+  const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
+  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
+  const consumption = {
+    vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
+    liquidMl: liquidAgentMlForSchedule({
+      agent: input.agent,
+      schedule: input.schedule,
+      freshGasLpm: input.freshGasLpm,
+      endMin,
+      temperatureC,
+    }),
+    maintenanceVaporPct,
+    liquidMlPerHour: liquidMlPerHour({
+      agent: input.agent,
+      vaporPct: maintenanceVaporPct,
+      freshGasLpm: input.freshGasLpm,
+      temperatureC,
+    }),
+    basis:
+      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
+  };
+  return consumption;
+}
+
+/**
+ * Oxygen used over the planned time and, with a cylinder, its endurance.
+ * @param input plan
+ * @param endMin end of the simulated period, min
+ */
+function oxygenOf(input: PlanInput, endMin: number): PlanResult['oxygen'] {
+  const oxygenUsedL = input.freshGasLpm * endMin;
+  const oxygen =
+    input.cylinder === undefined
+      ? {
+          durationMin: endMin,
+          usedL: oxygenUsedL,
+          cylinderContentL: null,
+          enduranceMin: null,
+          suffices: null,
+          basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given',
+        }
+      : (() => {
+          const budget = oxygenBudget({
+            freshGasLpm: input.freshGasLpm,
+            durationMin: endMin,
+            cylinder: input.cylinder,
+          });
+          return {
+            durationMin: endMin,
+            usedL: budget.usedL,
+            cylinderContentL: budget.cylinderContentL,
+            enduranceMin: budget.enduranceMin,
+            suffices: budget.suffices,
+            basis: budget.basis,
+          };
+        })();
+  return oxygen;
+}
+
+/**
+ * Waste gas released to the room and the room concentration it gives, each vaporiser step at its
+ * own rate and a chamber opening as a puff at induction.
+ * @param input plan
+ * @param setup the simulation setup of the plan
+ * @param outcome the simulation outcome (chamber concentration and time of induction)
+ */
+function wasteGasOf(
+  input: PlanInput,
+  setup: SimulationSetup,
+  outcome: SimulationOutcome,
+): PlanResult['wasteGas'] {
+  const route = input.route;
+  const endMin = setup.endMin;
+  const scavenging = input.scavenging ?? false;
+  const room = input.room ?? {
+    volumeM3: defaultRoom.volumeM3,
+    airChangesPerHour: defaultRoom.airChangesPerHour,
+  };
+  const release = wasteGasRelease({
+    agent: input.agent,
+    route,
+    schedule: input.schedule,
+    freshGasLpm: input.freshGasLpm,
+    endMin,
+    scavenging,
+    ...(route === 'chamber' && input.chamberVolumeL !== undefined
+      ? {
+          chamberVolumeL: input.chamberVolumeL,
+          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
+        }
+      : {}),
+    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
+  });
+  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
+  const steady = release.sources
+    .filter((source) => source.source !== 'chamberOpened')
+    .reduce((sum, source) => sum + source.vapourMl, 0);
+  const extraReleases: RoomRelease[] = [
+    ...stepReleases(input.schedule, input.freshGasLpm, endMin, steady),
+    ...(chamberOpened === undefined
+      ? []
+      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }]),
+  ];
+  const exposure = wasteGasExposure({
+    agent: input.agent,
+    // Everything is released step by step (extraReleases), none spread over the whole plan.
+    releasedVapourMl: 0,
+    releaseDurationMin: 0,
+    extraReleases,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+  });
+  const wasteGas = {
+    scavenging,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+    sources: release.sources.map((source) => ({
+      source: source.source,
+      vapourMl: source.vapourMl,
+      basis: source.basis,
+    })),
+    releasedVapourMl: release.releasedVapourMl,
+    peakPpm: exposure.peakPpm,
+    highestHourMeanPpm: exposure.highestHourMeanPpm,
+    ceilingPpm: nioshCeilingPpm.value,
+    exceedsCeiling: exposure.exceedsCeiling,
+    basis: `${release.basis}; ${exposure.basis}${input.room === undefined ? `; ${defaultRoom.basis}` : ''}`,
+  };
+  return wasteGas;
 }
