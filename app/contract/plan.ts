@@ -322,6 +322,15 @@ function formatPath(path: readonly PropertyKey[]): string {
 const estimateSchema = z.object({ value: z.number(), basis: z.string() });
 const percentilesSchema = z.object({ p5: z.number(), p50: z.number(), p95: z.number() });
 const nullableNumber = z.number().nullable();
+const milestoneIdSchema = z.enum(['lossOfRighting', 'surgicalDepth', 'firstMovement', 'standing']);
+// A partial pressure is finite and never negative: a model result with NaN, Infinity or a negative
+// level is refused rather than shown.
+const partialPressuresPct = z.array(
+  z
+    .number()
+    .refine(Number.isFinite, { message: 'A computed level is not a finite number: the plan cannot be shown' })
+    .min(0, { message: 'A computed level is negative: the plan cannot be shown' }),
+);
 
 export const planResultSchema = z.object({
   modelVersion: z.string(),
@@ -346,15 +355,15 @@ export const planResultSchema = z.object({
   timeline: z.object({
     sampleIntervalMin: z.number(),
     timeMin: z.array(z.number()),
-    inspiredPct: z.array(z.number()),
-    tracheaPct: z.array(z.number()),
-    posteriorSacsPct: z.array(z.number()),
-    parabronchialPct: z.array(z.number()),
-    anteriorSacsPct: z.array(z.number()),
-    arterialPct: z.array(z.number()),
-    brainPct: z.array(z.number()),
-    musclePct: z.array(z.number()),
-    fatPct: z.array(z.number()),
+    inspiredPct: partialPressuresPct,
+    tracheaPct: partialPressuresPct,
+    posteriorSacsPct: partialPressuresPct,
+    parabronchialPct: partialPressuresPct,
+    anteriorSacsPct: partialPressuresPct,
+    arterialPct: partialPressuresPct,
+    brainPct: partialPressuresPct,
+    musclePct: partialPressuresPct,
+    fatPct: partialPressuresPct,
   }),
   milestones: z.object({
     inductionMin: nullableNumber,
@@ -367,21 +376,50 @@ export const planResultSchema = z.object({
     peakBrainMacMultiple: z.number(),
     lowestVentilationFraction: z.number(),
     basis: z.string(),
+    // Snapshots saved before the clinical milestones existed read them back as absent.
+    lossOfRightingMin: nullableNumber.default(null),
+    surgicalDepthMin: nullableNumber.default(null),
+    firstMovementMin: nullableNumber.default(null),
+    standingMin: nullableNumber.default(null),
+    definitions: z
+      .array(
+        z.object({
+          id: milestoneIdSchema,
+          label: z.string(),
+          macMultiple: z.number(),
+          when: z.enum(['rising', 'falling']),
+          definition: z.string(),
+          basis: z.string(),
+        }),
+      )
+      .default([]),
   }),
   uncertainty: z.object({
     samples: z.number(),
     seed: z.number(),
     // Snapshots saved before the band existed read back as null.
-    brainBandPct: z
-      .object({ p5: z.array(z.number()), p95: z.array(z.number()) })
-      .nullable()
-      .default(null),
+    brainBandPct: z.object({ p5: partialPressuresPct, p95: partialPressuresPct }).nullable().default(null),
     inductionMin: percentilesSchema.nullable(),
     recoveryMin: percentilesSchema.nullable(),
     inductionReached: z.number(),
     recoveryReached: z.number(),
+    // Snapshots saved before these fields existed read back as fully reached, without a note.
+    inductionReachedShare: z.number().min(0).max(1).default(1),
+    recoveryReachedShare: z.number().min(0).max(1).default(1),
+    inductionNote: z.string().nullable().default(null),
+    recoveryNote: z.string().nullable().default(null),
     parameters: z.array(z.object({ name: z.string(), low: z.number(), high: z.number(), basis: z.string() })),
     method: z.string(),
+    milestones: z
+      .array(
+        z.object({
+          id: milestoneIdSchema,
+          percentiles: percentilesSchema.nullable(),
+          reachedShare: z.number().min(0).max(1),
+          note: z.string().nullable(),
+        }),
+      )
+      .default([]),
   }),
   flows: z.object({
     recommendedLpm: z.number(),

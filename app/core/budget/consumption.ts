@@ -25,6 +25,30 @@ export type FlowStep = {
 /** A fresh gas flow held constant (L/min) or a per-step flow schedule. */
 export type FreshGasInput = number | readonly FlowStep[];
 
+/**
+ * Highest mark on the dial of each agent's own vaporiser, vol %: a plan above it cannot be set on
+ * the vaporiser the clinic uses for that agent and is flagged.
+ */
+export const vaporiserDialLimitPct: Readonly<
+  Record<AgentId, { readonly value: number; readonly basis: string; readonly kind: 'common practice' }>
+> = {
+  isoflurane: {
+    value: 5,
+    basis: 'Isoflurane vaporisers are marked up to 5 % (common practice)',
+    kind: 'common practice',
+  },
+  sevoflurane: {
+    value: 8,
+    basis: 'Sevoflurane vaporisers are marked up to 8 % (common practice)',
+    kind: 'common practice',
+  },
+  desflurane: {
+    value: 18,
+    basis: 'Desflurane vaporisers (heated, pressurised) are marked up to 18 % (common practice)',
+    kind: 'common practice',
+  },
+};
+
 /** Temperature of the reference molar volume (20 C) in kelvin. */
 const referenceTemperatureK = 293.15;
 

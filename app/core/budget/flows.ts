@@ -34,6 +34,20 @@ export const practicalFloorFlowLpm = {
   kind: 'common practice',
 } as const;
 
+/**
+ * Practical minimum fresh gas flow, L/min: no rule gives a lower minimum, however small the bird.
+ * Below it a flowmeter float is hard to read and set, and vaporiser output at very low flows has
+ * been measured to drift (sevoflurane vaporisers less accurate at 0.02 L/min, Ambrisko & Klide
+ * 2006, Am J Vet Res 67:936-940).
+ */
+export const practicalMinimumFlowLpm = {
+  value: 0.2,
+  range: [0.1, 0.5] as const,
+  basis:
+    'Assumption: no flow below 0.2 L/min is offered as a minimum (flowmeters are hard to set lower; vaporiser output drifts at very low flows, Ambrisko & Klide 2006, Am J Vet Res 67:936-940)',
+  kind: 'assumption',
+} as const;
+
 /** Body mass above which a circle (rebreathing) system is usual instead of a non-rebreathing one, g. */
 export const circleAboveMassG = {
   value: 7000,
@@ -103,7 +117,10 @@ function nonRebreathingFlows(
   const minuteVentilationLpm = minuteVentilationMlMin / 1000;
   const weightFlowLpm = (nonRebreathingWeightFlows.preventsRebreathingMlPerKgMin * gToKg(bodyMassG)) / 1000;
   return {
-    minimumLpm: nonRebreathingMinuteVentilationMultiple.minimum * minuteVentilationLpm,
+    minimumLpm: Math.max(
+      nonRebreathingMinuteVentilationMultiple.minimum * minuteVentilationLpm,
+      practicalMinimumFlowLpm.value,
+    ),
     recommendedLpm: Math.max(
       nonRebreathingMinuteVentilationMultiple.recommended * minuteVentilationLpm,
       weightFlowLpm,
@@ -181,8 +198,8 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
   return {
     recommendedLpm: flows.recommendedLpm * leakFactor,
     minimumLpm: flows.minimumLpm * leakFactor,
-    rule: `Non-rebreathing: minimum 2 x minute ventilation; recommended the largest of 3 x minute ventilation, 500 mL/kg/min and ${String(practicalFloorFlowLpm.value)} L/min${routeNote}`,
-    basis: `${nonRebreathingMinuteVentilationMultiple.basis}; ${nonRebreathingWeightFlows.basis}; ${practicalFloorFlowLpm.basis}`,
+    rule: `Non-rebreathing: minimum 2 x minute ventilation, never below ${String(practicalMinimumFlowLpm.value)} L/min; recommended the largest of 3 x minute ventilation, 500 mL/kg/min and ${String(practicalFloorFlowLpm.value)} L/min${routeNote}`,
+    basis: `${nonRebreathingMinuteVentilationMultiple.basis}; ${nonRebreathingWeightFlows.basis}; ${practicalFloorFlowLpm.basis}; ${practicalMinimumFlowLpm.basis}`,
     kind: 'common practice',
   };
 }
@@ -208,7 +225,10 @@ export type RebreathingCheck = {
   readonly belowPracticalFloor: boolean;
   /** Set flow / minute ventilation. */
   readonly flowToMinuteVentilationRatio: number;
+  /** Lowest flow to offer, L/min: the rebreathing limit, never below the practical minimum. */
   readonly minimumLpm: number;
+  /** Flow below which the system rebreathes, L/min (2 x minute ventilation, mask leak made up); 0 where it cannot. */
+  readonly rebreathingBelowLpm: number;
   readonly reason: string;
 };
 
@@ -236,6 +256,7 @@ export function rebreathingCheck(input: RebreathingCheckInput): RebreathingCheck
       belowPracticalFloor,
       flowToMinuteVentilationRatio: ratio,
       minimumLpm: 0,
+      rebreathingBelowLpm: 0,
       reason: 'Induction chamber: the bird breathes the chamber gas; no breathing system to rebreathe from',
     };
   }
@@ -245,16 +266,21 @@ export function rebreathingCheck(input: RebreathingCheckInput): RebreathingCheck
       belowPracticalFloor,
       flowToMinuteVentilationRatio: ratio,
       minimumLpm: recommendation.minimumLpm,
+      rebreathingBelowLpm: 0,
       reason: 'Circle: exhaled gas is rebreathed through the carbon dioxide absorber by design',
     };
   }
-  const rebreathing = input.freshGasLpm < recommendation.minimumLpm;
+  const leak = route === 'mask' ? (input.maskLeakFraction ?? 0) : 0;
+  const rebreathingBelowLpm =
+    (nonRebreathingMinuteVentilationMultiple.minimum * input.minuteVentilationMlMin) / 1000 / (1 - leak);
+  const rebreathing = input.freshGasLpm < rebreathingBelowLpm;
   const ratioText = ratio.toFixed(1);
   return {
     rebreathing,
     belowPracticalFloor,
     flowToMinuteVentilationRatio: ratio,
     minimumLpm: recommendation.minimumLpm,
+    rebreathingBelowLpm,
     reason: rebreathing
       ? `Set flow is ${ratioText} x the minute ventilation, below the 2 x needed to keep a non-rebreathing system from rebreathing (${nonRebreathingMinuteVentilationMultiple.basis})`
       : `Set flow is ${ratioText} x the minute ventilation, at or above the 2 x minimum (${nonRebreathingMinuteVentilationMultiple.basis})`,

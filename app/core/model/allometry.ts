@@ -6,9 +6,18 @@
  */
 import {
   airSacVolumeFraction,
+  allometricValue,
   bodyDensityGPerMl,
+  breathingFrequencyAllometry,
+  cardiacOutputAllometry,
+  heartRateAllometry,
   lungVolumeFraction,
+  minuteVentilationAllometry,
   posteriorSacShare,
+  strokeVolumeAllometry,
+  tidalVolumeAllometry,
+  trachealVolumeAllometry,
+  type Allometric,
 } from './parameters.js';
 
 export type Estimate = {
@@ -45,7 +54,7 @@ export type RespiratoryEstimates = {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function tidalVolumeMl(bodyMassG: number): number {
-  return 13.2 * (bodyMassG / 1000) ** 1.08;
+  return allometricValue(tidalVolumeAllometry, bodyMassG);
 }
 
 /**
@@ -53,7 +62,7 @@ export function tidalVolumeMl(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function breathsPerMin(bodyMassG: number): number {
-  return 17.2 * (bodyMassG / 1000) ** -0.31;
+  return allometricValue(breathingFrequencyAllometry, bodyMassG);
 }
 
 /**
@@ -62,7 +71,7 @@ export function breathsPerMin(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function fittedMinuteVentilationMlMin(bodyMassG: number): number {
-  return 284 * (bodyMassG / 1000) ** 0.77;
+  return allometricValue(minuteVentilationAllometry, bodyMassG);
 }
 
 /**
@@ -71,7 +80,7 @@ export function fittedMinuteVentilationMlMin(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function trachealVolumeMl(bodyMassG: number): number {
-  return 3.72 * (bodyMassG / 1000) ** 1.09;
+  return allometricValue(trachealVolumeAllometry, bodyMassG);
 }
 
 /**
@@ -79,7 +88,7 @@ export function trachealVolumeMl(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function heartRatePerMin(bodyMassG: number): number {
-  return 178.5 * (bodyMassG / 1000) ** -0.282;
+  return allometricValue(heartRateAllometry, bodyMassG);
 }
 
 /**
@@ -87,7 +96,7 @@ export function heartRatePerMin(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function cardiacOutputMlMin(bodyMassG: number): number {
-  return 290.7 * (bodyMassG / 1000) ** 0.69;
+  return allometricValue(cardiacOutputAllometry, bodyMassG);
 }
 
 /**
@@ -96,7 +105,13 @@ export function cardiacOutputMlMin(bodyMassG: number): number {
  * @param bodyMassG body mass in g, 5-15000
  */
 export function strokeVolumeMl(bodyMassG: number): number {
-  return 1.72 * (bodyMassG / 1000) ** 0.97;
+  return allometricValue(strokeVolumeAllometry, bodyMassG);
+}
+
+/** "Source (kind): c * M^e unit, M = ... kg" for an estimate's basis. */
+function equationBasis(equation: Allometric, massKgText: string): string {
+  const kind = equation.kind === 'published' ? '' : ` (${equation.kind})`;
+  return `${equation.basis}${kind}: ${String(equation.value.coefficient)} * M^${String(equation.value.exponent)} ${equation.unit}, ${massKgText}`;
 }
 
 function measuredOr(measured: number | undefined, estimate: Estimate): Estimate {
@@ -116,11 +131,11 @@ export function estimateRespiratory(
   const massKgText = `M = ${(bodyMassG / 1000).toPrecision(3)} kg`;
   const tidal = measuredOr(overrides.tidalVolumeMl, {
     value: tidalVolumeMl(bodyMassG),
-    basis: `Lasiewski & Calder 1971 (from memory): 13.2 * M^1.08 mL, ${massKgText}`,
+    basis: equationBasis(tidalVolumeAllometry, massKgText),
   });
   const rate = measuredOr(overrides.breathsPerMin, {
     value: breathsPerMin(bodyMassG),
-    basis: `Lasiewski & Calder 1971 (from memory): 17.2 * M^-0.31 /min, ${massKgText}`,
+    basis: equationBasis(breathingFrequencyAllometry, massKgText),
   });
   const fitted = fittedMinuteVentilationMlMin(bodyMassG);
   const minuteVentilationBasis =
@@ -129,7 +144,7 @@ export function estimateRespiratory(
       : `tidal volume x breathing rate (Lasiewski & Calder 1971, from memory); the separately fitted 284 * M^0.77 gives ${fitted.toPrecision(3)} mL/min: the gas path needs a tidal volume and a rate that agree, so their product is used`;
   const trachea = measuredOr(overrides.trachealVolumeMl, {
     value: trachealVolumeMl(bodyMassG),
-    basis: `Hinds & Calder 1971 (from memory): tracheal volume 3.72 * M^1.09 mL, ${massKgText}`,
+    basis: `tracheal volume, ${equationBasis(trachealVolumeAllometry, massKgText)}`,
   });
   const bodyVolumeMl = bodyMassG / bodyDensityGPerMl.value;
   const lung = measuredOr(overrides.lungVolumeMl, {
@@ -143,7 +158,7 @@ export function estimateRespiratory(
   const splitBasis = `${posteriorSacShare.basis} (posterior ${(posteriorSacShare.value * 100).toFixed(0)} %)`;
   const heart = measuredOr(overrides.heartRatePerMin, {
     value: heartRatePerMin(bodyMassG),
-    basis: `Grubb 1983: 178.5 * M^-0.282 /min, ${massKgText}`,
+    basis: equationBasis(heartRateAllometry, massKgText),
   });
   let output: Estimate;
   if (overrides.cardiacOutputMlMin !== undefined) {
@@ -151,12 +166,12 @@ export function estimateRespiratory(
   } else if (overrides.heartRatePerMin !== undefined) {
     output = {
       value: overrides.heartRatePerMin * strokeVolumeMl(bodyMassG),
-      basis: `measured heart rate x Grubb 1983 stroke volume 1.72 * M^0.97 mL, ${massKgText}`,
+      basis: `measured heart rate x stroke volume, ${equationBasis(strokeVolumeAllometry, massKgText)}`,
     };
   } else {
     output = {
       value: cardiacOutputMlMin(bodyMassG),
-      basis: `Grubb 1983: 290.7 * M^0.69 mL/min, ${massKgText}`,
+      basis: equationBasis(cardiacOutputAllometry, massKgText),
     };
   }
   return {

@@ -9,6 +9,12 @@
  *   dPv/dt = (sum Qi Pi - Q Pv) / Vblood
  */
 
+import {
+  crossCurrentArterialFraction,
+  crossCurrentEndGasFraction,
+  perfusionVentilationK,
+} from './exchange.js';
+
 export type TissueGroup = {
   readonly volumeMl: number;
   readonly flowMlMin: number;
@@ -70,46 +76,110 @@ export function bodyContentMl(body: BodyModel, state: ArrayLike<number>): number
 }
 
 /**
- * Advances the body by one step at a fixed arterial partial pressure: each tissue group by its
- * exact exponential, the venous pool by the exact tissue effluent minus the blood sent to the
- * lung at the start-of-step venous value. The step conserves agent exactly: the body gains
- * lambdaBlood * Q * dt * (Pa - Pv_start), the amount the lung handed over.
- * @param body body model
- * @param arterialFraction arterial partial pressure over the step
- * @param state [Pv, P_vesselRich, P_muscle, P_fat], updated in place
- * @param decay per-group exp(-Qi dt / (lambdaTissue_i Vi)) for this step length
- * @param stepMin step length in minutes, small against Vblood / Q
+ * Layout of the state array of one lung-and-body step, all partial pressures as fractions of one
+ * atmosphere: mixed venous, vessel-rich (brain), muscle, fat, and the arterial value of the last step.
  */
-export function advanceBody(
+export const bodyState = { venous: 0, vesselRich: 1, muscle: 2, fat: 3, arterial: 4, length: 5 } as const;
+
+/** Layout of the precomputed factors of one lung-and-body step (see bodyExchangeFactors). */
+const factor = {
+  arterial: 0,
+  endGas: 1,
+  bloodMl: 2,
+  bloodVolumeMl: 3,
+  tissueWeight: 4,
+  weight0: 5,
+  weight1: 6,
+  weight2: 7,
+  decay0: 8,
+  decay1: 9,
+  decay2: 10,
+  denominator: 11,
+  length: 12,
+} as const;
+
+/** Length of the factor array bodyExchangeFactors fills. */
+export const bodyExchangeFactorLength = factor.length;
+
+/**
+ * Factors of one lung-and-body step of `stepMin` minutes in which `gasMl` mL of gas crosses the
+ * parabronchi: the Piiper & Scheid (1972) cross-current fractions at k = lambda Q dt / V_gas,
+ * each tissue group's exact exponential exp(-Qi dt / (lambdaTissue_i Vi)), and the weights of the
+ * implicit venous update (see bodyExchangeStep). Depends only on the body, the gas volume and the
+ * step, so it is computed once per breath pattern.
+ * @param body body model (blood/gas partition >= 0; 0 gives an insoluble tracer)
+ * @param gasMl gas crossing the exchange surface in the step, mL, >= 0 (0: no gas moves)
+ * @param stepMin step length in minutes, > 0 (any length: the step is unconditionally stable)
+ * @param out factor array of length bodyExchangeFactorLength, filled in place
+ */
+export function bodyExchangeFactors(
   body: BodyModel,
-  arterialFraction: number,
-  state: Float64Array,
-  decay: Float64Array,
+  gasMl: number,
   stepMin: number,
+  out: Float64Array,
 ): void {
-  const venousStart = state[0] as number;
-  let tissueGain = 0;
+  const bloodMl = bodyBloodFlowMlMin(body) * stepMin;
+  const k =
+    gasMl > 0 ? perfusionVentilationK(body.bloodGasPartition, bloodMl, gasMl) : Number.POSITIVE_INFINITY;
+  const arterial = gasMl > 0 ? crossCurrentArterialFraction(k) : 0;
+  out[factor.arterial] = arterial;
+  out[factor.endGas] = gasMl > 0 ? crossCurrentEndGasFraction(k) : 1;
+  out[factor.bloodMl] = bloodMl;
+  out[factor.bloodVolumeMl] = body.bloodVolumeMl;
+  let tissueWeight = 0;
   for (let index = 0; index < 3; index += 1) {
     const group = body.groups[index] as TissueGroup;
-    const before = state[index + 1] as number;
-    const after = arterialFraction + (before - arterialFraction) * (decay[index] as number);
-    state[index + 1] = after;
-    tissueGain += group.tissueBloodPartition * group.volumeMl * (after - before);
+    const capacity = group.tissueBloodPartition * group.volumeMl;
+    const decay = Math.exp((-group.flowMlMin * stepMin) / capacity);
+    const weight = capacity * (1 - decay);
+    out[factor.decay0 + index] = decay;
+    out[factor.weight0 + index] = weight;
+    tissueWeight += weight;
   }
-  const flow = bodyBloodFlowMlMin(body);
-  state[0] =
-    venousStart + (flow * stepMin * (arterialFraction - venousStart) - tissueGain) / body.bloodVolumeMl;
+  out[factor.tissueWeight] = tissueWeight;
+  out[factor.denominator] = body.bloodVolumeMl + bloodMl * arterial + (1 - arterial) * tissueWeight;
 }
 
 /**
- * Per-group decay factors exp(-Qi dt / (lambdaTissue_i Vi)) for a step of `stepMin` minutes.
- * @param body body model
- * @param stepMin step length in minutes, > 0
- * @param decay output array of length 3
+ * One lung-and-body step: gas at the parabronchial inlet meets the mixed venous blood by the
+ * cross-current model, arterial blood perfuses the three tissue groups, and the venous pool
+ * collects their effluent. The one implementation of exchange and uptake, used by the simulation
+ * (and so by the uncertainty run and every test of the model).
+ *
+ * The venous pool is updated implicitly (its end-of-step value feeds the exchange) and each tissue
+ * group by its exact exponential at the end-of-step arterial value; solving the linear balance for
+ * the venous value gives a convex combination of the inlet, venous and tissue values, so the step
+ * is stable and keeps every partial pressure between the lowest and highest of them at any step
+ * length (explicit Euler on the pool diverges once Q dt / V_blood exceeds 2). It conserves agent
+ * exactly: the body gains lambda Q dt (Pa - Pv_end), which is what the gas lost. First order in
+ * the step; the simulation bounds the step for accuracy (see simulation.ts).
+ * @param state [Pv, P_vesselRich, P_muscle, P_fat, Pa], updated in place (see bodyState)
+ * @param factors from bodyExchangeFactors for this step
+ * @param inletFraction gas fraction at the parabronchial inlet over the step, >= 0
+ * @returns end-parabronchial gas fraction of the step
  */
-export function bodyDecayFactors(body: BodyModel, stepMin: number, decay: Float64Array): void {
-  for (let index = 0; index < 3; index += 1) {
-    const group = body.groups[index] as TissueGroup;
-    decay[index] = Math.exp((-group.flowMlMin * stepMin) / (group.tissueBloodPartition * group.volumeMl));
-  }
+export function bodyExchangeStep(state: Float64Array, factors: Float64Array, inletFraction: number): number {
+  const arterialFactor = factors[factor.arterial] as number;
+  const weight0 = factors[factor.weight0] as number;
+  const weight1 = factors[factor.weight1] as number;
+  const weight2 = factors[factor.weight2] as number;
+  const tissue0 = state[1] as number;
+  const tissue1 = state[2] as number;
+  const tissue2 = state[3] as number;
+  const venous =
+    ((factors[factor.bloodVolumeMl] as number) * (state[0] as number) +
+      arterialFactor *
+        inletFraction *
+        ((factors[factor.bloodMl] as number) - (factors[factor.tissueWeight] as number)) +
+      weight0 * tissue0 +
+      weight1 * tissue1 +
+      weight2 * tissue2) /
+    (factors[factor.denominator] as number);
+  const arterial = venous + (inletFraction - venous) * arterialFactor;
+  state[0] = venous;
+  state[1] = arterial + (tissue0 - arterial) * (factors[factor.decay0] as number);
+  state[2] = arterial + (tissue1 - arterial) * (factors[factor.decay1] as number);
+  state[3] = arterial + (tissue2 - arterial) * (factors[factor.decay2] as number);
+  state[4] = arterial;
+  return venous + (inletFraction - venous) * (factors[factor.endGas] as number);
 }

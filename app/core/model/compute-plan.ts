@@ -4,12 +4,15 @@
  */
 import { agents } from '../agents.js';
 import {
+  vaporiserDialLimitPct,
+  vapourFlowMlPerMin,
   liquidAgentMlForSchedule,
   liquidMlPerHour,
   saturatedConcentrationPct,
   vapourMlPerLiquidMl,
 } from '../budget/consumption.js';
 import {
+  practicalMinimumFlowLpm,
   chamberTimeToFractionMin,
   rebreathingCheck,
   recommendFreshGas,
@@ -28,15 +31,26 @@ import {
   defaultMaskLeakFraction,
   defaultRecoveryMacFraction,
   defaultTargetMacMultiple,
+  lossOfRightingMacFraction,
   posteriorSacShare,
+  standingMacFraction,
+  type ModelParameter,
   rebreathingFlowMultiple,
   tissueGroups,
   ventilatoryDepressionFloor,
   ventilatoryDepressionSlope,
 } from './parameters.js';
-import type { PlanInput, PlanResult, PlanTimeline } from './plan-types.js';
+import type {
+  MilestoneDefinition,
+  MilestoneId,
+  MilestoneUncertainty,
+  PlanInput,
+  PlanResult,
+  PlanTimeline,
+  PlanUncertainty,
+} from './plan-types.js';
 import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
-import { runUncertainty } from './uncertainty.js';
+import { runUncertainty, type MilestoneBand } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
 export const modelVersion = '1.0.0';
@@ -185,9 +199,77 @@ export function buildSimulationSetup(
     macPct: mac.valuePct,
     inductionBrainPct: targetMultiple * mac.valuePct,
     recoveryBrainPct: recoveryFraction * mac.valuePct,
+    ...(input.recoveryMacFraction === undefined
+      ? { recoveryThresholdRange: rangeOf(defaultRecoveryMacFraction) }
+      : {}),
+    // Order as read back in computePlan: loss of righting, standing.
+    milestoneBrainPct: [
+      {
+        brainPct: lossOfRightingMacFraction.value * mac.valuePct,
+        direction: 'up',
+        thresholdRange: rangeOf(lossOfRightingMacFraction),
+      },
+      {
+        brainPct: standingMacFraction.value * mac.valuePct,
+        direction: 'down',
+        thresholdRange: rangeOf(standingMacFraction),
+      },
+    ],
     offMin: vaporiserOffMin(input.schedule),
     sampleIntervalMin: Math.max(0.05, Math.ceil(endMin / 480 / 0.05) * 0.05),
   };
+}
+
+/** [low, nominal, high] of a parameter, for the uncertainty run. */
+function rangeOf(parameter: ModelParameter): readonly [number, number, number] {
+  return [parameter.range[0], parameter.value, parameter.range[1]];
+}
+
+/**
+ * The clinical milestones' definitions for a plan.
+ * @param targetMultiple planned depth, multiple of MAC
+ * @param recoveryFraction first-movement threshold, fraction of MAC
+ * @param recoveryEntered whether the plan entered its own recovery threshold
+ */
+export function milestoneDefinitions(
+  targetMultiple: number,
+  recoveryFraction: number,
+  recoveryEntered: boolean,
+): MilestoneDefinition[] {
+  return [
+    {
+      id: 'lossOfRighting',
+      label: 'Loss of righting',
+      macMultiple: lossOfRightingMacFraction.value,
+      when: 'rising',
+      definition: `Light plane: the brain (vessel-rich group) rises through ${String(lossOfRightingMacFraction.value)} x MAC`,
+      basis: lossOfRightingMacFraction.basis,
+    },
+    {
+      id: 'surgicalDepth',
+      label: 'Planned surgical depth',
+      macMultiple: targetMultiple,
+      when: 'rising',
+      definition: `The brain reaches the planned depth of ${String(targetMultiple)} x MAC`,
+      basis: defaultTargetMacMultiple.basis,
+    },
+    {
+      id: 'firstMovement',
+      label: 'First movement or head lift',
+      macMultiple: recoveryFraction,
+      when: 'falling',
+      definition: `After the vaporiser is off, the brain falls below ${String(recoveryFraction)} x MAC`,
+      basis: recoveryEntered ? 'entered for this plan' : defaultRecoveryMacFraction.basis,
+    },
+    {
+      id: 'standing',
+      label: 'Standing or perching',
+      macMultiple: standingMacFraction.value,
+      when: 'falling',
+      definition: `After the vaporiser is off, the brain falls below ${String(standingMacFraction.value)} x MAC`,
+      basis: standingMacFraction.basis,
+    },
+  ];
 }
 
 function roundTo(value: number, digits: number): number {
@@ -259,7 +341,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
   });
 
-  const uncertainty = runUncertainty({
+  const sampled = runUncertainty({
     setup,
     outcome,
     macSdPct: mac.sdPct,
@@ -267,11 +349,72 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
     bloodGasRange: agents[input.agent].bloodGasRange,
     brainTimeline: outcome.timeline,
+    maskEntered: { deadSpace: input.maskDeadSpaceMl !== undefined },
   });
+  const [rightingBand, standingBand] = sampled.milestoneBands;
+  const bandOf = (id: MilestoneId, band: MilestoneBand | undefined): MilestoneUncertainty => ({
+    id,
+    percentiles: band?.percentiles ?? null,
+    reachedShare: band?.reachedShare ?? 1,
+    note: band?.note ?? null,
+  });
+  const thresholdParameters = [
+    { name: 'lossOfRightingMacFraction', parameter: lossOfRightingMacFraction },
+    ...(input.recoveryMacFraction === undefined
+      ? [{ name: 'recoveryMacFraction', parameter: defaultRecoveryMacFraction }]
+      : []),
+    { name: 'standingMacFraction', parameter: standingMacFraction },
+  ].map(({ name, parameter }) => ({
+    name,
+    low: parameter.range[0],
+    high: parameter.range[1],
+    basis: parameter.basis,
+  }));
+  const uncertainty: PlanUncertainty = {
+    samples: sampled.samples,
+    seed: sampled.seed,
+    brainBandPct: sampled.brainBandPct,
+    inductionMin: sampled.inductionMin,
+    recoveryMin: sampled.recoveryMin,
+    inductionReached: sampled.inductionReached,
+    recoveryReached: sampled.recoveryReached,
+    inductionReachedShare: sampled.inductionReachedShare,
+    recoveryReachedShare: sampled.recoveryReachedShare,
+    inductionNote: sampled.inductionNote,
+    recoveryNote: sampled.recoveryNote,
+    parameters: [...sampled.parameters, ...thresholdParameters],
+    method: sampled.method,
+    milestones: [
+      bandOf('lossOfRighting', rightingBand),
+      {
+        id: 'surgicalDepth',
+        percentiles: sampled.inductionMin,
+        reachedShare: sampled.inductionReachedShare,
+        note: sampled.inductionNote,
+      },
+      {
+        id: 'firstMovement',
+        percentiles: sampled.recoveryMin,
+        reachedShare: sampled.recoveryReachedShare,
+        note: sampled.recoveryNote,
+      },
+      bandOf('standing', standingBand),
+    ],
+  };
 
   // Flows.
   // The flow rules accept 0.1-100000 mL/min; values outside are not a breathing bird.
-  const minuteVentilation = Math.min(100000, Math.max(0.1, estimates.minuteVentilationMlMin.value));
+  // Under IPPV the flow rules follow the set ventilation (the larger of resting and set when IPPV starts later).
+  const ventilationPlan = input.ventilation;
+  const setMinuteVentilation =
+    ventilationPlan?.mode === 'ippv' ? ventilationPlan.tidalVolumeMl * ventilationPlan.breathsPerMin : null;
+  const flowMinuteVentilation =
+    setMinuteVentilation === null
+      ? estimates.minuteVentilationMlMin.value
+      : (ventilationPlan?.mode === 'ippv' ? (ventilationPlan.fromMin ?? 0) : 0) > 0
+        ? Math.max(setMinuteVentilation, estimates.minuteVentilationMlMin.value)
+        : setMinuteVentilation;
+  const minuteVentilation = Math.min(100000, Math.max(0.1, flowMinuteVentilation));
   const flowInputs: FreshGasInputs = {
     route,
     circuit,
@@ -295,112 +438,12 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm)
       : null;
 
-  // Consumption.
   const temperatureC = input.vaporiserTemperatureC ?? 20;
   const endMin = setup.endMin;
-  const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
-  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
-  const consumption = {
-    vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
-    liquidMl: liquidAgentMlForSchedule({
-      agent: input.agent,
-      schedule: input.schedule,
-      freshGasLpm: input.freshGasLpm,
-      endMin,
-      temperatureC,
-    }),
-    maintenanceVaporPct,
-    liquidMlPerHour: liquidMlPerHour({
-      agent: input.agent,
-      vaporPct: maintenanceVaporPct,
-      freshGasLpm: input.freshGasLpm,
-      temperatureC,
-    }),
-    basis:
-      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
-  };
-
-  // Oxygen.
-  const oxygenUsedL = input.freshGasLpm * endMin;
-  const oxygen =
-    input.cylinder === undefined
-      ? {
-          durationMin: endMin,
-          usedL: oxygenUsedL,
-          cylinderContentL: null,
-          enduranceMin: null,
-          suffices: null,
-          basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given',
-        }
-      : (() => {
-          const budget = oxygenBudget({
-            freshGasLpm: input.freshGasLpm,
-            durationMin: endMin,
-            cylinder: input.cylinder,
-          });
-          return {
-            durationMin: endMin,
-            usedL: budget.usedL,
-            cylinderContentL: budget.cylinderContentL,
-            enduranceMin: budget.enduranceMin,
-            suffices: budget.suffices,
-            basis: budget.basis,
-          };
-        })();
-
-  // Waste gas.
+  const consumption = consumptionOf(input, endMin, temperatureC);
+  const oxygen = oxygenOf(input, endMin);
   const scavenging = input.scavenging ?? false;
-  const room = input.room ?? {
-    volumeM3: defaultRoom.volumeM3,
-    airChangesPerHour: defaultRoom.airChangesPerHour,
-  };
-  const release = wasteGasRelease({
-    agent: input.agent,
-    route,
-    schedule: input.schedule,
-    freshGasLpm: input.freshGasLpm,
-    endMin,
-    scavenging,
-    ...(route === 'chamber' && input.chamberVolumeL !== undefined
-      ? {
-          chamberVolumeL: input.chamberVolumeL,
-          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
-        }
-      : {}),
-    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
-  });
-  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
-  const steady = release.sources
-    .filter((source) => source.source !== 'chamberOpened')
-    .reduce((sum, source) => sum + source.vapourMl, 0);
-  const extraReleases: RoomRelease[] =
-    chamberOpened === undefined
-      ? []
-      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }];
-  const exposure = wasteGasExposure({
-    agent: input.agent,
-    releasedVapourMl: steady,
-    releaseDurationMin: endMin,
-    extraReleases,
-    roomVolumeM3: room.volumeM3,
-    airChangesPerHour: room.airChangesPerHour,
-  });
-  const wasteGas = {
-    scavenging,
-    roomVolumeM3: room.volumeM3,
-    airChangesPerHour: room.airChangesPerHour,
-    sources: release.sources.map((source) => ({
-      source: source.source,
-      vapourMl: source.vapourMl,
-      basis: source.basis,
-    })),
-    releasedVapourMl: release.releasedVapourMl,
-    peakPpm: exposure.peakPpm,
-    highestHourMeanPpm: exposure.highestHourMeanPpm,
-    ceilingPpm: nioshCeilingPpm.value,
-    exceedsCeiling: exposure.exceedsCeiling,
-    basis: `${release.basis}; ${exposure.basis}${input.room === undefined ? `; ${defaultRoom.basis}` : ''}`,
-  };
+  const wasteGas = wasteGasOf(input, setup, outcome);
 
   // Cautions.
   const highestDialPct = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
@@ -419,20 +462,23 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     saturatedPct: saturatedConcentrationPct(input.agent, temperatureC),
     temperatureC,
     freshGasLpm: input.freshGasLpm,
-    minimumFreshGasLpm: recommendation.minimumLpm,
+    // The rebreathing caution compares with the flow below which the system rebreathes; a chamber with its own minimum.
+    minimumFreshGasLpm: route === 'chamber' ? recommendation.minimumLpm : rebreathing.rebreathingBelowLpm,
     route,
     circuit,
     scavenging,
     ...(route === 'chamber' ? { chamberExposureMin: outcome.inductionMin ?? endMin } : {}),
     predictedPeakBrainMacMultiple: outcome.peakBrainMacMultiple,
     macIsPublishedForBird: mac.publishedForBird,
-    wasteGasPeakPpm: exposure.peakPpm,
-    wasteGasHourMeanPpm: exposure.highestHourMeanPpm,
+    wasteGasPeakPpm: wasteGas.peakPpm,
+    wasteGasHourMeanPpm: wasteGas.highestHourMeanPpm,
     ventilationMode: input.ventilation?.mode ?? 'spontaneous',
   };
   const cautions: Caution[] = [
     ...collectCautions(cautionContext),
     ...modelCautions(input, outcome, offMin, endMin),
+    ...bandCautions(uncertainty),
+    ...budgetCautions(input, recommendation.minimumLpm),
   ];
   if (input.speciesId !== undefined && species === undefined) {
     cautions.push({
@@ -468,8 +514,17 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       airSacWashout95Min: washOut.minutes,
       peakBrainMacMultiple: outcome.peakBrainMacMultiple,
       lowestVentilationFraction: outcome.lowestVentilationFraction,
+      lossOfRightingMin: outcome.milestoneMin[0] ?? null,
+      surgicalDepthMin: outcome.inductionMin,
+      firstMovementMin: outcome.recoveryMin,
+      standingMin: outcome.milestoneMin[1] ?? null,
+      definitions: milestoneDefinitions(
+        input.targetMacMultiple ?? defaultTargetMacMultiple.value,
+        input.recoveryMacFraction ?? defaultRecoveryMacFraction.value,
+        input.recoveryMacFraction !== undefined,
+      ),
       basis:
-        'Induction: brain (vessel-rich group) reaches the target MAC multiple; recovery: brain falls below the recovery fraction of MAC after the vaporiser is off; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
+        'Induction (planned surgical depth): brain (vessel-rich group) reaches the target MAC multiple; loss of righting: brain rises through the light-plane fraction of MAC; recovery (first movement or head lift): brain falls below the recovery fraction of MAC after the vaporiser is off; standing or perching: brain falls below the standing fraction of MAC; a recovery milestone is timed only for a brain that was above its level; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
     },
     uncertainty,
     flows: {
@@ -519,7 +574,16 @@ function modelCautions(
       reason: `Model prediction: the brain never reaches ${String(input.targetMacMultiple ?? defaultTargetMacMultiple.value)} x MAC before ${endMin.toFixed(0)} min (estimate, see docs/model.md)`,
     });
   }
-  if (offMin !== null && outcome.recoveryMin === null) {
+  const recoveryFraction = input.recoveryMacFraction ?? defaultRecoveryMacFraction.value;
+  if (offMin !== null && outcome.recoveryMin === null && outcome.peakBrainMacMultiple < recoveryFraction) {
+    cautions.push({
+      code: 'recovery-level-never-reached',
+      severity: 'notice',
+      message:
+        'No recovery time: the brain never reaches the recovery level, so the bird is not predicted to be anaesthetised',
+      reason: `Model prediction: the brain peaks at ${outcome.peakBrainMacMultiple.toFixed(2)} x MAC, below the recovery level of ${recoveryFraction.toFixed(2)} x MAC (estimate, see docs/model.md)`,
+    });
+  } else if (offMin !== null && outcome.recoveryMin === null) {
     cautions.push({
       code: 'recovery-not-within-window',
       severity: 'notice',
@@ -537,4 +601,213 @@ function modelCautions(
     });
   }
   return cautions;
+}
+
+/** Cautions for milestones that some sampled birds do not reach within the simulated window. */
+function bandCautions(uncertainty: PlanResult['uncertainty']): Caution[] {
+  const cautions: Caution[] = [];
+  const windowText = 'within the simulated window (a sample counts as beyond the window)';
+  if (uncertainty.inductionNote !== null)
+    cautions.push({
+      code: 'induction-not-reached-by-some',
+      severity: 'warning',
+      message: `Planned depth ${uncertainty.inductionNote}`,
+      reason: `${String(uncertainty.samples - uncertainty.inductionReached)} of ${String(uncertainty.samples)} model runs with sampled parameters do not reach the planned depth ${windowText}`,
+    });
+  if (uncertainty.recoveryNote !== null)
+    cautions.push({
+      code: 'recovery-not-reached-by-some',
+      severity: 'notice',
+      message: `Recovery ${uncertainty.recoveryNote} within the simulated window`,
+      reason: `${String(uncertainty.samples - uncertainty.recoveryReached)} of ${String(uncertainty.samples)} model runs with sampled parameters do not recover ${windowText}`,
+    });
+  return cautions;
+}
+
+/**
+ * Releases of waste gas to the room, one per vaporiser step that is on, at that step's rate: the
+ * vapour the vaporiser puts out in the step (carrier flow x c / (1 - c) x duration), scaled so
+ * that the steps together release `totalMl`.
+ * @param schedule vaporiser steps sorted by atMin
+ * @param freshGasLpm carrier flow, L/min
+ * @param endMin end of the plan, min
+ * @param totalMl vapour released to the room by the steady sources (exhaust, mask leak), mL
+ */
+export function stepReleases(
+  schedule: PlanInput['schedule'],
+  freshGasLpm: number,
+  endMin: number,
+  totalMl: number,
+): RoomRelease[] {
+  const steps = schedule.map((step, index) => {
+    const until = Math.min(endMin, schedule[index + 1]?.atMin ?? endMin);
+    const durationMin = Math.max(0, until - step.atMin);
+    const vapourMl = step.vaporPct > 0 ? vapourFlowMlPerMin(freshGasLpm, step.vaporPct) * durationMin : 0;
+    return { startMin: step.atMin, durationMin, vapourMl };
+  });
+  const delivered = steps.reduce((sum, step) => sum + step.vapourMl, 0);
+  if (!(delivered > 0) || !(totalMl > 0)) return [];
+  return steps
+    .filter((step) => step.vapourMl > 0 && step.durationMin > 0)
+    .map((step) => ({ ...step, vapourMl: (totalMl * step.vapourMl) / delivered }));
+}
+
+/** Cautions of the budgets: a dial above the agent's vaporiser, a flow below the practical minimum. */
+function budgetCautions(input: PlanInput, minimumLpm: number): Caution[] {
+  const cautions: Caution[] = [];
+  const limit = vaporiserDialLimitPct[input.agent];
+  const highest = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
+  if (highest > limit.value)
+    cautions.push({
+      code: 'dial-above-vaporiser-limit',
+      severity: 'warning',
+      message: `The schedule's dial setting ${String(highest)} % is above the ${String(limit.value)} % that a ${input.agent} vaporiser can be set to: lower the step in the vaporiser schedule`,
+      reason: limit.basis,
+    });
+  if (input.freshGasLpm < practicalMinimumFlowLpm.value)
+    cautions.push({
+      code: 'flow-below-practical-minimum',
+      severity: 'notice',
+      message: `Fresh gas flow ${String(input.freshGasLpm)} L/min is below the practical minimum of ${String(practicalMinimumFlowLpm.value)} L/min: set at least ${minimumLpm.toFixed(2)} L/min`,
+      reason: practicalMinimumFlowLpm.basis,
+    });
+  return cautions;
+}
+
+/**
+ * Liquid agent used by the plan's schedule and per hour at the maintenance dial.
+ * @param input plan
+ * @param endMin end of the simulated period, min
+ * @param temperatureC vaporiser temperature, C
+ */
+function consumptionOf(input: PlanInput, endMin: number, temperatureC: number): PlanResult['consumption'] {
+  const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
+  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
+  const consumption = {
+    vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
+    liquidMl: liquidAgentMlForSchedule({
+      agent: input.agent,
+      schedule: input.schedule,
+      freshGasLpm: input.freshGasLpm,
+      endMin,
+      temperatureC,
+    }),
+    maintenanceVaporPct,
+    liquidMlPerHour: liquidMlPerHour({
+      agent: input.agent,
+      vaporPct: maintenanceVaporPct,
+      freshGasLpm: input.freshGasLpm,
+      temperatureC,
+    }),
+    basis:
+      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
+  };
+  return consumption;
+}
+
+/**
+ * Oxygen used over the planned time and, with a cylinder, its endurance.
+ * @param input plan
+ * @param endMin end of the simulated period, min
+ */
+function oxygenOf(input: PlanInput, endMin: number): PlanResult['oxygen'] {
+  const oxygenUsedL = input.freshGasLpm * endMin;
+  const oxygen =
+    input.cylinder === undefined
+      ? {
+          durationMin: endMin,
+          usedL: oxygenUsedL,
+          cylinderContentL: null,
+          enduranceMin: null,
+          suffices: null,
+          basis: 'Fresh gas flow x planned time (vaporiser schedule plus recovery window); no cylinder given',
+        }
+      : (() => {
+          const budget = oxygenBudget({
+            freshGasLpm: input.freshGasLpm,
+            durationMin: endMin,
+            cylinder: input.cylinder,
+          });
+          return {
+            durationMin: endMin,
+            usedL: budget.usedL,
+            cylinderContentL: budget.cylinderContentL,
+            enduranceMin: budget.enduranceMin,
+            suffices: budget.suffices,
+            basis: budget.basis,
+          };
+        })();
+  return oxygen;
+}
+
+/**
+ * Waste gas released to the room and the room concentration it gives, each vaporiser step at its
+ * own rate and a chamber opening as a puff at induction.
+ * @param input plan
+ * @param setup the simulation setup of the plan
+ * @param outcome the simulation outcome (chamber concentration and time of induction)
+ */
+function wasteGasOf(
+  input: PlanInput,
+  setup: SimulationSetup,
+  outcome: SimulationOutcome,
+): PlanResult['wasteGas'] {
+  const route = input.route;
+  const endMin = setup.endMin;
+  const scavenging = input.scavenging ?? false;
+  const room = input.room ?? {
+    volumeM3: defaultRoom.volumeM3,
+    airChangesPerHour: defaultRoom.airChangesPerHour,
+  };
+  const release = wasteGasRelease({
+    agent: input.agent,
+    route,
+    schedule: input.schedule,
+    freshGasLpm: input.freshGasLpm,
+    endMin,
+    scavenging,
+    ...(route === 'chamber' && input.chamberVolumeL !== undefined
+      ? {
+          chamberVolumeL: input.chamberVolumeL,
+          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
+        }
+      : {}),
+    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
+  });
+  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
+  const steady = release.sources
+    .filter((source) => source.source !== 'chamberOpened')
+    .reduce((sum, source) => sum + source.vapourMl, 0);
+  const extraReleases: RoomRelease[] = [
+    ...stepReleases(input.schedule, input.freshGasLpm, endMin, steady),
+    ...(chamberOpened === undefined
+      ? []
+      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }]),
+  ];
+  const exposure = wasteGasExposure({
+    agent: input.agent,
+    // Everything is released step by step (extraReleases), none spread over the whole plan.
+    releasedVapourMl: 0,
+    releaseDurationMin: 0,
+    extraReleases,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+  });
+  const wasteGas = {
+    scavenging,
+    roomVolumeM3: room.volumeM3,
+    airChangesPerHour: room.airChangesPerHour,
+    sources: release.sources.map((source) => ({
+      source: source.source,
+      vapourMl: source.vapourMl,
+      basis: source.basis,
+    })),
+    releasedVapourMl: release.releasedVapourMl,
+    peakPpm: exposure.peakPpm,
+    highestHourMeanPpm: exposure.highestHourMeanPpm,
+    ceilingPpm: nioshCeilingPpm.value,
+    exceedsCeiling: exposure.exceedsCeiling,
+    basis: `${release.basis}; ${exposure.basis}${input.room === undefined ? `; ${defaultRoom.basis}` : ''}`,
+  };
+  return wasteGas;
 }

@@ -83,6 +83,29 @@ export type PlanMilestones = {
   /** Lowest spontaneous ventilation as a fraction of resting (anaesthetic depression). */
   readonly lowestVentilationFraction: number;
   readonly basis: string;
+  /** Minutes from the start until loss of righting (light plane); null if never. */
+  readonly lossOfRightingMin: number | null;
+  /** Minutes from the start until the planned surgical depth (the same as inductionMin); null if never. */
+  readonly surgicalDepthMin: number | null;
+  /** Minutes after the vaporiser is off until first movement or head lift (the same as recoveryMin). */
+  readonly firstMovementMin: number | null;
+  /** Minutes after the vaporiser is off until standing or perching; null if not within the window. */
+  readonly standingMin: number | null;
+  /** Each clinical milestone's definition: its brain threshold and the basis of that threshold. */
+  readonly definitions: readonly MilestoneDefinition[];
+};
+
+export type MilestoneId = 'lossOfRighting' | 'surgicalDepth' | 'firstMovement' | 'standing';
+
+export type MilestoneDefinition = {
+  readonly id: MilestoneId;
+  readonly label: string;
+  /** Brain level as a multiple of the MAC in use. */
+  readonly macMultiple: number;
+  /** 'rising' from the start, or 'falling' after the vaporiser is off. */
+  readonly when: 'rising' | 'falling';
+  readonly definition: string;
+  readonly basis: string;
 };
 
 export type Percentiles = { readonly p5: number; readonly p50: number; readonly p95: number };
@@ -104,8 +127,25 @@ export type PlanUncertainty = {
   /** Samples in which the milestone was reached, out of `samples`. */
   readonly inductionReached: number;
   readonly recoveryReached: number;
+  /** Share of samples that reached the milestone within the window, 0-1 (1 without samples). */
+  readonly inductionReachedShare: number;
+  readonly recoveryReachedShare: number;
+  /** "not reached by N % of birds like this" when some samples did not reach it, else null. */
+  readonly inductionNote: string | null;
+  readonly recoveryNote: string | null;
   readonly parameters: readonly UncertaintyParameter[];
   readonly method: string;
+  /** Band of every clinical milestone, with the share of samples that reached it. */
+  readonly milestones: readonly MilestoneUncertainty[];
+};
+
+export type MilestoneUncertainty = {
+  readonly id: MilestoneId;
+  /** Percentiles; a percentile among samples beyond the window is the window length. */
+  readonly percentiles: Percentiles | null;
+  readonly reachedShare: number;
+  /** "not reached by N % of birds like this" when some samples did not reach it, else null. */
+  readonly note: string | null;
 };
 
 export type PlanFlows = {

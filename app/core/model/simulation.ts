@@ -9,16 +9,27 @@
  *     outlet; the lung is refilled at its inlet by a VT from the posterior sacs.
  *   expiration: the posterior sacs send p VT through the lung; lung outflow (p VT) and the
  *     anterior sacs (a VT) leave through the trachea.
- * Within one phase a compartment's outflow has its start-of-phase composition (gas that arrives
- * in a phase does not leave in the same phase). With these rules alone a parcel inspired in one
- * breath reaches the lung on the next expiration and leaves the airway on the expiration after:
- * the two-cycle passage is a consequence, not an input. When a phase moves more gas through the
- * lung than the lung holds, the phase is cut into equal sub-steps.
+ * Within one phase every space sends on its start-of-phase gas first and, only once that is
+ * spent, gas that arrived in the same phase (plug order). With these rules a parcel inspired in
+ * one breath reaches the lung on the next expiration and leaves the airway on the expiration
+ * after: the two-cycle passage is a consequence, not an input. The gas path is resolved once per
+ * phase, so it has no step size.
  *
- * Exchange: gas entering the lung in a phase meets the blood that flows in the same phase, by the
- * Piiper & Scheid cross-current model with k = lambda Q dt / V_in.
+ * Exchange and uptake: the gas crossing the lung in a phase is cut into equal parcels, each
+ * meeting the blood that flows in one exchange step (Piiper & Scheid cross-current model, then
+ * the tissue groups and the venous pool: bodyExchangeStep in body-uptake.ts, the one
+ * implementation). The exchange step is stable at any length and is kept short for accuracy
+ * (bodyStepBound).
  */
-import { bodyBloodFlowMlMin, bodyContentMl, type BodyModel } from './body-uptake.js';
+import {
+  bodyBloodFlowMlMin,
+  bodyContentMl,
+  bodyExchangeFactorLength,
+  bodyExchangeFactors,
+  bodyExchangeStep,
+  bodyState,
+  type BodyModel,
+} from './body-uptake.js';
 
 export type GasPath = {
   readonly trachealVolumeMl: number;
@@ -40,6 +51,10 @@ export type DeliverySetup = {
   /** How the gas reaches the bird. */
   readonly interface: 'direct' | 'mask' | 'airSacTube';
   readonly maskDeadSpaceMl: number;
+  /**
+   * Share of the mask's fresh gas that escapes to the room (waste gas and flow budgets only): room
+   * air drawn into the breath follows from the flows instead (maskEntrainedShare).
+   */
   readonly maskLeakFraction: number;
 };
 
@@ -92,6 +107,8 @@ export type SimulationSetup = {
   readonly inductionBrainPct: number;
   /** Brain partial pressure (vol %) below which the bird is taken to be recovering. */
   readonly recoveryBrainPct: number;
+  /** Range of the recovery threshold as [low, nominal, high], sampled by the uncertainty run; absent: not sampled. */
+  readonly recoveryThresholdRange?: readonly [number, number, number];
   /** Time the vaporiser is turned off for good, or null. */
   readonly offMin: number | null;
   readonly sampleIntervalMin: number;
@@ -99,6 +116,27 @@ export type SimulationSetup = {
   readonly initialGasFraction?: number;
   /** Observer called after each phase; returning true ends the run early. */
   readonly onPhase?: (snapshot: PhaseSnapshot) => unknown;
+  /**
+   * Multiplier of the exchange steps per phase (default 1): 2 halves every exchange step, for the
+   * convergence checks. Does not change the gas path, which is resolved per phase.
+   */
+  readonly substepRefinement?: number;
+  /** Further brain levels whose crossing times are reported in milestoneMin, in the same order. */
+  readonly milestoneBrainPct?: readonly MilestoneLevel[];
+};
+
+/**
+ * A brain level to time: 'up' from the start as the brain rises through it; 'down' after the
+ * vaporiser is off as the brain falls below it (minutes after the vaporiser is off).
+ */
+export type MilestoneLevel = {
+  readonly brainPct: number;
+  readonly direction: 'up' | 'down';
+  /**
+   * Range of the threshold as [low, nominal, high] (any unit: only ratios are used), sampled by the
+   * uncertainty run; absent: the level moves only with the sampled MAC.
+   */
+  readonly thresholdRange?: readonly [number, number, number];
 };
 
 export type SimulationTimeline = {
@@ -127,7 +165,7 @@ export type AgentTotals = {
   readonly gasStoredMl: number;
   /** Held in blood and tissues at the end. */
   readonly bodyStoredMl: number;
-  /** Put out by the vaporiser: fresh gas flow x dial setting over the run. */
+  /** Put out by the vaporiser: carrier flow x c / (1 - c) over the run (the liquid-use convention). */
   readonly vaporiserOutputMl: number;
 };
 
@@ -135,6 +173,8 @@ export type SimulationOutcome = {
   readonly timeline: SimulationTimeline;
   readonly inductionMin: number | null;
   readonly recoveryMin: number | null;
+  /** Crossing time of each of setup.milestoneBrainPct, min ('down': after the vaporiser is off), or null. */
+  readonly milestoneMin: readonly (number | null)[];
   readonly peakBrainMacMultiple: number;
   /** Highest concentration delivered to the bird (inspired, or tube gas with an air-sac tube). */
   readonly peakInspiredPct: number;
@@ -145,9 +185,6 @@ export type SimulationOutcome = {
   readonly atOff: { readonly tidalVolumeMl: number; readonly breathsPerMin: number } | null;
   /** Chamber or circle concentration (vol %) at induction, or at the end when never reached. */
   readonly mixedPctAtInduction: number;
-  /** Breath-averaged inspired fraction on a fixed grid, for the uncertainty run. */
-  readonly inspiredGrid: Float64Array;
-  readonly inspiredGridStepMin: number;
 };
 
 /**
@@ -164,15 +201,12 @@ export function dialPctAt(schedule: readonly ScheduleStep[], timeMin: number): n
   return pct;
 }
 
-/** Step of the inspired-concentration grid kept for the uncertainty run, minutes. */
-export const inspiredGridStepMin = 0.05;
-
 /**
- * Most sub-steps per phase. Beyond it (tube flows or measured tidal volumes many times the lung
- * volume) the sacs mix before they empty and the lung washes out exponentially, which stays
- * stable and conserves agent at any flow but no longer keeps the start-of-phase rule.
+ * Largest Q dt / V_blood (and Qi dt / (lambda_i Vi) of the fastest tissue group) of one exchange
+ * step. The implicit step is stable at any length; this bound is for accuracy: with it, doubling
+ * the steps moves no milestone by more than 1 % (convergence study in docs/model.md).
  */
-export const maxSubsteps = 16;
+export const bodyStepBound = 0.1;
 
 /** Grid of the depression factor: spontaneous tidal volume moves in steps of 0.1 % of resting. */
 export const depressionQuantum = 0.001;
@@ -206,6 +240,60 @@ export function simulate(setup: SimulationSetup): SimulationOutcome {
   return simulateRun(setup);
 }
 
+/**
+ * Share of each breath drawn as room air around a face mask: the part of the inspiratory flow
+ * above the fresh gas flow. Inspiratory flow is taken as a half sine over an inspiration of half
+ * the breath (I:E 1:1, assumption), so its peak is pi x the minute ventilation; with
+ * r = FGF / peak below 1 the share above FGF is (2 sqrt(1 - r^2) - r (pi - 2 asin r)) / 2, and 0
+ * once the fresh gas flow meets the peak.
+ * @param freshGasMlMin fresh gas flow into the mask, mL/min, >= 0
+ * @param minuteVentilationMlMin tidal volume x rate, mL/min, > 0
+ * @returns share 0-1 of each breath that is room air
+ */
+export function maskEntrainedShare(freshGasMlMin: number, minuteVentilationMlMin: number): number {
+  const peak = Math.PI * minuteVentilationMlMin;
+  if (!(peak > 0)) return 0;
+  const ratio = freshGasMlMin / peak;
+  if (ratio >= 1) return 0;
+  return (2 * Math.sqrt(1 - ratio * ratio) - ratio * (Math.PI - 2 * Math.asin(ratio))) / 2;
+}
+
+/**
+ * Agent (mL) in the slice [fromMl, toMl] of a compartment's outflow in one phase when the
+ * outflow is taken first from the compartment's start-of-phase gas (`heldMl` mL at fraction
+ * `held`) and, beyond it, from the gas arriving in the phase at fraction `arriving` (plug order).
+ */
+function plugSliceMl(heldMl: number, held: number, arriving: number, fromMl: number, toMl: number): number {
+  if (toMl <= heldMl) return (toMl - fromMl) * held;
+  if (fromMl >= heldMl) return (toMl - fromMl) * arriving;
+  return (heldMl - fromMl) * held + (toMl - heldMl) * arriving;
+}
+
+/**
+ * Agent (mL) in the slice [fromMl, toMl] of a sequence of equal parcels of `parcelMl` mL whose
+ * cumulative agent contents are `prefix` (prefix[j] = agent in the first j parcels).
+ */
+function parcelSliceMl(
+  prefix: Float64Array,
+  count: number,
+  parcelMl: number,
+  fromMl: number,
+  toMl: number,
+): number {
+  return (
+    cumulativeParcelMl(prefix, count, parcelMl, toMl) - cumulativeParcelMl(prefix, count, parcelMl, fromMl)
+  );
+}
+
+function cumulativeParcelMl(prefix: Float64Array, count: number, parcelMl: number, atMl: number): number {
+  if (atMl <= 0) return 0;
+  const position = atMl / parcelMl;
+  const whole = Math.min(count, Math.floor(position));
+  const base = prefix[whole] as number;
+  if (whole >= count) return base;
+  return base + (position - whole) * ((prefix[whole + 1] as number) - base);
+}
+
 function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const { gasPath, body, delivery, ventilation, schedule } = setup;
   const deadSpace = gasPath.trachealVolumeMl;
@@ -214,25 +302,23 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const anteriorVolume = gasPath.anteriorSacsMl;
   const pShare = gasPath.posteriorShare;
   const aShare = 1 - pShare;
-  const lambda = body.bloodGasPartition;
-  const group0 = body.groups[0];
-  const group1 = body.groups[1];
-  const group2 = body.groups[2];
-  const q0 = group0.flowMlMin;
-  const q1 = group1.flowMlMin;
-  const q2 = group2.flowMlMin;
-  const capacity0 = group0.tissueBloodPartition * group0.volumeMl;
-  const capacity1 = group1.tissueBloodPartition * group1.volumeMl;
-  const capacity2 = group2.tissueBloodPartition * group2.volumeMl;
   const bloodFlow = bodyBloodFlowMlMin(body);
   const bloodVolume = body.bloodVolumeMl;
+  let fastestTissueRate = 0;
+  for (const group of body.groups) {
+    const rate = group.flowMlMin / (group.tissueBloodPartition * group.volumeMl);
+    if (rate > fastestTissueRate) fastestTissueRate = rate;
+  }
+  // Exchange steps per minute that keep Q dt / V_blood and the fastest tissue's Qi dt / (lambda_i Vi)
+  // at or below bodyStepBound (accuracy; the step itself is stable at any length).
+  const stepsPerMin = Math.max(bloodFlow / bloodVolume, fastestTissueRate) / bodyStepBound;
+  const refinement = Math.max(1, Math.round(setup.substepRefinement ?? 1));
   const freshFlow = delivery.freshGasMlMin;
   const mixed = delivery.source === 'mixed';
   const mixedVolume = delivery.mixedVolumeMl;
   const mask = delivery.interface === 'mask';
   const tube = delivery.interface === 'airSacTube';
   const maskVolume = Math.max(delivery.maskDeadSpaceMl, 1e-9);
-  const leak = mask ? delivery.maskLeakFraction : 0;
   const rebreathingMultiple = delivery.rebreathingFlowMultiple;
   const mac = setup.macPct / 100;
   const ippv = ventilation.ippv;
@@ -250,11 +336,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let mixedGas = mixed ? initial : 0;
   let maskGas = initial;
   let lastExhaled = initial;
-  let arterial = 0;
-  let venous = 0;
-  let brain = 0;
-  let muscle = 0;
-  let fat = 0;
+  const state = new Float64Array(bodyState.length);
+  const inspiratoryFactors = new Float64Array(bodyExchangeFactorLength);
+  const expiratoryFactors = new Float64Array(bodyExchangeFactorLength);
+  let prefix = new Float64Array(17);
 
   let deliveredToBird = 0;
   let exhaled = 0;
@@ -278,10 +363,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   };
   let sampled = 0;
   let nextSample = 0;
-  const gridLength = Math.ceil(endMin / inspiredGridStepMin) + 1;
-  const inspiredGrid = new Float64Array(gridLength);
-  const gridWeight = new Float64Array(gridLength);
 
+  const levels = setup.milestoneBrainPct ?? [];
+  const levelCount = levels.length;
+  const crossings: (number | null)[] = levels.map(() => null);
   let inductionMin: number | null = null;
   let recoveryMin: number | null = null;
   let peakBrain = 0;
@@ -316,31 +401,20 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let cachedTidal = -1;
   let cachedRate = -1;
   let substeps = 1;
-  let stepMin = 0;
   let phaseMin = 0;
-  let stepTidal = 0;
-  let stepTube = 0;
-  let decay0 = 1;
-  let decay1 = 1;
-  let decay2 = 1;
+  let tubePerPhase = 0;
   let inspiratoryLungFlow = 0;
   let expiratoryLungFlow = 0;
-  let inspiratoryEndFactor = 1;
-  let inspiratoryArterialFactor = 1;
-  let expiratoryEndFactor = 1;
-  let expiratoryArterialFactor = 1;
   let freshDecay = 1;
   let maskDecay = 1;
   let freshShare = 1;
-  let overflow = false;
-  let inspiratoryLungWash = 1;
-  let expiratoryLungWash = 1;
+  let entrained = 0;
   let scheduleIndex = 0;
 
   let time = 0;
   let breath = 0;
   while (time < endMin - 1e-12 && !stopRequested) {
-    const brainBefore = brain;
+    const brainBefore = state[1] as number;
     let tidal: number;
     let rate: number;
     if (time >= ippvFrom && ippv !== null) {
@@ -359,36 +433,25 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       cachedTidal = tidal;
       cachedRate = rate;
       phaseMin = 0.5 / rate;
-      const tubeFlowPerPhase = tube ? freshFlow * phaseMin : 0;
-      const needed = Math.max(
-        1,
-        Math.ceil((Math.max(aShare, pShare) * tidal + tubeFlowPerPhase) / lungVolume - 1e-12),
-      );
-      overflow = needed > maxSubsteps;
-      substeps = overflow ? maxSubsteps : needed;
-      stepMin = phaseMin / substeps;
-      stepTidal = tidal / substeps;
-      stepTube = tubeFlowPerPhase / substeps;
-      decay0 = Math.exp((-q0 * stepMin) / capacity0);
-      decay1 = Math.exp((-q1 * stepMin) / capacity1);
-      decay2 = Math.exp((-q2 * stepMin) / capacity2);
-      const bloodPerStep = lambda * bloodFlow * stepMin;
-      inspiratoryLungFlow = aShare * stepTidal + stepTube;
-      expiratoryLungFlow = pShare * stepTidal + stepTube;
-      inspiratoryEndFactor = crossCurrentEndFactor(bloodPerStep, inspiratoryLungFlow);
-      inspiratoryArterialFactor = crossCurrentArterialFactor(bloodPerStep, inspiratoryLungFlow);
-      expiratoryEndFactor = crossCurrentEndFactor(bloodPerStep, expiratoryLungFlow);
-      expiratoryArterialFactor = crossCurrentArterialFactor(bloodPerStep, expiratoryLungFlow);
-      inspiratoryLungWash = Math.exp(-inspiratoryLungFlow / lungVolume);
-      expiratoryLungWash = Math.exp(-expiratoryLungFlow / lungVolume);
+      tubePerPhase = tube ? freshFlow * phaseMin : 0;
+      substeps = refinement * Math.max(1, Math.ceil(phaseMin * stepsPerMin - 1e-9));
+      if (prefix.length < substeps + 1) prefix = new Float64Array(substeps + 1);
+      const stepMin = phaseMin / substeps;
+      inspiratoryLungFlow = aShare * tidal + tubePerPhase;
+      expiratoryLungFlow = pShare * tidal + tubePerPhase;
+      bodyExchangeFactors(body, inspiratoryLungFlow / substeps, stepMin, inspiratoryFactors);
+      bodyExchangeFactors(body, expiratoryLungFlow / substeps, stepMin, expiratoryFactors);
       freshDecay = mixed ? Math.exp((-freshFlow * phaseMin) / mixedVolume) : 1;
       maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / maskVolume) : 1;
       freshShare = Math.min(1, freshFlow / (rebreathingMultiple * tidal * rate));
+      entrained = mask ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
     }
     while (scheduleIndex + 1 < schedule.length && (schedule[scheduleIndex + 1] as ScheduleStep).atMin <= time)
       scheduleIndex += 1;
     const currentStep = schedule[scheduleIndex];
     const fresh = currentStep !== undefined && currentStep.atMin <= time ? currentStep.vaporPct / 100 : 0;
+    // The flowmeter sets the carrier: the vaporiser adds c / (1 - c) of it as vapour (as in consumption.ts).
+    const vapourPerCarrier = fresh < 1 ? fresh / (1 - fresh) : fresh;
 
     // Source gas offered at the airway opening during this inspiration.
     const source = mixed ? mixedGas : freshShare * fresh + (1 - freshShare) * lastExhaled;
@@ -397,7 +460,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       inspired = 0;
     } else if (mask) {
       const fromMask = tidal < maskVolume ? tidal : maskVolume;
-      inspired = (1 - leak) * ((fromMask * maskGas + (tidal - fromMask) * source) / tidal);
+      inspired = (1 - entrained) * ((fromMask * maskGas + (tidal - fromMask) * source) / tidal);
     } else {
       inspired = source;
     }
@@ -406,60 +469,39 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     const delivered = tube ? tubeGas : inspired;
     if (delivered > peakInspired) peakInspired = delivered;
 
-    // Inspiration.
-    let exhaledThisPhase = 0;
-    for (let sub = 0; sub < substeps; sub += 1) {
-      let toPosterior: number;
-      if (stepTidal >= deadSpace) {
-        toPosterior = deadSpace * trachea + (stepTidal - deadSpace) * inspired;
-        trachea = inspired;
-      } else {
-        toPosterior = stepTidal * trachea;
-        trachea += (stepTidal * (inspired - trachea)) / deadSpace;
-      }
-      deliveredToBird += stepTidal * inspired + stepTube * tubeGas;
-      // Posterior sacs gain tracheal and tube gas and lose a VT (+ tube flow) of their start-of-step gas.
-      const posteriorBefore = posteriorVolume + pShare * stepTidal * sub;
-      let lungInlet = posterior;
-      if (overflow) {
-        lungInlet =
-          (posteriorBefore * posterior + toPosterior + stepTube * tubeGas) /
-          (posteriorBefore + stepTidal + stepTube);
-        posterior = lungInlet;
-      } else {
-        posterior =
-          (posteriorBefore * posterior + toPosterior + stepTube * tubeGas - inspiratoryLungFlow * lungInlet) /
-          (posteriorBefore + pShare * stepTidal);
-      }
-      const endGas = venous + (lungInlet - venous) * inspiratoryEndFactor;
-      arterial = venous + (lungInlet - venous) * inspiratoryArterialFactor;
-      uptake += inspiratoryLungFlow * (lungInlet - endGas);
-      let lungOutlet = lung;
-      if (overflow) {
-        const next = endGas + (lung - endGas) * inspiratoryLungWash;
-        lungOutlet = (inspiratoryLungFlow * endGas - lungVolume * (next - lung)) / inspiratoryLungFlow;
-        lung = next;
-      } else {
-        lung += (inspiratoryLungFlow * (endGas - lungOutlet)) / lungVolume;
-      }
-      // Anterior sacs fill with start-of-step lung gas; tube flow leaves the lung to the room.
-      const anteriorBefore = anteriorVolume + aShare * stepTidal * sub;
-      anterior =
-        (anteriorBefore * anterior + aShare * stepTidal * lungOutlet) / (anteriorBefore + aShare * stepTidal);
-      exhaledThisPhase += stepTube * lungOutlet;
-      // Body: tissues by their exact exponential, venous pool by conservation.
-      const brainNext = arterial + (brain - arterial) * decay0;
-      const muscleNext = arterial + (muscle - arterial) * decay1;
-      const fatNext = arterial + (fat - arterial) * decay2;
-      const tissueGain =
-        capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
-      venous += (bloodFlow * stepMin * (arterial - venous) - tissueGain) / bloodVolume;
-      brain = brainNext;
-      muscle = muscleNext;
-      fat = fatNext;
+    // Inspiration. The trachea sends its old gas, then inspired gas, to the posterior sacs.
+    let toPosterior: number;
+    if (tidal >= deadSpace) {
+      toPosterior = deadSpace * trachea + (tidal - deadSpace) * inspired;
+      trachea = inspired;
+    } else {
+      toPosterior = tidal * trachea;
+      trachea += (tidal * (inspired - trachea)) / deadSpace;
     }
+    deliveredToBird += tidal * inspired + tubePerPhase * tubeGas;
+    let arriving = (toPosterior + tubePerPhase * tubeGas) / (tidal + tubePerPhase);
+    let lungOut = exchangePhase(
+      state,
+      inspiratoryFactors,
+      substeps,
+      prefix,
+      posteriorVolume,
+      posterior,
+      arriving,
+      inspiratoryLungFlow,
+      lung,
+      lungVolume,
+    );
+    uptake += phaseResult[0] as number;
+    posterior =
+      (posteriorVolume * posterior + toPosterior + tubePerPhase * tubeGas - (phaseResult[1] as number)) /
+      (posteriorVolume + pShare * tidal);
+    lung = phaseResult[2] as number;
+    // The anterior sacs fill with the lung's outflow; tube flow leaves the lung to the room.
+    let exhaledThisPhase = tubePerPhase > 0 ? (lungOut * tubePerPhase) / inspiratoryLungFlow : 0;
+    anterior = (anteriorVolume * anterior + lungOut - exhaledThisPhase) / (anteriorVolume + aShare * tidal);
     exhaled += exhaledThisPhase;
-    vaporiserOutput += freshFlow * phaseMin * fresh;
+    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
     if (mixed) mixedGas = fresh + (mixedGas - fresh) * freshDecay;
     if (mask)
       maskGas = tidal >= maskVolume ? source : ((maskVolume - tidal) * maskGas + tidal * source) / maskVolume;
@@ -476,67 +518,49 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
         posterior,
         lung,
         anterior,
-        arterial,
-        brain,
+        state,
       );
       setContents(snapshot, gasPath, tidal);
       if (observer(snapshot) === true) stopRequested = true;
     }
 
-    // Expiration.
-    exhaledThisPhase = 0;
-    let openingOut = 0;
-    let expiredMixTotal = 0;
-    for (let sub = 0; sub < substeps; sub += 1) {
-      const posteriorFull = posteriorVolume + pShare * stepTidal * (substeps - sub);
-      let lungInlet = posterior;
-      if (overflow) {
-        lungInlet = (posteriorFull * posterior + stepTube * tubeGas) / (posteriorFull + stepTube);
-        posterior = lungInlet;
-      } else {
-        posterior =
-          (posteriorFull * posterior + stepTube * tubeGas - expiratoryLungFlow * lungInlet) /
-          (posteriorFull - pShare * stepTidal);
-      }
-      deliveredToBird += stepTube * tubeGas;
-      const endGas = venous + (lungInlet - venous) * expiratoryEndFactor;
-      arterial = venous + (lungInlet - venous) * expiratoryArterialFactor;
-      uptake += expiratoryLungFlow * (lungInlet - endGas);
-      let lungOutlet = lung;
-      if (overflow) {
-        const next = endGas + (lung - endGas) * expiratoryLungWash;
-        lungOutlet = (expiratoryLungFlow * endGas - lungVolume * (next - lung)) / expiratoryLungFlow;
-        lung = next;
-      } else {
-        lung += (expiratoryLungFlow * (endGas - lungOutlet)) / lungVolume;
-      }
-      // The anterior sacs shrink; their gas keeps its composition.
-      const expiredMix = pShare * stepTidal * lungOutlet + aShare * stepTidal * anterior;
-      const expiredFraction = stepTidal > 0 ? expiredMix / stepTidal : 0;
-      expiredMixTotal += expiredMix;
-      let out: number;
-      if (stepTidal >= deadSpace) {
-        out = deadSpace * trachea + (stepTidal - deadSpace) * expiredFraction;
-        trachea = expiredFraction;
-      } else {
-        out = stepTidal * trachea;
-        trachea += (stepTidal * (expiredFraction - trachea)) / deadSpace;
-      }
-      openingOut += out;
-      exhaledThisPhase += out + stepTube * lungOutlet;
-      const brainNext = arterial + (brain - arterial) * decay0;
-      const muscleNext = arterial + (muscle - arterial) * decay1;
-      const fatNext = arterial + (fat - arterial) * decay2;
-      const tissueGain =
-        capacity0 * (brainNext - brain) + capacity1 * (muscleNext - muscle) + capacity2 * (fatNext - fat);
-      venous += (bloodFlow * stepMin * (arterial - venous) - tissueGain) / bloodVolume;
-      brain = brainNext;
-      muscle = muscleNext;
-      fat = fatNext;
+    // Expiration: the posterior sacs send p VT (and the tube flow) through the lung.
+    const posteriorFull = posteriorVolume + pShare * tidal;
+    arriving = tubeGas;
+    deliveredToBird += tubePerPhase * tubeGas;
+    lungOut = exchangePhase(
+      state,
+      expiratoryFactors,
+      substeps,
+      prefix,
+      posteriorFull,
+      posterior,
+      arriving,
+      expiratoryLungFlow,
+      lung,
+      lungVolume,
+    );
+    uptake += phaseResult[0] as number;
+    posterior =
+      (posteriorFull * posterior + tubePerPhase * tubeGas - (phaseResult[1] as number)) / posteriorVolume;
+    lung = phaseResult[2] as number;
+    // Lung outflow (p VT) and the shrinking anterior sacs (a VT) leave through the trachea.
+    const lungToRoom = tubePerPhase > 0 ? (lungOut * tubePerPhase) / expiratoryLungFlow : 0;
+    const lungToTrachea = lungOut - lungToRoom;
+    const expiredMix = lungToTrachea + aShare * tidal * anterior;
+    const expiredFraction = tidal > 0 ? expiredMix / tidal : 0;
+    let openingOut: number;
+    if (tidal >= deadSpace) {
+      openingOut = deadSpace * trachea + (tidal - deadSpace) * expiredFraction;
+      trachea = expiredFraction;
+    } else {
+      openingOut = tidal * trachea;
+      trachea += (tidal * (expiredFraction - trachea)) / deadSpace;
     }
+    exhaledThisPhase = openingOut + lungToRoom;
     exhaled += exhaledThisPhase;
     if (tidal > 0) lastExhaled = openingOut / tidal;
-    vaporiserOutput += freshFlow * phaseMin * fresh;
+    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
     if (mixed) {
       // Exhaled gas returns to the chamber or circle and displaces the same volume to the vent.
       if (!tube)
@@ -547,11 +571,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       mixedGas = fresh + (mixedGas - fresh) * freshDecay;
     }
     if (mask) {
-      const expiredTail = tidal > 0 ? expiredMixTotal / tidal : maskGas;
       maskGas =
         tidal >= maskVolume
-          ? expiredTail
-          : ((maskVolume - tidal) * maskGas + tidal * expiredTail) / maskVolume;
+          ? expiredFraction
+          : ((maskVolume - tidal) * maskGas + tidal * expiredFraction) / maskVolume;
       maskGas = source + (maskGas - source) * maskDecay;
     }
     time += phaseMin;
@@ -568,67 +591,64 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
         posterior,
         lung,
         anterior,
-        arterial,
-        brain,
+        state,
       );
       setContents(snapshot, gasPath, 0);
       if (observer(snapshot) === true) stopRequested = true;
     }
 
-    // Breath-averaged inspired fraction on a fixed grid, indexed by the breath's start.
-    const gridIndex = Math.min(gridLength - 1, Math.floor((time - 2 * phaseMin) / inspiredGridStepMin));
-    inspiredGrid[gridIndex] = (inspiredGrid[gridIndex] as number) + inspired;
-    gridWeight[gridIndex] = (gridWeight[gridIndex] as number) + 1;
-
+    const brain = state[1] as number;
+    const breathStart = time - 2 * phaseMin;
     if (brain / mac > peakBrain) peakBrain = brain / mac;
     if (inductionMin === null && brain >= inductionLevel && inductionLevel > 0) {
-      inductionMin = interpolateCrossing(time - 2 * phaseMin, brainBefore, time, brain, inductionLevel);
+      inductionMin = interpolateCrossing(breathStart, brainBefore, time, brain, inductionLevel);
       mixedAtInduction = mixedGas;
     }
-    if (offMin !== null && recoveryMin === null && time >= offMin && brain < recoveryLevel) {
+    // Recovery is timed only for a brain that was at or above the level (a bird never that deep has none).
+    if (
+      offMin !== null &&
+      recoveryMin === null &&
+      time >= offMin &&
+      brain < recoveryLevel &&
+      peakBrain * mac >= recoveryLevel
+    ) {
       const crossing =
         brainBefore >= recoveryLevel
-          ? interpolateCrossing(time - 2 * phaseMin, brainBefore, time, brain, recoveryLevel)
+          ? interpolateCrossing(breathStart, brainBefore, time, brain, recoveryLevel)
           : time;
       recoveryMin = Math.max(0, crossing - offMin);
     }
+    for (let index = 0; index < levelCount; index += 1) {
+      if (crossings[index] !== null) continue;
+      const level = levels[index] as MilestoneLevel;
+      const at = level.brainPct / 100;
+      if (level.direction === 'up') {
+        if (brain >= at && at > 0)
+          crossings[index] = interpolateCrossing(breathStart, brainBefore, time, brain, at);
+      } else if (offMin !== null && time >= offMin && brain < at && peakBrain * mac >= at) {
+        const crossing =
+          brainBefore >= at ? interpolateCrossing(breathStart, brainBefore, time, brain, at) : time;
+        crossings[index] = Math.max(0, crossing - offMin);
+      }
+    }
     while (sampled < sampleCount && time >= nextSample - 1e-9) {
-      recordSample(
-        timeline,
-        nextSample,
-        delivered,
-        trachea,
-        posterior,
-        lung,
-        anterior,
-        arterial,
-        brain,
-        muscle,
-        fat,
-      );
+      recordSample(timeline, nextSample, delivered, trachea, posterior, lung, anterior, state);
       sampled += 1;
       nextSample = sampled * sampleInterval;
     }
   }
   while (sampled < sampleCount) {
-    recordSample(timeline, nextSample, 0, trachea, posterior, lung, anterior, arterial, brain, muscle, fat);
+    recordSample(timeline, nextSample, 0, trachea, posterior, lung, anterior, state);
     sampled += 1;
     nextSample = sampled * sampleInterval;
   }
-  // Fill empty grid cells from their neighbours (breaths longer than the grid step).
-  let last = 0;
-  for (let index = 0; index < gridLength; index += 1) {
-    const weight = gridWeight[index] as number;
-    if (weight > 0) last = (inspiredGrid[index] as number) / weight;
-    inspiredGrid[index] = last;
-  }
-  const bodyState = new Float64Array([venous, brain, muscle, fat]);
   const gasStored =
     trachea * deadSpace + posterior * posteriorVolume + lung * lungVolume + anterior * anteriorVolume;
   return {
     timeline,
     inductionMin,
     recoveryMin: offMin === null ? null : recoveryMin,
+    milestoneMin: crossings,
     peakBrainMacMultiple: peakBrain,
     peakInspiredPct: peakInspired * 100,
     lowestVentilationFraction: lowestVentilation,
@@ -638,29 +658,67 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       exhaledMl: exhaled,
       uptakeMl: uptake,
       gasStoredMl: gasStored,
-      bodyStoredMl: bodyContentMl(body, bodyState),
+      bodyStoredMl: bodyContentMl(body, state),
       vaporiserOutputMl: vaporiserOutput,
     },
     atOff,
     mixedPctAtInduction: (mixedAtInduction >= 0 ? mixedAtInduction : mixedGas) * 100,
-    inspiredGrid,
-    inspiredGridStepMin,
   };
 }
 
 /**
- * End-gas factor e^-k of the cross-current model for one step, k = lambda Q dt / V_in. No inflow:
- * the gas does not move.
+ * Side results of exchangePhase: [agent handed to blood (mL), agent that left the sacs (mL), lung
+ * fraction at the end]. A typed array, because doubles kept in module-level variables are boxed and
+ * every write would allocate.
  */
-function crossCurrentEndFactor(bloodCapacityMl: number, inflowMl: number): number {
-  return inflowMl <= 0 ? 1 : Math.exp(-bloodCapacityMl / inflowMl);
-}
+const phaseResult = new Float64Array(3);
 
-/** Arterial factor (1 - e^-k)/k of the cross-current model; no inflow: blood leaves at venous level. */
-function crossCurrentArterialFactor(bloodCapacityMl: number, inflowMl: number): number {
-  if (inflowMl <= 0) return 0;
-  const k = bloodCapacityMl / inflowMl;
-  return k < 1e-12 ? 1 : -Math.expm1(-k) / k;
+/**
+ * One phase of gas through the parabronchial lung. `flowMl` mL leave the upstream sacs
+ * (`sacMl` mL at fraction `sac` at the start of the phase, topped up by gas at `arriving`) in
+ * plug order and cross the lung in `substeps` equal parcels, each meeting the blood of one
+ * exchange step (bodyExchangeStep). The lung (`lungMl` at `lung`) sends the same volume on in plug
+ * order: first its start-of-phase gas, then the earliest parcels. Writes the agent handed to blood,
+ * the agent that left the sacs and the lung fraction at the end into phaseResult.
+ * @returns agent (mL) that left the lung outlet in the phase
+ */
+function exchangePhase(
+  state: Float64Array,
+  factors: Float64Array,
+  substeps: number,
+  prefix: Float64Array,
+  sacMl: number,
+  sac: number,
+  arriving: number,
+  flowMl: number,
+  lung: number,
+  lungMl: number,
+): number {
+  const parcelMl = flowMl / substeps;
+  let inletTotal = 0;
+  let endTotal = 0;
+  prefix[0] = 0;
+  for (let sub = 0; sub < substeps; sub += 1) {
+    const inletMl = plugSliceMl(sacMl, sac, arriving, sub * parcelMl, (sub + 1) * parcelMl);
+    const inlet = parcelMl > 0 ? inletMl / parcelMl : 0;
+    const endGas = bodyExchangeStep(state, factors, inlet);
+    inletTotal += inletMl;
+    endTotal += parcelMl * endGas;
+    prefix[sub + 1] = endTotal;
+  }
+  phaseResult[0] = inletTotal - endTotal;
+  phaseResult[1] = inletTotal;
+  if (flowMl <= 0) {
+    phaseResult[2] = lung;
+    return 0;
+  }
+  if (flowMl <= lungMl) {
+    phaseResult[2] = ((lungMl - flowMl) * lung + endTotal) / lungMl;
+    return flowMl * lung;
+  }
+  const passedMl = flowMl - lungMl;
+  phaseResult[2] = parcelSliceMl(prefix, substeps, parcelMl, passedMl, flowMl) / lungMl;
+  return lungMl * lung + parcelSliceMl(prefix, substeps, parcelMl, 0, passedMl);
 }
 
 function fillSnapshot(
@@ -674,8 +732,7 @@ function fillSnapshot(
   posterior: number,
   lung: number,
   anterior: number,
-  arterial: number,
-  brain: number,
+  body: Float64Array,
 ): void {
   target.phase = phase;
   target.breathIndex = breathIndex;
@@ -686,8 +743,8 @@ function fillSnapshot(
   target.posterior = posterior;
   target.lung = lung;
   target.anterior = anterior;
-  target.arterial = arterial;
-  target.brain = brain;
+  target.arterial = body[bodyState.arterial] as number;
+  target.brain = body[bodyState.vesselRich] as number;
 }
 
 function setContents(target: PhaseSnapshot, gasPath: GasPath, expansionMl: number): void {
@@ -707,10 +764,7 @@ function recordSample(
   posterior: number,
   lung: number,
   anterior: number,
-  arterial: number,
-  brain: number,
-  muscle: number,
-  fat: number,
+  body: Float64Array,
 ): void {
   timeline.timeMin.push(Math.round(atMin * 1e6) / 1e6);
   timeline.inspiredPct.push(inspired * 100);
@@ -718,10 +772,10 @@ function recordSample(
   timeline.posteriorSacsPct.push(posterior * 100);
   timeline.parabronchialPct.push(lung * 100);
   timeline.anteriorSacsPct.push(anterior * 100);
-  timeline.arterialPct.push(arterial * 100);
-  timeline.brainPct.push(brain * 100);
-  timeline.musclePct.push(muscle * 100);
-  timeline.fatPct.push(fat * 100);
+  timeline.arterialPct.push((body[bodyState.arterial] as number) * 100);
+  timeline.brainPct.push((body[bodyState.vesselRich] as number) * 100);
+  timeline.musclePct.push((body[bodyState.muscle] as number) * 100);
+  timeline.fatPct.push((body[bodyState.fat] as number) * 100);
 }
 
 function interpolateCrossing(t0: number, v0: number, t1: number, v1: number, level: number): number {

@@ -1,26 +1,34 @@
 /**
- * Uncertainty of the induction and recovery times, from sampling the uncertain parameters over
- * stated ranges with a seeded generator (reproducible).
+ * Uncertainty of the milestones and of the brain curve: the same breath-resolved simulation as
+ * the point estimate (simulate), run once per sample with the uncertain parameters drawn over
+ * their stated ranges by a seeded generator (reproducible).
  *
- * Speed: each sample runs a breath-averaged version of the gas path (the same compartments and
- * flow rules with the breath's flows spread evenly over time; steps of 0.02 min after each change
- * growing to 1 min in steady periods; inspired gas taken
- * from the nominal breath-resolved run) instead of the breath-resolved run. The averaged model's
- * nominal milestones are scaled to the breath-resolved nominal ones, so the p50 stays close to
- * the deterministic prediction and the band shows the spread from the parameters.
+ * Distributions are centred on the nominal value: triangular with its mode at the nominal value
+ * and its ends at the declared range; the MAC is normal with its published (or assumed) SD,
+ * truncated at 2.5 SD. A sample that never reaches a milestone within the simulated window counts
+ * as beyond the window: it stays in the percentiles (a percentile that falls among such samples
+ * is reported as the window length) and the share that reached is reported with it.
  */
 import {
-  tissueGroups,
   airSacVolumeFraction,
   bloodVolumeFraction,
   cardiacOutputSpread,
-  macRelativeSpread,
-  ventilationSpread,
-  ventilatoryDepressionSlope,
+  defaultMaskDeadSpaceTidalMultiple,
   lungVolumeFraction,
+  macRelativeSpread,
+  posteriorSacShare,
+  rebreathingFlowMultiple,
+  tissueBloodPartitionSpread,
+  tissueGroups,
+  trachealVolumeSpread,
+  ventilationSpread,
+  ventilatoryDepressionFloor,
+  ventilatoryDepressionSlope,
+  type ModelParameter,
 } from './parameters.js';
 import type { Percentiles, PlanUncertainty, UncertaintyParameter } from './plan-types.js';
-import { depressionQuantum, dialPctAt, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+import type { TissueGroup } from './body-uptake.js';
 
 /**
  * Mulberry32: a small, fast, seeded 32-bit generator. Returns a function giving numbers in [0, 1).
@@ -38,254 +46,48 @@ export function seededRandom(seed: number): () => number {
 }
 
 /**
- * Percentile by linear interpolation between closest ranks (sorted copy of the values).
- * @param values sample values, at least one
+ * Percentile by linear interpolation between closest ranks.
+ * @param sorted sample values sorted ascending, at least one (Infinity allowed)
  * @param fraction 0-1
  */
-export function percentile(sorted: readonly number[], fraction: number): number {
+export function percentile(sorted: ArrayLike<number>, fraction: number): number {
   if (sorted.length === 0) return Number.NaN;
   const position = (sorted.length - 1) * fraction;
   const below = Math.floor(position);
   const above = Math.min(sorted.length - 1, below + 1);
   const low = sorted[below] as number;
   const high = sorted[above] as number;
+  if (position === below || low === high) return low;
   return low + (high - low) * (position - below);
 }
 
-/** Multipliers and values of one uncertainty sample. */
-export type SampleParameters = {
-  bloodGasPartition: number;
-  cardiacOutputMultiple: number;
-  tidalVolumeMultiple: number;
-  breathsPerMinMultiple: number;
-  airSacMultiple: number;
-  lungMultiple: number;
-  bloodVolumeMultiple: number;
-  volumeMultiples: [number, number, number];
-  flowFractions: [number, number, number];
-  macMultiple: number;
-  depressionSlope: number;
-};
-
 /**
- * Steps of the breath-averaged model: fine just after every change (dial step, start of IPPV) and
- * growing with the time since it, so that steady maintenance costs few steps. The backward-Euler
- * gas spaces are stable at any step and the tissue groups use their exact exponentials.
+ * Triangular draw on [low, high] with its mode at `mode` (clamped into the range); equal ends
+ * give the value itself.
+ * @param random generator of numbers in [0, 1)
  */
-export const averagedSteps = { minStepMin: 0.02, maxStepMin: 1, ageDivisor: 8 } as const;
-
-/**
- * Step length at `timeMin`, `ageMin` after the last change and `toNextChangeMin` before the next.
- * @param ageMin minutes since the last change, >= 0
- * @param toNextChangeMin minutes to the next change or the end, > 0
- */
-export function averagedStepMin(ageMin: number, toNextChangeMin: number): number {
-  const step = Math.min(
-    averagedSteps.maxStepMin,
-    Math.max(averagedSteps.minStepMin, ageMin / averagedSteps.ageDivisor),
-  );
-  return Math.min(step, toNextChangeMin);
+export function triangular(random: () => number, low: number, mode: number, high: number): number {
+  if (!(high > low)) return low;
+  const peak = Math.min(high, Math.max(low, mode));
+  const u = random();
+  const split = (peak - low) / (high - low);
+  return u < split
+    ? low + Math.sqrt(u * (high - low) * (peak - low))
+    : high - Math.sqrt((1 - u) * (high - low) * (high - peak));
 }
 
-type AveragedResult = { inductionMin: number | null; recoveryMin: number | null };
-
-/**
- * Where to record the brain partial pressure (vol %) of an averaged run: at each of `timesMin`
- * (ascending), linearly interpolated within the step that spans it. The run then goes on to the end
- * instead of stopping once its milestones are found.
- */
-export type BrainCurve = { readonly timesMin: readonly number[]; readonly brainPct: Float64Array };
-
-/**
- * Breath-averaged run of a plan with sampled parameters. Allocation-free apart from the result.
- * @param setup nominal setup of the breath-resolved run
- * @param inspiredGrid breath-averaged inspired fraction of the nominal run, one value per grid step
- * @param gridStepMin step of that grid, minutes
- * @param sample sampled parameters (nominal: all multiples 1)
- */
-export function runAveraged(
-  setup: SimulationSetup,
-  inspiredGrid: Float64Array,
-  gridStepMin: number,
-  sample: SampleParameters,
-  curve?: BrainCurve,
-): AveragedResult {
-  const gas = setup.gasPath;
-  const vt0 = setup.ventilation.restingTidalVolumeMl * sample.tidalVolumeMultiple;
-  const rate0 = setup.ventilation.restingBreathsPerMin * sample.breathsPerMinMultiple;
-  const deadSpace = gas.trachealVolumeMl;
-  const lungVolume = gas.lungVolumeMl * sample.lungMultiple;
-  const posteriorVolume = gas.posteriorSacsMl * sample.airSacMultiple;
-  const anteriorVolume = gas.anteriorSacsMl * sample.airSacMultiple;
-  const pShare = gas.posteriorShare;
-  const aShare = 1 - pShare;
-  const body = setup.body;
-  const cardiac =
-    (body.groups[0].flowMlMin + body.groups[1].flowMlMin + body.groups[2].flowMlMin) *
-    sample.cardiacOutputMultiple;
-  const q0 = cardiac * sample.flowFractions[0];
-  const q1 = cardiac * sample.flowFractions[1];
-  const q2 = cardiac * sample.flowFractions[2];
-  const v0 = body.groups[0].volumeMl * sample.volumeMultiples[0] * body.groups[0].tissueBloodPartition;
-  const v1 = body.groups[1].volumeMl * sample.volumeMultiples[1] * body.groups[1].tissueBloodPartition;
-  const v2 = body.groups[2].volumeMl * sample.volumeMultiples[2] * body.groups[2].tissueBloodPartition;
-  const bloodVolume = body.bloodVolumeMl * sample.bloodVolumeMultiple;
-  const lambda = sample.bloodGasPartition;
-  const mac = (setup.macPct * sample.macMultiple) / 100;
-  const inductionLevel = (setup.inductionBrainPct / setup.macPct) * mac;
-  const recoveryLevel = (setup.recoveryBrainPct / setup.macPct) * mac;
-  const tube = setup.delivery.interface === 'airSacTube';
-  const tubeFlow = tube ? setup.delivery.freshGasMlMin : 0;
-  const ippv = setup.ventilation.ippv;
-  const offMin = setup.offMin;
-
-  const depressionFloor = setup.ventilation.depressionFloor;
-  const depressionSlope = sample.depressionSlope;
-  const ippvFrom = ippv === null ? Number.POSITIVE_INFINITY : ippv.fromMin;
-  const schedule = setup.schedule;
-
-  let posterior = 0;
-  let lung = 0;
-  let anterior = 0;
-  let exhaledMix = 0;
-  let venous = 0;
-  let brain = 0;
-  let muscle = 0;
-  let fat = 0;
-  let inductionMin: number | null = null;
-  let recoveryMin: number | null = null;
-  let tidal = 0;
-  let ventilation = 0;
-  let deadShare = 0;
-  let throughLung = 0;
-  let endFactor = 1;
-  let arterialFactor = 1;
-  let rPosterior = 0;
-  let rLung = 0;
-  let rAnterior = 0;
-  const lastGrid = inspiredGrid.length - 1;
-  const endMin = setup.endMin;
-  let curveIndex = 0;
-  const curveTimes = curve?.timesMin ?? [];
-  // Times at which the inputs change: dial steps and the start of IPPV.
-  const changes: number[] = schedule.map((entry) => entry.atMin);
-  if (ippv !== null) changes.push(ippv.fromMin);
-  changes.sort((a, b) => a - b);
-  let changeIndex = 0;
-  let lastChange = 0;
-  let dt = 0;
-  let e0 = 1;
-  let e1 = 1;
-  let e2 = 1;
-  let venousGain = 0;
-  let venousLoss = 1;
-  let time = 0;
-  while (time < endMin - 1e-9) {
-    while (changeIndex < changes.length && (changes[changeIndex] as number) <= time + 1e-9) {
-      lastChange = changes[changeIndex] as number;
-      changeIndex += 1;
-    }
-    const nextChange = changeIndex < changes.length ? (changes[changeIndex] as number) : endMin;
-    const step = averagedStepMin(time - lastChange, Math.min(nextChange, endMin) - time);
-    if (step !== dt) {
-      dt = step;
-      e0 = Math.exp((-q0 * dt) / v0);
-      e1 = Math.exp((-q1 * dt) / v1);
-      e2 = Math.exp((-q2 * dt) / v2);
-      venousGain = dt / bloodVolume;
-      venousLoss = 1 + (cardiac * dt) / bloodVolume;
-      tidal = -1;
-    }
-    let nextTidal: number;
-    let rate: number;
-    if (time >= ippvFrom && ippv !== null) {
-      nextTidal = ippv.tidalVolumeMl;
-      rate = ippv.breathsPerMin;
-    } else {
-      const depression = Math.max(depressionFloor, 1 - (depressionSlope * brain) / mac);
-      const depressionUsed = Math.round(depression / depressionQuantum) * depressionQuantum;
-      nextTidal = vt0 * depressionUsed;
-      rate = rate0;
-    }
-    if (nextTidal !== tidal || nextTidal * rate !== ventilation) {
-      tidal = nextTidal;
-      ventilation = tidal * rate;
-      deadShare = Math.min(1, deadSpace / tidal);
-      throughLung = ventilation + tubeFlow;
-      const k = (lambda * cardiac) / throughLung;
-      endFactor = Math.exp(-k);
-      arterialFactor = k > 1e-12 ? -Math.expm1(-k) / k : 1;
-      rPosterior = (throughLung * dt) / posteriorVolume;
-      rLung = (throughLung * dt) / lungVolume;
-      rAnterior = (aShare * ventilation * dt) / anteriorVolume;
-    }
-    const gridIndex = Math.min(lastGrid, Math.floor(time / gridStepMin));
-    const inspired = inspiredGrid[gridIndex] as number;
-    const tubeGas = tube ? dialPctAt(schedule, time) / 100 : 0;
-    const tracheal = (1 - deadShare) * inspired + deadShare * exhaledMix;
-    const inflow = (ventilation * tracheal + tubeFlow * tubeGas) / throughLung;
-    posterior = (posterior + rPosterior * inflow) / (1 + rPosterior);
-    const endGas = venous + (posterior - venous) * endFactor;
-    const arterial = venous + (posterior - venous) * arterialFactor;
-    lung = (lung + rLung * endGas) / (1 + rLung);
-    anterior = (anterior + rAnterior * lung) / (1 + rAnterior);
-    exhaledMix = pShare * lung + aShare * anterior;
-    const brainBefore = brain;
-    brain = arterial + (brain - arterial) * e0;
-    muscle = arterial + (muscle - arterial) * e1;
-    fat = arterial + (fat - arterial) * e2;
-    venous = (venous + venousGain * (q0 * brain + q1 * muscle + q2 * fat)) / venousLoss;
-    const end = time + dt;
-    if (curve !== undefined) {
-      while (curveIndex < curveTimes.length && (curveTimes[curveIndex] as number) <= end + 1e-9) {
-        const at = curveTimes[curveIndex] as number;
-        const fraction = dt > 0 ? Math.min(1, Math.max(0, (at - time) / dt)) : 1;
-        curve.brainPct[curveIndex] = (brainBefore + (brain - brainBefore) * fraction) * 100;
-        curveIndex += 1;
-      }
-    }
-    if (inductionMin === null && brain >= inductionLevel) {
-      inductionMin = time + (dt * (inductionLevel - brainBefore)) / (brain - brainBefore || 1);
-      if (offMin === null && curve === undefined) break;
-    }
-    if (offMin !== null && recoveryMin === null && end >= offMin - 1e-9 && brain < recoveryLevel) {
-      const crossing =
-        brainBefore >= recoveryLevel && time >= offMin - 1e-9
-          ? time + (dt * (brainBefore - recoveryLevel)) / (brainBefore - brain)
-          : end;
-      recoveryMin = Math.max(0, crossing - offMin);
-      if (curve === undefined) break;
-    }
-    time = end;
-  }
-  if (curve !== undefined)
-    for (; curveIndex < curveTimes.length; curveIndex += 1) curve.brainPct[curveIndex] = brain * 100;
-  return { inductionMin, recoveryMin };
+/** Triangular draw over a parameter's declared range with its mode at the parameter's value. */
+function drawParameter(random: () => number, parameter: ModelParameter): number {
+  return triangular(random, parameter.range[0], parameter.value, parameter.range[1]);
 }
 
-/** Nominal sample: every multiple 1, parameters at their stated values. */
-export function nominalSample(setup: SimulationSetup): SampleParameters {
-  return {
-    bloodGasPartition: setup.body.bloodGasPartition,
-    cardiacOutputMultiple: 1,
-    tidalVolumeMultiple: 1,
-    breathsPerMinMultiple: 1,
-    airSacMultiple: 1,
-    lungMultiple: 1,
-    bloodVolumeMultiple: 1,
-    volumeMultiples: [1, 1, 1],
-    flowFractions: [
-      tissueGroups[0]?.flowFraction.value ?? 0.75,
-      tissueGroups[1]?.flowFraction.value ?? 0.2,
-      tissueGroups[2]?.flowFraction.value ?? 0.05,
-    ],
-    macMultiple: 1,
-    depressionSlope: setup.ventilation.depressionSlope,
-  };
-}
-
-function uniform(random: () => number, low: number, high: number): number {
-  return low + (high - low) * random();
+/** Sampled threshold over its nominal value (1 without a range). */
+function thresholdMultiple(
+  random: () => number,
+  range: readonly [number, number, number] | undefined,
+): number {
+  if (range === undefined || range[1] <= 0) return 1;
+  return triangular(random, range[0], range[1], range[2]) / range[1];
 }
 
 /** Standard normal by Box-Muller, truncated to +/-2.5 SD. */
@@ -303,150 +105,252 @@ export type UncertaintyInput = {
   readonly macSdPct: number | null;
   readonly samples: number;
   readonly seed: number;
+  /** Blood/gas range of the agent; the nominal value is the setup's. */
   readonly bloodGasRange: readonly [number, number];
   /**
-   * The breath-resolved brain curve (vol %) and its times; when given, the run also returns the
-   * 5th-95th percentile band around it.
+   * The nominal brain curve (vol %) and its times; when given, the run also returns the
+   * 5th-95th percentile band of the sampled brain curves at the same times.
    */
   readonly brainTimeline?: { readonly timeMin: readonly number[]; readonly brainPct: readonly number[] };
+  /** Mask dead space entered for this plan (not sampled) rather than the default (sampled). */
+  readonly maskEntered?: { readonly deadSpace: boolean };
+};
+
+/** One sampled set-up with the multipliers drawn for it. */
+type Draw = { readonly setup: SimulationSetup; readonly macMultiple: number };
+
+function drawSetup(
+  input: UncertaintyInput,
+  random: () => number,
+  macRelativeSd: number,
+  maskDefaults: { deadSpace: boolean },
+): Draw {
+  const { setup } = input;
+  const gas = setup.gasPath;
+  const body = setup.body;
+  const lambda = triangular(random, input.bloodGasRange[0], body.bloodGasPartition, input.bloodGasRange[1]);
+  const cardiac =
+    (body.groups[0].flowMlMin + body.groups[1].flowMlMin + body.groups[2].flowMlMin) *
+    drawParameter(random, cardiacOutputSpread);
+  const tidalMultiple = drawParameter(random, ventilationSpread);
+  const rateMultiple = drawParameter(random, ventilationSpread);
+  const sacs =
+    ((gas.anteriorSacsMl + gas.posteriorSacsMl) * drawParameter(random, airSacVolumeFraction)) /
+    airSacVolumeFraction.value;
+  const share = drawParameter(random, posteriorSacShare);
+  const lung = (gas.lungVolumeMl * drawParameter(random, lungVolumeFraction)) / lungVolumeFraction.value;
+  const trachea = gas.trachealVolumeMl * drawParameter(random, trachealVolumeSpread);
+  const bloodVolume =
+    (body.bloodVolumeMl * drawParameter(random, bloodVolumeFraction)) / bloodVolumeFraction.value;
+  const flows = [0, 0, 0];
+  let flowTotal = 0;
+  const groups: TissueGroup[] = [];
+  for (let index = 0; index < 3; index += 1) {
+    const parameters = tissueGroups[index];
+    const group = body.groups[index] as TissueGroup;
+    if (parameters === undefined) throw new Error('three tissue groups expected');
+    const volume =
+      (group.volumeMl * drawParameter(random, parameters.volumeFraction)) / parameters.volumeFraction.value;
+    const flow = drawParameter(random, parameters.flowFraction);
+    flows[index] = flow;
+    flowTotal += flow;
+    groups.push({
+      volumeMl: volume,
+      flowMlMin: 0,
+      tissueBloodPartition: group.tissueBloodPartition * drawParameter(random, tissueBloodPartitionSpread),
+    });
+  }
+  const sampledGroups = groups.map((group, index) => ({
+    ...group,
+    flowMlMin: (cardiac * (flows[index] as number)) / flowTotal,
+  }));
+  const macMultiple = Math.max(0.3, 1 + macRelativeSd * normal(random));
+  const slope = drawParameter(random, ventilatoryDepressionSlope);
+  const floor = drawParameter(random, ventilatoryDepressionFloor);
+  const rebreathing = drawParameter(random, rebreathingFlowMultiple);
+  const maskDeadSpaceMultiple =
+    drawParameter(random, defaultMaskDeadSpaceTidalMultiple) / defaultMaskDeadSpaceTidalMultiple.value;
+  const delivery = setup.delivery;
+  return {
+    macMultiple,
+    setup: {
+      ...setup,
+      gasPath: {
+        trachealVolumeMl: trachea,
+        lungVolumeMl: lung,
+        anteriorSacsMl: sacs * (1 - share),
+        posteriorSacsMl: sacs * share,
+        posteriorShare: share,
+      },
+      body: {
+        bloodGasPartition: lambda,
+        bloodVolumeMl: bloodVolume,
+        groups: [
+          sampledGroups[0] as TissueGroup,
+          sampledGroups[1] as TissueGroup,
+          sampledGroups[2] as TissueGroup,
+        ],
+      },
+      delivery: {
+        ...delivery,
+        rebreathingFlowMultiple: rebreathing,
+        maskDeadSpaceMl: maskDefaults.deadSpace
+          ? delivery.maskDeadSpaceMl * maskDeadSpaceMultiple
+          : delivery.maskDeadSpaceMl,
+      },
+      ventilation: {
+        ...setup.ventilation,
+        restingTidalVolumeMl: setup.ventilation.restingTidalVolumeMl * tidalMultiple,
+        restingBreathsPerMin: setup.ventilation.restingBreathsPerMin * rateMultiple,
+        depressionSlope: slope,
+        depressionFloor: floor,
+      },
+      macPct: setup.macPct * macMultiple,
+      inductionBrainPct: setup.inductionBrainPct * macMultiple,
+      recoveryBrainPct:
+        setup.recoveryBrainPct * macMultiple * thresholdMultiple(random, setup.recoveryThresholdRange),
+      ...(setup.milestoneBrainPct === undefined
+        ? {}
+        : {
+            milestoneBrainPct: setup.milestoneBrainPct.map((level) => ({
+              ...level,
+              brainPct: level.brainPct * macMultiple * thresholdMultiple(random, level.thresholdRange),
+            })),
+          }),
+      onPhase: undefined,
+    },
+  };
+}
+
+/** A milestone's band over the samples, with the share of samples that reached it. */
+export type MilestoneBand = {
+  /** Percentiles; a percentile among samples beyond the window is the window length. Null without samples. */
+  readonly percentiles: Percentiles | null;
+  /** Samples that reached the milestone within the window. */
+  readonly reached: number;
+  /** Share of samples that reached it, 0-1 (1 without samples). */
+  readonly reachedShare: number;
+  /** "not reached by N % of birds like this" when some samples did not reach it, else null. */
+  readonly note: string | null;
 };
 
 /**
- * p5 / p50 / p95 of induction and recovery times over sampled parameters.
+ * Band of one milestone. Samples that did not reach it are beyond the window (Infinity).
+ * @param values crossing times, min, Infinity when not reached
+ * @param windowMin length of the window the milestone is timed in, min
+ */
+export function milestoneBand(values: number[], windowMin: number): MilestoneBand {
+  if (values.length === 0) return { percentiles: null, reached: 0, reachedShare: 1, note: null };
+  values.sort((a, b) => a - b);
+  const reached = values.filter((value) => Number.isFinite(value)).length;
+  const share = reached / values.length;
+  const notReachedPct = Math.round((1 - share) * 100);
+  const note =
+    reached < values.length
+      ? `not reached by ${String(notReachedPct === 0 ? '<1' : notReachedPct)} % of birds like this`
+      : null;
+  if (reached === 0) return { percentiles: null, reached, reachedShare: share, note };
+  const capped = (fraction: number) => Math.min(windowMin, percentile(values, fraction));
+  return {
+    percentiles: { p5: capped(0.05), p50: capped(0.5), p95: capped(0.95) },
+    reached,
+    reachedShare: share,
+    note,
+  };
+}
+
+/**
+ * p5 / p50 / p95 of induction and recovery times (and of any further milestone levels of the
+ * setup) over sampled parameters, each sample a full run of the same simulation as the point
+ * estimate, and the 5th-95th percentile band of the brain curve when a timeline is given.
  * @param input nominal setup and outcome, sample count (0-5000) and seed
  */
-export function runUncertainty(input: UncertaintyInput): PlanUncertainty {
-  const { setup, outcome } = input;
-  const nominal = nominalSample(setup);
-  const nominalAveraged = runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, nominal);
-  const inductionScale = scaleOf(outcome.inductionMin, nominalAveraged.inductionMin);
-  const recoveryScale = scaleOf(outcome.recoveryMin, nominalAveraged.recoveryMin);
+export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, 'milestones'> & {
+  /** Bands of setup.milestoneBrainPct, in the same order. */
+  readonly milestoneBands: readonly MilestoneBand[];
+} {
+  const { setup } = input;
   const random = seededRandom(input.seed);
   const macRelativeSd = input.macSdPct !== null ? input.macSdPct / setup.macPct : macRelativeSpread.value;
-  const nominalAirSac = airSacVolumeFraction.value;
-  const nominalLung = lungVolumeFraction.value;
-  const nominalBlood = bloodVolumeFraction.value;
+  const maskDefaults = {
+    deadSpace: setup.delivery.interface === 'mask' && input.maskEntered?.deadSpace !== true,
+  };
   const inductions: number[] = [];
   const recoveries: number[] = [];
-  const sample = nominalSample(setup);
-  // The band: each sample's averaged brain curve relative to the nominal averaged curve, applied to
-  // the breath-resolved curve, so the band is centred on what the screen draws.
+  const levelCount = setup.milestoneBrainPct?.length ?? 0;
+  const levelTimes: number[][] = Array.from({ length: levelCount }, () => []);
   const timeline = input.brainTimeline;
   const points = timeline === undefined || input.samples === 0 ? 0 : timeline.timeMin.length;
-  const nominalCurve =
-    points === 0
-      ? null
-      : { timesMin: (timeline as NonNullable<typeof timeline>).timeMin, brainPct: new Float64Array(points) };
-  if (nominalCurve !== null)
-    runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, nominal, nominalCurve);
-  const sampleCurve =
-    nominalCurve === null
-      ? undefined
-      : { timesMin: nominalCurve.timesMin, brainPct: new Float64Array(points) };
   const curves = new Float64Array(points * input.samples);
   for (let index = 0; index < input.samples; index += 1) {
-    sample.bloodGasPartition = uniform(random, input.bloodGasRange[0], input.bloodGasRange[1]);
-    sample.cardiacOutputMultiple = uniform(
-      random,
-      cardiacOutputSpread.range[0],
-      cardiacOutputSpread.range[1],
-    );
-    sample.tidalVolumeMultiple = uniform(random, ventilationSpread.range[0], ventilationSpread.range[1]);
-    sample.breathsPerMinMultiple = uniform(random, ventilationSpread.range[0], ventilationSpread.range[1]);
-    sample.airSacMultiple =
-      uniform(random, airSacVolumeFraction.range[0], airSacVolumeFraction.range[1]) / nominalAirSac;
-    sample.lungMultiple =
-      uniform(random, lungVolumeFraction.range[0], lungVolumeFraction.range[1]) / nominalLung;
-    sample.bloodVolumeMultiple =
-      uniform(random, bloodVolumeFraction.range[0], bloodVolumeFraction.range[1]) / nominalBlood;
-    let flowTotal = 0;
-    for (let group = 0; group < 3; group += 1) {
-      const parameters = tissueGroups[group];
-      if (parameters === undefined) continue;
-      sample.volumeMultiples[group] =
-        uniform(random, parameters.volumeFraction.range[0], parameters.volumeFraction.range[1]) /
-        parameters.volumeFraction.value;
-      const flow = uniform(random, parameters.flowFraction.range[0], parameters.flowFraction.range[1]);
-      sample.flowFractions[group] = flow;
-      flowTotal += flow;
-    }
-    for (let group = 0; group < 3; group += 1)
-      sample.flowFractions[group] = (sample.flowFractions[group] as number) / flowTotal;
-    sample.macMultiple = Math.max(0.3, 1 + macRelativeSd * normal(random));
-    sample.depressionSlope = uniform(
-      random,
-      ventilatoryDepressionSlope.range[0],
-      ventilatoryDepressionSlope.range[1],
-    );
-    const result = runAveraged(setup, outcome.inspiredGrid, outcome.inspiredGridStepMin, sample, sampleCurve);
-    if (sampleCurve !== undefined && nominalCurve !== null && timeline !== undefined) {
-      for (let point = 0; point < points; point += 1) {
-        const reference = nominalCurve.brainPct[point] as number;
-        const resolved = timeline.brainPct[point] as number;
-        const own = sampleCurve.brainPct[point] as number;
-        curves[index * points + point] = reference > 1e-9 ? resolved * (own / reference) : own;
-      }
-    }
-    if (result.inductionMin !== null) inductions.push(result.inductionMin * inductionScale);
-    if (result.recoveryMin !== null) recoveries.push(result.recoveryMin * recoveryScale);
+    const draw = drawSetup(input, random, macRelativeSd, maskDefaults);
+    const result = simulate(draw.setup);
+    inductions.push(result.inductionMin ?? Number.POSITIVE_INFINITY);
+    if (setup.offMin !== null) recoveries.push(result.recoveryMin ?? Number.POSITIVE_INFINITY);
+    for (let level = 0; level < levelCount; level += 1)
+      (levelTimes[level] as number[]).push(result.milestoneMin[level] ?? Number.POSITIVE_INFINITY);
+    const brain = result.timeline.brainPct;
+    for (let point = 0; point < points; point += 1) curves[index * points + point] = brain[point] ?? 0;
   }
-  const parameters: UncertaintyParameter[] = [
+  const recoveryWindow = setup.offMin === null ? 0 : setup.endMin - setup.offMin;
+  const induction = milestoneBand(inductions, setup.endMin);
+  const recovery = milestoneBand(recoveries, recoveryWindow);
+  const milestoneBands = levelTimes.map((values, level) =>
+    milestoneBand(
+      values,
+      setup.milestoneBrainPct?.[level]?.direction === 'down' ? recoveryWindow : setup.endMin,
+    ),
+  );
+  return {
+    samples: input.samples,
+    seed: input.seed,
+    brainBandPct: points === 0 ? null : bandOf(curves, input.samples, points),
+    inductionMin: induction.percentiles,
+    recoveryMin: recovery.percentiles,
+    inductionReached: induction.reached,
+    recoveryReached: recovery.reached,
+    inductionReachedShare: induction.reachedShare,
+    recoveryReachedShare: recovery.reachedShare,
+    inductionNote: induction.note,
+    recoveryNote: recovery.note,
+    parameters: sampledParameters(input, macRelativeSd, maskDefaults),
+    method:
+      'Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD) by a seeded Mulberry32 generator. Samples that do not reach a milestone within the simulated window count as beyond it',
+    milestoneBands,
+  };
+}
+
+function sampledParameters(
+  input: UncertaintyInput,
+  macRelativeSd: number,
+  maskDefaults: { deadSpace: boolean },
+): UncertaintyParameter[] {
+  const of = (name: string, parameter: ModelParameter, note = ''): UncertaintyParameter => ({
+    name,
+    low: parameter.range[0],
+    high: parameter.range[1],
+    basis: `${parameter.basis}${note}`,
+  });
+  return [
     {
       name: 'bloodGasPartition',
       low: input.bloodGasRange[0],
       high: input.bloodGasRange[1],
       basis: 'Human blood/gas range of the agent (see app/core/agents.ts); assumption for birds',
     },
-    {
-      name: 'cardiacOutputMultiple',
-      low: cardiacOutputSpread.range[0],
-      high: cardiacOutputSpread.range[1],
-      basis: cardiacOutputSpread.basis,
-    },
-    {
-      name: 'tidalVolumeMultiple',
-      low: ventilationSpread.range[0],
-      high: ventilationSpread.range[1],
-      basis: ventilationSpread.basis,
-    },
-    {
-      name: 'breathsPerMinMultiple',
-      low: ventilationSpread.range[0],
-      high: ventilationSpread.range[1],
-      basis: ventilationSpread.basis,
-    },
-    {
-      name: 'airSacVolumeFraction',
-      low: airSacVolumeFraction.range[0],
-      high: airSacVolumeFraction.range[1],
-      basis: airSacVolumeFraction.basis,
-    },
-    {
-      name: 'lungVolumeFraction',
-      low: lungVolumeFraction.range[0],
-      high: lungVolumeFraction.range[1],
-      basis: lungVolumeFraction.basis,
-    },
-    {
-      name: 'bloodVolumeFraction',
-      low: bloodVolumeFraction.range[0],
-      high: bloodVolumeFraction.range[1],
-      basis: bloodVolumeFraction.basis,
-    },
+    of('cardiacOutputMultiple', cardiacOutputSpread),
+    of('tidalVolumeMultiple', ventilationSpread),
+    of('breathsPerMinMultiple', ventilationSpread),
+    of('airSacVolumeFraction', airSacVolumeFraction),
+    of('posteriorSacShare', posteriorSacShare),
+    of('lungVolumeFraction', lungVolumeFraction),
+    of('trachealVolumeMultiple', trachealVolumeSpread),
+    of('bloodVolumeFraction', bloodVolumeFraction),
     ...tissueGroups.flatMap((group) => [
-      {
-        name: `${group.id}VolumeFraction`,
-        low: group.volumeFraction.range[0],
-        high: group.volumeFraction.range[1],
-        basis: group.volumeFraction.basis,
-      },
-      {
-        name: `${group.id}FlowFraction`,
-        low: group.flowFraction.range[0],
-        high: group.flowFraction.range[1],
-        basis: `${group.flowFraction.basis} (fractions renormalised to sum 1)`,
-      },
+      of(`${group.id}VolumeFraction`, group.volumeFraction),
+      of(`${group.id}FlowFraction`, group.flowFraction, ' (fractions renormalised to sum 1)'),
     ]),
+    of('tissueBloodPartitionMultiple', tissueBloodPartitionSpread),
     {
       name: 'macMultiple',
       low: Math.max(0.3, 1 - 2.5 * macRelativeSd),
@@ -456,25 +360,11 @@ export function runUncertainty(input: UncertaintyInput): PlanUncertainty {
           ? 'Normal with the published SD of the MAC in use, truncated at 2.5 SD'
           : `${macRelativeSpread.basis}; normal, truncated at 2.5 SD`,
     },
-    {
-      name: 'depressionSlope',
-      low: ventilatoryDepressionSlope.range[0],
-      high: ventilatoryDepressionSlope.range[1],
-      basis: ventilatoryDepressionSlope.basis,
-    },
+    of('depressionSlope', ventilatoryDepressionSlope),
+    of('depressionFloor', ventilatoryDepressionFloor),
+    of('rebreathingFlowMultiple', rebreathingFlowMultiple),
+    ...(maskDefaults.deadSpace ? [of('maskDeadSpaceTidalMultiple', defaultMaskDeadSpaceTidalMultiple)] : []),
   ];
-  return {
-    samples: input.samples,
-    seed: input.seed,
-    brainBandPct: points === 0 ? null : bandOf(curves, input.samples, points),
-    inductionMin: summarise(inductions),
-    recoveryMin: summarise(recoveries),
-    inductionReached: inductions.length,
-    recoveryReached: recoveries.length,
-    parameters,
-    method:
-      'Uniform sampling over the stated ranges (MAC: truncated normal) with a seeded Mulberry32 generator; each sample runs the breath-averaged gas path (steps of 0.02 min after each dial change growing to 1 min in steady periods, inspired gas from the nominal run), scaled so that its nominal milestones equal the breath-resolved ones',
-  };
 }
 
 /** 5th and 95th percentile at each time point of sample curves stored sample-major. */
@@ -485,19 +375,8 @@ function bandOf(curves: Float64Array, samples: number, points: number): { p5: nu
   for (let point = 0; point < points; point += 1) {
     for (let index = 0; index < samples; index += 1) column[index] = curves[index * points + point] as number;
     column.sort();
-    p5.push(Math.round(percentile(column as unknown as number[], 0.05) * 1e5) / 1e5);
-    p95.push(Math.round(percentile(column as unknown as number[], 0.95) * 1e5) / 1e5);
+    p5.push(Math.round(percentile(column, 0.05) * 1e5) / 1e5);
+    p95.push(Math.round(percentile(column, 0.95) * 1e5) / 1e5);
   }
   return { p5, p95 };
-}
-
-function scaleOf(resolved: number | null, averaged: number | null): number {
-  if (resolved === null || averaged === null || averaged <= 0) return 1;
-  return resolved / averaged;
-}
-
-function summarise(values: number[]): Percentiles | null {
-  if (values.length === 0) return null;
-  values.sort((a, b) => a - b);
-  return { p5: percentile(values, 0.05), p50: percentile(values, 0.5), p95: percentile(values, 0.95) };
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   chamberTimeToFractionMin,
+  practicalMinimumFlowLpm,
   rebreathingCheck,
   recommendFreshGas,
 } from '../../../app/core/budget/flows.js';
@@ -46,7 +47,19 @@ describe('recommended fresh gas flow', () => {
       minuteVentilationMlMin: 20,
     });
     expect(flow.recommendedLpm).toBe(0.5);
-    expect(flow.minimumLpm).toBeCloseTo(0.04, 9);
+    // 2 x 20 mL/min = 0.04 L/min is below any flow a flowmeter sets: the minimum offered is the
+    // practical minimum (assumption, practicalMinimumFlowLpm), while rebreathing starts below 0.04.
+    expect(flow.minimumLpm).toBe(practicalMinimumFlowLpm.value);
+    const check = rebreathingCheck({
+      circuit: 'nonRebreathing',
+      freshGasLpm: 0.1,
+      minuteVentilationMlMin: 20,
+      bodyMassG: 32,
+      route: 'endotracheal',
+    });
+    expect(check.rebreathing).toBe(false);
+    expect(check.rebreathingBelowLpm).toBeCloseTo(0.04, 9);
+    expect(check.minimumLpm).toBe(practicalMinimumFlowLpm.value);
   });
 
   it('raises the flow to 500 mL/kg/min when that is higher than 3 x minute ventilation', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { computePlan } from '../../../app/core/model/compute-plan.js';
-import { percentile, seededRandom } from '../../../app/core/model/uncertainty.js';
+import { milestoneBand, percentile, seededRandom, triangular } from '../../../app/core/model/uncertainty.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import { twoHourBudgerigarPlan } from './plan-fixtures.js';
 
@@ -105,5 +105,90 @@ describe('uncertainty band on the brain curve', () => {
       { species: speciesReference },
     );
     expect(quick.uncertainty.brainBandPct).toBeNull();
+  });
+});
+
+describe('triangular draws', () => {
+  it('stay within the range and centre on the nominal value (mean (low + mode + high) / 3)', () => {
+    // Mean of a triangular distribution is (a + b + c) / 3 [common practice, textbook property]
+    const random = seededRandom(11);
+    let sum = 0;
+    const count = 20000;
+    for (let index = 0; index < count; index += 1) {
+      const value = triangular(random, 0.7, 1, 1.4);
+      expect(value).toBeGreaterThanOrEqual(0.7);
+      expect(value).toBeLessThanOrEqual(1.4);
+      sum += value;
+    }
+    expect(sum / count).toBeCloseTo((0.7 + 1 + 1.4) / 3, 2);
+    expect(triangular(random, 2, 2, 2)).toBe(2);
+  });
+});
+
+describe('an honest band', () => {
+  it('counts samples that never reach a milestone as beyond the window and says how many', () => {
+    const values = [1, 2, 3, Infinity, Infinity];
+    const band = milestoneBand(values, 30);
+    expect(band.reached).toBe(3);
+    expect(band.reachedShare).toBeCloseTo(0.6, 12);
+    expect(band.note).toBe('not reached by 40 % of birds like this');
+    // The 95th percentile falls among the unreached samples: reported as the window length.
+    expect(band.percentiles?.p95).toBe(30);
+    expect(band.percentiles?.p50).toBe(3);
+    const all = milestoneBand([1, 2, 3], 30);
+    expect(all.note).toBeNull();
+    expect(all.reachedShare).toBe(1);
+  });
+
+  it('reports the share reached for a plan whose maintenance sits near the planned depth', () => {
+    const plan = {
+      ...twoHourBudgerigarPlan,
+      speciesId: 'budgerigar',
+      uncertainty: { samples: 60, seed: 2 },
+      targetMacMultiple: 1.5,
+    };
+    const result = computePlan(plan, { species: speciesReference });
+    const u = result.uncertainty;
+    expect(u.inductionReachedShare).toBeCloseTo(u.inductionReached / u.samples, 12);
+    expect(u.inductionReachedShare).toBeLessThan(1);
+    expect(u.inductionNote).toMatch(/^not reached by \d+ % of birds like this$/);
+    expect(result.cautions.map((caution) => caution.code)).toContain('induction-not-reached-by-some');
+    const surgical = u.milestones.find((milestone) => milestone.id === 'surgicalDepth');
+    expect(surgical?.note).toBe(u.inductionNote);
+  });
+
+  it('samples every declared range, tissue coefficients, dead space and the milestone thresholds included', () => {
+    const result = computePlan(
+      { ...twoHourBudgerigarPlan, uncertainty: { samples: 2, seed: 1 } },
+      { species: speciesReference },
+    );
+    const names = result.uncertainty.parameters.map((parameter) => parameter.name);
+    for (const name of [
+      'bloodGasPartition',
+      'cardiacOutputMultiple',
+      'tidalVolumeMultiple',
+      'breathsPerMinMultiple',
+      'airSacVolumeFraction',
+      'posteriorSacShare',
+      'lungVolumeFraction',
+      'trachealVolumeMultiple',
+      'bloodVolumeFraction',
+      'vesselRichVolumeFraction',
+      'vesselRichFlowFraction',
+      'muscleVolumeFraction',
+      'muscleFlowFraction',
+      'fatVolumeFraction',
+      'fatFlowFraction',
+      'tissueBloodPartitionMultiple',
+      'macMultiple',
+      'depressionSlope',
+      'depressionFloor',
+      'rebreathingFlowMultiple',
+      'maskDeadSpaceTidalMultiple',
+      'lossOfRightingMacFraction',
+      'recoveryMacFraction',
+      'standingMacFraction',
+    ])
+      expect(names).toContain(name);
   });
 });
