@@ -73,17 +73,19 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
         request.meta,
         now(),
       );
-      if (saved === 'not-found') throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      if (saved === 'not-found')
+        throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       if (saved === 'stale')
         throw new RecordError(
           'conflict',
           'This plan was changed since you opened it; open its newest version and edit that.',
+          'id',
         );
       return saved;
     },
     'plans:get': (request) => {
       const plan = plans.get(request.id);
-      if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       const patient = plan.patientId === null ? null : patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
       const speciesRecord = speciesKey === undefined ? null : species.get(speciesKey);

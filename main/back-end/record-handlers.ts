@@ -34,9 +34,16 @@ export class RecordError extends Error {
   }
 }
 
-function found<T>(value: T | null, what: string): T {
+/**
+ * The value, or a not-found error naming `field`, the request's id that pointed at nothing.
+ */
+function found<T>(value: T | null, what: string, field = 'id'): T {
   if (value === null)
-    throw new RecordError('not-found', `${what} was not found; it may have been opened from an old link.`);
+    throw new RecordError(
+      'not-found',
+      `${what} was not found; it may have been opened from an old link.`,
+      field,
+    );
   return value;
 }
 
@@ -50,7 +57,7 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
     return write();
   } catch (error) {
     if (error instanceof WeightCorrectionError || error instanceof EntryCorrectionError)
-      throw new RecordError('conflict', error.message);
+      throw new RecordError('conflict', error.message, 'id');
     throw error;
   }
 }
@@ -100,7 +107,7 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
 
   /** An entry's time must lie within its record's span, with the stated tolerances. */
   function requireEntryWithinRecord(recordId: number, at: string) {
-    const record = found(procedures.get(recordId), `Procedure record ${String(recordId)}`);
+    const record = found(procedures.get(recordId), `Procedure record ${String(recordId)}`, 'recordId');
     refuse(entryTimeProblem(at, record.values, now()), 'values.at');
   }
 
@@ -156,7 +163,11 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'species:history': (request) => species.history(request.key),
     'species:add': (request) => species.add(request.values, request.meta, now()),
     'species:correct': (request) =>
-      found(species.correct(request.key, request.values, request.meta, now()), `Species ${request.key}`),
+      found(
+        species.correct(request.key, request.values, request.meta, now()),
+        `Species ${request.key}`,
+        'key',
+      ),
 
     'patients:search': (request) => ({
       patients: patients.search(request.query, request.limit),
@@ -178,7 +189,7 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     },
 
     'weights:add': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`);
+      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       refuse(
         weighingDateProblem(request.values.weighedOn, today(), request.meta.reason !== ''),
         'values.weighedOn',
@@ -201,7 +212,7 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'weights:history': (request) => weights.history(request.id),
 
     'procedures:create': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`);
+      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
