@@ -205,10 +205,8 @@ export function fingerprint(db: TidewingDatabase): string {
       .raw()
       .all();
     hash.update(`${String(rows.length)}\n`);
-    for (const row of rows)
-      hash.update(
-        JSON.stringify(row, (_key, value: unknown) => (typeof value === 'bigint' ? String(value) : value)),
-      );
+    // Integers come back as numbers (no safeIntegers), so JSON holds every value exactly.
+    hash.update(JSON.stringify(rows));
   }
   hash.update(String(db.pragma('user_version', { simple: true })));
   return hash.digest('hex');
