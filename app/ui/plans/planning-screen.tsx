@@ -1,9 +1,11 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
-import { checklistSchema, type Checklist } from '../../contract/plan-records.js';
+import { localDateOf, plannedDateProblem } from '../../contract/input-rules.js';
+import { checklistSchema, planFieldsSchema, type Checklist } from '../../contract/plan-records.js';
 import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { api } from '../common/bridge.js';
 import { displayDateTime, displayMass, todayIso } from '../common/display.js';
+import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { TextField } from '../common/fields.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useWriteMeta } from '../common/write-meta.js';
@@ -43,6 +45,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [checklist, setChecklist] = useState<Checklist>(emptyChecklist);
   const [plannedFor, setPlannedFor] = useState(todayIso());
   const [label, setLabel] = useState('');
+  const [saveErrors, setSaveErrors] = useState<FieldErrors>({});
   const [context, setContext] = useState<Context>({
     patientId: null,
     patientLabel: null,
@@ -117,6 +120,21 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       setSaveMessage({ kind: 'failed', text: 'Not saved: correct the plan inputs marked in plan A first.' });
       return;
     }
+    // The date and label are checked here with the contract's rules, so each message shows beside
+    // its box; a new plan dated more than a year away is refused (an edit carries a reason).
+    const localErrors: Record<string, string> = {};
+    const date = planFieldsSchema.shape.plannedFor.safeParse(plannedFor);
+    const dateProblem = date.success
+      ? plannedDateProblem(plannedFor, localDateOf(new Date()), context.savedPlanId !== null)
+      : (date.error.issues[0]?.message ?? null);
+    if (dateProblem !== null) localErrors['plannedFor'] = dateProblem;
+    const labelCheck = planFieldsSchema.shape.label.safeParse(label);
+    if (!labelCheck.success) localErrors['label'] = labelCheck.error.issues[0]?.message ?? 'Check the label.';
+    setSaveErrors(localErrors);
+    if (Object.keys(localErrors).length > 0) {
+      setSaveMessage({ kind: 'failed', text: 'Not saved: correct the fields marked above.' });
+      return;
+    }
     const who = writeMeta(context.savedPlanId === null ? '' : 'Plan edited');
     if ('missing' in who) {
       setSaveMessage({ kind: 'failed', text: who.missing });
@@ -128,6 +146,14 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         ? await api.invoke('plans:save', { fields, meta: who.meta })
         : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
     if (!answer.ok) {
+      setSaveErrors(
+        Object.fromEntries(
+          Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [
+            field.replace(/^fields\./, ''),
+            message,
+          ]),
+        ),
+      );
       setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
       return;
     }
@@ -176,6 +202,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           name="plannedFor"
           type="date"
           value={plannedFor}
+          error={saveErrors['plannedFor']}
           onChange={setPlannedFor}
         />
         <TextField
@@ -183,6 +210,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           name="label"
           value={label}
           placeholder="e.g. crop biopsy"
+          error={saveErrors['label']}
           onChange={setLabel}
         />
         <button type="button" className="primary" onClick={() => void save()}>

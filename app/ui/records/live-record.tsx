@@ -1,6 +1,7 @@
 import { useEffect, useId, useMemo, useRef, useState, type FormEvent } from 'react';
 import type { EventType, ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
 import type { ProcedureDetail } from '../../contract/record-channels.js';
+import { entryTimeProblem } from '../../contract/input-rules.js';
 import { formatMass } from '../../core/units.js';
 import { api } from '../common/bridge.js';
 import type { FieldErrors } from '../common/field-errors.js';
@@ -278,6 +279,7 @@ function LiveRecordScreen({
 
       <EntryRow
         units={units}
+        record={values}
         lastEntry={entries.filter((entry) => entry.values.kind === 'vitals').at(-1)?.values ?? null}
         onSave={addEntry}
       />
@@ -348,10 +350,13 @@ function LiveRecordScreen({
 
 function EntryRow({
   units,
+  record,
   lastEntry,
   onSave,
 }: {
   readonly units: DisplayUnits;
+  /** The record's start and end: a row's time must lie within them (with the contract's tolerances). */
+  readonly record: Pick<ProcedureRecordValues, 'startedAt' | 'endedAt'>;
   readonly lastEntry: ProcedureEntryValues | null;
   readonly onSave: (values: ProcedureEntryValues) => Promise<string | null>;
 }) {
@@ -366,9 +371,16 @@ function EntryRow({
   async function submit(event: FormEvent) {
     event.preventDefault();
     if (busy) return;
-    const checked = checkEntry({ timeText, readings, kind: 'vitals' }, units, new Date());
+    const now = new Date();
+    const checked = checkEntry({ timeText, readings, kind: 'vitals' }, units, now);
     if (!checked.ok) {
       setErrors(checked.errors);
+      return;
+    }
+    // The back end refuses a time outside the record too; checking here shows it by the time box.
+    const outside = entryTimeProblem(checked.values.at, record, now);
+    if (outside !== null) {
+      setErrors({ at: outside });
       return;
     }
     setErrors({});
