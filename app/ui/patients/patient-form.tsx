@@ -74,9 +74,10 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
       ? {}
       : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
     // The back end checks this against its clock too; checking here shows it before sending.
-    const hatchProblem = parsed.success
-      ? hatchDateProblem(parsed.data.hatchDate, localDateOf(new Date()))
-      : null;
+    const hatch = patientValuesSchema.shape.hatchDate.safeParse(
+      draft.hatchDate === '' ? null : draft.hatchDate,
+    );
+    const hatchProblem = hatch.success ? hatchDateProblem(hatch.data, localDateOf(new Date())) : null;
     if (hatchProblem !== null) local['hatchDate'] = hatchProblem;
     const reasonError: Record<string, string> =
       patientId !== null && reason.trim() === ''

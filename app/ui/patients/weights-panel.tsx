@@ -79,12 +79,8 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     if (editing !== null && reason.trim() === '')
       fieldErrors['reason'] = 'Say why; the reason is kept with the history.';
     // The back end checks the date against its clock too; checking here shows it before sending.
-    const dateProblem = parsed.success
-      ? weighingDateProblem(
-          parsed.data.weighedOn,
-          localDateOf(new Date()),
-          editing !== null || reason.trim() !== '',
-        )
+    const dateProblem = weightValuesSchema.shape.weighedOn.safeParse(weighedOn).success
+      ? weighingDateProblem(weighedOn, localDateOf(new Date()), editing !== null || reason.trim() !== '')
       : null;
     if (dateProblem !== null) fieldErrors['weighedOn'] = dateProblem;
     if (!parsed.success || Object.keys(fieldErrors).length > 0) {
