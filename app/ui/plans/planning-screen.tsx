@@ -46,6 +46,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [plannedFor, setPlannedFor] = useState(todayIso());
   const [label, setLabel] = useState('');
   const [saveErrors, setSaveErrors] = useState<FieldErrors>({});
+  const [dateReason, setDateReason] = useState('');
   const [context, setContext] = useState<Context>({
     patientId: null,
     patientLabel: null,
@@ -125,7 +126,11 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     const localErrors: Record<string, string> = {};
     const date = planFieldsSchema.shape.plannedFor.safeParse(plannedFor);
     const dateProblem = date.success
-      ? plannedDateProblem(plannedFor, localDateOf(new Date()), context.savedPlanId !== null)
+      ? plannedDateProblem(
+          plannedFor,
+          localDateOf(new Date()),
+          context.savedPlanId !== null || dateReason.trim() !== '',
+        )
       : (date.error.issues[0]?.message ?? null);
     if (dateProblem !== null) localErrors['plannedFor'] = dateProblem;
     const labelCheck = planFieldsSchema.shape.label.safeParse(label);
@@ -135,7 +140,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       setSaveMessage({ kind: 'failed', text: 'Not saved: correct the fields marked above.' });
       return;
     }
-    const who = writeMeta(context.savedPlanId === null ? '' : 'Plan edited');
+    const who = writeMeta(context.savedPlanId === null ? dateReason.trim() : 'Plan edited');
     if ('missing' in who) {
       setSaveMessage({ kind: 'failed', text: who.missing });
       return;
@@ -169,6 +174,11 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     window.history.replaceState(null, '', href('plans', answer.value.id));
   }
 
+  // A new plan dated more than a year either side of today is kept only with a reason.
+  const needsDateReason =
+    context.savedPlanId === null &&
+    planFieldsSchema.shape.plannedFor.safeParse(plannedFor).success &&
+    plannedDateProblem(plannedFor, localDateOf(new Date()), false) !== null;
   const editingB = active === 'B' && draftB !== null;
   // Stable, so the memoised form does not re-render when only the results change.
   const setShownDraft = useCallback(
@@ -205,6 +215,15 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           error={saveErrors['plannedFor']}
           onChange={setPlannedFor}
         />
+        {needsDateReason && (
+          <TextField
+            label="Reason (for a date more than a year away)"
+            name="reason"
+            value={dateReason}
+            error={saveErrors['meta.reason']}
+            onChange={setDateReason}
+          />
+        )}
         <TextField
           label="Label"
           name="label"
