@@ -3,6 +3,7 @@
  * each drug, its concentration, its dose range and the source it relies on for that dose.
  */
 import { z } from 'zod';
+import { freeText, namingText } from './input-rules.js';
 import { changeMetaSchema, correctionMetaSchema, recordStampSchema } from './records.js';
 
 const id = z.number({ error: 'An id must be a number.' }).int().positive();
@@ -22,32 +23,17 @@ function amount(what: string, unit: string, max: number) {
 
 export const emergencyDrugValuesSchema = z
   .object({
-    name: z
-      .string({ error: 'Drug name must be text.' })
-      .trim()
-      .min(1, { error: 'Enter the drug name.' })
-      .max(120, { error: 'Drug name must be at most 120 characters.' }),
+    name: namingText('Drug name', { max: 120, blank: 'Enter the drug name.' }),
     concentrationMgPerMl: amount('Concentration', 'mg/mL', 1000),
     doseLowMgPerKg: amount('Dose (low)', 'mg/kg', 1000),
     doseHighMgPerKg: amount('Dose (high)', 'mg/kg', 1000).nullable().default(null),
-    route: z
-      .string({ error: 'Route must be text.' })
-      .trim()
-      .min(1, { error: 'Enter the route, e.g. IV, IM, IO or intratracheal.' })
-      .max(60, { error: 'Route must be at most 60 characters.' }),
-    doseSource: z
-      .string({ error: 'Source of the dose must be text.' })
-      .trim()
-      .min(1, {
-        error:
-          'Enter the source of the dose (formulary, paper or clinic protocol); it is printed on the emergency card.',
-      })
-      .max(300, { error: 'Source of the dose must be at most 300 characters.' }),
-    notes: z
-      .string({ error: 'Notes must be text.' })
-      .trim()
-      .max(500, { error: 'Notes must be at most 500 characters.' })
-      .default(''),
+    route: namingText('Route', { max: 60, blank: 'Enter the route, e.g. IV, IM, IO or intratracheal.' }),
+    doseSource: namingText('Source of the dose', {
+      max: 300,
+      blank:
+        'Enter the source of the dose (formulary, paper or clinic protocol); it is printed on the emergency card.',
+    }),
+    notes: freeText('Notes', { max: 500, multiLine: true }),
   })
   .refine((values) => values.doseHighMgPerKg === null || values.doseHighMgPerKg >= values.doseLowMgPerKg, {
     error: 'Dose (high) must not be below dose (low).',

@@ -1,54 +1,54 @@
 import { z } from 'zod';
 import { planInputSchema, planResultSchema } from './plan.js';
 import { checklistStates } from './checklist.js';
+import { calendarDate, freeText, namingText } from './input-rules.js';
 import { patientSchema, recordStampSchema, speciesSchema } from './records.js';
 
 export { checklistItems, checklistStates, type ChecklistKey } from './checklist.js';
 
 const itemState = z.enum(checklistStates).default('open');
 
-export const checklistSchema = z.object({
-  asaGrade: z
-    .number()
-    .int()
-    .min(1, { error: 'ASA grade is 1 to 5.' })
-    .max(5, { error: 'ASA grade is 1 to 5.' })
-    .nullable()
-    .default(null),
-  emergency: z.boolean().default(false),
-  items: z
-    .object({
-      fastingAndCrop: itemState,
-      hydration: itemState,
-      bloods: itemState,
-      equipmentLeakCheck: itemState,
-      oxygenSupply: itemState,
-      scavenging: itemState,
-      emergencyCard: itemState,
-    })
-    .default({
-      fastingAndCrop: 'open',
-      hydration: 'open',
-      bloods: 'open',
-      equipmentLeakCheck: 'open',
-      oxygenSupply: 'open',
-      scavenging: 'open',
-      emergencyCard: 'open',
-    }),
-  notes: z
-    .string()
-    .trim()
-    .max(1000, { error: 'Checklist notes must be at most 1000 characters.' })
-    .default(''),
-});
-export type Checklist = z.infer<typeof checklistSchema>;
+/** The checklist; `checked` false for answers, which keep what was saved before a rule existed. */
+function checklist(checked: boolean) {
+  return z.object({
+    asaGrade: z
+      .number()
+      .int()
+      .min(1, { error: 'ASA grade is 1 to 5.' })
+      .max(5, { error: 'ASA grade is 1 to 5.' })
+      .nullable()
+      .default(null),
+    emergency: z.boolean().default(false),
+    items: z
+      .object({
+        fastingAndCrop: itemState,
+        hydration: itemState,
+        bloods: itemState,
+        equipmentLeakCheck: itemState,
+        oxygenSupply: itemState,
+        scavenging: itemState,
+        emergencyCard: itemState,
+      })
+      .default({
+        fastingAndCrop: 'open',
+        hydration: 'open',
+        bloods: 'open',
+        equipmentLeakCheck: 'open',
+        oxygenSupply: 'open',
+        scavenging: 'open',
+        emergencyCard: 'open',
+      }),
+    notes: checked ? freeText('Checklist notes', { max: 1000, multiLine: true }) : z.string().default(''),
+  });
+}
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Use a date as YYYY-MM-DD.' });
+export const checklistSchema = checklist(true);
+export type Checklist = z.infer<typeof checklistSchema>;
 
 export const planFieldsSchema = z.object({
   patientId: z.number().int().positive().nullable(),
-  plannedFor: isoDate,
-  label: z.string().trim().max(120, { error: 'Label must be at most 120 characters.' }).default(''),
+  plannedFor: calendarDate('Planned date'),
+  label: freeText('Label', { max: 120 }),
   input: planInputSchema,
   checklist: checklistSchema,
 });
@@ -61,7 +61,7 @@ export const savedPlanSchema = z.object({
   label: z.string(),
   input: planInputSchema,
   result: planResultSchema,
-  checklist: checklistSchema,
+  checklist: checklist(false),
   modelVersion: z.string(),
   stamp: recordStampSchema,
 });
@@ -95,12 +95,11 @@ export const planDetailSchema = z.object({
 export type PlanDetail = z.infer<typeof planDetailSchema>;
 
 const meta = z.object({
-  enteredBy: z
-    .string()
-    .trim()
-    .min(1, { error: 'Enter your initials at the top of the screen first; every record carries them.' })
-    .max(80),
-  reason: z.string().trim().max(500).default(''),
+  enteredBy: namingText('Name or initials', {
+    max: 80,
+    blank: 'Enter your initials at the top of the screen first; every record carries them.',
+  }),
+  reason: freeText('Reason', { max: 500, multiLine: true }),
 });
 
 /** Planning channels, merged into the one channel table. */
@@ -120,7 +119,7 @@ export const planChannels = {
     response: z.array(planSummarySchema),
   },
   'plans:day': {
-    request: z.object({ date: isoDate }),
+    request: z.object({ date: calendarDate('Day') }),
     response: z.object({
       date: z.string(),
       plans: z.array(planSummarySchema),

@@ -8,6 +8,7 @@ import { agentIds } from '../core/agents.js';
 import { cautionSeverities } from '../core/cautions.js';
 import { circuits, routes } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
+import { hasLetterOrDigit, hiddenCharacterProblem } from './input-rules.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
 
 /**
@@ -128,6 +129,15 @@ export const planInputSchema = strict(
     patientName: z
       .string({ error: 'patient name must be text' })
       .max(100, { error: 'patient name must be at most 100 characters' })
+      .superRefine((name, context) => {
+        const hidden = hiddenCharacterProblem('patient name', name);
+        if (hidden !== null) context.addIssue({ code: 'custom', message: hidden });
+        else if (name.trim() !== '' && !hasLetterOrDigit(name))
+          context.addIssue({
+            code: 'custom',
+            message: 'patient name must contain at least one letter or digit',
+          });
+      })
       .optional(),
     bodyMassG: boundedNumber('body mass', ' g', 5, 15000),
     speciesId: z

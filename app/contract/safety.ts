@@ -1,11 +1,11 @@
 import { z } from 'zod';
+import { namingText } from './input-rules.js';
 
 export const acknowledgeRequestSchema = z.object({
-  acknowledgedBy: z
-    .string({ error: 'Name or initials must be text.' })
-    .trim()
-    .min(1, { error: 'Enter your name or initials so the acknowledgement is attributable.' })
-    .max(80, { error: 'Name or initials must be at most 80 characters.' }),
+  acknowledgedBy: namingText('Name or initials', {
+    max: 80,
+    blank: 'Enter your name or initials so the acknowledgement is attributable.',
+  }),
   accepted: z.literal(true, { error: 'Tick the box to confirm you have read the cautions.' }),
 });
 

@@ -1,20 +1,17 @@
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
 import { massUnits, pressureUnits, temperatureUnits } from '../core/units.js';
+import { namingText, textWithoutHiddenCharacters } from './input-rules.js';
 
 export const paperSizes = ['A4', 'Letter'] as const;
 
 /** Clinic settings as the screens edit them. Messages are shown beside each field. */
 export const clinicSettingsSchema = z.object({
-  clinicName: z
-    .string({ error: 'Clinic name must be text.' })
-    .trim()
-    .min(1, { error: 'Enter the clinic name; it heads every printed worksheet.' })
-    .max(120, { error: 'Clinic name must be at most 120 characters.' }),
-  addressLine: z
-    .string({ error: 'Address must be text.' })
-    .trim()
-    .max(200, { error: 'Address must be at most 200 characters.' }),
+  clinicName: namingText('Clinic name', {
+    max: 120,
+    blank: 'Enter the clinic name; it heads every printed worksheet.',
+  }),
+  addressLine: textWithoutHiddenCharacters('Address', { max: 200 }),
   massUnit: z.enum(massUnits, { error: 'Choose g or kg for body mass.' }),
   pressureUnit: z.enum(pressureUnits, { error: 'Choose mmHg or kPa for pressures.' }),
   temperatureUnit: z.enum(temperatureUnits, { error: 'Choose C or F for temperature.' }),

@@ -38,9 +38,16 @@ export function lossBand(lossPct: number): LossBand {
   return '>20 %';
 }
 
-function change(from: number, to: number): WeightChange {
-  const percent = ((to - from) / from) * 100;
-  return { grams: to - from, percent, lossBand: lossBand(-percent) };
+/**
+ * Change from one mass to another (g), or null when it cannot be expressed as finite numbers: a
+ * mass saved before the 0.5 g lower bound existed (e.g. 5e-324 g) would make the percentage
+ * Infinity, which no screen or answer can show.
+ */
+function change(from: number, to: number): WeightChange | null {
+  const grams = to - from;
+  const percent = (grams / from) * 100;
+  if (!(from > 0) || !Number.isFinite(grams) || !Number.isFinite(percent)) return null;
+  return { grams, percent, lossBand: lossBand(-percent) };
 }
 
 const bandSeverity: Readonly<Record<LossBand, WeightFlag['severity'] | null>> = {
@@ -105,6 +112,16 @@ export function weightTrend(
   const sinceLast = latest !== null && previous !== null ? change(previous.massG, latest.massG) : null;
   const sinceFirst = latest !== null && first !== null ? change(first.massG, latest.massG) : null;
   const flags: WeightFlag[] = [];
+  const uncomparable = [previous, first].find(
+    (point) => point !== null && latest !== null && change(point.massG, latest.massG) === null,
+  );
+  if (uncomparable !== undefined && uncomparable !== null)
+    flags.push({
+      code: 'weight-change-not-computable',
+      severity: 'warning',
+      message: `The weight of ${String(uncomparable.massG)} g on ${uncomparable.weighedOn} cannot be compared with the latest; correct or void that weight.`,
+      reason: 'A change needs two weights above 0 g whose ratio is a finite number',
+    });
   for (const [label, value] of [
     ['since the previous weight', sinceLast],
     ['since the first weight', sinceFirst],

@@ -1,6 +1,7 @@
 import { clinicSettingsMigration } from './0001-clinic-settings.js';
 import { clinicRecordsMigration } from './0002-clinic-records.js';
 import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
+import { bodyMassTo200KgMigration } from './0004-body-mass-to-200-kg.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -9,6 +10,7 @@ export const migrations: readonly Migration[] = [
   clinicSettingsMigration,
   clinicRecordsMigration,
   emergencyDrugsMigration,
+  bodyMassTo200KgMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -15,13 +15,14 @@ function checked<T>(write: () => T | null, id: number): T {
   try {
     written = write();
   } catch (error) {
-    if (error instanceof DrugCorrectionError) throw new RecordError('conflict', error.message);
+    if (error instanceof DrugCorrectionError) throw new RecordError('conflict', error.message, 'id');
     throw error;
   }
   if (written === null)
     throw new RecordError(
       'not-found',
       `Emergency drug ${id} was not found; it may have been opened from an old list.`,
+      'id',
     );
   return written;
 }

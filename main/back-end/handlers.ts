@@ -19,6 +19,7 @@ import { backupFolder } from './automatic-backup.js';
 import { createPlanHandlers } from './plan-handlers.js';
 import { createDrugHandlers } from './drug-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
+import { constraintError } from './constraint-errors.js';
 
 export type HandlerContext = {
   readonly db: TidewingDatabase;
@@ -159,6 +160,8 @@ export function createDispatcher(
       }
       const message = error instanceof Error ? error.message : String(error);
       log(`Handler ${channel} failed: ${message}`);
+      const constraint = constraintError(channel, error, parsed.data);
+      if (constraint !== null) return { ok: false, error: constraint };
       const isDatabase = error instanceof Error && (error.name === 'SqliteError' || /SQLITE/.test(message));
       return {
         ok: false,

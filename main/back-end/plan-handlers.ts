@@ -1,6 +1,7 @@
 import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { planChannels, PlanFields, SavedPlan } from '../../app/contract/plan-records.js';
 import { planResultSchema, type PlanInput } from '../../app/contract/plan.js';
+import { localDateOf, plannedDateProblem } from '../../app/contract/input-rules.js';
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
@@ -33,9 +34,11 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
   const compute = (input: PlanInput) =>
     planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
 
-  function toStore(fields: PlanFields) {
+  function toStore(fields: PlanFields, reasonGiven: boolean) {
     if (fields.patientId !== null && patients.get(fields.patientId) === null)
       throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
+    const dateProblem = plannedDateProblem(fields.plannedFor, localDateOf(now()), reasonGiven);
+    if (dateProblem !== null) throw new RecordError('invalid-request', dateProblem, 'fields.plannedFor');
     return { ...fields, result: compute(fields.input), modelVersion };
   }
 
@@ -60,20 +63,28 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
   }
 
   return {
-    'plans:save': (request) => plans.save(toStore(request.fields), request.meta, now()),
+    'plans:save': (request) =>
+      plans.save(toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
     'plans:correct': (request) => {
-      const saved = plans.correct(request.id, toStore(request.fields), request.meta, now());
-      if (saved === 'not-found') throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      const saved = plans.correct(
+        request.id,
+        toStore(request.fields, request.meta.reason !== ''),
+        request.meta,
+        now(),
+      );
+      if (saved === 'not-found')
+        throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       if (saved === 'stale')
         throw new RecordError(
           'conflict',
           'This plan was changed since you opened it; open its newest version and edit that.',
+          'id',
         );
       return saved;
     },
     'plans:get': (request) => {
       const plan = plans.get(request.id);
-      if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`);
+      if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       const patient = plan.patientId === null ? null : patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
       const speciesRecord = speciesKey === undefined ? null : species.get(speciesKey);

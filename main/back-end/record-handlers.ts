@@ -1,8 +1,16 @@
 import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { recordChannels } from '../../app/contract/record-channels.js';
+import {
+  entryTimeProblem,
+  hatchDateProblem,
+  localDateOf,
+  weighingDateProblem,
+} from '../../app/contract/input-rules.js';
+import type { ProcedureRecordValues } from '../../app/contract/records.js';
 import { procedureCsv } from '../../app/core/procedure-csv.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import { createPlanRepository } from '../../db/repositories/plan-repository.js';
 import {
   createProcedureEntryRepository,
   EntryCorrectionError,
@@ -26,10 +34,22 @@ export class RecordError extends Error {
   }
 }
 
-function found<T>(value: T | null, what: string): T {
+/**
+ * The value, or a not-found error naming `field`, the request's id that pointed at nothing.
+ */
+function found<T>(value: T | null, what: string, field = 'id'): T {
   if (value === null)
-    throw new RecordError('not-found', `${what} was not found; it may have been opened from an old link.`);
+    throw new RecordError(
+      'not-found',
+      `${what} was not found; it may have been opened from an old link.`,
+      field,
+    );
   return value;
+}
+
+/** Refuses a value with a field error when `problem` is a message, so the screen shows it beside the field. */
+function refuse(problem: string | null, field: string): void {
+  if (problem !== null) throw new RecordError('invalid-request', problem, field);
 }
 
 function conflictOnStaleCorrection<T>(write: () => T): T {
@@ -37,7 +57,7 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
     return write();
   } catch (error) {
     if (error instanceof WeightCorrectionError || error instanceof EntryCorrectionError)
-      throw new RecordError('conflict', error.message);
+      throw new RecordError('conflict', error.message, 'id');
     throw error;
   }
 }
@@ -49,6 +69,47 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
   const weights = createWeightRepository(db);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
+  const plans = createPlanRepository(db);
+  /** Today on the back end's clock: the date the clinic is living in. */
+  const today = () => localDateOf(now());
+
+  /** A linked plan must exist and be a plan for this record's bird. */
+  function requireOwnPlan(planId: number | null, patientId: number) {
+    if (planId === null) return;
+    const plan = plans.get(planId);
+    if (plan === null)
+      throw new RecordError(
+        'invalid-request',
+        `Plan ${String(planId)} is not in the clinic database; choose one of this bird's saved plans, or no plan.`,
+        'values.planId',
+      );
+    if (plan.patientId !== patientId)
+      throw new RecordError(
+        'invalid-request',
+        `Plan ${String(planId)} is not a plan for this bird; choose one of this bird's saved plans, or no plan.`,
+        'values.planId',
+      );
+  }
+
+  /** A record's new start and end must still hold every entry already logged in it. */
+  function requireEntriesWithin(recordId: number, values: ProcedureRecordValues) {
+    const outside = entries
+      .list(recordId)
+      .find((entry) => entryTimeProblem(entry.values.at, values, now()) !== null);
+    if (outside === undefined) return;
+    const early = Date.parse(outside.values.at) < Date.parse(values.startedAt);
+    throw new RecordError(
+      'invalid-request',
+      `An entry at ${outside.values.at} would lie outside the procedure with this ${early ? 'start' : 'end'}; check the ${early ? 'start' : 'end'}, or correct that entry first.`,
+      early ? 'values.startedAt' : 'values.endedAt',
+    );
+  }
+
+  /** An entry's time must lie within its record's span, with the stated tolerances. */
+  function requireEntryWithinRecord(recordId: number, at: string) {
+    const record = found(procedures.get(recordId), `Procedure record ${String(recordId)}`, 'recordId');
+    refuse(entryTimeProblem(at, record.values, now()), 'values.at');
+  }
 
   function requireSpecies(key: string) {
     if (species.get(key) === null)
@@ -102,7 +163,11 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'species:history': (request) => species.history(request.key),
     'species:add': (request) => species.add(request.values, request.meta, now()),
     'species:correct': (request) =>
-      found(species.correct(request.key, request.values, request.meta, now()), `Species ${request.key}`),
+      found(
+        species.correct(request.key, request.values, request.meta, now()),
+        `Species ${request.key}`,
+        'key',
+      ),
 
     'patients:search': (request) => ({
       patients: patients.search(request.query, request.limit),
@@ -111,10 +176,12 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'patients:get': (request) => patientDetail(request.id),
     'patients:create': (request) => {
       requireSpecies(request.values.speciesKey);
+      refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return patients.create(request.values, request.meta, now());
     },
     'patients:correct': (request) => {
       requireSpecies(request.values.speciesKey);
+      refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return found(
         patients.correct(request.id, request.values, request.meta, now()),
         `Patient ${request.id}`,
@@ -122,13 +189,22 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     },
 
     'weights:add': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`);
+      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+      refuse(
+        weighingDateProblem(request.values.weighedOn, today(), request.meta.reason !== ''),
+        'values.weighedOn',
+      );
       return weights.add(request.patientId, request.values, request.meta, now());
     },
     'weights:correct': (request) =>
-      conflictOnStaleCorrection(() =>
-        found(weights.correct(request.id, request.values, request.meta, now()), `Weight ${request.id}`),
-      ),
+      conflictOnStaleCorrection(() => {
+        // A correction always carries a reason, which is what lets an old date stand.
+        refuse(weighingDateProblem(request.values.weighedOn, today(), true), 'values.weighedOn');
+        return found(
+          weights.correct(request.id, request.values, request.meta, now()),
+          `Weight ${request.id}`,
+        );
+      }),
     'weights:void': (request) =>
       conflictOnStaleCorrection(() =>
         found(weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
@@ -136,14 +212,19 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'weights:history': (request) => weights.history(request.id),
 
     'procedures:create': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`);
+      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+      requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
-    'procedures:correct': (request) =>
-      found(
+    'procedures:correct': (request) => {
+      const record = found(procedures.get(request.id), `Procedure record ${request.id}`);
+      requireOwnPlan(request.values.planId, record.patientId);
+      requireEntriesWithin(request.id, request.values);
+      return found(
         procedures.correct(request.id, request.values, request.meta, now()),
         `Procedure record ${request.id}`,
-      ),
+      );
+    },
     'procedures:recent': (request) =>
       procedures.listRecent(request.limit).map((record) => {
         const patient = patients.get(record.patientId);
@@ -188,13 +269,15 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     },
 
     'entries:add': (request) => {
-      found(procedures.get(request.recordId), `Procedure record ${request.recordId}`);
+      requireEntryWithinRecord(request.recordId, request.values.at);
       return entries.add(request.recordId, request.values, request.meta, now());
     },
     'entries:correct': (request) =>
-      conflictOnStaleCorrection(() =>
-        found(entries.correct(request.id, request.values, request.meta, now()), `Entry ${request.id}`),
-      ),
+      conflictOnStaleCorrection(() => {
+        const entry = found(entries.history(request.id)[0] ?? null, `Entry ${request.id}`);
+        requireEntryWithinRecord(entry.recordId, request.values.at);
+        return found(entries.correct(request.id, request.values, request.meta, now()), `Entry ${request.id}`);
+      }),
     'entries:void': (request) =>
       conflictOnStaleCorrection(() =>
         found(entries.void(request.id, request.meta, now()), `Entry ${request.id}`),

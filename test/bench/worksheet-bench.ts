@@ -12,6 +12,7 @@ import { findProjectRoot, readAppVersion, rendererDirectory } from '../../main/b
 import { chromiumOrReason } from '../support/chromium.js';
 import { median, type Figure } from './figures.js';
 import { benchClinicSettings } from '../support/clinic-settings.js';
+import { localDateOf } from '../../app/contract/input-rules.js';
 
 const runs = 5;
 const quiet = { stdout: () => undefined, stderr: () => undefined };
@@ -46,7 +47,13 @@ async function preparedData(root: string): Promise<{ folder: string; planId: num
       fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
     ) as unknown;
     const saved = await call('plans:save', {
-      fields: { patientId: null, plannedFor: '2026-12-02', label: '', input, checklist: { asaGrade: 2 } },
+      fields: {
+        patientId: null,
+        plannedFor: localDateOf(new Date()),
+        label: '',
+        input,
+        checklist: { asaGrade: 2 },
+      },
       meta: { enteredBy: 'BE' },
     });
     return { folder, planId: saved.id };

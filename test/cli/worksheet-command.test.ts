@@ -9,6 +9,7 @@ import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 import { needBuilt, needChromium } from '../support/chromium.js';
+import { localDateOf } from '../../app/contract/input-rules.js';
 
 const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
@@ -62,7 +63,7 @@ async function dataWithPlan(
     }
     const checklist = { asaGrade: 2, items: {} };
     const saved = await call('plans:save', {
-      fields: { patientId: null, plannedFor: '2026-12-02', label: '', input: pipInput, checklist },
+      fields: { patientId: null, plannedFor: localDateOf(new Date()), label: '', input: pipInput, checklist },
       meta: { enteredBy: 'RW' },
     });
     return { folder, planId: saved.id };

@@ -78,3 +78,42 @@ describe('species range and unit slips', () => {
     expect(massRangeFlags(30, null)).toEqual([]);
   });
 });
+
+describe('weights that cannot be compared', () => {
+  const finiteEverywhere = (value: unknown): boolean =>
+    typeof value === 'number'
+      ? Number.isFinite(value)
+      : typeof value === 'object' && value !== null
+        ? Object.values(value).every(finiteEverywhere)
+        : true;
+
+  it('never returns a non-finite change when an earlier weight is 5e-324 g (the smallest double)', () => {
+    const trend = weightTrend(
+      [
+        { weighedOn: '2026-11-01', massG: 5e-324 },
+        { weighedOn: '2026-11-20', massG: 30 },
+      ],
+      budgerigar,
+    );
+    expect(finiteEverywhere(trend)).toBe(true);
+    expect(trend.sinceLast).toBeNull();
+    expect(trend.latest).toEqual({ weighedOn: '2026-11-20', massG: 30 });
+    expect(trend.flags.map((flag) => flag.code)).toEqual(['weight-change-not-computable']);
+    expect(trend.flags[0]?.message).toContain('2026-11-01 cannot be compared with the latest');
+  });
+
+  it('still reports the change since the first weight when only a middle weight is odd', () => {
+    const trend = weightTrend(
+      [
+        { weighedOn: '2026-10-01', massG: 34 },
+        { weighedOn: '2026-11-01', massG: 0 },
+        { weighedOn: '2026-11-20', massG: 30 },
+      ],
+      budgerigar,
+    );
+    expect(finiteEverywhere(trend)).toBe(true);
+    expect(trend.sinceLast).toBeNull();
+    // (30 - 34) / 34 = -11.8 %: band 10-15 % (IVAPM pain scale for birds)
+    expect(trend.sinceFirst?.lossBand).toBe('10-15 %');
+  });
+});

@@ -101,3 +101,39 @@ describe('migrations', () => {
     expect(fs.readdirSync(path.dirname(file)).sort()).toEqual(filesBefore);
   });
 });
+
+describe('migration 4 (body mass up to 200 kg)', () => {
+  it('carries every weight over unchanged, ids and correction chains included, and accepts up to 200 kg', () => {
+    const file = freshFile();
+    const db = new Database(file);
+    cleanups.push(() => db.close());
+    db.pragma('foreign_keys = ON');
+    migrate(db, migrations.slice(0, 3));
+    db.prepare("INSERT INTO patients (id, created_at) VALUES (1, '2026-11-01T08:00:00.000Z')").run();
+    const insert = db.prepare(
+      `INSERT INTO weights (id, patient_id, corrects_id, voided, weighed_on, mass_g, entered_at, entered_by, reason)
+       VALUES (?, 1, ?, ?, ?, ?, '2026-11-01T08:00:00.000Z', 'RW', ?)`,
+    );
+    insert.run(1, null, 0, '2026-11-01', 5e-324, '');
+    insert.run(2, 1, 0, '2026-11-01', 32, 'typing error');
+    insert.run(3, null, 0, '2023-02-30', 20000, '');
+    insert.run(4, 3, 1, '2023-02-30', 20000, 'entered in error');
+    const before = db.prepare('SELECT * FROM weights ORDER BY id').all();
+
+    expect(migrate(db, migrations.slice(0, 4))).toBe(4);
+    expect(db.prepare('SELECT * FROM weights ORDER BY id').all()).toEqual(before);
+    expect(db.pragma('foreign_key_check')).toEqual([]);
+    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+    // An ostrich-sized bird: 150 kg fits; above 200 kg does not.
+    insert.run(5, null, 0, '2026-11-02', 150_000, '');
+    expect(() => insert.run(6, null, 0, '2026-11-02', 200_001, '')).toThrow(/CHECK constraint failed/);
+    expect(() => insert.run(7, 99, 0, '2026-11-02', 30, '')).toThrow(/FOREIGN KEY constraint failed/);
+    expect(() => insert.run(8, 5, 0, '2026-11-02', 30, '')).not.toThrow();
+    expect(() => insert.run(9, 5, 0, '2026-11-02', 30, '')).toThrow(/UNIQUE constraint failed/);
+    expect(() => db.prepare('UPDATE weights SET mass_g = 1 WHERE id = 2').run()).toThrow(/never changed/);
+    expect(() => db.prepare('DELETE FROM weights WHERE id = 2').run()).toThrow(/never deleted/);
+    expect(
+      db.prepare("SELECT sql FROM sqlite_schema WHERE name = 'weights'").pluck().get() as string,
+    ).toContain('REFERENCES "weights"');
+  });
+});

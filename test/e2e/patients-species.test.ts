@@ -2,10 +2,23 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { localDateOf } from '../../app/contract/input-rules.js';
 import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-patients-');
 const shots = ensureScreenshotFolder();
+
+/**
+ * A date this many days from today on this computer's clock, which the host shares: the records
+ * refuse a weighing or planned date more than a year away, so the tests never use fixed dates.
+ */
+const daysFromToday = (days: number) => {
+  const moment = new Date();
+  moment.setDate(moment.getDate() + days);
+  return localDateOf(moment);
+};
+const firstDay = daysFromToday(-31);
+const secondDay = daysFromToday(-2);
 
 const shoot = (page: Page, name: string) =>
   page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
@@ -39,9 +52,9 @@ describe('patients, weights and species in headless Chromium', () => {
       await page.getByLabel('Weight (g)', { exact: true }).fill(grams);
       await page.getByLabel('Weight (g)', { exact: true }).press('Enter');
     };
-    await addWeight('2026-11-01', '34');
+    await addWeight(firstDay, '34');
     await page.getByRole('cell', { name: '34 g' }).waitFor();
-    await addWeight('2026-11-30', '28');
+    await addWeight(secondDay, '28');
     await page.getByRole('cell', { name: '28 g' }).waitFor();
     const alert = page.locator('.flag.danger');
     await alert.first().waitFor();
@@ -69,14 +82,18 @@ describe('patients, weights and species in headless Chromium', () => {
     const history = page.getByRole('region', { name: 'Weight history' });
     await history.waitFor();
     const lines = await history.locator('li').allTextContents();
-    expect(lines[0]).toMatch(/^31 g on 2026-11-30 · entered by RW.*why: Read the scale before it settled/);
-    expect(lines[1]).toMatch(/^28 g on 2026-11-30 · entered by RW/);
+    expect(lines[0]).toMatch(
+      new RegExp(`^31 g on ${secondDay} · entered by RW.*why: Read the scale before it settled`),
+    );
+    expect(lines[1]).toMatch(new RegExp(`^28 g on ${secondDay} · entered by RW`));
     await shoot(page, '22-patient-weight-history');
 
     await page.goto(`${host.origin}/#/patients`);
     await page.getByLabel(/^Search/).fill('5521');
     await page.getByRole('link', { name: 'Pip' }).waitFor();
-    await expect(page.getByRole('cell', { name: /31 g \(2026-11-30\)/ }).isVisible()).resolves.toBe(true);
+    await expect(
+      page.getByRole('cell', { name: new RegExp(`31 g \\(${secondDay}\\)`) }).isVisible(),
+    ).resolves.toBe(true);
     await shoot(page, '23-patient-search');
 
     // The whole database as JSON, from Settings.

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { localDateOf } from '../../app/contract/input-rules.js';
 import {
   callBridge as bridge,
   completeFirstRun,
@@ -12,6 +13,16 @@ import {
 
 const session = sharedHost('tidewing-e2e-planning-');
 const shots = ensureScreenshotFolder();
+
+/**
+ * A date this many days from today on this computer's clock, which the host shares: the records
+ * refuse a weighing or planned date more than a year away, so the tests never use fixed dates.
+ */
+const daysFromToday = (days: number) => {
+  const moment = new Date();
+  moment.setDate(moment.getDate() + days);
+  return localDateOf(moment);
+};
 
 const shoot = (page: Page, name: string) =>
   page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
@@ -44,12 +55,12 @@ describe('planning from a patient in headless Chromium', () => {
     const patientId = (created.value as { id: number }).id;
     await bridge(page, 'weights:add', {
       patientId,
-      values: { weighedOn: '2026-11-20', massG: 33, bodyCondition: 'ideal', weighedBy: 'RW' },
+      values: { weighedOn: daysFromToday(-12), massG: 33, bodyCondition: 'ideal', weighedBy: 'RW' },
       meta,
     });
     await bridge(page, 'weights:add', {
       patientId,
-      values: { weighedOn: '2026-12-01', massG: 32, bodyCondition: 'ideal', weighedBy: 'RW' },
+      values: { weighedOn: daysFromToday(-1), massG: 32, bodyCondition: 'ideal', weighedBy: 'RW' },
       meta,
     });
 

@@ -4,12 +4,23 @@ import path from 'node:path';
 import { promisify } from 'node:util';
 import type { Page } from 'playwright-core';
 import { afterAll, describe, expect, it } from 'vitest';
+import { localDateOf } from '../../app/contract/input-rules.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 
 const run = promisify(execFile);
+
+/**
+ * A date this many days from today on this computer's clock, which the host shares: the records
+ * refuse a weighing or planned date more than a year away, so the tests never use fixed dates.
+ */
+const daysFromToday = (days: number) => {
+  const moment = new Date();
+  moment.setDate(moment.getDate() + days);
+  return localDateOf(moment);
+};
 const root = findProjectRoot();
 const session = sharedHost('tidewing-e2e-worksheet-');
 const shots = ensureScreenshotFolder();
@@ -90,12 +101,12 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     });
     await bridge(page, 'weights:add', {
       patientId: patient.id,
-      values: { weighedOn: '2026-11-01', massG: 34 },
+      values: { weighedOn: daysFromToday(-31), massG: 34 },
       meta: { enteredBy: 'RW' },
     });
     await bridge(page, 'weights:add', {
       patientId: patient.id,
-      values: { weighedOn: '2026-12-01', massG: 32 },
+      values: { weighedOn: daysFromToday(-1), massG: 32 },
       meta: { enteredBy: 'RW' },
     });
 
@@ -201,7 +212,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       page,
       'plans:save',
       {
-        fields: { patientId: patient.id, plannedFor: '2026-12-02', label: 'Beak trim', input, checklist },
+        fields: { patientId: patient.id, plannedFor: daysFromToday(0), label: 'Beak trim', input, checklist },
         meta: { enteredBy: 'RW' },
       },
     );
@@ -222,7 +233,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     });
     const shown = squash(await sheet.innerText());
     expect(shown).toContain('Heron Lane Bird Clinic');
-    expect(shown).toContain('latest 32 g on 2026-12-01');
+    expect(shown).toContain(`latest 32 g on ${daysFromToday(-1)}`);
     // Hollwarth et al. 2022, J Exotic Pet Med 41:14-19: ASA 2 0.6 %
     expect(shown).toContain('ASA grade ASA 2 · 0.6 % died within 48 h');
     expect(shown).toContain('Still open: Scavenging connected, Emergency card ready.');

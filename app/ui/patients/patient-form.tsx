@@ -1,4 +1,5 @@
 import { useEffect, useState, type FormEvent } from 'react';
+import { hatchDateProblem, localDateOf } from '../../contract/input-rules.js';
 import { describeIssues } from '../../contract/result.js';
 import { patientValuesSchema, sexes, type PatientValues } from '../../contract/records.js';
 import { api } from '../common/bridge.js';
@@ -69,12 +70,20 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
       ...draft,
       hatchDate: draft.hatchDate === '' ? null : draft.hatchDate,
     });
-    const local = parsed.success ? {} : fieldErrorsFrom(describeIssues(parsed.error.issues));
+    const local: Record<string, string> = parsed.success
+      ? {}
+      : { ...fieldErrorsFrom(describeIssues(parsed.error.issues)) };
+    // The back end checks this against its clock too; checking here shows it before sending.
+    const hatch = patientValuesSchema.shape.hatchDate.safeParse(
+      draft.hatchDate === '' ? null : draft.hatchDate,
+    );
+    const hatchProblem = hatch.success ? hatchDateProblem(hatch.data, localDateOf(new Date())) : null;
+    if (hatchProblem !== null) local['hatchDate'] = hatchProblem;
     const reasonError: Record<string, string> =
       patientId !== null && reason.trim() === ''
         ? { reason: 'Say why the record is corrected; the reason is kept with the history.' }
         : {};
-    if (!parsed.success || Object.keys(reasonError).length > 0) {
+    if (!parsed.success || Object.keys(local).length > 0 || Object.keys(reasonError).length > 0) {
       setErrors({ ...local, ...reasonError });
       return;
     }
@@ -97,7 +106,10 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
     const contractErrors = fieldErrorsFromContract(answer.error);
     setErrors(
       Object.fromEntries(
-        Object.entries(contractErrors).map(([field, message]) => [field.replace(/^values\./, ''), message]),
+        Object.entries(contractErrors).map(([field, message]) => [
+          field.replace(/^(values|meta)\./, ''),
+          message,
+        ]),
       ),
     );
     setFailure(answer.error.message);

@@ -1,6 +1,13 @@
 import { useState, type FormEvent } from 'react';
 import type { PatientDetail } from '../../contract/record-channels.js';
 import { bodyConditions, weightValuesSchema, type Weight } from '../../contract/records.js';
+import {
+  addDays,
+  calendarDate,
+  localDateOf,
+  recentDateWindowDays,
+  weighingDateProblem,
+} from '../../contract/input-rules.js';
 import { describeIssues } from '../../contract/result.js';
 import { gToKg, kgToG } from '../../core/units.js';
 import { api } from '../common/bridge.js';
@@ -71,6 +78,11 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     else if (Number.isNaN(massG)) fieldErrors['massG'] = `Weight must be a number in ${unit}.`;
     if (editing !== null && reason.trim() === '')
       fieldErrors['reason'] = 'Say why; the reason is kept with the history.';
+    // The back end checks the date against its clock too; checking here shows it before sending.
+    const dateProblem = weightValuesSchema.shape.weighedOn.safeParse(weighedOn).success
+      ? weighingDateProblem(weighedOn, localDateOf(new Date()), editing !== null || reason.trim() !== '')
+      : null;
+    if (dateProblem !== null) fieldErrors['weighedOn'] = dateProblem;
     if (!parsed.success || Object.keys(fieldErrors).length > 0) {
       setErrors(fieldErrors);
       return;
@@ -116,6 +128,11 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     if (answer.ok) setHistory({ id: weight.id, versions: answer.value });
   }
 
+  // A weighing more than a year ago is kept only with a reason (e.g. copied from a paper record).
+  const needsReason =
+    editing === null &&
+    calendarDate('Weighing date').safeParse(weighedOn).success &&
+    weighedOn < addDays(localDateOf(new Date()), -recentDateWindowDays);
   const weights = detail.weights;
   const firstDay = weights.length > 0 ? Date.parse(weights[0]?.values.weighedOn ?? '') : 0;
   const x = weights.map((weight) => (Date.parse(weight.values.weighedOn) - firstDay) / dayMs);
@@ -293,17 +310,18 @@ export function WeightsPanel({ detail, onChanged }: Props) {
               name="weighedBy"
               value={weighedBy}
               placeholder={initials || 'initials'}
+              error={errors['weighedBy']}
               onChange={setWeighedBy}
             />
           </div>
         )}
-        {editing !== null && (
+        {(editing !== null || needsReason) && (
           <TextField
-            label="Reason"
+            label={editing === null ? 'Reason (for a date more than a year ago)' : 'Reason'}
             name="reason"
             value={reason}
             error={errors['reason']}
-            autoFocus
+            autoFocus={editing !== null}
             onChange={setReason}
           />
         )}

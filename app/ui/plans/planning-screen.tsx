@@ -1,9 +1,11 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
-import { checklistSchema, type Checklist } from '../../contract/plan-records.js';
+import { localDateOf, plannedDateProblem } from '../../contract/input-rules.js';
+import { checklistSchema, planFieldsSchema, type Checklist } from '../../contract/plan-records.js';
 import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { api } from '../common/bridge.js';
 import { displayDateTime, displayMass, todayIso } from '../common/display.js';
+import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { TextField } from '../common/fields.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useWriteMeta } from '../common/write-meta.js';
@@ -43,6 +45,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [checklist, setChecklist] = useState<Checklist>(emptyChecklist);
   const [plannedFor, setPlannedFor] = useState(todayIso());
   const [label, setLabel] = useState('');
+  const [saveErrors, setSaveErrors] = useState<FieldErrors>({});
+  const [dateReason, setDateReason] = useState('');
   const [context, setContext] = useState<Context>({
     patientId: null,
     patientLabel: null,
@@ -117,7 +121,26 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       setSaveMessage({ kind: 'failed', text: 'Not saved: correct the plan inputs marked in plan A first.' });
       return;
     }
-    const who = writeMeta(context.savedPlanId === null ? '' : 'Plan edited');
+    // The date and label are checked here with the contract's rules, so each message shows beside
+    // its box; a new plan dated more than a year away is refused (an edit carries a reason).
+    const localErrors: Record<string, string> = {};
+    const date = planFieldsSchema.shape.plannedFor.safeParse(plannedFor);
+    const dateProblem = date.success
+      ? plannedDateProblem(
+          plannedFor,
+          localDateOf(new Date()),
+          context.savedPlanId !== null || dateReason.trim() !== '',
+        )
+      : (date.error.issues[0]?.message ?? null);
+    if (dateProblem !== null) localErrors['plannedFor'] = dateProblem;
+    const labelCheck = planFieldsSchema.shape.label.safeParse(label);
+    if (!labelCheck.success) localErrors['label'] = labelCheck.error.issues[0]?.message ?? 'Check the label.';
+    setSaveErrors(localErrors);
+    if (Object.keys(localErrors).length > 0) {
+      setSaveMessage({ kind: 'failed', text: 'Not saved: correct the fields marked above.' });
+      return;
+    }
+    const who = writeMeta(context.savedPlanId === null ? dateReason.trim() : 'Plan edited');
     if ('missing' in who) {
       setSaveMessage({ kind: 'failed', text: who.missing });
       return;
@@ -128,6 +151,14 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         ? await api.invoke('plans:save', { fields, meta: who.meta })
         : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
     if (!answer.ok) {
+      setSaveErrors(
+        Object.fromEntries(
+          Object.entries(fieldErrorsFromContract(answer.error)).map(([field, message]) => [
+            field.replace(/^fields\./, ''),
+            message,
+          ]),
+        ),
+      );
       setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
       return;
     }
@@ -143,6 +174,11 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     window.history.replaceState(null, '', href('plans', answer.value.id));
   }
 
+  // A new plan dated more than a year either side of today is kept only with a reason.
+  const needsDateReason =
+    context.savedPlanId === null &&
+    planFieldsSchema.shape.plannedFor.safeParse(plannedFor).success &&
+    plannedDateProblem(plannedFor, localDateOf(new Date()), false) !== null;
   const editingB = active === 'B' && draftB !== null;
   // Stable, so the memoised form does not re-render when only the results change.
   const setShownDraft = useCallback(
@@ -176,13 +212,24 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           name="plannedFor"
           type="date"
           value={plannedFor}
+          error={saveErrors['plannedFor']}
           onChange={setPlannedFor}
         />
+        {needsDateReason && (
+          <TextField
+            label="Reason (for a date more than a year away)"
+            name="reason"
+            value={dateReason}
+            error={saveErrors['meta.reason']}
+            onChange={setDateReason}
+          />
+        )}
         <TextField
           label="Label"
           name="label"
           value={label}
           placeholder="e.g. crop biopsy"
+          error={saveErrors['label']}
           onChange={setLabel}
         />
         <button type="button" className="primary" onClick={() => void save()}>

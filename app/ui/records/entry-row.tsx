@@ -1,5 +1,6 @@
 import { useId, useRef, useState, type FormEvent } from 'react';
-import type { ProcedureEntryValues } from '../../contract/records.js';
+import { entryTimeProblem } from '../../contract/input-rules.js';
+import type { ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { clockMinutesText } from './clock-time.js';
 import {
@@ -19,10 +20,13 @@ import { useNowMs } from './use-now.js';
  */
 export function EntryRow({
   units,
+  record,
   lastEntry,
   onSave,
 }: {
   readonly units: DisplayUnits;
+  /** The record's start and end: a row's time must lie within them (with the contract's tolerances). */
+  readonly record: Pick<ProcedureRecordValues, 'startedAt' | 'endedAt'>;
   readonly lastEntry: ProcedureEntryValues | null;
   readonly onSave: (values: ProcedureEntryValues) => Promise<string | null>;
 }) {
@@ -37,9 +41,16 @@ export function EntryRow({
   async function submit(event: FormEvent) {
     event.preventDefault();
     if (busy) return;
-    const checked = checkEntry({ timeText, readings, kind: 'vitals' }, units, new Date());
+    const now = new Date();
+    const checked = checkEntry({ timeText, readings, kind: 'vitals' }, units, now);
     if (!checked.ok) {
       setErrors(checked.errors);
+      return;
+    }
+    // The back end refuses a time outside the record too; checking here shows it by the time box.
+    const outside = entryTimeProblem(checked.values.at, record, now);
+    if (outside !== null) {
+      setErrors({ at: outside });
       return;
     }
     setErrors({});

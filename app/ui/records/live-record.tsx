@@ -94,6 +94,7 @@ function LiveRecordScreen({
 
       <EntryRow
         units={units}
+        record={values}
         lastEntry={entries.filter((entry) => entry.values.kind === 'vitals').at(-1)?.values ?? null}
         onSave={writes.addEntry}
       />

@@ -131,7 +131,9 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
         <LinkedPlan
           patientId={patientId}
           planId={draft.planId}
-          onChoose={(plan) =>
+          error={errors['planId']}
+          onChoose={(plan) => {
+            setErrors(({ planId: _plan, ...rest }) => rest);
             setDraft((current) => ({
               ...current,
               planId: plan === null ? null : plan.id,
@@ -145,8 +147,8 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
                       ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency }
                       : {}),
                   }),
-            }))
-          }
+            }));
+          }}
         />
         <RecordDetailsFields draft={draft} errors={errors} update={update} />
         {gate}
@@ -169,22 +171,38 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
 function LinkedPlan({
   patientId,
   planId,
+  error,
   onChoose,
 }: {
   readonly patientId: number;
   readonly planId: number | null;
+  /** The back end's refusal of the chosen plan (missing, or another bird's). */
+  readonly error: string | undefined;
   readonly onChoose: (plan: PlanSummary | null) => void;
 }) {
   const [plans] = useChannel('plans:for-patient', { patientId });
   const id = useId();
+  const message =
+    error === undefined ? null : (
+      <p className="field-error" id={`${id}-error`} role="alert">
+        {error}
+      </p>
+    );
   if (plans.state !== 'ready' || plans.value.length === 0)
-    return <p className="hint">No saved plan for this bird; the record can still be kept.</p>;
+    return (
+      <>
+        <p className="hint">No saved plan for this bird; the record can still be kept.</p>
+        {message}
+      </>
+    );
   return (
     <div className="field">
       <label htmlFor={id}>Linked plan</label>
       <select
         id={id}
         name="planId"
+        aria-invalid={error !== undefined}
+        aria-describedby={error === undefined ? undefined : `${id}-error`}
         value={planId === null ? '' : String(planId)}
         onChange={(event) =>
           onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)
@@ -198,6 +216,7 @@ function LinkedPlan({
           </option>
         ))}
       </select>
+      {message}
     </div>
   );
 }
