@@ -185,14 +185,17 @@ describe('weight channels', () => {
     expect(zero).toMatchObject({
       code: 'invalid-request',
       field: 'values.massG',
-      message: 'Weight must be above 0 g.',
+      message: 'Weight must be between 0.5 g and 200000 g (200 kg); check the scale and the unit.',
     });
     const badDate = await api.refusal('weights:add', {
       patientId: pip.id,
       values: { ...pipWeight, weighedOn: '01/11/2026' },
       meta: enteredByRw,
     });
-    expect(badDate).toMatchObject({ field: 'values.weighedOn', message: 'Use a date as YYYY-MM-DD.' });
+    expect(badDate).toMatchObject({
+      field: 'values.weighedOn',
+      message: expect.stringContaining('"01/11/2026" is not a date on the calendar; enter it as YYYY-MM-DD'),
+    });
     const nobody = await api.refusal('weights:add', { patientId: 999, values: pipWeight, meta: enteredByRw });
     expect(nobody.code).toBe('not-found');
   });

@@ -135,7 +135,11 @@ describe('plan channels', () => {
     const mass = await save({ input: { ...pipInput, bodyMassG: -32 } });
     expect(mass).toMatchObject({ code: 'invalid-request', field: 'fields.input.bodyMassG' });
     const date = await save({ plannedFor: '2 December' });
-    expect(date).toMatchObject({ field: 'fields.plannedFor', message: 'Use a date as YYYY-MM-DD.' });
+    expect(date).toMatchObject({
+      field: 'fields.plannedFor',
+      message:
+        'Planned date "2 December" is not a date on the calendar; enter it as YYYY-MM-DD, e.g. 2024-03-15.',
+    });
     const asa = await save({ checklist: { ...allOpen, asaGrade: 6 } });
     expect(asa).toMatchObject({ field: 'fields.checklist.asaGrade', message: 'ASA grade is 1 to 5.' });
     const nobody = await save({ patientId: 77 });
@@ -312,7 +316,7 @@ describe('plan channels', () => {
     expect(await api.refusal('plans:recent', { limit: 501 })).toMatchObject({ field: 'limit' });
     expect(await api.refusal('plans:day', { date: '2026-12-2' })).toMatchObject({
       field: 'date',
-      message: 'Use a date as YYYY-MM-DD.',
+      message: 'Day "2026-12-2" is not a date on the calendar; enter it as YYYY-MM-DD, e.g. 2024-03-15.',
     });
   });
 });
