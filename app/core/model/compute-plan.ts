@@ -53,7 +53,7 @@ import { simulate, type SimulationOutcome, type SimulationSetup } from './simula
 import { runUncertainty, type MilestoneBand } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
-export const modelVersion = '1.0.0';
+export const modelVersion = '2.0.0';
 
 export type PlanTables = { readonly species: readonly SpeciesReference[] };
 
