@@ -1,4 +1,5 @@
 import type { EventType, ProcedureEntryValues } from '../../contract/records.js';
+import { eventNames } from '../../core/procedure-events.js';
 
 /**
  * Timing rules of the live record: the reminder to log vitals and the apnoea stopwatch.
@@ -118,20 +119,8 @@ export function recoveryMilestones(entries: readonly TimedValues[]): Milestone[]
   });
 }
 
-export const eventLabels: Readonly<Record<EventType, string>> = {
-  induction: 'Induction',
-  intubation: 'Intubation',
-  apnoea: 'Apnoea',
-  ippvOn: 'IPPV on',
-  ippvOff: 'IPPV off',
-  vaporiserOff: 'Vaporiser off',
-  extubation: 'Extubation',
-  regurgitation: 'Regurgitation',
-  drugGiven: 'Drug given',
-  note: 'Note',
-  firstMovement: 'First movement',
-  standing: 'Standing / perching',
-};
+/** Event names in the clinic's words (shared with the CSV export and the printed record). */
+export const eventLabels: Readonly<Record<EventType, string>> = eventNames;
 
 /** Minutes from the start of the procedure, one decimal. */
 export function minutesFromStart(startedAt: string, at: string): number {
