@@ -14,6 +14,7 @@ import { PromptInterval } from './prompt-interval.js';
 import { RecordChart } from './record-chart.js';
 import { RecordDetailsEditor } from './record-details-editor.js';
 import { RecordHeader } from './record-header.js';
+import { RecordPrintView } from './record-print-view.js';
 import { Milestones } from './record-milestones.js';
 import { useNowMs } from './use-now.js';
 import { useRecordWrites } from './use-record-writes.js';
@@ -128,6 +129,7 @@ function LiveRecordScreen({
           onVoid={writes.voidEntry}
         />
       </div>
+      <RecordPrintView detail={detail} />
     </section>
   );
 }

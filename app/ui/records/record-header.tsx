@@ -58,6 +58,9 @@ export function RecordHeader({
         <button type="button" onClick={onExportCsv}>
           Download CSV
         </button>
+        <button type="button" onClick={() => window.print()}>
+          Print record
+        </button>
         <button type="button" aria-expanded={editingDetails} onClick={onToggleDetails}>
           Correct details
         </button>
