@@ -131,15 +131,21 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
         <LinkedPlan
           patientId={patientId}
           planId={draft.planId}
-          onChoose={(plan) =>
+          onChoose={(plan, previous) =>
             setDraft((current) => ({
               ...current,
               planId: plan === null ? null : plan.id,
               ...(plan === null
                 ? {}
                 : {
-                    airway: current.airway === '' ? (plan.route as RecordDraft['airway']) : current.airway,
-                    procedureName: current.procedureName === '' ? plan.label : current.procedureName,
+                    // The record follows the linked plan: its airway and breathing system replace
+                    // what an earlier plan put there (change them here after choosing the plan).
+                    airway: plan.route as RecordDraft['airway'],
+                    ...(plan.circuit === null ? {} : { circuit: plan.circuit as RecordDraft['circuit'] }),
+                    procedureName:
+                      current.procedureName === '' || current.procedureName === previous?.label
+                        ? plan.label
+                        : current.procedureName,
                     // The ASA grade given in the plan's checklist, unless one is chosen here.
                     ...(current.asaGrade === 0 && plan.asaGrade !== null
                       ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency }
@@ -173,9 +179,10 @@ function LinkedPlan({
 }: {
   readonly patientId: number;
   readonly planId: number | null;
-  readonly onChoose: (plan: PlanSummary | null) => void;
+  readonly onChoose: (plan: PlanSummary | null, previous: PlanSummary | null) => void;
 }) {
   const [plans] = useChannel('plans:for-patient', { patientId });
+  const previous = plans.state === 'ready' ? (plans.value.find((plan) => plan.id === planId) ?? null) : null;
   const id = useId();
   if (plans.state !== 'ready' || plans.value.length === 0)
     return <p className="hint">No saved plan for this bird; the record can still be kept.</p>;
@@ -187,7 +194,7 @@ function LinkedPlan({
         name="planId"
         value={planId === null ? '' : String(planId)}
         onChange={(event) =>
-          onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)
+          onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null, previous)
         }
       >
         <option value="">no plan</option>
