@@ -3,6 +3,7 @@ import type { EmergencyDrug } from '../../contract/drug-channels.js';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
+import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { cssStringToken, runningHeaderLines } from '../../core/worksheet.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
@@ -60,7 +61,11 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const onDrawn = useCallback(() => setDrawn(true), []);
   const { plan, patient } = detail;
   const input = plan.input;
-  const result: PlanResult = plan.result;
+  // Cautions for the other sex are left out once the patient's sex is known.
+  const result: PlanResult = {
+    ...plan.result,
+    cautions: cautionsForPatient(plan.result.cautions, patient?.values.sex ?? null),
+  };
   const recoveryWindowMin =
     input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
