@@ -3,7 +3,7 @@ import type { Species } from '../../contract/records.js';
 import { agentIds, agents } from '../../core/agents.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
 import { circuitLabels, routeLabels } from '../common/plan-labels.js';
-import type { DraftProblems, PlanDraft } from './plan-draft.js';
+import { withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
 
 type Props = {
   readonly draft: PlanDraft;
@@ -71,8 +71,11 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           labels={Object.fromEntries(agentIds.map((id) => [id, agents[id].displayName]))}
           value={draft.agent}
           error={undefined}
-          onChange={set('agent')}
+          onChange={(agent) => onChange(withAgent(draft, agent))}
         />
+        <p className="hint">
+          Changing the agent sets the dials to that agent’s usual starting values; check them.
+        </p>
         <NumberField
           label="MAC for this bird"
           name="macPct"
