@@ -75,6 +75,8 @@ export const planSummarySchema = z.object({
   label: z.string(),
   agent: z.string(),
   route: z.string(),
+  /** The plan's breathing system, or null when it names none (a chamber). */
+  circuit: z.string().nullable(),
   bodyMassG: z.number(),
   liquidMl: z.number(),
   oxygenL: z.number(),

@@ -1,8 +1,9 @@
 /**
  * A procedure record as CSV (RFC 4180): one row per logged time point or event, with units in
- * the headers. Text cells that a spreadsheet would run as a formula are prefixed with an
- * apostrophe.
+ * the headers, local times with their UTC offset and events by their readable names. Text cells
+ * that a spreadsheet would run as a formula are prefixed with an apostrophe.
  */
+import { eventName, localTimeWithOffset } from './procedure-events.js';
 
 export type CsvEntry = {
   readonly at: string;
@@ -24,7 +25,7 @@ export type CsvEntry = {
 };
 
 export const procedureCsvHeaders = [
-  'time',
+  'time (local, with UTC offset)',
   'minutes from start',
   'kind',
   'vaporiser (%)',
@@ -39,7 +40,7 @@ export const procedureCsvHeaders = [
   'drug',
   'dose (entered by the clinic)',
   'entered by',
-  'entered at',
+  'entered at (local, with UTC offset)',
   'corrected',
 ] as const;
 
@@ -58,12 +59,16 @@ function minutesBetween(startIso: string, atIso: string): number {
 /**
  * CSV text for a procedure record. `title` lines (patient, species, procedure) come first as
  * comment-free key,value rows so the file stands on its own.
+ * @param input.utcOffsetMinAt the local offset from UTC at an instant, minutes (east positive);
+ *   the caller reads the time zone, so that this stays a plain function
  */
 export function procedureCsv(input: {
   readonly startedAt: string;
   readonly title: readonly (readonly [string, string])[];
   readonly entries: readonly CsvEntry[];
+  readonly utcOffsetMinAt: (iso: string) => number;
 }): string {
+  const local = (iso: string) => localTimeWithOffset(iso, input.utcOffsetMinAt(iso));
   const lines: string[] = [];
   for (const [key, value] of input.title) lines.push(`${cell(key)},${cell(value)}`);
   lines.push('');
@@ -72,7 +77,7 @@ export function procedureCsv(input: {
   for (const entry of sorted) {
     lines.push(
       [
-        entry.at,
+        local(entry.at),
         minutesBetween(input.startedAt, entry.at),
         entry.kind,
         entry.vaporPct,
@@ -82,12 +87,12 @@ export function procedureCsv(input: {
         entry.temperatureC,
         entry.etco2Mmhg,
         entry.spo2Pct,
-        entry.eventType ?? '',
+        entry.eventType === null ? '' : eventName(entry.eventType),
         entry.eventNote,
         entry.drugName,
         entry.drugDose,
         entry.enteredBy,
-        entry.enteredAt,
+        local(entry.enteredAt),
         entry.corrected ? 'yes' : 'no',
       ]
         .map(cell)

@@ -140,3 +140,35 @@ export function weightTrend(
   if (latest !== null) flags.push(...massRangeFlags(latest.massG, range));
   return { latest, sinceLast, sinceFirst, flags };
 }
+
+/**
+ * A change between two weighings beyond this fraction is more often a typing slip than the bird:
+ * asked to be confirmed before saving (assumption; the IVAPM bands put a loss above 20 % in the
+ * worst band).
+ */
+export const weightSlipFraction = 0.2;
+
+/**
+ * Why a weight about to be saved should be confirmed first: far from the last weight (more than
+ * `weightSlipFraction` either way), or outside the species' typical range. Empty when it looks
+ * ordinary. Plain words, naming the numbers, for the clinic.
+ * @param massG the weight typed, g, above 0
+ * @param last the latest weight on file, or null
+ * @param range the species' typical adult range, or null when unknown
+ */
+export function weightSlipReasons(
+  massG: number,
+  last: WeightPoint | null,
+  range: { readonly minG: number; readonly maxG: number; readonly speciesName: string } | null,
+): string[] {
+  const reasons: string[] = [];
+  if (last !== null && last.massG > 0) {
+    const fraction = (massG - last.massG) / last.massG;
+    if (Math.abs(fraction) > weightSlipFraction)
+      reasons.push(
+        `${massG} g is ${Math.abs(fraction * 100).toFixed(0)} % ${fraction > 0 ? 'more' : 'less'} than the last weight, ${last.massG} g on ${last.weighedOn}.`,
+      );
+  }
+  for (const flag of massRangeFlags(massG, range)) reasons.push(flag.message);
+  return reasons;
+}

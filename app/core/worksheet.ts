@@ -318,3 +318,45 @@ export function brainBand(
       'Approximate band: the brain curve stretched in time by the 5-95 % range of the predicted induction and recovery times (assumption)',
   };
 }
+
+/**
+ * A text as a CSS string token, for the running header of the printed pages (`content:` of an
+ * `@page` margin box takes only strings and counters). Backslashes and quotes are escaped and
+ * line breaks become spaces, so no text can end the token early.
+ * @param text any text
+ */
+export function cssStringToken(text: string): string {
+  return `"${text
+    .replace(/\\/g, '\\\\')
+    .replace(/"/g, '\\"')
+    .replace(/[\r\n\f]+/g, ' ')}"`;
+}
+
+/** What identifies the bird on every printed page. */
+export type SheetIdentity = {
+  readonly clinicName: string;
+  readonly patientName: string;
+  /** Ring, microchip or record number; empty when there is none. */
+  readonly identifier: string;
+  /** Date of the procedure, as printed. */
+  readonly dateText: string;
+  readonly planId: number;
+  readonly planVersionId: number;
+};
+
+/**
+ * The two running lines printed in the top margin of every page: who (clinic, bird, identifier)
+ * and which (date, plan and its version). Page numbers are added by the page counters.
+ */
+export function runningHeaderLines(identity: SheetIdentity): {
+  readonly who: string;
+  readonly which: string;
+} {
+  const clinic = identity.clinicName === '' ? 'Clinic name not set' : identity.clinicName;
+  const bird =
+    identity.identifier === '' ? identity.patientName : `${identity.patientName} (${identity.identifier})`;
+  return {
+    who: `${clinic} · ${bird}`,
+    which: `${identity.dateText} · plan ${String(identity.planId)} version ${String(identity.planVersionId)}`,
+  };
+}

@@ -52,6 +52,7 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
       label: plan.label,
       agent: plan.input.agent,
       route: plan.input.route,
+      circuit: plan.input.circuit ?? null,
       bodyMassG: plan.input.bodyMassG,
       liquidMl: plan.result.consumption.liquidMl,
       oxygenL: plan.result.oxygen.usedL,

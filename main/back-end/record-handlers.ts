@@ -8,6 +8,7 @@ import {
 } from '../../app/contract/input-rules.js';
 import type { ProcedureRecordValues } from '../../app/contract/records.js';
 import { procedureCsv } from '../../app/core/procedure-csv.js';
+import { localTimeWithOffset } from '../../app/core/procedure-events.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
@@ -239,13 +240,22 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
     'procedures:history': (request) => procedures.history(request.id),
     'procedures:export-csv': (request) => {
       const detail = procedureDetail(request.id);
+      // The workstation's time zone, as the clinic reads its wall clock (east of UTC positive).
+      const utcOffsetMinAt = (iso: string) => -new Date(iso).getTimezoneOffset();
       const csv = procedureCsv({
+        utcOffsetMinAt,
         startedAt: detail.record.values.startedAt,
         title: [
           ['patient', detail.patient.values.name],
           ['species', detail.species?.values.commonName ?? detail.patient.values.speciesKey],
           ['procedure', detail.record.values.procedureName],
-          ['started', detail.record.values.startedAt],
+          [
+            'started',
+            localTimeWithOffset(
+              detail.record.values.startedAt,
+              utcOffsetMinAt(detail.record.values.startedAt),
+            ),
+          ],
           [
             'ASA grade',
             detail.record.values.asaGrade === null

@@ -37,6 +37,10 @@ const commands: Readonly<Record<string, Command>> = {
     summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]',
     run: async (args) => (await import('./worksheet-command.js')).runWorksheetCommand(args, processIo),
   },
+  record: {
+    summary: 'a procedure record for the patient file as PDF: --id N --out FILE.pdf [--data DIR]',
+    run: async (args) => (await import('./record-command.js')).runRecordCommand(args, processIo),
+  },
 };
 
 function usage(): string {

@@ -1,31 +1,13 @@
-import fs from 'node:fs';
 import path from 'node:path';
-import type { BackEnd } from '../back-end/back-end.js';
-import type { Dispatcher } from '../back-end/handlers.js';
-import { startLoopbackHost, type LoopbackHost } from '../host/loopback-host.js';
-import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
-import {
-  databaseExists,
-  dataLocation,
-  errorText,
-  parseArguments,
-  parseOrExplain,
-  UsageError,
-  type CommandIo,
-} from './command-io.js';
-import { PageNotReadyError, printPageToPdf } from './headless-pdf.js';
+import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
+import { Refusal, runPrintJob, type PrintCommandOptions } from './print-command.js';
 
 export const worksheetUsage =
   'Usage: tidewing worksheet --plan ID --out FILE.pdf [--data DIR]\n' +
   '  Renders the printable worksheet of saved plan ID from the clinic database in DIR (default: the usual data folder) to a PDF, with headless Chromium\n' +
   '  (CHROMIUM_PATH, else /usr/bin/chromium), on the paper size chosen in Settings.';
 
-export type WorksheetCommandOptions = {
-  /** Environment to read CHROMIUM_PATH from; the process's own by default. */
-  readonly env?: NodeJS.ProcessEnv;
-  /** Milliseconds to wait for the worksheet to finish drawing. */
-  readonly readyTimeoutMs?: number;
-};
+export type WorksheetCommandOptions = PrintCommandOptions;
 
 type Arguments = { planId: number; outFile: string; location: ReturnType<typeof dataLocation> };
 
@@ -46,19 +28,6 @@ function parse(args: string[]): Arguments {
   return { planId, outFile: path.resolve(out), location: dataLocation(parsed) };
 }
 
-/** Refusal with a message and exit code 1. */
-class Refusal extends Error {}
-
-async function check<T>(
-  backEnd: BackEnd,
-  channel: Parameters<BackEnd['dispatch']>[0],
-  payload: unknown,
-): Promise<T> {
-  const answer = await backEnd.dispatch(channel, payload);
-  if (!answer.ok) throw new Refusal(answer.error.message);
-  return answer.value as T;
-}
-
 /**
  * `tidewing worksheet --plan ID --data DIR --out FILE.pdf`: the same worksheet page the app
  * prints, rendered by headless Chromium from an in-process loopback host on a free port and
@@ -73,151 +42,26 @@ export async function runWorksheetCommand(
   const parsed = parseOrExplain(io, 'worksheet', worksheetUsage, () => parse(args));
   if (parsed === null) return 2;
   const { planId, outFile, location } = parsed;
-  if (!fs.existsSync(location.databaseFile)) {
-    // A database gone from beside backups with records: say which backup to restore. (Loaded
-    // here only, like the back end below, so that the database driver does not delay Chromium.)
-    const { checkBeforeStart } = await import('../back-end/start-up-guard.js');
-    const finding = checkBeforeStart({ dataDirectory: location.dataDirectory });
-    if (!finding.ok) io.stderr(`tidewing worksheet: ${finding.message}\n`);
-    else databaseExists(io, 'worksheet', location);
-    return 1;
-  }
-  if (!fs.existsSync(path.dirname(outFile))) {
-    io.stderr(
-      `tidewing worksheet: the folder ${path.dirname(outFile)} does not exist. Nothing was written.\n`,
-    );
-    return 1;
-  }
-
-  const root = findProjectRoot();
-  const executablePath = (options.env ?? process.env)['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-  if (!fs.existsSync(executablePath)) {
-    io.stderr(
-      `tidewing worksheet: no Chromium found at ${executablePath}. Install it (for example \`apt-get install chromium\`) or set CHROMIUM_PATH to its executable. Nothing was written.\n`,
-    );
-    return 1;
-  }
-  const renderer = rendererDirectory(root);
-  if (!fs.existsSync(path.join(renderer, 'print.html'))) {
-    io.stderr(
-      `tidewing worksheet: the app's pages are not built (no ${path.join(renderer, 'print.html')}); run \`npm run build\` first. Nothing was written.\n`,
-    );
-    return 1;
-  }
-
-  const started = performance.now();
-  let backEnd: BackEnd | null = null;
-  let host: LoopbackHost | null = null;
-  let printing: Promise<Buffer> | null = null;
-  const stopPrinting = new AbortController();
-  // The page's requests wait here until the database is open.
-  let openBackEnd: (backEnd: BackEnd) => void = () => undefined;
-  let backEndFailed: () => void = () => undefined;
-  const backEndOpen = new Promise<BackEnd>((resolve, reject) => {
-    openBackEnd = resolve;
-    backEndFailed = () => reject(new Error('the database could not be opened'));
-  });
-  backEndOpen.catch(() => undefined);
-  const dispatch: Dispatcher = async (channel, payload) => {
-    try {
-      return await (await backEndOpen).dispatch(channel, payload);
-    } catch {
-      return { ok: false, error: { code: 'internal', message: 'The clinic database could not be opened.' } };
-    }
-  };
-  const temporary = path.join(path.dirname(outFile), `.${path.basename(outFile)}.${process.pid}.partial`);
-  try {
-    // Chromium takes about half a second to start: start it on the worksheet's address first,
-    // and open the database (which takes a few hundred milliseconds to load) while it starts.
-    host = await startLoopbackHost({ port: 0, rendererDirectory: renderer, dispatch });
-    // The worksheet alone (print.html), on the host's one-time start address: the host trades
-    // the code for a session and redirects to /print.html (the browser keeps the hash), whose
-    // HTML hands the page the bridge token. The code on Chromium's command line is spent then.
-    const page = new URL(host.url);
-    page.pathname = '/print.html';
-    page.hash = `#/worksheets/${planId}`;
-    io.stderr(`worksheet: rendering plan ${planId} with ${executablePath}\n`);
-    printing = printPageToPdf({
-      executablePath,
-      url: page.href,
+  return runPrintJob(
+    {
+      command: 'worksheet',
+      what: `the worksheet of plan ${planId}`,
+      noun: 'worksheet',
+      outFile,
+      location,
+      hash: `#/worksheets/${planId}`,
       readySelector: '.worksheet[data-ready="true"]',
-      timeoutMs: options.readyTimeoutMs ?? 20_000,
-      signal: stopPrinting.signal,
-    });
-    printing.catch(() => undefined);
-
-    io.stderr(`worksheet: opening ${location.databaseFile}\n`);
-    const [{ startBackEnd }, { DatabaseTooNewError }, { StartRefusedError }] = await Promise.all([
-      import('../back-end/back-end.js'),
-      import('../../db/connection.js'),
-      import('../back-end/start-up-guard.js'),
-    ]);
-    try {
-      backEnd = startBackEnd({
-        dataDirectory: location.dataDirectory,
-        appVersion: readAppVersion(root),
-        host: 'browser',
-      });
-    } catch (error) {
-      throw new Refusal(
-        error instanceof DatabaseTooNewError || error instanceof StartRefusedError
-          ? error.message
-          : `the database could not be opened: ${errorText(error)}`,
-      );
-    }
-    openBackEnd(backEnd);
-    const detail = await backEnd.dispatch('plans:get', { id: planId });
-    if (!detail.ok)
-      throw new Refusal(
-        detail.error.code === 'not-found'
-          ? `there is no plan ${planId} in ${location.databaseFile}.`
-          : detail.error.message,
-      );
-    const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
-    if (!safety.acknowledged) {
-      throw new Refusal(
-        `the cautions of Tidewing ${safety.appVersion} have not been acknowledged in this database yet. Open the app (npm start) with --data ${location.dataDirectory}, read and acknowledge them, then run this command again.`,
-      );
-    }
-    const settings = await check<{ settings: unknown }>(backEnd, 'settings:get', {});
-    if (settings.settings === null)
-      throw new Refusal(
-        'the clinic is not set up yet (name, address, paper size). Open the app first and save Settings, then run this command again.',
-      );
-
-    let pdf: Buffer;
-    try {
-      pdf = await printing;
-    } catch (error) {
-      if (!(error instanceof PageNotReadyError)) throw error;
-      const shown = error.alerts.join(' ');
-      throw new Refusal(
-        `the worksheet did not finish drawing${shown === '' ? '' : `: ${shown}`}${error.pageErrors.length === 0 ? '' : ` (page errors: ${error.pageErrors.join('; ')})`}. Nothing was written.`,
-      );
-    }
-    io.stderr('worksheet: writing PDF\n');
-    fs.writeFileSync(temporary, pdf);
-    fs.renameSync(temporary, outFile);
-    const sizeBytes = fs.statSync(outFile).size;
-    io.stdout(
-      `Wrote the worksheet of plan ${planId} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`,
-    );
-    return 0;
-  } catch (error) {
-    fs.rmSync(temporary, { force: true });
-    if (error instanceof Refusal) {
-      io.stderr(`tidewing worksheet: ${error.message}\n`);
-      return 1;
-    }
-    io.stderr(
-      `tidewing worksheet: the PDF could not be made: ${errorText(error)}. Nothing was written under ${outFile}.\n`,
-    );
-    return 1;
-  } finally {
-    backEndFailed();
-    stopPrinting.abort();
-    await printing?.catch(() => undefined);
-    await host?.close();
-    backEnd?.close();
-  }
+      findIt: async (backEnd) => {
+        const detail = await backEnd.dispatch('plans:get', { id: planId });
+        if (!detail.ok)
+          throw new Refusal(
+            detail.error.code === 'not-found'
+              ? `there is no plan ${planId} in ${location.databaseFile}.`
+              : detail.error.message,
+          );
+      },
+    },
+    io,
+    options,
+  );
 }

@@ -3,6 +3,7 @@ import {
   asaMortality,
   asaMortalityText,
   brainBand,
+  cssStringToken,
   drugVolumeMl,
   emergencyCard,
   minutesWithRangeText,
@@ -11,6 +12,7 @@ import {
   openChecklistItems,
   plannedEndMin,
   plannedVaporPctAt,
+  runningHeaderLines,
 } from '../../app/core/worksheet.js';
 
 // The drugs below are placeholders entered "by the clinic" in the test: Tidewing ships no drug and
@@ -176,5 +178,39 @@ describe('approximate brain band for the printed chart', () => {
 
   it('is absent when no uncertainty run was made', () => {
     expect(brainBand(timeMin, brainPct, 4, null, null)).toBeNull();
+  });
+});
+
+describe('running lines of the printed pages', () => {
+  it('names the clinic, the bird with its identifier, the date and the plan version', () => {
+    const lines = runningHeaderLines({
+      clinicName: 'Heron Lane Bird Clinic',
+      patientName: 'Pip',
+      identifier: 'ring HL-24-117',
+      dateText: '2026-12-02',
+      planId: 3,
+      planVersionId: 7,
+    });
+    expect(lines.who).toBe('Heron Lane Bird Clinic · Pip (ring HL-24-117)');
+    expect(lines.which).toBe('2026-12-02 · plan 3 version 7');
+  });
+
+  it('says when the clinic has no name yet, and leaves out an empty identifier', () => {
+    const lines = runningHeaderLines({
+      clinicName: '',
+      patientName: 'Quick plan 4',
+      identifier: '',
+      dateText: '2026-12-02',
+      planId: 4,
+      planVersionId: 4,
+    });
+    expect(lines.who).toBe('Clinic name not set · Quick plan 4');
+  });
+
+  it('turns any text into one CSS string token that cannot be ended early', () => {
+    expect(cssStringToken('Pip')).toBe('"Pip"');
+    expect(cssStringToken('say "hi"')).toBe('"say \\"hi\\""');
+    expect(cssStringToken('a\\b')).toBe('"a\\\\b"');
+    expect(cssStringToken('two\nlines')).toBe('"two lines"');
   });
 });

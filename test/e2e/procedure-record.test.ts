@@ -329,7 +329,7 @@ describe('procedure record screens in headless Chromium', () => {
           .filter((row) => row[column('kind')] === 'event')
           .map((row) => row[column('event')])
           .sort(),
-      ).toEqual(['apnoea', 'induction']);
+      ).toEqual(['Apnoea', 'Induction']);
       const first = cells.find((row) => row[column('minutes from start')] === '0');
       // 104 °F is 40 °C and 5.3 kPa is 39.75 mmHg (760/101.325 mmHg per kPa, units.ts).
       expect(first?.[column('temperature (C)')]).toBe('40');

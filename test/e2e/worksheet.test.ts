@@ -40,7 +40,14 @@ const squash = (text: string) => text.replace(/\s+/g, ' ').trim();
 async function worksheetPdf(
   planId: number,
   name: string,
-): Promise<{ file: string; text: string; pageCount: number; pageWidthPt: number; pageHeightPt: number }> {
+): Promise<{
+  file: string;
+  text: string;
+  pages: string[];
+  pageCount: number;
+  pageWidthPt: number;
+  pageHeightPt: number;
+}> {
   const file = path.join(output.folder, `${name}.pdf`);
   await run(
     process.execPath,
@@ -59,10 +66,17 @@ async function worksheetPdf(
   const text = (await run('pdftotext', [file, '-'])).stdout;
   const info = (await run('pdfinfo', [file])).stdout;
   const size = /Page size:\s+([\d.]+) x ([\d.]+) pts/.exec(info);
+  const pageCount = Number(/Pages:\s+(\d+)/.exec(info)?.[1] ?? 0);
+  const pages: string[] = [];
+  for (let number = 1; number <= pageCount; number += 1)
+    pages.push(
+      squash((await run('pdftotext', ['-f', String(number), '-l', String(number), file, '-'])).stdout),
+    );
   return {
     file,
     text: squash(text),
-    pageCount: Number(/Pages:\s+(\d+)/.exec(info)?.[1] ?? 0),
+    pages,
+    pageCount,
     pageWidthPt: Number(size?.[1]),
     pageHeightPt: Number(size?.[2]),
   };
@@ -240,18 +254,11 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     // common practice arithmetic: 0.5-1 mg/kg x 0.032 kg / 1 mg/mL = 0.016-0.032 mL; 20 mg/kg x 0.032 kg / 50 mg/mL = 0.0128 mL, printed to 0.001 mL
     expect(shown).toContain('0.016-0.032 mL');
     expect(shown).toContain('0.013 mL');
-    const induction = squash(
-      await page
-        .getByRole('row', { name: /Predicted induction/ })
-        .locator('td')
-        .innerText(),
-    );
-    const recovery = squash(
-      await page
-        .getByRole('row', { name: /Predicted recovery/ })
-        .locator('td')
-        .innerText(),
-    );
+    // The summary at the top of the sheet and the detail further down print the same times.
+    const timeText = async (name: RegExp) =>
+      squash(await page.getByRole('row', { name }).first().locator('td strong').innerText());
+    const induction = await timeText(/Predicted induction/);
+    const recovery = await timeText(/Predicted recovery/);
     expect(induction).toMatch(/^\d+(\.\d+)? min/);
     expect(recovery).toMatch(/^\d+(\.\d+)? min/);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-screen.png'), fullPage: true });
@@ -285,9 +292,35 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       expect(a4.text).toContain(squash(caution.reason));
     }
     expect(a4.text).toContain('The responsible licensed veterinarian decides');
+    // Page 1 stands alone in the prep room: the bird, the times, the flow and the emergency card.
+    const [first] = a4.pages;
+    for (const expected of [
+      'Pip',
+      'ring HL-24-117',
+      '32 g',
+      'ASA 2',
+      induction,
+      recovery,
+      'Fresh gas (oxygen)',
+      '1 L/min',
+      'Emergency card for 32 g',
+      'Clinic drug A',
+      '0.016-0.032 mL',
+      '0.013 mL',
+    ])
+      expect(first, `page 1: ${expected}`).toContain(expected);
+    // Every page names the clinic, the bird and its ring, the date and the plan version, and counts itself.
+    a4.pages.forEach((text, index) => {
+      const where = `page ${String(index + 1)}`;
+      expect(text, where).toContain(`page ${String(index + 1)} of ${String(a4.pageCount)}`);
+      expect(text, where).toContain('Heron Lane Bird Clinic · Pip (ring HL-24-117)');
+      expect(text, where).toContain(`2026-12-02 · plan ${String(saved.id)} version`);
+    });
+    // The monitoring grid comes last.
+    expect(a4.pages.at(-1)).toContain('Time (min)');
     const a4Pages = await pageImages(a4.file, '3x-worksheet-page');
     expect(a4Pages.length).toBe(a4.pageCount);
-    expect(a4.pageCount).toBeGreaterThanOrEqual(2);
+    expect(a4.pageCount).toBeGreaterThanOrEqual(3);
 
     await bridge(page, 'settings:save', { ...heronLaneSettings, paperSize: 'Letter' });
     const letter = await worksheetPdf(saved.id, 'letter');
@@ -302,6 +335,12 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       'The responsible licensed veterinarian decides',
     ])
       expect(letter.text, expected).toContain(expected);
+    for (const expected of ['Pip', induction, recovery, '1 L/min', 'Emergency card for 32 g'])
+      expect(letter.pages[0], `Letter page 1: ${expected}`).toContain(expected);
+    letter.pages.forEach((text, index) => {
+      expect(text).toContain(`page ${String(index + 1)} of ${String(letter.pageCount)}`);
+      expect(text).toContain('Pip (ring HL-24-117)');
+    });
     const letterPages = await pageImages(letter.file, '3x-worksheet-letter-page');
     expect(letterPages.length).toBe(letter.pageCount);
     expect(problems).toEqual([]);

@@ -275,6 +275,7 @@ describe('plan channels', () => {
       label: 'Radiograph',
       agent: 'isoflurane',
       route: 'mask',
+      circuit: 'nonRebreathing',
       bodyMassG: 32,
       liquidMl: pipPlan.result.consumption.liquidMl,
       oxygenL: pipPlan.result.oxygen.usedL,

@@ -1,5 +1,9 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { procedureCsvHeaders } from '../../app/core/procedure-csv.js';
+import { localTimeWithOffset } from '../../app/core/procedure-events.js';
+
+/** An instant as the workstation's wall clock shows it, with its offset (the export's rule). */
+const wallClock = (iso: string) => localTimeWithOffset(iso, -new Date(iso).getTimezoneOffset());
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
 import {
   correctionBy,
@@ -151,7 +155,7 @@ describe('procedure record channels', () => {
       'patient,Pip',
       'species,Budgerigar',
       'procedure,Wing radiograph',
-      'started,2026-12-01T10:00:00.000Z',
+      `started,${wallClock('2026-12-01T10:00:00.000Z')}`,
       'ASA grade,2',
       'airway,mask',
       'staff,RW',
@@ -160,8 +164,8 @@ describe('procedure record channels', () => {
     // A header holding a comma is quoted (RFC 4180).
     expect(lines[8]).toBe(procedureCsvHeaders.map((h) => (h.includes(',') ? `"${h}"` : h)).join(','));
     expect(lines.slice(9)).toEqual([
-      '2026-12-01T10:01:00.000Z,1,event,,,,,,,,induction,"Smooth, no struggling",,,RW,2026-12-01T10:05:30.000Z,no',
-      '2026-12-01T10:05:00.000Z,5,vitals,2,1,420,40,40.1,,,,,,,RW,2026-12-01T10:05:30.000Z,no',
+      `${wallClock('2026-12-01T10:01:00.000Z')},1,event,,,,,,,,Induction,"Smooth, no struggling",,,RW,${wallClock('2026-12-01T10:05:30.000Z')},no`,
+      `${wallClock('2026-12-01T10:05:00.000Z')},5,vitals,2,1,420,40,40.1,,,,,,,RW,${wallClock('2026-12-01T10:05:30.000Z')},no`,
       '',
     ]);
   });
@@ -175,7 +179,7 @@ describe('procedure record channels', () => {
     });
     const exported = await api.answer('procedures:export-csv', { id: record.id });
     // Leading = is prefixed with an apostrophe (OWASP CSV injection guidance, common practice).
-    expect(exported.csv).toContain(",note,'=1+1,");
+    expect(exported.csv).toContain(",Note,'=1+1,");
     const missing = await api.refusal('procedures:export-csv', { id: record.id + 1 });
     expect(missing.code).toBe('not-found');
   });

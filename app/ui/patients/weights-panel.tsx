@@ -10,6 +10,7 @@ import {
 } from '../../contract/input-rules.js';
 import { describeIssues } from '../../contract/result.js';
 import { gToKg, kgToG } from '../../core/units.js';
+import { weightSlipReasons } from '../../core/weight-trend.js';
 import { api } from '../common/bridge.js';
 import { displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -40,6 +41,8 @@ export function WeightsPanel({ detail, onChanged }: Props) {
   const [failure, setFailure] = useState<string | null>(null);
   const [editing, setEditing] = useState<Editing>(null);
   const [history, setHistory] = useState<{ id: number; versions: Weight[] } | null>(null);
+  // A weight that looks like a slip waits here for a second Enter (or Esc to fix it).
+  const [confirming, setConfirming] = useState<{ massText: string; reasons: string[] } | null>(null);
 
   function startEdit(weight: Weight, mode: 'correct' | 'void') {
     setEditing({ weight, mode });
@@ -52,7 +55,14 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     setFailure(null);
   }
 
+  function focusMass() {
+    const box = document.querySelector<HTMLInputElement>('.weights-form [name="massG"]');
+    box?.focus();
+    box?.select();
+  }
+
   function reset() {
+    setConfirming(null);
     setEditing(null);
     setMassText('');
     setReason('');
@@ -88,6 +98,24 @@ export function WeightsPanel({ detail, onChanged }: Props) {
       return;
     }
     setErrors({});
+    if (editing?.mode !== 'void' && massG !== null && !Number.isNaN(massG)) {
+      const range =
+        detail.species === null
+          ? null
+          : {
+              minG: detail.species.values.massMinG,
+              maxG: detail.species.values.massMaxG,
+              speciesName: detail.species.values.commonName,
+            };
+      const last = editing === null ? detail.trend.latest : null;
+      const reasons = weightSlipReasons(massG, last, range);
+      if (reasons.length > 0 && confirming?.massText !== massText) {
+        setConfirming({ massText, reasons });
+        focusMass();
+        return;
+      }
+    }
+    setConfirming(null);
     const who = writeMeta(reason.trim());
     if ('missing' in who) {
       setFailure(who.missing);
@@ -268,9 +296,16 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         </div>
       )}
       <form
-        className="form"
+        className="form weights-form"
         noValidate
         onSubmit={(event) => void submit(event)}
+        onKeyDown={(event) => {
+          if (event.key === 'Escape' && confirming !== null) {
+            event.preventDefault();
+            setConfirming(null);
+            focusMass();
+          }
+        }}
         aria-label={editing === null ? 'Add a weight' : 'Correct a weight'}
       >
         <h3>
@@ -325,6 +360,19 @@ export function WeightsPanel({ detail, onChanged }: Props) {
             onChange={setReason}
           />
         )}
+        {confirming !== null && confirming.massText === massText && (
+          <div className="form-error weight-confirm" role="alert">
+            <p>
+              <strong>Check this weight before it is saved.</strong>
+            </p>
+            <ul>
+              {confirming.reasons.map((text) => (
+                <li key={text}>{text}</li>
+              ))}
+            </ul>
+            <p>Press Enter again to save it as it is, or Esc to fix it.</p>
+          </div>
+        )}
         {failure !== null && (
           <p className="form-error" role="alert">
             {failure}
@@ -332,7 +380,13 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         )}
         <div className="form-actions">
           <button type="submit" className="primary">
-            {editing === null ? 'Add weight' : editing.mode === 'void' ? 'Void weight' : 'Save correction'}
+            {confirming !== null && confirming.massText === massText
+              ? 'Save this weight anyway'
+              : editing === null
+                ? 'Add weight'
+                : editing.mode === 'void'
+                  ? 'Void weight'
+                  : 'Save correction'}
           </button>
           {editing !== null && (
             <button type="button" onClick={reset}>

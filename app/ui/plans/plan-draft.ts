@@ -38,6 +38,23 @@ export type PlanDraft = {
   roomChangesText: string;
 };
 
+/**
+ * The draft with another agent: the dial settings follow the agent (each agent's typical
+ * induction and maintenance settings), so that a switch to sevoflurane never keeps isoflurane
+ * dials; the MAC typed for the old agent is cleared for the same reason. Everything else stays.
+ */
+export function withAgent(draft: PlanDraft, agent: AgentId): PlanDraft {
+  if (agent === draft.agent) return draft;
+  const typical = defaultDraft(agent, draft.massUnit);
+  return {
+    ...draft,
+    agent,
+    macText: '',
+    inductionPctText: typical.inductionPctText,
+    maintenancePctText: typical.maintenancePctText,
+  };
+}
+
 /** Typical starting values; each is shown as editable and none is a recommendation for a bird. */
 export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
   const sevo = agent === 'sevoflurane';

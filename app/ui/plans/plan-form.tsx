@@ -5,7 +5,7 @@ import { circuitLabels, circuits, routeLabels, routes } from '../../core/deliver
 import { basisText } from '../../core/sourced.js';
 import { displayBasis } from '../common/display.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
-import type { DraftProblems, PlanDraft } from './plan-draft.js';
+import { withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
 
 type Props = {
   readonly draft: PlanDraft;
@@ -73,8 +73,11 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           labels={agentLabels}
           value={draft.agent}
           error={undefined}
-          onChange={set('agent')}
+          onChange={(agent) => onChange(withAgent(draft, agent))}
         />
+        <p className="hint">
+          Changing the agent sets the dials to that agent’s usual starting values; check them.
+        </p>
         <NumberField
           label="MAC for this bird"
           name="macPct"

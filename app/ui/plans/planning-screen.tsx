@@ -3,6 +3,7 @@ import { localDateOf, plannedDateProblem } from '../../contract/input-rules.js';
 import { checklistSchema, planFieldsSchema, type Checklist } from '../../contract/plan-records.js';
 import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
+import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { api } from '../common/bridge.js';
 import { displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -54,6 +55,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     savedStamp: null,
   });
   const [loadFailure, setLoadFailure] = useState<string | null>(null);
+  // The patient's sex, once known: cautions for the other sex are not shown.
+  const [patientSex, setPatientSex] = useState<'male' | 'female' | 'unknown' | null>(null);
   const [saveMessage, setSaveMessage] = useState<SaveMessage | null>(null);
   const [loaded, setLoaded] = useState(start.kind === 'quick');
 
@@ -68,6 +71,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       void api.invoke('patients:get', { id: start.patientId }).then((answer) => {
         if (!answer.ok) return setLoadFailure(answer.error.message);
         const { patient, trend } = answer.value;
+        setPatientSex(patient.values.sex);
         const massG = trend.latest?.massG ?? null;
         setDraftA((current) => ({
           ...current,
@@ -91,6 +95,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       void api.invoke('plans:get', { id: start.planId }).then((answer) => {
         if (!answer.ok) return setLoadFailure(answer.error.message);
         const { plan, patient } = answer.value;
+        setPatientSex(patient?.values.sex ?? null);
         setDraftA(inputToDraft(plan.input, settings.massUnit));
         setChecklist(plan.checklist);
         setPlannedFor(plan.plannedFor);
@@ -311,7 +316,10 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
                 />
                 <h3>Cautions of plan {active === 'A' ? 'B' : 'A'}</h3>
                 <CautionList
-                  cautions={(active === 'A' ? computationB.result : computationA.result).cautions}
+                  cautions={cautionsForPatient(
+                    (active === 'A' ? computationB.result : computationA.result).cautions,
+                    patientSex,
+                  )}
                 />
               </section>
             )}
@@ -328,7 +336,10 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
             </p>
           ) : (
             <PlanResults
-              result={shownComputation.result}
+              result={{
+                ...shownComputation.result,
+                cautions: cautionsForPatient(shownComputation.result.cautions, patientSex),
+              }}
               pending={shownComputation.pending || Object.keys(shownComputation.problems).length > 0}
               setFreshGasLpm={shownComputation.input?.freshGasLpm ?? null}
               compareWith={

@@ -1,4 +1,4 @@
-import { useId, useRef, useState, type FormEvent } from 'react';
+import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
 import { entryTimeProblem } from '../../contract/input-rules.js';
 import type { ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
 import type { FieldErrors } from '../common/field-errors.js';
@@ -8,35 +8,65 @@ import {
   emptyReadings,
   readingFields,
   readingLabel,
+  readingsToDraft,
   toDisplayReading,
   type DisplayUnits,
   type ReadingDraft,
 } from './entry-form.js';
 import { useNowMs } from './use-now.js';
 
+/** Fills the boxes with the last row's readings, for the 5-minute round when nothing changed. */
+export const sameAsLastRowKey = 'F4';
+
 /**
- * The row of reading boxes for a new vitals row: time (blank for now), each reading with the last
- * row as placeholder; Enter saves. `onSave` answers null when saved or the message to show.
+ * The row of reading boxes for a new vitals row: time (blank for now; the event buttons use it
+ * too, so the Time box belongs to the screen), each reading with the last row as placeholder;
+ * Enter saves; "Same as last row" (F4) copies the last row's readings into the boxes to be
+ * checked and saved. `onSave` answers null when saved or the message to show.
  */
 export function EntryRow({
   units,
   record,
   lastEntry,
   onSave,
+  timeText,
+  onTimeText,
 }: {
   readonly units: DisplayUnits;
   /** The record's start and end: a row's time must lie within them (with the contract's tolerances). */
   readonly record: Pick<ProcedureRecordValues, 'startedAt' | 'endedAt'>;
   readonly lastEntry: ProcedureEntryValues | null;
   readonly onSave: (values: ProcedureEntryValues) => Promise<string | null>;
+  readonly timeText: string;
+  readonly onTimeText: (text: string) => void;
 }) {
-  const [timeText, setTimeText] = useState('');
   const [readings, setReadings] = useState<ReadingDraft>(emptyReadings);
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
   const firstReading = useRef<HTMLInputElement | null>(null);
   const baseId = useId();
   const nowMs = useNowMs();
+  const [copied, setCopied] = useState(false);
+
+  function copyLastRow() {
+    if (lastEntry === null) return;
+    setReadings(readingsToDraft(lastEntry, units));
+    setErrors({});
+    setCopied(true);
+    firstReading.current?.focus();
+  }
+  useEffect(() => {
+    function onKey(event: KeyboardEvent) {
+      if (event.key !== sameAsLastRowKey || event.repeat || lastEntry === null) return;
+      event.preventDefault();
+      setReadings(readingsToDraft(lastEntry, units));
+      setErrors({});
+      setCopied(true);
+      firstReading.current?.focus();
+    }
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [lastEntry, units]);
 
   async function submit(event: FormEvent) {
     event.preventDefault();
@@ -45,6 +75,9 @@ export function EntryRow({
     const checked = checkEntry({ timeText, readings, kind: 'vitals' }, units, now);
     if (!checked.ok) {
       setErrors(checked.errors);
+      // Focus the first box in error, so the fix starts where the problem is.
+      const key = Object.keys(checked.errors)[0];
+      if (key !== undefined) document.getElementById(`${baseId}-${key === 'at' ? 'time' : key}`)?.focus();
       return;
     }
     // The back end refuses a time outside the record too; checking here shows it by the time box.
@@ -58,8 +91,9 @@ export function EntryRow({
     const message = await onSave(checked.values);
     setBusy(false);
     if (message === null) {
-      setTimeText('');
+      onTimeText('');
       setReadings(emptyReadings);
+      setCopied(false);
     }
     firstReading.current?.focus();
   }
@@ -82,12 +116,12 @@ export function EntryRow({
             aria-describedby={`${baseId}-time-hint`}
             aria-invalid={errors['at'] !== undefined}
             onChange={(event) => {
-              setTimeText(event.target.value);
+              onTimeText(event.target.value);
               setErrors({});
             }}
           />
           <span className="visually-hidden" id={`${baseId}-time-hint`}>
-            Blank for now, or HH:MM
+            Blank for now, or HH:MM; the event buttons use this time too
           </span>
         </div>
         {readingFields.map((field, index) => {
@@ -126,6 +160,9 @@ export function EntryRow({
           <button type="submit" className="primary" disabled={busy}>
             Save row <kbd className="record-kbd-light">Enter</kbd>
           </button>
+          <button type="button" disabled={lastEntry === null} onClick={copyLastRow}>
+            Same as last row <kbd>{sameAsLastRowKey}</kbd>
+          </button>
         </div>
       </div>
       {Object.keys(errors).length > 0 && (
@@ -137,9 +174,15 @@ export function EntryRow({
           ))}
         </ul>
       )}
+      {copied && (
+        <p className="status-saved" role="status">
+          The last row’s readings are in the boxes: check them against the bird, change what differs, then
+          press Enter.
+        </p>
+      )}
       <p className="hint">
-        Blank boxes are not measured. Time blank means now; type HH:MM for an earlier reading. Placeholders
-        show the last row.
+        Blank boxes are not measured. Time blank means now; type HH:MM for an earlier reading or event.
+        Placeholders show the last row.
       </p>
     </form>
   );

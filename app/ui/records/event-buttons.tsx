@@ -1,6 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
 import { eventLabels, type EventType } from '../../core/procedure-events.js';
-import { clockText } from './clock-time.js';
+import { clockMinutesText, resolveClockTime } from './clock-time.js';
 
 /** Events common enough for a button of their own, in the order they usually happen. */
 const buttonEvents: readonly EventType[] = [
@@ -16,16 +16,23 @@ const buttonEvents: readonly EventType[] = [
 ];
 
 /**
- * One button per common event, and small forms for a drug given or a note. `onLog` answers null
- * when logged or the message to show.
+ * One button per common event, and small forms for a drug given or a note. An event is logged at
+ * the time typed in the Time box of the row above (blank for now), which is then cleared. `onLog`
+ * answers null when logged or the message to show.
  */
 export function EventButtons({
   onLog,
+  timeText,
+  onTimeUsed,
 }: {
   readonly onLog: (
     eventType: EventType,
-    extra?: { eventNote?: string; drugName?: string; drugDose?: string },
+    extra?: { timeText?: string; eventNote?: string; drugName?: string; drugDose?: string },
   ) => Promise<string | null>;
+  /** What is typed in the Time box: blank for now, or HH:MM. */
+  readonly timeText: string;
+  /** Called once an event has been logged at the typed time, to clear the box. */
+  readonly onTimeUsed: () => void;
 }) {
   const [open, setOpen] = useState<'drugGiven' | 'note' | null>(null);
   const [note, setNote] = useState('');
@@ -39,10 +46,16 @@ export function EventButtons({
     eventType: EventType,
     extra?: { eventNote?: string; drugName?: string; drugDose?: string },
   ) {
-    const message = await onLog(eventType, extra);
+    const now = new Date();
+    const typed = resolveClockTime(timeText, now);
+    const message = await onLog(eventType, { ...extra, timeText });
     setError(message);
     if (message === null) {
-      setLogged(`${eventLabels[eventType]} logged at ${clockText(new Date().toISOString())}.`);
+      const when = typed.ok ? typed.date : now;
+      setLogged(
+        `${eventLabels[eventType]} logged at ${clockMinutesText(when)}${timeText.trim() === '' ? '' : ' (the time typed)'}.`,
+      );
+      if (timeText.trim() !== '') onTimeUsed();
       setOpen(null);
       setNote('');
       setDrugName('');

@@ -14,6 +14,8 @@ import { PromptInterval } from './prompt-interval.js';
 import { RecordChart } from './record-chart.js';
 import { RecordDetailsEditor } from './record-details-editor.js';
 import { RecordHeader } from './record-header.js';
+import { RecordPrintView } from './record-print-view.js';
+import './record-entry.css';
 import { Milestones } from './record-milestones.js';
 import { useNowMs } from './use-now.js';
 import { useRecordWrites } from './use-record-writes.js';
@@ -55,6 +57,8 @@ function LiveRecordScreen({
   const values = record.values;
   const writes = useRecordWrites(record.id, units, reload);
   const [editingDetails, setEditingDetails] = useState(false);
+  // The Time box of the entry row: the event buttons log at this time too.
+  const [timeText, setTimeText] = useState('');
   const stopwatch = useApnoeaStopwatch(nowMs, (finished) => {
     void writes.logEvent('apnoea', {
       at: new Date(finished.startedAtMs).toISOString(),
@@ -97,11 +101,13 @@ function LiveRecordScreen({
         record={values}
         lastEntry={entries.filter((entry) => entry.values.kind === 'vitals').at(-1)?.values ?? null}
         onSave={writes.addEntry}
+        timeText={timeText}
+        onTimeText={setTimeText}
       />
 
       <div className="record-toolbar">
         <ApnoeaStopwatchButton stopwatch={stopwatch} />
-        <EventButtons onLog={writes.logEvent} />
+        <EventButtons onLog={writes.logEvent} timeText={timeText} onTimeUsed={() => setTimeText('')} />
       </div>
 
       <Milestones entries={entries} />
@@ -129,6 +135,7 @@ function LiveRecordScreen({
           onVoid={writes.voidEntry}
         />
       </div>
+      <RecordPrintView detail={detail} />
     </section>
   );
 }

@@ -132,7 +132,7 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
           patientId={patientId}
           planId={draft.planId}
           error={errors['planId']}
-          onChoose={(plan) => {
+          onChoose={(plan, previous) => {
             setErrors(({ planId: _plan, ...rest }) => rest);
             setDraft((current) => ({
               ...current,
@@ -140,8 +140,14 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
               ...(plan === null
                 ? {}
                 : {
-                    airway: current.airway === '' ? (plan.route as RecordDraft['airway']) : current.airway,
-                    procedureName: current.procedureName === '' ? plan.label : current.procedureName,
+                    // The record follows the linked plan: its airway and breathing system replace
+                    // what an earlier plan put there (change them here after choosing the plan).
+                    airway: plan.route as RecordDraft['airway'],
+                    ...(plan.circuit === null ? {} : { circuit: plan.circuit as RecordDraft['circuit'] }),
+                    procedureName:
+                      current.procedureName === '' || current.procedureName === previous?.label
+                        ? plan.label
+                        : current.procedureName,
                     // The ASA grade given in the plan's checklist, unless one is chosen here.
                     ...(current.asaGrade === 0 && plan.asaGrade !== null
                       ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency }
@@ -178,9 +184,10 @@ function LinkedPlan({
   readonly planId: number | null;
   /** The back end's refusal of the chosen plan (missing, or another bird's). */
   readonly error: string | undefined;
-  readonly onChoose: (plan: PlanSummary | null) => void;
+  readonly onChoose: (plan: PlanSummary | null, previous: PlanSummary | null) => void;
 }) {
   const [plans] = useChannel('plans:for-patient', { patientId });
+  const previous = plans.state === 'ready' ? (plans.value.find((plan) => plan.id === planId) ?? null) : null;
   const id = useId();
   const message =
     error === undefined ? null : (
@@ -205,7 +212,7 @@ function LinkedPlan({
         aria-describedby={error === undefined ? undefined : `${id}-error`}
         value={planId === null ? '' : String(planId)}
         onChange={(event) =>
-          onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null)
+          onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null, previous)
         }
       >
         <option value="">no plan</option>

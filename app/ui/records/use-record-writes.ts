@@ -9,7 +9,17 @@ import { useInitialsGate } from './initials-gate.js';
 type Write = (enteredBy: string) => Promise<string | null>;
 
 /** Details an event row may carry besides its type; `at` (ISO 8601) back-dates it. */
-export type EventExtra = { at?: string; eventNote?: string; drugName?: string; drugDose?: string };
+/**
+ * What comes with an event: an exact instant (`at`, e.g. when the apnoea stopwatch started), or
+ * the time typed in the Time box (`timeText`, blank for now), and the note or drug.
+ */
+export type EventExtra = {
+  at?: string;
+  timeText?: string;
+  eventNote?: string;
+  drugName?: string;
+  drugDose?: string;
+};
 
 export type RecordWrites = {
   /** The initials prompt, shown when a write needs initials not yet given. */
@@ -62,7 +72,7 @@ export function useRecordWrites(recordId: number, units: DisplayUnits, reload: (
   function logEvent(eventType: EventType, extra: EventExtra = {}): Promise<string | null> {
     const checked = checkEntry(
       {
-        timeText: '',
+        timeText: extra.timeText ?? '',
         readings: emptyReadings,
         kind: 'event',
         eventType,

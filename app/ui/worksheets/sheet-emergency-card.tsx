@@ -24,7 +24,7 @@ export function EmergencyCardSection({
     [drugs, bodyMassG],
   );
   return (
-    <section className="ws-section ws-emergency ws-break-before" aria-labelledby="ws-emergency">
+    <section className="ws-section ws-emergency" aria-labelledby="ws-emergency">
       <h2 id="ws-emergency">Emergency card for {displayMass(bodyMassG, massUnit)}</h2>
       {card.length === 0 ? (
         <p className="ws-open-summary">

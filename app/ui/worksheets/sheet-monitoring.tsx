@@ -27,7 +27,7 @@ export function MonitoringSection({
   const rows = monitoringRows(input.schedule, endMin);
   const columns = monitoringColumns(settings.temperatureUnit, settings.pressureUnit);
   return (
-    <section className="ws-section ws-monitoring" aria-labelledby="ws-monitoring">
+    <section className="ws-section ws-monitoring ws-break-before" aria-labelledby="ws-monitoring">
       <h2 id="ws-monitoring">
         Monitoring record · {patientName} · {displayMass(input.bodyMassG, settings.massUnit)}
       </h2>

@@ -1,8 +1,10 @@
-import { useCallback, useState } from 'react';
+import { useCallback, useLayoutEffect, useState } from 'react';
 import type { EmergencyDrug } from '../../contract/drug-channels.js';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
+import { cautionsForPatient } from '../../core/patient-cautions.js';
+import { cssStringToken, runningHeaderLines } from '../../core/worksheet.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
 import { EstimatesSection } from './sheet-estimates.js';
@@ -10,6 +12,7 @@ import { MonitoringSection } from './sheet-monitoring.js';
 import { PatientSection } from './sheet-patient.js';
 import { PlanSection } from './sheet-plan.js';
 import { PredictionSection } from './sheet-prediction.js';
+import { SummarySection } from './sheet-summary.js';
 import { SuppliesSection } from './sheet-supplies.js';
 import './worksheet.css';
 
@@ -21,8 +24,36 @@ export type SheetProps = {
   readonly printedAt: Date;
 };
 
+/** Ring, microchip or the clinic's record number: what tells this bird from another on paper. */
+export function patientIdentifier(detail: PlanDetail): string {
+  const patient = detail.patient;
+  if (patient === null) return `quick plan ${String(detail.plan.id)}`;
+  if (patient.values.ringId !== '') return `ring ${patient.values.ringId}`;
+  if (patient.values.microchipId !== '') return `chip ${patient.values.microchipId}`;
+  return `patient ${String(patient.id)}`;
+}
+
 /**
- * The sheet itself: every section, laid out for A4 or US Letter. Plain hooks only: print.html
+ * The running lines of every printed page go to the page margins (`@page` margin boxes, which
+ * take only strings): they are handed over as CSS custom properties on the root element, read by
+ * worksheet.css, and removed when the sheet goes.
+ */
+function useRunningHeader(who: string, which: string): void {
+  useLayoutEffect(() => {
+    const style = document.documentElement.style;
+    style.setProperty('--ws-running-who', cssStringToken(who));
+    style.setProperty('--ws-running-which', cssStringToken(which));
+    return () => {
+      style.removeProperty('--ws-running-who');
+      style.removeProperty('--ws-running-which');
+    };
+  }, [who, which]);
+}
+
+/**
+ * The sheet itself, laid out for A4 or US Letter: page 1 the prep-room summary with the emergency
+ * card, then the detail pages, then the monitoring grid; every page carries the clinic, bird,
+ * identifier, date, plan version and "page n of N" in its margins. Plain hooks only: print.html
  * renders it through Preact's compatibility layer.
  */
 export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetProps) {
@@ -30,11 +61,25 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const onDrawn = useCallback(() => setDrawn(true), []);
   const { plan, patient } = detail;
   const input = plan.input;
-  const result: PlanResult = plan.result;
+  // Cautions for the other sex are left out once the patient's sex is known.
+  const result: PlanResult = {
+    ...plan.result,
+    cautions: cautionsForPatient(plan.result.cautions, patient?.values.sex ?? null),
+  };
   const recoveryWindowMin =
     input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
   const sheetClass = settings.paperSize === 'Letter' ? 'sheet-letter' : 'sheet-a4';
+  const identifier = patientIdentifier(detail);
+  const running = runningHeaderLines({
+    clinicName: settings.clinicName,
+    patientName,
+    identifier,
+    dateText: plan.plannedFor,
+    planId: plan.id,
+    planVersionId: plan.stamp.versionId,
+  });
+  useRunningHeader(running.who, running.which);
 
   return (
     <article
@@ -51,7 +96,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           {settings.addressLine !== '' && <p className="ws-address">{settings.addressLine}</p>}
         </div>
         <div className="ws-title-block">
-          <h1 id="worksheet-title">Pre-procedure anaesthetic worksheet</h1>
+          <h1 id="worksheet-title">Anaesthetic worksheet: prep-room summary</h1>
           <p>
             Plan {plan.id}
             {plan.label === '' ? '' : ` “${plan.label}”`} for {plan.plannedFor}
@@ -60,13 +105,23 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
         </div>
       </header>
 
-      <PatientSection detail={detail} settings={settings} patientName={patientName} />
+      <SummarySection
+        detail={detail}
+        settings={settings}
+        patientName={patientName}
+        identifier={identifier}
+        result={result}
+      />
+      <EmergencyCardSection drugs={drugs} bodyMassG={input.bodyMassG} massUnit={settings.massUnit} />
+
+      <div className="ws-break-before">
+        <PatientSection detail={detail} settings={settings} patientName={patientName} />
+      </div>
       <CautionsSection result={result} />
       <PlanSection input={input} result={result} recoveryWindowMin={recoveryWindowMin} />
       <PredictionSection result={result} onDrawn={onDrawn} />
       <SuppliesSection input={input} result={result} />
       <EstimatesSection result={result} />
-      <EmergencyCardSection drugs={drugs} bodyMassG={input.bodyMassG} massUnit={settings.massUnit} />
       <MonitoringSection
         input={input}
         result={result}

@@ -1,0 +1,190 @@
+import type { PlanDetail } from '../../contract/plan-records.js';
+import type { PlanInput, PlanResult } from '../../contract/plan.js';
+import type { ClinicSettings } from '../../contract/settings.js';
+import { agents } from '../../core/agents.js';
+import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
+import { displayMass } from '../common/display.js';
+import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { figure } from './labels.js';
+import { ventilationText } from './sheet-text.js';
+
+const severityWords = { danger: 'DANGER', warning: 'WARNING', notice: 'NOTICE' } as const;
+
+/** The dial steps as short lines, e.g. `0 min 4 %`, `30 min off`. */
+function dialSteps(input: PlanInput): string[] {
+  return input.schedule.map(
+    (step) => `${figure(step.atMin)} min ${step.vaporPct === 0 ? 'off' : `${figure(step.vaporPct)} %`}`,
+  );
+}
+
+/**
+ * Page 1 of the worksheet, the prep-room summary that stands alone: the bird, how it is to be
+ * anaesthetised (a table of steps, one row today, one per phase once plans have phases), the
+ * predicted times with their ranges, what to have ready and the cautions in one line each. The
+ * emergency card follows it on the same page.
+ */
+export function SummarySection({
+  detail,
+  settings,
+  patientName,
+  identifier,
+  result,
+}: {
+  readonly detail: PlanDetail;
+  readonly settings: ClinicSettings;
+  readonly patientName: string;
+  readonly identifier: string;
+  readonly result: PlanResult;
+}) {
+  const { plan, patient, species, weightTrendText } = detail;
+  const input = plan.input;
+  const agent = agents[input.agent];
+  const depthPct = result.targetMacMultiple * result.mac.valuePct;
+  const grade = plan.checklist.asaGrade;
+  const belowMinimum = input.freshGasLpm < result.flows.minimumLpm;
+  return (
+    <section className="ws-section ws-summary" aria-labelledby="ws-summary">
+      <h2 id="ws-summary" className="ws-visually-hidden">
+        Prep-room summary
+      </h2>
+      <div className="ws-summary-bird">
+        <p>
+          <strong className="ws-patient-name">{patientName}</strong>
+          {identifier === '' ? '' : ` · ${identifier}`}
+          {patient !== null ? ` · ${patient.values.sex}` : ''}
+          {' · '}
+          {species === null
+            ? (input.speciesId ?? 'species not given')
+            : `${species.values.commonName}${species.values.scientificName === '' ? '' : ` (${species.values.scientificName})`}`}
+        </p>
+        <p>
+          Weight <strong>{displayMass(input.bodyMassG, settings.massUnit)}</strong>
+          {weightTrendText === null ? '' : ` (${weightTrendText})`} · procedure{' '}
+          <strong>{plan.plannedFor}</strong>
+          {plan.label === '' ? '' : ` · ${plan.label}`}
+          {plan.checklist.emergency ? ' · EMERGENCY' : ''}
+        </p>
+        <p>
+          {grade === null ? (
+            <strong className="ws-open">ASA grade NOT SET</strong>
+          ) : (
+            <>
+              <strong>ASA {grade}</strong>{' '}
+              <span className="ws-small">{asaMortalityText(grade).replace(/^ASA \d: /, '')}</span>
+            </>
+          )}
+        </p>
+      </div>
+
+      <table className="ws-grid-table ws-steps">
+        <caption>
+          {agent.displayName}, MAC {figure(result.mac.valuePct)} %; planned depth{' '}
+          {figure(result.targetMacMultiple)} x MAC = {figure(depthPct)} % in the brain
+        </caption>
+        <thead>
+          <tr>
+            <th scope="col">Step</th>
+            <th scope="col">Route</th>
+            <th scope="col">Breathing system</th>
+            <th scope="col">Fresh gas (oxygen)</th>
+            <th scope="col">Dial steps</th>
+            <th scope="col">Breathing</th>
+          </tr>
+        </thead>
+        <tbody>
+          <tr>
+            <th scope="row">1</th>
+            <td>{routeLabels[input.route]}</td>
+            <td>{input.circuit === undefined ? 'none' : circuitLabels[input.circuit]}</td>
+            <td>
+              <strong>{figure(input.freshGasLpm, 2)} L/min</strong>
+              <span className="ws-block ws-small">
+                recommended {figure(result.flows.recommendedLpm, 2)}, at least{' '}
+                {figure(result.flows.minimumLpm, 2)}
+              </span>
+              {belowMinimum && <strong className="ws-open ws-block">BELOW THE MINIMUM</strong>}
+            </td>
+            <td>
+              {dialSteps(input).map((step) => (
+                <span key={step} className="ws-block">
+                  {step}
+                </span>
+              ))}
+            </td>
+            <td>{ventilationText(input)}</td>
+          </tr>
+        </tbody>
+      </table>
+
+      <div className="ws-summary-columns">
+        <table className="ws-facts ws-summary-times">
+          <tbody>
+            <tr>
+              <th scope="row">Predicted induction</th>
+              <td>
+                <strong>
+                  {minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}
+                </strong>
+              </td>
+            </tr>
+            <tr>
+              <th scope="row">Vaporiser off</th>
+              <td>
+                {result.milestones.vaporiserOffMin === null
+                  ? 'not in the schedule'
+                  : `at ${figure(result.milestones.vaporiserOffMin)} min`}
+              </td>
+            </tr>
+            <tr>
+              <th scope="row">Predicted recovery</th>
+              <td>
+                <strong>
+                  {minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}
+                </strong>{' '}
+                after the vaporiser is off
+              </td>
+            </tr>
+          </tbody>
+        </table>
+        <table className="ws-facts ws-summary-ready">
+          <tbody>
+            <tr>
+              <th scope="row">Liquid {agent.displayName.toLowerCase()}</th>
+              <td>
+                have <strong>{figure(result.consumption.liquidMl, 2)} mL</strong> ready
+              </td>
+            </tr>
+            <tr>
+              <th scope="row">Oxygen</th>
+              <td>
+                have <strong>{figure(result.oxygen.usedL, 2)} L</strong> oxygen over{' '}
+                {figure(result.oxygen.durationMin)} min
+                {result.oxygen.enduranceMin === null
+                  ? ''
+                  : `; the cylinder lasts ${figure(result.oxygen.enduranceMin)} min`}
+                {result.oxygen.suffices === false && (
+                  <strong className="ws-open"> · NOT ENOUGH OXYGEN</strong>
+                )}
+              </td>
+            </tr>
+          </tbody>
+        </table>
+      </div>
+
+      <h3>Cautions ({result.cautions.length === 0 ? 'none raised' : String(result.cautions.length)})</h3>
+      {result.cautions.length > 0 && (
+        <ul className="ws-summary-cautions">
+          {result.cautions.map((caution) => (
+            <li key={caution.code}>
+              <strong>{severityWords[caution.severity]}:</strong> {caution.message}
+            </li>
+          ))}
+        </ul>
+      )}
+      <p className="ws-small">
+        Reasons, the checklist, the chart and every basis follow on the next pages. The responsible
+        veterinarian decides; watch the bird, not the plan.
+      </p>
+    </section>
+  );
+}

@@ -1,0 +1,203 @@
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import { startBackEnd } from '../../main/back-end/back-end.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
+import { runRecordCommand } from '../../main/cli/record-command.js';
+import { heronLaneSettings } from '../support/clinic-settings.js';
+import { temporaryFolder } from '../support/temporary-folder.js';
+
+const cleanups: (() => void)[] = [];
+afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
+
+const root = findProjectRoot();
+const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
+// On CI a missing Chromium or build must fail the print test, not skip it.
+const canRender =
+  process.env['CI'] !== undefined ||
+  (fs.existsSync(chromiumPath) && fs.existsSync(path.join(root, 'build', 'renderer', 'print.html')));
+
+function captured() {
+  const out: string[] = [];
+  const err: string[] = [];
+  return {
+    io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) },
+    stdout: () => out.join(''),
+    stderr: () => err.join(''),
+  };
+}
+
+function scratch(): string {
+  const temp = temporaryFolder('tidewing-record-');
+  cleanups.push(temp.remove);
+  return temp.folder;
+}
+
+const start = Date.parse('2026-12-02T09:00:00Z');
+const at = (minute: number) => new Date(start + minute * 60_000).toISOString();
+
+/** A data folder with Pip, a plan, and a finished record with a correction and a drug given. */
+async function dataWithRecord(): Promise<{ folder: string; recordId: number }> {
+  const folder = scratch();
+  const backEnd = startBackEnd({
+    dataDirectory: folder,
+    appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string,
+    host: 'browser',
+  });
+  try {
+    const call = async (channel: string, payload: unknown) => {
+      const answer = await backEnd.dispatch(channel, payload);
+      if (!answer.ok) throw new Error(`${channel}: ${answer.error.message}`);
+      return answer.value as { id: number };
+    };
+    const meta = { enteredBy: 'RW' };
+    await call('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true });
+    await call('settings:save', heronLaneSettings);
+    const patient = await call('patients:create', {
+      values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', ringId: 'HL-24-117' },
+      meta,
+    });
+    const input = JSON.parse(
+      fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
+    ) as unknown;
+    const plan = await call('plans:save', {
+      fields: {
+        patientId: patient.id,
+        plannedFor: '2026-12-02',
+        label: '',
+        input,
+        checklist: { asaGrade: 2, items: {} },
+      },
+      meta,
+    });
+    const record = await call('procedures:create', {
+      patientId: patient.id,
+      values: {
+        planId: plan.id,
+        startedAt: at(0),
+        endedAt: at(40),
+        asaGrade: 2,
+        procedureName: 'Beak trim',
+        airway: 'mask',
+        circuit: 'nonRebreathing',
+        staffInitials: 'RW',
+      },
+      meta,
+    });
+    const add = (values: unknown) => call('entries:add', { recordId: record.id, values, meta });
+    const vitals = (minute: number, heartRatePerMin: number) => ({
+      at: at(minute),
+      kind: 'vitals',
+      vaporPct: minute < 30 ? 2 : 0,
+      oxygenLpm: 1,
+      heartRatePerMin,
+      breathsPerMin: 28,
+      temperatureC: 40.1,
+    });
+    await add({ at: at(0), kind: 'event', eventType: 'induction', eventNote: 'mask' });
+    await add(vitals(5, 380));
+    const misread = await add(vitals(10, 360));
+    await add({
+      at: at(12),
+      kind: 'event',
+      eventType: 'drugGiven',
+      drugName: 'Clinic drug B',
+      drugDose: '0.013 mL',
+    });
+    await add({ at: at(30), kind: 'event', eventType: 'vaporiserOff' });
+    await add({ at: at(33), kind: 'event', eventType: 'firstMovement' });
+    await call('entries:correct', {
+      id: misread.id,
+      values: vitals(10, 312),
+      meta: { enteredBy: 'JM', reason: 'Misread the monitor' },
+    });
+    return { folder, recordId: record.id };
+  } finally {
+    backEnd.close();
+  }
+}
+
+describe('tidewing record', () => {
+  it('exits 2 with the usage for missing, malformed or unknown arguments', async () => {
+    for (const args of [
+      [],
+      ['--id', '1'],
+      ['--out', 'a.pdf'],
+      ['--id', 'x', '--out', 'a.pdf'],
+      ['--id', '0', '--out', 'a.pdf'],
+      ['--id', '1', '--out', 'a.txt'],
+      ['--id', '1', '--out', 'a.pdf', '--colour'],
+    ]) {
+      const run = captured();
+      expect(await runRecordCommand(args, run.io), args.join(' ')).toBe(2);
+      expect(run.stderr()).toContain('Usage: tidewing record');
+    }
+  });
+
+  it('exits 1 when the data folder has no database, and writes nothing', async () => {
+    const run = captured();
+    const out = path.join(scratch(), 'record.pdf');
+    expect(await runRecordCommand(['--id', '1', '--data', scratch(), '--out', out], run.io)).toBe(1);
+    expect(run.stderr()).toMatch(/there is no Tidewing database/);
+    expect(fs.existsSync(out)).toBe(false);
+  });
+
+  it.runIf(canRender)(
+    'exits 1 and names the record when it is not in the database',
+    async () => {
+      const data = await dataWithRecord();
+      const run = captured();
+      const out = path.join(scratch(), 'record.pdf');
+      expect(
+        await runRecordCommand(
+          ['--id', String(data.recordId + 9), '--data', data.folder, '--out', out],
+          run.io,
+        ),
+      ).toBe(1);
+      expect(run.stderr()).toContain(`there is no procedure record ${data.recordId + 9}`);
+      expect(fs.existsSync(out)).toBe(false);
+    },
+    60_000,
+  );
+
+  it.runIf(canRender)(
+    'writes the record for the patient file: every page numbered and named, corrections shown as corrections, the plan beside the log',
+    async () => {
+      const data = await dataWithRecord();
+      const run = captured();
+      const out = path.join(scratch(), 'record.pdf');
+      expect(
+        await runRecordCommand(['--id', String(data.recordId), '--data', data.folder, '--out', out], run.io),
+      ).toBe(0);
+      expect(run.stdout()).toContain(`Wrote procedure record ${data.recordId} to ${out}`);
+      const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [out], { encoding: 'utf8' }))?.[1]);
+      expect(pages).toBeGreaterThanOrEqual(1);
+      for (let page = 1; page <= pages; page += 1) {
+        const text = execFileSync('pdftotext', ['-f', String(page), '-l', String(page), out, '-'], {
+          encoding: 'utf8',
+        }).replace(/\s+/g, ' ');
+        expect(text).toContain(`page ${page} of ${pages}`);
+        expect(text).toContain('Pip (ring HL-24-117)');
+      }
+      const text = execFileSync('pdftotext', [out, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+      for (const expected of [
+        'Heron Lane Bird Clinic',
+        'Anaesthetic record',
+        'Beak trim',
+        'Drug given: Clinic drug B, 0.013 mL',
+        'Vaporiser off',
+        // The correction: the struck value, the new one, who and why.
+        'Corrected by JM',
+        'HR (/min) 360 → 312',
+        'Reason: “Misread the monitor”',
+        'First entered by RW',
+        'predicted beside logged',
+        'First movement: 3 min',
+      ])
+        expect(text, expected).toContain(expected);
+      expect(text).not.toContain('drugGiven');
+    },
+    60_000,
+  );
+});
