@@ -125,7 +125,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     {
       label: `Weight (${unit})`,
       values: weights.map((weight) => (unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG)),
-      stroke: '#1f4e79',
+      stroke: 'var(--chart-blue)',
       points: true,
       scale: 'mass',
     },
@@ -135,7 +135,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           {
             label: 'Typical range, low',
             values: weights.map(() => (unit === 'kg' ? gToKg(range.massMinG) : range.massMinG)),
-            stroke: '#6b7480',
+            stroke: 'var(--chart-grey)',
             dash: [6, 4],
             width: 1,
             scale: 'mass',
@@ -143,7 +143,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           {
             label: 'Typical range, high',
             values: weights.map(() => (unit === 'kg' ? gToKg(range.massMaxG) : range.massMaxG)),
-            stroke: '#6b7480',
+            stroke: 'var(--chart-grey)',
             dash: [2, 3],
             width: 1,
             scale: 'mass',
