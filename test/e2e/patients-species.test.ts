@@ -2,13 +2,16 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { checkScreen } from './accessibility.js';
 import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-patients-');
 const shots = ensureScreenshotFolder();
 
-const shoot = (page: Page, name: string) =>
-  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+async function shoot(page: Page, name: string) {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await checkScreen(page, name);
+}
 
 describe('patients, weights and species in headless Chromium', () => {
   it('creates a species-linked patient, adds two weights, sees the loss flag and corrects a weight with its history', async () => {

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { checkScreen } from './accessibility.js';
 import {
   callBridge as bridge,
   completeFirstRun,
@@ -13,8 +14,10 @@ import {
 const session = sharedHost('tidewing-e2e-planning-');
 const shots = ensureScreenshotFolder();
 
-const shoot = (page: Page, name: string) =>
-  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+async function shoot(page: Page, name: string) {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await checkScreen(page, name);
+}
 
 const inductionText = (page: Page) => page.getByTestId('induction-time').innerText();
 
