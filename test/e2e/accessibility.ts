@@ -55,10 +55,23 @@ export async function axeViolations(page: Page): Promise<Violation[]> {
 }
 
 /** True when the page as a whole scrolls sideways (WCAG 1.4.10 Reflow). */
-async function scrollsSideways(page: Page): Promise<{ scrollWidth: number; clientWidth: number }> {
+async function scrollsSideways(
+  page: Page,
+): Promise<{ scrollWidth: number; clientWidth: number; widest: string[] }> {
   return page.evaluate(() => {
     const element = document.scrollingElement ?? document.documentElement;
-    return { scrollWidth: element.scrollWidth, clientWidth: element.clientWidth };
+    const limit = element.clientWidth + 1;
+    const name = (node: Element) =>
+      `${node.tagName.toLowerCase()}${node.id === '' ? '' : `#${node.id}`}${[...node.classList].map((item) => `.${item}`).join('')}`;
+    // The outermost elements reaching past the window's right edge: where a fix belongs.
+    const widest = [...document.body.querySelectorAll('*')]
+      .filter((node) => node.getBoundingClientRect().right > limit)
+      .filter(
+        (node) => node.parentElement === null || node.parentElement.getBoundingClientRect().right <= limit,
+      )
+      .slice(0, 5)
+      .map((node) => `${node.parentElement === null ? '' : `${name(node.parentElement)} > `}${name(node)}`);
+    return { scrollWidth: element.scrollWidth, clientWidth: element.clientWidth, widest };
   });
 }
 

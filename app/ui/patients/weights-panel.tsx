@@ -11,6 +11,7 @@ import { useOperator } from '../common/operator.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { TimeChart } from '../common/time-chart.js';
 import { useWriteMeta } from '../common/write-meta.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 type Props = { readonly detail: PatientDetail; readonly onChanged: () => void };
 
@@ -191,47 +192,49 @@ export function WeightsPanel({ detail, onChanged }: Props) {
       {weights.length === 0 ? (
         <p className="muted">No weights yet.</p>
       ) : (
-        <table className="data-table">
-          <thead>
-            <tr>
-              <th>Date</th>
-              <th className="number">Weight</th>
-              <th>Body condition</th>
-              <th>Weighed by</th>
-              <th>Entered</th>
-              <th>Actions</th>
-            </tr>
-          </thead>
-          <tbody>
-            {weights.map((weight) => (
-              <tr key={weight.id}>
-                <td>{weight.values.weighedOn}</td>
-                <td className="number">{shownMass(weight.values.massG)}</td>
-                <td>{weight.values.bodyCondition || '—'}</td>
-                <td>{weight.values.weighedBy || '—'}</td>
-                <td>
-                  {weight.stamp.enteredBy}, {displayDateTime(weight.stamp.enteredAt)}
-                  {weight.stamp.correctsId !== null && (
-                    <span className="basis">Corrected: {weight.stamp.reason}</span>
-                  )}
-                </td>
-                <td className="row-actions">
-                  <button type="button" onClick={() => startEdit(weight, 'correct')}>
-                    Correct
-                  </button>{' '}
-                  <button type="button" onClick={() => startEdit(weight, 'void')}>
-                    Void
-                  </button>{' '}
-                  {weight.stamp.correctsId !== null && (
-                    <button type="button" onClick={() => void showHistory(weight)}>
-                      History
-                    </button>
-                  )}
-                </td>
+        <ScrollRegion label="Weights table">
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th>Date</th>
+                <th className="number">Weight</th>
+                <th>Body condition</th>
+                <th>Weighed by</th>
+                <th>Entered</th>
+                <th>Actions</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {weights.map((weight) => (
+                <tr key={weight.id}>
+                  <td>{weight.values.weighedOn}</td>
+                  <td className="number">{shownMass(weight.values.massG)}</td>
+                  <td>{weight.values.bodyCondition || '—'}</td>
+                  <td>{weight.values.weighedBy || '—'}</td>
+                  <td>
+                    {weight.stamp.enteredBy}, {displayDateTime(weight.stamp.enteredAt)}
+                    {weight.stamp.correctsId !== null && (
+                      <span className="basis">Corrected: {weight.stamp.reason}</span>
+                    )}
+                  </td>
+                  <td className="row-actions">
+                    <button type="button" onClick={() => startEdit(weight, 'correct')}>
+                      Correct
+                    </button>{' '}
+                    <button type="button" onClick={() => startEdit(weight, 'void')}>
+                      Void
+                    </button>{' '}
+                    {weight.stamp.correctsId !== null && (
+                      <button type="button" onClick={() => void showHistory(weight)}>
+                        History
+                      </button>
+                    )}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </ScrollRegion>
       )}
       {history !== null && (
         <div className="panel" role="region" aria-label="Weight history">

@@ -118,13 +118,16 @@ export function EntryRow({
         </div>
       </div>
       {Object.keys(errors).length > 0 && (
-        <ul className="record-entry-errors">
-          {Object.entries(errors).map(([field, message]) => (
-            <li key={field} className="field-error" role="alert">
-              {message}
-            </li>
-          ))}
-        </ul>
+        // One alert for the list: the problems are announced once, together.
+        <div role="alert">
+          <ul className="record-entry-errors">
+            {Object.entries(errors).map(([field, message]) => (
+              <li key={field} className="field-error">
+                {message}
+              </li>
+            ))}
+          </ul>
+        </div>
       )}
       <p className="hint">
         Blank boxes are not measured. Time blank means now; type HH:MM for an earlier reading. Placeholders

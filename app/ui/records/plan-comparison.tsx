@@ -35,9 +35,9 @@ export function PlanComparison({
   const result = load.value.plan.result;
   return (
     <section className="record-plan" aria-label={`Plan ${planId} beside the log`}>
-      <h3>
+      <h2>
         Plan {planId} beside the log · <a href={href('plans', planId)}>open the plan</a>
-      </h3>
+      </h2>
       <TimeChart
         x={series.minutes}
         xLabel="Minutes from start"
