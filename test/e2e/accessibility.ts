@@ -112,6 +112,10 @@ export async function checkScreen(page: Page, name: string, check: ScreenCheck =
     if (check.reflow !== false) {
       const before = page.viewportSize();
       await page.setViewportSize({ width: 640, height: 400 });
+      // Two frames, so resize observers (the charts) have redrawn at the new width.
+      await page.evaluate(
+        () => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))),
+      );
       const size = await scrollsSideways(page);
       expect
         .soft(size.scrollWidth, `${name} at 640 x 400 scrolls sideways (${JSON.stringify(size)})`)

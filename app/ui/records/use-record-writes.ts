@@ -3,7 +3,7 @@ import type { EventType, ProcedureEntryValues, ProcedureRecordValues } from '../
 import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { checkEntry, emptyReadings, type DisplayUnits } from './entry-form.js';
-import { useInitialsGate } from './initials-gate.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 
 type Write = (enteredBy: string) => Promise<string | null>;
 

@@ -174,7 +174,7 @@ export function EmergencyDrugs() {
         (load.value.length === 0 ? (
           <p>No emergency drugs entered yet; the emergency card will be blank until you add them.</p>
         ) : (
-          <ScrollRegion label="Emergency drugs">
+          <ScrollRegion label="Emergency drugs table">
             <table className="data-table">
               <thead>
                 <tr>

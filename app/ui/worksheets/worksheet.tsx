@@ -4,6 +4,7 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { Sheet } from './sheet.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** The desktop preload adds this; the browser host does not have it. */
 type DesktopPdf = {
@@ -77,13 +78,16 @@ export function Worksheet({ planId }: { readonly planId: number }) {
         </span>
         {pdfMessage !== null && <span role="status">{pdfMessage}</span>}
       </div>
-      <Sheet
-        detail={detail.value}
-        drugs={drugs.value}
-        appVersion={info.value.appVersion}
-        settings={settings}
-        printedAt={printedAt}
-      />
+      {/* The sheet keeps its paper width; a narrow window scrolls the preview, not the page. */}
+      <ScrollRegion label="Worksheet preview">
+        <Sheet
+          detail={detail.value}
+          drugs={drugs.value}
+          appVersion={info.value.appVersion}
+          settings={settings}
+          printedAt={printedAt}
+        />
+      </ScrollRegion>
     </div>
   );
 }
