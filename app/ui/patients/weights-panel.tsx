@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from 'react';
+import { useRef, useState, type FormEvent } from 'react';
 import type { PatientDetail } from '../../contract/record-channels.js';
 import { bodyConditions, weightValuesSchema, type Weight } from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
@@ -35,7 +35,11 @@ export function WeightsPanel({ detail, onChanged }: Props) {
   const [editing, setEditing] = useState<Editing>(null);
   const [history, setHistory] = useState<{ id: number; versions: Weight[] } | null>(null);
 
+  const opener = useRef<HTMLElement | null>(null);
+
   function startEdit(weight: Weight, mode: 'correct' | 'void') {
+    // Escape in the form returns focus here.
+    opener.current = document.activeElement instanceof HTMLElement ? document.activeElement : null;
     setEditing({ weight, mode });
     setWeighedOn(weight.values.weighedOn);
     setMassText(String(unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG));
@@ -218,14 +222,26 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                     )}
                   </td>
                   <td className="row-actions">
-                    <button type="button" onClick={() => startEdit(weight, 'correct')}>
+                    <button
+                      type="button"
+                      aria-label={`Correct weight of ${weight.values.weighedOn}, ${shownMass(weight.values.massG)}`}
+                      onClick={() => startEdit(weight, 'correct')}
+                    >
                       Correct
                     </button>{' '}
-                    <button type="button" onClick={() => startEdit(weight, 'void')}>
+                    <button
+                      type="button"
+                      aria-label={`Void weight of ${weight.values.weighedOn}, ${shownMass(weight.values.massG)}`}
+                      onClick={() => startEdit(weight, 'void')}
+                    >
                       Void
                     </button>{' '}
                     {weight.stamp.correctsId !== null && (
-                      <button type="button" onClick={() => void showHistory(weight)}>
+                      <button
+                        type="button"
+                        aria-label={`History of weight of ${weight.values.weighedOn}`}
+                        onClick={() => void showHistory(weight)}
+                      >
                         History
                       </button>
                     )}
@@ -258,6 +274,12 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         noValidate
         onSubmit={(event) => void submit(event)}
         aria-label={editing === null ? 'Add a weight' : 'Correct a weight'}
+        onKeyDown={(event) => {
+          if (event.key !== 'Escape' || editing === null) return;
+          event.preventDefault();
+          reset();
+          opener.current?.focus();
+        }}
       >
         <h3>
           {editing === null

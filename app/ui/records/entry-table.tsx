@@ -374,7 +374,9 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
           </tr>
         </thead>
         <tbody>
-          {newestFirst.map((entry) => {
+          {newestFirst.map((entry, index) => {
+            // Rows logged in the same second share a time: the row number keeps each button's name unique.
+            const rowName = `the row at ${clockText(entry.values.at)} (row ${newestFirst.length - index})`;
             const open = mode !== null && mode.id === entry.id ? mode.kind : null;
             const close = () => setMode(null);
             return [
@@ -400,14 +402,14 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
                   <div className="record-actions">
                     <button
                       type="button"
-                      aria-label={`Correct the row at ${clockText(entry.values.at)}`}
+                      aria-label={`Correct ${rowName}`}
                       onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}
                     >
                       Correct
                     </button>
                     <button
                       type="button"
-                      aria-label={`Void the row at ${clockText(entry.values.at)}`}
+                      aria-label={`Void ${rowName}`}
                       onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}
                     >
                       Void
@@ -415,7 +417,7 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
                     {entry.corrected && (
                       <button
                         type="button"
-                        aria-label={`History of the row at ${clockText(entry.values.at)}`}
+                        aria-label={`History of ${rowName}`}
                         aria-expanded={open === 'history'}
                         onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}
                       >
