@@ -21,7 +21,7 @@ export function focusMainHeading(): boolean {
 /**
  * Keeps `document.title` equal to the main heading (screens draw it after their data loads) and,
  * when `screenKey` changes after the first screen, moves focus to the new screen's heading unless
- * the screen put focus on one of its own fields already.
+ * the screen put focus on one of its own fields already (autoFocus).
  */
 export function useScreenAnnouncement(screenKey: string): void {
   const first = useRef(true);
@@ -37,8 +37,11 @@ export function useScreenAnnouncement(screenKey: string): void {
       if (document.title !== title) document.title = title;
       if (focusPending) {
         focusPending = false;
+        // A screen that focused one of its own fields on arrival (autoFocus) keeps it; a button
+        // left focused by the previous screen (Save, a link) does not.
         const active = document.activeElement;
-        const ownField = active !== null && active !== document.body && main.contains(active);
+        const ownField =
+          active !== null && main.contains(active) && active.matches('input, select, textarea');
         if (!ownField) focusMainHeading();
       }
     };

@@ -209,7 +209,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
               </tr>
             </thead>
             <tbody>
-              {weights.map((weight) => (
+              {weights.map((weight, index) => (
                 <tr key={weight.id}>
                   <td>{weight.values.weighedOn}</td>
                   <td className="number">{shownMass(weight.values.massG)}</td>
@@ -224,14 +224,14 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                   <td className="row-actions">
                     <button
                       type="button"
-                      aria-label={`Correct weight of ${weight.values.weighedOn}, ${shownMass(weight.values.massG)}`}
+                      aria-label={`Correct weight of ${weight.values.weighedOn} (row ${index + 1})`}
                       onClick={() => startEdit(weight, 'correct')}
                     >
                       Correct
                     </button>{' '}
                     <button
                       type="button"
-                      aria-label={`Void weight of ${weight.values.weighedOn}, ${shownMass(weight.values.massG)}`}
+                      aria-label={`Void weight of ${weight.values.weighedOn} (row ${index + 1})`}
                       onClick={() => startEdit(weight, 'void')}
                     >
                       Void
@@ -239,7 +239,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                     {weight.stamp.correctsId !== null && (
                       <button
                         type="button"
-                        aria-label={`History of weight of ${weight.values.weighedOn}`}
+                        aria-label={`History of weight of ${weight.values.weighedOn} (row ${index + 1})`}
                         onClick={() => void showHistory(weight)}
                       >
                         History
