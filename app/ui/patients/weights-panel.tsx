@@ -1,6 +1,11 @@
 import { useRef, useState, type FormEvent } from 'react';
 import type { PatientDetail } from '../../contract/record-channels.js';
-import { bodyConditions, weightValuesSchema, type Weight } from '../../contract/records.js';
+import {
+  bodyConditions,
+  weightValuesSchema,
+  type Weight,
+  type WeightValues,
+} from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
 import { gToKg, kgToG } from '../../core/units.js';
 import { api } from '../common/bridge.js';
@@ -10,7 +15,8 @@ import { NumberField, parseNumber, SelectField, TextField } from '../common/fiel
 import { useOperator } from '../common/operator.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { TimeChart } from '../common/time-chart.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
+import { useFocusFirstError } from '../common/screen-focus.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 type Props = { readonly detail: PatientDetail; readonly onChanged: () => void };
@@ -23,7 +29,8 @@ const dayMs = 86_400_000;
 export function WeightsPanel({ detail, onChanged }: Props) {
   const settings = useClinicSettings();
   const { initials } = useOperator();
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
+  const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
   const unit = settings.massUnit;
   const [weighedOn, setWeighedOn] = useState(todayIso());
   const [massText, setMassText] = useState('');
@@ -78,27 +85,30 @@ export function WeightsPanel({ detail, onChanged }: Props) {
       fieldErrors['reason'] = 'Say why; the reason is kept with the history.';
     if (!parsed.success || Object.keys(fieldErrors).length > 0) {
       setErrors(fieldErrors);
+      focusFirstError();
       return;
     }
     setErrors({});
-    const who = writeMeta(reason.trim());
-    if ('missing' in who) {
-      setFailure(who.missing);
-      return;
-    }
+    const values = parsed.data;
+    const target = editing;
+    // Without initials, a prompt opens in the form, focused, and the save goes ahead once given.
+    withInitials((enteredBy) => void write(values, target, { enteredBy, reason: reason.trim() }));
+  }
+
+  async function write(values: WeightValues, editing: Editing, meta: { enteredBy: string; reason: string }) {
     const answer =
       editing === null
         ? await api.invoke('weights:add', {
             patientId: detail.patient.id,
-            values: parsed.data,
-            meta: who.meta,
+            values,
+            meta,
           })
         : editing.mode === 'void'
-          ? await api.invoke('weights:void', { id: editing.weight.id, meta: who.meta })
+          ? await api.invoke('weights:void', { id: editing.weight.id, meta })
           : await api.invoke('weights:correct', {
               id: editing.weight.id,
-              values: parsed.data,
-              meta: who.meta,
+              values,
+              meta,
             });
     if (!answer.ok) {
       setErrors(
@@ -110,6 +120,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         ),
       );
       setFailure(answer.error.message);
+      focusFirstError();
       return;
     }
     reset();
@@ -270,6 +281,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         </div>
       )}
       <form
+        ref={formRef}
         className="form"
         noValidate
         onSubmit={(event) => void submit(event)}
@@ -332,6 +344,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
             onChange={setReason}
           />
         )}
+        {gate}
         {failure !== null && (
           <p className="form-error" role="alert">
             {failure}
