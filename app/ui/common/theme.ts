@@ -32,7 +32,6 @@ export function applyThemeChoice(choice: ThemeChoice): void {
   const root = document.documentElement;
   if (choice === 'system') delete root.dataset['theme'];
   else root.dataset['theme'] = choice;
-  colourCache.clear();
   window.dispatchEvent(new Event(changeEvent));
 }
 
@@ -47,30 +46,28 @@ export function storeThemeChoice(choice: ThemeChoice): void {
   applyThemeChoice(choice);
 }
 
-const colourCache = new Map<string, string>();
-let probe: HTMLSpanElement | null = null;
-
 /**
  * A colour as the canvas needs it (`rgb(...)`), from any CSS colour including `var(--chart-blue)`,
  * `light-dark(...)` and system colours such as `CanvasText`: resolved by the browser on a hidden
- * element, so the theme and forced-colours mode in force now decide. Cached until the theme changes.
+ * element inside `within`, so the theme, the colour scheme of that part of the page (the worksheet
+ * preview is always light) and forced-colours mode in force now decide.
  */
-export function resolveColour(cssColour: string): string {
-  const cached = colourCache.get(cssColour);
-  if (cached !== undefined) return cached;
-  if (probe === null || !probe.isConnected) {
+export function resolveColour(cssColour: string, within: HTMLElement): string {
+  let probe = probes.get(within);
+  if (probe === undefined || !probe.isConnected) {
     probe = document.createElement('span');
     probe.setAttribute('aria-hidden', 'true');
     // forced-color-adjust: none, so a system colour named in a variable is read as the system draws it.
     probe.style.cssText = 'position:absolute;width:0;height:0;overflow:hidden;forced-color-adjust:none';
-    document.body.appendChild(probe);
+    within.appendChild(probe);
+    probes.set(within, probe);
   }
   probe.style.color = '';
   probe.style.color = cssColour;
-  const resolved = getComputedStyle(probe).color;
-  colourCache.set(cssColour, resolved);
-  return resolved;
+  return getComputedStyle(probe).color;
 }
+
+const probes = new WeakMap<HTMLElement, HTMLSpanElement>();
 
 /**
  * A number that changes whenever the colours in force may have changed: a theme pinned or
@@ -80,10 +77,7 @@ export function resolveColour(cssColour: string): string {
 export function useThemeGeneration(): number {
   const [generation, setGeneration] = useState(0);
   useEffect(() => {
-    const bump = () => {
-      colourCache.clear();
-      setGeneration((value) => value + 1);
-    };
+    const bump = () => setGeneration((value) => value + 1);
     const queries = ['(prefers-color-scheme: dark)', '(forced-colors: active)'].map((query) =>
       window.matchMedia(query),
     );

@@ -52,7 +52,16 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
     if (element === null) return undefined;
     const parsedAxes = axes;
     // Colours are read from the style sheet each time uPlot draws, so they follow the theme.
-    const colour = (css: string) => () => resolveColour(css);
+    // Cached per build; the chart is rebuilt when the theme changes.
+    const resolved = new Map<string, string>();
+    const colour = (css: string) => () => {
+      let value = resolved.get(css);
+      if (value === undefined) {
+        value = resolveColour(css, element);
+        resolved.set(css, value);
+      }
+      return value;
+    };
     const options: uPlot.Options = {
       width: Math.max(320, element.clientWidth),
       height,
