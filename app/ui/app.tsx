@@ -84,6 +84,7 @@ export function App() {
           current={shown.area}
           clinicName={currentSettings.settings?.clinicName ?? 'New clinic'}
           appVersion={currentSafety.appVersion}
+          screenKey={needsSetup ? 'setup' : window.location.hash}
         >
           {shown.area === 'settings' ? (
             <SettingsScreen

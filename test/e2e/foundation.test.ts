@@ -1,6 +1,7 @@
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { checkScreen } from './accessibility.js';
 import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
 const session = sharedBrowser('tidewing-e2e-');
@@ -8,6 +9,7 @@ const shots = ensureScreenshotFolder();
 
 async function shoot(page: Page, name: string) {
   await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await checkScreen(page, name);
 }
 
 describe('first run, settings and restart in headless Chromium', () => {

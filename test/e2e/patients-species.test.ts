@@ -3,6 +3,7 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { localDateOf } from '../../app/contract/input-rules.js';
+import { checkScreen } from './accessibility.js';
 import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-patients-');
@@ -20,8 +21,10 @@ const daysFromToday = (days: number) => {
 const firstDay = daysFromToday(-31);
 const secondDay = daysFromToday(-2);
 
-const shoot = (page: Page, name: string) =>
-  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+async function shoot(page: Page, name: string) {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await checkScreen(page, name);
+}
 
 describe('patients, weights and species in headless Chromium', () => {
   it('creates a species-linked patient, adds two weights, sees the loss flag and corrects a weight with its history', async () => {

@@ -4,6 +4,7 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { localDateOf } from '../../app/contract/input-rules.js';
+import { checkScreen } from './accessibility.js';
 import {
   callBridge as bridge,
   completeFirstRun,
@@ -24,8 +25,10 @@ const daysFromToday = (days: number) => {
   return localDateOf(moment);
 };
 
-const shoot = (page: Page, name: string) =>
-  page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+async function shoot(page: Page, name: string) {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await checkScreen(page, name);
+}
 
 const inductionText = (page: Page) => page.getByTestId('induction-time').innerText();
 

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Locator, Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { checkScreen } from './accessibility.js';
 import { procedureCsvHeaders } from '../../app/core/procedure-csv.js';
 import { ensureScreenshotFolder, sharedBrowser, startHostProcess } from './host-process.js';
 
@@ -10,6 +11,7 @@ const shots = ensureScreenshotFolder();
 
 async function shoot(page: Page, name: string) {
   await page.screenshot({ path: path.join(shots, `1x-record-${name}.png`), fullPage: true });
+  await checkScreen(page, `1x-record-${name}`);
 }
 
 /** Calls a contract channel the way the bridge does, with the tab's token. */

@@ -9,6 +9,7 @@ import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
+import { checkScreen } from './accessibility.js';
 
 const run = promisify(execFile);
 
@@ -158,6 +159,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       .waitFor();
     await page.getByText('Enter the route, e.g. IV, IM, IO or intratracheal.').waitFor();
     await page.screenshot({ path: path.join(shots, '3x-worksheet-drug-validation.png'), fullPage: true });
+    await checkScreen(page, '3x-worksheet-drug-validation');
     await page.getByRole('button', { name: 'Cancel' }).click();
     await addDrug({
       name: 'Clinic drug A',
@@ -206,6 +208,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       .poll(() => page.getByRole('cell', { name: 'Clinic drug C', exact: true }).count(), { timeout: 10_000 })
       .toBe(0);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-drugs-settings.png'), fullPage: true });
+    await checkScreen(page, '3x-worksheet-drugs-settings');
 
     const input = JSON.parse(
       fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
@@ -262,6 +265,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     expect(induction).toMatch(/^\d+(\.\d+)? min/);
     expect(recovery).toMatch(/^\d+(\.\d+)? min/);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-screen.png'), fullPage: true });
+    await checkScreen(page, '3x-worksheet-screen');
     // Print media at about the printable width of A4 (186 mm): no shell, no buttons.
     await page.setViewportSize({ width: 720, height: 1000 });
     await page.emulateMedia({ media: 'print' });

@@ -21,7 +21,9 @@ function FieldMessages({
     <>
       {hint !== undefined && <p className="hint">{hint}</p>}
       {error !== undefined && (
-        <p className="field-error" id={`${id}-error`} role="alert">
+        // Not an alert: the form's one status line announces the failed save, and focus moves to
+        // the first field in error, whose description is this message.
+        <p className="field-error" id={`${id}-error`}>
           {error}
         </p>
       )}
@@ -168,6 +170,7 @@ export function Choice<T extends string>(props: {
               name={props.name}
               value={option}
               checked={props.value === option}
+              aria-invalid={props.error !== undefined ? true : undefined}
               onChange={() => props.onChange(option)}
             />
             {props.labels?.[option] ?? option}
@@ -175,7 +178,7 @@ export function Choice<T extends string>(props: {
         ))}
       </div>
       {props.error !== undefined && (
-        <p className="field-error" id={errorId} role="alert">
+        <p className="field-error" id={errorId}>
           {props.error}
         </p>
       )}

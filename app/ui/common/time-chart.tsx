@@ -1,11 +1,12 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
+import { resolveColour, useThemeGeneration } from './theme.js';
 
 export type ChartSeries = {
   readonly label: string;
   readonly values: readonly (number | null)[];
-  /** Stroke colour; patterns (dash) keep series apart when printed in black and white. */
+  /** Stroke colour, any CSS colour, usually a theme variable such as `var(--chart-blue)`; patterns (dash) keep series apart when printed in black and white. */
   readonly stroke: string;
   readonly dash?: readonly number[];
   readonly width?: number;
@@ -36,18 +37,31 @@ type Props = {
 export function TimeChart({ x, xLabel, series, axes, height = 260, title, summary }: Props) {
   const host = useRef<HTMLDivElement | null>(null);
   const plot = useRef<uPlot | null>(null);
+  const themeGeneration = useThemeGeneration();
 
   const shape = JSON.stringify({
     labels: series.map((item) => [item.label, item.scale, item.stroke, item.dash, item.bandTo]),
     axes,
     title,
     height,
+    themeGeneration,
   });
 
   useEffect(() => {
     const element = host.current;
     if (element === null) return undefined;
     const parsedAxes = axes;
+    // Colours are read from the style sheet each time uPlot draws, so they follow the theme.
+    // Cached per build; the chart is rebuilt when the theme changes.
+    const resolved = new Map<string, string>();
+    const colour = (css: string) => () => {
+      let value = resolved.get(css);
+      if (value === undefined) {
+        value = resolveColour(css, element);
+        resolved.set(css, value);
+      }
+      return value;
+    };
     const options: uPlot.Options = {
       width: Math.max(320, element.clientWidth),
       height,
@@ -56,20 +70,26 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
       legend: { show: true },
       cursor: { drag: { x: false, y: false } },
       axes: [
-        { label: xLabel, stroke: '#1b1f24', grid: { stroke: '#e3e6ea' } },
+        {
+          label: xLabel,
+          stroke: colour('var(--chart-axis)'),
+          grid: { stroke: colour('var(--chart-grid)') },
+          ticks: { stroke: colour('var(--chart-grid)') },
+        },
         ...parsedAxes.map((axis) => ({
           scale: axis.scale,
           label: axis.label,
           side: axis.side === 'right' ? 1 : 3,
-          stroke: '#1b1f24',
-          grid: { show: axis.side !== 'right', stroke: '#e3e6ea' },
+          stroke: colour('var(--chart-axis)'),
+          grid: { show: axis.side !== 'right', stroke: colour('var(--chart-grid)') },
+          ticks: { stroke: colour('var(--chart-grid)') },
         })),
       ],
       series: [
         { label: xLabel },
         ...series.map((item) => ({
           label: item.label,
-          stroke: item.stroke,
+          stroke: colour(item.stroke),
           width: item.width ?? 2,
           scale: item.scale ?? parsedAxes[0]?.scale ?? 'y',
           ...(item.dash === undefined ? {} : { dash: [...item.dash] }),
@@ -84,7 +104,12 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
       bands: series.flatMap((item, index) =>
         item.bandTo === undefined
           ? []
-          : [{ series: [index + 1, item.bandTo + 1] as [number, number], fill: 'rgba(31, 78, 121, 0.15)' }],
+          : [
+              {
+                series: [index + 1, item.bandTo + 1] as [number, number],
+                fill: colour('var(--chart-band-fill)'),
+              },
+            ],
       ),
     };
     const instance = new uPlot(options, [[], ...series.map(() => [])] as uPlot.AlignedData, element);

@@ -6,7 +6,8 @@ import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { SelectField, TextField } from '../common/fields.js';
 import { useChannel } from '../common/use-channel.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
+import { useFocusFirstError } from '../common/screen-focus.js';
 import { href } from '../shell/areas.js';
 
 type Draft = {
@@ -46,7 +47,8 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
+  const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
 
   useEffect(() => {
     if (patientId === null) return;
@@ -85,19 +87,22 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
         : {};
     if (!parsed.success || Object.keys(local).length > 0 || Object.keys(reasonError).length > 0) {
       setErrors({ ...local, ...reasonError });
+      setFailure('Not saved: correct the fields marked above.');
+      focusFirstError();
       return;
     }
     setErrors({});
-    const who = writeMeta(reason.trim());
-    if ('missing' in who) {
-      setFailure(who.missing);
-      return;
-    }
+    const values = parsed.data;
+    // Without initials, a prompt opens here, focused, and the save goes ahead once they are given.
+    withInitials((enteredBy) => void write(values, { enteredBy, reason: reason.trim() }));
+  }
+
+  async function write(values: PatientValues, meta: { enteredBy: string; reason: string }) {
     setBusy(true);
     const answer =
       patientId === null
-        ? await api.invoke('patients:create', { values: parsed.data, meta: who.meta })
-        : await api.invoke('patients:correct', { id: patientId, values: parsed.data, meta: who.meta });
+        ? await api.invoke('patients:create', { values, meta })
+        : await api.invoke('patients:correct', { id: patientId, values, meta });
     setBusy(false);
     if (answer.ok) {
       window.location.hash = href('patients', answer.value.id);
@@ -113,6 +118,7 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
       ),
     );
     setFailure(answer.error.message);
+    focusFirstError();
   }
 
   const speciesOptions =
@@ -127,7 +133,7 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
   return (
     <section className="screen" aria-labelledby="patient-form-title">
       <h1 id="patient-form-title">{title}</h1>
-      <form className="form" noValidate onSubmit={(event) => void submit(event)}>
+      <form ref={formRef} className="form" noValidate onSubmit={(event) => void submit(event)}>
         <div className="form-grid">
           <TextField
             label="Name or clinic ID"
@@ -216,6 +222,7 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
             {failure}
           </p>
         )}
+        {gate}
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>
             {busy ? 'Saving…' : patientId === null ? 'Save patient' : 'Save correction'}

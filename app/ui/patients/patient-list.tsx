@@ -4,6 +4,7 @@ import { api } from '../common/bridge.js';
 import { displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { href } from '../shell/areas.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** Search the clinic's birds by any identifier; Enter opens the first match. */
 export function PatientListScreen() {
@@ -86,36 +87,38 @@ export function PatientListScreen() {
               ? `Latest of ${results.total} patients.`
               : `${results.patients.length} match${results.patients.length === 1 ? '' : 'es'} of ${results.total} patients.`}
           </p>
-          <table className="data-table">
-            <thead>
-              <tr>
-                <th>Name or ID</th>
-                <th>Species</th>
-                <th>Ring</th>
-                <th>Microchip</th>
-                <th>Owner reference</th>
-                <th className="number">Latest weight</th>
-              </tr>
-            </thead>
-            <tbody>
-              {results.patients.map((patient) => (
-                <tr key={patient.id}>
-                  <td>
-                    <a href={href('patients', patient.id)}>{patient.name}</a>
-                  </td>
-                  <td>{patient.speciesName ?? patient.speciesKey}</td>
-                  <td>{patient.ringId}</td>
-                  <td>{patient.microchipId}</td>
-                  <td>{patient.ownerReference}</td>
-                  <td className="number">
-                    {patient.latestMassG === null
-                      ? '—'
-                      : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn ?? ''})`}
-                  </td>
+          <ScrollRegion label="Patients found">
+            <table className="data-table">
+              <thead>
+                <tr>
+                  <th>Name or ID</th>
+                  <th>Species</th>
+                  <th>Ring</th>
+                  <th>Microchip</th>
+                  <th>Owner reference</th>
+                  <th className="number">Latest weight</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {results.patients.map((patient) => (
+                  <tr key={patient.id}>
+                    <td>
+                      <a href={href('patients', patient.id)}>{patient.name}</a>
+                    </td>
+                    <td>{patient.speciesName ?? patient.speciesKey}</td>
+                    <td>{patient.ringId}</td>
+                    <td>{patient.microchipId}</td>
+                    <td>{patient.ownerReference}</td>
+                    <td className="number">
+                      {patient.latestMassG === null
+                        ? '—'
+                        : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn ?? ''})`}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </ScrollRegion>
         </>
       )}
     </section>

@@ -1,6 +1,11 @@
-import { useState, type FormEvent } from 'react';
+import { useRef, useState, type FormEvent } from 'react';
 import type { PatientDetail } from '../../contract/record-channels.js';
-import { bodyConditions, weightValuesSchema, type Weight } from '../../contract/records.js';
+import {
+  bodyConditions,
+  weightValuesSchema,
+  type Weight,
+  type WeightValues,
+} from '../../contract/records.js';
 import {
   addDays,
   calendarDate,
@@ -18,7 +23,9 @@ import { NumberField, parseNumber, SelectField, TextField } from '../common/fiel
 import { useOperator } from '../common/operator.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { TimeChart } from '../common/time-chart.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
+import { useFocusFirstError } from '../common/screen-focus.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 type Props = { readonly detail: PatientDetail; readonly onChanged: () => void };
 
@@ -30,7 +37,8 @@ const dayMs = 86_400_000;
 export function WeightsPanel({ detail, onChanged }: Props) {
   const settings = useClinicSettings();
   const { initials } = useOperator();
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
+  const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
   const unit = settings.massUnit;
   const [weighedOn, setWeighedOn] = useState(todayIso());
   const [massText, setMassText] = useState('');
@@ -44,7 +52,11 @@ export function WeightsPanel({ detail, onChanged }: Props) {
   // A weight that looks like a slip waits here for a second Enter (or Esc to fix it).
   const [confirming, setConfirming] = useState<{ massText: string; reasons: string[] } | null>(null);
 
+  const opener = useRef<HTMLElement | null>(null);
+
   function startEdit(weight: Weight, mode: 'correct' | 'void') {
+    // Escape in the form returns focus here.
+    opener.current = document.activeElement instanceof HTMLElement ? document.activeElement : null;
     setEditing({ weight, mode });
     setWeighedOn(weight.values.weighedOn);
     setMassText(String(unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG));
@@ -95,6 +107,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     if (dateProblem !== null) fieldErrors['weighedOn'] = dateProblem;
     if (!parsed.success || Object.keys(fieldErrors).length > 0) {
       setErrors(fieldErrors);
+      focusFirstError();
       return;
     }
     setErrors({});
@@ -116,24 +129,26 @@ export function WeightsPanel({ detail, onChanged }: Props) {
       }
     }
     setConfirming(null);
-    const who = writeMeta(reason.trim());
-    if ('missing' in who) {
-      setFailure(who.missing);
-      return;
-    }
+    const values = parsed.data;
+    const target = editing;
+    // Without initials, a prompt opens in the form, focused, and the save goes ahead once given.
+    withInitials((enteredBy) => void write(values, target, { enteredBy, reason: reason.trim() }));
+  }
+
+  async function write(values: WeightValues, editing: Editing, meta: { enteredBy: string; reason: string }) {
     const answer =
       editing === null
         ? await api.invoke('weights:add', {
             patientId: detail.patient.id,
-            values: parsed.data,
-            meta: who.meta,
+            values,
+            meta,
           })
         : editing.mode === 'void'
-          ? await api.invoke('weights:void', { id: editing.weight.id, meta: who.meta })
+          ? await api.invoke('weights:void', { id: editing.weight.id, meta })
           : await api.invoke('weights:correct', {
               id: editing.weight.id,
-              values: parsed.data,
-              meta: who.meta,
+              values,
+              meta,
             });
     if (!answer.ok) {
       setErrors(
@@ -145,6 +160,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         ),
       );
       setFailure(answer.error.message);
+      focusFirstError();
       return;
     }
     reset();
@@ -170,7 +186,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
     {
       label: `Weight (${unit})`,
       values: weights.map((weight) => (unit === 'kg' ? gToKg(weight.values.massG) : weight.values.massG)),
-      stroke: '#1f4e79',
+      stroke: 'var(--chart-blue)',
       points: true,
       scale: 'mass',
     },
@@ -180,7 +196,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           {
             label: 'Typical range, low',
             values: weights.map(() => (unit === 'kg' ? gToKg(range.massMinG) : range.massMinG)),
-            stroke: '#6b7480',
+            stroke: 'var(--chart-grey)',
             dash: [6, 4],
             width: 1,
             scale: 'mass',
@@ -188,7 +204,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           {
             label: 'Typical range, high',
             values: weights.map(() => (unit === 'kg' ? gToKg(range.massMaxG) : range.massMaxG)),
-            stroke: '#6b7480',
+            stroke: 'var(--chart-grey)',
             dash: [2, 3],
             width: 1,
             scale: 'mass',
@@ -236,47 +252,61 @@ export function WeightsPanel({ detail, onChanged }: Props) {
       {weights.length === 0 ? (
         <p className="muted">No weights yet.</p>
       ) : (
-        <table className="data-table">
-          <thead>
-            <tr>
-              <th>Date</th>
-              <th className="number">Weight</th>
-              <th>Body condition</th>
-              <th>Weighed by</th>
-              <th>Entered</th>
-              <th>Actions</th>
-            </tr>
-          </thead>
-          <tbody>
-            {weights.map((weight) => (
-              <tr key={weight.id}>
-                <td>{weight.values.weighedOn}</td>
-                <td className="number">{shownMass(weight.values.massG)}</td>
-                <td>{weight.values.bodyCondition || '—'}</td>
-                <td>{weight.values.weighedBy || '—'}</td>
-                <td>
-                  {weight.stamp.enteredBy}, {displayDateTime(weight.stamp.enteredAt)}
-                  {weight.stamp.correctsId !== null && (
-                    <span className="basis">Corrected: {weight.stamp.reason}</span>
-                  )}
-                </td>
-                <td className="row-actions">
-                  <button type="button" onClick={() => startEdit(weight, 'correct')}>
-                    Correct
-                  </button>{' '}
-                  <button type="button" onClick={() => startEdit(weight, 'void')}>
-                    Void
-                  </button>{' '}
-                  {weight.stamp.correctsId !== null && (
-                    <button type="button" onClick={() => void showHistory(weight)}>
-                      History
-                    </button>
-                  )}
-                </td>
+        <ScrollRegion label="Weights table">
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th>Date</th>
+                <th className="number">Weight</th>
+                <th>Body condition</th>
+                <th>Weighed by</th>
+                <th>Entered</th>
+                <th>Actions</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {weights.map((weight, index) => (
+                <tr key={weight.id}>
+                  <td>{weight.values.weighedOn}</td>
+                  <td className="number">{shownMass(weight.values.massG)}</td>
+                  <td>{weight.values.bodyCondition || '—'}</td>
+                  <td>{weight.values.weighedBy || '—'}</td>
+                  <td>
+                    {weight.stamp.enteredBy}, {displayDateTime(weight.stamp.enteredAt)}
+                    {weight.stamp.correctsId !== null && (
+                      <span className="basis">Corrected: {weight.stamp.reason}</span>
+                    )}
+                  </td>
+                  <td className="row-actions">
+                    <button
+                      type="button"
+                      aria-label={`Correct weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                      onClick={() => startEdit(weight, 'correct')}
+                    >
+                      Correct
+                    </button>{' '}
+                    <button
+                      type="button"
+                      aria-label={`Void weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                      onClick={() => startEdit(weight, 'void')}
+                    >
+                      Void
+                    </button>{' '}
+                    {weight.stamp.correctsId !== null && (
+                      <button
+                        type="button"
+                        aria-label={`History of weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                        onClick={() => void showHistory(weight)}
+                      >
+                        History
+                      </button>
+                    )}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </ScrollRegion>
       )}
       {history !== null && (
         <div className="panel" role="region" aria-label="Weight history">
@@ -296,14 +326,21 @@ export function WeightsPanel({ detail, onChanged }: Props) {
         </div>
       )}
       <form
+        ref={formRef}
         className="form weights-form"
         noValidate
         onSubmit={(event) => void submit(event)}
         onKeyDown={(event) => {
-          if (event.key === 'Escape' && confirming !== null) {
+          if (event.key !== 'Escape') return;
+          // Esc first leaves a weight's confirmation (back to the weight box), then the correction.
+          if (confirming !== null) {
             event.preventDefault();
             setConfirming(null);
             focusMass();
+          } else if (editing !== null) {
+            event.preventDefault();
+            reset();
+            opener.current?.focus();
           }
         }}
         aria-label={editing === null ? 'Add a weight' : 'Correct a weight'}
@@ -373,6 +410,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
             <p>Press Enter again to save it as it is, or Esc to fix it.</p>
           </div>
         )}
+        {gate}
         {failure !== null && (
           <p className="form-error" role="alert">
             {failure}

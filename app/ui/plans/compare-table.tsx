@@ -3,6 +3,7 @@ import type { PlanResult } from '../../core/model/plan-types.js';
 import { agents } from '../../core/agents.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
 import { figure, minutes, range } from './format.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 type Row = { readonly label: string; readonly a: string; readonly b: string };
 
@@ -80,26 +81,30 @@ export function CompareTable(props: {
 }) {
   const rows = [...inputRows(props.inputA, props.inputB), ...resultRows(props.resultA, props.resultB)];
   return (
-    <table className="data-table compare-table" aria-label="Comparison of plan A and plan B">
-      <thead>
-        <tr>
-          <th scope="col">&nbsp;</th>
-          <th scope="col">Plan A</th>
-          <th scope="col">Plan B</th>
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map((row, index) => {
-          const differs = row.a !== row.b;
-          return (
-            <tr key={`${row.label}-${index}`} data-differs={differs}>
-              <th scope="row">{row.label}</th>
-              <td className={differs ? 'differs' : undefined}>{row.a}</td>
-              <td className={differs ? 'differs' : undefined}>{row.b}</td>
-            </tr>
-          );
-        })}
-      </tbody>
-    </table>
+    <ScrollRegion label="Plan comparison">
+      <table className="data-table compare-table" aria-label="Comparison of plan A and plan B">
+        <thead>
+          <tr>
+            <th scope="col">
+              <span className="visually-hidden">Quantity</span>
+            </th>
+            <th scope="col">Plan A</th>
+            <th scope="col">Plan B</th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((row, index) => {
+            const differs = row.a !== row.b;
+            return (
+              <tr key={`${row.label}-${index}`} data-differs={differs}>
+                <th scope="row">{row.label}</th>
+                <td className={differs ? 'differs' : undefined}>{row.a}</td>
+                <td className={differs ? 'differs' : undefined}>{row.b}</td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </ScrollRegion>
   );
 }

@@ -7,6 +7,7 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { figure, minutes } from './format.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** The plans for one day with the agent and oxygen the list needs. */
 export function DayList() {
@@ -40,40 +41,44 @@ export function DayList() {
           <p className="muted">No plans for {date}.</p>
         ) : (
           <>
-            <table className="data-table">
-              <thead>
-                <tr>
-                  <th>Plan</th>
-                  <th>Bird</th>
-                  <th className="number">Mass</th>
-                  <th>Agent and route</th>
-                  <th className="number">To planned depth</th>
-                  <th className="number">Liquid agent</th>
-                  <th className="number">Oxygen</th>
-                  <th>Checklist</th>
-                </tr>
-              </thead>
-              <tbody>
-                {load.value.plans.map((plan) => (
-                  <tr key={plan.id}>
-                    <td>
-                      <a href={href('plans', plan.id)}>
-                        {plan.id}
-                        {plan.label === '' ? '' : ` · ${plan.label}`}
-                      </a>{' '}
-                      · <a href={href('worksheets', plan.id)}>worksheet</a>
-                    </td>
-                    <td>{plan.patientName ?? 'quick plan'}</td>
-                    <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
-                    <td>{agentRouteText(plan.agent, plan.route)}</td>
-                    <td className="number">{minutes(plan.inductionMin)}</td>
-                    <td className="number">{figure(plan.liquidMl)} mL</td>
-                    <td className="number">{figure(plan.oxygenL)} L</td>
-                    <td>{plan.openChecklistItems === 0 ? 'complete' : `${plan.openChecklistItems} open`}</td>
+            <ScrollRegion label="Plans for the day">
+              <table className="data-table">
+                <thead>
+                  <tr>
+                    <th>Plan</th>
+                    <th>Bird</th>
+                    <th className="number">Mass</th>
+                    <th>Agent and route</th>
+                    <th className="number">To planned depth</th>
+                    <th className="number">Liquid agent</th>
+                    <th className="number">Oxygen</th>
+                    <th>Checklist</th>
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {load.value.plans.map((plan) => (
+                    <tr key={plan.id}>
+                      <td>
+                        <a href={href('plans', plan.id)}>
+                          {plan.id}
+                          {plan.label === '' ? '' : ` · ${plan.label}`}
+                        </a>{' '}
+                        · <a href={href('worksheets', plan.id)}>worksheet</a>
+                      </td>
+                      <td>{plan.patientName ?? 'quick plan'}</td>
+                      <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
+                      <td>{agentRouteText(plan.agent, plan.route)}</td>
+                      <td className="number">{minutes(plan.inductionMin)}</td>
+                      <td className="number">{figure(plan.liquidMl)} mL</td>
+                      <td className="number">{figure(plan.oxygenL)} L</td>
+                      <td>
+                        {plan.openChecklistItems === 0 ? 'complete' : `${plan.openChecklistItems} open`}
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </ScrollRegion>
             <p className="day-totals" role="status">
               Day total:{' '}
               {Object.entries(load.value.totals.liquidMlByAgent)

@@ -20,7 +20,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Inspired',
       values: timeline.inspiredPct,
-      stroke: '#6b7480',
+      stroke: 'var(--chart-grey)',
       dash: [10, 5],
       width: 1.5,
       scale: 'pct',
@@ -28,7 +28,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Posterior air sacs',
       values: timeline.posteriorSacsPct,
-      stroke: '#b7791f',
+      stroke: 'var(--chart-amber)',
       dash: [4, 3],
       width: 1.5,
       scale: 'pct',
@@ -36,7 +36,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Parabronchial end gas',
       values: timeline.parabronchialPct,
-      stroke: '#2f855a',
+      stroke: 'var(--chart-green)',
       dash: [1, 3],
       width: 2,
       scale: 'pct',
@@ -44,16 +44,16 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Arterial',
       values: timeline.arterialPct,
-      stroke: '#8a1c1c',
+      stroke: 'var(--chart-red)',
       dash: [8, 3, 2, 3],
       width: 1.5,
       scale: 'pct',
     },
-    { label: 'Brain', values: timeline.brainPct, stroke: '#1f4e79', width: 3, scale: 'pct' },
+    { label: 'Brain', values: timeline.brainPct, stroke: 'var(--chart-blue)', width: 3, scale: 'pct' },
     {
       label: 'Planned depth',
       values: constant(depthPct),
-      stroke: '#1b1f24',
+      stroke: 'var(--chart-ink)',
       dash: [2, 2],
       width: 1,
       scale: 'pct',
@@ -61,7 +61,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Arousal threshold',
       values: constant(arousalPct),
-      stroke: '#1b1f24',
+      stroke: 'var(--chart-ink)',
       dash: [12, 4, 2, 4],
       width: 1,
       scale: 'pct',
@@ -70,7 +70,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Brain, 5th percentile',
       values: bandUsable ? band.p5 : x.map(() => null),
-      stroke: 'rgba(31, 78, 121, 0.4)',
+      stroke: 'var(--chart-band-line)',
       width: 1,
       scale: 'pct',
       bandTo: 8,
@@ -78,7 +78,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     {
       label: 'Brain, 95th percentile',
       values: bandUsable ? band.p95 : x.map(() => null),
-      stroke: 'rgba(31, 78, 121, 0.4)',
+      stroke: 'var(--chart-band-line)',
       width: 1,
       scale: 'pct',
     },
@@ -89,7 +89,7 @@ export function planChartSeries(result: PlanResult, compareWith: CompareWith): C
     list.push({
       label: `Brain, ${compareWith.label} (same MAC multiple)`,
       values: compareWith.result.timeline.brainPct.map((value) => value * scale),
-      stroke: '#6b46c1',
+      stroke: 'var(--chart-violet)',
       dash: [6, 2],
       width: 2.5,
       scale: 'pct',

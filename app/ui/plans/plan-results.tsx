@@ -1,4 +1,4 @@
-import { memo, type ReactNode } from 'react';
+import { memo, useState, type ReactNode } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { plainBasis } from '../common/display.js';
 import { EstimateList } from './estimate-list.js';
@@ -51,11 +51,29 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
   const uncertainty = result.uncertainty;
   const flows = result.flows;
   const waste = result.wasteGas;
+  const [cautionsFolded, setCautionsFolded] = useState(false);
   return (
     <div className="plan-results" aria-busy={pending}>
-      <section className="panel cautions-panel" aria-labelledby="cautions-heading">
-        <h2 id="cautions-heading">Cautions ({result.cautions.length})</h2>
-        <CautionList cautions={result.cautions} />
+      <section
+        className={`panel cautions-panel${cautionsFolded ? ' folded' : ''}`}
+        aria-labelledby="cautions-heading"
+      >
+        <div className="cautions-head">
+          <h2 id="cautions-heading">Cautions ({result.cautions.length})</h2>
+          {/* Shown on short windows only (styles.css): the heading with the count stays in view. */}
+          <button
+            type="button"
+            className="cautions-toggle"
+            aria-expanded={!cautionsFolded}
+            aria-controls="cautions-body"
+            onClick={() => setCautionsFolded((folded) => !folded)}
+          >
+            {cautionsFolded ? 'Show cautions' : 'Fold cautions'}
+          </button>
+        </div>
+        <div id="cautions-body" className="cautions-body">
+          <CautionList cautions={result.cautions} />
+        </div>
       </section>
 
       <section className="panel" aria-labelledby="milestones-heading">

@@ -1,6 +1,11 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
 import { localDateOf, plannedDateProblem } from '../../contract/input-rules.js';
-import { checklistSchema, planFieldsSchema, type Checklist } from '../../contract/plan-records.js';
+import {
+  checklistSchema,
+  planFieldsSchema,
+  type Checklist,
+  type PlanFields,
+} from '../../contract/plan-records.js';
 import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
@@ -9,7 +14,7 @@ import { displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { TextField } from '../common/fields.js';
 import { useClinicSettings } from '../common/settings-context.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 import { href } from '../shell/areas.js';
 import { ChecklistPanel } from './checklist-panel.js';
 import { CompareTable } from './compare-table.js';
@@ -36,7 +41,7 @@ const emptyChecklist: Checklist = checklistSchema.parse({});
 /** Plan an anaesthetic: inputs on the left, predictions redrawn on every change on the right. */
 export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const settings = useClinicSettings();
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
   const [species, setSpecies] = useState<Species[]>([]);
   const [draftA, setDraftA] = useState<PlanDraft>(() =>
     defaultDraft(settings.defaultAgent, settings.massUnit),
@@ -145,16 +150,17 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       setSaveMessage({ kind: 'failed', text: 'Not saved: correct the fields marked above.' });
       return;
     }
-    const who = writeMeta(context.savedPlanId === null ? dateReason.trim() : 'Plan edited');
-    if ('missing' in who) {
-      setSaveMessage({ kind: 'failed', text: who.missing });
-      return;
-    }
     const fields = { patientId: context.patientId, plannedFor, label, input: computationA.input, checklist };
+    const reason = context.savedPlanId === null ? dateReason.trim() : 'Plan edited';
+    // Without initials, a prompt opens beside the button, focused, and the save goes ahead once given.
+    withInitials((enteredBy) => void write(fields, { enteredBy, reason }));
+  }
+
+  async function write(fields: PlanFields, meta: { enteredBy: string; reason: string }) {
     const answer =
       context.savedPlanId === null
-        ? await api.invoke('plans:save', { fields, meta: who.meta })
-        : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta: who.meta });
+        ? await api.invoke('plans:save', { fields, meta })
+        : await api.invoke('plans:correct', { id: context.savedPlanId, fields, meta });
     if (!answer.ok) {
       setSaveErrors(
         Object.fromEntries(
@@ -245,6 +251,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
             Open worksheet
           </a>
         )}
+        {gate}
         <SaveStatus message={saveMessage} />
         {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
       </div>

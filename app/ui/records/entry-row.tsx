@@ -166,13 +166,16 @@ export function EntryRow({
         </div>
       </div>
       {Object.keys(errors).length > 0 && (
-        <ul className="record-entry-errors">
-          {Object.entries(errors).map(([field, message]) => (
-            <li key={field} className="field-error" role="alert">
-              {message}
-            </li>
-          ))}
-        </ul>
+        // One alert for the list: the problems are announced once, together.
+        <div role="alert">
+          <ul className="record-entry-errors">
+            {Object.entries(errors).map(([field, message]) => (
+              <li key={field} className="field-error">
+                {message}
+              </li>
+            ))}
+          </ul>
+        </div>
       )}
       {copied && (
         <p className="status-saved" role="status">

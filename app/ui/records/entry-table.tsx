@@ -19,6 +19,7 @@ import {
   type ReadingField,
 } from './entry-form.js';
 import { eventSummary, minutesFromStart } from './monitoring.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 export type TableEntry = ProcedureEntry & { readonly corrected: boolean };
 
@@ -348,95 +349,99 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
   const columns = 2 + readingFields.length + 3;
   if (entries.length === 0) return <p className="hint">No rows logged yet.</p>;
   return (
-    <table className="record-table record-entries">
-      <caption className="visually-hidden">Logged rows, newest first</caption>
-      <thead>
-        <tr>
-          <th scope="col">Time</th>
-          <th scope="col" className="record-number">
-            min
-          </th>
-          {readingFields.map((field) => {
-            const { label, unit } = readingLabel(field, units);
-            return (
-              <th scope="col" key={field} className="record-number">
-                {label} <span className="record-unit">{unit}</span>
-              </th>
-            );
-          })}
-          <th scope="col">Event / note</th>
-          <th scope="col">By</th>
-          <th scope="col">
-            <span className="visually-hidden">Actions</span>
-          </th>
-        </tr>
-      </thead>
-      <tbody>
-        {newestFirst.map((entry) => {
-          const open = mode !== null && mode.id === entry.id ? mode.kind : null;
-          const close = () => setMode(null);
-          return [
-            <tr key={entry.id} className={entry.values.kind === 'event' ? 'record-event-row' : undefined}>
-              <td>
-                {clockText(entry.values.at)}
-                {entry.corrected && (
-                  <span className="record-corrected" title="Corrected: see its history">
-                    {' '}
-                    corrected
-                  </span>
-                )}
-              </td>
-              <td className="record-number">{minutesFromStart(startedAt, entry.values.at)}</td>
-              {readingFields.map((field) => (
-                <td key={field} className="record-number">
-                  {readingCell(entry.values, field, units)}
-                </td>
-              ))}
-              <td>{entry.values.kind === 'event' ? eventSummary(entry.values) : ''}</td>
-              <td>{entry.stamp.enteredBy}</td>
-              <td>
-                <div className="record-actions">
-                  <button
-                    type="button"
-                    aria-label={`Correct the row at ${clockText(entry.values.at)}`}
-                    onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}
-                  >
-                    Correct
-                  </button>
-                  <button
-                    type="button"
-                    aria-label={`Void the row at ${clockText(entry.values.at)}`}
-                    onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}
-                  >
-                    Void
-                  </button>
+    <ScrollRegion label="Procedure log">
+      <table className="record-table record-entries">
+        <caption className="visually-hidden">Logged rows, newest first</caption>
+        <thead>
+          <tr>
+            <th scope="col">Time</th>
+            <th scope="col" className="record-number">
+              min
+            </th>
+            {readingFields.map((field) => {
+              const { label, unit } = readingLabel(field, units);
+              return (
+                <th scope="col" key={field} className="record-number">
+                  {label} <span className="record-unit">{unit}</span>
+                </th>
+              );
+            })}
+            <th scope="col">Event / note</th>
+            <th scope="col">By</th>
+            <th scope="col">
+              <span className="visually-hidden">Actions</span>
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {newestFirst.map((entry, index) => {
+            // Rows logged in the same second share a time: the row number keeps each button's name unique.
+            const rowName = `the row at ${clockText(entry.values.at)} (row ${newestFirst.length - index})`;
+            const open = mode !== null && mode.id === entry.id ? mode.kind : null;
+            const close = () => setMode(null);
+            return [
+              <tr key={entry.id} className={entry.values.kind === 'event' ? 'record-event-row' : undefined}>
+                <td>
+                  {clockText(entry.values.at)}
                   {entry.corrected && (
+                    <span className="record-corrected" title="Corrected: see its history">
+                      {' '}
+                      corrected
+                    </span>
+                  )}
+                </td>
+                <td className="record-number">{minutesFromStart(startedAt, entry.values.at)}</td>
+                {readingFields.map((field) => (
+                  <td key={field} className="record-number">
+                    {readingCell(entry.values, field, units)}
+                  </td>
+                ))}
+                <td>{entry.values.kind === 'event' ? eventSummary(entry.values) : ''}</td>
+                <td>{entry.stamp.enteredBy}</td>
+                <td>
+                  <div className="record-actions">
                     <button
                       type="button"
-                      aria-label={`History of the row at ${clockText(entry.values.at)}`}
-                      aria-expanded={open === 'history'}
-                      onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}
+                      aria-label={`Correct ${rowName}`}
+                      onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}
                     >
-                      History
+                      Correct
                     </button>
-                  )}
-                </div>
-              </td>
-            </tr>,
-            open !== null && (
-              <tr key={`${entry.id}-${open}`} className="record-detail-row">
-                <td colSpan={columns}>
-                  {open === 'correct' && (
-                    <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} />
-                  )}
-                  {open === 'void' && <VoidForm entry={entry} onVoid={onVoid} onClose={close} />}
-                  {open === 'history' && <History entry={entry} units={units} />}
+                    <button
+                      type="button"
+                      aria-label={`Void ${rowName}`}
+                      onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}
+                    >
+                      Void
+                    </button>
+                    {entry.corrected && (
+                      <button
+                        type="button"
+                        aria-label={`History of ${rowName}`}
+                        aria-expanded={open === 'history'}
+                        onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}
+                      >
+                        History
+                      </button>
+                    )}
+                  </div>
                 </td>
-              </tr>
-            ),
-          ];
-        })}
-      </tbody>
-    </table>
+              </tr>,
+              open !== null && (
+                <tr key={`${entry.id}-${open}`} className="record-detail-row">
+                  <td colSpan={columns}>
+                    {open === 'correct' && (
+                      <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} />
+                    )}
+                    {open === 'void' && <VoidForm entry={entry} onVoid={onVoid} onClose={close} />}
+                    {open === 'history' && <History entry={entry} units={units} />}
+                  </td>
+                </tr>
+              ),
+            ];
+          })}
+        </tbody>
+      </table>
+    </ScrollRegion>
   );
 }

@@ -1,4 +1,4 @@
-import { useId, useState, type FormEvent } from 'react';
+import { useId, useRef, useState, type FormEvent, type KeyboardEvent } from 'react';
 import { eventLabels, type EventType } from '../../core/procedure-events.js';
 import { clockMinutesText, resolveClockTime } from './clock-time.js';
 
@@ -41,6 +41,19 @@ export function EventButtons({
   const [error, setError] = useState<string | null>(null);
   const [logged, setLogged] = useState<string | null>(null);
   const baseId = useId();
+  const drugButton = useRef<HTMLButtonElement | null>(null);
+  const noteButton = useRef<HTMLButtonElement | null>(null);
+
+  /** Escape closes the open form and puts focus back on the button that opened it. */
+  function closeOnEscape(event: KeyboardEvent<HTMLFormElement>) {
+    if (event.key !== 'Escape' || open === null) return;
+    event.preventDefault();
+    event.stopPropagation();
+    const opener = open === 'note' ? noteButton.current : drugButton.current;
+    setOpen(null);
+    setError(null);
+    opener?.focus();
+  }
 
   async function log(
     eventType: EventType,
@@ -89,6 +102,7 @@ export function EventButtons({
       ))}
       <button
         type="button"
+        ref={drugButton}
         aria-expanded={open === 'drugGiven'}
         onClick={() => setOpen(open === 'drugGiven' ? null : 'drugGiven')}
       >
@@ -96,13 +110,14 @@ export function EventButtons({
       </button>
       <button
         type="button"
+        ref={noteButton}
         aria-expanded={open === 'note'}
         onClick={() => setOpen(open === 'note' ? null : 'note')}
       >
         Note…
       </button>
       {open !== null && (
-        <form className="record-event-detail" onSubmit={submitDetail} noValidate>
+        <form className="record-event-detail" onSubmit={submitDetail} onKeyDown={closeOnEscape} noValidate>
           {open === 'drugGiven' && (
             <>
               <label htmlFor={`${baseId}-drug`}>Drug</label>

@@ -9,7 +9,7 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { toLocalInputValue } from './clock-time.js';
-import { useInitialsGate } from './initials-gate.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 import { RecordDetailsFields } from './record-details-fields.js';
 import { checkRecordDraft, emptyRecordDraft, type RecordDraft } from './record-form.js';
 

@@ -35,9 +35,9 @@ export function PlanComparison({
   const result = load.value.plan.result;
   return (
     <section className="record-plan" aria-label={`Plan ${planId} beside the log`}>
-      <h3>
+      <h2>
         Plan {planId} beside the log · <a href={href('plans', planId)}>open the plan</a>
-      </h3>
+      </h2>
       <TimeChart
         x={series.minutes}
         xLabel="Minutes from start"
@@ -45,7 +45,7 @@ export function PlanComparison({
           {
             label: 'Planned dial (%)',
             values: series.plannedDialPct,
-            stroke: '#6b7480',
+            stroke: 'var(--chart-grey)',
             dash: [8, 4],
             width: 1.5,
             scale: 'dial',
@@ -53,7 +53,7 @@ export function PlanComparison({
           {
             label: 'Logged dial (%)',
             values: series.loggedDialPct,
-            stroke: '#b7791f',
+            stroke: 'var(--chart-amber)',
             width: 2,
             points: true,
             scale: 'dial',
@@ -61,7 +61,7 @@ export function PlanComparison({
           {
             label: 'Predicted brain (× MAC)',
             values: series.predictedBrainMac,
-            stroke: '#1f4e79',
+            stroke: 'var(--chart-blue)',
             width: 2.5,
             scale: 'mac',
           },

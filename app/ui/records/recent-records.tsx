@@ -1,6 +1,7 @@
 import { href } from '../shell/areas.js';
 import { useChannel } from '../common/use-channel.js';
 import { asaText } from './record-form.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** The most recent procedure records, newest first, each linking to its live screen. */
 export function RecentRecords() {
@@ -23,36 +24,38 @@ export function RecentRecords() {
       )}
       {recent.state === 'ready' && recent.value.length === 0 && <p>No procedure records yet.</p>}
       {recent.state === 'ready' && recent.value.length > 0 && (
-        <table className="record-table record-recent">
-          <thead>
-            <tr>
-              <th scope="col">Patient</th>
-              <th scope="col">Species</th>
-              <th scope="col">Procedure</th>
-              <th scope="col">Start</th>
-              <th scope="col">ASA</th>
-              <th scope="col">Status</th>
-            </tr>
-          </thead>
-          <tbody>
-            {recent.value.map(({ record, patientName, speciesName }) => (
-              <tr key={record.id}>
-                <td>
-                  <a href={href('records', record.id)}>{patientName}</a>
-                </td>
-                <td>{speciesName ?? record.patientId}</td>
-                <td>{record.values.procedureName}</td>
-                <td>{new Date(record.values.startedAt).toLocaleString()}</td>
-                <td>{asaText(record.values)}</td>
-                <td>
-                  {record.values.endedAt === null
-                    ? 'open'
-                    : `ended ${new Date(record.values.endedAt).toLocaleTimeString()}`}
-                </td>
+        <ScrollRegion label="Recent procedure records">
+          <table className="record-table record-recent">
+            <thead>
+              <tr>
+                <th scope="col">Patient</th>
+                <th scope="col">Species</th>
+                <th scope="col">Procedure</th>
+                <th scope="col">Start</th>
+                <th scope="col">ASA</th>
+                <th scope="col">Status</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {recent.value.map(({ record, patientName, speciesName }) => (
+                <tr key={record.id}>
+                  <td>
+                    <a href={href('records', record.id)}>{patientName}</a>
+                  </td>
+                  <td>{speciesName ?? record.patientId}</td>
+                  <td>{record.values.procedureName}</td>
+                  <td>{new Date(record.values.startedAt).toLocaleString()}</td>
+                  <td>{asaText(record.values)}</td>
+                  <td>
+                    {record.values.endedAt === null
+                      ? 'open'
+                      : `ended ${new Date(record.values.endedAt).toLocaleTimeString()}`}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </ScrollRegion>
       )}
     </section>
   );

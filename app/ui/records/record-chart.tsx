@@ -11,11 +11,11 @@ const chartStyle: Readonly<
     { stroke: string; dash?: number[]; scale: string }
   >
 > = {
-  heartRatePerMin: { stroke: '#8a1c1c', scale: 'rate' },
-  breathsPerMin: { stroke: '#1f4e79', dash: [8, 4], scale: 'rate' },
-  temperatureC: { stroke: '#b7791f', dash: [2, 3], scale: 'temperature' },
-  etco2Mmhg: { stroke: '#1e5b2e', dash: [12, 4, 2, 4], scale: 'etco2' },
-  vaporPct: { stroke: '#6b3fa0', scale: 'vapor' },
+  heartRatePerMin: { stroke: 'var(--chart-red)', scale: 'rate' },
+  breathsPerMin: { stroke: 'var(--chart-blue)', dash: [8, 4], scale: 'rate' },
+  temperatureC: { stroke: 'var(--chart-amber)', dash: [2, 3], scale: 'temperature' },
+  etco2Mmhg: { stroke: 'var(--chart-green)', dash: [12, 4, 2, 4], scale: 'etco2' },
+  vaporPct: { stroke: 'var(--chart-violet)', scale: 'vapor' },
 };
 
 type RecordChartProps = {
@@ -48,7 +48,7 @@ export function RecordChart({ startedAt, entries, units, untilMinutes }: RecordC
     list.push({
       label: 'Event markers (listed below)',
       values: data.events,
-      stroke: '#555d66',
+      stroke: 'var(--chart-grey)',
       scale: 'events',
       points: false,
       width: 1.5,

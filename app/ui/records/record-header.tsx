@@ -51,7 +51,7 @@ export function RecordHeader({
           <span>staff {values.staffInitials}</span>
         </p>
       </div>
-      <div className="record-clock" aria-label="Elapsed time since the start">
+      <div className="record-clock" role="timer" aria-label="Elapsed time since the start">
         <span className="record-clock-label">{endedAtMs === null ? 'Elapsed' : 'Duration'}</span>
         <span className="record-clock-value">{formatElapsed((endedAtMs ?? nowMs) - startedAtMs)}</span>
         <span className="record-clock-label">from {clockMinutesText(new Date(startedAtMs))}</span>

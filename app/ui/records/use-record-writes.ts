@@ -4,7 +4,7 @@ import type { EventType } from '../../core/procedure-events.js';
 import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { checkEntry, emptyReadings, type DisplayUnits } from './entry-form.js';
-import { useInitialsGate } from './initials-gate.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 
 type Write = (enteredBy: string) => Promise<string | null>;
 

@@ -11,6 +11,7 @@ import { NumberField, numberText, parseNumber, TextField } from '../common/field
 import { useChannel } from '../common/use-channel.js';
 import { useWriteMeta } from '../common/write-meta.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 type Draft = {
   readonly name: string;
@@ -173,46 +174,48 @@ export function EmergencyDrugs() {
         (load.value.length === 0 ? (
           <p>No emergency drugs entered yet; the emergency card will be blank until you add them.</p>
         ) : (
-          <table className="data-table">
-            <thead>
-              <tr>
-                <th scope="col">Drug</th>
-                <th scope="col">Concentration</th>
-                <th scope="col">Dose</th>
-                <th scope="col">Route</th>
-                <th scope="col">Source of the dose</th>
-                <th scope="col">Notes</th>
-                <th scope="col">Entered</th>
-                <th scope="col">
-                  <span className="visually-hidden">Actions</span>
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {load.value.map((drug) => (
-                <tr key={drug.id}>
-                  <td>{drug.values.name}</td>
-                  <td>{drug.values.concentrationMgPerMl} mg/mL</td>
-                  <td>{doseText(drug.values)}</td>
-                  <td>{drug.values.route}</td>
-                  <td>{drug.values.doseSource}</td>
-                  <td>{drug.values.notes}</td>
-                  <td>
-                    {drug.stamp.enteredBy}
-                    {drug.stamp.reason === '' ? '' : ` (${drug.stamp.reason})`}
-                  </td>
-                  <td className="row-actions">
-                    <button type="button" onClick={() => start({ kind: 'correct', drug })}>
-                      Correct
-                    </button>
-                    <button type="button" onClick={() => start({ kind: 'void', drug })}>
-                      Remove
-                    </button>
-                  </td>
+          <ScrollRegion label="Emergency drugs table">
+            <table className="data-table">
+              <thead>
+                <tr>
+                  <th scope="col">Drug</th>
+                  <th scope="col">Concentration</th>
+                  <th scope="col">Dose</th>
+                  <th scope="col">Route</th>
+                  <th scope="col">Source of the dose</th>
+                  <th scope="col">Notes</th>
+                  <th scope="col">Entered</th>
+                  <th scope="col">
+                    <span className="visually-hidden">Actions</span>
+                  </th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {load.value.map((drug) => (
+                  <tr key={drug.id}>
+                    <td>{drug.values.name}</td>
+                    <td>{drug.values.concentrationMgPerMl} mg/mL</td>
+                    <td>{doseText(drug.values)}</td>
+                    <td>{drug.values.route}</td>
+                    <td>{drug.values.doseSource}</td>
+                    <td>{drug.values.notes}</td>
+                    <td>
+                      {drug.stamp.enteredBy}
+                      {drug.stamp.reason === '' ? '' : ` (${drug.stamp.reason})`}
+                    </td>
+                    <td className="row-actions">
+                      <button type="button" onClick={() => start({ kind: 'correct', drug })}>
+                        Correct
+                      </button>
+                      <button type="button" onClick={() => start({ kind: 'void', drug })}>
+                        Remove
+                      </button>
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </ScrollRegion>
         ))}
       {editing === null ? (
         <div className="form-actions">

@@ -16,6 +16,8 @@ import { Choice, TextField } from '../common/fields.js';
 import { DataSection } from './data-section.js';
 import { EmergencyDrugs } from './emergency-drugs.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
+import { focusMainHeading, useFocusFirstError } from '../common/screen-focus.js';
+import { readThemeChoice, storeThemeChoice, themeChoices, type ThemeChoice } from '../common/theme.js';
 
 type Props = {
   readonly stored: StoredSettings;
@@ -30,6 +32,8 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
   const [message, setMessage] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
   const firstRun = stored.settings === null;
+  const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
+  const [theme, setTheme] = useState<ThemeChoice>(readThemeChoice);
 
   function update<K extends keyof ClinicSettings>(key: K, value: ClinicSettings[K]) {
     setDraft((current) => ({ ...current, [key]: value }));
@@ -43,6 +47,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
     if (!local.success) {
       setErrors(fieldErrorsFrom(describeIssues(local.error.issues)));
       setMessage({ kind: 'failed', text: 'Not saved: correct the fields marked below.' });
+      focusFirstError();
       return;
     }
     setBusy(true);
@@ -56,9 +61,12 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
         text: `Saved ${new Date(answer.value.updatedAt ?? Date.now()).toLocaleString()}.`,
       });
       onSaved(answer.value);
+      // Focus to the heading (after the first save it becomes Settings), so the change is heard.
+      focusMainHeading();
     } else {
       setErrors(fieldErrorsFromContract(answer.error));
       setMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
+      focusFirstError();
     }
   }
 
@@ -70,13 +78,13 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           Enter the clinic’s name and the units your staff read. You can change them later.
         </p>
       )}
-      <form onSubmit={(event) => void submit(event)} noValidate className="form settings-form">
+      <form ref={formRef} onSubmit={(event) => void submit(event)} noValidate className="form settings-form">
         <TextField
           label="Clinic name"
           name="clinicName"
           value={draft.clinicName}
           error={errors['clinicName']}
-          autoFocus
+          autoFocus={firstRun}
           onChange={(value) => update('clinicName', value)}
         />
         <TextField
@@ -144,6 +152,29 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           {new Date(safety.last.acknowledgedAt).toLocaleString()} for version {safety.last.appVersion}.
         </p>
       )}
+      <section className="panel workstation-display" aria-labelledby="display-title">
+        <h2 id="display-title">Display on this workstation</h2>
+        <Choice
+          legend="Theme"
+          name="theme"
+          options={themeChoices}
+          labels={{
+            system: 'Follow this computer’s setting',
+            light: 'Light',
+            dim: 'Dim, for a darkened theatre',
+          }}
+          value={theme}
+          error={undefined}
+          onChange={(value) => {
+            setTheme(value);
+            storeThemeChoice(value);
+          }}
+        />
+        <p className="hint">
+          Applies at once and is kept on this computer only, so each workstation can have its own. The printed
+          worksheet is always black on white.
+        </p>
+      </section>
       {!firstRun && <EmergencyDrugs />}
       {!firstRun && <DataSection />}
     </section>

@@ -1,16 +1,26 @@
 import { useEffect, type ReactNode } from 'react';
 import { OperatorField } from '../common/operator.js';
+import { useScreenAnnouncement } from '../common/screen-focus.js';
 import { areas, type AreaId } from './areas.js';
 
 type Props = {
   readonly current: AreaId;
   readonly clinicName: string;
   readonly appVersion: string;
+  /** Changes when the screen changes (the location hash): focus then moves to the new heading. */
+  readonly screenKey: string;
   readonly children: ReactNode;
 };
 
+/** The hash routes screens, so the skip link moves focus itself instead of following its href. */
+function skipToMain(event: React.MouseEvent<HTMLAnchorElement>) {
+  event.preventDefault();
+  document.getElementById('main')?.focus();
+}
+
 /** Frame of every screen: the standing caution, navigation (Alt+1 to Alt+6) and the content. */
-export function Shell({ current, clinicName, appVersion, children }: Props) {
+export function Shell({ current, clinicName, appVersion, screenKey, children }: Props) {
+  useScreenAnnouncement(screenKey);
   useEffect(() => {
     function onKey(event: KeyboardEvent) {
       if (!event.altKey || event.ctrlKey || event.metaKey) return;
@@ -27,6 +37,9 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
 
   return (
     <div className="shell">
+      <a className="skip-link" href="#main" onClick={skipToMain}>
+        Skip to main content
+      </a>
       <header className="topbar">
         <div className="brand">
           <span className="brand-name">Tidewing</span>
@@ -56,7 +69,9 @@ export function Shell({ current, clinicName, appVersion, children }: Props) {
         </ul>
         <p className="version">Version {appVersion}</p>
       </nav>
-      <div className="content">{children}</div>
+      <main id="main" className="content" tabIndex={-1}>
+        {children}
+      </main>
     </div>
   );
 }

@@ -1,5 +1,5 @@
 import { useEffect, useState, type FormEvent } from 'react';
-import { speciesValuesSchema, type Species } from '../../contract/records.js';
+import { speciesValuesSchema, type Species, type SpeciesValues } from '../../contract/records.js';
 import { describeIssues } from '../../contract/result.js';
 import { agentIds, agents, type AgentId } from '../../core/agents.js';
 import { potencyMeasures } from '../../core/species-reference.js';
@@ -7,7 +7,8 @@ import { api } from '../common/bridge.js';
 import { displayDateTime } from '../common/display.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { NumberField, SelectField, TextField } from '../common/fields.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
+import { useFocusFirstError } from '../common/screen-focus.js';
 import { href } from '../shell/areas.js';
 import {
   draftToCandidate,
@@ -30,7 +31,8 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
+  const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
 
   useEffect(() => {
     if (speciesKey === null) return;
@@ -81,15 +83,20 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
     if (!parsed.success || Object.keys(found).length > 0) {
       setErrors(found);
       setFailure('Not saved: correct the fields marked.');
+      focusFirstError();
       return;
     }
     setErrors({});
-    const who = writeMeta(reason.trim());
-    if ('missing' in who) return setFailure(who.missing);
+    const values = parsed.data;
+    // Without initials, a prompt opens here, focused, and the save goes ahead once they are given.
+    withInitials((enteredBy) => void write(values, { enteredBy, reason: reason.trim() }));
+  }
+
+  async function write(values: SpeciesValues, meta: { enteredBy: string; reason: string }) {
     const answer =
       speciesKey === null
-        ? await api.invoke('species:add', { values: parsed.data, meta: who.meta })
-        : await api.invoke('species:correct', { key: speciesKey, values: parsed.data, meta: who.meta });
+        ? await api.invoke('species:add', { values, meta })
+        : await api.invoke('species:correct', { key: speciesKey, values, meta });
     if (!answer.ok) {
       setErrors(
         Object.fromEntries(
@@ -100,6 +107,7 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
         ),
       );
       setFailure(answer.error.message);
+      focusFirstError();
       return;
     }
     setErrors({});
@@ -150,7 +158,7 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
       <h1 id="species-form-title">
         {speciesKey === null ? 'Add species' : `Edit ${history[0]?.values.commonName ?? speciesKey}`}
       </h1>
-      <form className="form wide-form" noValidate onSubmit={(event) => void submit(event)}>
+      <form ref={formRef} className="form wide-form" noValidate onSubmit={(event) => void submit(event)}>
         <div className="form-grid">
           <TextField
             label="Common name"
@@ -324,6 +332,7 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
             {failure}
           </p>
         )}
+        {gate}
         <div className="form-actions">
           <button type="submit" className="primary">
             {speciesKey === null ? 'Add species' : 'Save changes'}

@@ -3,6 +3,7 @@ import { agentIds, agents } from '../../core/agents.js';
 import { displayBasis } from '../common/display.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 function MacCell({
   species,
@@ -49,69 +50,71 @@ export function SpeciesListScreen() {
         </p>
       )}
       {load.state === 'ready' && (
-        <table className="data-table species-table">
-          <thead>
-            <tr>
-              <th>Species</th>
-              <th>Typical adult mass</th>
-              {agentIds.map((agent) => (
-                <th key={agent}>MAC, {agents[agent].displayName} (vol %)</th>
-              ))}
-              <th>Apnoea</th>
-              <th>Airway notes</th>
-            </tr>
-          </thead>
-          <tbody>
-            {load.value.map((species) => (
-              <tr key={species.key}>
-                <td>
-                  <a href={href('species', species.key)}>{species.values.commonName}</a>
-                  <span className="basis">
-                    <i>{species.values.scientificName}</i>
-                  </span>
-                  <span className="basis">
-                    {species.origin === 'clinic'
-                      ? 'added by the clinic'
-                      : species.stamp.correctsId === null
-                        ? 'Tidewing reference'
-                        : 'edited by the clinic'}
-                  </span>
-                </td>
-                <td>
-                  {species.values.massMinG}-{species.values.massMaxG} g
-                  <span className="basis">{displayBasis(species.values.massBasis)}</span>
-                </td>
+        <ScrollRegion label="Species reference">
+          <table className="data-table species-table">
+            <thead>
+              <tr>
+                <th>Species</th>
+                <th>Typical adult mass</th>
                 {agentIds.map((agent) => (
-                  <td key={agent}>
-                    <MacCell species={species} agent={agent} />
-                  </td>
+                  <th key={agent}>MAC, {agents[agent].displayName} (vol %)</th>
                 ))}
-                <td>
-                  {species.values.apnoeaMacMultiple === null ? (
-                    <span className="muted">—</span>
-                  ) : (
-                    <>
-                      above {Number(species.values.apnoeaMacMultiple.value.toFixed(2))} MAC
-                      <span className="basis">{displayBasis(species.values.apnoeaMacMultiple.basis)}</span>
-                    </>
-                  )}
-                </td>
-                <td>
-                  <ul className="compact">
-                    {species.values.anatomyNotes
-                      .filter((note) => note.code !== 'complete-tracheal-rings')
-                      .map((note) => (
-                        <li key={note.text}>
-                          {note.text}
-                          <span className="basis">{displayBasis(note.basis)}</span>
-                        </li>
-                      ))}
-                  </ul>
-                </td>
+                <th>Apnoea</th>
+                <th>Airway notes</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {load.value.map((species) => (
+                <tr key={species.key}>
+                  <td>
+                    <a href={href('species', species.key)}>{species.values.commonName}</a>
+                    <span className="basis">
+                      <i>{species.values.scientificName}</i>
+                    </span>
+                    <span className="basis">
+                      {species.origin === 'clinic'
+                        ? 'added by the clinic'
+                        : species.stamp.correctsId === null
+                          ? 'Tidewing reference'
+                          : 'edited by the clinic'}
+                    </span>
+                  </td>
+                  <td>
+                    {species.values.massMinG}-{species.values.massMaxG} g
+                    <span className="basis">{displayBasis(species.values.massBasis)}</span>
+                  </td>
+                  {agentIds.map((agent) => (
+                    <td key={agent}>
+                      <MacCell species={species} agent={agent} />
+                    </td>
+                  ))}
+                  <td>
+                    {species.values.apnoeaMacMultiple === null ? (
+                      <span className="muted">—</span>
+                    ) : (
+                      <>
+                        above {Number(species.values.apnoeaMacMultiple.value.toFixed(2))} MAC
+                        <span className="basis">{displayBasis(species.values.apnoeaMacMultiple.basis)}</span>
+                      </>
+                    )}
+                  </td>
+                  <td>
+                    <ul className="compact">
+                      {species.values.anatomyNotes
+                        .filter((note) => note.code !== 'complete-tracheal-rings')
+                        .map((note) => (
+                          <li key={note.text}>
+                            {note.text}
+                            <span className="basis">{displayBasis(note.basis)}</span>
+                          </li>
+                        ))}
+                    </ul>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </ScrollRegion>
       )}
     </section>
   );

@@ -4,6 +4,7 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { figure } from './labels.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** Saved plans, latest planned date first, each opening its printable worksheet. */
 export function RecentPlans() {
@@ -26,43 +27,45 @@ export function RecentPlans() {
         (load.value.length === 0 ? (
           <p>No saved plans yet. Save a plan from Anaesthetic plans first.</p>
         ) : (
-          <table className="data-table">
-            <thead>
-              <tr>
-                <th scope="col">Planned for</th>
-                <th scope="col">Patient</th>
-                <th scope="col">Plan</th>
-                <th scope="col" className="number">
-                  Weight
-                </th>
-                <th scope="col" className="number">
-                  Predicted induction
-                </th>
-                <th scope="col" className="number">
-                  Open checklist items
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {load.value.map((plan) => (
-                <tr key={plan.id}>
-                  <td>{plan.plannedFor}</td>
-                  <td>
-                    <a href={href('worksheets', plan.id)}>{plan.patientName ?? `Quick plan ${plan.id}`}</a>
-                  </td>
-                  <td>
-                    {plan.label === '' ? '' : `${plan.label}: `}
-                    {agentRouteText(plan.agent, plan.route)}
-                  </td>
-                  <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
-                  <td className="number">
-                    {plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}
-                  </td>
-                  <td className="number">{plan.openChecklistItems}</td>
+          <ScrollRegion label="Saved plans">
+            <table className="data-table">
+              <thead>
+                <tr>
+                  <th scope="col">Planned for</th>
+                  <th scope="col">Patient</th>
+                  <th scope="col">Plan</th>
+                  <th scope="col" className="number">
+                    Weight
+                  </th>
+                  <th scope="col" className="number">
+                    Predicted induction
+                  </th>
+                  <th scope="col" className="number">
+                    Open checklist items
+                  </th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {load.value.map((plan) => (
+                  <tr key={plan.id}>
+                    <td>{plan.plannedFor}</td>
+                    <td>
+                      <a href={href('worksheets', plan.id)}>{plan.patientName ?? `Quick plan ${plan.id}`}</a>
+                    </td>
+                    <td>
+                      {plan.label === '' ? '' : `${plan.label}: `}
+                      {agentRouteText(plan.agent, plan.route)}
+                    </td>
+                    <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
+                    <td className="number">
+                      {plan.inductionMin === null ? 'not reached' : `${figure(plan.inductionMin, 2)} min`}
+                    </td>
+                    <td className="number">{plan.openChecklistItems}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </ScrollRegion>
         ))}
     </section>
   );

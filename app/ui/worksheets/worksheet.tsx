@@ -4,6 +4,7 @@ import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { Sheet } from './sheet.js';
+import { ScrollRegion } from '../common/scroll-region.js';
 
 /** Asks the desktop to save the shown worksheet as a PDF; returns the line to show. */
 async function savePdf(suggestedName: string): Promise<string> {
@@ -70,13 +71,16 @@ export function Worksheet({ planId }: { readonly planId: number }) {
         </span>
         {pdfMessage !== null && <span role="status">{pdfMessage}</span>}
       </div>
-      <Sheet
-        detail={detail.value}
-        drugs={drugs.value}
-        appVersion={info.value.appVersion}
-        settings={settings}
-        printedAt={printedAt}
-      />
+      {/* The sheet keeps its paper width; a narrow window scrolls the preview, not the page. */}
+      <ScrollRegion label="Worksheet preview">
+        <Sheet
+          detail={detail.value}
+          drugs={drugs.value}
+          appVersion={info.value.appVersion}
+          settings={settings}
+          printedAt={printedAt}
+        />
+      </ScrollRegion>
     </div>
   );
 }

@@ -1,5 +1,5 @@
 import { useId, useRef, useState, type ReactNode } from 'react';
-import { useOperator } from '../common/operator.js';
+import { useOperator } from './operator.js';
 
 type Write = (enteredBy: string) => void;
 
@@ -47,7 +47,7 @@ export function useInitialsGate(): {
     // A group rather than a form: it may sit inside the form whose write it holds.
     <div className="record-initials" role="alertdialog" aria-labelledby={`${id}-title`}>
       <p id={`${id}-title`} className="record-initials-title">
-        Who is entering this? Your initials are saved with every row.
+        Who is entering this? Your initials are saved with every record.
       </p>
       <label htmlFor={id}>Your initials</label>
       <input
