@@ -78,7 +78,7 @@ describe('keyboard only', () => {
       await expectArrivedAt(page, /Anaesthetic plans/);
       await tabTo(page, /^worksheet$/);
       await page.keyboard.press('Enter');
-      await expectArrivedAt(page, /Pre-procedure anaesthetic worksheet/);
+      await expectArrivedAt(page, /Anaesthetic worksheet: prep-room summary/);
 
       // A procedure row, and Escape out of the drug form back to its button.
       const record = await callBridge<{ id: number }>(page, 'procedures:create', {

@@ -90,7 +90,7 @@ describe('entry that catches slips, in headless Chromium', () => {
   it('logs events at the typed time, repeats the last row on F4, and ends the procedure at the time asked for', async () => {
     const page = await session.browser.newPage({ viewport: { width: 1366, height: 800 } });
     try {
-      await completeFirstRun(page, session.host.url);
+      await completeFirstRun(page, await session.host.nextUrl());
       const pip = await bridge<{ id: number }>(page, 'patients:create', {
         values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male' },
         meta: { enteredBy: 'RW' },
