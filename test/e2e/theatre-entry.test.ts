@@ -1,13 +1,16 @@
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { checkScreen } from './accessibility.js';
 import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-theatre-');
 const shots = ensureScreenshotFolder();
 
-async function shoot(page: Page, name: string) {
+async function shoot(page: Page, name: string, accessibility = true) {
   await page.screenshot({ path: path.join(shots, `4x-theatre-${name}.png`), fullPage: true });
+  // axe-core in light and dim, and no sideways scroll at 200 % zoom, as on every other screen.
+  if (accessibility) await checkScreen(page, `theatre-${name}`);
 }
 
 async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T> {
@@ -194,7 +197,7 @@ describe('entry that catches slips, in headless Chromium', () => {
       await page.emulateMedia({ media: 'print' });
       await expect(page.locator('.printed-record').isVisible()).resolves.toBe(true);
       await expect(page.locator('.record-header').isVisible()).resolves.toBe(false);
-      await shoot(page, 'printed-record-in-window');
+      await shoot(page, 'printed-record-in-window', false);
       await page.emulateMedia({ media: 'screen' });
     } finally {
       await page.close();
