@@ -312,14 +312,12 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   // Exchange steps per minute that keep Q dt / V_blood and the fastest tissue's Qi dt / (lambda_i Vi)
   // at or below bodyStepBound (accuracy; the step itself is stable at any length).
   const stepsPerMin = Math.max(bloodFlow / bloodVolume, fastestTissueRate) / bodyStepBound;
-  const refinement = Math.max(1, Math.round(setup.substepRefinement ?? 1));
   const freshFlow = delivery.freshGasMlMin;
   const mixed = delivery.source === 'mixed';
   const mixedVolume = delivery.mixedVolumeMl;
   const mask = delivery.interface === 'mask';
   const tube = delivery.interface === 'airSacTube';
   const maskVolume = Math.max(delivery.maskDeadSpaceMl, 1e-9);
-  const rebreathingMultiple = delivery.rebreathingFlowMultiple;
   const mac = setup.macPct / 100;
   const ippv = ventilation.ippv;
   const ippvFrom = ippv === null ? Number.POSITIVE_INFINITY : ippv.fromMin;
@@ -337,8 +335,6 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let maskGas = initial;
   let lastExhaled = initial;
   const state = new Float64Array(bodyState.length);
-  const inspiratoryFactors = new Float64Array(bodyExchangeFactorLength);
-  const expiratoryFactors = new Float64Array(bodyExchangeFactorLength);
   let prefix = new Float64Array(17);
 
   let deliveredToBird = 0;
@@ -364,19 +360,11 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let sampled = 0;
   let nextSample = 0;
 
-  const levels = setup.milestoneBrainPct ?? [];
-  const levelCount = levels.length;
-  const crossings: (number | null)[] = levels.map(() => null);
-  let inductionMin: number | null = null;
-  let recoveryMin: number | null = null;
-  let peakBrain = 0;
+  const offMin = setup.offMin;
+  const milestones = newBrainMilestones(setup);
   let peakInspired = 0;
   let lowestVentilation = 1;
   let atOff: { tidalVolumeMl: number; breathsPerMin: number } | null = null;
-  let mixedAtInduction = -1;
-  const inductionLevel = setup.inductionBrainPct / 100;
-  const recoveryLevel = setup.recoveryBrainPct / 100;
-  const offMin = setup.offMin;
   const observer = setup.onPhase;
   const snapshot: PhaseSnapshot = {
     phase: 'inspiration',
@@ -397,18 +385,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   };
   let stopRequested = false;
 
-  // Factors cached while the breath stays the same.
-  let cachedTidal = -1;
-  let cachedRate = -1;
-  let substeps = 1;
-  let phaseMin = 0;
-  let tubePerPhase = 0;
-  let inspiratoryLungFlow = 0;
-  let expiratoryLungFlow = 0;
-  let freshDecay = 1;
-  let maskDecay = 1;
-  let freshShare = 1;
-  let entrained = 0;
+  // Factors kept while the breath stays the same.
+  const factors = newBreathFactors();
   let scheduleIndex = 0;
 
   let time = 0;
@@ -429,23 +407,23 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     }
     if (offMin !== null && atOff === null && time >= offMin)
       atOff = { tidalVolumeMl: tidal, breathsPerMin: rate };
-    if (tidal !== cachedTidal || rate !== cachedRate) {
-      cachedTidal = tidal;
-      cachedRate = rate;
-      phaseMin = 0.5 / rate;
-      tubePerPhase = tube ? freshFlow * phaseMin : 0;
-      substeps = refinement * Math.max(1, Math.ceil(phaseMin * stepsPerMin - 1e-9));
-      if (prefix.length < substeps + 1) prefix = new Float64Array(substeps + 1);
-      const stepMin = phaseMin / substeps;
-      inspiratoryLungFlow = aShare * tidal + tubePerPhase;
-      expiratoryLungFlow = pShare * tidal + tubePerPhase;
-      bodyExchangeFactors(body, inspiratoryLungFlow / substeps, stepMin, inspiratoryFactors);
-      bodyExchangeFactors(body, expiratoryLungFlow / substeps, stepMin, expiratoryFactors);
-      freshDecay = mixed ? Math.exp((-freshFlow * phaseMin) / mixedVolume) : 1;
-      maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / maskVolume) : 1;
-      freshShare = Math.min(1, freshFlow / (rebreathingMultiple * tidal * rate));
-      entrained = mask ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
+    if (tidal !== factors.tidalMl || rate !== factors.breathsPerMin) {
+      setBreathFactors(factors, setup, tidal, rate, stepsPerMin);
+      if (prefix.length < factors.substeps + 1) prefix = new Float64Array(factors.substeps + 1);
     }
+    const {
+      substeps,
+      phaseMin,
+      tubePerPhase,
+      inspiratoryLungFlow,
+      expiratoryLungFlow,
+      freshDecay,
+      maskDecay,
+      freshShare,
+      entrained,
+      inspiratory: inspiratoryFactors,
+      expiratory: expiratoryFactors,
+    } = factors;
     while (scheduleIndex + 1 < schedule.length && (schedule[scheduleIndex + 1] as ScheduleStep).atMin <= time)
       scheduleIndex += 1;
     const currentStep = schedule[scheduleIndex];
@@ -597,40 +575,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       if (observer(snapshot) === true) stopRequested = true;
     }
 
-    const brain = state[1] as number;
-    const breathStart = time - 2 * phaseMin;
-    if (brain / mac > peakBrain) peakBrain = brain / mac;
-    if (inductionMin === null && brain >= inductionLevel && inductionLevel > 0) {
-      inductionMin = interpolateCrossing(breathStart, brainBefore, time, brain, inductionLevel);
-      mixedAtInduction = mixedGas;
-    }
-    // Recovery is timed only for a brain that was at or above the level (a bird never that deep has none).
-    if (
-      offMin !== null &&
-      recoveryMin === null &&
-      time >= offMin &&
-      brain < recoveryLevel &&
-      peakBrain * mac >= recoveryLevel
-    ) {
-      const crossing =
-        brainBefore >= recoveryLevel
-          ? interpolateCrossing(breathStart, brainBefore, time, brain, recoveryLevel)
-          : time;
-      recoveryMin = Math.max(0, crossing - offMin);
-    }
-    for (let index = 0; index < levelCount; index += 1) {
-      if (crossings[index] !== null) continue;
-      const level = levels[index] as MilestoneLevel;
-      const at = level.brainPct / 100;
-      if (level.direction === 'up') {
-        if (brain >= at && at > 0)
-          crossings[index] = interpolateCrossing(breathStart, brainBefore, time, brain, at);
-      } else if (offMin !== null && time >= offMin && brain < at && peakBrain * mac >= at) {
-        const crossing =
-          brainBefore >= at ? interpolateCrossing(breathStart, brainBefore, time, brain, at) : time;
-        crossings[index] = Math.max(0, crossing - offMin);
-      }
-    }
+    trackBrainMilestones(milestones, time - 2 * phaseMin, time, brainBefore, state[1] as number, mixedGas);
     while (sampled < sampleCount && time >= nextSample - 1e-9) {
       recordSample(timeline, nextSample, delivered, trachea, posterior, lung, anterior, state);
       sampled += 1;
@@ -646,10 +591,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     trachea * deadSpace + posterior * posteriorVolume + lung * lungVolume + anterior * anteriorVolume;
   return {
     timeline,
-    inductionMin,
-    recoveryMin: offMin === null ? null : recoveryMin,
-    milestoneMin: crossings,
-    peakBrainMacMultiple: peakBrain,
+    inductionMin: milestones.inductionMin,
+    recoveryMin: offMin === null ? null : milestones.recoveryMin,
+    milestoneMin: milestones.crossings,
+    peakBrainMacMultiple: milestones.peakBrainMac,
     peakInspiredPct: peakInspired * 100,
     lowestVentilationFraction: lowestVentilation,
     breaths: breath,
@@ -662,8 +607,163 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       vaporiserOutputMl: vaporiserOutput,
     },
     atOff,
-    mixedPctAtInduction: (mixedAtInduction >= 0 ? mixedAtInduction : mixedGas) * 100,
+    mixedPctAtInduction: (milestones.mixedAtInduction >= 0 ? milestones.mixedAtInduction : mixedGas) * 100,
   };
+}
+
+/**
+ * What changes only when the breath does (tidal volume or rate): phase length, exchange
+ * sub-steps and their body factors, the circuit's decays and shares. Kept in one object that the
+ * run updates in place, so a steady breath costs nothing.
+ */
+type BreathFactors = {
+  tidalMl: number;
+  breathsPerMin: number;
+  phaseMin: number;
+  substeps: number;
+  tubePerPhase: number;
+  inspiratoryLungFlow: number;
+  expiratoryLungFlow: number;
+  freshDecay: number;
+  maskDecay: number;
+  freshShare: number;
+  entrained: number;
+  readonly inspiratory: Float64Array;
+  readonly expiratory: Float64Array;
+};
+
+function newBreathFactors(): BreathFactors {
+  return {
+    tidalMl: -1,
+    breathsPerMin: -1,
+    phaseMin: 0,
+    substeps: 1,
+    tubePerPhase: 0,
+    inspiratoryLungFlow: 0,
+    expiratoryLungFlow: 0,
+    freshDecay: 1,
+    maskDecay: 1,
+    freshShare: 1,
+    entrained: 0,
+    inspiratory: new Float64Array(bodyExchangeFactorLength),
+    expiratory: new Float64Array(bodyExchangeFactorLength),
+  };
+}
+
+/**
+ * Recomputes `factors` for a breath of `tidal` mL at `rate` /min, with at least `stepsPerMin`
+ * exchange steps per minute (the accuracy bound) times the setup's sub-step refinement.
+ */
+function setBreathFactors(
+  factors: BreathFactors,
+  setup: SimulationSetup,
+  tidal: number,
+  rate: number,
+  stepsPerMin: number,
+): void {
+  const { delivery, body, gasPath } = setup;
+  const freshFlow = delivery.freshGasMlMin;
+  const phaseMin = 0.5 / rate;
+  const refinement = Math.max(1, Math.round(setup.substepRefinement ?? 1));
+  const substeps = refinement * Math.max(1, Math.ceil(phaseMin * stepsPerMin - 1e-9));
+  const tubePerPhase = delivery.interface === 'airSacTube' ? freshFlow * phaseMin : 0;
+  const stepMin = phaseMin / substeps;
+  factors.tidalMl = tidal;
+  factors.breathsPerMin = rate;
+  factors.phaseMin = phaseMin;
+  factors.substeps = substeps;
+  factors.tubePerPhase = tubePerPhase;
+  factors.inspiratoryLungFlow = (1 - gasPath.posteriorShare) * tidal + tubePerPhase;
+  factors.expiratoryLungFlow = gasPath.posteriorShare * tidal + tubePerPhase;
+  bodyExchangeFactors(body, factors.inspiratoryLungFlow / substeps, stepMin, factors.inspiratory);
+  bodyExchangeFactors(body, factors.expiratoryLungFlow / substeps, stepMin, factors.expiratory);
+  const mask = delivery.interface === 'mask';
+  factors.freshDecay =
+    delivery.source === 'mixed' ? Math.exp((-freshFlow * phaseMin) / delivery.mixedVolumeMl) : 1;
+  factors.maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / Math.max(delivery.maskDeadSpaceMl, 1e-9)) : 1;
+  factors.freshShare = Math.min(1, freshFlow / (delivery.rebreathingFlowMultiple * tidal * rate));
+  factors.entrained = mask ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
+}
+
+/** The brain's crossings of the milestone levels, followed breath by breath. */
+type BrainMilestones = {
+  readonly mac: number;
+  readonly inductionLevel: number;
+  readonly recoveryLevel: number;
+  readonly offMin: number | null;
+  readonly levels: readonly MilestoneLevel[];
+  readonly crossings: (number | null)[];
+  inductionMin: number | null;
+  recoveryMin: number | null;
+  /** Deepest brain level so far, multiple of MAC. */
+  peakBrainMac: number;
+  /** Chamber or circle fraction when induction was reached; -1 before. */
+  mixedAtInduction: number;
+};
+
+function newBrainMilestones(setup: SimulationSetup): BrainMilestones {
+  const levels = setup.milestoneBrainPct ?? [];
+  return {
+    mac: setup.macPct / 100,
+    inductionLevel: setup.inductionBrainPct / 100,
+    recoveryLevel: setup.recoveryBrainPct / 100,
+    offMin: setup.offMin,
+    levels,
+    crossings: levels.map(() => null),
+    inductionMin: null,
+    recoveryMin: null,
+    peakBrainMac: 0,
+    mixedAtInduction: -1,
+  };
+}
+
+/**
+ * After a breath from `breathStart` to `time` (min) that took the brain from `brainBefore` to
+ * `brain` (fractions): records the peak and every level crossed, interpolated within the breath.
+ * Recovery levels count only after the vaporiser is off and for a brain that was that deep.
+ */
+function trackBrainMilestones(
+  tracker: BrainMilestones,
+  breathStart: number,
+  time: number,
+  brainBefore: number,
+  brain: number,
+  mixedGas: number,
+): void {
+  const { mac, inductionLevel, recoveryLevel, offMin } = tracker;
+  if (brain / mac > tracker.peakBrainMac) tracker.peakBrainMac = brain / mac;
+  const peak = tracker.peakBrainMac * mac;
+  if (tracker.inductionMin === null && brain >= inductionLevel && inductionLevel > 0) {
+    tracker.inductionMin = interpolateCrossing(breathStart, brainBefore, time, brain, inductionLevel);
+    tracker.mixedAtInduction = mixedGas;
+  }
+  if (
+    offMin !== null &&
+    tracker.recoveryMin === null &&
+    time >= offMin &&
+    brain < recoveryLevel &&
+    peak >= recoveryLevel
+  ) {
+    const crossing =
+      brainBefore >= recoveryLevel
+        ? interpolateCrossing(breathStart, brainBefore, time, brain, recoveryLevel)
+        : time;
+    tracker.recoveryMin = Math.max(0, crossing - offMin);
+  }
+  const { levels, crossings } = tracker;
+  for (let index = 0; index < levels.length; index += 1) {
+    if (crossings[index] !== null) continue;
+    const level = levels[index] as MilestoneLevel;
+    const at = level.brainPct / 100;
+    if (level.direction === 'up') {
+      if (brain >= at && at > 0)
+        crossings[index] = interpolateCrossing(breathStart, brainBefore, time, brain, at);
+    } else if (offMin !== null && time >= offMin && brain < at && peak >= at) {
+      const crossing =
+        brainBefore >= at ? interpolateCrossing(breathStart, brainBefore, time, brain, at) : time;
+      crossings[index] = Math.max(0, crossing - offMin);
+    }
+  }
 }
 
 /**
