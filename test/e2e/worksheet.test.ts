@@ -242,18 +242,29 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     expect(shown).toContain('0.013 mL');
     const induction = squash(
       await page
-        .getByRole('row', { name: /Predicted induction/ })
+        .getByRole('row', { name: /^Planned surgical depth/ })
         .locator('td')
         .innerText(),
     );
     const recovery = squash(
       await page
-        .getByRole('row', { name: /Predicted recovery/ })
+        .getByRole('row', { name: /^First movement or head lift/ })
         .locator('td')
         .innerText(),
     );
-    expect(induction).toMatch(/^\d+(\.\d+)? min/);
-    expect(recovery).toMatch(/^\d+(\.\d+)? min/);
+    expect(induction).toMatch(/^\d+(\.\d+)? min from start/);
+    expect(recovery).toMatch(/^\d+(\.\d+)? min after vaporiser off/);
+    // All four clinical milestones are printed, each with a footnote giving its definition
+    // (thresholds as the model states them, app/core/model/parameters.ts).
+    for (const name of [/^Loss of righting/, /^Standing or perching/])
+      await expect(page.getByRole('row', { name }).count()).resolves.toBe(1);
+    const definitions = page.getByRole('list', { name: 'What each predicted milestone means' });
+    await expect(definitions.getByRole('listitem').allInnerTexts()).resolves.toEqual([
+      'Loss of righting: brain reaches 0.6 x MAC (assumption)',
+      "Planned surgical depth: brain reaches 1.2 x MAC (the plan's depth)",
+      'First movement or head lift: brain below 0.4 x MAC after the vaporiser is off (assumption)',
+      'Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
+    ]);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-screen.png'), fullPage: true });
     // Print media at about the printable width of A4 (186 mm): no shell, no buttons.
     await page.setViewportSize({ width: 720, height: 1000 });
@@ -273,6 +284,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       '32 g',
       induction,
       recovery,
+      'Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
       'NIOSH 1977',
       'Clinic drug A',
       '0.016-0.032 mL',
