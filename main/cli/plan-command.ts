@@ -6,6 +6,7 @@
  * unless `--allow-unknown-species` is given.
  */
 import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
+import { clinicalMilestoneLines } from '../../app/core/clinical-milestones.js';
 import { computePlan } from '../../app/core/model/compute-plan.js';
 import type { PlanResult } from '../../app/core/model/plan-types.js';
 import { speciesReference } from '../../app/core/species-reference.js';
@@ -116,10 +117,6 @@ function minutes(value: number | null): string {
   return value === null ? 'not reached' : `${value.toFixed(1)} min`;
 }
 
-function band(value: { p5: number; p50: number; p95: number } | null): string {
-  return value === null ? '' : `  (p5-p95 ${value.p5.toFixed(1)}-${value.p95.toFixed(1)} min)`;
-}
-
 /**
  * A short human-readable table of a computed plan.
  * @param result computed plan
@@ -127,6 +124,7 @@ function band(value: { p5: number; p50: number; p95: number } | null): string {
 export function formatPlanSummary(result: PlanResult): string {
   const e = result.estimates;
   const m = result.milestones;
+  const milestoneLines = clinicalMilestoneLines(result);
   const rows: [string, string][] = [
     [
       'Patient',
@@ -145,8 +143,16 @@ export function formatPlanSummary(result: PlanResult): string {
       'Heart rate / output',
       `${e.heartRatePerMin.value.toPrecision(3)} /min, ${e.cardiacOutputMlMin.value.toPrecision(3)} mL/min`,
     ],
-    ['Induction', `${minutes(m.inductionMin)}${band(result.uncertainty.inductionMin)}`],
-    ['Recovery after off', `${minutes(m.recoveryMin)}${band(result.uncertainty.recoveryMin)}`],
+    ...milestoneLines.map((line): [string, string] => {
+      const notes = [
+        ...(line.rangeText === null ? [] : [`p5-p95 ${line.rangeText}`]),
+        ...(line.note === null ? [] : [line.note]),
+      ];
+      return [
+        `${line.label}${line.from === 'vaporiser off' ? ' after off' : ''}`,
+        `${line.minutes === null ? line.minutesText : minutes(line.minutes)}${notes.length === 0 ? '' : `  (${notes.join('; ')})`}`,
+      ];
+    }),
     [
       'Air-sac wash-in 95 %',
       m.airSacWashin95Breaths === null
@@ -180,5 +186,7 @@ export function formatPlanSummary(result: PlanResult): string {
   const lines = rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`);
   // Caution messages may quote the input (an unknown species id, say).
   const cautions = result.cautions.map((caution) => `  [${caution.severity}] ${shown(caution.message)}`);
-  return `${lines.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
+  // Each milestone's definition, so a figure is never read without what it times.
+  const definitions = milestoneLines.map((line) => `  ${line.definition}`);
+  return `${lines.join('\n')}\nMilestones (brain level in the model):\n${definitions.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
 }

@@ -42,10 +42,36 @@ describe('tidewing plan', () => {
   it('prints a short table with --summary', async () => {
     const { code, stdout } = await run([example, '--summary']);
     expect(code).toBe(0);
-    expect(stdout).toContain('Induction');
-    expect(stdout).toContain('Recovery after off');
     expect(stdout).toContain('Air-sac wash-in 95 %');
     expect(() => JSON.parse(stdout)).toThrow();
+  });
+  it('prints each clinical milestone with its range, its not-reached note and its definition', async () => {
+    const { code, stdout } = await run([example, '--summary']);
+    expect(code).toBe(0);
+    const line = (label: string): string => stdout.split('\n').find((row) => row.startsWith(label)) ?? '';
+    // Four milestones, each a figure in minutes (or "not reached ...") with its 5-95 % range.
+    for (const label of [
+      'Loss of righting ',
+      'Planned surgical depth ',
+      'First movement or head lift after off ',
+      'Standing or perching after off ',
+    ]) {
+      expect(line(label)).toMatch(
+        / {2}(\d+(\.\d+)? min|not reached[^(]*) {2}\(p5-p95 [\d.]+-[\d.]+ min(; not reached by \d+ % of birds like this)?\)$/,
+      );
+    }
+    // The budgerigar example's planned depth is missed by a share of the sampled birds: the note says so.
+    expect(line('Planned surgical depth ')).toMatch(/not reached by \d+ % of birds like this/);
+    // Definitions as the model states them (app/core/model/parameters.ts; thresholds are assumptions).
+    expect(stdout).toContain('Milestones (brain level in the model):');
+    expect(stdout).toContain('  Loss of righting: brain reaches 0.6 x MAC (assumption)');
+    expect(stdout).toContain("  Planned surgical depth: brain reaches 1.2 x MAC (the plan's depth)");
+    expect(stdout).toContain(
+      '  First movement or head lift: brain below 0.4 x MAC after the vaporiser is off (assumption)',
+    );
+    expect(stdout).toContain(
+      '  Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
+    );
   });
   it('exits 2 on bad JSON with a message and nothing on standard output', async () => {
     const { code, stdout, stderr } = await run(['-'], '{ "bodyMassG": 32, ');

@@ -175,7 +175,12 @@ describe('tidewing worksheet', () => {
     expect(text).toContain('Heron Lane Bird Clinic');
     expect(text).toContain('Pip');
     expect(text).toContain('32 g');
-    expect(text).toMatch(/Predicted induction/);
+    // The four clinical milestones, with their definitions as footnotes (model thresholds).
+    expect(text).toMatch(/Planned surgical/);
+    expect(text).toMatch(/Loss of righting: brain reaches 0\.6 x MAC \(assumption\)/);
+    expect(text).toMatch(
+      /Standing or perching: brain below 0\.2 x MAC after the vaporiser is off \(assumption\)/,
+    );
     expect(text).toMatch(/NIOSH 1977/);
     expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
   }, 60_000);

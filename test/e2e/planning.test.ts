@@ -77,6 +77,23 @@ describe('planning from a patient in headless Chromium', () => {
       .getByText(/5th-95th percentile: \d/)
       .first()
       .waitFor({ timeout: 30_000 });
+    // The four clinical milestones, each with its definition on tap (thresholds as the model
+    // states them, app/core/model/parameters.ts).
+    for (const id of ['loss-of-righting-time', 'induction-time', 'recovery-time', 'standing-time'])
+      await expect(page.getByTestId(id).innerText()).resolves.toMatch(/^(\d+(\.\d+)? min|not reached)/);
+    const standing = page.getByTestId('standing-time');
+    await standing.getByText('What this milestone means').click();
+    await expect(
+      standing
+        .getByText('Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)')
+        .isVisible(),
+    ).resolves.toBe(true);
+    await expect(
+      page
+        .getByRole('term')
+        .filter({ hasText: /^Loss of righting$/ })
+        .getAttribute('title'),
+    ).resolves.toBe('Loss of righting: brain reaches 0.6 x MAC (assumption)');
     const chart = page.locator('.plan-results canvas').first();
     await chart.waitFor();
     const before = await inductionText(page);

@@ -264,6 +264,34 @@ describe('pre-procedure worksheet in headless Chromium', () => {
     const recovery = await timeText(/Predicted recovery/);
     expect(induction).toMatch(/^\d+(\.\d+)? min/);
     expect(recovery).toMatch(/^\d+(\.\d+)? min/);
+    const surgicalDepth = squash(
+      await page
+        .getByRole('row', { name: /^Planned surgical depth/ })
+        .locator('td')
+        .innerText(),
+    );
+    const firstMovement = squash(
+      await page
+        .getByRole('row', { name: /^First movement or head lift/ })
+        .locator('td')
+        .innerText(),
+    );
+    expect(surgicalDepth).toMatch(/^\d+(\.\d+)? min from start/);
+    expect(firstMovement).toMatch(/^\d+(\.\d+)? min after vaporiser off/);
+    // The summary's times are the same milestones.
+    expect(surgicalDepth.startsWith(induction.split(' ')[0] ?? '')).toBe(true);
+    expect(firstMovement.startsWith(recovery.split(' ')[0] ?? '')).toBe(true);
+    // All four clinical milestones are printed, each with a footnote giving its definition
+    // (thresholds as the model states them, app/core/model/parameters.ts).
+    for (const name of [/^Loss of righting/, /^Standing or perching/])
+      await expect(page.getByRole('row', { name }).count()).resolves.toBe(1);
+    const definitions = page.getByRole('list', { name: 'What each predicted milestone means' });
+    await expect(definitions.getByRole('listitem').allInnerTexts()).resolves.toEqual([
+      'Loss of righting: brain reaches 0.6 x MAC (assumption)',
+      "Planned surgical depth: brain reaches 1.2 x MAC (the plan's depth)",
+      'First movement or head lift: brain below 0.4 x MAC after the vaporiser is off (assumption)',
+      'Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
+    ]);
     await page.screenshot({ path: path.join(shots, '3x-worksheet-screen.png'), fullPage: true });
     await checkScreen(page, '3x-worksheet-screen');
     // Print media at about the printable width of A4 (186 mm): no shell, no buttons.
@@ -284,6 +312,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       '32 g',
       induction,
       recovery,
+      'Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
       'NIOSH 1977',
       'Clinic drug A',
       '0.016-0.032 mL',
@@ -318,7 +347,7 @@ describe('pre-procedure worksheet in headless Chromium', () => {
       const where = `page ${String(index + 1)}`;
       expect(text, where).toContain(`page ${String(index + 1)} of ${String(a4.pageCount)}`);
       expect(text, where).toContain('Heron Lane Bird Clinic · Pip (ring HL-24-117)');
-      expect(text, where).toContain(`2026-12-02 · plan ${String(saved.id)} version`);
+      expect(text, where).toContain(`${daysFromToday(0)} · plan ${String(saved.id)} version`);
     });
     // The monitoring grid comes last.
     expect(a4.pages.at(-1)).toContain('Time (min)');

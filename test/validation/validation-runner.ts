@@ -6,6 +6,12 @@
 import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
 import { computePlan } from '../../app/core/model/compute-plan.js';
 import type { PlanResult } from '../../app/core/model/plan-types.js';
+import {
+  defaultRecoveryMacFraction,
+  defaultTargetMacMultiple,
+  lossOfRightingMacFraction,
+  standingMacFraction,
+} from '../../app/core/model/parameters.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import type { EndpointKind, PublishedObservation, ValidationSplit } from './published-observations.js';
 
@@ -16,44 +22,48 @@ export const targetRatioFactor = 1.5;
 export const validationRecoveryWindowMin = 120;
 
 /**
- * Which model milestone stands for each published endpoint. THE ONE PLACE to change when the
- * model gains milestones with stated definitions (loss of righting, first movement, standing):
- * `today` is what the result offers now, `onceAvailable` is the milestone the endpoint should
- * map to (docs/validation.md keeps the same table).
+ * Which model milestone stands for each published endpoint: THE ONE PLACE where a published
+ * endpoint is tied to a milestone (docs/validation.md keeps the same table, with the reasons).
+ * Chosen from the endpoint text recorded in the table, never from the ratios; no threshold is
+ * fitted: each milestone keeps the level the model states (app/core/model/parameters.ts).
  */
 export const endpointMilestones: Readonly<
   Record<
     EndpointKind,
     {
-      readonly today: (result: PlanResult) => number | null;
-      readonly todayName: string;
-      readonly onceAvailable: string;
+      readonly milestone: (result: PlanResult) => number | null;
+      readonly milestoneName: string;
+      /** Why this milestone describes the endpoint. */
+      readonly reason: string;
       readonly phase: 'induction' | 'recovery';
     }
   >
 > = {
   inductionUnspecified: {
-    today: (result) => result.milestones.inductionMin,
-    todayName: 'milestones.inductionMin (brain reaches the target MAC multiple)',
-    onceAvailable: 'loss of righting (light-plane proxy)',
+    milestone: (result) => result.milestones.lossOfRightingMin,
+    milestoneName: `milestones.lossOfRightingMin (brain rises through ${String(lossOfRightingMacFraction.value)} x MAC)`,
+    reason:
+      'an undefined "induction time" after mask induction is when the bird stops righting itself and can be handled, a light plane',
     phase: 'induction',
   },
   intubation: {
-    today: (result) => result.milestones.inductionMin,
-    todayName: 'milestones.inductionMin (brain reaches the target MAC multiple)',
-    onceAvailable: 'loss of righting; intubation is possible from about that plane',
+    milestone: (result) => result.milestones.surgicalDepthMin,
+    milestoneName: `milestones.surgicalDepthMin (brain reaches the planned depth, ${String(defaultTargetMacMultiple.value)} x MAC)`,
+    reason:
+      'a bird tolerates the tube only once the glottis and swallowing responses are gone, deeper than loss of righting; the planned depth is the model milestone at or beyond that plane',
     phase: 'induction',
   },
   recoveryUnspecified: {
-    today: (result) => result.milestones.recoveryMin,
-    todayName: 'milestones.recoveryMin (brain below the recovery fraction of MAC after the vaporiser is off)',
-    onceAvailable: 'standing or perching',
+    milestone: (result) => result.milestones.standingMin,
+    milestoneName: `milestones.standingMin (brain falls below ${String(standingMacFraction.value)} x MAC after the vaporiser is off)`,
+    reason:
+      'an undefined "recovery time" is when the bird stands or perches on its own, the end of the observed recovery',
     phase: 'recovery',
   },
   firstMovement: {
-    today: (result) => result.milestones.recoveryMin,
-    todayName: 'milestones.recoveryMin (brain below the recovery fraction of MAC after the vaporiser is off)',
-    onceAvailable: 'first movement / head lift',
+    milestone: (result) => result.milestones.firstMovementMin,
+    milestoneName: `milestones.firstMovementMin (brain falls below ${String(defaultRecoveryMacFraction.value)} x MAC after the vaporiser is off)`,
+    reason: 'the first reflex or movement to return is the first-movement milestone itself',
     phase: 'recovery',
   },
 };
@@ -120,12 +130,12 @@ export function runObservation(
   }
   const result = computePlan(parsed.data, { species: speciesReference });
   const mapping = endpointMilestones[row.endpoint];
-  const predictedMin = mapping.today(result);
+  const predictedMin = mapping.milestone(result);
   const ratio = predictedMin === null ? null : predictedMin / row.observedMin;
   return {
     row,
     phase: mapping.phase,
-    milestone: mapping.todayName,
+    milestone: mapping.milestoneName,
     predictedMin,
     ratio,
     withinTarget: ratio !== null && ratio <= targetRatioFactor && ratio >= 1 / targetRatioFactor,

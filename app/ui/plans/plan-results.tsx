@@ -1,8 +1,9 @@
 import { memo, useState, type ReactNode } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
+import { clinicalMilestoneLines, type ClinicalMilestoneLine } from '../../core/clinical-milestones.js';
 import { plainBasis } from '../common/display.js';
 import { EstimateList } from './estimate-list.js';
-import { figure, minutes, range, wasteGasSourceLabel } from './format.js';
+import { figure, minutes, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
 
 type Props = {
@@ -26,6 +27,14 @@ const Section = memo(
   },
   (previous, next) => sameContent(previous.content, next.content),
 );
+
+/** Test ids of the milestone figures; planned depth and first movement keep their earlier ids. */
+const milestoneTestIds: Readonly<Record<ClinicalMilestoneLine['id'], string>> = {
+  lossOfRighting: 'loss-of-righting-time',
+  surgicalDepth: 'induction-time',
+  firstMovement: 'recovery-time',
+  standing: 'standing-time',
+};
 
 /** Cautions, ordered danger first; always the first thing in the results. */
 export function CautionList({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
@@ -81,29 +90,27 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           Predicted times {pending && <span className="computing">updating…</span>}
         </h2>
         <dl className="milestones">
-          <div>
-            <dt>Time to planned depth ({result.targetMacMultiple} × MAC)</dt>
-            <dd data-testid="induction-time">
-              {minutes(milestones.inductionMin)}
-              <span className="basis">
-                5th-95th percentile:{' '}
-                {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.inductionMin)}
-              </span>
-            </dd>
-          </div>
-          <div>
-            <dt>Recovery after vaporiser off (below {result.recoveryMacFraction.value} × MAC)</dt>
-            <dd data-testid="recovery-time">
-              {minutes(
-                milestones.recoveryMin,
-                milestones.vaporiserOffMin === null ? 'vaporiser never turned off' : 'not within the window',
-              )}
-              <span className="basis">
-                5th-95th percentile:{' '}
-                {uncertainty.samples === 0 ? 'computing…' : range(uncertainty.recoveryMin)}
-              </span>
-            </dd>
-          </div>
+          {clinicalMilestoneLines(result).map((line) => (
+            <div key={line.id}>
+              {/* The definition shows on hover (title) and on tap (the disclosure below). */}
+              <dt title={line.definition}>
+                {line.label}
+                {line.from === 'vaporiser off' ? ' (after vaporiser off)' : ''}
+              </dt>
+              <dd data-testid={milestoneTestIds[line.id]}>
+                {minutes(line.minutes, line.minutesText)}
+                <span className="basis">
+                  5th-95th percentile:{' '}
+                  {uncertainty.samples === 0 ? 'computing…' : (line.rangeText ?? 'range not available')}
+                  {line.note === null ? '' : ` · ${line.note}`}
+                </span>
+                <details className="milestone-definition">
+                  <summary>What this milestone means</summary>
+                  {line.definition}
+                </details>
+              </dd>
+            </div>
+          ))}
           <div>
             <dt>Air sacs at 95 % of inspired</dt>
             <dd>

@@ -1,8 +1,30 @@
 import type { PlanResult } from '../../contract/plan.js';
-import { minutesText, minutesWithRangeText } from '../../core/worksheet.js';
+import { clinicalMilestoneLines, type ClinicalMilestoneLine } from '../../core/clinical-milestones.js';
+import { minutesText } from '../../core/worksheet.js';
 import { figure } from './labels.js';
 import { Row } from './sheet-row.js';
 import { WorksheetChart } from './worksheet-chart.js';
+
+/**
+ * One predicted milestone: minutes, 5-95 % range and not-reached note, with a footnote mark that
+ * points at its definition under the table (on paper) and the definition on hover (on screen).
+ */
+function MilestoneRow({ line, mark }: { readonly line: ClinicalMilestoneLine; readonly mark: number }) {
+  return (
+    <tr data-milestone={line.id}>
+      <th scope="row" title={line.definition}>
+        {line.label}
+        <sup aria-hidden="true">{mark}</sup>
+      </th>
+      <td>
+        <strong>{line.minutesText}</strong>
+        {line.minutes === null ? '' : line.from === 'start' ? ' from start' : ' after vaporiser off'}
+        {line.rangeText === null ? '' : ` (5-95 % range ${line.rangeText})`}
+        {line.note === null ? '' : `; ${line.note}`}
+      </td>
+    </tr>
+  );
+}
 
 /** The predicted course: the chart (which reports when drawn) and the milestones with their ranges. */
 export function PredictionSection({
@@ -12,27 +34,28 @@ export function PredictionSection({
   readonly result: PlanResult;
   readonly onDrawn: () => void;
 }) {
+  const lines = clinicalMilestoneLines(result);
   return (
     <section className="ws-section" aria-labelledby="ws-prediction">
       <h2 id="ws-prediction">Predicted course</h2>
       <WorksheetChart result={result} onDrawn={onDrawn} />
       <table className="ws-facts ws-milestones">
         <tbody>
-          <Row label="Predicted induction (time to planned depth)">
-            <strong>
-              {minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}
-            </strong>
-          </Row>
+          {lines
+            .filter((line) => line.from === 'start')
+            .map((line) => (
+              <MilestoneRow key={line.id} line={line} mark={lines.indexOf(line) + 1} />
+            ))}
           <Row label="Vaporiser off">
             {result.milestones.vaporiserOffMin === null
               ? 'not in the schedule'
               : `at ${figure(result.milestones.vaporiserOffMin)} min`}
           </Row>
-          <Row label="Predicted recovery (after vaporiser off)">
-            <strong>
-              {minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}
-            </strong>
-          </Row>
+          {lines
+            .filter((line) => line.from === 'vaporiser off')
+            .map((line) => (
+              <MilestoneRow key={line.id} line={line} mark={lines.indexOf(line) + 1} />
+            ))}
           <Row label="Air sacs 95 % washed in">
             {result.milestones.airSacWashin95Breaths === null
               ? 'not reached'
@@ -51,6 +74,11 @@ export function PredictionSection({
           </Row>
         </tbody>
       </table>
+      <ol className="ws-basis ws-milestone-definitions" aria-label="What each predicted milestone means">
+        {lines.map((line) => (
+          <li key={line.id}>{line.definition}</li>
+        ))}
+      </ol>
       <p className="ws-basis">
         {result.milestones.basis} Ranges are the 5th to 95th percentiles of {result.uncertainty.samples} model
         runs with sampled parameters ({result.uncertainty.method}).
