@@ -315,7 +315,9 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
   let overdueTimer: NodeJS.Timeout | undefined;
   // Interrupted (Ctrl+C, a closed terminal, a kill): Chromium leads its own process group, so
   // it does not get the signal; stop it and remove its profile, then let the signal take effect.
+  let interrupted = false;
   const onSignal = (signal: NodeJS.Signals): void => {
+    interrupted = true;
     for (const name of interruptions) process.removeListener(name, onSignal);
     void stopBrowser(child)
       .then(() => fs.rmSync(profile, { recursive: true, force: true, maxRetries: 3 }))
@@ -366,6 +368,10 @@ export async function printPageToPdf(job: PdfJob): Promise<Buffer> {
     });
     return await Promise.race([working, failedToStart, aborted, overdue]);
   } catch (error) {
+    // Interrupted: the job fails because its browser was stopped, but the process is about to end
+    // by the signal once the profile is removed; settling here would let the caller end it first,
+    // with another exit.
+    if (interrupted) return await new Promise<never>(() => undefined);
     // A broken pipe is usually Chromium exiting: name the exit, which says more, if it comes soon.
     if (!(error instanceof PageNotReadyError) && job.signal?.aborted !== true) {
       const exit = await Promise.race([
