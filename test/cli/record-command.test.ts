@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
+import { needBuilt, needChromium } from '../support/chromium.js';
 import { startBackEnd } from '../../main/back-end/back-end.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { runRecordCommand } from '../../main/cli/record-command.js';
@@ -12,11 +13,11 @@ const cleanups: (() => void)[] = [];
 afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 
 const root = findProjectRoot();
-const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
-// On CI a missing Chromium or build must fail the print test, not skip it.
-const canRender =
-  process.env['CI'] !== undefined ||
-  (fs.existsSync(chromiumPath) && fs.existsSync(path.join(root, 'build', 'renderer', 'print.html')));
+/** A missing Chromium or build fails the print tests under CI and skips them otherwise. */
+function needRenderer(context: { skip: (note?: string) => never }): void {
+  needChromium(context);
+  needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
+}
 
 function captured() {
   const out: string[] = [];
@@ -145,61 +146,55 @@ describe('tidewing record', () => {
     expect(fs.existsSync(out)).toBe(false);
   });
 
-  it.runIf(canRender)(
-    'exits 1 and names the record when it is not in the database',
-    async () => {
-      const data = await dataWithRecord();
-      const run = captured();
-      const out = path.join(scratch(), 'record.pdf');
-      expect(
-        await runRecordCommand(
-          ['--id', String(data.recordId + 9), '--data', data.folder, '--out', out],
-          run.io,
-        ),
-      ).toBe(1);
-      expect(run.stderr()).toContain(`there is no procedure record ${data.recordId + 9}`);
-      expect(fs.existsSync(out)).toBe(false);
-    },
-    60_000,
-  );
+  it('exits 1 and names the record when it is not in the database', async (context) => {
+    needRenderer(context);
+    const data = await dataWithRecord();
+    const run = captured();
+    const out = path.join(scratch(), 'record.pdf');
+    expect(
+      await runRecordCommand(
+        ['--id', String(data.recordId + 9), '--data', data.folder, '--out', out],
+        run.io,
+      ),
+    ).toBe(1);
+    expect(run.stderr()).toContain(`there is no procedure record ${data.recordId + 9}`);
+    expect(fs.existsSync(out)).toBe(false);
+  }, 60_000);
 
-  it.runIf(canRender)(
-    'writes the record for the patient file: every page numbered and named, corrections shown as corrections, the plan beside the log',
-    async () => {
-      const data = await dataWithRecord();
-      const run = captured();
-      const out = path.join(scratch(), 'record.pdf');
-      expect(
-        await runRecordCommand(['--id', String(data.recordId), '--data', data.folder, '--out', out], run.io),
-      ).toBe(0);
-      expect(run.stdout()).toContain(`Wrote procedure record ${data.recordId} to ${out}`);
-      const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [out], { encoding: 'utf8' }))?.[1]);
-      expect(pages).toBeGreaterThanOrEqual(1);
-      for (let page = 1; page <= pages; page += 1) {
-        const text = execFileSync('pdftotext', ['-f', String(page), '-l', String(page), out, '-'], {
-          encoding: 'utf8',
-        }).replace(/\s+/g, ' ');
-        expect(text).toContain(`page ${page} of ${pages}`);
-        expect(text).toContain('Pip (ring HL-24-117)');
-      }
-      const text = execFileSync('pdftotext', [out, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
-      for (const expected of [
-        'Heron Lane Bird Clinic',
-        'Anaesthetic record',
-        'Beak trim',
-        'Drug given: Clinic drug B, 0.013 mL',
-        'Vaporiser off',
-        // The correction: the struck value, the new one, who and why.
-        'Corrected by JM',
-        'HR (/min) 360 → 312',
-        'Reason: “Misread the monitor”',
-        'First entered by RW',
-        'predicted beside logged',
-        'First movement: 3 min',
-      ])
-        expect(text, expected).toContain(expected);
-      expect(text).not.toContain('drugGiven');
-    },
-    60_000,
-  );
+  it('writes the record for the patient file: every page numbered and named, corrections shown as corrections, the plan beside the log', async (context) => {
+    needRenderer(context);
+    const data = await dataWithRecord();
+    const run = captured();
+    const out = path.join(scratch(), 'record.pdf');
+    expect(
+      await runRecordCommand(['--id', String(data.recordId), '--data', data.folder, '--out', out], run.io),
+    ).toBe(0);
+    expect(run.stdout()).toContain(`Wrote procedure record ${data.recordId} to ${out}`);
+    const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [out], { encoding: 'utf8' }))?.[1]);
+    expect(pages).toBeGreaterThanOrEqual(1);
+    for (let page = 1; page <= pages; page += 1) {
+      const text = execFileSync('pdftotext', ['-f', String(page), '-l', String(page), out, '-'], {
+        encoding: 'utf8',
+      }).replace(/\s+/g, ' ');
+      expect(text).toContain(`page ${page} of ${pages}`);
+      expect(text).toContain('Pip (ring HL-24-117)');
+    }
+    const text = execFileSync('pdftotext', [out, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    for (const expected of [
+      'Heron Lane Bird Clinic',
+      'Anaesthetic record',
+      'Beak trim',
+      'Drug given: Clinic drug B, 0.013 mL',
+      'Vaporiser off',
+      // The correction: the struck value, the new one, who and why.
+      'Corrected by JM',
+      'HR (/min) 360 → 312',
+      'Reason: “Misread the monitor”',
+      'First entered by RW',
+      'predicted beside logged',
+      'First movement: 3 min',
+    ])
+      expect(text, expected).toContain(expected);
+    expect(text).not.toContain('drugGiven');
+  }, 60_000);
 });
