@@ -6,7 +6,7 @@
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
 import { cautionSeverities } from '../core/cautions.js';
-import { circuits, routes } from '../core/delivery.js';
+import { circuits, routes, type Circuit, type Route } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
 import { hasLetterOrDigit, hiddenCharacterProblem } from './input-rules.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
@@ -75,6 +75,24 @@ export const scheduleStepSchema = strict(
     vaporPct: boundedNumber('dial setting', ' %', 0, 20),
   },
   'a vaporiser step',
+);
+
+/** Longest room-air gap a move between phases may take, min (a bird off the agent longer is a new induction). */
+export const maxPhaseGapMin = 10;
+
+export const phaseChangeSchema = strict(
+  {
+    startMin: boundedNumber('phase start', ' min', 0.1, 1440),
+    gapMin: boundedNumber('gap on room air', ' min', 0, maxPhaseGapMin).optional(),
+    route: routeSchema,
+    circuit: circuitSchema.optional(),
+    freshGasLpm: boundedNumber('fresh gas flow', ' L/min', 0.05, 20),
+    chamberVolumeL: boundedNumber('chamber volume', ' L', 0.1, 100).optional(),
+    maskDeadSpaceMl: boundedNumber('mask dead space', ' mL', 0, 500).optional(),
+    maskLeakFraction: boundedNumber('mask leak fraction', '', 0, 0.9).optional(),
+    circuitVolumeL: boundedNumber('circle volume', ' L', 0.1, 20).optional(),
+  },
+  'a later phase',
 );
 
 export const ventilationSchema = z.discriminatedUnion(
@@ -160,6 +178,10 @@ export const planInputSchema = strict(
       .array(scheduleStepSchema, { error: 'schedule must be a list of vaporiser steps' })
       .min(1, { error: 'schedule needs at least one vaporiser step' })
       .max(50, { error: 'schedule may have at most 50 steps' }),
+    laterPhases: z
+      .array(phaseChangeSchema, { error: 'later phases must be a list of phases' })
+      .max(5, { error: 'a plan may have at most 5 later phases' })
+      .optional(),
     ventilation: ventilationSchema.optional(),
     targetMacMultiple: boundedNumber('planned depth', ' x MAC', 0.5, 3).optional(),
     recoveryMacFraction: boundedNumber('recovery threshold', ' x MAC', 0.1, 0.95).optional(),
@@ -213,35 +235,46 @@ export const planInputSchema = strict(
       message: 'the last step plus the recovery window must end within 24 h (1440 min)',
     });
   }
-  if (plan.route === 'chamber' && plan.chamberVolumeL === undefined) {
-    context.addIssue({
-      code: 'custom',
-      path: ['chamberVolumeL'],
-      message: 'the chamber volume is needed for the chamber route',
-    });
-  }
-  const circuit = plan.circuit ?? 'nonRebreathing';
-  if (plan.route !== 'chamber' && circuit === 'circle' && plan.circuitVolumeL === undefined) {
-    context.addIssue({
-      code: 'custom',
-      path: ['circuitVolumeL'],
-      message: 'the circle volume (bag, hoses and absorber) is needed for a circle system',
-    });
-  }
-  if (plan.route === 'airSacTube' && circuit === 'circle') {
-    context.addIssue({
-      code: 'custom',
-      path: ['circuit'],
-      message: 'an air-sac tube is run from a non-rebreathing system in this model; choose nonRebreathing',
-    });
-  }
-  const ventilation = plan.ventilation;
-  if (ventilation?.mode === 'ippv') {
-    if (plan.route === 'chamber' || plan.route === 'mask') {
+  checkPhaseDelivery(plan, [], context);
+  const laterPhases = plan.laterPhases ?? [];
+  let previousStart = 0;
+  laterPhases.forEach((phase, index) => {
+    checkPhaseDelivery(phase, ['laterPhases', index], context);
+    if (phase.startMin <= previousStart) {
       context.addIssue({
         code: 'custom',
-        path: ['ventilation', 'mode'],
-        message: 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
+        path: ['laterPhases', index, 'startMin'],
+        message: `phases must be in time order: this phase (${String(phase.startMin)} min) does not start after the one before (${String(previousStart)} min)`,
+      });
+    }
+    if (last !== undefined && phase.startMin >= last.atMin + window) {
+      context.addIssue({
+        code: 'custom',
+        path: ['laterPhases', index, 'startMin'],
+        message: 'a phase must start before the end of the plan (the last step plus the recovery window)',
+      });
+    }
+    previousStart = phase.startMin;
+  });
+  const ventilation = plan.ventilation;
+  if (ventilation?.mode === 'ippv') {
+    const ippvFrom = ventilation.fromMin ?? 0;
+    const routeAtIppv = laterPhases.reduce<Route>(
+      (route, phase) => (phase.startMin + (phase.gapMin ?? 0) <= ippvFrom ? phase.route : route),
+      plan.route,
+    );
+    const laterTubeRoutes = laterPhases.filter(
+      (phase) =>
+        phase.startMin > ippvFrom && (phase.route === 'endotracheal' || phase.route === 'airSacTube'),
+    );
+    if (routeAtIppv === 'chamber' || routeAtIppv === 'mask') {
+      context.addIssue({
+        code: 'custom',
+        path: ['ventilation', laterTubeRoutes.length > 0 ? 'fromMin' : 'mode'],
+        message:
+          laterTubeRoutes.length > 0
+            ? `IPPV needs an endotracheal tube or an air-sac tube: start it once the tube phase is running (from ${String(laterTubeRoutes[0]?.startMin)} min plus the gap)`
+            : 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
       });
     }
     const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
@@ -290,21 +323,60 @@ export const planInputSchema = strict(
       }
     }
   }
-  if (plan.maskDeadSpaceMl !== undefined && plan.route !== 'mask') {
+});
+
+type PhaseDelivery = {
+  readonly route: Route;
+  readonly circuit?: Circuit | undefined;
+  readonly chamberVolumeL?: number | undefined;
+  readonly circuitVolumeL?: number | undefined;
+  readonly maskDeadSpaceMl?: number | undefined;
+  readonly maskLeakFraction?: number | undefined;
+};
+
+/** The checks that depend on a phase's route and breathing system (the plan's own fields are the first phase). */
+function checkPhaseDelivery(
+  phase: PhaseDelivery,
+  at: readonly (string | number)[],
+  context: z.RefinementCtx,
+) {
+  if (phase.route === 'chamber' && phase.chamberVolumeL === undefined) {
     context.addIssue({
       code: 'custom',
-      path: ['maskDeadSpaceMl'],
+      path: [...at, 'chamberVolumeL'],
+      message: 'the chamber volume is needed for the chamber route',
+    });
+  }
+  const circuit = phase.circuit ?? 'nonRebreathing';
+  if (phase.route !== 'chamber' && circuit === 'circle' && phase.circuitVolumeL === undefined) {
+    context.addIssue({
+      code: 'custom',
+      path: [...at, 'circuitVolumeL'],
+      message: 'the circle volume (bag, hoses and absorber) is needed for a circle system',
+    });
+  }
+  if (phase.route === 'airSacTube' && circuit === 'circle') {
+    context.addIssue({
+      code: 'custom',
+      path: [...at, 'circuit'],
+      message: 'an air-sac tube is run from a non-rebreathing system in this model; choose nonRebreathing',
+    });
+  }
+  if (phase.maskDeadSpaceMl !== undefined && phase.route !== 'mask') {
+    context.addIssue({
+      code: 'custom',
+      path: [...at, 'maskDeadSpaceMl'],
       message: 'mask dead space applies only to the mask route',
     });
   }
-  if (plan.maskLeakFraction !== undefined && plan.route !== 'mask') {
+  if (phase.maskLeakFraction !== undefined && phase.route !== 'mask') {
     context.addIssue({
       code: 'custom',
-      path: ['maskLeakFraction'],
+      path: [...at, 'maskLeakFraction'],
       message: 'mask leak applies only to the mask route',
     });
   }
-});
+}
 
 export type PlanInput = z.infer<typeof planInputSchema>;
 
@@ -332,6 +404,16 @@ function formatPath(path: readonly PropertyKey[]): string {
 const estimateSchema = z.object({ value: z.number(), basis: z.string() });
 const percentilesSchema = z.object({ p5: z.number(), p50: z.number(), p95: z.number() });
 const nullableNumber = z.number().nullable();
+const flowsSchema = z.object({
+  recommendedLpm: z.number(),
+  minimumLpm: z.number(),
+  rule: z.string(),
+  basis: z.string(),
+  rebreathing: z.boolean(),
+  rebreathingReason: z.string(),
+  chamberTimeTo95Min: nullableNumber,
+});
+const nonNegative = z.number().refine(Number.isFinite, { message: 'not a finite number' }).min(0);
 const milestoneIdSchema = z.enum(['lossOfRighting', 'surgicalDepth', 'firstMovement', 'standing']);
 // A partial pressure is finite and never negative: a model result with NaN, Infinity or a negative
 // level is refused rather than shown.
@@ -362,6 +444,25 @@ export const planResultSchema = z.object({
     heartRatePerMin: estimateSchema,
     cardiacOutputMlMin: estimateSchema,
   }),
+  // Snapshots saved before phases existed read back with none (the plan's own route is the one phase).
+  phases: z
+    .array(
+      z.object({
+        index: z.number().int().min(0),
+        startMin: nonNegative,
+        gapMin: nonNegative,
+        deliveryFromMin: nonNegative,
+        endMin: nonNegative,
+        route: routeSchema,
+        circuit: circuitSchema,
+        freshGasLpm: nonNegative,
+        dialSteps: z.array(z.object({ atMin: nonNegative, vaporPct: nonNegative })),
+        flows: flowsSchema,
+        oxygenUsedL: nonNegative,
+        liquidMl: nonNegative,
+      }),
+    )
+    .default([]),
   timeline: z.object({
     sampleIntervalMin: z.number(),
     timeMin: z.array(z.number()),
@@ -431,15 +532,7 @@ export const planResultSchema = z.object({
       )
       .default([]),
   }),
-  flows: z.object({
-    recommendedLpm: z.number(),
-    minimumLpm: z.number(),
-    rule: z.string(),
-    basis: z.string(),
-    rebreathing: z.boolean(),
-    rebreathingReason: z.string(),
-    chamberTimeTo95Min: nullableNumber,
-  }),
+  flows: flowsSchema,
   consumption: z.object({
     vapourMlPerLiquidMl: z.number(),
     liquidMl: z.number(),

@@ -2,6 +2,7 @@
  * The plan assembler: turns a validated plan into estimates, a simulated time course,
  * milestones, uncertainty bands, flows, budgets, waste gas and cautions.
  */
+import { resolvePlanPhases } from './phases.js';
 import { agents } from '../agents.js';
 import {
   vaporiserDialLimitPct,
@@ -490,6 +491,40 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     });
   }
 
+  const flows = {
+    recommendedLpm: recommendation.recommendedLpm,
+    minimumLpm: recommendation.minimumLpm,
+    rule: recommendation.rule,
+    basis: recommendation.basis,
+    rebreathing: rebreathing.rebreathing,
+    rebreathingReason: rebreathing.reason,
+    chamberTimeTo95Min: chamberTime,
+  };
+  const phases = resolvePlanPhases(input, endMin).map((phase) => ({
+    index: phase.index,
+    startMin: phase.startMin,
+    gapMin: phase.gapMin,
+    deliveryFromMin: phase.deliveryFromMin,
+    endMin: phase.endMin,
+    route: phase.route,
+    circuit: phase.circuit,
+    freshGasLpm: phase.freshGasLpm,
+    dialSteps: phase.dialSteps,
+    // Later phases' own flow rules, delivery in the simulation and waste-gas events: in progress.
+    flows,
+    oxygenUsedL: phase.freshGasLpm * (phase.endMin - phase.startMin),
+    liquidMl: liquidAgentMlForSchedule({
+      agent: input.agent,
+      schedule: phase.dialSteps.map((step) => ({
+        atMin: step.atMin - phase.startMin,
+        vaporPct: step.vaporPct,
+      })),
+      freshGasLpm: phase.freshGasLpm,
+      endMin: phase.endMin - phase.startMin,
+      temperatureC,
+    }),
+  }));
+
   const totals = outcome.totals;
   return {
     modelVersion,
@@ -503,6 +538,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
         ? { value: defaultRecoveryMacFraction.value, basis: defaultRecoveryMacFraction.basis }
         : { value: input.recoveryMacFraction, basis: 'entered for this plan' },
     estimates,
+    phases,
     timeline: timelineOf(outcome, setup.sampleIntervalMin),
     milestones: {
       inductionMin: outcome.inductionMin,
@@ -527,15 +563,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
         'Induction (planned surgical depth): brain (vessel-rich group) reaches the target MAC multiple; loss of righting: brain rises through the light-plane fraction of MAC; recovery (first movement or head lift): brain falls below the recovery fraction of MAC after the vaporiser is off; standing or perching: brain falls below the standing fraction of MAC; a recovery milestone is timed only for a brain that was above its level; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
     },
     uncertainty,
-    flows: {
-      recommendedLpm: recommendation.recommendedLpm,
-      minimumLpm: recommendation.minimumLpm,
-      rule: recommendation.rule,
-      basis: recommendation.basis,
-      rebreathing: rebreathing.rebreathing,
-      rebreathingReason: rebreathing.reason,
-      chamberTimeTo95Min: chamberTime,
-    },
+    flows,
     consumption,
     oxygen,
     wasteGas,

@@ -21,6 +21,50 @@ export type PlanVentilation =
 
 export type PlanScheduleStep = { readonly atMin: number; readonly vaporPct: number };
 
+/**
+ * A later phase of the plan: from `startMin` the bird is moved to another route or breathing
+ * system (intubated after a mask or chamber induction, or moved from a chamber to a mask). The
+ * plan's own route, circuit and flow fields are the first phase, from minute 0. The vaporiser
+ * schedule stays one list of steps at minutes from the start; each phase shows the steps that
+ * fall within it.
+ */
+export type PlanPhaseChange = {
+  /** Minute the move starts (the bird leaves the previous route), > 0. */
+  readonly startMin: number;
+  /** Minutes on room air while the bird is moved (intubation, mask fitting); absent: the default gap. */
+  readonly gapMin?: number | undefined;
+  readonly route: Route;
+  readonly circuit?: Circuit | undefined;
+  readonly freshGasLpm: number;
+  readonly chamberVolumeL?: number | undefined;
+  readonly maskDeadSpaceMl?: number | undefined;
+  readonly maskLeakFraction?: number | undefined;
+  readonly circuitVolumeL?: number | undefined;
+};
+
+/** One phase of a computed plan, the first included (a single-route plan has one). */
+export type PlanPhaseSummary = {
+  /** 0 for the first phase. */
+  readonly index: number;
+  /** Minute the phase starts (0 for the first); the bird is on room air until deliveryFromMin. */
+  readonly startMin: number;
+  readonly gapMin: number;
+  readonly deliveryFromMin: number;
+  /** Minute the next phase starts, or the end of the plan. */
+  readonly endMin: number;
+  readonly route: Route;
+  readonly circuit: Circuit;
+  readonly freshGasLpm: number;
+  /** Dial steps in effect during the phase: the one running at its start (at startMin), then any later. */
+  readonly dialSteps: readonly PlanScheduleStep[];
+  /** Flow recommendation for this phase's route and breathing system. */
+  readonly flows: PlanFlows;
+  /** Oxygen used during the phase, L. */
+  readonly oxygenUsedL: number;
+  /** Liquid agent used during the phase, mL. */
+  readonly liquidMl: number;
+};
+
 export type PlanInput = {
   /** Free text shown on the worksheet (the bird's name). */
   readonly patientName?: string | undefined;
@@ -40,6 +84,8 @@ export type PlanInput = {
   readonly circuitVolumeL?: number | undefined;
   /** Vaporiser steps, sorted by atMin, the first at 0. */
   readonly schedule: readonly PlanScheduleStep[];
+  /** Phases after the first (mask or chamber induction, then a tube), in time order; absent: one phase. */
+  readonly laterPhases?: readonly PlanPhaseChange[] | undefined;
   readonly ventilation?: PlanVentilation | undefined;
   readonly targetMacMultiple?: number | undefined;
   readonly recoveryMacFraction?: number | undefined;
@@ -200,6 +246,8 @@ export type PlanResult = {
   readonly targetMacMultiple: number;
   readonly recoveryMacFraction: { readonly value: number; readonly basis: string };
   readonly estimates: PlanEstimates;
+  /** The plan's phases, the first included; old saved results read back with none. */
+  readonly phases: readonly PlanPhaseSummary[];
   readonly timeline: PlanTimeline;
   readonly milestones: PlanMilestones;
   readonly uncertainty: PlanUncertainty;
