@@ -8,6 +8,7 @@ import { agentIds } from '../core/agents.js';
 import { cautionSeverities } from '../core/cautions.js';
 import { circuits, routes, type Circuit, type Route } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
+import { bodyTemperatureLimitsC } from '../core/model/temperature.js';
 import { hasLetterOrDigit, hiddenCharacterProblem } from './input-rules.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
 
@@ -196,6 +197,12 @@ export const planInputSchema = strict(
     ).optional(),
     cylinder: cylinderSchema.optional(),
     vaporiserTemperatureC: boundedNumber('vaporiser temperature', ' C', 10, 35).optional(),
+    bodyTemperatureC: boundedNumber(
+      'body temperature',
+      ' C',
+      bodyTemperatureLimitsC.minC,
+      bodyTemperatureLimitsC.maxC,
+    ).optional(),
     uncertainty: strict(
       {
         samples: boundedNumber('number of uncertainty samples', '', 0, 2000, { integer: true }),

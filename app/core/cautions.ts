@@ -53,6 +53,11 @@ export type CautionContext = {
   readonly predictedPeakBrainMacMultiple?: number;
   /** The species' published apnoea MAC multiple, when known. */
   readonly apnoeaMacMultiple?: MacMultiple;
+  /**
+   * Highest level delivered to the bird (inspired, or the tube gas with an air-sac tube) as a
+   * multiple of the MAC in use, from the model.
+   */
+  readonly peakInspiredMacMultiple?: number;
   /** Whether the MAC in use is a published avian value for this agent (false: fallback or assumption). */
   readonly macIsPublishedForBird?: boolean;
   /** Waste gas: peak and highest 1-h mean room concentration, ppm. */
@@ -230,7 +235,33 @@ function circuitCautions(context: CautionContext): Caution[] {
   return [];
 }
 
+/**
+ * The inspired level against the species' published apnoea level (its anaesthetic index x MAC,
+ * an end-tidal value). Breathed for long enough, the bird's level moves towards the inspired
+ * one, so an inspired level above the apnoea level can bring apnoea even when the plan's
+ * predicted depth stays below it. Only species with a published value: no family or default
+ * value is used, since none was found.
+ */
+function inspiredApnoeaCautions(context: CautionContext): Caution[] {
+  const inspired = context.peakInspiredMacMultiple;
+  const speciesMultiple = context.apnoeaMacMultiple;
+  if (inspired === undefined || speciesMultiple === undefined || inspired < speciesMultiple.value) return [];
+  return [
+    {
+      code: 'inspired-above-apnoea-level',
+      severity: 'warning',
+      message: `The bird breathes up to ${format(inspired)} x MAC, ${format(inspired / speciesMultiple.value, 1)} times the ${format(speciesMultiple.value)} x MAC at which apnoea is reported in this species: watch breathing closely and lower the dial once the bird is induced`,
+      reason: `${speciesMultiple.basis}; held long enough, the bird's level approaches the inspired level`,
+    },
+  ];
+}
+
 function apnoeaCautions(context: CautionContext): Caution[] {
+  const inspiredCautions = inspiredApnoeaCautions(context);
+  return [...inspiredCautions, ...brainApnoeaCautions(context)];
+}
+
+function brainApnoeaCautions(context: CautionContext): Caution[] {
   const peak = context.predictedPeakBrainMacMultiple;
   if (peak === undefined) return [];
   const speciesMultiple = context.apnoeaMacMultiple;

@@ -319,6 +319,18 @@ const bad: Case[] = [
     field: 'vaporiserTemperatureC',
     words: 'vaporiser temperature must be between',
   },
+  {
+    name: 'body temperature too cold',
+    plan: { ...valid, bodyTemperatureC: 25 },
+    field: 'bodyTemperatureC',
+    words: 'body temperature must be between 30 C and 44 C',
+  },
+  {
+    name: 'body temperature too hot',
+    plan: { ...valid, bodyTemperatureC: 45 },
+    field: 'bodyTemperatureC',
+    words: 'body temperature must be between 30 C and 44 C',
+  },
   { name: 'plan not an object', plan: [1, 2, 3], field: '(plan)', words: 'a plan must be an object' },
 ];
 

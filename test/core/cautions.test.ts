@@ -193,6 +193,25 @@ describe('apnoea', () => {
     ).toEqual(['apnoea-risk']);
   });
 
+  it('warns when a chicken breathes more than its published apnoea level, and not below it', () => {
+    // chicken apnoea at 3.31 % isoflurane = 2.8 MAC (Midon et al. 2021, J Zoo Wildl Med 52:327-331) [published; derived]
+    const cautions = collectCautions({
+      peakInspiredMacMultiple: 4.2,
+      apnoeaMacMultiple: chicken?.apnoeaMacMultiple,
+    });
+    expect(cautions.map((caution) => caution.code)).toEqual(['inspired-above-apnoea-level']);
+    expect(cautions[0]?.severity).toBe('warning');
+    expect(cautions[0]?.message).toContain('1.5 times the 2.81 x MAC');
+    expect(cautions[0]?.reason).toMatch(/Midon et al\. 2021/);
+    expect(codes({ peakInspiredMacMultiple: 2.5, apnoeaMacMultiple: chicken?.apnoeaMacMultiple })).toEqual(
+      [],
+    );
+  });
+
+  it('gives no inspired-level caution for a species without a published apnoea level', () => {
+    expect(codes({ peakInspiredMacMultiple: 4.2 })).toEqual([]);
+  });
+
   it('uses the lowest published multiple, 1.5 MAC, as a warning when the species has none', () => {
     const cautions = collectCautions({ predictedPeakBrainMacMultiple: 1.7 });
     expect(cautions.map((caution) => caution.severity)).toEqual(['warning']);

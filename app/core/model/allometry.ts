@@ -11,6 +11,7 @@ import {
   breathingFrequencyAllometry,
   cardiacOutputAllometry,
   heartRateAllometry,
+  exchangingLungShare,
   lungVolumeFraction,
   minuteVentilationAllometry,
   posteriorSacShare,
@@ -148,8 +149,8 @@ export function estimateRespiratory(
   });
   const bodyVolumeMl = bodyMassG / bodyDensityGPerMl.value;
   const lung = measuredOr(overrides.lungVolumeMl, {
-    value: lungVolumeFraction.value * bodyVolumeMl,
-    basis: `${(lungVolumeFraction.value * 100).toFixed(0)} % of body volume: ${lungVolumeFraction.basis}`,
+    value: lungVolumeFraction.value * exchangingLungShare.value * bodyVolumeMl,
+    basis: `exchanging share ${(exchangingLungShare.value * 100).toFixed(1)} % (${exchangingLungShare.basis}) of a lung of ${(lungVolumeFraction.value * 100).toFixed(0)} % of body volume (${lungVolumeFraction.basis})`,
   });
   const sacs = measuredOr(overrides.airSacVolumeMl, {
     value: airSacVolumeFraction.value * bodyVolumeMl,

@@ -111,14 +111,17 @@ export const bodyExchangeFactorLength = factor.length;
  * @param gasMl gas crossing the exchange surface in the step, mL, >= 0 (0: no gas moves)
  * @param stepMin step length in minutes, > 0 (any length: the step is unconditionally stable)
  * @param out factor array of length bodyExchangeFactorLength, filled in place
+ * @param flowScale multiplier of every group's blood flow (depressed cardiac output), > 0; the
+ *   flow fractions stay as they are, so the venous pool still receives exactly what leaves it
  */
 export function bodyExchangeFactors(
   body: BodyModel,
   gasMl: number,
   stepMin: number,
   out: Float64Array,
+  flowScale = 1,
 ): void {
-  const bloodMl = bodyBloodFlowMlMin(body) * stepMin;
+  const bloodMl = bodyBloodFlowMlMin(body) * flowScale * stepMin;
   const k =
     gasMl > 0 ? perfusionVentilationK(body.bloodGasPartition, bloodMl, gasMl) : Number.POSITIVE_INFINITY;
   const arterial = gasMl > 0 ? crossCurrentArterialFraction(k) : 0;
@@ -130,7 +133,7 @@ export function bodyExchangeFactors(
   for (let index = 0; index < 3; index += 1) {
     const group = body.groups[index] as TissueGroup;
     const capacity = group.tissueBloodPartition * group.volumeMl;
-    const decay = Math.exp((-group.flowMlMin * stepMin) / capacity);
+    const decay = Math.exp((-group.flowMlMin * flowScale * stepMin) / capacity);
     const weight = capacity * (1 - decay);
     out[factor.decay0 + index] = decay;
     out[factor.weight0 + index] = weight;

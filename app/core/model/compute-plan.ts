@@ -23,6 +23,20 @@ import { oxygenBudget } from '../budget/oxygen.js';
 import { nioshCeilingPpm, wasteGasExposure, wasteGasRelease, type RoomRelease } from '../budget/waste-gas.js';
 import { collectCautions, type Caution, type CautionContext } from '../cautions.js';
 import type { SpeciesReference } from '../species-reference.js';
+import {
+  cardiacDepressionFloor,
+  cardiacDepressionSlope,
+  defaultAnaestheticIndex,
+  ventilatoryRateShare,
+  type DepressionRule,
+} from './depression.js';
+import {
+  avianNormalBodyTemperatureC,
+  macTemperatureCoefficient,
+  macTemperatureFactor,
+  solubilityTemperatureCoefficient,
+  solubilityTemperatureFactor,
+} from './temperature.js';
 import { estimateRespiratory, type RespiratoryEstimates } from './allometry.js';
 import type { BodyModel, TissueGroup } from './body-uptake.js';
 import { gasSpaceWash } from './milestones.js';
@@ -39,7 +53,6 @@ import {
   rebreathingFlowMultiple,
   tissueGroups,
   ventilatoryDepressionFloor,
-  ventilatoryDepressionSlope,
 } from './parameters.js';
 import type {
   MilestoneDefinition,
@@ -54,7 +67,7 @@ import { simulate, type SimulationOutcome, type SimulationSetup } from './simula
 import { runUncertainty, type MilestoneBand } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
-export const modelVersion = '2.0.0';
+export const modelVersion = '3.0.0';
 
 export type PlanTables = { readonly species: readonly SpeciesReference[] };
 
@@ -84,6 +97,10 @@ export type ResolvedMac = {
  * @param species species row, if any
  */
 export function resolveMac(input: PlanInput, species: SpeciesReference | undefined): ResolvedMac {
+  return atBodyTemperature(normothermicMac(input, species), input.bodyTemperatureC);
+}
+
+function normothermicMac(input: PlanInput, species: SpeciesReference | undefined): ResolvedMac {
   if (input.macPct !== undefined)
     return { valuePct: input.macPct, basis: 'entered for this bird', publishedForBird: true, sdPct: null };
   const published = species?.macByAgent[input.agent];
@@ -97,6 +114,56 @@ export function resolveMac(input: PlanInput, species: SpeciesReference | undefin
   }
   const fallback = agents[input.agent].fallbackMacPct;
   return { valuePct: fallback.value, basis: fallback.basis, publishedForBird: false, sdPct: null };
+}
+
+/**
+ * The MAC at the plan's body temperature: a normothermic MAC (published avian MACs were measured
+ * at 39.5-41 C, an entered MAC is taken as normothermic too) lowered for a colder bird.
+ */
+function atBodyTemperature(mac: ResolvedMac, bodyTemperatureC: number | undefined): ResolvedMac {
+  if (bodyTemperatureC === undefined) return mac;
+  const factor = macTemperatureFactor(bodyTemperatureC);
+  if (factor === 1) return mac;
+  return {
+    valuePct: mac.valuePct * factor,
+    basis: `${mac.basis}; x ${factor.toFixed(3)} for a body temperature of ${String(bodyTemperatureC)} C (${macTemperatureCoefficient.basis})`,
+    publishedForBird: mac.publishedForBird,
+    sdPct: mac.sdPct === null ? null : mac.sdPct * factor,
+  };
+}
+
+/**
+ * Body temperature of the plan: entered, else the normothermic avian value (assumption).
+ * @param input plan
+ */
+export function planBodyTemperatureC(input: PlanInput): number {
+  return input.bodyTemperatureC ?? avianNormalBodyTemperatureC.value;
+}
+
+/**
+ * The depression rule of a plan: the species' published anaesthetic index (apnoea MAC multiple)
+ * where there is one, else the default; the agent's split between rate and tidal volume.
+ * @param agentId agent
+ * @param species species row, if any
+ */
+export function depressionRuleOf(
+  agentId: PlanInput['agent'],
+  species: SpeciesReference | undefined,
+): DepressionRule & { readonly anaestheticIndex: number; readonly basis: string } {
+  const published = species?.apnoeaMacMultiple;
+  const anaestheticIndex = published?.value ?? defaultAnaestheticIndex.value;
+  return {
+    anaestheticIndex,
+    ventilationSlope: 1 / anaestheticIndex,
+    ventilationFloor: ventilatoryDepressionFloor.value,
+    rateShare: ventilatoryRateShare[agentId].value,
+    cardiacSlope: cardiacDepressionSlope.value,
+    cardiacFloor: cardiacDepressionFloor.value,
+    basis:
+      published !== undefined && species !== undefined
+        ? `Spontaneous ventilation falls linearly with the brain MAC multiple to apnoea at ${anaestheticIndex.toFixed(2)} x MAC, the published ${species.commonName} value (${published.basis}; taken for every agent); split between rate and tidal volume: ${ventilatoryRateShare[agentId].basis}`
+        : `Spontaneous ventilation falls linearly with the brain MAC multiple to apnoea at ${anaestheticIndex.toFixed(2)} x MAC (${defaultAnaestheticIndex.basis}); split between rate and tidal volume: ${ventilatoryRateShare[agentId].basis}`,
+  };
 }
 
 /** Minute at which the vaporiser is turned off for good, or null when the schedule never ends at 0. */
@@ -119,11 +186,13 @@ export function planEndMin(input: PlanInput): number {
  * @param bodyMassG body mass in g
  * @param cardiacOutputMlMin cardiac output in mL/min
  * @param agentId agent
+ * @param bodyTemperatureC body temperature, C (30-44; default the normothermic avian value)
  */
 export function buildBodyModel(
   bodyMassG: number,
   cardiacOutputMlMin: number,
   agentId: PlanInput['agent'],
+  bodyTemperatureC: number = avianNormalBodyTemperatureC.value,
 ): BodyModel {
   const agent = agents[agentId];
   const partitions = [
@@ -137,7 +206,8 @@ export function buildBodyModel(
     tissueBloodPartition: partitions[index] as number,
   }));
   return {
-    bloodGasPartition: agent.bloodGasPartition.value,
+    // Tissue/blood coefficients do not change with temperature; blood/gas (and so tissue/gas) does.
+    bloodGasPartition: agent.bloodGasPartition.value * solubilityTemperatureFactor(agentId, bodyTemperatureC),
     bloodVolumeMl: bloodVolumeFraction.value * bodyMassG,
     groups: [groups[0] as TissueGroup, groups[1] as TissueGroup, groups[2] as TissueGroup],
   };
@@ -147,13 +217,16 @@ export function buildBodyModel(
  * Builds the simulation setup of a plan (exported for tests and the benchmark).
  * @param input validated plan
  * @param estimates respiratory estimates of the bird
- * @param mac MAC in use
+ * @param mac MAC in use (at the plan's body temperature: resolveMac)
+ * @param species species row, for its published anaesthetic index
  */
 export function buildSimulationSetup(
   input: PlanInput,
   estimates: RespiratoryEstimates,
   mac: ResolvedMac,
+  species?: SpeciesReference,
 ): SimulationSetup {
+  const depression = depressionRuleOf(input.agent, species);
   const circuit = input.circuit ?? 'nonRebreathing';
   const mixed = input.route === 'chamber' || circuit === 'circle';
   const mixedVolumeMl =
@@ -170,7 +243,12 @@ export function buildSimulationSetup(
       posteriorSacsMl: estimates.posteriorSacsMl.value,
       posteriorShare: posteriorSacShare.value,
     },
-    body: buildBodyModel(input.bodyMassG, estimates.cardiacOutputMlMin.value, input.agent),
+    body: buildBodyModel(
+      input.bodyMassG,
+      estimates.cardiacOutputMlMin.value,
+      input.agent,
+      planBodyTemperatureC(input),
+    ),
     delivery: {
       source: mixed ? 'mixed' : 'open',
       freshGasMlMin: input.freshGasLpm * 1000,
@@ -184,8 +262,11 @@ export function buildSimulationSetup(
     ventilation: {
       restingTidalVolumeMl: estimates.tidalVolumeMl.value,
       restingBreathsPerMin: estimates.breathsPerMin.value,
-      depressionSlope: ventilatoryDepressionSlope.value,
-      depressionFloor: ventilatoryDepressionFloor.value,
+      depressionSlope: depression.ventilationSlope,
+      depressionFloor: depression.ventilationFloor,
+      rateShare: depression.rateShare,
+      cardiacSlope: depression.cardiacSlope,
+      cardiacFloor: depression.cardiacFloor,
       ippv:
         ventilation.mode === 'ippv'
           ? {
@@ -309,7 +390,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     input.speciesId === undefined ? undefined : tables.species.find((row) => row.id === input.speciesId);
   const estimates = estimateRespiratory(input.bodyMassG, input.overrides ?? {});
   const mac = resolveMac(input, species);
-  const setup = buildSimulationSetup(input, estimates, mac);
+  const setup = buildSimulationSetup(input, estimates, mac, species);
   const outcome = simulate(setup);
   const circuit = input.circuit ?? 'nonRebreathing';
   const route = input.route;
@@ -351,6 +432,11 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     bloodGasRange: agents[input.agent].bloodGasRange,
     brainTimeline: outcome.timeline,
     maskEntered: { deadSpace: input.maskDeadSpaceMl !== undefined },
+    physiology: {
+      agent: input.agent,
+      anaestheticIndexPublished: species?.apnoeaMacMultiple !== undefined,
+      bodyTemperatureC: input.bodyTemperatureC ?? null,
+    },
   });
   const [rightingBand, standingBand] = sampled.milestoneBands;
   const bandOf = (id: MilestoneId, band: MilestoneBand | undefined): MilestoneUncertainty => ({
@@ -470,6 +556,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     scavenging,
     ...(route === 'chamber' ? { chamberExposureMin: outcome.inductionMin ?? endMin } : {}),
     predictedPeakBrainMacMultiple: outcome.peakBrainMacMultiple,
+    peakInspiredMacMultiple: outcome.peakInspiredPct / mac.valuePct,
     macIsPublishedForBird: mac.publishedForBird,
     wasteGasPeakPpm: wasteGas.peakPpm,
     wasteGasHourMeanPpm: wasteGas.highestHourMeanPpm,
@@ -477,7 +564,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   };
   const cautions: Caution[] = [
     ...collectCautions(cautionContext),
-    ...modelCautions(input, outcome, offMin, endMin),
+    ...modelCautions(input, outcome, offMin, endMin, species),
     ...bandCautions(uncertainty),
     ...budgetCautions(input, recommendation.minimumLpm),
   ];
@@ -579,7 +666,9 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     assumptions: [
       'Blood/gas and tissue/blood partition coefficients are human values; none measured in birds was found',
       'Tissue group volumes and blood flows are mammalian fractions applied to the bird',
-      ventilatoryDepressionSlope.basis,
+      depressionRuleOf(input.agent, species).basis,
+      cardiacDepressionSlope.basis,
+      `Body temperature ${String(planBodyTemperatureC(input))} C${input.bodyTemperatureC === undefined ? ` (not entered: ${avianNormalBodyTemperatureC.basis})` : ' (entered)'}: blood/gas and tissue/gas coefficients x ${solubilityTemperatureFactor(input.agent, planBodyTemperatureC(input)).toFixed(3)} of their 37 C values (${solubilityTemperatureCoefficient[input.agent].basis}); tissue/blood unchanged (Zhou & Liu 2001, Anesth Analg 93:234-238)`,
       rebreathingFlowMultiple.basis,
       posteriorSacShare.basis,
       'Within one phase of a breath, gas that enters a space does not leave it in the same phase',
@@ -592,6 +681,7 @@ function modelCautions(
   outcome: SimulationOutcome,
   offMin: number | null,
   endMin: number,
+  species: SpeciesReference | undefined,
 ): Caution[] {
   const cautions: Caution[] = [];
   if (outcome.inductionMin === null && input.schedule.some((step) => step.vaporPct > 0)) {
@@ -625,7 +715,7 @@ function modelCautions(
       code: 'ventilation-at-model-floor',
       severity: 'danger',
       message: 'Predicted breathing falls to the model floor: expect apnoea; be ready to ventilate',
-      reason: `${ventilatoryDepressionFloor.basis}; ${ventilatoryDepressionSlope.basis}`,
+      reason: `${ventilatoryDepressionFloor.basis}; ${depressionRuleOf(input.agent, species).basis}`,
     });
   }
   return cautions;

@@ -90,8 +90,20 @@ export const lungVolumeFraction: ModelParameter = {
   value: 0.02,
   range: [0.01, 0.03],
   basis:
-    'Lung 1-3 % of body volume (from memory); the whole lung volume is taken as exchanging parabronchial gas (assumption)',
+    'Lung 1-3 % of body volume (from memory; fixed lungs of 19 species: volume = 29.5 W^0.988, Maina, Abdalla & King 1982, Acta Anat 112:264-270, units of W not read); only its exchanging share meets the blood (exchangingLungShare)',
   kind: 'from memory',
+};
+
+/**
+ * Share of the lung volume that exchanges gas: the volume density of the exchange tissue (air and
+ * blood capillaries) of the avian lung; the rest is bronchi, large vessels and septa.
+ */
+export const exchangingLungShare: ModelParameter = {
+  value: 0.426,
+  range: [0.346, 0.535],
+  basis:
+    'Volume density of the exchange tissue in the lungs of 19 avian species: 42.6 % in non-passerines, 53.5 % in passerines, 34.6 % in charadriiforms (Maina, Abdalla & King 1982, Acta Anat (Cells Tissues Organs) 112:264-270); taking that share of the lung volume as the gas that meets the blood is an assumption',
+  kind: 'published',
 };
 
 /** Air-sac (non-exchanging reservoir) volume as a fraction of body volume. */
@@ -187,15 +199,6 @@ export const tissueGroups: readonly TissueGroupParameters[] = [
     },
   },
 ];
-
-/** Slope of the fall in spontaneous tidal volume per multiple of MAC in the brain. */
-export const ventilatoryDepressionSlope: ModelParameter = {
-  value: 0.3,
-  range: [0.15, 0.45],
-  basis:
-    'Assumption: spontaneous minute ventilation falls linearly with the brain MAC multiple (0.3 per MAC), reaching the floor near the published apnoea multiples (duck above 1.5 MAC, Ludders, Mitchell & Rode 1990; chicken 2.8 MAC, Midon et al. 2021)',
-  kind: 'assumption',
-};
 
 /** Lowest fraction of resting ventilation kept by the depression rule. */
 export const ventilatoryDepressionFloor: ModelParameter = {

@@ -95,6 +95,11 @@ export type PlanInput = {
   readonly room?: { readonly volumeM3: number; readonly airChangesPerHour: number } | undefined;
   readonly cylinder?: CylinderSpec | undefined;
   readonly vaporiserTemperatureC?: number | undefined;
+  /**
+   * Expected or measured body (cloacal) temperature during the plan, C (30-44); absent: the
+   * normothermic avian value (app/core/model/temperature.ts). Changes solubility and MAC.
+   */
+  readonly bodyTemperatureC?: number | undefined;
   readonly uncertainty?: { readonly samples: number; readonly seed: number } | undefined;
 };
 

@@ -65,6 +65,15 @@ export type VentilationSetup = {
   readonly depressionSlope: number;
   /** Lowest fraction of resting tidal volume kept. */
   readonly depressionFloor: number;
+  /**
+   * Share of the fall in minute ventilation taken by the rate (rate = V^share, tidal volume =
+   * V^(1 - share)); absent or 0: only tidal volume falls. See depression.ts.
+   */
+  readonly rateShare?: number;
+  /** Fall of cardiac output per brain MAC multiple (all group flows scaled alike); absent: none. */
+  readonly cardiacSlope?: number;
+  /** Lowest fraction of resting cardiac output kept. */
+  readonly cardiacFloor?: number;
   readonly ippv: {
     readonly fromMin: number;
     readonly breathsPerMin: number;
@@ -325,6 +334,12 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const restingRate = ventilation.restingBreathsPerMin;
   const depressionSlope = ventilation.depressionSlope;
   const depressionFloor = ventilation.depressionFloor;
+  const rateShare = ventilation.rateShare ?? 0;
+  const cardiacSlope = ventilation.cardiacSlope ?? 0;
+  const cardiacFloor = ventilation.cardiacFloor ?? 1;
+  // Depressed rate fraction of the last minute-ventilation fraction (the power is taken only when it changes).
+  let splitFor = -1;
+  let rateFraction = 1;
 
   const initial = setup.initialGasFraction ?? 0;
   let trachea = initial;
@@ -393,6 +408,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let breath = 0;
   while (time < endMin - 1e-12 && !stopRequested) {
     const brainBefore = state[1] as number;
+    breathStartBody[0] = state[bodyState.arterial] as number;
+    breathStartBody[1] = brainBefore;
+    breathStartBody[2] = state[bodyState.muscle] as number;
+    breathStartBody[3] = state[bodyState.fat] as number;
     let tidal: number;
     let rate: number;
     if (time >= ippvFrom && ippv !== null) {
@@ -402,13 +421,23 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       const depression = Math.max(depressionFloor, 1 - (depressionSlope * brainBefore) / mac);
       const depressionUsed = Math.round(depression / depressionQuantum) * depressionQuantum;
       if (depressionUsed < lowestVentilation) lowestVentilation = depressionUsed;
-      tidal = restingTidal * depressionUsed;
-      rate = restingRate;
+      if (depressionUsed !== splitFor) {
+        splitFor = depressionUsed;
+        rateFraction = rateShare > 0 ? depressionUsed ** rateShare : 1;
+      }
+      tidal = (restingTidal * depressionUsed) / rateFraction;
+      rate = restingRate * rateFraction;
     }
+    // Depressed cardiac output, on the same grid; it scales every group's flow alike.
+    const cardiac =
+      cardiacSlope > 0
+        ? Math.round(Math.max(cardiacFloor, 1 - (cardiacSlope * brainBefore) / mac) / depressionQuantum) *
+          depressionQuantum
+        : 1;
     if (offMin !== null && atOff === null && time >= offMin)
       atOff = { tidalVolumeMl: tidal, breathsPerMin: rate };
-    if (tidal !== factors.tidalMl || rate !== factors.breathsPerMin) {
-      setBreathFactors(factors, setup, tidal, rate, stepsPerMin);
+    if (tidal !== factors.tidalMl || rate !== factors.breathsPerMin || cardiac !== factors.flowScale) {
+      setBreathFactors(factors, setup, tidal, rate, stepsPerMin, cardiac);
       if (prefix.length < factors.substeps + 1) prefix = new Float64Array(factors.substeps + 1);
     }
     const {
@@ -577,13 +606,17 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
 
     trackBrainMilestones(milestones, time - 2 * phaseMin, time, brainBefore, state[1] as number, mixedGas);
     while (sampled < sampleCount && time >= nextSample - 1e-9) {
-      recordSample(timeline, nextSample, delivered, trachea, posterior, lung, anterior, state);
+      // Body channels at the sample time itself (linear within the breath), so that plans with
+      // different breaths are compared at the same instant; gas channels at the breath's end.
+      const breathStart = time - 2 * phaseMin;
+      const within = Math.min(1, Math.max(0, (nextSample - breathStart) / (2 * phaseMin)));
+      recordSample(timeline, nextSample, delivered, trachea, posterior, lung, anterior, state, within);
       sampled += 1;
       nextSample = sampled * sampleInterval;
     }
   }
   while (sampled < sampleCount) {
-    recordSample(timeline, nextSample, 0, trachea, posterior, lung, anterior, state);
+    recordSample(timeline, nextSample, 0, trachea, posterior, lung, anterior, state, 1);
     sampled += 1;
     nextSample = sampled * sampleInterval;
   }
@@ -619,6 +652,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
 type BreathFactors = {
   tidalMl: number;
   breathsPerMin: number;
+  /** Cardiac output as a fraction of the body model's (depression). */
+  flowScale: number;
   phaseMin: number;
   substeps: number;
   tubePerPhase: number;
@@ -636,6 +671,7 @@ function newBreathFactors(): BreathFactors {
   return {
     tidalMl: -1,
     breathsPerMin: -1,
+    flowScale: -1,
     phaseMin: 0,
     substeps: 1,
     tubePerPhase: 0,
@@ -651,8 +687,10 @@ function newBreathFactors(): BreathFactors {
 }
 
 /**
- * Recomputes `factors` for a breath of `tidal` mL at `rate` /min, with at least `stepsPerMin`
- * exchange steps per minute (the accuracy bound) times the setup's sub-step refinement.
+ * Recomputes `factors` for a breath of `tidal` mL at `rate` /min and a cardiac output of
+ * `flowScale` times the body model's, with at least `stepsPerMin` exchange steps per minute (the
+ * accuracy bound, set at the undepressed flows, so it holds as they fall) times the setup's
+ * sub-step refinement.
  */
 function setBreathFactors(
   factors: BreathFactors,
@@ -660,6 +698,7 @@ function setBreathFactors(
   tidal: number,
   rate: number,
   stepsPerMin: number,
+  flowScale: number,
 ): void {
   const { delivery, body, gasPath } = setup;
   const freshFlow = delivery.freshGasMlMin;
@@ -670,13 +709,14 @@ function setBreathFactors(
   const stepMin = phaseMin / substeps;
   factors.tidalMl = tidal;
   factors.breathsPerMin = rate;
+  factors.flowScale = flowScale;
   factors.phaseMin = phaseMin;
   factors.substeps = substeps;
   factors.tubePerPhase = tubePerPhase;
   factors.inspiratoryLungFlow = (1 - gasPath.posteriorShare) * tidal + tubePerPhase;
   factors.expiratoryLungFlow = gasPath.posteriorShare * tidal + tubePerPhase;
-  bodyExchangeFactors(body, factors.inspiratoryLungFlow / substeps, stepMin, factors.inspiratory);
-  bodyExchangeFactors(body, factors.expiratoryLungFlow / substeps, stepMin, factors.expiratory);
+  bodyExchangeFactors(body, factors.inspiratoryLungFlow / substeps, stepMin, factors.inspiratory, flowScale);
+  bodyExchangeFactors(body, factors.expiratoryLungFlow / substeps, stepMin, factors.expiratory, flowScale);
   const mask = delivery.interface === 'mask';
   factors.freshDecay =
     delivery.source === 'mixed' ? Math.exp((-freshFlow * phaseMin) / delivery.mixedVolumeMl) : 1;
@@ -773,6 +813,9 @@ function trackBrainMilestones(
  */
 const phaseResult = new Float64Array(3);
 
+/** Arterial, brain, muscle and fat fractions at the start of the current breath (for the samples). */
+const breathStartBody = new Float64Array(4);
+
 /**
  * One phase of gas through the parabronchial lung. `flowMl` mL leave the upstream sacs
  * (`sacMl` mL at fraction `sac` at the start of the phase, topped up by gas at `arriving`) in
@@ -865,6 +908,7 @@ function recordSample(
   lung: number,
   anterior: number,
   body: Float64Array,
+  within: number,
 ): void {
   timeline.timeMin.push(Math.round(atMin * 1e6) / 1e6);
   timeline.inspiredPct.push(inspired * 100);
@@ -872,10 +916,13 @@ function recordSample(
   timeline.posteriorSacsPct.push(posterior * 100);
   timeline.parabronchialPct.push(lung * 100);
   timeline.anteriorSacsPct.push(anterior * 100);
-  timeline.arterialPct.push((body[bodyState.arterial] as number) * 100);
-  timeline.brainPct.push((body[bodyState.vesselRich] as number) * 100);
-  timeline.musclePct.push((body[bodyState.muscle] as number) * 100);
-  timeline.fatPct.push((body[bodyState.fat] as number) * 100);
+  const start = breathStartBody;
+  const at = (index: number, channel: number): number =>
+    ((start[index] as number) + ((body[channel] as number) - (start[index] as number)) * within) * 100;
+  timeline.arterialPct.push(at(0, bodyState.arterial));
+  timeline.brainPct.push(at(1, bodyState.vesselRich));
+  timeline.musclePct.push(at(2, bodyState.muscle));
+  timeline.fatPct.push(at(3, bodyState.fat));
 }
 
 function interpolateCrossing(t0: number, v0: number, t1: number, v1: number, level: number): number {

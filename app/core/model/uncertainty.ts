@@ -23,9 +23,14 @@ import {
   trachealVolumeSpread,
   ventilationSpread,
   ventilatoryDepressionFloor,
-  ventilatoryDepressionSlope,
   type ModelParameter,
 } from './parameters.js';
+import {
+  drawPhysiology,
+  nominalSolubilityFactor,
+  physiologyParameters,
+  type PhysiologyContext,
+} from './physiology-draws.js';
 import type { Percentiles, PlanUncertainty, UncertaintyParameter } from './plan-types.js';
 import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
 import type { TissueGroup } from './body-uptake.js';
@@ -114,6 +119,11 @@ export type UncertaintyInput = {
   readonly brainTimeline?: { readonly timeMin: readonly number[]; readonly brainPct: readonly number[] };
   /** Mask dead space entered for this plan (not sampled) rather than the default (sampled). */
   readonly maskEntered?: { readonly deadSpace: boolean };
+  /**
+   * The plan's agent, anaesthetic index and body temperature, for the depression, temperature and
+   * lung-share draws (physiology-draws.ts); absent: those are not sampled.
+   */
+  readonly physiology?: PhysiologyContext;
 };
 
 /** One sampled set-up with the multipliers drawn for it. */
@@ -128,7 +138,21 @@ function drawSetup(
   const { setup } = input;
   const gas = setup.gasPath;
   const body = setup.body;
-  const lambda = triangular(random, input.bloodGasRange[0], body.bloodGasPartition, input.bloodGasRange[1]);
+  const physiology =
+    input.physiology === undefined
+      ? undefined
+      : drawPhysiology((parameter) => drawParameter(random, parameter), input.physiology);
+  // The agent's range is at 37 C: draw there, then apply the (sampled) temperature factor.
+  const temperatureFactor = input.physiology === undefined ? 1 : nominalSolubilityFactor(input.physiology);
+  const lambda =
+    triangular(
+      random,
+      input.bloodGasRange[0],
+      body.bloodGasPartition / temperatureFactor,
+      input.bloodGasRange[1],
+    ) *
+    temperatureFactor *
+    (physiology?.solubilityMultiple ?? 1);
   const cardiac =
     (body.groups[0].flowMlMin + body.groups[1].flowMlMin + body.groups[2].flowMlMin) *
     drawParameter(random, cardiacOutputSpread);
@@ -138,7 +162,9 @@ function drawSetup(
     ((gas.anteriorSacsMl + gas.posteriorSacsMl) * drawParameter(random, airSacVolumeFraction)) /
     airSacVolumeFraction.value;
   const share = drawParameter(random, posteriorSacShare);
-  const lung = (gas.lungVolumeMl * drawParameter(random, lungVolumeFraction)) / lungVolumeFraction.value;
+  const lung =
+    ((gas.lungVolumeMl * drawParameter(random, lungVolumeFraction)) / lungVolumeFraction.value) *
+    (physiology?.lungShareMultiple ?? 1);
   const trachea = gas.trachealVolumeMl * drawParameter(random, trachealVolumeSpread);
   const bloodVolume =
     (body.bloodVolumeMl * drawParameter(random, bloodVolumeFraction)) / bloodVolumeFraction.value;
@@ -164,8 +190,8 @@ function drawSetup(
     ...group,
     flowMlMin: (cardiac * (flows[index] as number)) / flowTotal,
   }));
-  const macMultiple = Math.max(0.3, 1 + macRelativeSd * normal(random));
-  const slope = drawParameter(random, ventilatoryDepressionSlope);
+  const macMultiple = Math.max(0.3, 1 + macRelativeSd * normal(random)) * (physiology?.macMultiple ?? 1);
+  const slope = setup.ventilation.depressionSlope * (physiology?.ventilationSlopeMultiple ?? 1);
   const floor = drawParameter(random, ventilatoryDepressionFloor);
   const rebreathing = drawParameter(random, rebreathingFlowMultiple);
   const maskDeadSpaceMultiple =
@@ -204,6 +230,13 @@ function drawSetup(
         restingBreathsPerMin: setup.ventilation.restingBreathsPerMin * rateMultiple,
         depressionSlope: slope,
         depressionFloor: floor,
+        ...(physiology === undefined
+          ? {}
+          : {
+              rateShare: physiology.rateShare,
+              cardiacSlope: physiology.cardiacSlope,
+              cardiacFloor: physiology.cardiacFloor,
+            }),
       },
       macPct: setup.macPct * macMultiple,
       inductionBrainPct: setup.inductionBrainPct * macMultiple,
@@ -360,8 +393,8 @@ function sampledParameters(
           ? 'Normal with the published SD of the MAC in use, truncated at 2.5 SD'
           : `${macRelativeSpread.basis}; normal, truncated at 2.5 SD`,
     },
-    of('depressionSlope', ventilatoryDepressionSlope),
     of('depressionFloor', ventilatoryDepressionFloor),
+    ...(input.physiology === undefined ? [] : physiologyParameters(input.physiology)),
     of('rebreathingFlowMultiple', rebreathingFlowMultiple),
     ...(maskDefaults.deadSpace ? [of('maskDeadSpaceTidalMultiple', defaultMaskDeadSpaceTidalMultiple)] : []),
   ];
