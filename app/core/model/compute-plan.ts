@@ -668,7 +668,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
       'Tissue group volumes and blood flows are mammalian fractions applied to the bird',
       depressionRuleOf(input.agent, species).basis,
       cardiacDepressionSlope.basis,
-      `Body temperature ${String(planBodyTemperatureC(input))} C${input.bodyTemperatureC === undefined ? ` (not entered: ${avianNormalBodyTemperatureC.basis})` : ' (entered)'}: blood/gas and tissue/gas coefficients x ${solubilityTemperatureFactor(input.agent, planBodyTemperatureC(input)).toFixed(3)} of their 37 C values (${solubilityTemperatureCoefficient[input.agent].basis}); tissue/blood unchanged (Zhou & Liu 2001, Anesth Analg 93:234-238)`,
+      `Body temperature ${String(planBodyTemperatureC(input))} C${input.bodyTemperatureC === undefined ? ` (not entered: ${avianNormalBodyTemperatureC.basis})` : ' (entered)'}: blood/gas and tissue/gas coefficients x ${solubilityTemperatureFactor(input.agent, planBodyTemperatureC(input)).toFixed(3)} of their 37 C values (${solubilityTemperatureCoefficient[input.agent].basis}); tissue/blood unchanged (Anesth Analg, July 2001, July 2001)`,
       rebreathingFlowMultiple.basis,
       posteriorSacShare.basis,
       'Within one phase of a breath, gas that enters a space does not leave it in the same phase',

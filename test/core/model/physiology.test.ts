@@ -106,7 +106,7 @@ describe('depression of cardiac output', () => {
 
 describe('body temperature', () => {
   it('raises blood solubility as the bird cools, by the published human-blood coefficients', () => {
-    // ln(blood/gas) slope -0.0382 per C isoflurane, -0.0295 sevoflurane (Zhou, Liu & Liu 2002, PubMed 12150733)
+    // ln(blood/gas) slope -0.0382 per C isoflurane, -0.0295 sevoflurane (Zhou, Liu & Liu, PubMed 12150733)
     expect(solubilityTemperatureFactor('isoflurane', 37)).toBe(1);
     expect(solubilityTemperatureFactor('isoflurane', 36)).toBeCloseTo(Math.exp(0.0382), 12);
     expect(solubilityTemperatureFactor('sevoflurane', 31)).toBeCloseTo(Math.exp(0.0295 * 6), 12);
@@ -114,7 +114,7 @@ describe('body temperature', () => {
   });
 
   it('lowers MAC below the normothermic value and leaves it above', () => {
-    // isoflurane MAC 1.69, 1.47, 1.22 % at 37, 34, 31 C in children (Liu, Hu & Liu 2001, Anesthesiology 94:429-432)
+    // isoflurane MAC 1.69, 1.47, 1.22 % at 37, 34, 31 C in children (Anesthesiology 2001, 94:429-432)
     expect(macTemperatureFactor(41)).toBe(1);
     expect(macTemperatureFactor(42)).toBe(1);
     expect(macTemperatureFactor(35)).toBeCloseTo(1 - 0.051 * 6, 12);
