@@ -61,9 +61,9 @@ export type DeliverySetup = {
 export type VentilationSetup = {
   readonly restingTidalVolumeMl: number;
   readonly restingBreathsPerMin: number;
-  /** Fall in spontaneous tidal volume per brain MAC multiple. */
+  /** Fall in spontaneous minute ventilation per brain MAC multiple (1 / anaesthetic index). */
   readonly depressionSlope: number;
-  /** Lowest fraction of resting tidal volume kept. */
+  /** Lowest fraction of resting minute ventilation kept. */
   readonly depressionFloor: number;
   /**
    * Share of the fall in minute ventilation taken by the rate (rate = V^share, tidal volume =
@@ -217,7 +217,7 @@ export function dialPctAt(schedule: readonly ScheduleStep[], timeMin: number): n
  */
 export const bodyStepBound = 0.1;
 
-/** Grid of the depression factor: spontaneous tidal volume moves in steps of 0.1 % of resting. */
+/** Grid of the depression factors: ventilation and cardiac output move in steps of 0.1 % of resting. */
 export const depressionQuantum = 0.001;
 
 /** Calls of the simulation before the JavaScript engine keeps type feedback for it (V8: 8). */
@@ -227,9 +227,10 @@ let feedbackWarmed = false;
 /**
  * Runs the breath-resolved simulation of one plan.
  * Deterministic; allocates only the timeline arrays and two small typed arrays. Spontaneous
- * tidal volume follows the depression rule rounded to 0.1 % of resting (depressionQuantum), a
- * monotone step function of the brain partial pressure, so that exchange factors are recomputed
- * only when the breath changes.
+ * minute ventilation (split between rate and tidal volume) and cardiac output follow the
+ * depression rule (depression.ts) rounded to 0.1 % of resting (depressionQuantum), monotone step
+ * functions of the brain partial pressure, so that exchange factors are recomputed only when the
+ * breath or the output changes.
  *
  * Speed note: the JavaScript engine starts keeping type feedback for a function only after a few
  * calls. If the first call is a whole plan, the long loop is optimised during that call without
