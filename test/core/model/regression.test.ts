@@ -40,6 +40,16 @@ const pinned: Record<string, Partial<Record<keyof PlanMilestones, number>>> = {
     peakBrainMacMultiple: 1.344,
     airSacWashin95Min: 1.36,
   },
+  // A phased plan (added with phases, 2026-12-02): mask induction, 0.5 min on room air while
+  // intubated, then the tube with IPPV. Regression values of this model version, not truth.
+  'sable-african-grey-mask-then-tube-isoflurane.json': {
+    lossOfRightingMin: 0.6765,
+    surgicalDepthMin: 1.694,
+    firstMovementMin: 4.282,
+    standingMin: 21.15,
+    peakBrainMacMultiple: 1.383,
+    airSacWashin95Min: 2.506,
+  },
 };
 
 /** Relative tolerance of a pinned value: rounding of the pins plus room for harmless refactoring. */
