@@ -339,6 +339,15 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   const laterDeliveries = setup.laterDeliveries ?? [];
   const route = newDeliveryFactors(delivery, laterDeliveries);
   const mixedAtDeliveryEnd: number[] = [];
+  // Copies of the delivery's values for the breath loop, refreshed when it changes.
+  let nextChangeMin = route.nextChangeMin;
+  let onBird = route.onBird;
+  let mixed = route.mixed;
+  let mixedVolume = route.mixedVolumeMl;
+  let mask = route.mask;
+  let maskVolume = route.maskVolumeMl;
+  // Off the bird (the gap) an air-sac tube delivers nothing.
+  let tube = onBird && route.tube;
   const mac = setup.macPct / 100;
   const ippv = ventilation.ippv;
   const ippvFrom = ippv === null ? Number.POSITIVE_INFINITY : ippv.fromMin;
@@ -352,7 +361,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let posterior = initial;
   let lung = initial;
   let anterior = initial;
-  let mixedGas = route.mixed ? initial : 0;
+  let mixedGas = mixed ? initial : 0;
   let maskGas = initial;
   let lastExhaled = initial;
   const state = new Float64Array(bodyState.length);
@@ -413,23 +422,25 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let time = 0;
   let breath = 0;
   while (time < endMin - 1e-12 && !stopRequested) {
-    while (time >= route.nextChangeMin - 1e-9) {
-      const leaving = route.mixed ? mixedGas : 0;
-      if (switchDelivery(route, laterDeliveries)) {
-        // The bird left a system: note its chamber or circle content; the next system starts empty.
-        mixedAtDeliveryEnd.push(leaving);
-        mixedGas = 0;
-        maskGas = 0;
+    if (time >= nextChangeMin - 1e-9) {
+      while (time >= route.nextChangeMin - 1e-9) {
+        const leaving = route.mixed ? mixedGas : 0;
+        if (switchDelivery(route, laterDeliveries)) {
+          // The bird left a system: note its chamber or circle content; the next system starts empty.
+          mixedAtDeliveryEnd.push(leaving);
+          mixedGas = 0;
+          maskGas = 0;
+        }
       }
       factors.tidalMl = -1;
+      nextChangeMin = route.nextChangeMin;
+      onBird = route.onBird;
+      mixed = route.mixed;
+      mixedVolume = route.mixedVolumeMl;
+      mask = route.mask;
+      maskVolume = route.maskVolumeMl;
+      tube = onBird && route.tube;
     }
-    const onBird = route.onBird;
-    const mixed = route.mixed;
-    const mixedVolume = route.mixedVolumeMl;
-    const mask = route.mask;
-    const maskVolume = route.maskVolumeMl;
-    // Off the bird (the gap) an air-sac tube delivers nothing.
-    const tube = onBird && route.tube;
     const brainBefore = state[1] as number;
     let tidal: number;
     let rate: number;
