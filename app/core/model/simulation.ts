@@ -20,6 +20,11 @@
  * the tissue groups and the venous pool: bodyExchangeStep in body-uptake.ts, the one
  * implementation). The exchange step is stable at any length and is kept short for accuracy
  * (bodyStepBound).
+ *
+ * Phases: the setup's first delivery runs from minute 0; each of laterDeliveries takes over at its
+ * startMin (room air until its deliveryFromMin, while its own system fills from empty), with the
+ * bird's gas spaces, blood, tissues and venous pool carried across. The delivery changes only at
+ * those moments (DeliveryFactors, switchDelivery), at the first breath that starts at or after them.
  */
 import {
   bodyBloodFlowMlMin,
