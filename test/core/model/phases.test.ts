@@ -7,6 +7,8 @@ import { routes, type Route } from '../../../app/core/delivery.js';
 import { estimateRespiratory } from '../../../app/core/model/allometry.js';
 import { computePlan } from '../../../app/core/model/compute-plan.js';
 import { defaultMaskLeakFraction } from '../../../app/core/model/parameters.js';
+import { phasedWasteGas } from '../../../app/core/model/phase-budgets.js';
+import { resolvePlanPhases } from '../../../app/core/model/phases.js';
 import type { PlanInput, PlanPhaseChange, PlanResult } from '../../../app/core/model/plan-types.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import { runPlan, setupFor } from './plan-fixtures.js';
@@ -273,6 +275,51 @@ describe('phased plans in the budgets', () => {
     );
     const floor = result.cautions.filter((caution) => caution.code === 'flow-below-practical-minimum');
     expect(floor.map((caution) => caution.message.slice(0, 8))).toEqual(['Phase 2 ']);
+  });
+
+  it('times the waste-gas releases: the mask steps while it is on, the chamber puff at the move', () => {
+    const plan: PlanInput = {
+      bodyMassG: 95,
+      agent: 'isoflurane',
+      route: 'chamber',
+      chamberVolumeL: 3,
+      freshGasLpm: 2,
+      schedule: [
+        { atMin: 0, vaporPct: 5 },
+        { atMin: 6, vaporPct: 2.5 },
+        { atMin: 30, vaporPct: 0 },
+      ],
+      laterPhases: [{ startMin: 6, gapMin: 0.5, route: 'mask', freshGasLpm: 1 }],
+      recoveryWindowMin: 30,
+      uncertainty: { samples: 0, seed: 1 },
+    };
+    const setup = setupFor(plan);
+    const outcome = runPlan(plan);
+    const phases = resolvePlanPhases(plan, setup.endMin);
+    const deliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
+    const waste = phasedWasteGas(
+      plan,
+      phases,
+      deliveries,
+      outcome.mixedPctAtDeliveryEnd,
+      outcome.mixedPctAtInduction,
+      outcome.inductionMin,
+    );
+    const puffs = waste.releases.filter((release) => release.durationMin === 0);
+    expect(puffs).toHaveLength(1);
+    expect(puffs[0]?.startMin).toBe(6);
+    expect(puffs[0]?.vapourMl).toBeCloseTo(3000 * ((outcome.mixedPctAtDeliveryEnd[0] as number) / 100), 9);
+    // The chamber's steady release runs 0-6 min, the mask phase's from 6 min (its gap included) to the vaporiser off at 30.
+    const steady = waste.releases
+      .filter((release) => release.durationMin > 0)
+      .map((release) => [release.startMin, release.startMin + release.durationMin]);
+    expect(steady).toEqual([
+      [0, 6],
+      [6, 30],
+    ]);
+    // Everything released is the sum of the sources.
+    const released = waste.releases.reduce((sum, release) => sum + release.vapourMl, 0);
+    expect(released).toBeCloseTo(waste.releasedVapourMl, 9);
   });
 
   it('releases a mask leak only while the mask is on', () => {
