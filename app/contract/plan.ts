@@ -8,6 +8,7 @@ import { agentIds } from '../core/agents.js';
 import { cautionSeverities } from '../core/cautions.js';
 import { circuits, routes, type Circuit, type Route } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
+import { defaultPhaseGapMin } from '../core/model/phases.js';
 import { bodyTemperatureLimitsC } from '../core/model/temperature.js';
 import { hasLetterOrDigit, hiddenCharacterProblem } from './input-rules.js';
 import type { PlanInput as CorePlanInput, PlanResult as CorePlanResult } from '../core/model/plan-types.js';
@@ -266,24 +267,37 @@ export const planInputSchema = strict(
   const ventilation = plan.ventilation;
   if (ventilation?.mode === 'ippv') {
     const ippvFrom = ventilation.fromMin ?? 0;
+    // A later phase's route delivers from the end of its gap (the default gap when none is set).
+    const deliveryFrom = (phase: (typeof laterPhases)[number]): number =>
+      phase.startMin + (phase.gapMin ?? defaultPhaseGapMin.value);
+    const tubeRoute = (route: Route): boolean => route === 'endotracheal' || route === 'airSacTube';
     const routeAtIppv = laterPhases.reduce<Route>(
-      (route, phase) => (phase.startMin + (phase.gapMin ?? 0) <= ippvFrom ? phase.route : route),
+      (route, phase) => (deliveryFrom(phase) <= ippvFrom ? phase.route : route),
       plan.route,
     );
     const laterTubeRoutes = laterPhases.filter(
-      (phase) =>
-        phase.startMin > ippvFrom && (phase.route === 'endotracheal' || phase.route === 'airSacTube'),
+      (phase) => deliveryFrom(phase) > ippvFrom && tubeRoute(phase.route),
     );
     if (routeAtIppv === 'chamber' || routeAtIppv === 'mask') {
+      const firstTube = laterTubeRoutes[0];
       context.addIssue({
         code: 'custom',
-        path: ['ventilation', laterTubeRoutes.length > 0 ? 'fromMin' : 'mode'],
+        path: ['ventilation', firstTube !== undefined ? 'fromMin' : 'mode'],
         message:
-          laterTubeRoutes.length > 0
-            ? `IPPV needs an endotracheal tube or an air-sac tube: start it once the tube phase is running (from ${String(laterTubeRoutes[0]?.startMin)} min plus the gap)`
+          firstTube !== undefined
+            ? `IPPV needs an endotracheal tube or an air-sac tube: start it once the tube phase is running (from ${String(deliveryFrom(firstTube))} min, after its gap on room air)`
             : 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
       });
     }
+    laterPhases.forEach((phase, index) => {
+      if (deliveryFrom(phase) > ippvFrom && !tubeRoute(phase.route)) {
+        context.addIssue({
+          code: 'custom',
+          path: ['laterPhases', index, 'route'],
+          message: `IPPV runs from ${String(ippvFrom)} min to the end of the plan: a later ${phase.route === 'mask' ? 'mask' : 'chamber'} phase cannot follow it; keep the bird on a tube`,
+        });
+      }
+    });
     const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
     if (ventilation.tidalVolumeMl > expectedTidal * overridePlausibilityFactor) {
       context.addIssue({

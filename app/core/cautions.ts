@@ -49,6 +49,8 @@ export type CautionContext = {
   readonly scavenging?: boolean;
   /** Time the bird spends in the induction chamber, min. */
   readonly chamberExposureMin?: number;
+  /** A phased plan: the route the bird is moved to from the chamber, and when. */
+  readonly chamberMoveTo?: { readonly routeLabel: string; readonly atMin: number };
   /** Predicted peak brain partial pressure as a multiple of the MAC in use. */
   readonly predictedPeakBrainMacMultiple?: number;
   /** The species' published apnoea MAC multiple, when known. */
@@ -297,7 +299,10 @@ function roomCautions(context: CautionContext): Caution[] {
     cautions.push({
       code: 'long-chamber-exposure',
       severity: 'warning',
-      message: `${format(context.chamberExposureMin, 0)} min in the chamber: the bird cannot be watched or supported closely, and opening the chamber releases its agent to the room; move to a mask or tube once it is recumbent`,
+      message:
+        context.chamberMoveTo === undefined
+          ? `${format(context.chamberExposureMin, 0)} min in the chamber: the bird cannot be watched or supported closely, and opening the chamber releases its agent to the room; move to a mask or tube once it is recumbent`
+          : `${format(context.chamberExposureMin, 0)} min in the chamber: the bird cannot be watched or supported closely, and opening the chamber releases its agent to the room; the plan moves it to the ${context.chamberMoveTo.routeLabel.toLowerCase()} at ${format(context.chamberMoveTo.atMin, 1)} min: move it earlier, once it is recumbent`,
       reason: longChamberExposureMin.basis,
     });
   }

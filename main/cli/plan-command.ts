@@ -7,8 +7,9 @@
  */
 import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
 import { clinicalMilestoneLines } from '../../app/core/clinical-milestones.js';
+import { circuitLabels, routeLabels } from '../../app/core/delivery.js';
 import { computePlan } from '../../app/core/model/compute-plan.js';
-import type { PlanResult } from '../../app/core/model/plan-types.js';
+import type { PlanPhaseSummary, PlanResult } from '../../app/core/model/plan-types.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { escapeForTerminal, jsonForTerminal } from './command-io.js';
 
@@ -167,7 +168,9 @@ export function formatPlanSummary(result: PlanResult): string {
     ],
     [
       'Fresh gas',
-      `recommended ${result.flows.recommendedLpm.toFixed(2)} L/min, minimum ${result.flows.minimumLpm.toFixed(2)} L/min`,
+      result.phases.length > 1
+        ? 'per phase, below'
+        : `recommended ${result.flows.recommendedLpm.toFixed(2)} L/min, minimum ${result.flows.minimumLpm.toFixed(2)} L/min`,
     ],
     [
       'Liquid agent',
@@ -188,5 +191,43 @@ export function formatPlanSummary(result: PlanResult): string {
   const cautions = result.cautions.map((caution) => `  [${caution.severity}] ${shown(caution.message)}`);
   // Each milestone's definition, so a figure is never read without what it times.
   const definitions = milestoneLines.map((line) => `  ${line.definition}`);
-  return `${lines.join('\n')}\nMilestones (brain level in the model):\n${definitions.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
+  return `${lines.join('\n')}\n${formatPhases(result.phases)}Milestones (brain level in the model):\n${definitions.join('\n')}\n${cautions.length === 0 ? 'No cautions' : `Cautions:\n${cautions.join('\n')}`}\nEstimates from model ${result.modelVersion}; the veterinarian's judgement decides.\n`;
+}
+
+function figure(value: number): string {
+  return String(Number(value.toFixed(2)));
+}
+
+/** A phase's route and breathing system in words (a chamber has no breathing system of its own). */
+function deliveryWords(phase: PlanPhaseSummary): string {
+  return phase.route === 'chamber'
+    ? routeLabels.chamber
+    : `${routeLabels[phase.route]}, ${circuitLabels[phase.circuit].toLowerCase()}`;
+}
+
+/**
+ * Each phase of a plan (a single-route plan is one phase): its minutes, route and breathing
+ * system, the gap on room air, the set, recommended and minimum flows, the dial steps within it,
+ * and its oxygen and liquid agent.
+ * @param phases the result's phases (empty for results saved before phases: nothing printed)
+ */
+export function formatPhases(phases: readonly PlanPhaseSummary[]): string {
+  if (phases.length === 0) return '';
+  const lines = phases.map((phase) => {
+    const gap =
+      phase.gapMin > 0
+        ? `${figure(phase.gapMin)} min on room air while the bird is moved, then from ${figure(phase.deliveryFromMin)} min: `
+        : '';
+    const flows = phase.flows;
+    const dial = phase.dialSteps
+      .map((step) => `${figure(step.atMin)} min ${figure(step.vaporPct)} %`)
+      .join(', ');
+    return [
+      `  Phase ${String(phase.index + 1)}  ${figure(phase.startMin)}-${figure(phase.endMin)} min  ${gap}${deliveryWords(phase)}`,
+      `    Fresh gas ${phase.freshGasLpm.toFixed(2)} L/min set; recommended ${flows.recommendedLpm.toFixed(2)} L/min, minimum ${flows.minimumLpm.toFixed(2)} L/min${flows.rebreathing ? ' (rebreathes at the set flow)' : ''}`,
+      `    Dial ${dial === '' ? 'no step' : dial}`,
+      `    Oxygen ${phase.oxygenUsedL.toFixed(1)} L, liquid agent ${phase.liquidMl.toFixed(1)} mL`,
+    ].join('\n');
+  });
+  return `Phases:\n${lines.join('\n')}\n`;
 }

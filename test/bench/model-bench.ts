@@ -9,6 +9,8 @@
  *   timed in 7 fresh processes (plan-probe.ts): the engine's optimisation of the long loop can
  *   differ from process to process (see the speed note on `simulate` and docs/model.md, section 10)
  * - plan2hBreaths: breaths simulated in that plan
+ * - plan2hPhasedMedianMs (and CpuMs, Breaths): the same plan with a mask phase to 10 min, then
+ *   0.5 min on room air and an endotracheal tube, timed in the same batches beside the plan
  * - uncertainty500MedianMs: 500-sample uncertainty run of the same plan, median of 15 runs
  * - analyticWashinMedianMs: one-compartment analytic wash-in of the same schedule evaluated at
  *   every breath, in batches alternating with the plan's; planToAnalyticRatio is the median of the
@@ -27,7 +29,7 @@ import { simulate, type ScheduleStep } from '../../app/core/model/simulation.js'
 import { runUncertainty } from '../../app/core/model/uncertainty.js';
 import { agents } from '../../app/core/agents.js';
 import { speciesReference } from '../../app/core/species-reference.js';
-import { twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
+import { twoHourBudgerigarPhasedPlan, twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
 import { median } from './figures.js';
 
 /** Medians of the 2-h plan in `count` fresh Node processes (see plan-probe.ts). */
@@ -44,6 +46,8 @@ function planInFreshProcesses(count: number): number[] {
 
 // The test fixture's 2-h plan, with the default uncertainty run for the whole-plan figure.
 const benchPlan: PlanInput = { ...twoHourBudgerigarPlan, uncertainty: undefined };
+// The same plan as a mask induction, then 0.5 min on room air and a tube for the rest.
+const phasedBenchPlan: PlanInput = { ...twoHourBudgerigarPhasedPlan, uncertainty: undefined };
 
 /** Median wall-clock and process CPU time (user + system) of `runs` calls, in ms. */
 function timeRuns(runs: number, body: () => void): { wallMs: number; cpuMs: number } {
@@ -106,12 +110,22 @@ export async function benchModel(): Promise<Record<string, number>> {
   // The 2-h plan and the analytic wash-in in alternating batches, so that both see the same
   // moments of this shared machine (its speed drifts by up to 2x from second to second); the
   // ratio is taken batch by batch and the spread of the batch medians is reported with them.
+  // The same plan with a mask phase then a tube phase, timed in the same batches beside it.
+  const phasedSetup = buildSimulationSetup(phasedBenchPlan, estimates, mac);
+  let phasedOutcome = simulate(phasedSetup);
+  for (let warm = 0; warm < 30; warm += 1) phasedOutcome = simulate(phasedSetup);
   const planBatches: { wallMs: number; cpuMs: number }[] = [];
+  const phasedBatches: { wallMs: number; cpuMs: number }[] = [];
   const analyticBatches: { wallMs: number; cpuMs: number }[] = [];
   for (let batch = 0; batch < 5; batch += 1) {
     planBatches.push(
       timeRuns(100, () => {
         outcome = simulate(setup);
+      }),
+    );
+    phasedBatches.push(
+      timeRuns(100, () => {
+        phasedOutcome = simulate(phasedSetup);
       }),
     );
     analyticBatches.push(
@@ -165,6 +179,9 @@ export async function benchModel(): Promise<Record<string, number>> {
     plan2hBatchMedianLowMs: Math.min(...planBatchMs),
     plan2hBatchMedianHighMs: Math.max(...planBatchMs),
     plan2hBreaths: outcome.breaths,
+    plan2hPhasedMedianMs: median(phasedBatches.map((batch) => batch.wallMs)),
+    plan2hPhasedCpuMs: median(phasedBatches.map((batch) => batch.cpuMs)),
+    plan2hPhasedBreaths: phasedOutcome.breaths,
     uncertainty500MedianMs: uncertainty500MedianMs.wallMs,
     uncertainty500CpuMs: uncertainty500MedianMs.cpuMs,
     uncertainty500WithBandMedianMs: uncertainty500WithBandMedianMs.wallMs,

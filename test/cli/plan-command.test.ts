@@ -73,6 +73,48 @@ describe('tidewing plan', () => {
       '  Standing or perching: brain below 0.2 x MAC after the vaporiser is off (assumption)',
     );
   });
+  it('prints each phase of a phased plan with its flows, dial steps, oxygen and liquid, and every milestone', async () => {
+    const phased = 'examples/plans/sable-african-grey-mask-then-tube-isoflurane.json';
+    const { code, stdout, stderr } = await run([phased, '--summary']);
+    expect(code).toBe(0);
+    expect(stderr).toBe('');
+    const lines = stdout.split('\n');
+    const at = (prefix: string): number => lines.findIndex((row) => row.startsWith(prefix));
+    // The mask phase, then the tube phase after its room-air gap, each with its own flows.
+    expect(lines[at('  Phase 1 ')]).toBe('  Phase 1  0-6 min  Face mask, non-rebreathing system');
+    expect(lines[at('  Phase 2 ')]).toBe(
+      '  Phase 2  6-90 min  0.5 min on room air while the bird is moved, then from 6.5 min: Endotracheal tube, non-rebreathing system',
+    );
+    for (const phase of [1, 2]) {
+      const first = at(`  Phase ${String(phase)} `);
+      expect(lines[first + 1]).toMatch(
+        /^ {4}Fresh gas \d+\.\d\d L\/min set; recommended \d+\.\d\d L\/min, minimum \d+\.\d\d L\/min/,
+      );
+      expect(lines[first + 2]).toMatch(/^ {4}Dial \d/);
+      expect(lines[first + 3]).toMatch(/^ {4}Oxygen \d+\.\d L, liquid agent \d+\.\d mL$/);
+    }
+    // The set flows are the plan file's: 1 L/min on the mask, 0.6 L/min on the tube.
+    expect(lines[at('  Phase 1 ') + 1]).toContain('Fresh gas 1.00 L/min set');
+    expect(lines[at('  Phase 2 ') + 1]).toContain('Fresh gas 0.60 L/min set');
+    expect(lines[at('  Phase 1 ') + 2]).toBe('    Dial 0 min 5 %, 2 min 3 %');
+    expect(lines[at('  Phase 2 ') + 2]).toBe('    Dial 6 min 2 %, 60 min 0 %');
+    // Every clinical milestone, with its figure.
+    for (const label of [
+      'Loss of righting ',
+      'Planned surgical depth ',
+      'First movement or head lift after off ',
+      'Standing or perching after off ',
+    ])
+      expect(lines[at(label)]).toMatch(/ {2}\d+(\.\d+)? min/);
+    // The tube's caution is named with its phase.
+    expect(stdout).toContain('Phase 2 (Endotracheal tube, from 6 min): Use an uncuffed tube');
+  });
+  it('prints a single-route plan as one phase', async () => {
+    const { code, stdout } = await run([example, '--summary']);
+    expect(code).toBe(0);
+    expect(stdout).toContain('Phases:\n  Phase 1  0-60 min  Face mask, non-rebreathing system\n');
+    expect(stdout).not.toContain('Phase 2');
+  });
   it('exits 2 on bad JSON with a message and nothing on standard output', async () => {
     const { code, stdout, stderr } = await run(['-'], '{ "bodyMassG": 32, ');
     expect(code).toBe(2);

@@ -164,6 +164,27 @@ const bad: Case[] = [
     words: 'IPPV needs an endotracheal tube',
   },
   {
+    name: 'IPPV starting in the default room-air gap before the tube phase',
+    plan: {
+      ...valid,
+      laterPhases: [{ startMin: 5, route: 'endotracheal', freshGasLpm: 0.5 }],
+      ventilation: { mode: 'ippv', breathsPerMin: 20, tidalVolumeMl: 0.3, fromMin: 5 },
+    },
+    field: 'ventilation.fromMin',
+    words: 'start it once the tube phase is running (from 5.5 min, after its gap on room air)',
+  },
+  {
+    name: 'a mask phase after IPPV has started',
+    plan: {
+      ...valid,
+      route: 'endotracheal',
+      laterPhases: [{ startMin: 5, route: 'mask', freshGasLpm: 0.5 }],
+      ventilation: { mode: 'ippv', breathsPerMin: 20, tidalVolumeMl: 0.3 },
+    },
+    field: 'laterPhases[0].route',
+    words: 'a later mask phase cannot follow it',
+  },
+  {
     name: 'IPPV without rate',
     plan: { ...valid, route: 'endotracheal', ventilation: { mode: 'ippv', tidalVolumeMl: 0.3 } },
     field: 'ventilation.breathsPerMin',

@@ -2,26 +2,30 @@
  * The plan assembler: turns a validated plan into estimates, a simulated time course,
  * milestones, uncertainty bands, flows, budgets, waste gas and cautions.
  */
-import { resolvePlanPhases } from './phases.js';
 import { agents } from '../agents.js';
 import {
   vaporiserDialLimitPct,
-  vapourFlowMlPerMin,
   liquidAgentMlForSchedule,
   liquidMlPerHour,
   saturatedConcentrationPct,
   vapourMlPerLiquidMl,
+  type FreshGasInput,
 } from '../budget/consumption.js';
-import {
-  practicalMinimumFlowLpm,
-  chamberTimeToFractionMin,
-  rebreathingCheck,
-  recommendFreshGas,
-  type FreshGasInputs,
-} from '../budget/flows.js';
 import { oxygenBudget } from '../budget/oxygen.js';
-import { nioshCeilingPpm, wasteGasExposure, wasteGasRelease, type RoomRelease } from '../budget/waste-gas.js';
-import { collectCautions, type Caution, type CautionContext } from '../cautions.js';
+import { nioshCeilingPpm, wasteGasExposure } from '../budget/waste-gas.js';
+import type { Caution, CautionContext } from '../cautions.js';
+import {
+  cautionsByPhase,
+  phaseCautionFields,
+  phasedWasteGas,
+  phaseFlowBudget,
+  phaseSummaries,
+  planFreshGas,
+  practicalMinimumCautions,
+  type PhaseDeliveries,
+  type PhaseFlowBudget,
+} from './phase-budgets.js';
+import { deliveriesOf, phaseAt, resolvePlanPhases, type ResolvedPlanPhase } from './phases.js';
 import type { SpeciesReference } from '../species-reference.js';
 import {
   cardiacDepressionFloor,
@@ -42,8 +46,6 @@ import type { BodyModel, TissueGroup } from './body-uptake.js';
 import { gasSpaceWash } from './milestones.js';
 import {
   bloodVolumeFraction,
-  defaultMaskDeadSpaceTidalMultiple,
-  defaultMaskLeakFraction,
   defaultRecoveryMacFraction,
   defaultTargetMacMultiple,
   lossOfRightingMacFraction,
@@ -63,7 +65,9 @@ import type {
   PlanTimeline,
   PlanUncertainty,
 } from './plan-types.js';
-import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+import { simulate, type DeliverySetup, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+
+export { stepReleases } from './phase-budgets.js';
 import { runUncertainty, type MilestoneBand } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
@@ -227,11 +231,8 @@ export function buildSimulationSetup(
   species?: SpeciesReference,
 ): SimulationSetup {
   const depression = depressionRuleOf(input.agent, species);
-  const circuit = input.circuit ?? 'nonRebreathing';
-  const mixed = input.route === 'chamber' || circuit === 'circle';
-  const mixedVolumeMl =
-    input.route === 'chamber' ? (input.chamberVolumeL ?? 1) * 1000 : (input.circuitVolumeL ?? 3) * 1000;
   const endMin = planEndMin(input);
+  const deliveries = deliveriesOf(resolvePlanPhases(input, endMin), estimates.tidalVolumeMl.value);
   const ventilation = input.ventilation ?? { mode: 'spontaneous' as const };
   const targetMultiple = input.targetMacMultiple ?? defaultTargetMacMultiple.value;
   const recoveryFraction = input.recoveryMacFraction ?? defaultRecoveryMacFraction.value;
@@ -249,16 +250,8 @@ export function buildSimulationSetup(
       input.agent,
       planBodyTemperatureC(input),
     ),
-    delivery: {
-      source: mixed ? 'mixed' : 'open',
-      freshGasMlMin: input.freshGasLpm * 1000,
-      mixedVolumeMl,
-      rebreathingFlowMultiple: rebreathingFlowMultiple.value,
-      interface: input.route === 'mask' ? 'mask' : input.route === 'airSacTube' ? 'airSacTube' : 'direct',
-      maskDeadSpaceMl:
-        input.maskDeadSpaceMl ?? defaultMaskDeadSpaceTidalMultiple.value * estimates.tidalVolumeMl.value,
-      maskLeakFraction: input.maskLeakFraction ?? defaultMaskLeakFraction.value,
-    },
+    delivery: deliveries.first,
+    ...(deliveries.later.length === 0 ? {} : { laterDeliveries: deliveries.later }),
     ventilation: {
       restingTidalVolumeMl: estimates.tidalVolumeMl.value,
       restingBreathsPerMin: estimates.breathsPerMin.value,
@@ -392,10 +385,14 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
   const mac = resolveMac(input, species);
   const setup = buildSimulationSetup(input, estimates, mac, species);
   const outcome = simulate(setup);
-  const circuit = input.circuit ?? 'nonRebreathing';
-  const route = input.route;
   const offMin = setup.offMin;
-  const tube = route === 'airSacTube';
+  const phases = resolvePlanPhases(input, setup.endMin);
+  const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
+  // The air-sac wash times follow the route at induction (the first phase) and when the vaporiser goes off.
+  const tubeFlowAt = (timeMin: number): number => {
+    const phase = phaseAt(phases, timeMin);
+    return phase.route === 'airSacTube' ? (phaseDeliveries[phase.index] as DeliverySetup).freshGasMlMin : 0;
+  };
 
   // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
   const startVentilation =
@@ -408,7 +405,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     tidalVolumeMl: startVentilation.tidal,
     breathsPerMin: startVentilation.rate,
     direction: 'in',
-    airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
+    airSacTubeMlMin: tubeFlowAt(0),
   });
   const offVentilation = outcome.atOff ?? {
     tidalVolumeMl: startVentilation.tidal,
@@ -420,7 +417,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     tidalVolumeMl: offVentilation.tidalVolumeMl,
     breathsPerMin: offVentilation.breathsPerMin,
     direction: 'out',
-    airSacTubeMlMin: tube ? setup.delivery.freshGasMlMin : 0,
+    airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
   });
 
   const sampled = runUncertainty({
@@ -489,48 +486,25 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     ],
   };
 
-  // Flows.
-  // The flow rules accept 0.1-100000 mL/min; values outside are not a breathing bird.
-  // Under IPPV the flow rules follow the set ventilation (the larger of resting and set when IPPV starts later).
-  const ventilationPlan = input.ventilation;
-  const setMinuteVentilation =
-    ventilationPlan?.mode === 'ippv' ? ventilationPlan.tidalVolumeMl * ventilationPlan.breathsPerMin : null;
-  const flowMinuteVentilation =
-    setMinuteVentilation === null
-      ? estimates.minuteVentilationMlMin.value
-      : (ventilationPlan?.mode === 'ippv' ? (ventilationPlan.fromMin ?? 0) : 0) > 0
-        ? Math.max(setMinuteVentilation, estimates.minuteVentilationMlMin.value)
-        : setMinuteVentilation;
-  const minuteVentilation = Math.min(100000, Math.max(0.1, flowMinuteVentilation));
-  const flowInputs: FreshGasInputs = {
-    route,
-    circuit,
-    bodyMassG: input.bodyMassG,
-    minuteVentilationMlMin: minuteVentilation,
-    ...(input.chamberVolumeL === undefined ? {} : { chamberVolumeL: input.chamberVolumeL }),
-    ...(input.circuitVolumeL === undefined ? {} : { circuitVolumeL: input.circuitVolumeL }),
-    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
-  };
-  const recommendation = recommendFreshGas(flowInputs);
-  const rebreathing = rebreathingCheck({
-    circuit,
-    freshGasLpm: input.freshGasLpm,
-    minuteVentilationMlMin: minuteVentilation,
-    bodyMassG: input.bodyMassG,
-    route,
-    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
-  });
-  const chamberTime =
-    route === 'chamber' && input.chamberVolumeL !== undefined
-      ? chamberTimeToFractionMin(input.chamberVolumeL, input.freshGasLpm)
-      : null;
+  // Flows: each phase's own rule for its route and breathing system; the plan's are the first phase's.
+  const phaseFlows = phases.map((phase, index) =>
+    phaseFlowBudget(
+      input,
+      estimates,
+      phase,
+      index === phases.length - 1,
+      phaseDeliveries[index] as DeliverySetup,
+    ),
+  );
+  const { flows } = phaseFlows[0] as PhaseFlowBudget;
 
   const temperatureC = input.vaporiserTemperatureC ?? 20;
   const endMin = setup.endMin;
-  const consumption = consumptionOf(input, endMin, temperatureC);
-  const oxygen = oxygenOf(input, endMin);
+  const freshGas = planFreshGas(phases);
+  const consumption = consumptionOf(input, phases, freshGas, endMin, temperatureC);
+  const oxygen = oxygenOf(input, freshGas, endMin);
   const scavenging = input.scavenging ?? false;
-  const wasteGas = wasteGasOf(input, setup, outcome);
+  const wasteGas = wasteGasOf(input, phases, phaseDeliveries, outcome);
 
   // Cautions.
   const highestDialPct = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
@@ -548,13 +522,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     highestDialPct,
     saturatedPct: saturatedConcentrationPct(input.agent, temperatureC),
     temperatureC,
-    freshGasLpm: input.freshGasLpm,
-    // The rebreathing caution compares with the flow below which the system rebreathes; a chamber with its own minimum.
-    minimumFreshGasLpm: route === 'chamber' ? recommendation.minimumLpm : rebreathing.rebreathingBelowLpm,
-    route,
-    circuit,
     scavenging,
-    ...(route === 'chamber' ? { chamberExposureMin: outcome.inductionMin ?? endMin } : {}),
     predictedPeakBrainMacMultiple: outcome.peakBrainMacMultiple,
     peakInspiredMacMultiple: outcome.peakInspiredPct / mac.valuePct,
     macIsPublishedForBird: mac.publishedForBird,
@@ -562,11 +530,16 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     wasteGasHourMeanPpm: wasteGas.highestHourMeanPpm,
     ventilationMode: input.ventilation?.mode ?? 'spontaneous',
   };
+  // The route's cautions per phase (the rebreathing limit, a chamber's own minimum and time in it).
+  const phaseCautionContexts = phases.map((_, index) =>
+    phaseCautionFields(phases, index, phaseFlows[index] as PhaseFlowBudget, outcome.inductionMin),
+  );
   const cautions: Caution[] = [
-    ...collectCautions(cautionContext),
+    ...cautionsByPhase(cautionContext, phases, phaseCautionContexts),
     ...modelCautions(input, outcome, offMin, endMin, species),
     ...bandCautions(uncertainty),
-    ...budgetCautions(input, recommendation.minimumLpm),
+    ...budgetCautions(input),
+    ...practicalMinimumCautions(phases, phaseFlows),
   ];
   if (input.speciesId !== undefined && species === undefined) {
     cautions.push({
@@ -578,39 +551,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     });
   }
 
-  const flows = {
-    recommendedLpm: recommendation.recommendedLpm,
-    minimumLpm: recommendation.minimumLpm,
-    rule: recommendation.rule,
-    basis: recommendation.basis,
-    rebreathing: rebreathing.rebreathing,
-    rebreathingReason: rebreathing.reason,
-    chamberTimeTo95Min: chamberTime,
-  };
-  const phases = resolvePlanPhases(input, endMin).map((phase) => ({
-    index: phase.index,
-    startMin: phase.startMin,
-    gapMin: phase.gapMin,
-    deliveryFromMin: phase.deliveryFromMin,
-    endMin: phase.endMin,
-    route: phase.route,
-    circuit: phase.circuit,
-    freshGasLpm: phase.freshGasLpm,
-    dialSteps: phase.dialSteps,
-    // Later phases' own flow rules, delivery in the simulation and waste-gas events: in progress.
-    flows,
-    oxygenUsedL: phase.freshGasLpm * (phase.endMin - phase.startMin),
-    liquidMl: liquidAgentMlForSchedule({
-      agent: input.agent,
-      schedule: phase.dialSteps.map((step) => ({
-        atMin: step.atMin - phase.startMin,
-        vaporPct: step.vaporPct,
-      })),
-      freshGasLpm: phase.freshGasLpm,
-      endMin: phase.endMin - phase.startMin,
-      temperatureC,
-    }),
-  }));
+  const phaseResults = phaseSummaries(input, phases, phaseFlows, temperatureC);
 
   const totals = outcome.totals;
   return {
@@ -625,7 +566,7 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
         ? { value: defaultRecoveryMacFraction.value, basis: defaultRecoveryMacFraction.basis }
         : { value: input.recoveryMacFraction, basis: 'entered for this plan' },
     estimates,
-    phases,
+    phases: phaseResults,
     timeline: timelineOf(outcome, setup.sampleIntervalMin),
     milestones: {
       inductionMin: outcome.inductionMin,
@@ -742,36 +683,8 @@ function bandCautions(uncertainty: PlanResult['uncertainty']): Caution[] {
   return cautions;
 }
 
-/**
- * Releases of waste gas to the room, one per vaporiser step that is on, at that step's rate: the
- * vapour the vaporiser puts out in the step (carrier flow x c / (1 - c) x duration), scaled so
- * that the steps together release `totalMl`.
- * @param schedule vaporiser steps sorted by atMin
- * @param freshGasLpm carrier flow, L/min
- * @param endMin end of the plan, min
- * @param totalMl vapour released to the room by the steady sources (exhaust, mask leak), mL
- */
-export function stepReleases(
-  schedule: PlanInput['schedule'],
-  freshGasLpm: number,
-  endMin: number,
-  totalMl: number,
-): RoomRelease[] {
-  const steps = schedule.map((step, index) => {
-    const until = Math.min(endMin, schedule[index + 1]?.atMin ?? endMin);
-    const durationMin = Math.max(0, until - step.atMin);
-    const vapourMl = step.vaporPct > 0 ? vapourFlowMlPerMin(freshGasLpm, step.vaporPct) * durationMin : 0;
-    return { startMin: step.atMin, durationMin, vapourMl };
-  });
-  const delivered = steps.reduce((sum, step) => sum + step.vapourMl, 0);
-  if (!(delivered > 0) || !(totalMl > 0)) return [];
-  return steps
-    .filter((step) => step.vapourMl > 0 && step.durationMin > 0)
-    .map((step) => ({ ...step, vapourMl: (totalMl * step.vapourMl) / delivered }));
-}
-
-/** Cautions of the budgets: a dial above the agent's vaporiser, a flow below the practical minimum. */
-function budgetCautions(input: PlanInput, minimumLpm: number): Caution[] {
+/** Cautions of the budgets: a dial above the agent's vaporiser (a flow below the practical minimum: per phase). */
+function budgetCautions(input: PlanInput): Caution[] {
   const cautions: Caution[] = [];
   const limit = vaporiserDialLimitPct[input.agent];
   const highest = input.schedule.reduce((peak, step) => Math.max(peak, step.vaporPct), 0);
@@ -782,31 +695,35 @@ function budgetCautions(input: PlanInput, minimumLpm: number): Caution[] {
       message: `The schedule's dial setting ${String(highest)} % is above the ${String(limit.value)} % that a ${input.agent} vaporiser can be set to: lower the step in the vaporiser schedule`,
       reason: limit.basis,
     });
-  if (input.freshGasLpm < practicalMinimumFlowLpm.value)
-    cautions.push({
-      code: 'flow-below-practical-minimum',
-      severity: 'notice',
-      message: `Fresh gas flow ${String(input.freshGasLpm)} L/min is below the practical minimum of ${String(practicalMinimumFlowLpm.value)} L/min: set at least ${minimumLpm.toFixed(2)} L/min`,
-      reason: practicalMinimumFlowLpm.basis,
-    });
   return cautions;
 }
 
 /**
- * Liquid agent used by the plan's schedule and per hour at the maintenance dial.
+ * Liquid agent used by the plan's schedule and per hour at the maintenance dial (at the flow of
+ * the phase in which that dial step runs).
  * @param input plan
+ * @param phases the plan's phases
+ * @param freshGas the flow: one number, or one flowmeter step per phase
  * @param endMin end of the simulated period, min
  * @param temperatureC vaporiser temperature, C
  */
-function consumptionOf(input: PlanInput, endMin: number, temperatureC: number): PlanResult['consumption'] {
+function consumptionOf(
+  input: PlanInput,
+  phases: readonly ResolvedPlanPhase[],
+  freshGas: FreshGasInput,
+  endMin: number,
+  temperatureC: number,
+): PlanResult['consumption'] {
   const nonZero = input.schedule.filter((step) => step.vaporPct > 0);
-  const maintenanceVaporPct = nonZero[nonZero.length - 1]?.vaporPct ?? 0;
+  const maintenanceStep = nonZero[nonZero.length - 1];
+  const maintenanceVaporPct = maintenanceStep?.vaporPct ?? 0;
+  const maintenanceFlowLpm = phaseAt(phases, maintenanceStep?.atMin ?? 0).freshGasLpm;
   const consumption = {
     vapourMlPerLiquidMl: vapourMlPerLiquidMl(input.agent, temperatureC),
     liquidMl: liquidAgentMlForSchedule({
       agent: input.agent,
       schedule: input.schedule,
-      freshGasLpm: input.freshGasLpm,
+      freshGasLpm: freshGas,
       endMin,
       temperatureC,
     }),
@@ -814,7 +731,7 @@ function consumptionOf(input: PlanInput, endMin: number, temperatureC: number): 
     liquidMlPerHour: liquidMlPerHour({
       agent: input.agent,
       vaporPct: maintenanceVaporPct,
-      freshGasLpm: input.freshGasLpm,
+      freshGasLpm: maintenanceFlowLpm,
       temperatureC,
     }),
     basis:
@@ -826,10 +743,18 @@ function consumptionOf(input: PlanInput, endMin: number, temperatureC: number): 
 /**
  * Oxygen used over the planned time and, with a cylinder, its endurance.
  * @param input plan
+ * @param freshGas the flow: one number, or one flowmeter step per phase
  * @param endMin end of the simulated period, min
  */
-function oxygenOf(input: PlanInput, endMin: number): PlanResult['oxygen'] {
-  const oxygenUsedL = input.freshGasLpm * endMin;
+function oxygenOf(input: PlanInput, freshGas: FreshGasInput, endMin: number): PlanResult['oxygen'] {
+  const oxygenUsedL =
+    typeof freshGas === 'number'
+      ? freshGas * endMin
+      : freshGas.reduce(
+          (sum, step, index) =>
+            sum + step.freshGasLpm * (Math.min(endMin, freshGas[index + 1]?.atMin ?? endMin) - step.atMin),
+          0,
+        );
   const oxygen =
     input.cylinder === undefined
       ? {
@@ -842,7 +767,7 @@ function oxygenOf(input: PlanInput, endMin: number): PlanResult['oxygen'] {
         }
       : (() => {
           const budget = oxygenBudget({
-            freshGasLpm: input.freshGasLpm,
+            freshGasLpm: freshGas,
             durationMin: endMin,
             cylinder: input.cylinder,
           });
@@ -859,49 +784,34 @@ function oxygenOf(input: PlanInput, endMin: number): PlanResult['oxygen'] {
 }
 
 /**
- * Waste gas released to the room and the room concentration it gives, each vaporiser step at its
- * own rate and a chamber opening as a puff at induction.
+ * Waste gas released to the room and the room concentration it gives: each phase's vaporiser
+ * steps at their own rates, a chamber opened as a puff when the bird is taken out
+ * (phasedWasteGas in phase-budgets.ts).
  * @param input plan
- * @param setup the simulation setup of the plan
- * @param outcome the simulation outcome (chamber concentration and time of induction)
+ * @param phases the plan's phases
+ * @param deliveries each phase's delivery as simulated
+ * @param outcome the simulation outcome (chamber content at each phase's end and at induction)
  */
 function wasteGasOf(
   input: PlanInput,
-  setup: SimulationSetup,
+  phases: readonly ResolvedPlanPhase[],
+  deliveries: PhaseDeliveries,
   outcome: SimulationOutcome,
 ): PlanResult['wasteGas'] {
-  const route = input.route;
-  const endMin = setup.endMin;
   const scavenging = input.scavenging ?? false;
   const room = input.room ?? {
     volumeM3: defaultRoom.volumeM3,
     airChangesPerHour: defaultRoom.airChangesPerHour,
   };
-  const release = wasteGasRelease({
-    agent: input.agent,
-    route,
-    schedule: input.schedule,
-    freshGasLpm: input.freshGasLpm,
-    endMin,
-    scavenging,
-    ...(route === 'chamber' && input.chamberVolumeL !== undefined
-      ? {
-          chamberVolumeL: input.chamberVolumeL,
-          chamberConcentrationAtOpeningPct: Math.max(0, outcome.mixedPctAtInduction),
-        }
-      : {}),
-    ...(route === 'mask' ? { maskLeakFraction: setup.delivery.maskLeakFraction } : {}),
-  });
-  const chamberOpened = release.sources.find((source) => source.source === 'chamberOpened');
-  const steady = release.sources
-    .filter((source) => source.source !== 'chamberOpened')
-    .reduce((sum, source) => sum + source.vapourMl, 0);
-  const extraReleases: RoomRelease[] = [
-    ...stepReleases(input.schedule, input.freshGasLpm, endMin, steady),
-    ...(chamberOpened === undefined
-      ? []
-      : [{ startMin: outcome.inductionMin ?? endMin, durationMin: 0, vapourMl: chamberOpened.vapourMl }]),
-  ];
+  const release = phasedWasteGas(
+    input,
+    phases,
+    deliveries,
+    outcome.mixedPctAtDeliveryEnd,
+    outcome.mixedPctAtInduction,
+    outcome.inductionMin,
+  );
+  const extraReleases = release.releases;
   const exposure = wasteGasExposure({
     agent: input.agent,
     // Everything is released step by step (extraReleases), none spread over the whole plan.

@@ -4,8 +4,14 @@
  * into its sequence of phases; the simulation, the budgets, the screens and the worksheet read it.
  */
 import type { Circuit, Route } from '../delivery.js';
-import type { ModelParameter } from './parameters.js';
+import {
+  defaultMaskDeadSpaceTidalMultiple,
+  defaultMaskLeakFraction,
+  rebreathingFlowMultiple,
+  type ModelParameter,
+} from './parameters.js';
 import type { PlanInput, PlanScheduleStep } from './plan-types.js';
+import type { DeliverySetup, TimedDelivery } from './simulation.js';
 
 /** Room-air gap while the bird is moved between phases when the plan does not set one. */
 export const defaultPhaseGapMin: ModelParameter = {
@@ -91,4 +97,55 @@ export function resolvePlanPhases(input: PlanInput, planEndMin: number): Resolve
       dialSteps: dialStepsWithin(input.schedule, phase.startMin, endMin),
     };
   });
+}
+
+/**
+ * What the simulation needs of a phase's route and breathing system: an open (non-rebreathing)
+ * or mixed (chamber, circle) source, its flow and volume, and the interface (mask, tube, air-sac
+ * tube). The chamber defaults to 1 L and the circle to 3 L when the plan gives none (the contract
+ * asks for both).
+ * @param phase a resolved phase
+ * @param restingTidalVolumeMl the bird's tidal volume, mL (sets a mask's default dead space)
+ */
+export function deliverySetupOf(phase: ResolvedPlanPhase, restingTidalVolumeMl: number): DeliverySetup {
+  const mixed = phase.route === 'chamber' || phase.circuit === 'circle';
+  return {
+    source: mixed ? 'mixed' : 'open',
+    freshGasMlMin: phase.freshGasLpm * 1000,
+    mixedVolumeMl:
+      phase.route === 'chamber' ? (phase.chamberVolumeL ?? 1) * 1000 : (phase.circuitVolumeL ?? 3) * 1000,
+    rebreathingFlowMultiple: rebreathingFlowMultiple.value,
+    interface: phase.route === 'mask' ? 'mask' : phase.route === 'airSacTube' ? 'airSacTube' : 'direct',
+    maskDeadSpaceMl: phase.maskDeadSpaceMl ?? defaultMaskDeadSpaceTidalMultiple.value * restingTidalVolumeMl,
+    maskLeakFraction: phase.maskLeakFraction ?? defaultMaskLeakFraction.value,
+    ...(phase.maskDeadSpaceMl === undefined ? {} : { maskDeadSpaceEntered: true }),
+  };
+}
+
+/**
+ * The simulation's deliveries of a plan: the first phase's from minute 0 and each later phase's
+ * with the minute it starts and the minute its gap on room air ends.
+ */
+export function deliveriesOf(
+  phases: readonly ResolvedPlanPhase[],
+  restingTidalVolumeMl: number,
+): { readonly first: DeliverySetup; readonly later: readonly TimedDelivery[] } {
+  const [first, ...later] = phases;
+  if (first === undefined) throw new RangeError('a plan has at least one phase');
+  return {
+    first: deliverySetupOf(first, restingTidalVolumeMl),
+    later: later.map((phase) => ({
+      startMin: phase.startMin,
+      deliveryFromMin: phase.deliveryFromMin,
+      delivery: deliverySetupOf(phase, restingTidalVolumeMl),
+    })),
+  };
+}
+
+/** The phase running at `timeMin` (the last that started at or before it). */
+export function phaseAt<T extends { readonly startMin: number }>(phases: readonly T[], timeMin: number): T {
+  let found = phases[0];
+  for (const phase of phases) if (phase.startMin <= timeMin) found = phase;
+  if (found === undefined) throw new RangeError('a plan has at least one phase');
+  return found;
 }

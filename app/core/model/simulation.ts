@@ -20,6 +20,11 @@
  * the tissue groups and the venous pool: bodyExchangeStep in body-uptake.ts, the one
  * implementation). The exchange step is stable at any length and is kept short for accuracy
  * (bodyStepBound).
+ *
+ * Phases: the setup's first delivery runs from minute 0; each of laterDeliveries takes over at its
+ * startMin (room air until its deliveryFromMin, while its own system fills from empty), with the
+ * bird's gas spaces, blood, tissues and venous pool carried across. The delivery changes only at
+ * those moments (DeliveryFactors, switchDelivery), at the first breath that starts at or after them.
  */
 import {
   bodyBloodFlowMlMin,
@@ -56,6 +61,21 @@ export type DeliverySetup = {
    * air drawn into the breath follows from the flows instead (maskEntrainedShare).
    */
   readonly maskLeakFraction: number;
+  /** The mask's dead space was entered for this plan (not sampled by the uncertainty run). */
+  readonly maskDeadSpaceEntered?: boolean;
+};
+
+/**
+ * A later delivery of a phased plan: from `startMin` the bird is off the previous route and
+ * breathes room air (the gap, while it is intubated or the mask is fitted); from `deliveryFromMin`
+ * it breathes from `delivery`. The new system is on the flowmeter from `startMin`, so a chamber,
+ * circle or mask fills with fresh gas during the gap (it starts empty at `startMin`).
+ */
+export type TimedDelivery = {
+  readonly startMin: number;
+  /** startMin plus the gap on room air, min. */
+  readonly deliveryFromMin: number;
+  readonly delivery: DeliverySetup;
 };
 
 export type VentilationSetup = {
@@ -107,7 +127,10 @@ export type PhaseSnapshot = {
 export type SimulationSetup = {
   readonly gasPath: GasPath;
   readonly body: BodyModel;
+  /** The first delivery, from minute 0. */
   readonly delivery: DeliverySetup;
+  /** Later deliveries of a phased plan, in time order; absent or empty: one delivery throughout. */
+  readonly laterDeliveries?: readonly TimedDelivery[];
   readonly ventilation: VentilationSetup;
   readonly schedule: readonly ScheduleStep[];
   readonly endMin: number;
@@ -194,6 +217,11 @@ export type SimulationOutcome = {
   readonly atOff: { readonly tidalVolumeMl: number; readonly breathsPerMin: number } | null;
   /** Chamber or circle concentration (vol %) at induction, or at the end when never reached. */
   readonly mixedPctAtInduction: number;
+  /**
+   * Chamber or circle concentration (vol %) of each delivery (the first, then the later ones) when
+   * its phase ends: when the bird is taken out for the next phase, or at the end of the run.
+   */
+  readonly mixedPctAtDeliveryEnd: readonly number[];
 };
 
 /**
@@ -322,12 +350,19 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   // Exchange steps per minute that keep Q dt / V_blood and the fastest tissue's Qi dt / (lambda_i Vi)
   // at or below bodyStepBound (accuracy; the step itself is stable at any length).
   const stepsPerMin = Math.max(bloodFlow / bloodVolume, fastestTissueRate) / bodyStepBound;
-  const freshFlow = delivery.freshGasMlMin;
-  const mixed = delivery.source === 'mixed';
-  const mixedVolume = delivery.mixedVolumeMl;
-  const mask = delivery.interface === 'mask';
-  const tube = delivery.interface === 'airSacTube';
-  const maskVolume = Math.max(delivery.maskDeadSpaceMl, 1e-9);
+  // The delivery in use; it changes only at a phase's start and at the end of its gap.
+  const laterDeliveries = setup.laterDeliveries ?? [];
+  const route = newDeliveryFactors(delivery, laterDeliveries);
+  const mixedAtDeliveryEnd: number[] = [];
+  // Copies of the delivery's values for the breath loop, refreshed when it changes.
+  let nextChangeMin = route.nextChangeMin;
+  let onBird = route.onBird;
+  let mixed = route.mixed;
+  let mixedVolume = route.mixedVolumeMl;
+  let mask = route.mask;
+  let maskVolume = route.maskVolumeMl;
+  // Off the bird (the gap) an air-sac tube delivers nothing.
+  let tube = onBird && route.tube;
   const mac = setup.macPct / 100;
   const ippv = ventilation.ippv;
   const ippvFrom = ippv === null ? Number.POSITIVE_INFINITY : ippv.fromMin;
@@ -408,6 +443,25 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   let time = 0;
   let breath = 0;
   while (time < endMin - 1e-12 && !stopRequested) {
+    if (time >= nextChangeMin - 1e-9) {
+      while (time >= route.nextChangeMin - 1e-9) {
+        const leaving = route.mixed ? mixedGas : 0;
+        if (switchDelivery(route, laterDeliveries)) {
+          // The bird left a system: note its chamber or circle content; the next system starts empty.
+          mixedAtDeliveryEnd.push(leaving);
+          mixedGas = 0;
+          maskGas = 0;
+        }
+      }
+      factors.tidalMl = -1;
+      nextChangeMin = route.nextChangeMin;
+      onBird = route.onBird;
+      mixed = route.mixed;
+      mixedVolume = route.mixedVolumeMl;
+      mask = route.mask;
+      maskVolume = route.maskVolumeMl;
+      tube = onBird && route.tube;
+    }
     const brainBefore = state[1] as number;
     breathStartBody[0] = state[bodyState.arterial] as number;
     breathStartBody[1] = brainBefore;
@@ -438,7 +492,7 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     if (offMin !== null && atOff === null && time >= offMin)
       atOff = { tidalVolumeMl: tidal, breathsPerMin: rate };
     if (tidal !== factors.tidalMl || rate !== factors.breathsPerMin || cardiac !== factors.flowScale) {
-      setBreathFactors(factors, setup, tidal, rate, stepsPerMin, cardiac);
+      setBreathFactors(factors, setup, route, tidal, rate, stepsPerMin, cardiac);
       if (prefix.length < factors.substeps + 1) prefix = new Float64Array(factors.substeps + 1);
     }
     const {
@@ -461,10 +515,12 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     // The flowmeter sets the carrier: the vaporiser adds c / (1 - c) of it as vapour (as in consumption.ts).
     const vapourPerCarrier = fresh < 1 ? fresh / (1 - fresh) : fresh;
 
-    // Source gas offered at the airway opening during this inspiration.
-    const source = mixed ? mixedGas : freshShare * fresh + (1 - freshShare) * lastExhaled;
+    // Source gas offered at the airway opening during this inspiration (off the bird: what the
+    // system holds or is fed, which the bird does not breathe).
+    const source = mixed ? mixedGas : onBird ? freshShare * fresh + (1 - freshShare) * lastExhaled : fresh;
     let inspired: number;
-    if (tube) {
+    if (tube || !onBird) {
+      // An air-sac tube: the trachea breathes room air; in the gap the bird breathes room air.
       inspired = 0;
     } else if (mask) {
       const fromMask = tidal < maskVolume ? tidal : maskVolume;
@@ -509,9 +565,9 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     let exhaledThisPhase = tubePerPhase > 0 ? (lungOut * tubePerPhase) / inspiratoryLungFlow : 0;
     anterior = (anteriorVolume * anterior + lungOut - exhaledThisPhase) / (anteriorVolume + aShare * tidal);
     exhaled += exhaledThisPhase;
-    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
+    vaporiserOutput += route.freshFlowMlMin * phaseMin * vapourPerCarrier;
     if (mixed) mixedGas = fresh + (mixedGas - fresh) * freshDecay;
-    if (mask)
+    if (mask && onBird)
       maskGas = tidal >= maskVolume ? source : ((maskVolume - tidal) * maskGas + tidal * source) / maskVolume;
     time += phaseMin;
     if (observer !== undefined) {
@@ -568,10 +624,10 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     exhaledThisPhase = openingOut + lungToRoom;
     exhaled += exhaledThisPhase;
     if (tidal > 0) lastExhaled = openingOut / tidal;
-    vaporiserOutput += freshFlow * phaseMin * vapourPerCarrier;
+    vaporiserOutput += route.freshFlowMlMin * phaseMin * vapourPerCarrier;
     if (mixed) {
       // Exhaled gas returns to the chamber or circle and displaces the same volume to the vent.
-      if (!tube)
+      if (onBird && !tube)
         mixedGas =
           tidal >= mixedVolume
             ? openingOut / tidal
@@ -579,10 +635,11 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
       mixedGas = fresh + (mixedGas - fresh) * freshDecay;
     }
     if (mask) {
-      maskGas =
-        tidal >= maskVolume
-          ? expiredFraction
-          : ((maskVolume - tidal) * maskGas + tidal * expiredFraction) / maskVolume;
+      if (onBird)
+        maskGas =
+          tidal >= maskVolume
+            ? expiredFraction
+            : ((maskVolume - tidal) * maskGas + tidal * expiredFraction) / maskVolume;
       maskGas = source + (maskGas - source) * maskDecay;
     }
     time += phaseMin;
@@ -621,6 +678,8 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     sampled += 1;
     nextSample = sampled * sampleInterval;
   }
+  mixedAtDeliveryEnd.push(route.mixed ? mixedGas : 0);
+  while (mixedAtDeliveryEnd.length < laterDeliveries.length + 1) mixedAtDeliveryEnd.push(0);
   const gasStored =
     trachea * deadSpace + posterior * posteriorVolume + lung * lungVolume + anterior * anteriorVolume;
   return {
@@ -642,7 +701,85 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     },
     atOff,
     mixedPctAtInduction: (milestones.mixedAtInduction >= 0 ? milestones.mixedAtInduction : mixedGas) * 100,
+    mixedPctAtDeliveryEnd: mixedAtDeliveryEnd.map((fraction) => fraction * 100),
   };
+}
+
+/**
+ * The delivery in use and what follows from it, kept in one object that changes only at a
+ * phase's start (the bird leaves the system: room air) and at the end of its gap (the bird is on
+ * the new system), never within a breath.
+ */
+type DeliveryFactors = {
+  delivery: DeliverySetup;
+  /** 0 for the first delivery, k for the k-th later one. */
+  index: number;
+  /** False during a phase's gap: the bird breathes room air while the new system fills. */
+  onBird: boolean;
+  mixed: boolean;
+  mask: boolean;
+  tube: boolean;
+  freshFlowMlMin: number;
+  mixedVolumeMl: number;
+  maskVolumeMl: number;
+  /** Minute of the next change: the end of this gap, or the start of the next phase. */
+  nextChangeMin: number;
+};
+
+function newDeliveryFactors(first: DeliverySetup, later: readonly TimedDelivery[]): DeliveryFactors {
+  const factors: DeliveryFactors = {
+    delivery: first,
+    index: 0,
+    onBird: true,
+    mixed: false,
+    mask: false,
+    tube: false,
+    freshFlowMlMin: 0,
+    mixedVolumeMl: 1,
+    maskVolumeMl: 1e-9,
+    nextChangeMin: Number.POSITIVE_INFINITY,
+  };
+  setDelivery(factors, first, 0, true, later[0]?.startMin ?? Number.POSITIVE_INFINITY);
+  return factors;
+}
+
+function setDelivery(
+  factors: DeliveryFactors,
+  delivery: DeliverySetup,
+  index: number,
+  onBird: boolean,
+  nextChangeMin: number,
+): void {
+  factors.delivery = delivery;
+  factors.index = index;
+  factors.onBird = onBird;
+  factors.mixed = delivery.source === 'mixed';
+  factors.mask = delivery.interface === 'mask';
+  factors.tube = delivery.interface === 'airSacTube';
+  factors.freshFlowMlMin = delivery.freshGasMlMin;
+  factors.mixedVolumeMl = delivery.mixedVolumeMl;
+  factors.maskVolumeMl = Math.max(delivery.maskDeadSpaceMl, 1e-9);
+  factors.nextChangeMin = nextChangeMin;
+}
+
+/**
+ * Moves `factors` to the next change: the bird goes onto the system at the end of a gap, or
+ * leaves it for the next delivery's gap (which may be empty, then the next call ends it).
+ * @returns true when the bird left a system (its gas is then released and the next starts empty)
+ */
+function switchDelivery(factors: DeliveryFactors, later: readonly TimedDelivery[]): boolean {
+  if (!factors.onBird) {
+    factors.onBird = true;
+    factors.nextChangeMin = later[factors.index]?.startMin ?? Number.POSITIVE_INFINITY;
+    return false;
+  }
+  const next = later[factors.index];
+  if (next === undefined) {
+    factors.nextChangeMin = Number.POSITIVE_INFINITY;
+    return false;
+  }
+  setDelivery(factors, next.delivery, factors.index + 1, false, next.deliveryFromMin);
+  return true;
 }
 
 /**
@@ -696,17 +833,20 @@ function newBreathFactors(): BreathFactors {
 function setBreathFactors(
   factors: BreathFactors,
   setup: SimulationSetup,
+  route: DeliveryFactors,
   tidal: number,
   rate: number,
   stepsPerMin: number,
   flowScale: number,
 ): void {
-  const { delivery, body, gasPath } = setup;
+  const { body, gasPath } = setup;
+  const delivery = route.delivery;
   const freshFlow = delivery.freshGasMlMin;
   const phaseMin = 0.5 / rate;
   const refinement = Math.max(1, Math.round(setup.substepRefinement ?? 1));
   const substeps = refinement * Math.max(1, Math.ceil(phaseMin * stepsPerMin - 1e-9));
-  const tubePerPhase = delivery.interface === 'airSacTube' ? freshFlow * phaseMin : 0;
+  // In a gap the tube is not yet connected and the mask not yet on: no tube flow, no room air drawn past a mask.
+  const tubePerPhase = route.onBird && route.tube ? freshFlow * phaseMin : 0;
   const stepMin = phaseMin / substeps;
   factors.tidalMl = tidal;
   factors.breathsPerMin = rate;
@@ -723,7 +863,7 @@ function setBreathFactors(
     delivery.source === 'mixed' ? Math.exp((-freshFlow * phaseMin) / delivery.mixedVolumeMl) : 1;
   factors.maskDecay = mask ? Math.exp((-freshFlow * phaseMin) / Math.max(delivery.maskDeadSpaceMl, 1e-9)) : 1;
   factors.freshShare = Math.min(1, freshFlow / (delivery.rebreathingFlowMultiple * tidal * rate));
-  factors.entrained = mask ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
+  factors.entrained = mask && route.onBird ? maskEntrainedShare(freshFlow, tidal * rate) : 0;
 }
 
 /** The brain's crossings of the milestone levels, followed breath by breath. */

@@ -32,7 +32,7 @@ import {
   type PhysiologyContext,
 } from './physiology-draws.js';
 import type { Percentiles, PlanUncertainty, UncertaintyParameter } from './plan-types.js';
-import { simulate, type SimulationOutcome, type SimulationSetup } from './simulation.js';
+import { simulate, type DeliverySetup, type SimulationOutcome, type SimulationSetup } from './simulation.js';
 import type { TissueGroup } from './body-uptake.js';
 
 /**
@@ -197,6 +197,16 @@ function drawSetup(
   const maskDeadSpaceMultiple =
     drawParameter(random, defaultMaskDeadSpaceTidalMultiple) / defaultMaskDeadSpaceTidalMultiple.value;
   const delivery = setup.delivery;
+  // Every phase of a phased plan breathes through the same sampled bird: one rebreathing multiple
+  // and one dead-space multiple for every mask whose dead space was not entered.
+  const sampleLater = (phaseDelivery: DeliverySetup): DeliverySetup => ({
+    ...phaseDelivery,
+    rebreathingFlowMultiple: rebreathing,
+    maskDeadSpaceMl:
+      phaseDelivery.interface === 'mask' && phaseDelivery.maskDeadSpaceEntered !== true
+        ? phaseDelivery.maskDeadSpaceMl * maskDeadSpaceMultiple
+        : phaseDelivery.maskDeadSpaceMl,
+  });
   return {
     macMultiple,
     setup: {
@@ -224,6 +234,14 @@ function drawSetup(
           ? delivery.maskDeadSpaceMl * maskDeadSpaceMultiple
           : delivery.maskDeadSpaceMl,
       },
+      ...(setup.laterDeliveries === undefined
+        ? {}
+        : {
+            laterDeliveries: setup.laterDeliveries.map((later) => ({
+              ...later,
+              delivery: sampleLater(later.delivery),
+            })),
+          }),
       ventilation: {
         ...setup.ventilation,
         restingTidalVolumeMl: setup.ventilation.restingTidalVolumeMl * tidalMultiple,
@@ -308,6 +326,10 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
   const maskDefaults = {
     deadSpace: setup.delivery.interface === 'mask' && input.maskEntered?.deadSpace !== true,
   };
+  // A later mask phase with its default dead space also samples the dead-space multiple.
+  const laterMaskDefault = (setup.laterDeliveries ?? []).some(
+    (later) => later.delivery.interface === 'mask' && later.delivery.maskDeadSpaceEntered !== true,
+  );
   const inductions: number[] = [];
   const recoveries: number[] = [];
   const levelCount = setup.milestoneBrainPct?.length ?? 0;
@@ -346,7 +368,9 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
     recoveryReachedShare: recovery.reachedShare,
     inductionNote: induction.note,
     recoveryNote: recovery.note,
-    parameters: sampledParameters(input, macRelativeSd, maskDefaults),
+    parameters: sampledParameters(input, macRelativeSd, {
+      deadSpace: maskDefaults.deadSpace || laterMaskDefault,
+    }),
     method:
       'Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD) by a seeded Mulberry32 generator. Samples that do not reach a milestone within the simulated window count as beyond it',
     milestoneBands,

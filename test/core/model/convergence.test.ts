@@ -98,4 +98,86 @@ describe('convergence in the exchange step', () => {
     // Most of the 192 milestones are reached, so the comparison is not empty.
     expect(compared).toBeGreaterThan(150);
   });
+
+  it('moves no milestone of phased plans by more than 1 % when the exchange steps are doubled', () => {
+    // Mask then tube with IPPV, chamber then mask, and a circle after a mask, each with a room-air gap.
+    const phased: PlanInput[] = [
+      {
+        bodyMassG: 430,
+        agent: 'isoflurane',
+        route: 'mask',
+        freshGasLpm: 1,
+        schedule: [
+          { atMin: 0, vaporPct: 5 },
+          { atMin: 2, vaporPct: 3 },
+          { atMin: 6, vaporPct: 2 },
+          { atMin: 60, vaporPct: 0 },
+        ],
+        laterPhases: [{ startMin: 6, gapMin: 0.5, route: 'endotracheal', freshGasLpm: 0.6 }],
+        ventilation: { mode: 'ippv', breathsPerMin: 8, tidalVolumeMl: 12, fromMin: 6.5 },
+        recoveryWindowMin: 60,
+      },
+      {
+        bodyMassG: 95,
+        agent: 'isoflurane',
+        route: 'chamber',
+        chamberVolumeL: 3,
+        freshGasLpm: 2,
+        schedule: [
+          { atMin: 0, vaporPct: 5 },
+          { atMin: 6, vaporPct: 2.5 },
+          { atMin: 40, vaporPct: 0 },
+        ],
+        laterPhases: [{ startMin: 6, gapMin: 0.5, route: 'mask', freshGasLpm: 1 }],
+        recoveryWindowMin: 60,
+      },
+      {
+        bodyMassG: 4000,
+        agent: 'sevoflurane',
+        route: 'mask',
+        freshGasLpm: 3,
+        schedule: [
+          { atMin: 0, vaporPct: 7 },
+          { atMin: 8, vaporPct: 3.5 },
+          { atMin: 60, vaporPct: 0 },
+        ],
+        laterPhases: [
+          {
+            startMin: 8,
+            gapMin: 1,
+            route: 'endotracheal',
+            circuit: 'circle',
+            circuitVolumeL: 3,
+            freshGasLpm: 1,
+          },
+        ],
+        recoveryWindowMin: 90,
+      },
+    ];
+    const moved: string[] = [];
+    let compared = 0;
+    phased.forEach((plan, planIndex) => {
+      const setup = buildSimulationSetup(
+        plan,
+        estimateRespiratory(plan.bodyMassG, plan.overrides ?? {}),
+        resolveMac(plan, undefined),
+      );
+      expect(setup.laterDeliveries?.length).toBe(1);
+      const base = milestonesOf(simulate(setup));
+      const doubled = milestonesOf(simulate({ ...setup, substepRefinement: 2 }));
+      base.forEach((value, index) => {
+        const other = doubled[index] ?? null;
+        const name = `phased plan ${String(planIndex)}, milestone ${String(index)}`;
+        if (value === null || other === null) {
+          if (value !== other) moved.push(`${name}: ${String(value)} vs ${String(other)}`);
+          return;
+        }
+        compared += 1;
+        if (Math.abs(value - other) > 0.01 * Math.abs(other) + 1e-9)
+          moved.push(`${name}: ${String(value)} vs ${String(other)}`);
+      });
+    });
+    expect(moved).toEqual([]);
+    expect(compared).toBeGreaterThanOrEqual(10);
+  });
 });

@@ -35,6 +35,12 @@ export const twoHourBudgerigarPlan: PlanInput = {
   uncertainty: { samples: 0, seed: 1 },
 };
 
+/** The 2-h 30 g plan as a mask induction to 10 min, then 0.5 min on room air and a tube (the phased benchmark plan). */
+export const twoHourBudgerigarPhasedPlan: PlanInput = {
+  ...twoHourBudgerigarPlan,
+  laterPhases: [{ startMin: 10, gapMin: 0.5, route: 'endotracheal', freshGasLpm: 0.5 }],
+};
+
 /** A 2.4 kg duck intubated on a non-rebreathing system for 2 h (90 min on, 30 min recovery). */
 export const duckPlan: PlanInput = {
   bodyMassG: 2400,

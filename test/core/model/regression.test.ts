@@ -49,6 +49,16 @@ const pinned: Record<string, Partial<Record<keyof PlanMilestones, number | null>
     peakBrainMacMultiple: 1.327,
     airSacWashin95Min: 1.3,
   },
+  // A phased plan (added with phases, 2026-12-02): mask induction, 0.5 min on room air while
+  // intubated, then the tube with IPPV. Regression values of this model version, not truth.
+  'sable-african-grey-mask-then-tube-isoflurane.json': {
+    lossOfRightingMin: 0.6447,
+    surgicalDepthMin: 1.694,
+    firstMovementMin: 3.364,
+    standingMin: 15.44,
+    peakBrainMacMultiple: 1.421,
+    airSacWashin95Min: 2.417,
+  },
 };
 
 /** Relative tolerance of a pinned value: rounding of the pins plus room for harmless refactoring. */
