@@ -169,7 +169,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
                 <dd>
                   {minutes(flows.chamberTimeTo95Min)}
                   <span className="basis">
-                    3 time constants, tau = chamber volume / fresh gas flow (OpenAnesthesia)
+                    3 time constants of the chamber volume at the fresh gas flow (OpenAnesthesia)
                   </span>
                 </dd>
               </>
