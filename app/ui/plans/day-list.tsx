@@ -75,8 +75,11 @@ export function DayList() {
                         <a href={href('plans', plan.id)}>
                           {plan.id}
                           {plan.label === '' ? '' : ` · ${plan.label}`}
-                        </a>{' '}
-                        · <a href={href('worksheets', plan.id)}>worksheet</a>
+                        </a>
+                        <span className="screen-only">
+                          {' '}
+                          · <a href={href('worksheets', plan.id)}>worksheet</a>
+                        </span>
                       </td>
                       <td>{plan.patientName ?? 'quick plan'}</td>
                       <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
