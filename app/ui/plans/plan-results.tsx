@@ -60,6 +60,12 @@ export function CautionList({
   );
 }
 
+const severityRank: Readonly<Record<PlanResult['cautions'][number]['severity'], number>> = {
+  danger: 0,
+  warning: 1,
+  notice: 2,
+};
+
 /**
  * The sticky cautions panel: the count and the most severe caution always in view, the rest behind
  * one button, so that the predicted times below stay above the fold at 1366x800. Folded by
@@ -67,7 +73,10 @@ export function CautionList({
  */
 export function CautionsPanel({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
   const [expanded, setExpanded] = useState(false);
-  const [first, ...rest] = cautions;
+  // Danger first, then warnings, then notices; the model's own order within each.
+  const [first, ...rest] = [...cautions].sort(
+    (one, other) => severityRank[one.severity] - severityRank[other.severity],
+  );
   const worst = cautions.filter((caution) => caution.severity === first?.severity).length;
   return (
     <section className="panel cautions-panel" aria-labelledby="cautions-heading">
@@ -78,6 +87,7 @@ export function CautionsPanel({ cautions }: { readonly cautions: PlanResult['cau
             <span className="cautions-count">
               {' '}
               · {worst} {first.severity}
+              {worst === 1 ? '' : 's'}
             </span>
           )}
         </h2>
