@@ -137,7 +137,7 @@ describe('patients, weights and species in headless Chromium', () => {
     await page.getByRole('link', { name: 'Budgerigar' }).click();
     // The species opens read-only, every value with its whole source; editing is a deliberate step.
     await page.getByRole('heading', { name: 'Budgerigar', exact: true }).waitFor();
-    expect(await page.locator('input, select, textarea').count()).toBe(0);
+    expect(await page.locator('main input, main select, main textarea').count()).toBe(0);
     const sources = await page.locator('.species-source').allTextContents();
     expect(sources.length).toBeGreaterThan(1);
     for (const source of sources) {

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
-import { displayMass, todayIso } from '../common/display.js';
+import { displayDate, displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
 import { agentRouteText, asaGradeText, dialStepsText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
@@ -37,7 +37,8 @@ export function DayList() {
         <p className="hint">To plan for a patient, open the patient and choose New plan.</p>
       </div>
       <p className="day-print-title">
-        {settings.clinicName === '' ? '' : `${settings.clinicName} · `}Anaesthetic plans for {date}
+        {settings.clinicName === '' ? '' : `${settings.clinicName} · `}Anaesthetic plans for{' '}
+        {displayDate(date)}
       </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
       {load.state === 'failed' && (
@@ -47,7 +48,7 @@ export function DayList() {
       )}
       {load.state === 'ready' &&
         (load.value.plans.length === 0 ? (
-          <p className="muted">No plans for {date}.</p>
+          <p className="muted">No plans for {displayDate(date)}.</p>
         ) : (
           <>
             <ScrollRegion label="Plans for the day">
