@@ -140,6 +140,19 @@ describe('the prep room at 1366x800', () => {
     await expect(pip.getByRole('cell').nth(3).innerText()).resolves.toBe('2');
     await shoot(page, '63-day-list');
 
+    // The clinic's date format reaches the list and its printed title.
+    const settings = await bridge<Record<string, unknown>>(page, 'settings:get', {});
+    const saved = (settings.value as { settings: Record<string, unknown> }).settings;
+    expect((await bridge(page, 'settings:save', { ...saved, dateFormat: 'D MMM YYYY' })).ok).toBe(true);
+    await page.reload();
+    const [year, month, day] = today.split('-');
+    const months = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+    const written = `${String(Number(day))} ${months[Number(month) - 1] ?? ''} ${year ?? ''}`;
+    await page.getByRole('row', { name: /Wing radiograph/ }).waitFor();
+    expect(await page.locator('.day-print-title').textContent()).toContain(
+      `Anaesthetic plans for ${written}`,
+    );
+
     await page.emulateMedia({ media: 'print' });
     const pdfFile = path.join(shots, '64-day-list-print.pdf');
     await page.pdf({ path: pdfFile, preferCSSPageSize: true, printBackground: true });
