@@ -82,6 +82,30 @@ describe('the prep room at 1366x800', () => {
     await page.close();
   });
 
+  it('focuses the patient search with "/" only when not typing in a field', async () => {
+    const { browser, host } = session;
+    const page = await browser.newPage({ viewport: { width: 1366, height: 800 } });
+    await page.goto(await host.nextUrl());
+    await page.goto(`${host.origin}/#/patients`);
+    await page.getByRole('heading', { name: 'Patients', exact: true }).waitFor();
+    const search = page.getByLabel(/^Search/);
+    const initials = page.getByLabel('Your initials');
+    // Typing "/" in another box keeps it there.
+    await initials.fill('');
+    await initials.focus();
+    await page.keyboard.type('A/B');
+    await expect(initials.inputValue()).resolves.toBe('A/B');
+    await expect(search.evaluate((element) => element === document.activeElement)).resolves.toBe(false);
+    await initials.fill('RW');
+    // From the page itself, "/" goes to the search and is not typed into it.
+    await page.getByRole('heading', { name: 'Patients', exact: true }).click();
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await page.keyboard.press('/');
+    await expect(search.evaluate((element) => element === document.activeElement)).resolves.toBe(true);
+    await expect(search.inputValue()).resolves.toBe('');
+    await page.close();
+  });
+
   it('opens a species read-only with its whole sources', async () => {
     const { browser, host } = session;
     const page = await browser.newPage({ viewport: { width: 1366, height: 800 } });
