@@ -81,6 +81,12 @@ export const planSummarySchema = z.object({
   liquidMl: z.number(),
   oxygenL: z.number(),
   inductionMin: z.number().nullable(),
+  /** Fresh gas flow of the first phase, L/min. */
+  freshGasLpm: z.number(),
+  /** The vaporiser schedule: each dial setting from its minute. */
+  schedule: z.array(z.object({ atMin: z.number(), vaporPct: z.number() })),
+  /** Minutes after the vaporiser is off until first movement, or null when not predicted. */
+  recoveryMin: z.number().nullable(),
   openChecklistItems: z.number().int(),
   asaGrade: z.number().int().nullable(),
   emergency: z.boolean(),

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { agentIds } from '../core/agents.js';
+import { dateFormats } from '../core/date-format.js';
 import { massUnits, pressureUnits, temperatureUnits } from '../core/units.js';
 import { namingText, textWithoutHiddenCharacters } from './input-rules.js';
 
@@ -19,6 +20,8 @@ export const clinicSettingsSchema = z.object({
     error: 'Choose isoflurane, sevoflurane or desflurane as the default agent.',
   }),
   paperSize: z.enum(paperSizes, { error: 'Choose A4 or Letter paper for worksheets.' }),
+  /** One date format for every screen and sheet; absent means year-month-day. */
+  dateFormat: z.enum(dateFormats, { error: 'Choose one of the date formats listed.' }).optional(),
 });
 
 export type ClinicSettings = z.infer<typeof clinicSettingsSchema>;

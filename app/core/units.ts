@@ -167,6 +167,16 @@ export function formatMass(massG: number, unit: MassUnit, significantDigits = 3)
 }
 
 /**
+ * The unit a body mass is shown in: grams below 1 kg whatever the clinic prefers (a cockatiel is
+ * 95 g, never 0.095 kg), the clinic's preference from 1 kg up.
+ * @param massG mass in g, 0 or more
+ * @param preference the clinic's mass unit
+ */
+export function bodyMassUnit(massG: number, preference: MassUnit): MassUnit {
+  return massG < gramsPerKilogram ? 'g' : preference;
+}
+
+/**
  * Formats a pressure (blood pressure, EtCO2, partial pressure) in the preferred pressure unit.
  * @param pressureMmHg pressure in mmHg
  * @param unit 'mmHg' or 'kPa'

@@ -1,6 +1,7 @@
 import { useEffect, useState } from 'react';
 import type { SafetyStatus } from '../contract/safety.js';
 import type { StoredSettings } from '../contract/settings.js';
+import { setClinicDateFormat } from './common/display.js';
 import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
@@ -75,6 +76,7 @@ export function App() {
   if (!currentSafety.acknowledged)
     return <CautionsScreen status={currentSafety} onAcknowledged={setSafety} />;
 
+  setClinicDateFormat(currentSettings.settings?.dateFormat);
   const needsSetup = currentSettings.settings === null;
   const shown: Route = needsSetup ? { area: 'settings', segments: [] } : route;
   return (

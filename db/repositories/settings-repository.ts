@@ -1,4 +1,5 @@
 import type { ClinicSettings, StoredSettings } from '../../app/contract/settings.js';
+import { defaultDateFormat, type DateFormat } from '../../app/core/date-format.js';
 import type { TidewingDatabase } from '../connection.js';
 
 type SettingsRow = {
@@ -9,22 +10,24 @@ type SettingsRow = {
   temperature_unit: ClinicSettings['temperatureUnit'];
   default_agent: ClinicSettings['defaultAgent'];
   paper_size: ClinicSettings['paperSize'];
+  date_format: DateFormat;
   updated_at: string;
 };
 
 /** All SQL for the clinic_settings table. */
 export function createSettingsRepository(db: TidewingDatabase) {
   const select = db.prepare<[], SettingsRow>(
-    `SELECT clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at
+    `SELECT clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, date_format, updated_at
        FROM clinic_settings WHERE id = 1`,
   );
   const upsert = db.prepare(
-    `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at)
-     VALUES (1, @clinicName, @addressLine, @massUnit, @pressureUnit, @temperatureUnit, @defaultAgent, @paperSize, @updatedAt)
+    `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, date_format, updated_at)
+     VALUES (1, @clinicName, @addressLine, @massUnit, @pressureUnit, @temperatureUnit, @defaultAgent, @paperSize, @dateFormat, @updatedAt)
      ON CONFLICT (id) DO UPDATE SET
        clinic_name = excluded.clinic_name, address_line = excluded.address_line, mass_unit = excluded.mass_unit,
        pressure_unit = excluded.pressure_unit, temperature_unit = excluded.temperature_unit,
-       default_agent = excluded.default_agent, paper_size = excluded.paper_size, updated_at = excluded.updated_at`,
+       default_agent = excluded.default_agent, paper_size = excluded.paper_size, date_format = excluded.date_format,
+       updated_at = excluded.updated_at`,
   );
 
   return {
@@ -40,12 +43,17 @@ export function createSettingsRepository(db: TidewingDatabase) {
           temperatureUnit: row.temperature_unit,
           defaultAgent: row.default_agent,
           paperSize: row.paper_size,
+          dateFormat: row.date_format,
         },
         updatedAt: row.updated_at,
       };
     },
     save(settings: ClinicSettings, updatedAt: Date): StoredSettings {
-      upsert.run({ ...settings, updatedAt: updatedAt.toISOString() });
+      upsert.run({
+        ...settings,
+        dateFormat: settings.dateFormat ?? defaultDateFormat,
+        updatedAt: updatedAt.toISOString(),
+      });
       return this.get();
     },
   };

@@ -47,17 +47,25 @@ describe('migrations', () => {
     expect(() =>
       db
         .prepare(
-          "INSERT INTO clinic_settings VALUES (1, 'A', '', 'lb', 'mmHg', 'C', 'isoflurane', 'A4', 'now')",
+          `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at) VALUES (1, 'A', '', 'lb', 'mmHg', 'C', 'isoflurane', 'A4', 'now')`,
         )
         .run(),
     ).toThrow(/CHECK constraint failed/);
     expect(() =>
       db
         .prepare(
-          "INSERT INTO clinic_settings VALUES (2, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')",
+          `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at) VALUES (2, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')`,
         )
         .run(),
     ).toThrow(/CHECK constraint failed/);
+    // Migration 5: settings saved before it read year-month-day; only the listed formats are kept.
+    db.prepare(
+      `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at) VALUES (1, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', 'now')`,
+    ).run();
+    expect(db.prepare('SELECT date_format FROM clinic_settings').pluck().get()).toBe('YYYY-MM-DD');
+    expect(() => db.prepare("UPDATE clinic_settings SET date_format = 'DD.MM.YY'").run()).toThrow(
+      /CHECK constraint failed/,
+    );
   });
 
   it('opens with WAL, foreign keys on, synchronous FULL and a busy timeout', () => {

@@ -25,6 +25,7 @@ const settings = {
   temperatureUnit: 'F',
   defaultAgent: 'sevoflurane',
   paperSize: 'Letter',
+  dateFormat: 'DD/MM/YYYY',
 } as const;
 
 describe('settings repository', () => {

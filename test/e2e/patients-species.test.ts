@@ -135,6 +135,17 @@ describe('patients, weights and species in headless Chromium', () => {
     await shoot(page, '24-species-list');
 
     await page.getByRole('link', { name: 'Budgerigar' }).click();
+    // The species opens read-only, every value with its whole source; editing is a deliberate step.
+    await page.getByRole('heading', { name: 'Budgerigar', exact: true }).waitFor();
+    expect(await page.locator('main input, main select, main textarea').count()).toBe(0);
+    const sources = await page.locator('.species-source').allTextContents();
+    expect(sources.length).toBeGreaterThan(1);
+    for (const source of sources) {
+      expect(source).toMatch(/^Source: /);
+      expect(source).not.toMatch(/from memory|\[[a-z ]+\]$|…$/);
+    }
+    await shoot(page, '24-species-read-only');
+    await page.getByRole('link', { name: 'Edit Budgerigar' }).click();
     await page.getByRole('heading', { name: 'Edit Budgerigar' }).waitFor();
     const highest = page.getByRole('group', { name: 'Typical adult mass' }).getByLabel('Highest');
     const before = await highest.inputValue();

@@ -280,6 +280,14 @@ describe('plan channels', () => {
       liquidMl: pipPlan.result.consumption.liquidMl,
       oxygenL: pipPlan.result.oxygen.usedL,
       inductionMin: pipPlan.result.milestones.inductionMin,
+      // examples/plans/pip-budgerigar-mask-isoflurane.json: 1 L/min, 4 % from 0 min, 2 % from 4, off at 30
+      freshGasLpm: 1,
+      schedule: [
+        { atMin: 0, vaporPct: 4 },
+        { atMin: 4, vaporPct: 2 },
+        { atMin: 30, vaporPct: 0 },
+      ],
+      recoveryMin: pipPlan.result.milestones.recoveryMin,
       // Two checklist items left open (scavenging, emergency card); the ASA grade is given.
       openChecklistItems: 2,
       asaGrade: 2,

@@ -50,7 +50,8 @@ describe('app, safety and settings channels', () => {
     api.clock.set('2026-12-03T10:00:00.000Z');
     await api.answer('settings:save', { ...heronLaneSettings, paperSize: 'Letter', massUnit: 'kg' });
     expect(await api.answer('settings:get', {})).toEqual({
-      settings: { ...heronLaneSettings, paperSize: 'Letter', massUnit: 'kg' },
+      // Saved without a date format: the stored default, year-month-day.
+      settings: { ...heronLaneSettings, paperSize: 'Letter', massUnit: 'kg', dateFormat: 'YYYY-MM-DD' },
       updatedAt: '2026-12-03T10:00:00.000Z',
     });
   });

@@ -71,7 +71,8 @@ describe('contract dispatcher', () => {
     expect(saved).toEqual({
       ok: true,
       value: {
-        settings: { ...validSettings, clinicName: 'Heron Lane Bird Clinic' },
+        // Saved without a date format: the stored default, year-month-day.
+        settings: { ...validSettings, clinicName: 'Heron Lane Bird Clinic', dateFormat: 'YYYY-MM-DD' },
         updatedAt: '2026-12-01T09:30:00.000Z',
       },
     });

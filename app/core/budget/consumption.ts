@@ -62,7 +62,7 @@ export const vaporiserTemperatureRangeC: readonly [number, number] = [10, 35];
 export const isofluraneVapourPressureEquation = {
   a: 8.056,
   b: 1664.58,
-  basis: 'Product label (isoflurane): log10 P(mmHg) = 8.056 - 1664.58/T(K)',
+  basis: 'Product label (isoflurane): vapour pressure by temperature',
 } as const;
 
 function assertFinite(

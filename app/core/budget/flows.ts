@@ -157,8 +157,8 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
     return {
       recommendedLpm: (threeTau * input.chamberVolumeL) / targetMin,
       minimumLpm: (threeTau * input.chamberVolumeL) / chamberLongestAcceptableMin,
-      rule: `Chamber reaches 95 % of the dial after 3 time constants (tau = V / FGF): FGF = 3 x ${String(input.chamberVolumeL)} L / ${String(targetMin)} min; minimum for 95 % within ${String(chamberLongestAcceptableMin)} min`,
-      basis: `Time constant tau = volume / flow, 95 % after 3 tau (OpenAnesthesia, "Time constant"); target ${String(targetMin)} min${input.chamberTargetMin === undefined ? ' (assumption)' : ''} and ${String(chamberLongestAcceptableMin)} min limit (assumption)`,
+      rule: `Chamber reaches 95 % of the dial after 3 time constants: three ${String(input.chamberVolumeL)} L chamber volumes in ${String(targetMin)} min; minimum for 95 % within ${String(chamberLongestAcceptableMin)} min`,
+      basis: `Time constant of volume and flow, 95 % after 3 time constants (OpenAnesthesia, "Time constant"); target ${String(targetMin)} min${input.chamberTargetMin === undefined ? ' (assumption)' : ''} and ${String(chamberLongestAcceptableMin)} min limit (assumption)`,
       kind: 'derived',
     };
   }
@@ -181,7 +181,7 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
           ? ''
           : ` and 3 x circuit volume / ${String(targetMin)} min so the circle follows a dial change to 95 %`) +
         '; never below the practical floor',
-      basis: `Time constant tau = volume / flow (OpenAnesthesia, "Time constant"), ignoring uptake (assumption); ${practicalFloorFlowLpm.basis}; ${circleAboveMassG.basis}`,
+      basis: `Time constant of volume and flow (OpenAnesthesia, "Time constant"), ignoring uptake (assumption); ${practicalFloorFlowLpm.basis}; ${circleAboveMassG.basis}`,
       kind: 'assumption',
     };
   }
@@ -191,7 +191,7 @@ export function recommendFreshGas(input: FreshGasInputs): FreshGasRecommendation
   const leakFactor = 1 / (1 - leak);
   const routeNote =
     input.route === 'mask' && leak > 0
-      ? `; raised by 1 / (1 - ${String(leak)}) for the mask leak (assumption)`
+      ? `; raised for a mask leak of ${String(Math.round(leak * 100))} % (assumption)`
       : input.route === 'airSacTube'
         ? '; air-sac tube: the same rule, since all its flow crosses the lung and leaves by the trachea (assumption)'
         : '';

@@ -43,7 +43,7 @@ export const cylinderPresets: Readonly<Record<CylinderPresetId, CylinderPreset>>
     fullContentRangeL: [2 * metricFillPressureBar, 2 * metricFillPressureBar],
     fullPressureBar: metricFillPressureBar,
     basis:
-      'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
+      'Content from water capacity x pressure (derived, ideal gas); 200 bar fill pressure (common practice)',
     kind: 'derived',
   },
   'metric-10l-200bar': {
@@ -53,7 +53,7 @@ export const cylinderPresets: Readonly<Record<CylinderPresetId, CylinderPreset>>
     fullContentRangeL: [10 * metricFillPressureBar, 10 * metricFillPressureBar],
     fullPressureBar: metricFillPressureBar,
     basis:
-      'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas); 200 bar fill pressure (common practice)',
+      'Content from water capacity x pressure (derived, ideal gas); 200 bar fill pressure (common practice)',
     kind: 'derived',
   },
 };
@@ -117,7 +117,7 @@ export function cylinderContent(spec: CylinderSpec): CylinderContent {
       assertRange(spec.pressureBar, 'pressureBar', 0, 300);
       return {
         contentL: spec.waterCapacityL * spec.pressureBar,
-        basis: 'Content (L) = water capacity (L) x pressure (bar) (derived, ideal gas)',
+        basis: 'Content from water capacity x pressure (derived, ideal gas)',
         kind: 'derived',
       };
     case 'content':
@@ -202,6 +202,6 @@ export function oxygenBudget(input: OxygenBudgetInput): OxygenBudget {
     enduranceMin: peakFlowLpm > 0 ? usableL / peakFlowLpm : null,
     enduranceToEmptyMin: peakFlowLpm > 0 ? content.contentL / peakFlowLpm : null,
     suffices: usedL <= usableL,
-    basis: `Used = integral of flowmeter flow over the plan; endurance = content above the reserve / highest flow. Cylinder: ${content.basis}. Reserve ${String(reservePct)} %${input.reservePct === undefined ? ' (assumption)' : ''}.`,
+    basis: `Used: flowmeter flow over the plan; endurance: content above the reserve at the highest flow. Cylinder: ${content.basis}. Reserve ${String(reservePct)} %${input.reservePct === undefined ? ' (assumption)' : ''}.`,
   };
 }

@@ -145,7 +145,7 @@ export function wasteGasRelease(input: WasteGasReleaseInput): WasteGasRelease {
     deliveredVapourMl,
     releasedVapourMl: sources.reduce((sum, source) => sum + source.vapourMl, 0),
     basis:
-      'Vapour delivered = integral of carrier flow x c / (1 - c); all of it leaves the breathing system (conservative: uptake is exhaled at recovery)',
+      'Vapour carried by the fresh gas at the dial setting over the plan; all of it leaves the breathing system (conservative: uptake is exhaled at recovery)',
   };
 }
 
@@ -342,7 +342,7 @@ export function wasteGasExposure(input: WasteGasExposureInput): WasteGasExposure
     exceedsCeiling: highestHourMeanPpm > nioshCeilingPpm.value,
     peakAboveCeiling: peakPpm > nioshCeilingPpm.value,
     basis:
-      'Well-mixed room mass balance V dC/dt = G - Q C (first-order dilution, Q = ACH x V / 60; tau = 60 / ACH min; steady state G / Q); ' +
-      `mg/m3 = ppm x MW / 24.45 at 25 C; ${nioshCeilingPpm.basis}. The breathing zone next to a mask can be far higher than the room mean.`,
+      'Well-mixed room: the vapour released is diluted by the room air changes (derived); ' +
+      `ppm turned into mg/m3 at 25 C; ${nioshCeilingPpm.basis}. The breathing zone next to a mask can be far higher than the room mean.`,
   };
 }

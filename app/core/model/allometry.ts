@@ -2,8 +2,10 @@
  * Allometric estimates of a resting bird's ventilation, airway volumes and circulation.
  *
  * Body mass M is in kg inside the equations. Every estimate is returned with its basis: the
- * equation and its source, 'measured' when the clinic entered the value, or 'assumption'.
+ * source and the body mass it was scaled to (the equations are in docs/model.md), 'measured' when
+ * the clinic entered the value, or 'assumption'.
  */
+import { sourceKindLabels } from '../sourced.js';
 import {
   airSacVolumeFraction,
   allometricValue,
@@ -109,10 +111,13 @@ export function strokeVolumeMl(bodyMassG: number): number {
   return allometricValue(strokeVolumeAllometry, bodyMassG);
 }
 
-/** "Source (kind): c * M^e unit, M = ... kg" for an estimate's basis. */
+/**
+ * "Source, scaled to 0.095 kg (unverified value)" for an estimate's basis: the clinic reads the
+ * citation and the kind; the equation itself is in docs/model.md.
+ */
 function equationBasis(equation: Allometric, massKgText: string): string {
-  const kind = equation.kind === 'published' ? '' : ` (${equation.kind})`;
-  return `${equation.basis}${kind}: ${String(equation.value.coefficient)} * M^${String(equation.value.exponent)} ${equation.unit}, ${massKgText}`;
+  const kind = equation.kind === 'published' ? '' : ` (${sourceKindLabels[equation.kind]})`;
+  return `${equation.basis}, scaled to ${massKgText}${kind}`;
 }
 
 function measuredOr(measured: number | undefined, estimate: Estimate): Estimate {
@@ -129,7 +134,7 @@ export function estimateRespiratory(
   bodyMassG: number,
   overrides: MeasuredOverrides = {},
 ): RespiratoryEstimates {
-  const massKgText = `M = ${(bodyMassG / 1000).toPrecision(3)} kg`;
+  const massKgText = `${(bodyMassG / 1000).toPrecision(3)} kg`;
   const tidal = measuredOr(overrides.tidalVolumeMl, {
     value: tidalVolumeMl(bodyMassG),
     basis: equationBasis(tidalVolumeAllometry, massKgText),
@@ -142,7 +147,7 @@ export function estimateRespiratory(
   const minuteVentilationBasis =
     tidal.basis === 'measured' || rate.basis === 'measured'
       ? 'tidal volume x breathing rate (from the measured values)'
-      : `tidal volume x breathing rate (Lasiewski & Calder 1971, from memory); the separately fitted 284 * M^0.77 gives ${fitted.toPrecision(3)} mL/min: the gas path needs a tidal volume and a rate that agree, so their product is used`;
+      : `tidal volume x breathing rate (Lasiewski & Calder 1971, ${sourceKindLabels['from memory']}); their separately fitted minute ventilation gives ${fitted.toPrecision(3)} mL/min: the gas path needs a tidal volume and a rate that agree, so their product is used`;
   const trachea = measuredOr(overrides.trachealVolumeMl, {
     value: trachealVolumeMl(bodyMassG),
     basis: `tracheal volume, ${equationBasis(trachealVolumeAllometry, massKgText)}`,

@@ -735,7 +735,7 @@ function consumptionOf(
       temperatureC,
     }),
     basis:
-      'Vapour per mL of liquid = density / molecular weight x molar volume; liquid used = integral of fresh gas flow x dial setting over the schedule / vapour per mL (see docs/model-budget.md)',
+      "Fresh gas flow x dial setting over the schedule, divided by the vapour each mL of liquid gives (derived from the agent's density and molecular weight)",
   };
   return consumption;
 }

@@ -90,7 +90,7 @@ export const lungVolumeFraction: ModelParameter = {
   value: 0.02,
   range: [0.01, 0.03],
   basis:
-    'Lung 1-3 % of body volume (from memory; fixed lungs of 19 species: volume = 29.5 W^0.988, Maina, Abdalla & King 1982, Acta Anat 112:264-270, units of W not read); only its exchanging share meets the blood (exchangingLungShare)',
+    'Lung 1-3 % of body volume (unverified value; fixed lungs of 19 species scale with body mass to the power 0.988, Maina, Abdalla & King 1982, Acta Anat 112:264-270, coefficient units not read); only its exchanging share meets the blood (exchangingLungShare)',
   kind: 'from memory',
 };
 
@@ -110,7 +110,8 @@ export const exchangingLungShare: ModelParameter = {
 export const airSacVolumeFraction: ModelParameter = {
   value: 0.125,
   range: [0.1, 0.2],
-  basis: 'Air sacs 10-15 % of body volume (from memory); duck about 20 % (Vos 1935, cited by Krogh 1941)',
+  basis:
+    'Air sacs 10-15 % of body volume (unverified value); duck about 20 % (Vos 1935, cited by Krogh 1941)',
   kind: 'from memory',
 };
 
@@ -135,7 +136,7 @@ export const bodyDensityGPerMl: ModelParameter = {
 export const bloodVolumeFraction: ModelParameter = {
   value: 0.08,
   range: [0.06, 0.1],
-  basis: 'Assumption: blood volume about 6-10 % of body mass (from memory, birds)',
+  basis: 'Assumption: blood volume about 6-10 % of body mass (unverified value, birds)',
   kind: 'assumption',
 };
 
@@ -157,13 +158,13 @@ export const tissueGroups: readonly TissueGroupParameters[] = [
     volumeFraction: {
       value: 0.09,
       range: [0.07, 0.11],
-      basis: 'Assumption: mammalian vessel-rich group about 9 % of body mass (from memory)',
+      basis: 'Assumption: mammalian vessel-rich group about 9 % of body mass (unverified value)',
       kind: 'assumption',
     },
     flowFraction: {
       value: 0.75,
       range: [0.65, 0.8],
-      basis: 'Assumption: mammalian vessel-rich group about 75 % of cardiac output (from memory)',
+      basis: 'Assumption: mammalian vessel-rich group about 75 % of cardiac output (unverified value)',
       kind: 'assumption',
     },
   },
@@ -173,13 +174,13 @@ export const tissueGroups: readonly TissueGroupParameters[] = [
       value: 0.5,
       range: [0.4, 0.55],
       basis:
-        'Assumption: muscle group about half of body mass (from memory; flight muscle is large in birds)',
+        'Assumption: muscle group about half of body mass (unverified value; flight muscle is large in birds)',
       kind: 'assumption',
     },
     flowFraction: {
       value: 0.2,
       range: [0.15, 0.3],
-      basis: 'Assumption: muscle group about 20 % of cardiac output at rest (from memory)',
+      basis: 'Assumption: muscle group about 20 % of cardiac output at rest (unverified value)',
       kind: 'assumption',
     },
   },
@@ -194,7 +195,7 @@ export const tissueGroups: readonly TissueGroupParameters[] = [
     flowFraction: {
       value: 0.05,
       range: [0.03, 0.07],
-      basis: 'Assumption: fat group about 5 % of cardiac output (from memory)',
+      basis: 'Assumption: fat group about 5 % of cardiac output (unverified value)',
       kind: 'assumption',
     },
   },
@@ -249,7 +250,7 @@ export const lossOfRightingMacFraction: ModelParameter = {
   value: 0.6,
   range: [0.4, 0.8],
   basis:
-    'Assumption for birds: loss of righting taken at the brain level of MAC-awake, about 0.6 MAC (dogs: isoflurane 1.0 / 1.3 = 0.77, sevoflurane 1.3 / 2.1 = 0.62, Hofmeister et al. 2008, Am J Vet Res 69:451-456; humans about 0.38, from memory); no avian MAC-awake was found',
+    'Assumption for birds: loss of righting taken at the brain level of MAC-awake, about 0.6 MAC (dogs: MAC-awake about 0.77 of MAC for isoflurane and 0.62 for sevoflurane, Hofmeister et al. 2008, Am J Vet Res 69:451-456; humans about 0.38, unverified value); no avian MAC-awake was found',
   kind: 'assumption',
 };
 
@@ -261,7 +262,7 @@ export const defaultRecoveryMacFraction: ModelParameter = {
   value: 0.4,
   range: [0.3, 0.6],
   basis:
-    'Assumption for birds: first movement or head lift when the brain falls below about 0.4 MAC (dogs: isoflurane at extubation 0.45 of a MAC of 1.23-1.27 vol %, about 0.36 MAC, Barletta, Quandt & Hofmeister 2016, Res Vet Sci 106:81-83; human MAC-awake about 0.38, from memory); no avian MAC-awake was found',
+    'Assumption for birds: first movement or head lift when the brain falls below about 0.4 MAC (dogs: isoflurane at extubation 0.45 of a MAC of 1.23-1.27 vol %, about 0.36 MAC, Barletta, Quandt & Hofmeister 2016, Res Vet Sci 106:81-83; human MAC-awake about 0.38, unverified value); no avian MAC-awake was found',
   kind: 'assumption',
 };
 

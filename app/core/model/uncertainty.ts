@@ -372,7 +372,7 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
       deadSpace: maskDefaults.deadSpace || laterMaskDefault,
     }),
     method:
-      'Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD) by a seeded Mulberry32 generator. Samples that do not reach a milestone within the simulated window count as beyond it',
+      'Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD), drawn the same way each time for the same plan. Samples that do not reach a milestone within the simulated window count as beyond it',
     milestoneBands,
   };
 }

@@ -1,19 +1,39 @@
+import { defaultDateFormat, formatCalendarDate, type DateFormat } from '../../core/date-format.js';
 import { basisText, readBasis } from '../../core/sourced.js';
-import { formatMass, gToKg, type MassUnit } from '../../core/units.js';
+import { bodyMassUnit, formatMass, gToKg, type MassUnit } from '../../core/units.js';
 
-/** Mass as the clinic reads it: grams, with kilograms beside for large birds. */
+/**
+ * Mass as the clinic reads it: grams below 1 kg whatever the preference (95 g, not 0.095 kg);
+ * from 1 kg, kilograms when the clinic prefers them, else grams with kilograms beside.
+ */
 export function displayMass(massG: number, preference: MassUnit): string {
-  if (preference === 'kg') return formatMass(massG, 'kg', 3).text;
+  if (bodyMassUnit(massG, preference) === 'kg') return formatMass(massG, 'kg', 3).text;
   const grams = `${Number(massG.toFixed(massG < 100 ? 1 : 0))} g`;
   return massG >= 1000 ? `${grams} (${Number(gToKg(massG).toFixed(2))} kg)` : grams;
 }
 
-/** Local date and time, short, for record stamps. */
+/**
+ * The clinic's date format, set where the settings arrive (the app's root, the printed sheet), so
+ * that every date on a screen or sheet is written one way.
+ */
+let clinicDateFormat: DateFormat = defaultDateFormat;
+
+/** Makes `format` (or the default, when the clinic has not chosen) the format of every date shown. */
+export function setClinicDateFormat(format: DateFormat | undefined): void {
+  clinicDateFormat = format ?? defaultDateFormat;
+}
+
+/** A calendar date (YYYY-MM-DD) in the clinic's format. */
+export function displayDate(isoDate: string): string {
+  return formatCalendarDate(isoDate, clinicDateFormat);
+}
+
+/** Local date in the clinic's format and the local time (24-hour), for record stamps. */
 export function displayDateTime(iso: string): string {
   const date = new Date(iso);
-  return Number.isNaN(date.getTime())
-    ? iso
-    : date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+  if (Number.isNaN(date.getTime())) return iso;
+  const time = `${String(date.getHours()).padStart(2, '0')}:${String(date.getMinutes()).padStart(2, '0')}`;
+  return `${displayDate(todayIso(date))} ${time}`;
 }
 
 /** Today as YYYY-MM-DD in local time. */

@@ -78,9 +78,15 @@ export function NumberField(
     readonly onChange: (text: string) => void;
     readonly unit: string;
     readonly step?: string;
+    /** A warning that does not block saving (a dial above the vaporiser's mark), shown under the box. */
+    readonly caution?: string | undefined;
   },
 ) {
   const id = useId();
+  const describedBy = [
+    props.error !== undefined ? `${id}-error` : undefined,
+    props.caution !== undefined ? `${id}-caution` : undefined,
+  ].filter((part) => part !== undefined);
   return (
     <div className="field">
       <label htmlFor={id}>
@@ -94,12 +100,17 @@ export function NumberField(
           value={props.value}
           autoFocus={props.autoFocus}
           aria-invalid={props.error !== undefined}
-          aria-describedby={props.error !== undefined ? `${id}-error` : undefined}
+          aria-describedby={describedBy.length > 0 ? describedBy.join(' ') : undefined}
           onChange={(event) => props.onChange(event.target.value)}
         />
         <span aria-hidden="true">{props.unit}</span>
       </span>
       <FieldMessages id={id} error={props.error} hint={props.hint} />
+      {props.caution !== undefined && (
+        <p className="field-caution" id={`${id}-caution`}>
+          {props.caution}
+        </p>
+      )}
     </div>
   );
 }

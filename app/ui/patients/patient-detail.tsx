@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { displayBasis, displayDateTime } from '../common/display.js';
+import { displayBasis, displayDate, displayDateTime } from '../common/display.js';
 import { agentRouteText } from '../common/plan-labels.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -15,7 +15,7 @@ function PatientPlans({ patientId }: { readonly patientId: number }) {
       {load.value.map((plan) => (
         <li key={plan.id}>
           <a href={href('plans', plan.id)}>
-            {plan.plannedFor}: {agentRouteText(plan.agent, plan.route)}
+            {displayDate(plan.plannedFor)}: {agentRouteText(plan.agent, plan.route)}
             {plan.label === '' ? '' : ` (${plan.label})`}
           </a>{' '}
           · <a href={href('worksheets', plan.id)}>worksheet</a>
@@ -69,7 +69,7 @@ export function PatientDetailScreen({ patientId }: { readonly patientId: number 
             <dt>Sex</dt>
             <dd>{values.sex}</dd>
             <dt>Hatch date / age</dt>
-            <dd>{values.hatchDate ?? (values.ageText || '—')}</dd>
+            <dd>{values.hatchDate === null ? values.ageText || '—' : displayDate(values.hatchDate)}</dd>
             <dt>Ring ID</dt>
             <dd>{values.ringId || '—'}</dd>
             <dt>Microchip ID</dt>

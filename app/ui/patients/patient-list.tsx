@@ -1,6 +1,7 @@
 import { useEffect, useRef, useState } from 'react';
 import type { PatientSummary } from '../../contract/records.js';
 import { api } from '../common/bridge.js';
+import { isSearchShortcut } from '../common/keyboard.js';
 import { displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { href } from '../shell/areas.js';
@@ -33,11 +34,8 @@ export function PatientListScreen() {
 
   useEffect(() => {
     function onKey(event: KeyboardEvent) {
-      if (
-        event.key === '/' &&
-        document.activeElement?.tagName !== 'INPUT' &&
-        document.activeElement?.tagName !== 'TEXTAREA'
-      ) {
+      // Only when not typing in a field: "/" typed in a box (a date, a note) stays in the box.
+      if (isSearchShortcut(event, document.activeElement as HTMLElement | null)) {
         event.preventDefault();
         searchBox.current?.focus();
       }

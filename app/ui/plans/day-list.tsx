@@ -1,21 +1,24 @@
 import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
-import { displayMass, todayIso } from '../common/display.js';
+import { displayDate, displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
-import { agentRouteText } from '../common/plan-labels.js';
+import { agentRouteText, asaGradeText, dialStepsText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { figure, minutes } from './format.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
-/** The plans for one day with the agent and oxygen the list needs. */
+/**
+ * The plans for one day as the prep room reads them: bird, ASA, agent and route, dials, flow,
+ * predicted times, and the liquid agent and oxygen to have ready. Prints on one landscape page.
+ */
 export function DayList() {
   const settings = useClinicSettings();
   const [date, setDate] = useState(todayIso());
   const [load] = useChannel('plans:day', { date });
   return (
-    <section className="screen" aria-labelledby="day-title">
+    <section className="screen day-list" aria-labelledby="day-title">
       <h1 id="day-title">Anaesthetic plans</h1>
       <div className="toolbar">
         <TextField
@@ -28,8 +31,15 @@ export function DayList() {
         <a className="button-link" href={href('plans', 'new')}>
           Quick plan
         </a>
+        <button type="button" onClick={() => window.print()}>
+          Print the day list
+        </button>
         <p className="hint">To plan for a patient, open the patient and choose New plan.</p>
       </div>
+      <p className="day-print-title">
+        {settings.clinicName === '' ? '' : `${settings.clinicName} · `}Anaesthetic plans for{' '}
+        {displayDate(date)}
+      </p>
       {load.state === 'loading' && <p aria-busy="true">Loading…</p>}
       {load.state === 'failed' && (
         <p className="form-error" role="alert">
@@ -38,7 +48,7 @@ export function DayList() {
       )}
       {load.state === 'ready' &&
         (load.value.plans.length === 0 ? (
-          <p className="muted">No plans for {date}.</p>
+          <p className="muted">No plans for {displayDate(date)}.</p>
         ) : (
           <>
             <ScrollRegion label="Plans for the day">
@@ -48,8 +58,12 @@ export function DayList() {
                     <th>Plan</th>
                     <th>Bird</th>
                     <th className="number">Mass</th>
+                    <th>ASA</th>
                     <th>Agent and route</th>
+                    <th>Dial</th>
+                    <th className="number">Fresh gas</th>
                     <th className="number">To planned depth</th>
+                    <th className="number">First movement after off</th>
                     <th className="number">Liquid agent</th>
                     <th className="number">Oxygen</th>
                     <th>Checklist</th>
@@ -62,13 +76,20 @@ export function DayList() {
                         <a href={href('plans', plan.id)}>
                           {plan.id}
                           {plan.label === '' ? '' : ` · ${plan.label}`}
-                        </a>{' '}
-                        · <a href={href('worksheets', plan.id)}>worksheet</a>
+                        </a>
+                        <span className="screen-only">
+                          {' '}
+                          · <a href={href('worksheets', plan.id)}>worksheet</a>
+                        </span>
                       </td>
                       <td>{plan.patientName ?? 'quick plan'}</td>
                       <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
+                      <td>{asaGradeText(plan.asaGrade, plan.emergency)}</td>
                       <td>{agentRouteText(plan.agent, plan.route)}</td>
+                      <td>{dialStepsText(plan.schedule)}</td>
+                      <td className="number">{figure(plan.freshGasLpm)} L/min</td>
                       <td className="number">{minutes(plan.inductionMin)}</td>
+                      <td className="number">{minutes(plan.recoveryMin)}</td>
                       <td className="number">{figure(plan.liquidMl)} mL</td>
                       <td className="number">{figure(plan.oxygenL)} L</td>
                       <td>

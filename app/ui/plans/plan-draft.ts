@@ -1,5 +1,6 @@
 import { planInputSchema, type PlanInput } from '../../contract/plan.js';
-import type { AgentId } from '../../core/agents.js';
+import { agentLabels, agents, type AgentId } from '../../core/agents.js';
+import { vaporiserDialLimitPct } from '../../core/budget/consumption.js';
 import { kgToG, type MassUnit } from '../../core/units.js';
 
 /**
@@ -39,25 +40,66 @@ export type PlanDraft = {
 };
 
 /**
- * The draft with another agent: the dial settings follow the agent (each agent's typical
- * induction and maintenance settings), so that a switch to sevoflurane never keeps isoflurane
- * dials; the MAC typed for the old agent is cleared for the same reason. Everything else stays.
+ * Usual starting dials of each agent, vol % (induction, maintenance): editable starting values,
+ * none a recommendation for a bird. Isoflurane and sevoflurane from memory (isoflurane induction
+ * 3-5 %, maintenance 1.5-2.5 %; sevoflurane induction 5-8 %, maintenance 2.5-4 %).
+ * Desflurane (assumption): isoflurane's values at the same multiple of the fallback MAC, within
+ * the desflurane vaporiser's 18 % mark.
+ */
+export const typicalDialsPct: Readonly<Record<AgentId, { induction: number; maintenance: number }>> = {
+  isoflurane: { induction: 4, maintenance: 2 },
+  sevoflurane: { induction: 6, maintenance: 3 },
+  desflurane: { induction: 18, maintenance: 9 },
+};
+
+/** The highest mark on the agent's vaporiser, vol % (app/core/budget/consumption.ts). */
+export function dialLimitPct(agent: AgentId): number {
+  return vaporiserDialLimitPct[agent].value;
+}
+
+/** The hint under a dial box: the agent's vaporiser range. */
+export function dialHint(agent: AgentId): string {
+  return `The ${agentLabels[agent].toLowerCase()} vaporiser is marked 0-${String(dialLimitPct(agent))} %.`;
+}
+
+/** A caution when a typed dial is above the agent's vaporiser mark, or undefined. */
+export function dialCaution(text: string, agent: AgentId): string | undefined {
+  const value = Number(text.trim().replace(',', '.'));
+  if (text.trim() === '' || !Number.isFinite(value) || value <= dialLimitPct(agent)) return undefined;
+  return `Above the ${String(dialLimitPct(agent))} % mark of the ${agentLabels[agent].toLowerCase()} vaporiser: it cannot be set there.`;
+}
+
+/**
+ * A dial converted to another agent at the same multiple of MAC (the agents' fallback MACs),
+ * to the nearest 0.5 % and within the new vaporiser's mark; the typical value stays typical.
+ */
+function convertedDial(text: string, from: AgentId, to: AgentId, which: 'induction' | 'maintenance'): string {
+  const value = Number(text.trim().replace(',', '.'));
+  if (text.trim() === '' || !Number.isFinite(value) || value === typicalDialsPct[from][which])
+    return String(typicalDialsPct[to][which]);
+  const scaled = (value * agents[to].fallbackMacPct.value) / agents[from].fallbackMacPct.value;
+  return String(Math.min(dialLimitPct(to), Math.round(scaled * 2) / 2));
+}
+
+/**
+ * The draft with another agent: the dial settings follow the agent, so that a switch to
+ * sevoflurane never keeps isoflurane dials. Usual dials become the new agent's usual dials; dials
+ * the user changed are converted at the same multiple of MAC and kept within the new vaporiser's
+ * mark. The MAC typed for the old agent is cleared for the same reason. Everything else stays.
  */
 export function withAgent(draft: PlanDraft, agent: AgentId): PlanDraft {
   if (agent === draft.agent) return draft;
-  const typical = defaultDraft(agent, draft.massUnit);
   return {
     ...draft,
     agent,
     macText: '',
-    inductionPctText: typical.inductionPctText,
-    maintenancePctText: typical.maintenancePctText,
+    inductionPctText: convertedDial(draft.inductionPctText, draft.agent, agent, 'induction'),
+    maintenancePctText: convertedDial(draft.maintenancePctText, draft.agent, agent, 'maintenance'),
   };
 }
 
 /** Typical starting values; each is shown as editable and none is a recommendation for a bird. */
 export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
-  const sevo = agent === 'sevoflurane';
   return {
     patientName: '',
     massText: '',
@@ -72,11 +114,9 @@ export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
     maskDeadSpaceText: '',
     maskLeakText: '',
     circuitVolumeText: '3',
-    // Typical settings (from memory): isoflurane induction 3-5 %, maintenance 1.5-2.5 %;
-    // sevoflurane induction 5-8 %, maintenance 2.5-4 %.
-    inductionPctText: sevo ? '6' : '4',
+    inductionPctText: String(typicalDialsPct[agent].induction),
     inductionMinText: '5',
-    maintenancePctText: sevo ? '3' : '2',
+    maintenancePctText: String(typicalDialsPct[agent].maintenance),
     endMinText: '30',
     ventilation: 'spontaneous',
     ippvRateText: '',

@@ -5,7 +5,7 @@ import { circuitLabels, circuits, routeLabels, routes } from '../../core/deliver
 import { basisText } from '../../core/sourced.js';
 import { displayBasis } from '../common/display.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
-import { withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
+import { dialCaution, dialHint, withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
 
 type Props = {
   readonly draft: PlanDraft;
@@ -76,7 +76,8 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           onChange={(agent) => onChange(withAgent(draft, agent))}
         />
         <p className="hint">
-          Changing the agent sets the dials to that agent’s usual starting values; check them.
+          Changing the agent converts the dials to the new agent at the same multiple of MAC (usual dials
+          become its usual dials), within its vaporiser’s mark; check them.
         </p>
         <NumberField
           label="MAC for this bird"
@@ -181,6 +182,8 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
             unit="%"
             value={draft.inductionPctText}
             error={problems['inductionPctText']}
+            hint={dialHint(draft.agent)}
+            caution={dialCaution(draft.inductionPctText, draft.agent)}
             onChange={set('inductionPctText')}
           />
           <NumberField
@@ -197,6 +200,8 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
             unit="%"
             value={draft.maintenancePctText}
             error={problems['maintenancePctText']}
+            hint={dialHint(draft.agent)}
+            caution={dialCaution(draft.maintenancePctText, draft.agent)}
             onChange={set('maintenancePctText')}
           />
           <NumberField

@@ -37,12 +37,18 @@ const milestoneTestIds: Readonly<Record<ClinicalMilestoneLine['id'], string>> = 
 };
 
 /** Cautions, ordered danger first; always the first thing in the results. */
-export function CautionList({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
+export function CautionList({
+  cautions,
+  label = 'Cautions',
+}: {
+  readonly cautions: PlanResult['cautions'];
+  readonly label?: string;
+}) {
   if (cautions.length === 0) {
     return <p className="muted">No cautions for this plan. The bird and the veterinarian still decide.</p>;
   }
   return (
-    <ul className="cautions" aria-label="Cautions">
+    <ul className="cautions" aria-label={label}>
       {cautions.map((caution) => (
         <li key={caution.code} className={`flag ${caution.severity}`}>
           <strong>{caution.severity}</strong>
@@ -54,36 +60,68 @@ export function CautionList({ cautions }: { readonly cautions: PlanResult['cauti
   );
 }
 
+const severityRank: Readonly<Record<PlanResult['cautions'][number]['severity'], number>> = {
+  danger: 0,
+  warning: 1,
+  notice: 2,
+};
+
+/**
+ * The sticky cautions panel: the count and the most severe caution always in view, the rest behind
+ * one button, so that the predicted times below stay above the fold at 1366x800. Folded by
+ * default; the button says how many more there are and carries aria-expanded.
+ */
+export function CautionsPanel({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
+  const [expanded, setExpanded] = useState(false);
+  // Danger first, then warnings, then notices; the model's own order within each.
+  const [first, ...rest] = [...cautions].sort(
+    (one, other) => severityRank[one.severity] - severityRank[other.severity],
+  );
+  const worst = cautions.filter((caution) => caution.severity === first?.severity).length;
+  return (
+    <section className="panel cautions-panel" aria-labelledby="cautions-heading">
+      <div className="cautions-head">
+        <h2 id="cautions-heading">
+          Cautions ({cautions.length})
+          {first !== undefined && (
+            <span className="cautions-count">
+              {' '}
+              · {worst} {first.severity}
+              {worst === 1 ? '' : 's'}
+            </span>
+          )}
+        </h2>
+        {rest.length > 0 && (
+          <button
+            type="button"
+            className="cautions-toggle"
+            aria-expanded={expanded}
+            aria-controls="cautions-more"
+            onClick={() => setExpanded((open) => !open)}
+          >
+            {expanded ? 'Show only the first' : `Show ${rest.length} more`}
+          </button>
+        )}
+      </div>
+      <CautionList cautions={first === undefined ? [] : [first]} label="Most severe caution" />
+      {rest.length > 0 && (
+        <div id="cautions-more" className="cautions-more" hidden={!expanded}>
+          <CautionList cautions={rest} label="More cautions" />
+        </div>
+      )}
+    </section>
+  );
+}
+
 /** Everything the model says about one plan, each figure with its unit and basis. */
 export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Props) {
   const milestones = result.milestones;
   const uncertainty = result.uncertainty;
   const flows = result.flows;
   const waste = result.wasteGas;
-  const [cautionsFolded, setCautionsFolded] = useState(false);
   return (
     <div className="plan-results" aria-busy={pending}>
-      <section
-        className={`panel cautions-panel${cautionsFolded ? ' folded' : ''}`}
-        aria-labelledby="cautions-heading"
-      >
-        <div className="cautions-head">
-          <h2 id="cautions-heading">Cautions ({result.cautions.length})</h2>
-          {/* Shown on short windows only (styles.css): the heading with the count stays in view. */}
-          <button
-            type="button"
-            className="cautions-toggle"
-            aria-expanded={!cautionsFolded}
-            aria-controls="cautions-body"
-            onClick={() => setCautionsFolded((folded) => !folded)}
-          >
-            {cautionsFolded ? 'Show cautions' : 'Fold cautions'}
-          </button>
-        </div>
-        <div id="cautions-body" className="cautions-body">
-          <CautionList cautions={result.cautions} />
-        </div>
-      </section>
+      <CautionsPanel cautions={result.cautions} />
 
       <section className="panel" aria-labelledby="milestones-heading">
         <h2 id="milestones-heading">
@@ -169,7 +207,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
                 <dd>
                   {minutes(flows.chamberTimeTo95Min)}
                   <span className="basis">
-                    3 time constants, tau = chamber volume / fresh gas flow (OpenAnesthesia)
+                    3 time constants of the chamber volume at the fresh gas flow (OpenAnesthesia)
                   </span>
                 </dd>
               </>

@@ -10,7 +10,7 @@ import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { api } from '../common/bridge.js';
-import { displayDateTime, displayMass, todayIso } from '../common/display.js';
+import { displayDate, displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { TextField } from '../common/fields.js';
 import { useClinicSettings } from '../common/settings-context.js';
@@ -87,7 +87,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         const weightText =
           trend.latest === null
             ? 'no weight recorded'
-            : `${displayMass(trend.latest.massG, settings.massUnit)} on ${trend.latest.weighedOn}`;
+            : `${displayMass(trend.latest.massG, settings.massUnit)} on ${displayDate(trend.latest.weighedOn)}`;
         setContext({
           patientId: patient.id,
           patientLabel: `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey} · ${weightText}`,

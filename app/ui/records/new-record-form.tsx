@@ -1,6 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
 import type { PlanSummary } from '../../contract/plan-records.js';
-import { formatMass } from '../../core/units.js';
+import { displayMass } from '../common/display.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { useOperator } from '../common/operator.js';
@@ -124,7 +124,7 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
       <h1 id="new-record-title">New procedure record</h1>
       <p className="lead">
         {detail.patient.values.name}, {detail.species?.values.commonName ?? detail.patient.values.speciesKey}
-        {latest !== null && `, ${formatMass(latest.massG, settings.massUnit).text} on ${latest.weighedOn}`}
+        {latest !== null && `, ${displayMass(latest.massG, settings.massUnit)} on ${latest.weighedOn}`}
         {latest === null && ', no weight recorded'}
       </p>
       <form onSubmit={submit} noValidate className="form record-new-form">

@@ -1,7 +1,7 @@
 import type { ProcedureDetail } from '../../contract/record-channels.js';
 import type { ProcedureRecordValues } from '../../contract/records.js';
 import { circuitLabels } from '../../core/delivery.js';
-import { formatMass } from '../../core/units.js';
+import { displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useId, useState, type FormEvent } from 'react';
 import { clockMinutesText, clockText, formatElapsed, resolveClockTime } from './clock-time.js';
@@ -46,7 +46,7 @@ export function RecordHeader({
           <span>
             {latestMassG === null
               ? 'no weight recorded'
-              : `latest weight ${formatMass(latestMassG, settings.massUnit).text}`}
+              : `latest weight ${displayMass(latestMassG, settings.massUnit)}`}
           </span>
           <span>staff {values.staffInitials}</span>
         </p>

@@ -9,6 +9,7 @@ import {
 import type { SafetyStatus } from '../../contract/safety.js';
 import { describeIssues } from '../../contract/result.js';
 import { agentIds, agentLabels } from '../../core/agents.js';
+import { dateFormatLabels, dateFormats, defaultDateFormat } from '../../core/date-format.js';
 import { massUnits, pressureUnits, temperatureUnits } from '../../core/units.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
@@ -138,6 +139,15 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           value={draft.paperSize}
           error={errors['paperSize']}
           onChange={(value) => update('paperSize', value)}
+        />
+        <Choice
+          legend="Date format"
+          name="dateFormat"
+          options={dateFormats}
+          labels={dateFormatLabels}
+          value={draft.dateFormat ?? defaultDateFormat}
+          error={errors['dateFormat']}
+          onChange={(value) => update('dateFormat', value)}
         />
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>

@@ -4,7 +4,7 @@ import { describeIssues } from '../../contract/result.js';
 import { agentIds, agents, type AgentId } from '../../core/agents.js';
 import { potencyMeasures } from '../../core/species-reference.js';
 import { api } from '../common/bridge.js';
-import { displayDateTime } from '../common/display.js';
+import { displayBasis, displayDateTime } from '../common/display.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { NumberField, SelectField, TextField } from '../common/fields.js';
 import { useInitialsGate } from '../common/initials-gate.js';
@@ -153,7 +153,13 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
   return (
     <section className="screen" aria-labelledby="species-form-title">
       <p>
-        <a href={href('species')}>← All species</a>
+        {speciesKey === null ? (
+          <a href={href('species')}>← All species</a>
+        ) : (
+          <a href={href('species', speciesKey)}>
+            ← Back to {history[0]?.values.commonName ?? speciesKey} (no changes)
+          </a>
+        )}
       </p>
       <h1 id="species-form-title">
         {speciesKey === null ? 'Add species' : `Edit ${history[0]?.values.commonName ?? speciesKey}`}
@@ -352,12 +358,13 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
               <li key={version.stamp.versionId}>
                 {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
                 {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} · mass{' '}
-                {version.values.massMinG}-{version.values.massMaxG} g ({version.values.massBasis})
+                {version.values.massMinG}-{version.values.massMaxG} g (
+                {displayBasis(version.values.massBasis)})
                 {agentIds.map((agent) => {
                   const mac = version.values.mac[agent];
                   return mac === null
                     ? null
-                    : ` · ${agents[agent].displayName} ${mac.macPct} % (${mac.basis})`;
+                    : ` · ${agents[agent].displayName} ${mac.macPct} % (${displayBasis(mac.basis)})`;
                 })}
               </li>
             ))}

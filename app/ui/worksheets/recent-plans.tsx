@@ -1,4 +1,4 @@
-import { displayMass } from '../common/display.js';
+import { displayDate, displayMass } from '../common/display.js';
 import { agentRouteText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
@@ -48,7 +48,7 @@ export function RecentPlans() {
               <tbody>
                 {load.value.map((plan) => (
                   <tr key={plan.id}>
-                    <td>{plan.plannedFor}</td>
+                    <td>{displayDate(plan.plannedFor)}</td>
                     <td>
                       <a href={href('worksheets', plan.id)}>{plan.patientName ?? `Quick plan ${plan.id}`}</a>
                     </td>

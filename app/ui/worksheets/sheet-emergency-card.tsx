@@ -76,8 +76,9 @@ export function EmergencyCardSection({
         </table>
       )}
       <p className="ws-basis">
-        Volume = clinic dose (mg/kg) x {figure(bodyMassG / 1000, 3)} kg / concentration (mg/mL), 3 significant
-        figures. Doses and sources are the clinic’s own; check them before giving any drug.
+        Volumes: the clinic’s dose (mg/kg) for {figure(bodyMassG / 1000, 3)} kg, divided by the concentration
+        (mg/mL), to 3 significant figures. Doses and sources are the clinic’s own; check them before giving
+        any drug.
       </p>
     </section>
   );

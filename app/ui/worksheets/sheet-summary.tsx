@@ -3,7 +3,7 @@ import type { PlanInput, PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
 import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
-import { displayMass } from '../common/display.js';
+import { displayDate, displayMass } from '../common/display.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
 import { figure } from './labels.js';
 import { ventilationText } from './sheet-text.js';
@@ -60,7 +60,7 @@ export function SummarySection({
         <p>
           Weight <strong>{displayMass(input.bodyMassG, settings.massUnit)}</strong>
           {weightTrendText === null ? '' : ` (${weightTrendText})`} · procedure{' '}
-          <strong>{plan.plannedFor}</strong>
+          <strong>{displayDate(plan.plannedFor)}</strong>
           {plan.label === '' ? '' : ` · ${plan.label}`}
           {plan.checklist.emergency ? ' · EMERGENCY' : ''}
         </p>

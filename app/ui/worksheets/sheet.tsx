@@ -5,6 +5,7 @@ import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { cssStringToken, runningHeaderLines } from '../../core/worksheet.js';
+import { displayDate, setClinicDateFormat } from '../common/display.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
 import { EstimatesSection } from './sheet-estimates.js';
@@ -57,6 +58,7 @@ function useRunningHeader(who: string, which: string): void {
  * renders it through Preact's compatibility layer.
  */
 export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetProps) {
+  setClinicDateFormat(settings.dateFormat);
   const [drawn, setDrawn] = useState(false);
   const onDrawn = useCallback(() => setDrawn(true), []);
   const { plan, patient } = detail;
@@ -75,7 +77,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
     clinicName: settings.clinicName,
     patientName,
     identifier,
-    dateText: plan.plannedFor,
+    dateText: displayDate(plan.plannedFor),
     planId: plan.id,
     planVersionId: plan.stamp.versionId,
   });
@@ -99,7 +101,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           <h1 id="worksheet-title">Anaesthetic worksheet: prep-room summary</h1>
           <p>
             Plan {plan.id}
-            {plan.label === '' ? '' : ` “${plan.label}”`} for {plan.plannedFor}
+            {plan.label === '' ? '' : ` “${plan.label}”`} for {displayDate(plan.plannedFor)}
             {plan.checklist.emergency ? ' · EMERGENCY' : ''}
           </p>
         </div>
