@@ -1,4 +1,4 @@
-export type AreaId = 'patients' | 'species' | 'plans' | 'records' | 'worksheets' | 'settings';
+export type AreaId = 'patients' | 'species' | 'plans' | 'records' | 'evidence' | 'worksheets' | 'settings';
 
 export type Area = {
   readonly id: AreaId;
@@ -31,6 +31,12 @@ export const areas: readonly Area[] = [
     title: 'Procedure records',
     purpose:
       'the time-stamped record of vaporiser setting, oxygen flow, vital signs and events during a procedure',
+  },
+  {
+    id: 'evidence',
+    title: 'Observed vs predicted',
+    purpose:
+      'the clinic’s completed records beside the model’s prediction for what was given, and the calibration on them',
   },
   {
     id: 'worksheets',
