@@ -31,14 +31,16 @@ export type LogForecast = {
 };
 
 /**
- * The plan to run for the forecast: the log so far with the vaporiser off at `nowMs` (unless the
- * log already turned it off).
+ * The plan to run for the forecast: the log so far with the vaporiser off at `nowMs`, or just
+ * after the latest row when that is later (unless the log already turned it off).
  * @param log the record's log
  * @param nowMs the time of the question, ms since the epoch
  * @param samples uncertainty samples (0 for the quick run)
  */
 export function forecastPlan(log: RecordLog, nowMs: number, samples = 0): LogPlan {
-  const plan = planInputFromLog(log, { offAtMs: nowMs, recoveryWindowMin: forecastRecoveryWindowMin });
+  // A row saved a few seconds past the minute still counts: the vaporiser goes off after it.
+  const offAtMs = log.entries.reduce((latest, entry) => Math.max(latest, entry.atMs + 1000), nowMs);
+  const plan = planInputFromLog(log, { offAtMs, recoveryWindowMin: forecastRecoveryWindowMin });
   if (!plan.ok) return plan;
   if (plan.offMs === null)
     return { ok: false, missing: 'the time now is not after the first dial above 0 %' };
@@ -73,7 +75,7 @@ export function readForecast(
     depthNowMac: (result.timeline.brainPct[index] ?? 0) / mac,
     depthBandMac:
       band === null ? null : { low: (band.p5[index] ?? 0) / mac, high: (band.p95[index] ?? 0) / mac },
-    alreadyOff: offAtMs < nowMs,
+    alreadyOff: offAtMs < nowMs - 1000,
     offAtMs,
     firstMovementAtMs: at(result.milestones.firstMovementMin),
     standingAtMs: at(result.milestones.standingMin),

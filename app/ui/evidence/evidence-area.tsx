@@ -314,9 +314,9 @@ function EvidenceTable({
                       <button
                         type="button"
                         onClick={() => setLeaving(row.recordId)}
-                        aria-label={`Leave record ${row.recordId} out of the calibration`}
+                        aria-label={`Leave out record ${row.recordId}`}
                       >
-                        Leave out…
+                        Leave out
                       </button>
                     )}
                   </td>

@@ -131,7 +131,14 @@ function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; 
             </div>
             <div>
               <dt>Standing or perching about</dt>
-              <dd data-testid="forecast-standing">
+              <dd
+                data-testid="forecast-standing"
+                data-minutes-after-off={
+                  shown.standingAtMs === null
+                    ? ''
+                    : ((shown.standingAtMs - shown.offAtMs) / 60_000).toFixed(2)
+                }
+              >
                 {clock(shown.standingAtMs)}
                 {range(shown.standingBandMin, 0).replace(')', ' min after off)')}
               </dd>
