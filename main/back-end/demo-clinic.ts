@@ -1,5 +1,5 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
-import { demoClinicName, generateDemoClinic } from '../../app/core/evidence/demo-clinic.js';
+import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
@@ -19,12 +19,20 @@ const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
 export function writeDemoClinic(db: TidewingDatabase, now: Date): number {
-  const patients = createPatientRepository(db);
-  if (patients.count() > 0) return 0;
+  if (createPatientRepository(db).count() > 0) return 0;
   const species = createSpeciesRepository(db).list();
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
+  return writeDemoRecords(db, demo, now);
+}
+
+/**
+ * Writes a generated demo clinic's patients, weights, records and entries in one transaction.
+ * @returns the number of procedure records written
+ */
+export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Date): number {
+  const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
   const records = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);

@@ -134,5 +134,5 @@ describe('the clinic’s own evidence with the demo clinic (--demo)', () => {
       await page.close();
       await host.stop();
     }
-  }, 120_000);
+  }, 360_000);
 });
