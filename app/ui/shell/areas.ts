@@ -33,18 +33,18 @@ export const areas: readonly Area[] = [
       'the time-stamped record of vaporiser setting, oxygen flow, vital signs and events during a procedure',
   },
   {
-    id: 'evidence',
-    title: 'Observed vs predicted',
-    purpose:
-      'the clinic’s completed records beside the model’s prediction for what was given, and the calibration on them',
-  },
-  {
     id: 'worksheets',
     title: 'Worksheets',
     purpose:
       'the printable pre-procedure worksheet with the plan, an emergency card in your clinic’s own doses and a monitoring grid',
   },
   { id: 'settings', title: 'Settings', purpose: 'clinic name, address and preferred units' },
+  {
+    id: 'evidence',
+    title: 'Observed vs predicted',
+    purpose:
+      'the clinic’s completed records beside the model’s prediction for what was given, and the calibration on them',
+  },
 ];
 
 export type Route = { readonly area: AreaId; readonly segments: readonly string[] };
