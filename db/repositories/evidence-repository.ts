@@ -42,6 +42,27 @@ export function createEvidenceRepository(db: TidewingDatabase) {
     { calibration_on: number; reason: string; entered_at: string; entered_by: string }
   >('SELECT * FROM evidence_calibration_switch ORDER BY id DESC LIMIT 1');
 
+  const fingerprints = db.prepare<
+    [],
+    {
+      record_id: number;
+      patient_id: number;
+      version_id: number;
+      ended_at: string | null;
+      entries: string;
+      weight_id: number | null;
+      patient_version_id: number | null;
+    }
+  >(
+    `SELECT r.id AS record_id, r.patient_id,
+       v.id AS version_id, v.ended_at,
+       (SELECT count(*) || ':' || ifnull(max(e.id), 0) FROM procedure_entries e WHERE e.record_id = r.id) AS entries,
+       (SELECT max(w.id) FROM weights w WHERE w.patient_id = r.patient_id) AS weight_id,
+       (SELECT max(p.id) FROM patient_versions p WHERE p.patient_id = r.patient_id) AS patient_version_id
+     FROM procedure_records r
+     JOIN procedure_record_versions v ON v.id = (SELECT max(id) FROM procedure_record_versions WHERE record_id = r.id)`,
+  );
+
   const toExclusion = (row: ExclusionRow): Exclusion => ({
     recordId: row.record_id,
     excluded: row.excluded === 1,
@@ -65,6 +86,18 @@ export function createEvidenceRepository(db: TidewingDatabase) {
     /** The newest decision per record that has one. */
     exclusions(): Map<number, Exclusion> {
       return new Map(latestExclusions.all().map((row) => [row.record_id, toExclusion(row)]));
+    },
+    /**
+     * For every record, what its evidence depends on (newest record version, entries, weights,
+     * patient version: rows are only ever added, so the newest ids change with every write),
+     * and whether it has ended. One query, so an unchanged clinic is checked without reading it.
+     */
+    recordFingerprints(): { recordId: number; ended: boolean; key: string }[] {
+      return fingerprints.all().map((row) => ({
+        recordId: row.record_id,
+        ended: row.ended_at !== null,
+        key: `${row.version_id}|${row.entries}|${String(row.weight_id)}|${String(row.patient_version_id)}`,
+      }));
     },
     calibrationSwitch(): CalibrationSwitch {
       const row = latestSwitch.get();

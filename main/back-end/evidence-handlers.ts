@@ -64,14 +64,33 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
     const exclusions = evidence.exclusions();
     const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
-    const records = procedures.listRecent(1_000_000);
+    // Species edits and the default agent change every record's answer.
+    const clinicKey = fingerprint([
+      modelVersion,
+      defaultAgent,
+      speciesList.map((entry) => entry.stamp.versionId).join(','),
+    ]);
     let inProgress = 0;
     const rows: EvidenceRow[] = [];
-    for (const record of records) {
-      if (record.values.endedAt === null) {
+    const exclusionOf = (recordId: number) => {
+      const entry = exclusions.get(recordId);
+      return entry !== undefined && entry.excluded
+        ? { reason: entry.reason, enteredBy: entry.enteredBy, enteredAt: entry.enteredAt }
+        : null;
+    };
+    for (const { recordId, ended, key: recordKey } of evidence.recordFingerprints()) {
+      if (!ended) {
         inProgress += 1;
         continue;
       }
+      const key = `${clinicKey}|${recordKey}`;
+      const cached = cache.get(recordId);
+      if (cached !== undefined && cached.key === key) {
+        rows.push({ ...cached.row, exclusion: exclusionOf(recordId) });
+        continue;
+      }
+      const record = procedures.get(recordId);
+      if (record === null || record.values.endedAt === null) continue;
       const patient = patients.get(record.patientId);
       if (patient === null) continue;
       const speciesRecord = speciesByKey.get(patient.values.speciesKey);
@@ -82,29 +101,7 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
         [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
         patientWeights[0] ??
         null;
-      const key = fingerprint([
-        modelVersion,
-        record.stamp.versionId,
-        recordEntries.map((entry) => entry.id).join(','),
-        weight?.id ?? null,
-        speciesRecord?.stamp.versionId ?? null,
-        defaultAgent,
-        patient.stamp.versionId,
-      ]);
-      const exclusionEntry = exclusions.get(record.id);
-      const exclusion =
-        exclusionEntry !== undefined && exclusionEntry.excluded
-          ? {
-              reason: exclusionEntry.reason,
-              enteredBy: exclusionEntry.enteredBy,
-              enteredAt: exclusionEntry.enteredAt,
-            }
-          : null;
-      const cached = cache.get(record.id);
-      if (cached !== undefined && cached.key === key) {
-        rows.push({ ...cached.row, exclusion });
-        continue;
-      }
+      const exclusion = exclusionOf(recordId);
       const planRecord = record.values.planId === null ? null : plans.get(record.values.planId);
       const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
       const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
@@ -168,6 +165,8 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
       cache.set(record.id, { key, row });
       rows.push({ ...row, exclusion });
     }
+    // Newest start first, as the records list shows them.
+    rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
     return { rows, inProgress };
   }
 
