@@ -101,3 +101,6 @@ export function procedureCsv(input: {
   }
   return `${lines.join('\r\n')}\r\n`;
 }
+
+/** One RFC 4180 cell, formula-guarded, for the other CSV exports. */
+export { cell as csvCell };

@@ -5,6 +5,7 @@ import { setClinicDateFormat } from './common/display.js';
 import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
+import { EvidenceArea } from './evidence/evidence-area.js';
 import { PatientsArea } from './patients/patients-area.js';
 import { PlansArea } from './plans/plans-area.js';
 import { RecordsArea } from './records/records-area.js';
@@ -46,6 +47,8 @@ function AreaContent({ route }: { readonly route: Route }) {
       return <PlansArea route={route} />;
     case 'records':
       return <RecordsArea route={route} />;
+    case 'evidence':
+      return <EvidenceArea />;
     case 'worksheets':
       return <WorksheetsArea route={route} />;
     case 'settings':

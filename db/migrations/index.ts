@@ -3,6 +3,7 @@ import { clinicRecordsMigration } from './0002-clinic-records.js';
 import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
 import { bodyMassTo200KgMigration } from './0004-body-mass-to-200-kg.js';
 import { dateFormatMigration } from './0005-date-format.js';
+import { clinicEvidenceMigration } from './0006-clinic-evidence.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -13,6 +14,7 @@ export const migrations: readonly Migration[] = [
   emergencyDrugsMigration,
   bodyMassTo200KgMigration,
   dateFormatMigration,
+  clinicEvidenceMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

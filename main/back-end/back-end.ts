@@ -4,6 +4,7 @@ import { speciesReference } from '../../app/core/species-reference.js';
 import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/connection.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
+import { writeDemoClinic } from './demo-clinic.js';
 import { databaseFile } from './data-directory.js';
 import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
 import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
@@ -30,6 +31,8 @@ export type BackEndOptions = {
   readonly automaticBackup?: boolean;
   /** `--new-clinic`: start an empty clinic although `backups/` holds backups with records. */
   readonly newClinic?: boolean;
+  /** `--demo`: fill an empty clinic with the invented demo clinic (a clinic with patients is left alone). */
+  readonly demoClinic?: boolean;
 };
 
 /**
@@ -53,6 +56,14 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const db = openDatabase(file, options.openOptions);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
+  if (options.demoClinic === true) {
+    const written = writeDemoClinic(db, now());
+    options.log?.(
+      written > 0
+        ? `Demo clinic: ${String(written)} invented procedure records written.`
+        : 'Demo clinic not written: this clinic already holds patients.',
+    );
+  }
   const handlers = createHandlers({
     db,
     appVersion: options.appVersion,

@@ -18,6 +18,7 @@ import { exportDatabaseJson } from '../../db/export.js';
 import { backupFolder } from './automatic-backup.js';
 import { createPlanHandlers } from './plan-handlers.js';
 import { createDrugHandlers } from './drug-handlers.js';
+import { createEvidenceHandlers } from './evidence-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 import { constraintError } from './constraint-errors.js';
 
@@ -97,6 +98,7 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     ...createRecordHandlers(context.db, context.now),
     ...createPlanHandlers(context.db, context.now),
     ...createDrugHandlers(context.db, context.now),
+    ...createEvidenceHandlers(context.db, context.now),
   };
 }
 

@@ -230,6 +230,7 @@ async function main(): Promise<void> {
         host: 'desktop',
         automaticBackup: true,
         newClinic: process.argv.includes('--new-clinic'),
+        demoClinic: process.argv.includes('--demo'),
         ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
       });
     } catch (error) {

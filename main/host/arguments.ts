@@ -5,12 +5,14 @@ export type StartArguments = {
   readonly forceBrowser: boolean;
   /** `--new-clinic`: start an empty clinic although `backups/` holds backups with records. */
   readonly newClinic: boolean;
+  /** `--demo`: an empty clinic is filled with the invented demo clinic. */
+  readonly demo: boolean;
 };
 
 export class ArgumentError extends Error {}
 
 /**
- * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser] [--new-clinic]`.
+ * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser] [--new-clinic] [--demo]`.
  * `--port 0` (the default) takes any free port.
  */
 export function parseStartArguments(argv: readonly string[], env: NodeJS.ProcessEnv = {}): StartArguments {
@@ -19,6 +21,7 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
   let open = env['CI'] === undefined || env['CI'] === '' || env['CI'] === 'false';
   let forceBrowser = false;
   let newClinic = false;
+  let demo = false;
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index];
     const next = () => {
@@ -51,11 +54,14 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
       case '--new-clinic':
         newClinic = true;
         break;
+      case '--demo':
+        demo = true;
+        break;
       default:
         throw new ArgumentError(
-          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser, --new-clinic.`,
+          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser, --new-clinic, --demo.`,
         );
     }
   }
-  return { port, dataDirectory, open, forceBrowser, newClinic };
+  return { port, dataDirectory, open, forceBrowser, newClinic, demo };
 }

@@ -39,6 +39,7 @@ async function main(): Promise<number> {
     const electronArgs = [path.join(root, 'build', 'main', 'electron', 'electron-main.js')];
     if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
     if (args.newClinic) electronArgs.push('--new-clinic');
+    if (args.demo) electronArgs.push('--demo');
     const child = spawn(availability.binary, electronArgs, { stdio: 'inherit' });
     return new Promise((resolve) => child.on('close', (code) => resolve(code ?? 1)));
   }
@@ -53,6 +54,7 @@ async function main(): Promise<number> {
       host: 'browser',
       automaticBackup: true,
       newClinic: args.newClinic,
+      demoClinic: args.demo,
       log: (message) => process.stderr.write(`${message}\n`),
     });
   } catch (error) {

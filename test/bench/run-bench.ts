@@ -4,6 +4,7 @@ import { benchModel } from './model-bench.js';
 import { benchRecords } from './records-bench.js';
 import { benchWorksheet } from './worksheet-bench.js';
 import { benchPlanningScreen } from './planning-bench.js';
+import { benchEvidence } from './evidence-bench.js';
 
 /** `npm run bench`: prints figures; targets are read by people, never asserted in tests. */
 async function main(): Promise<void> {
@@ -25,6 +26,7 @@ async function main(): Promise<void> {
     await benchPlanningScreen(),
   );
   printFigures('Worksheet (target: PDF under 2 s)', await benchWorksheet());
+  printFigures('Clinic evidence', await benchEvidence());
 }
 
 main().catch((error: unknown) => {

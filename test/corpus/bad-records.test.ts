@@ -426,6 +426,11 @@ const cases: Case[] = [
       ['drugs:correct', (id: unknown) => ({ id, values: validDrug, meta: correction }), 'id'],
       ['drugs:void', (id: unknown) => ({ id, meta: correction }), 'id'],
       ['plans:correct', (id: unknown) => ({ id, fields: planFields(null), meta }), 'id'],
+      [
+        'evidence:exclude',
+        (recordId: unknown) => ({ recordId, excluded: true, meta: correction }),
+        'recordId',
+      ],
     ] as const
   ).flatMap(([channel, payload, field]): Case[] => [
     ...badIds.map((id): Case => [
@@ -441,6 +446,20 @@ const cases: Case[] = [
       { code: 'not-found', field },
     ],
   ]),
+  ...[...notCalendarDates, ...outOfRangeDates].flatMap((date): Case[] =>
+    (['from', 'to'] as const).map((field): Case => [
+      `evidence list ${field} ${String(date)}`,
+      'evidence:list',
+      () => ({ [field]: date }),
+      { code: 'invalid-request', field },
+    ]),
+  ),
+  [
+    'an evidence list whose range ends before it starts',
+    'evidence:list',
+    () => ({ from: '2026-11-02', to: '2026-11-01' }),
+    { code: 'invalid-request', field: 'to' },
+  ],
   [
     'correcting a species that does not exist',
     'species:correct',

@@ -164,6 +164,12 @@ const textFields: TextField[] = [
     meta: correction,
   })),
   field('entries:void', 'meta.reason', 'reason', 500, (ids) => ({ id: ids.entry, meta: correction })),
+  field('evidence:exclude', 'meta.reason', 'reason', 500, (ids) => ({
+    recordId: ids.record,
+    excluded: true,
+    meta: correction,
+  })),
+  field('evidence:set-calibration', 'meta.enteredBy', 'naming', 80, () => ({ on: false, meta })),
   field('drugs:add', 'values.name', 'naming', 120, () => ({ values: validDrug, meta })),
   field('drugs:add', 'values.route', 'naming', 60, () => ({ values: validDrug, meta })),
   field('drugs:add', 'values.doseSource', 'naming', 300, () => ({ values: validDrug, meta })),

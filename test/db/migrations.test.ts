@@ -145,3 +145,32 @@ describe('migration 4 (body mass up to 200 kg)', () => {
     ).toContain('REFERENCES "weights"');
   });
 });
+
+describe('migration 6 (clinic evidence)', () => {
+  it('keeps exclusions and the calibration switch as rows never changed, each with who and why', () => {
+    const file = freshFile();
+    const db = new Database(file);
+    cleanups.push(() => db.close());
+    db.pragma('foreign_keys = ON');
+    expect(migrate(db, migrations.slice(0, 6))).toBe(6);
+    db.prepare("INSERT INTO patients (id, created_at) VALUES (1, '2026-11-01T08:00:00.000Z')").run();
+    db.prepare(
+      "INSERT INTO procedure_records (id, patient_id, created_at) VALUES (1, 1, '2026-11-01T08:00:00.000Z')",
+    ).run();
+    const exclude = db.prepare(
+      "INSERT INTO evidence_exclusions (record_id, excluded, reason, entered_at, entered_by) VALUES (?, ?, ?, '2026-11-01T08:00:00.000Z', 'RW')",
+    );
+    exclude.run(1, 1, 'premedicated with midazolam');
+    expect(() => exclude.run(1, 1, '  ')).toThrow(/CHECK constraint failed/);
+    expect(() => exclude.run(2, 1, 'no such record')).toThrow(/FOREIGN KEY constraint failed/);
+    expect(() => exclude.run(1, 2, 'neither')).toThrow(/CHECK constraint failed/);
+    expect(() => db.prepare('UPDATE evidence_exclusions SET excluded = 0').run()).toThrow(/never changed/);
+    expect(() => db.prepare('DELETE FROM evidence_exclusions').run()).toThrow(/never deleted/);
+    const toggle = db.prepare(
+      "INSERT INTO evidence_calibration_switch (calibration_on, reason, entered_at, entered_by) VALUES (?, '', '2026-11-01T08:00:00.000Z', 'RW')",
+    );
+    toggle.run(0);
+    expect(() => toggle.run(3)).toThrow(/CHECK constraint failed/);
+    expect(() => db.prepare('DELETE FROM evidence_calibration_switch').run()).toThrow(/never deleted/);
+  });
+});

@@ -10,13 +10,14 @@ describe('start arguments', () => {
       open: true,
       forceBrowser: false,
       newClinic: false,
+      demo: false,
     });
   });
 
-  it('reads --port, --data, --no-open, --browser and --new-clinic', () => {
+  it('reads --port, --data, --no-open, --browser, --new-clinic and --demo', () => {
     expect(
       parseStartArguments(
-        ['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser', '--new-clinic'],
+        ['--port', '8123', '--data', '/tmp/x', '--no-open', '--browser', '--new-clinic', '--demo'],
         {},
       ),
     ).toEqual({
@@ -25,6 +26,7 @@ describe('start arguments', () => {
       open: false,
       forceBrowser: true,
       newClinic: true,
+      demo: true,
     });
   });
 

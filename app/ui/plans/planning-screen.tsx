@@ -21,6 +21,7 @@ import { CompareTable } from './compare-table.js';
 import { defaultDraft, inputToDraft, type PlanDraft } from './plan-draft.js';
 import { PlanForm } from './plan-form.js';
 import { CautionList, PlanResults } from './plan-results.js';
+import { PlanCalibration } from '../evidence/plan-calibration.js';
 import { usePlanComputation } from './use-plan-computation.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 
@@ -356,6 +357,13 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
                     : { label: 'plan A', result: computationA.result }
                   : undefined
               }
+            />
+          )}
+          {shownComputation.result !== null && (
+            <PlanCalibration
+              result={shownComputation.result}
+              speciesKey={shownComputation.input?.speciesId}
+              savedPlanId={context.savedPlanId}
             />
           )}
         </div>

@@ -17,6 +17,7 @@ import { RecordHeader } from './record-header.js';
 import { RecordPrintView } from './record-print-view.js';
 import './record-entry.css';
 import { Milestones } from './record-milestones.js';
+import { LogForecastPanel } from '../evidence/log-forecast.js';
 import { useNowMs } from './use-now.js';
 import { useRecordWrites } from './use-record-writes.js';
 import { VitalsReminder } from './vitals-reminder.js';
@@ -111,6 +112,7 @@ function LiveRecordScreen({
       </div>
 
       <Milestones entries={entries} />
+      <LogForecastPanel detail={detail} nowMs={nowMs} />
 
       <div className="record-body">
         <div className="record-chart-panel">

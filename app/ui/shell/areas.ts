@@ -1,4 +1,4 @@
-export type AreaId = 'patients' | 'species' | 'plans' | 'records' | 'worksheets' | 'settings';
+export type AreaId = 'patients' | 'species' | 'plans' | 'records' | 'evidence' | 'worksheets' | 'settings';
 
 export type Area = {
   readonly id: AreaId;
@@ -39,6 +39,12 @@ export const areas: readonly Area[] = [
       'the printable pre-procedure worksheet with the plan, an emergency card in your clinic’s own doses and a monitoring grid',
   },
   { id: 'settings', title: 'Settings', purpose: 'clinic name, address and preferred units' },
+  {
+    id: 'evidence',
+    title: 'Observed vs predicted',
+    purpose:
+      'the clinic’s completed records beside the model’s prediction for what was given, and the calibration on them',
+  },
 ];
 
 export type Route = { readonly area: AreaId; readonly segments: readonly string[] };

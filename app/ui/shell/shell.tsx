@@ -18,7 +18,7 @@ function skipToMain(event: React.MouseEvent<HTMLAnchorElement>) {
   document.getElementById('main')?.focus();
 }
 
-/** Frame of every screen: the standing caution, navigation (Alt+1 to Alt+6) and the content. */
+/** Frame of every screen: the standing caution, navigation (Alt+1 to Alt+7) and the content. */
 export function Shell({ current, clinicName, appVersion, screenKey, children }: Props) {
   useScreenAnnouncement(screenKey);
   useEffect(() => {

@@ -1,0 +1,331 @@
+import { useMemo, useState } from 'react';
+import type { EvidenceFilter, EvidenceRow } from '../../contract/evidence-channels.js';
+import { agentIds, agentLabels } from '../../core/agents.js';
+import { routeLabels, routes } from '../../core/delivery.js';
+import {
+  evidenceMilestoneIds,
+  milestoneEvents,
+  type EvidenceMilestoneId,
+} from '../../core/evidence/observed.js';
+import { api } from '../common/bridge.js';
+import { downloadText } from '../common/download.js';
+import { ScrollRegion } from '../common/scroll-region.js';
+import { useChannel } from '../common/use-channel.js';
+import { useWriteMeta } from '../common/write-meta.js';
+import { href } from '../shell/areas.js';
+import { CalibrationPanel } from './calibration-panel.js';
+import { EvidenceChart } from './evidence-chart.js';
+import './evidence.css';
+
+/** Rows shown at first; the rest on request, so a clinic of thousands of records opens quickly. */
+const firstRows = 200;
+
+const minutes = (value: number | null) => (value === null ? '—' : value.toFixed(1));
+
+/** "Observed vs predicted": the clinic's completed records beside the model, filterable, with CSV. */
+export function EvidenceArea() {
+  const [filter, setFilter] = useState<EvidenceFilter>({});
+  const [milestone, setMilestone] = useState<EvidenceMilestoneId>('standing');
+  const [showAll, setShowAll] = useState(false);
+  const [load, reload] = useChannel('evidence:list', filter);
+  const [calibrationLoad, reloadCalibration] = useChannel('evidence:calibration', {});
+  const [speciesLoad] = useChannel('species:list', {});
+  const [message, setMessage] = useState<string | null>(null);
+  const label = milestoneEvents[milestone].label;
+
+  function update(change: Partial<EvidenceFilter>) {
+    const merged: Record<string, unknown> = { ...filter, ...change };
+    setFilter(
+      Object.fromEntries(
+        Object.entries(merged).filter(([, value]) => value !== '' && value !== undefined),
+      ) as EvidenceFilter,
+    );
+  }
+
+  async function exportCsv() {
+    const answer = await api.invoke('evidence:export-csv', filter);
+    if (answer.ok) downloadText(answer.value.fileName, answer.value.csv, 'text/csv;charset=utf-8');
+    setMessage(
+      answer.ok ? `Exported ${answer.value.rows} records.` : `Export failed: ${answer.error.message}`,
+    );
+  }
+
+  const rows = useMemo(() => (load.state === 'ready' ? load.value.rows : []), [load]);
+  const shown = useMemo(() => (showAll ? rows : rows.slice(0, firstRows)), [rows, showAll]);
+
+  return (
+    <section className="screen evidence" aria-labelledby="evidence-title">
+      <h1 id="evidence-title">Observed vs predicted</h1>
+      <p>
+        Each completed procedure record beside what the model predicts for what was given: the logged dial,
+        flow, intubation, IPPV and heart rate. Induction and intubation are timed from the first dial above 0;
+        first movement and standing from the vaporiser off. A record with a missing event is skipped for that
+        milestone and counted, never filled in.
+      </p>
+      <form
+        className="evidence-filters"
+        onSubmit={(event) => event.preventDefault()}
+        aria-label="Filter the records"
+      >
+        <label>
+          Species{' '}
+          <select
+            value={filter.speciesKey ?? ''}
+            onChange={(event) => update({ speciesKey: event.target.value })}
+          >
+            <option value="">All</option>
+            {speciesLoad.state === 'ready' &&
+              speciesLoad.value.map((species) => (
+                <option key={species.key} value={species.key}>
+                  {species.values.commonName}
+                </option>
+              ))}
+          </select>
+        </label>
+        <label>
+          Agent{' '}
+          <select
+            value={filter.agent ?? ''}
+            onChange={(event) =>
+              update({ agent: (event.target.value || undefined) as EvidenceFilter['agent'] })
+            }
+          >
+            <option value="">All</option>
+            {agentIds.map((agent) => (
+              <option key={agent} value={agent}>
+                {agentLabels[agent]}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label>
+          Airway{' '}
+          <select
+            value={filter.route ?? ''}
+            onChange={(event) =>
+              update({ route: (event.target.value || undefined) as EvidenceFilter['route'] })
+            }
+          >
+            <option value="">All</option>
+            {routes.map((route) => (
+              <option key={route} value={route}>
+                {routeLabels[route]}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label>
+          Staff{' '}
+          <input
+            size={6}
+            value={filter.staffInitials ?? ''}
+            onChange={(event) => update({ staffInitials: event.target.value })}
+          />
+        </label>
+        <label>
+          From{' '}
+          <input
+            type="date"
+            value={filter.from ?? ''}
+            onChange={(event) => update({ from: event.target.value })}
+          />
+        </label>
+        <label>
+          To{' '}
+          <input
+            type="date"
+            value={filter.to ?? ''}
+            onChange={(event) => update({ to: event.target.value })}
+          />
+        </label>
+        <label>
+          Milestone{' '}
+          <select
+            value={milestone}
+            onChange={(event) => setMilestone(event.target.value as EvidenceMilestoneId)}
+          >
+            {evidenceMilestoneIds.map((id) => (
+              <option key={id} value={id}>
+                {milestoneEvents[id].label}
+              </option>
+            ))}
+          </select>
+        </label>
+        <button type="button" onClick={() => void exportCsv()}>
+          Export CSV
+        </button>
+      </form>
+      {message !== null && <p role="status">{message}</p>}
+      {load.state === 'loading' && <p aria-busy="true">Reading the records…</p>}
+      {load.state === 'failed' && (
+        <p className="form-error" role="alert">
+          {load.error.message}
+        </p>
+      )}
+      {load.state === 'ready' && (
+        <>
+          <p className="evidence-counts" role="status">
+            {load.value.counts.completed} completed records; {load.value.counts.compared} compared;{' '}
+            {load.value.counts.skipped} skipped whole; skipped for a missing or unusable event:{' '}
+            {evidenceMilestoneIds
+              .map(
+                (id) =>
+                  `${milestoneEvents[id].label.toLowerCase()} ${load.value.counts.skippedByMilestone[id]}`,
+              )
+              .join(', ')}
+            ; {load.value.counts.excluded} left out of the calibration; {load.value.counts.inProgress} still
+            running (not shown).
+          </p>
+          <div className="evidence-body">
+            <EvidenceChart rows={rows} milestone={milestone} label={label} />
+            <EvidenceTable
+              rows={shown}
+              milestone={milestone}
+              label={label}
+              onChanged={() => {
+                reload();
+                reloadCalibration();
+              }}
+            />
+          </div>
+          {!showAll && rows.length > firstRows && (
+            <button type="button" onClick={() => setShowAll(true)}>
+              Show all {rows.length} records
+            </button>
+          )}
+        </>
+      )}
+      {calibrationLoad.state === 'ready' && (
+        <CalibrationPanel calibration={calibrationLoad.value} onChanged={reloadCalibration} />
+      )}
+    </section>
+  );
+}
+
+function EvidenceTable({
+  rows,
+  milestone,
+  label,
+  onChanged,
+}: {
+  readonly rows: readonly EvidenceRow[];
+  readonly milestone: EvidenceMilestoneId;
+  readonly label: string;
+  readonly onChanged: () => void;
+}) {
+  const writeMeta = useWriteMeta();
+  const [leaving, setLeaving] = useState<number | null>(null);
+  const [reason, setReason] = useState('');
+  const [error, setError] = useState<string | null>(null);
+
+  async function setExcluded(recordId: number, excluded: boolean, why: string) {
+    const meta = writeMeta(why);
+    if ('missing' in meta) {
+      setError(meta.missing);
+      return;
+    }
+    const answer = await api.invoke('evidence:exclude', { recordId, excluded, meta: meta.meta });
+    if (!answer.ok) {
+      setError(answer.error.message);
+      return;
+    }
+    setError(null);
+    setLeaving(null);
+    setReason('');
+    onChanged();
+  }
+
+  return (
+    <div className="evidence-table-panel">
+      {error !== null && (
+        <p className="form-error" role="alert">
+          {error}
+        </p>
+      )}
+      <ScrollRegion label={`Records: ${label}, observed and predicted`}>
+        <table className="evidence-table">
+          <thead>
+            <tr>
+              <th scope="col">Record</th>
+              <th scope="col">Day</th>
+              <th scope="col">Bird</th>
+              <th scope="col">Airway, staff</th>
+              <th scope="col">Observed (min)</th>
+              <th scope="col">Predicted (min)</th>
+              <th scope="col">Observed / predicted</th>
+              <th scope="col">Calibration</th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((row) => {
+              const entry = row.milestones.find((candidate) => candidate.id === milestone);
+              return (
+                <tr key={row.recordId}>
+                  <th scope="row">
+                    <a href={href('records', row.recordId)}>{row.recordId}</a>
+                  </th>
+                  <td>{row.startedAt.slice(0, 10)}</td>
+                  <td>
+                    {row.patientName} ({row.speciesName})
+                  </td>
+                  <td>
+                    {row.airway}, {row.staffInitials}
+                  </td>
+                  {row.skipped !== null ? (
+                    <td colSpan={3}>Skipped: {row.skipped}</td>
+                  ) : entry?.ratio == null ? (
+                    <td colSpan={3}>Skipped: {entry?.skipped ?? 'not compared'}</td>
+                  ) : (
+                    <>
+                      <td>{minutes(entry.observedMin)}</td>
+                      <td>{minutes(entry.predictedMin)}</td>
+                      <td>{`x${entry.ratio.toFixed(2)}`}</td>
+                    </>
+                  )}
+                  <td>
+                    {row.exclusion !== null ? (
+                      <>
+                        Left out: {row.exclusion.reason} ({row.exclusion.enteredBy}){' '}
+                        <button
+                          type="button"
+                          onClick={() => void setExcluded(row.recordId, false, 'taken back in')}
+                        >
+                          Take back in
+                        </button>
+                      </>
+                    ) : leaving === row.recordId ? (
+                      <span className="evidence-leave">
+                        <label>
+                          Reason{' '}
+                          <input
+                            value={reason}
+                            onChange={(event) => setReason(event.target.value)}
+                            size={18}
+                          />
+                        </label>{' '}
+                        <button type="button" onClick={() => void setExcluded(row.recordId, true, reason)}>
+                          Leave out
+                        </button>{' '}
+                        <button type="button" onClick={() => setLeaving(null)}>
+                          Cancel
+                        </button>
+                      </span>
+                    ) : (
+                      <button
+                        type="button"
+                        onClick={() => setLeaving(row.recordId)}
+                        aria-label={`Leave out record ${row.recordId}`}
+                      >
+                        Leave out
+                      </button>
+                    )}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </ScrollRegion>
+    </div>
+  );
+}

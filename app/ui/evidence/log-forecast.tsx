@@ -1,0 +1,156 @@
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { recordLogOf } from '../../contract/evidence-channels.js';
+import type { ProcedureDetail } from '../../contract/record-channels.js';
+import { speciesToReference } from '../../contract/species-mapping.js';
+import { forecastPlan, readForecast, type LogForecast } from '../../core/evidence/forecast.js';
+import type { LogPlan } from '../../core/evidence/record-log.js';
+import { computePlan } from '../../core/model/compute-plan.js';
+import type { PlanResult } from '../../core/model/plan-types.js';
+import { useClinicSettings } from '../common/settings-context.js';
+import { useChannel } from '../common/use-channel.js';
+import { clockText } from '../records/clock-time.js';
+import { RecordOutcome } from './record-outcome.js';
+import './evidence.css';
+
+/** Uncertainty samples of the band run in the worker (the quick answer has none). */
+const bandSamples = 40;
+
+const clock = (ms: number | null) =>
+  ms === null ? 'not within 90 min' : clockText(new Date(ms).toISOString());
+const range = (band: { low: number; high: number } | null, digits: number) =>
+  band === null
+    ? ''
+    : ` (90 % of birds like this: ${band.low.toFixed(digits)} to ${band.high.toFixed(digits)})`;
+
+/**
+ * The forecast that follows the log: the model run on what has been logged, with the vaporiser
+ * off now. Recomputed at every saved row and once a minute; after the record ends, the observed
+ * milestones beside the prediction for what was given.
+ */
+export function LogForecastPanel({
+  detail,
+  nowMs,
+}: {
+  readonly detail: ProcedureDetail;
+  readonly nowMs: number;
+}) {
+  if (detail.record.values.endedAt !== null) return <RecordOutcome recordId={detail.record.id} />;
+  return <RunningForecast detail={detail} nowMs={nowMs} />;
+}
+
+function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; readonly nowMs: number }) {
+  const settings = useClinicSettings();
+  const planId = detail.record.values.planId;
+  const [planLoad] = useChannel('plans:get', { id: planId ?? 1 });
+  const [speciesLoad] = useChannel('species:list', {});
+  const minuteMs = Math.floor(nowMs / 60_000) * 60_000;
+  const species = useMemo(
+    () => (speciesLoad.state === 'ready' ? speciesLoad.value.map(speciesToReference) : null),
+    [speciesLoad],
+  );
+  const plan = planId === null ? null : planLoad.state === 'ready' ? planLoad.value.plan.input : undefined;
+  const built = useMemo((): { plan: Extract<LogPlan, { ok: true }> } | { missing: string } | null => {
+    if (plan === undefined || species === null) return null;
+    const logged = recordLogOf(detail.record, detail.entries, {
+      bodyMassG: detail.latestMassG,
+      speciesKey: detail.patient.values.speciesKey,
+      plan,
+      defaultAgent: settings.defaultAgent,
+    });
+    if (!logged.ok) return { missing: logged.missing };
+    const forecast = forecastPlan(logged.log, minuteMs);
+    return forecast.ok ? { plan: forecast } : { missing: forecast.missing };
+  }, [detail, plan, species, settings.defaultAgent, minuteMs]);
+
+  // The quick answer, during the render: a few milliseconds for a 3-h record.
+  const quick = useMemo((): LogForecast | { failure: string } | null => {
+    if (built === null || !('plan' in built) || species === null) return null;
+    try {
+      return readForecast(built.plan, computePlan(built.plan.input, { species }), minuteMs);
+    } catch (error) {
+      return { failure: error instanceof Error ? error.message : String(error) };
+    }
+  }, [built, species, minuteMs]);
+
+  // The band: the same run with uncertainty samples, off the main thread.
+  const worker = useRef<Worker | null>(null);
+  const [banded, setBanded] = useState<{ key: string; forecast: LogForecast } | null>(null);
+  const bandKey = built !== null && 'plan' in built ? JSON.stringify(built.plan.input) : '';
+  useEffect(() => {
+    const created = new Worker(new URL('../plans/plan-worker.ts', import.meta.url), { type: 'module' });
+    worker.current = created;
+    return () => {
+      created.terminate();
+      worker.current = null;
+    };
+  }, []);
+  useEffect(() => {
+    const target = worker.current;
+    if (target === null || built === null || !('plan' in built) || species === null) return;
+    const request = { ...built.plan.input, uncertainty: { samples: bandSamples, seed: 1 } };
+    const id = Math.floor(minuteMs / 1000) % 1_000_000;
+    target.onmessage = (event: MessageEvent<{ id: number; result?: PlanResult }>) => {
+      if (event.data.id !== id || event.data.result === undefined) return;
+      setBanded({ key: bandKey, forecast: readForecast(built.plan, event.data.result, minuteMs) });
+    };
+    target.postMessage({ id, input: request, species });
+  }, [built, bandKey, species, minuteMs]);
+
+  const shown =
+    banded !== null && banded.key === bandKey
+      ? banded.forecast
+      : quick !== null && !('failure' in quick)
+        ? quick
+        : null;
+  return (
+    <section className="evidence-forecast" aria-labelledby="forecast-title" aria-live="polite">
+      <h2 id="forecast-title">Forecast that follows the log</h2>
+      {built !== null && 'missing' in built && <p>No forecast yet: {built.missing}.</p>}
+      {quick !== null && 'failure' in quick && (
+        <p className="form-error">The model could not run on this log: {quick.failure}</p>
+      )}
+      {shown !== null && (
+        <>
+          <dl>
+            <div>
+              <dt>Predicted depth now</dt>
+              <dd data-testid="forecast-depth">
+                {shown.depthNowMac.toFixed(2)} x MAC{range(shown.depthBandMac, 2)}
+              </dd>
+            </div>
+            <div>
+              <dt>{shown.alreadyOff ? 'Vaporiser went off at' : 'If the vaporiser goes off now'}</dt>
+              <dd>{clock(shown.offAtMs)}</dd>
+            </div>
+            <div>
+              <dt>First movement about</dt>
+              <dd data-testid="forecast-first-movement">
+                {clock(shown.firstMovementAtMs)}
+                {range(shown.firstMovementBandMin, 0).replace(')', ' min after off)')}
+              </dd>
+            </div>
+            <div>
+              <dt>Standing or perching about</dt>
+              <dd
+                data-testid="forecast-standing"
+                data-minutes-after-off={
+                  shown.standingAtMs === null
+                    ? ''
+                    : ((shown.standingAtMs - shown.offAtMs) / 60_000).toFixed(2)
+                }
+              >
+                {clock(shown.standingAtMs)}
+                {range(shown.standingBandMin, 0).replace(')', ' min after off)')}
+              </dd>
+            </div>
+          </dl>
+          <p className="basis">
+            An estimate for a typical bird given this log (MAC {shown.macPct} %), not a measurement: the bird
+            decides. Watch the bird, not the forecast. {shown.notes.join(' ')}
+            {banded === null || banded.key !== bandKey ? ' Band being computed…' : ''}
+          </p>
+        </>
+      )}
+    </section>
+  );
+}

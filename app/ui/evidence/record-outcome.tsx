@@ -1,0 +1,42 @@
+import { milestoneEvents } from '../../core/evidence/observed.js';
+import { useChannel } from '../common/use-channel.js';
+import { href } from '../shell/areas.js';
+
+/** After a record ends: each observed milestone beside what the model predicted for what was given. */
+export function RecordOutcome({ recordId }: { readonly recordId: number }) {
+  const [load] = useChannel('evidence:list', { recordId });
+  if (load.state === 'loading') return <p aria-busy="true">Comparing with the model…</p>;
+  if (load.state === 'failed')
+    return (
+      <p className="form-error" role="alert">
+        {load.error.message}
+      </p>
+    );
+  const row = load.value.rows[0];
+  if (row === undefined) return null;
+  return (
+    <section className="evidence-forecast" aria-labelledby="outcome-title">
+      <h2 id="outcome-title">Observed beside predicted for what was given</h2>
+      {row.skipped !== null ? (
+        <p>Not compared: {row.skipped}.</p>
+      ) : (
+        <dl>
+          {row.milestones.map((milestone) => (
+            <div key={milestone.id}>
+              <dt>{milestoneEvents[milestone.id].label}</dt>
+              <dd>
+                {milestone.ratio === null
+                  ? `skipped: ${milestone.skipped ?? ''}`
+                  : `observed ${milestone.observedMin?.toFixed(1) ?? ''} min, predicted ${milestone.predictedMin?.toFixed(1) ?? ''} min (x${milestone.ratio.toFixed(2)})`}
+              </dd>
+            </div>
+          ))}
+        </dl>
+      )}
+      <p className="basis">
+        Induction and intubation from the first dial above 0; first movement and standing from the vaporiser
+        off. {row.notes.join(' ')} <a href={href('evidence')}>All records, observed vs predicted</a>
+      </p>
+    </section>
+  );
+}

@@ -1,0 +1,313 @@
+import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
+import {
+  recordLogOf,
+  type EvidenceFilter,
+  type EvidenceRow,
+  type evidenceChannels,
+} from '../../app/contract/evidence-channels.js';
+import { planInputSchema, type PlanInput } from '../../app/contract/plan.js';
+import { speciesToReference } from '../../app/contract/species-mapping.js';
+import {
+  calibrationPrior,
+  fitMilestone,
+  speciesCalibration,
+  z90,
+} from '../../app/core/evidence/calibration.js';
+import { evidenceCsv } from '../../app/core/evidence/evidence-csv.js';
+import {
+  evidenceMilestoneIds,
+  milestoneEvents,
+  recordEvidence,
+  type EvidenceMilestoneId,
+} from '../../app/core/evidence/observed.js';
+import { speciesGroupOf, speciesGroups } from '../../app/core/evidence/species-groups.js';
+import { modelVersion } from '../../app/core/model/compute-plan.js';
+import type { TidewingDatabase } from '../../db/connection.js';
+import { createEvidenceRepository } from '../../db/repositories/evidence-repository.js';
+import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import { createPlanRepository } from '../../db/repositories/plan-repository.js';
+import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
+import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
+import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
+import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import { createWeightRepository } from '../../db/repositories/weight-repository.js';
+import { RecordError } from './record-handlers.js';
+
+type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
+type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+
+/** The method in one paragraph, for the screens (docs/evidence.md has the equations). */
+export const calibrationMethod =
+  'Observed / predicted per milestone, on the log scale, in a three-level normal hierarchical model: each species shrunk towards its group of species and the group towards the whole clinic, the clinic towards the population model (empirical Bayes partial pooling; Gelman et al., Bayesian Data Analysis, 3rd ed. 2013, ch. 5; Efron & Morris 1975, JASA 70:311-319). Records with a missing event are left out of that milestone, never filled in.';
+
+/** Everything in a record that its evidence depends on, so an unchanged record is not recomputed. */
+function fingerprint(parts: readonly (string | number | null)[]): string {
+  return parts.map((part) => String(part)).join('|');
+}
+
+/** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
+export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): EvidenceHandlerTable {
+  const evidence = createEvidenceRepository(db);
+  const procedures = createProcedureRecordRepository(db);
+  const entries = createProcedureEntryRepository(db);
+  const patients = createPatientRepository(db);
+  const weights = createWeightRepository(db);
+  const species = createSpeciesRepository(db);
+  const plans = createPlanRepository(db);
+  const settings = createSettingsRepository(db);
+  // Rows computed before, by record id, with the fingerprint they were computed for.
+  const cache = new Map<number, { key: string; row: Omit<EvidenceRow, 'exclusion'> }>();
+
+  function allRows(): { rows: EvidenceRow[]; inProgress: number } {
+    const speciesList = species.list();
+    const tables = { species: speciesList.map(speciesToReference) };
+    const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
+    const exclusions = evidence.exclusions();
+    const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
+    // Species edits and the default agent change every record's answer.
+    const clinicKey = fingerprint([
+      modelVersion,
+      defaultAgent,
+      speciesList.map((entry) => entry.stamp.versionId).join(','),
+    ]);
+    let inProgress = 0;
+    const rows: EvidenceRow[] = [];
+    const exclusionOf = (recordId: number) => {
+      const entry = exclusions.get(recordId);
+      return entry !== undefined && entry.excluded
+        ? { reason: entry.reason, enteredBy: entry.enteredBy, enteredAt: entry.enteredAt }
+        : null;
+    };
+    for (const { recordId, ended, key: recordKey } of evidence.recordFingerprints()) {
+      if (!ended) {
+        inProgress += 1;
+        continue;
+      }
+      const key = `${clinicKey}|${recordKey}`;
+      const cached = cache.get(recordId);
+      if (cached !== undefined && cached.key === key) {
+        rows.push({ ...cached.row, exclusion: exclusionOf(recordId) });
+        continue;
+      }
+      const record = procedures.get(recordId);
+      if (record === null || record.values.endedAt === null) continue;
+      const patient = patients.get(record.patientId);
+      if (patient === null) continue;
+      const speciesRecord = speciesByKey.get(patient.values.speciesKey);
+      const recordEntries = entries.list(record.id);
+      const day = record.values.startedAt.slice(0, 10);
+      const patientWeights = weights.list(patient.id);
+      const weight =
+        [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
+        patientWeights[0] ??
+        null;
+      const exclusion = exclusionOf(recordId);
+      const planRecord = record.values.planId === null ? null : plans.get(record.values.planId);
+      const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
+      const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
+      const base = {
+        recordId: record.id,
+        patientId: patient.id,
+        patientName: patient.values.name,
+        speciesKey: patient.values.speciesKey,
+        speciesName: speciesRecord?.values.commonName ?? patient.values.speciesKey,
+        agent: planInput?.agent ?? defaultAgent,
+        airway: record.values.airway,
+        staffInitials: record.values.staffInitials,
+        procedureName: record.values.procedureName,
+        startedAt: record.values.startedAt,
+        endedAt: record.values.endedAt,
+      };
+      const logged = recordLogOf(record, recordEntries, {
+        bodyMassG: weight?.values.massG ?? null,
+        speciesKey: patient.values.speciesKey,
+        plan: planInput,
+        defaultAgent,
+      });
+      let row: Omit<EvidenceRow, 'exclusion'>;
+      if (!logged.ok) {
+        row = {
+          ...base,
+          agentBasis: '',
+          bodyMassG: null,
+          skipped: logged.missing,
+          milestones: [],
+          extubationMin: null,
+          notes: [],
+        };
+      } else {
+        const compared = recordEvidence(logged.log, tables);
+        row = {
+          ...base,
+          agentBasis: logged.log.bird.agentBasis,
+          bodyMassG: logged.log.bird.bodyMassG,
+          skipped: compared.ok ? null : compared.skipped,
+          milestones: compared.ok
+            ? compared.milestones.map((milestone) =>
+                'ratio' in milestone
+                  ? { ...milestone, skipped: null }
+                  : {
+                      id: milestone.id,
+                      observedMin: null,
+                      predictedMin: null,
+                      ratio: null,
+                      skipped: milestone.skipped,
+                    },
+              )
+            : [],
+          extubationMin:
+            compared.ok && compared.extubationMin !== null && compared.extubationMin > 0
+              ? compared.extubationMin
+              : null,
+          notes: compared.ok ? [...compared.notes] : [],
+        };
+      }
+      cache.set(record.id, { key, row });
+      rows.push({ ...row, exclusion });
+    }
+    // Newest start first, as the records list shows them.
+    rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
+    return { rows, inProgress };
+  }
+
+  function matches(row: EvidenceRow, filter: EvidenceFilter): boolean {
+    if (filter.recordId !== undefined && row.recordId !== filter.recordId) return false;
+    if (filter.speciesKey !== undefined && filter.speciesKey !== '' && row.speciesKey !== filter.speciesKey)
+      return false;
+    if (filter.agent !== undefined && row.agent !== filter.agent) return false;
+    if (filter.route !== undefined && row.airway !== filter.route) return false;
+    if (
+      filter.staffInitials !== undefined &&
+      filter.staffInitials.trim() !== '' &&
+      !row.staffInitials.toLowerCase().includes(filter.staffInitials.trim().toLowerCase())
+    )
+      return false;
+    if (filter.from !== undefined && row.startedAt.slice(0, 10) < filter.from) return false;
+    if (filter.to !== undefined && row.startedAt.slice(0, 10) > filter.to) return false;
+    return true;
+  }
+
+  function list(filter: EvidenceFilter) {
+    if (filter.from !== undefined && filter.to !== undefined && filter.to < filter.from)
+      throw new RecordError('invalid-request', 'The "to" date is before the "from" date; swap them.', 'to');
+    const { rows, inProgress } = allRows();
+    const shown = rows.filter((row) => matches(row, filter));
+    const skippedByMilestone = Object.fromEntries(evidenceMilestoneIds.map((id) => [id, 0])) as Record<
+      EvidenceMilestoneId,
+      number
+    >;
+    let compared = 0;
+    for (const row of shown) {
+      if (row.skipped !== null) continue;
+      if (row.milestones.some((milestone) => milestone.ratio !== null)) compared += 1;
+      for (const milestone of row.milestones)
+        if (milestone.ratio === null) skippedByMilestone[milestone.id] += 1;
+    }
+    return {
+      rows: shown,
+      counts: {
+        completed: shown.length,
+        compared,
+        skipped: shown.filter((row) => row.skipped !== null).length,
+        skippedByMilestone,
+        excluded: shown.filter((row) => row.exclusion !== null).length,
+        inProgress,
+      },
+    };
+  }
+
+  function calibration() {
+    const switchState = evidence.calibrationSwitch();
+    const { rows } = allRows();
+    const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
+    const speciesList = species.list();
+    const recordsIn = used
+      .map((row) => ({
+        recordId: row.recordId,
+        milestones: row.milestones
+          .filter((milestone) => milestone.ratio !== null)
+          .map((milestone) => milestone.id),
+      }))
+      .filter((entry) => entry.milestones.length > 0);
+    const band = (mean: number, sd: number) => ({
+      low: Math.exp(mean - z90 * sd),
+      high: Math.exp(mean + z90 * sd),
+    });
+    return {
+      on: switchState.on,
+      switchedBy: switchState.enteredBy,
+      switchedAt: switchState.enteredAt,
+      switchReason: switchState.reason,
+      method: calibrationMethod,
+      priorBasis: calibrationPrior.basis,
+      milestones: evidenceMilestoneIds.map((id) => {
+        const observations = used.flatMap((row) =>
+          row.milestones
+            .filter((milestone) => milestone.id === id && milestone.ratio !== null)
+            .map((milestone) => ({
+              speciesId: row.speciesKey,
+              logRatio: Math.log(milestone.ratio as number),
+            })),
+        );
+        const fit = fitMilestone(observations);
+        return {
+          id,
+          label: milestoneEvents[id].label,
+          records: fit.records,
+          birdSd: fit.birdSd,
+          clinicFactor: Math.exp(fit.clinic.mean),
+          clinicBand90: band(fit.clinic.mean, fit.clinic.sd),
+          species: speciesList.map((entry) => {
+            const calibrated = speciesCalibration(fit, entry.key);
+            return {
+              speciesKey: entry.key,
+              speciesName: entry.values.commonName,
+              groupName: speciesGroups[speciesGroupOf(entry.key)],
+              factor: calibrated.factor,
+              band90: calibrated.band90,
+              birdBand90: calibrated.birdBand90,
+              speciesRecords: calibrated.speciesRecords,
+              groupRecords: calibrated.groupRecords,
+              clinicRecords: calibrated.clinicRecords,
+            };
+          }),
+        };
+      }),
+      recordsIn,
+    };
+  }
+
+  return {
+    'evidence:list': (request) => list(request),
+    'evidence:export-csv': (request) => {
+      const { rows } = list(request);
+      const csv = evidenceCsv(
+        rows.map((row) => ({
+          ...row,
+          agent: row.agent,
+          excludedReason: row.exclusion?.reason ?? null,
+        })),
+      );
+      const day = now().toISOString().slice(0, 10);
+      return { fileName: `tidewing-observed-vs-predicted-${day}.csv`, csv, rows: rows.length };
+    },
+    'evidence:calibration': () => calibration(),
+    'evidence:exclude': (request) => {
+      const record = procedures.get(request.recordId);
+      if (record === null)
+        throw new RecordError(
+          'not-found',
+          `Procedure record ${request.recordId} was not found; it may have been opened from an old link.`,
+          'recordId',
+        );
+      if (record.values.endedAt === null)
+        throw new RecordError(
+          'invalid-request',
+          'This record has not ended; only completed records go into the calibration.',
+          'recordId',
+        );
+      return evidence.setExcluded(request.recordId, request.excluded, request.meta, now());
+    },
+    'evidence:set-calibration': (request) => evidence.setCalibration(request.on, request.meta, now()),
+  };
+}

@@ -1,0 +1,136 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { fitMilestone } from '../../app/core/evidence/calibration.js';
+import { forecastPlan, readForecast } from '../../app/core/evidence/forecast.js';
+import type { LoggedEntry, RecordLog } from '../../app/core/evidence/record-log.js';
+import { computePlan } from '../../app/core/model/compute-plan.js';
+import { seededRandom } from '../../app/core/model/uncertainty.js';
+import { speciesReference } from '../../app/core/species-reference.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
+import { demoSeed, writeDemoRecords } from '../../main/back-end/demo-clinic.js';
+import { generateDemoClinic } from '../../app/core/evidence/demo-clinic.js';
+import { median, type Figure } from './figures.js';
+
+const tables = { species: speciesReference };
+
+/** An invented 3-h cockatiel record: a row every 5 min with the dial between 1.5 and 3 %, intubated at 4 min. */
+function threeHourLog(): RecordLog {
+  const random = seededRandom(3);
+  const t0 = Date.parse('2026-06-01T08:00:00Z');
+  const entries: LoggedEntry[] = [];
+  for (let minute = 0; minute <= 180; minute += 5)
+    entries.push({
+      atMs: t0 + minute * 60_000,
+      kind: 'vitals',
+      vaporPct: minute === 0 ? 4 : Math.round((1.5 + random() * 1.5) * 4) / 4,
+      oxygenLpm: 0.8,
+      heartRatePerMin: 300 + Math.round(random() * 60),
+      breathsPerMin: 20,
+      eventType: null,
+    });
+  entries.push({
+    ...(entries[0] as LoggedEntry),
+    atMs: t0 + 4 * 60_000,
+    kind: 'event',
+    eventType: 'intubation',
+  });
+  return {
+    startedAtMs: t0,
+    endedAtMs: null,
+    airway: 'endotracheal',
+    circuit: 'nonRebreathing',
+    bird: { bodyMassG: 95, speciesId: 'cockatiel', agent: 'isoflurane', agentBasis: 'bench' },
+    entries,
+  };
+}
+
+function timed(repeats: number, run: () => void): number {
+  const times: number[] = [];
+  for (let index = 0; index < repeats; index += 1) {
+    const started = performance.now();
+    run();
+    times.push(performance.now() - started);
+  }
+  return median(times);
+}
+
+/** Figures of the clinic's own evidence: forecast, calibration fit, the clinic view's channel. */
+export async function benchEvidence(): Promise<Figure[]> {
+  const log = threeHourLog();
+  const nowMs = log.startedAtMs + 181 * 60_000;
+  const quick = timed(15, () => {
+    const plan = forecastPlan(log, nowMs);
+    if (!plan.ok) throw new Error(plan.missing);
+    readForecast(plan, computePlan(plan.input, tables), nowMs);
+  });
+  const banded = timed(3, () => {
+    const plan = forecastPlan(log, nowMs, 40);
+    if (!plan.ok) throw new Error(plan.missing);
+    readForecast(plan, computePlan(plan.input, tables), nowMs);
+  });
+
+  const random = seededRandom(5);
+  const species = speciesReference.map((entry) => entry.id);
+  const observations = Array.from({ length: 500 }, () => ({
+    speciesId: species[Math.floor(random() * species.length)] as string,
+    logRatio: 0.3 * (random() + random() + random() - 1.5),
+  }));
+  const fit = timed(20, () => {
+    for (let milestone = 0; milestone < 4; milestone += 1) fitMilestone(observations);
+  });
+
+  // The clinic view's channel over 5,000 completed records (the demo clinic written 84 times over).
+  const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-bench-evidence-'));
+  const figures: Figure[] = [
+    {
+      name: 'forecast update, 3-h record (quick run)',
+      value: quick,
+      unit: 'ms',
+      note: 'target: within one frame, 16 ms',
+    },
+    { name: 'forecast band, 3-h record (40 samples, worker)', value: banded, unit: 'ms' },
+    {
+      name: 'calibration fit, 500 records x 4 milestones',
+      value: fit,
+      unit: 'ms',
+      note: 'target: under 1 s',
+    },
+  ];
+  try {
+    const backEnd = startBackEnd({ dataDirectory: folder, appVersion: 'bench', host: 'browser' });
+    try {
+      const now = new Date('2026-06-01T00:00:00Z');
+      const demo = generateDemoClinic(demoSeed, '2026-06-01', tables);
+      let records = 0;
+      while (records < 5000) records += writeDemoRecords(backEnd.db, demo, now);
+      const started = performance.now();
+      const firstOpen = await backEnd.dispatch('evidence:list', {});
+      const firstMs = performance.now() - started;
+      if (!firstOpen.ok) throw new Error(JSON.stringify(firstOpen.error));
+      const again = performance.now();
+      await backEnd.dispatch('evidence:list', {});
+      const againMs = performance.now() - again;
+      figures.push(
+        {
+          name: `clinic view channel, ${records} records, first open`,
+          value: firstMs,
+          unit: 'ms',
+          note: 'every record run through the model',
+        },
+        {
+          name: `clinic view channel, ${records} records, again`,
+          value: againMs,
+          unit: 'ms',
+          note: 'target: opens under 200 ms (records unchanged since)',
+        },
+      );
+    } finally {
+      backEnd.close();
+    }
+  } finally {
+    fs.rmSync(folder, { recursive: true, force: true });
+  }
+  return figures;
+}
