@@ -5,6 +5,7 @@ import { recordChannels } from './record-channels.js';
 import { planChannels } from './plan-records.js';
 import { drugChannels } from './drug-channels.js';
 import { worksheetChannels } from './worksheet-channels.js';
+import { workstationChannels } from './workstation.js';
 
 const empty = z.object({}).strict();
 
@@ -42,6 +43,7 @@ export const channels = {
   ...planChannels,
   ...drugChannels,
   ...worksheetChannels,
+  ...workstationChannels,
 } as const;
 
 export type Channels = typeof channels;

@@ -2,6 +2,7 @@ import { clinicSettingsMigration } from './0001-clinic-settings.js';
 import { clinicRecordsMigration } from './0002-clinic-records.js';
 import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
 import { bodyMassTo200KgMigration } from './0004-body-mass-to-200-kg.js';
+import { workstationsMigration } from './0005-workstations.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -11,6 +12,7 @@ export const migrations: readonly Migration[] = [
   clinicRecordsMigration,
   emergencyDrugsMigration,
   bodyMassTo200KgMigration,
+  workstationsMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -5,7 +5,8 @@ import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { databaseFile } from './data-directory.js';
-import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
+import { createBackEndParts, createDispatcher, type Dispatcher, type HandlerTable } from './handlers.js';
+import type { ThemeChoice } from '../../app/contract/workstation.js';
 import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
 
 export type BackEnd = {
@@ -14,6 +15,8 @@ export type BackEnd = {
   /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
   readonly handlers: HandlerTable;
   readonly databaseFile: string;
+  /** The theme this workstation pinned in Settings, for the hosts to write into the page. */
+  readonly workstationTheme: () => ThemeChoice;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
   close(): void;
@@ -53,7 +56,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const db = openDatabase(file, options.openOptions);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
-  const handlers = createHandlers({
+  const { handlers, workstationTheme } = createBackEndParts({
     db,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
@@ -77,6 +80,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     dispatch: createDispatcher(handlers, options.log),
     handlers,
     databaseFile: file,
+    workstationTheme,
     backupSettled,
     close: () => {
       if (db.open) db.close();
