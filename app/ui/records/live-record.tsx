@@ -18,6 +18,7 @@ import { RecordPrintView } from './record-print-view.js';
 import './record-entry.css';
 import { Milestones } from './record-milestones.js';
 import { useNowMs } from './use-now.js';
+import { useReturnFocus } from '../common/return-focus.js';
 import { useRecordWrites } from './use-record-writes.js';
 import { VitalsReminder } from './vitals-reminder.js';
 
@@ -57,6 +58,8 @@ function LiveRecordScreen({
   const values = record.values;
   const writes = useRecordWrites(record.id, units, reload);
   const [editingDetails, setEditingDetails] = useState(false);
+  // Escape or Close in the details editor puts focus back on the "Correct details" button.
+  const detailsOpener = useReturnFocus();
   // The Time box of the entry row: the event buttons log at this time too.
   const [timeText, setTimeText] = useState('');
   const stopwatch = useApnoeaStopwatch(nowMs, (finished) => {
@@ -74,7 +77,10 @@ function LiveRecordScreen({
         detail={detail}
         nowMs={nowMs}
         editingDetails={editingDetails}
-        onToggleDetails={() => setEditingDetails((open) => !open)}
+        onToggleDetails={() => {
+          if (!editingDetails) detailsOpener.remember();
+          setEditingDetails(!editingDetails);
+        }}
         onExportCsv={() => void writes.exportCsv()}
         onCorrect={(next, reason) => void writes.correctRecord(next, reason)}
       />
@@ -84,7 +90,10 @@ function LiveRecordScreen({
           recordId={record.id}
           values={values}
           onSave={writes.correctRecord}
-          onClose={() => setEditingDetails(false)}
+          onClose={() => {
+            setEditingDetails(false);
+            detailsOpener.returnFocus();
+          }}
         />
       )}
 
