@@ -1,6 +1,12 @@
 import { useState, type FormEvent } from 'react';
 import { describeIssues } from '../../contract/result.js';
-import { themeChoices, themeLabels, workstationChangeSchema } from '../../contract/workstation.js';
+import {
+  themeChoices,
+  themeLabels,
+  workstationChangeSchema,
+  type ThemeChoice,
+} from '../../contract/workstation.js';
+import { applyThemeChoice } from '../common/theme.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { Choice, TextField } from '../common/fields.js';
 import { useOperator } from '../common/operator.js';
@@ -20,6 +26,8 @@ export function WorkstationSection() {
   const [message, setMessage] = useState<SaveMessage | null>(null);
   const [themeMessage, setThemeMessage] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
+  // Shown at once when chosen; back to the stored one if the save fails.
+  const [theme, setTheme] = useState<ThemeChoice>(workstation?.theme ?? 'system');
   const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
   if (workstation === null) return null;
 
@@ -90,17 +98,24 @@ export function WorkstationSection() {
         name="theme"
         options={themeChoices}
         labels={themeLabels}
-        value={workstation.theme}
+        value={theme}
         error={undefined}
         onChange={(value) => {
           setThemeMessage(null);
-          void saveWorkstation({ theme: value }).then((answer) =>
-            setThemeMessage(
-              answer.ok
-                ? { kind: 'saved', text: `${themeLabels[answer.value.theme]}: applied and kept.` }
-                : { kind: 'failed', text: `Theme not kept: ${answer.error.message}` },
-            ),
-          );
+          setTheme(value);
+          applyThemeChoice(value);
+          void saveWorkstation({ theme: value }).then((answer) => {
+            if (answer.ok) {
+              setThemeMessage({
+                kind: 'saved',
+                text: `${themeLabels[answer.value.theme]}: applied and kept.`,
+              });
+              return;
+            }
+            setTheme(workstation.theme);
+            applyThemeChoice(workstation.theme);
+            setThemeMessage({ kind: 'failed', text: `Theme not kept: ${answer.error.message}` });
+          });
         }}
       />
       <SaveStatus message={themeMessage} />
