@@ -16,12 +16,11 @@ import { useFocusFirstError } from '../common/screen-focus.js';
 /**
  * This workstation's own settings, kept in the clinic database under its id: its name (shown
  * beside what it wrote), the initials of whoever is at its keyboard and the screen theme.
- * The theme applies and is saved at once; name and initials with their button.
+ * The theme and the initials are kept at once (the initials as in the top bar); the name with its button.
  */
 export function WorkstationSection() {
   const { workstation, initials, setInitials, saveWorkstation } = useOperator();
   const [name, setName] = useState(workstation?.name ?? '');
-  const [typedInitials, setTypedInitials] = useState(initials);
   const [errors, setErrors] = useState<FieldErrors>({});
   const [message, setMessage] = useState<SaveMessage | null>(null);
   const [themeMessage, setThemeMessage] = useState<SaveMessage | null>(null);
@@ -33,7 +32,7 @@ export function WorkstationSection() {
 
   async function submit(event: FormEvent) {
     event.preventDefault();
-    const local = workstationChangeSchema.safeParse({ name, initials: typedInitials });
+    const local = workstationChangeSchema.safeParse({ name });
     if (!local.success) {
       setErrors(fieldErrorsFrom(describeIssues(local.error.issues)));
       setMessage({ kind: 'failed', text: 'Not saved: correct the fields marked below.' });
@@ -49,8 +48,6 @@ export function WorkstationSection() {
       focusFirstError();
       return;
     }
-    // Initials go the way the top bar's box saves them, so both show the same.
-    setInitials(local.data.initials ?? '');
     setErrors({});
     setName(answer.value.name);
     setMessage({ kind: 'saved', text: `Saved for ${answer.value.name}.` });
@@ -78,13 +75,9 @@ export function WorkstationSection() {
         <TextField
           label="Initials at this workstation"
           name="initials"
-          value={typedInitials}
-          error={errors['initials']}
-          hint="The same as the initials box in the top bar; every record written here carries them."
-          onChange={(value) => {
-            setTypedInitials(value);
-            setMessage(null);
-          }}
+          value={initials}
+          hint="The same as the initials box in the top bar, kept as you type; every record written here carries them."
+          onChange={setInitials}
         />
         <div className="form-actions">
           <button type="submit" disabled={busy}>
