@@ -12,6 +12,7 @@ import { Choice, TextField } from '../common/fields.js';
 import { useOperator } from '../common/operator.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { useFocusFirstError } from '../common/screen-focus.js';
+import './workstation-section.css';
 
 /**
  * This workstation's own settings, kept in the clinic database under its id: its name (shown
@@ -66,7 +67,7 @@ export function WorkstationSection() {
           name="name"
           value={name}
           error={errors['name']}
-          hint="Shown beside the entries written here, e.g. Theatre 1 or Prep room."
+          hint="E.g. Theatre 1 or Prep room, so the clinic can tell its computers apart."
           onChange={(value) => {
             setName(value);
             setMessage(null);
