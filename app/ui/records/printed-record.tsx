@@ -432,9 +432,10 @@ export function PrintedRecord({
 
       <section aria-labelledby="pr-sign" className="pr-sign">
         <h2 id="pr-sign">Signatures</h2>
+        <p>Anaesthetist: ______________________________ Initials: ________ Date and time: ______________</p>
         <p>
-          Anaesthetist: ______________________ Initials: ______ · Veterinarian responsible:
-          ______________________ Initials: ______
+          Veterinarian responsible: ______________________________ Initials: ________ Date and time:
+          ______________
         </p>
       </section>
 
