@@ -6,6 +6,7 @@ import { planChannels } from './plan-records.js';
 import { drugChannels } from './drug-channels.js';
 import { worksheetChannels } from './worksheet-channels.js';
 import { evidenceChannels } from './evidence-channels.js';
+import { workstationChannels } from './workstation.js';
 
 const empty = z.object({}).strict();
 
@@ -44,6 +45,7 @@ export const channels = {
   ...drugChannels,
   ...worksheetChannels,
   ...evidenceChannels,
+  ...workstationChannels,
 } as const;
 
 export type Channels = typeof channels;

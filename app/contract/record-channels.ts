@@ -131,4 +131,6 @@ export const recordChannels = {
   },
   'entries:void': { request: z.object({ id, meta: correctionMetaSchema }), response: procedureEntrySchema },
   'entries:history': { request: z.object({ id }), response: z.array(procedureEntrySchema) },
+  /** A record's voided rows (each the row that voided it, with who, when and why), in time order. */
+  'entries:voided': { request: z.object({ recordId: id }), response: z.array(procedureEntrySchema) },
 } as const;

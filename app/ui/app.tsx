@@ -60,6 +60,7 @@ function AreaContent({ route }: { readonly route: Route }) {
 export function App() {
   const [safetyLoad] = useChannel('safety:status', {});
   const [settingsLoad] = useChannel('settings:get', {});
+  const [workstationLoad] = useChannel('workstation:get', {});
   const [safety, setSafety] = useState<SafetyStatus | null>(null);
   const [stored, setStored] = useState<StoredSettings | null>(null);
   const route = useRoute();
@@ -69,7 +70,8 @@ export function App() {
 
   if (safetyLoad.state === 'failed') return <Failure message={safetyLoad.error.message} />;
   if (settingsLoad.state === 'failed') return <Failure message={settingsLoad.error.message} />;
-  if (currentSafety === null || currentSettings === null) {
+  if (workstationLoad.state === 'failed') return <Failure message={workstationLoad.error.message} />;
+  if (currentSafety === null || currentSettings === null || workstationLoad.state !== 'ready') {
     return (
       <main className="gate" aria-busy="true">
         <p>Opening the clinic database…</p>
@@ -83,7 +85,7 @@ export function App() {
   const needsSetup = currentSettings.settings === null;
   const shown: Route = needsSetup ? { area: 'settings', segments: [] } : route;
   return (
-    <OperatorProvider>
+    <OperatorProvider loaded={workstationLoad.value}>
       <SettingsContext.Provider value={currentSettings.settings}>
         <Shell
           current={shown.area}

@@ -70,6 +70,7 @@ if (recordId === null) {
           detail={loaded.detail}
           histories={extras.histories}
           plan={extras.plan}
+          voided={extras.voided}
           settings={loaded.settings}
           appVersion={loaded.appVersion}
           printedAt={new Date()}

@@ -4,6 +4,7 @@ import { emergencyDrugsMigration } from './0003-emergency-drugs.js';
 import { bodyMassTo200KgMigration } from './0004-body-mass-to-200-kg.js';
 import { dateFormatMigration } from './0005-date-format.js';
 import { clinicEvidenceMigration } from './0006-clinic-evidence.js';
+import { workstationsMigration } from './0007-workstations.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -15,6 +16,7 @@ export const migrations: readonly Migration[] = [
   bodyMassTo200KgMigration,
   dateFormatMigration,
   clinicEvidenceMigration,
+  workstationsMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

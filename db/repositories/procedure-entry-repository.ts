@@ -65,6 +65,10 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
     `SELECT * FROM procedure_entries e WHERE record_id = ? AND voided = 0 AND NOT EXISTS (SELECT 1 FROM procedure_entries later WHERE later.corrects_id = e.id)
      ORDER BY at, id`,
   );
+  const listVoided = db.prepare<[number], EntryRow>(
+    `SELECT * FROM procedure_entries e WHERE record_id = ? AND voided = 1 AND NOT EXISTS (SELECT 1 FROM procedure_entries later WHERE later.corrects_id = e.id)
+     ORDER BY at, id`,
+  );
   const correctedIds = db.prepare<[number], { id: number }>(
     'SELECT DISTINCT corrects_id AS id FROM procedure_entries WHERE record_id = ? AND corrects_id IS NOT NULL',
   );
@@ -124,6 +128,10 @@ export function createProcedureEntryRepository(db: TidewingDatabase) {
         ...rowToEntry(row),
         corrected: row.corrects_id !== null && withHistory.has(row.corrects_id),
       }));
+    },
+    /** The rows that voided a row of the record (the values as they stood, who voided, when, why), in time order. */
+    voided(recordId: number): ProcedureEntry[] {
+      return listVoided.all(recordId).map(rowToEntry);
     },
     history(entryId: number): ProcedureEntry[] {
       return chainIds(db, 'procedure_entries', entryId).map((id) => rowToEntry(byId.get(id) as EntryRow));

@@ -6,7 +6,8 @@ import { createSpeciesRepository } from '../../db/repositories/species-repositor
 import { automaticBackupOnStart } from './automatic-backup.js';
 import { writeDemoClinic } from './demo-clinic.js';
 import { databaseFile } from './data-directory.js';
-import { createDispatcher, createHandlers, type Dispatcher, type HandlerTable } from './handlers.js';
+import { createBackEndParts, createDispatcher, type Dispatcher, type HandlerTable } from './handlers.js';
+import type { ThemeChoice } from '../../app/contract/workstation.js';
 import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
 
 export type BackEnd = {
@@ -15,6 +16,8 @@ export type BackEnd = {
   /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
   readonly handlers: HandlerTable;
   readonly databaseFile: string;
+  /** The theme this workstation pinned in Settings, for the hosts to write into the page. */
+  readonly workstationTheme: () => ThemeChoice;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
   close(): void;
@@ -64,7 +67,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
         : 'Demo clinic not written: this clinic already holds patients.',
     );
   }
-  const handlers = createHandlers({
+  const { handlers, workstationTheme } = createBackEndParts({
     db,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
@@ -88,6 +91,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     dispatch: createDispatcher(handlers, options.log),
     handlers,
     databaseFile: file,
+    workstationTheme,
     backupSettled,
     close: () => {
       if (db.open) db.close();

@@ -9,6 +9,7 @@ import {
 } from '../../app/contract/channels.js';
 import { describeIssues, type ContractError, type Result } from '../../app/contract/result.js';
 import { worksheetPdfUnavailableMessage } from '../../app/contract/worksheet-channels.js';
+import type { ThemeChoice } from '../../app/contract/workstation.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { schemaVersion } from '../../db/connection.js';
 import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
@@ -21,6 +22,7 @@ import { createDrugHandlers } from './drug-handlers.js';
 import { createEvidenceHandlers } from './evidence-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 import { constraintError } from './constraint-errors.js';
+import { createWorkstationHandlers } from './workstation-handlers.js';
 
 export type HandlerContext = {
   readonly db: TidewingDatabase;
@@ -49,6 +51,17 @@ export class HandlerError extends Error {
 
 /** The one handler table for the contract; both hosts dispatch into it. */
 export function createHandlers(context: HandlerContext): HandlerTable {
+  return createBackEndParts(context).handlers;
+}
+
+/**
+ * The handler table and what the hosts read beside it: the theme this workstation pinned, which
+ * they write into the page before it is shown (`data-theme`), so a pinned theme never flashes.
+ */
+export function createBackEndParts(context: HandlerContext): {
+  readonly handlers: HandlerTable;
+  readonly workstationTheme: () => ThemeChoice;
+} {
   const settings = createSettingsRepository(context.db);
   const acknowledgements = createSafetyAcknowledgementRepository(context.db);
   const safetyStatus = () => ({
@@ -57,7 +70,13 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     last: acknowledgements.latest(),
   });
 
-  return {
+  const { theme: workstationTheme, ...workstationHandlers } = createWorkstationHandlers(
+    context.db,
+    context.dataDirectory,
+    context.now,
+  );
+
+  const handlers: HandlerTable = {
     'app:info': () => ({
       appVersion: context.appVersion,
       schemaVersion: schemaVersion(context.db),
@@ -99,7 +118,9 @@ export function createHandlers(context: HandlerContext): HandlerTable {
     ...createPlanHandlers(context.db, context.now),
     ...createDrugHandlers(context.db, context.now),
     ...createEvidenceHandlers(context.db, context.now),
+    ...workstationHandlers,
   };
+  return { handlers, workstationTheme };
 }
 
 export type Dispatcher = (channel: unknown, payload: unknown) => Promise<Result<unknown>>;

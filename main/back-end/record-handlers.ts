@@ -293,5 +293,6 @@ export function createRecordHandlers(db: TidewingDatabase, now: () => Date): Rec
         found(entries.void(request.id, request.meta, now()), `Entry ${request.id}`),
       ),
     'entries:history': (request) => entries.history(request.id),
+    'entries:voided': (request) => entries.voided(request.recordId),
   };
 }

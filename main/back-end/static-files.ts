@@ -1,7 +1,12 @@
 import fs from 'node:fs/promises';
 import path from 'node:path';
 
-export type StaticFile = { readonly body: Buffer; readonly extension: string };
+export type StaticFile = {
+  readonly body: Buffer;
+  readonly extension: string;
+  /** The served file's name, e.g. `index.html` for a deep link. */
+  readonly name: string;
+};
 
 function inside(root: string, candidate: string): boolean {
   return candidate === root || candidate.startsWith(root + path.sep);
@@ -34,8 +39,27 @@ export async function readRendererFile(
     if (!inside(realRoot, realTarget)) return null;
     const stat = await fs.stat(realTarget);
     if (!stat.isFile()) return null;
-    return { body: await fs.readFile(realTarget), extension: path.extname(target) };
+    return {
+      body: await fs.readFile(realTarget),
+      extension: path.extname(target),
+      name: path.basename(target),
+    };
   } catch {
     return null;
   }
+}
+
+/**
+ * The app's page with the workstation's pinned theme on its root element (`data-theme`), so the
+ * first paint already has it (the page's scripts run too late to avoid a flash, and the content
+ * security policy allows no inline script). Any other file, and the system theme, pass unchanged;
+ * the print page stays black on white.
+ */
+export function withPageTheme(file: StaticFile, theme: 'system' | 'light' | 'dim'): Buffer {
+  if (file.name !== 'index.html' || theme === 'system') return file.body;
+  const text = file.body.toString('utf8');
+  const root = /<html\b[^>]*>/i.exec(text);
+  if (root === null || /\sdata-theme=/i.test(root[0])) return file.body;
+  const at = root.index + root[0].length - 1;
+  return Buffer.from(`${text.slice(0, at)} data-theme="${theme}"${text.slice(at)}`, 'utf8');
 }

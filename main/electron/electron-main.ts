@@ -9,7 +9,7 @@ import { createDispatcher, HandlerError } from '../back-end/handlers.js';
 import { StartRefusedError } from '../back-end/start-up-guard.js';
 import { electronSqliteBindingPath } from '../back-end/electron-native.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
-import { readRendererFile } from '../back-end/static-files.js';
+import { readRendererFile, withPageTheme } from '../back-end/static-files.js';
 import { findProjectRoot, readAppVersion, rendererDirectory } from '../back-end/project-paths.js';
 
 // Our own scheme instead of file://, so the page has a real origin and a strict CSP.
@@ -55,14 +55,14 @@ function harden(): void {
   });
 }
 
-function registerProtocol(root: string): void {
+function registerProtocol(root: string, backEnd: BackEnd): void {
   const folder = rendererDirectory(root);
   protocol.handle(scheme, async (request) => {
     const url = new URL(request.url);
     if (url.host !== 'tidewing') return new Response('Not found', { status: 404 });
     const file = await readRendererFile(folder, url.pathname);
     if (file === null) return new Response('Not found', { status: 404 });
-    return new Response(new Uint8Array(file.body), {
+    return new Response(new Uint8Array(withPageTheme(file, backEnd.workstationTheme())), {
       status: 200,
       headers: { ...securityHeaders, 'content-type': contentTypeFor(file.extension) },
     });
@@ -249,7 +249,7 @@ async function main(): Promise<void> {
     return;
   }
   harden();
-  registerProtocol(root);
+  registerProtocol(root, backEnd);
   registerChannels(backEnd);
   app.on('window-all-closed', () => {
     backEnd.close();

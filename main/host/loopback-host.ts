@@ -4,7 +4,7 @@ import type { AddressInfo } from 'node:net';
 import { bridgePathPrefix, tokenHeader, tokenMetaName } from '../../app/contract/api.js';
 import type { Dispatcher } from '../back-end/handlers.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
-import { readRendererFile } from '../back-end/static-files.js';
+import { readRendererFile, withPageTheme } from '../back-end/static-files.js';
 
 export type LoopbackHost = {
   /**
@@ -29,6 +29,8 @@ export type LoopbackOptions = {
   /** Fixed only by tests; a fresh random token per run otherwise. */
   readonly token?: string;
   readonly log?: (message: string) => void;
+  /** The workstation's pinned theme, written into the app's page; the system's when not given. */
+  readonly pageTheme?: () => 'system' | 'light' | 'dim';
   /** Called each time a start address is used (after its session is set up). */
   readonly onStartAddressUsed?: () => void;
 };
@@ -214,7 +216,8 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       send(response, 404, 'Not found', textType);
       return;
     }
-    let body = file.body;
+    let body =
+      file.extension === '.html' ? withPageTheme(file, options.pageTheme?.() ?? 'system') : file.body;
     if (
       file.extension === '.html' &&
       request.method === 'GET' &&

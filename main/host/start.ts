@@ -71,6 +71,7 @@ async function main(): Promise<number> {
     port: args.port,
     rendererDirectory: rendererDirectory(root),
     dispatch: backEnd.dispatch,
+    pageTheme: backEnd.workstationTheme,
     log: (message) => process.stderr.write(`${message}\n`),
     onStartAddressUsed: () =>
       process.stdout.write(

@@ -1,124 +1,89 @@
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
-import { needBuilt, needChromium } from '../support/chromium.js';
-import { startBackEnd } from '../../main/back-end/back-end.js';
-import { findProjectRoot } from '../../main/back-end/project-paths.js';
+import { describe, expect, it } from 'vitest';
 import { runRecordCommand } from '../../main/cli/record-command.js';
-import { heronLaneSettings } from '../support/clinic-settings.js';
-import { temporaryFolder } from '../support/temporary-folder.js';
-
-const cleanups: (() => void)[] = [];
-afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
-
-const root = findProjectRoot();
-/** A missing Chromium or build fails the print tests under CI and skips them otherwise. */
-function needRenderer(context: { skip: (note?: string) => never }): void {
-  needChromium(context);
-  needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
-}
-
-function captured() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) },
-    stdout: () => out.join(''),
-    stderr: () => err.join(''),
-  };
-}
-
-function scratch(): string {
-  const temp = temporaryFolder('tidewing-record-');
-  cleanups.push(temp.remove);
-  return temp.folder;
-}
+import {
+  captured,
+  clinicFolder,
+  needPrinting as needRenderer,
+  pipPlanInput,
+  scratch,
+} from './print-fixture.js';
 
 const start = Date.parse('2026-12-02T09:00:00Z');
 const at = (minute: number) => new Date(start + minute * 60_000).toISOString();
 
-/** A data folder with Pip, a plan, and a finished record with a correction and a drug given. */
-async function dataWithRecord(): Promise<{ folder: string; recordId: number }> {
-  const folder = scratch();
-  const backEnd = startBackEnd({
-    dataDirectory: folder,
-    appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string,
-    host: 'browser',
-    // The clinic's clock on the day of the procedure, so the dates below stay valid on any day.
-    now: () => new Date(start + 3 * 3_600_000),
-  });
-  try {
-    const call = async (channel: string, payload: unknown) => {
-      const answer = await backEnd.dispatch(channel, payload);
-      if (!answer.ok) throw new Error(`${channel}: ${answer.error.message}`);
-      return answer.value as { id: number };
-    };
-    const meta = { enteredBy: 'RW' };
-    await call('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true });
-    await call('settings:save', heronLaneSettings);
-    const patient = await call('patients:create', {
-      values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', ringId: 'HL-24-117' },
-      meta,
-    });
-    const input = JSON.parse(
-      fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
-    ) as unknown;
-    const plan = await call('plans:save', {
-      fields: {
+/** A data folder with Pip, a plan, and a finished record with a correction, a void and a drug given. */
+function dataWithRecord(): Promise<{ folder: string; recordId: number }> {
+  // The clinic's clock on the day of the procedure, so the dates below stay valid on any day.
+  return clinicFolder(
+    async (call) => {
+      const meta = { enteredBy: 'RW' };
+      const patient = await call('patients:create', {
+        values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male', ringId: 'HL-24-117' },
+        meta,
+      });
+      const plan = await call('plans:save', {
+        fields: {
+          patientId: patient.id,
+          plannedFor: '2026-12-02',
+          label: '',
+          input: pipPlanInput,
+          checklist: { asaGrade: 2, items: {} },
+        },
+        meta,
+      });
+      const record = await call('procedures:create', {
         patientId: patient.id,
-        plannedFor: '2026-12-02',
-        label: '',
-        input,
-        checklist: { asaGrade: 2, items: {} },
-      },
-      meta,
-    });
-    const record = await call('procedures:create', {
-      patientId: patient.id,
-      values: {
-        planId: plan.id,
-        startedAt: at(0),
-        endedAt: at(40),
-        asaGrade: 2,
-        procedureName: 'Beak trim',
-        airway: 'mask',
-        circuit: 'nonRebreathing',
-        staffInitials: 'RW',
-      },
-      meta,
-    });
-    const add = (values: unknown) => call('entries:add', { recordId: record.id, values, meta });
-    const vitals = (minute: number, heartRatePerMin: number) => ({
-      at: at(minute),
-      kind: 'vitals',
-      vaporPct: minute < 30 ? 2 : 0,
-      oxygenLpm: 1,
-      heartRatePerMin,
-      breathsPerMin: 28,
-      temperatureC: 40.1,
-    });
-    await add({ at: at(0), kind: 'event', eventType: 'induction', eventNote: 'mask' });
-    await add(vitals(5, 380));
-    const misread = await add(vitals(10, 360));
-    await add({
-      at: at(12),
-      kind: 'event',
-      eventType: 'drugGiven',
-      drugName: 'Clinic drug B',
-      drugDose: '0.013 mL',
-    });
-    await add({ at: at(30), kind: 'event', eventType: 'vaporiserOff' });
-    await add({ at: at(33), kind: 'event', eventType: 'firstMovement' });
-    await call('entries:correct', {
-      id: misread.id,
-      values: vitals(10, 312),
-      meta: { enteredBy: 'JM', reason: 'Misread the monitor' },
-    });
-    return { folder, recordId: record.id };
-  } finally {
-    backEnd.close();
-  }
+        values: {
+          planId: plan.id,
+          startedAt: at(0),
+          endedAt: at(40),
+          asaGrade: 2,
+          procedureName: 'Beak trim',
+          airway: 'mask',
+          circuit: 'nonRebreathing',
+          staffInitials: 'RW',
+        },
+        meta,
+      });
+      const add = (values: unknown) => call('entries:add', { recordId: record.id, values, meta });
+      const vitals = (minute: number, heartRatePerMin: number) => ({
+        at: at(minute),
+        kind: 'vitals',
+        vaporPct: minute < 30 ? 2 : 0,
+        oxygenLpm: 1,
+        heartRatePerMin,
+        breathsPerMin: 28,
+        temperatureC: 40.1,
+      });
+      await add({ at: at(0), kind: 'event', eventType: 'induction', eventNote: 'mask' });
+      await add(vitals(5, 380));
+      const misread = await add(vitals(10, 360));
+      await add({
+        at: at(12),
+        kind: 'event',
+        eventType: 'drugGiven',
+        drugName: 'Clinic drug B',
+        drugDose: '0.013 mL',
+      });
+      await add({ at: at(30), kind: 'event', eventType: 'vaporiserOff' });
+      await add({ at: at(33), kind: 'event', eventType: 'firstMovement' });
+      await call('entries:correct', {
+        id: misread.id,
+        values: vitals(10, 312),
+        meta: { enteredBy: 'JM', reason: 'Misread the monitor' },
+      });
+      const wrong = await add(vitals(20, 40));
+      await call('entries:void', {
+        id: wrong.id,
+        meta: { enteredBy: 'JM', reason: 'Probe slipped off the toe' },
+      });
+      return { recordId: record.id };
+    },
+    { now: () => new Date(start + 3 * 3_600_000) },
+  );
 }
 
 describe('tidewing record', () => {
@@ -193,6 +158,9 @@ describe('tidewing record', () => {
       'First entered by RW',
       'predicted beside logged',
       'First movement: 3 min',
+      // The voided row stays in its place with who voided it and why.
+      'Voided by JM',
+      'Reason: “Probe slipped off the toe”',
     ])
       expect(text, expected).toContain(expected);
     expect(text).not.toContain('drugGiven');

@@ -2,74 +2,30 @@ import Database from 'better-sqlite3';
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
-import { startBackEnd } from '../../main/back-end/back-end.js';
+import { describe, expect, it } from 'vitest';
 import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
-import { findProjectRoot } from '../../main/back-end/project-paths.js';
-import { temporaryFolder } from '../support/temporary-folder.js';
-import { heronLaneSettings } from '../support/clinic-settings.js';
-import { needBuilt, needChromium } from '../support/chromium.js';
 import { localDateOf } from '../../app/contract/input-rules.js';
-
-const cleanups: (() => void)[] = [];
-afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
-
-const root = findProjectRoot();
-const pipInput = JSON.parse(
-  fs.readFileSync(path.join(root, 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'), 'utf8'),
-) as unknown;
-
-/** Chromium and the built print page, which the command needs before it reads the plan. */
-function needPrinting(context: { skip: (note?: string) => never }): void {
-  needChromium(context);
-  needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
-}
-
-function captured() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    io: { stdout: (text: string) => out.push(text), stderr: (text: string) => err.push(text) },
-    stdout: () => out.join(''),
-    stderr: () => err.join(''),
-  };
-}
-
-function scratch(): string {
-  const temp = temporaryFolder('tidewing-worksheet-');
-  cleanups.push(temp.remove);
-  return temp.folder;
-}
+import { captured, clinicFolder, needPrinting, pipPlanInput as pipInput, scratch } from './print-fixture.js';
 
 /** A data folder with one saved plan; cautions acknowledged and settings saved unless asked not to. */
-async function dataWithPlan(
-  options: { acknowledged?: boolean } = {},
-): Promise<{ folder: string; planId: number }> {
-  const folder = scratch();
-  const backEnd = startBackEnd({
-    dataDirectory: folder,
-    appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string,
-    host: 'browser',
-  });
-  try {
-    const call = async (channel: string, payload: unknown) => {
-      const answer = await backEnd.dispatch(channel, payload);
-      if (!answer.ok) throw new Error(`${channel}: ${answer.error.message}`);
-      return answer.value as { id: number };
-    };
-    if (options.acknowledged !== false) {
-      await call('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true });
-      await call('settings:save', heronLaneSettings);
-    }
-    const checklist = { asaGrade: 2, items: {} };
-    const saved = await call('plans:save', {
-      fields: { patientId: null, plannedFor: localDateOf(new Date()), label: '', input: pipInput, checklist },
-      meta: { enteredBy: 'RW' },
-    });
-    return { folder, planId: saved.id };
-  } finally {
-    backEnd.close();
-  }
+function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{ folder: string; planId: number }> {
+  return clinicFolder(
+    async (call) => {
+      const checklist = { asaGrade: 2, items: {} };
+      const saved = await call('plans:save', {
+        fields: {
+          patientId: null,
+          plannedFor: localDateOf(new Date()),
+          label: '',
+          input: pipInput,
+          checklist,
+        },
+        meta: { enteredBy: 'RW' },
+      });
+      return { planId: saved.id };
+    },
+    options.acknowledged === false ? { acknowledged: false } : {},
+  );
 }
 
 describe('tidewing worksheet', () => {
@@ -161,8 +117,7 @@ describe('tidewing worksheet', () => {
   });
 
   it('writes a PDF of the worksheet with the patient, the clinic and the predicted times', async (context) => {
-    needChromium(context);
-    needBuilt(context, path.join(root, 'build', 'renderer', 'print.html'));
+    needPrinting(context);
     const data = await dataWithPlan();
     const run = captured();
     const out = path.join(scratch(), 'pip.pdf');

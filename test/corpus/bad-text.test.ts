@@ -71,6 +71,8 @@ const textFields: TextField[] = [
   })),
   field('settings:save', 'clinicName', 'naming', 120, () => ({ ...heronLaneSettings })),
   field('settings:save', 'addressLine', 'free', 200, () => ({ ...heronLaneSettings })),
+  field('workstation:save', 'name', 'naming', 80, () => ({ name: 'Theatre 1' })),
+  field('workstation:save', 'initials', 'optionalNaming', 40, () => ({ initials: 'RW' })),
   field('species:add', 'values.commonName', 'naming', 120, () => ({ values: validSpecies, meta })),
   field('species:add', 'values.scientificName', 'optionalNaming', 120, () => ({
     values: validSpecies,

@@ -174,3 +174,36 @@ describe('migration 6 (clinic evidence)', () => {
     expect(() => db.prepare('DELETE FROM evidence_calibration_switch').run()).toThrow(/never deleted/);
   });
 });
+
+describe('migration 7 (workstations)', () => {
+  it('keeps one row per workstation id with a name, a theme of the three choices and short initials', () => {
+    const db = new Database(freshFile());
+    cleanups.push(() => db.close());
+    migrate(db, migrations.slice(0, 6));
+    expect(migrate(db, migrations.slice(0, 7))).toBe(7);
+    const insert = db.prepare(
+      'INSERT INTO workstations (id, name, theme, initials, updated_at) VALUES (?, ?, ?, ?, ?)',
+    );
+    const at = '2026-12-01T09:30:00.000Z';
+    insert.run('0b7e8a52-2f4c-4d0e-9a57-1c2d3e4f5a6b', 'Theatre 1', 'dim', 'RW', at);
+    expect(db.prepare('SELECT name, theme, initials FROM workstations').get()).toEqual({
+      name: 'Theatre 1',
+      theme: 'dim',
+      initials: 'RW',
+    });
+    expect(() => insert.run('0b7e8a52-2f4c-4d0e-9a57-1c2d3e4f5a6b', 'Again', 'light', '', at)).toThrow(
+      /UNIQUE constraint failed|PRIMARY KEY/,
+    );
+    expect(() => insert.run('1b7e8a52-2f4c-4d0e-9a57-1c2d3e4f5a6b', 'Prep', 'dark', '', at)).toThrow(
+      /CHECK constraint failed/,
+    );
+    expect(() => insert.run('2b7e8a52-2f4c-4d0e-9a57-1c2d3e4f5a6b', '   ', 'light', '', at)).toThrow(
+      /CHECK constraint failed/,
+    );
+    expect(() =>
+      insert.run('3b7e8a52-2f4c-4d0e-9a57-1c2d3e4f5a6b', 'Prep', 'light', 'x'.repeat(41), at),
+    ).toThrow(/CHECK constraint failed/);
+    expect(() => insert.run('short', 'Prep', 'light', '', at)).toThrow(/CHECK constraint failed/);
+    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+  });
+});

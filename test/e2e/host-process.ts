@@ -143,11 +143,11 @@ export async function completeFirstRun(
   for (const [channel, body] of [
     ['safety:acknowledge', { acknowledgedBy: initials, accepted: true }],
     ['settings:save', heronLaneSettings],
+    ['workstation:save', { initials }],
   ] as const) {
     const answer = await callBridge(page, channel, body);
     if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer)}`);
   }
-  await page.evaluate((who) => window.localStorage.setItem('tidewing.operator', who), initials);
   await page.reload();
 }
 

@@ -101,6 +101,37 @@ describe('keyboard only', () => {
       await page.keyboard.press('Escape');
       expect((await focused(page)).text).toBe('Drug given…');
       await expect(page.getByLabel('Dose and route as given').count()).resolves.toBe(0);
+
+      // Correct: Enter opens the form with focus in it; Escape closes it and returns to the button.
+      const correctName = /^Correct the row at .* \(row \d+\)$/;
+      await tabTo(page, correctName);
+      const correctButton = (await focused(page)).text;
+      await page.keyboard.press('Enter');
+      await expect.poll(async () => (await focused(page)).tag).toBe('input');
+      await expect(page.getByRole('form', { name: /^Correct the row at/ }).count()).resolves.toBe(1);
+      await page.keyboard.press('Escape');
+      expect((await focused(page)).text).toBe(correctButton);
+      await expect(page.getByRole('form', { name: /^Correct the row at/ }).count()).resolves.toBe(0);
+      // Void: the same, focus in its reason box.
+      await page.keyboard.press('Tab');
+      expect((await focused(page)).text).toMatch(/^Void the row at/);
+      const voidButton = (await focused(page)).text;
+      await page.keyboard.press('Enter');
+      await expect.poll(async () => (await focused(page)).text).toBe('');
+      expect((await focused(page)).tag).toBe('input');
+      await page.keyboard.press('Escape');
+      expect((await focused(page)).text).toBe(voidButton);
+      await expect(page.getByRole('form', { name: /^Void the row at/ }).count()).resolves.toBe(0);
+      // The record-details editor: Escape closes it and returns to "Correct details".
+      await page.getByRole('button', { name: 'Correct details' }).focus();
+      await page.keyboard.press('Enter');
+      await page.getByRole('heading', { name: 'Correct the record’s details' }).waitFor();
+      await page.getByLabel('Reason for the correction').focus();
+      await page.keyboard.press('Escape');
+      await expect(page.getByRole('heading', { name: 'Correct the record’s details' }).count()).resolves.toBe(
+        0,
+      );
+      expect((await focused(page)).text).toBe('Correct details');
     } finally {
       await page.close();
     }

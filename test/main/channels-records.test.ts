@@ -299,6 +299,36 @@ describe('procedure entry channels', () => {
     expect(noReason).toMatchObject({ code: 'invalid-request', field: 'meta.reason' });
   });
 
+  it('entries:voided lists the voided rows of one record with who voided them and why, for the printed record', async () => {
+    const { api, record } = await withPipRecord();
+    const kept = await api.answer('entries:add', {
+      recordId: record.id,
+      values: pipVitalsValues,
+      meta: enteredByRw,
+    });
+    const wrong = await api.answer('entries:add', {
+      recordId: record.id,
+      values: { ...pipVitalsValues, heartRatePerMin: 60 },
+      meta: enteredByRw,
+    });
+    expect(await api.answer('entries:voided', { recordId: record.id })).toEqual([]);
+    api.clock.set('2026-12-01T10:07:00.000Z');
+    const voided = await api.answer('entries:void', {
+      id: wrong.id,
+      meta: correctionBy('JS', 'Probe off the bird'),
+    });
+    const listed = await api.answer('entries:voided', { recordId: record.id });
+    expect(listed).toEqual([voided]);
+    expect(listed[0]).toMatchObject({
+      voided: true,
+      values: { heartRatePerMin: 60 },
+      stamp: { enteredBy: 'JS', reason: 'Probe off the bird', enteredAt: '2026-12-01T10:07:00.000Z' },
+    });
+    expect(listed.map((entry) => entry.id)).not.toContain(kept.id);
+    expect(await api.answer('entries:voided', { recordId: 4321 })).toEqual([]);
+    expect(await api.refusal('entries:voided', { recordId: 0 })).toMatchObject({ field: 'recordId' });
+  });
+
   it('entries:history answers an empty chain for an unknown id and refuses a text id', async () => {
     const { api } = await withPipRecord();
     expect(await api.answer('entries:history', { id: 4321 })).toEqual([]);

@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { startBackEnd } from '../../main/back-end/back-end.js';
+import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
 import { startLoopbackHost, type LoopbackHost } from '../../main/host/loopback-host.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
@@ -11,7 +11,7 @@ afterEach(async () => {
   for (const cleanup of cleanups.splice(0).reverse()) await cleanup();
 });
 
-async function host(): Promise<LoopbackHost & { renderer: string; outside: string }> {
+async function host(): Promise<LoopbackHost & { renderer: string; outside: string; backEnd: BackEnd }> {
   const temp = temporaryFolder();
   // A stand-in renderer folder, so this test does not depend on a prior build.
   const renderer = path.join(temp.folder, 'renderer');
@@ -33,13 +33,14 @@ async function host(): Promise<LoopbackHost & { renderer: string; outside: strin
     port: 0,
     rendererDirectory: renderer,
     dispatch: backEnd.dispatch,
+    pageTheme: backEnd.workstationTheme,
   });
   cleanups.push(
     temp.remove,
     () => backEnd.close(),
     () => started.close(),
   );
-  return Object.assign(started, { renderer, outside });
+  return Object.assign(started, { renderer, outside, backEnd });
 }
 
 type Reply = { status: number; body: string; headers: http.IncomingHttpHeaders };
@@ -124,6 +125,27 @@ describe('loopback browser host', () => {
     expect(again.status).toBe(200);
     expect(again.body).not.toMatch(tokenMeta);
     expect((await request(started.port, { path: '/app.js', headers: { cookie } })).status).toBe(200);
+  });
+
+  it('writes the theme this workstation pinned into the page root, and nothing for the system theme', async () => {
+    const started = await host();
+    fs.writeFileSync(
+      path.join(started.renderer, 'print.html'),
+      '<!doctype html><html lang="en"><body></body></html>',
+    );
+    const { cookie } = await open(started);
+    const page = async (file = '/') =>
+      (await request(started.port, { path: file, headers: { cookie } })).body;
+    expect(await page()).toContain('<html>');
+    await started.backEnd.dispatch('workstation:save', { theme: 'dim' });
+    expect(await page()).toContain('<html data-theme="dim">');
+    // A deep link serves the same page; the print page stays black on white.
+    expect(await page('/records/3')).toContain('<html data-theme="dim">');
+    expect(await page('/print.html')).toContain('<html lang="en">');
+    await started.backEnd.dispatch('workstation:save', { theme: 'light' });
+    expect(await page()).toContain('<html data-theme="light">');
+    await started.backEnd.dispatch('workstation:save', { theme: 'system' });
+    expect(await page()).toContain('<html>');
   });
 
   it('does not hand the token over when the page comes long after the start address was used', async () => {

@@ -1,49 +1,30 @@
 import { useEffect, useState } from 'react';
+import type { ThemeChoice } from '../../contract/workstation.js';
 
 /**
  * The screen theme. `system` follows the computer's light or dark setting; `light` and `dim` pin
- * one on this workstation. Kept in this browser's local storage, not in the clinic database:
- * the theatre's computer may want dim while the reception's stays light, and the clinic settings
- * are shared by every workstation of the clinic.
+ * one on this workstation. Kept in the clinic database per workstation (`workstation:save`), not
+ * in the browser's storage, which a new port of the browser host loses: the theatre's computer may
+ * want dim while the reception's stays light. The host writes the pinned theme into the page
+ * (`data-theme` on the root) before it is shown, so there is no flash of the other one.
  */
-export type ThemeChoice = 'system' | 'light' | 'dim';
+export { themeChoices, themeLabels, type ThemeChoice } from '../../contract/workstation.js';
 
-export const themeChoices: readonly ThemeChoice[] = ['system', 'light', 'dim'];
-
-const storageKey = 'tidewing.theme';
 const changeEvent = 'tidewing-theme-change';
 
-function isThemeChoice(value: unknown): value is ThemeChoice {
-  return value === 'system' || value === 'light' || value === 'dim';
-}
-
-/** The workstation's stored choice; `system` when none is stored or storage is unavailable. */
-export function readThemeChoice(): ThemeChoice {
-  try {
-    const stored = window.localStorage.getItem(storageKey);
-    return isThemeChoice(stored) ? stored : 'system';
-  } catch {
-    return 'system';
-  }
+/** The theme the page was served with, or last applied. */
+export function currentThemeChoice(): ThemeChoice {
+  const pinned = document.documentElement.dataset['theme'];
+  return pinned === 'light' || pinned === 'dim' ? pinned : 'system';
 }
 
 /** Sets `data-theme` on the page root (none for `system`), which the style sheet reads. */
 export function applyThemeChoice(choice: ThemeChoice): void {
   const root = document.documentElement;
+  if (choice === currentThemeChoice()) return;
   if (choice === 'system') delete root.dataset['theme'];
   else root.dataset['theme'] = choice;
   window.dispatchEvent(new Event(changeEvent));
-}
-
-/** Stores the choice for this workstation and applies it at once. */
-export function storeThemeChoice(choice: ThemeChoice): void {
-  try {
-    if (choice === 'system') window.localStorage.removeItem(storageKey);
-    else window.localStorage.setItem(storageKey, choice);
-  } catch {
-    // Storage refused (private window): the choice still holds until the page is closed.
-  }
-  applyThemeChoice(choice);
 }
 
 /**

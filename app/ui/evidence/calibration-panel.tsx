@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import type { CalibrationView } from '../../contract/evidence-channels.js';
 import { api } from '../common/bridge.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { href } from '../shell/areas.js';
 
@@ -15,20 +15,23 @@ export function CalibrationPanel({
   readonly calibration: CalibrationView;
   readonly onChanged: () => void;
 }) {
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
   const [message, setMessage] = useState<string | null>(null);
 
-  async function toggle() {
-    const meta = writeMeta(
-      calibration.on ? 'switched off from the evidence view' : 'switched on from the evidence view',
-    );
-    if ('missing' in meta) {
-      setMessage(meta.missing);
-      return;
-    }
-    const answer = await api.invoke('evidence:set-calibration', { on: !calibration.on, meta: meta.meta });
-    setMessage(answer.ok ? null : answer.error.message);
-    if (answer.ok) onChanged();
+  function toggle() {
+    const reason = calibration.on
+      ? 'switched off from the evidence view'
+      : 'switched on from the evidence view';
+    withInitials((enteredBy) => {
+      void (async () => {
+        const answer = await api.invoke('evidence:set-calibration', {
+          on: !calibration.on,
+          meta: { enteredBy, reason },
+        });
+        setMessage(answer.ok ? null : answer.error.message);
+        if (answer.ok) onChanged();
+      })();
+    });
   }
 
   return (
@@ -43,10 +46,11 @@ export function CalibrationPanel({
         {calibration.on
           ? 'plans show the calibrated figure beside the population model.'
           : 'plans show the population model only.'}{' '}
-        <button type="button" onClick={() => void toggle()}>
+        <button type="button" onClick={toggle}>
           {calibration.on ? 'Switch calibration off' : 'Switch calibration on'}
         </button>
       </p>
+      {gate}
       {message !== null && (
         <p className="form-error" role="alert">
           {message}

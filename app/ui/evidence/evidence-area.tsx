@@ -11,7 +11,7 @@ import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { useChannel } from '../common/use-channel.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 import { href } from '../shell/areas.js';
 import { CalibrationPanel } from './calibration-panel.js';
 import { EvidenceChart } from './evidence-chart.js';
@@ -213,30 +213,34 @@ function EvidenceTable({
   readonly label: string;
   readonly onChanged: () => void;
 }) {
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
   const [leaving, setLeaving] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   const [error, setError] = useState<string | null>(null);
 
-  async function setExcluded(recordId: number, excluded: boolean, why: string) {
-    const meta = writeMeta(why);
-    if ('missing' in meta) {
-      setError(meta.missing);
-      return;
-    }
-    const answer = await api.invoke('evidence:exclude', { recordId, excluded, meta: meta.meta });
-    if (!answer.ok) {
-      setError(answer.error.message);
-      return;
-    }
-    setError(null);
-    setLeaving(null);
-    setReason('');
-    onChanged();
+  function setExcluded(recordId: number, excluded: boolean, why: string) {
+    withInitials((enteredBy) => {
+      void (async () => {
+        const answer = await api.invoke('evidence:exclude', {
+          recordId,
+          excluded,
+          meta: { enteredBy, reason: why },
+        });
+        if (!answer.ok) {
+          setError(answer.error.message);
+          return;
+        }
+        setError(null);
+        setLeaving(null);
+        setReason('');
+        onChanged();
+      })();
+    });
   }
 
   return (
     <div className="evidence-table-panel">
+      {gate}
       {error !== null && (
         <p className="form-error" role="alert">
           {error}
@@ -288,7 +292,7 @@ function EvidenceTable({
                         Left out: {row.exclusion.reason} ({row.exclusion.enteredBy}){' '}
                         <button
                           type="button"
-                          onClick={() => void setExcluded(row.recordId, false, 'taken back in')}
+                          onClick={() => setExcluded(row.recordId, false, 'taken back in')}
                         >
                           Take back in
                         </button>
@@ -303,7 +307,7 @@ function EvidenceTable({
                             size={18}
                           />
                         </label>{' '}
-                        <button type="button" onClick={() => void setExcluded(row.recordId, true, reason)}>
+                        <button type="button" onClick={() => setExcluded(row.recordId, true, reason)}>
                           Leave out
                         </button>{' '}
                         <button type="button" onClick={() => setLeaving(null)}>

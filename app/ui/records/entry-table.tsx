@@ -20,6 +20,7 @@ import {
 } from './entry-form.js';
 import { eventSummary, minutesFromStart } from './monitoring.js';
 import { ScrollRegion } from '../common/scroll-region.js';
+import { onEscape, useReturnFocus } from '../common/return-focus.js';
 
 export type TableEntry = ProcedureEntry & { readonly corrected: boolean };
 
@@ -43,10 +44,12 @@ function ReasonBox({
   value,
   error,
   onChange,
+  autoFocus = false,
 }: {
   readonly value: string;
   readonly error: string | undefined;
   readonly onChange: (value: string) => void;
+  readonly autoFocus?: boolean;
 }) {
   const id = useId();
   return (
@@ -55,6 +58,7 @@ function ReasonBox({
       <input
         id={id}
         value={value}
+        autoFocus={autoFocus}
         size={30}
         aria-invalid={error !== undefined}
         onChange={(event) => onChange(event.target.value)}
@@ -73,11 +77,14 @@ function CorrectForm({
   units,
   onSave,
   onClose,
+  onCancel,
 }: {
   readonly entry: TableEntry;
   readonly units: DisplayUnits;
   readonly onSave: Props['onCorrect'];
   readonly onClose: () => void;
+  /** Closes without saving (Cancel, Escape) and returns focus to the Correct button. */
+  readonly onCancel: () => void;
 }) {
   const [timeText, setTimeText] = useState(clockText(entry.values.at));
   const [readings, setReadings] = useState<ReadingDraft>(() => readingsToDraft(entry.values, units));
@@ -125,12 +132,15 @@ function CorrectForm({
       onSubmit={(event) => void submit(event)}
       noValidate
       aria-label={`Correct the row at ${clockText(entry.values.at)}`}
+      onKeyDown={onEscape(onCancel)}
     >
       <div className="record-edit-fields">
         <div className="field record-cell">
           <label htmlFor={`${baseId}-time`}>Time</label>
           <input
             id={`${baseId}-time`}
+            // Opening the form (Enter or a click on Correct) puts the cursor in its first box.
+            autoFocus
             value={timeText}
             size={8}
             aria-invalid={errors['at'] !== undefined}
@@ -213,7 +223,7 @@ function CorrectForm({
         <button type="submit" className="primary" disabled={busy}>
           Save correction
         </button>
-        <button type="button" onClick={onClose}>
+        <button type="button" onClick={onCancel}>
           Cancel
         </button>
         {failure !== null && (
@@ -230,10 +240,13 @@ function VoidForm({
   entry,
   onVoid,
   onClose,
+  onCancel,
 }: {
   readonly entry: TableEntry;
   readonly onVoid: Props['onVoid'];
   readonly onClose: () => void;
+  /** Closes without voiding (Cancel, Escape) and returns focus to the Void button. */
+  readonly onCancel: () => void;
 }) {
   const [reason, setReason] = useState('');
   const [error, setError] = useState<string | undefined>(undefined);
@@ -253,19 +266,20 @@ function VoidForm({
       onSubmit={(event) => void submit(event)}
       noValidate
       aria-label={`Void the row at ${clockText(entry.values.at)}`}
+      onKeyDown={onEscape(onCancel)}
     >
       <p className="hint">
         The row stays in the history, marked as entered in error; it leaves the chart, the table and the
         export.
       </p>
       <div className="record-edit-fields">
-        <ReasonBox value={reason} error={error} onChange={setReason} />
+        <ReasonBox value={reason} error={error} onChange={setReason} autoFocus />
       </div>
       <div className="form-actions">
         <button type="submit" className="primary">
           Void row
         </button>
-        <button type="button" onClick={onClose}>
+        <button type="button" onClick={onCancel}>
           Cancel
         </button>
         {failure !== null && (
@@ -343,6 +357,18 @@ function readingCell(values: ProcedureEntryValues, field: ReadingField, units: D
 /** The logged rows, newest first, with Correct, Void and History. */
 export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Props) {
   const [mode, setMode] = useState<Mode>(null);
+  const { remember, returnFocus } = useReturnFocus();
+  const toggle = (next: NonNullable<Mode>, opener: HTMLElement) => {
+    if (mode !== null && mode.id === next.id && mode.kind === next.kind) setMode(null);
+    else {
+      remember(opener);
+      setMode(next);
+    }
+  };
+  const cancel = () => {
+    setMode(null);
+    returnFocus();
+  };
   const newestFirst = [...entries].sort(
     (a, b) => Date.parse(b.values.at) - Date.parse(a.values.at) || b.id - a.id,
   );
@@ -403,14 +429,16 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
                     <button
                       type="button"
                       aria-label={`Correct ${rowName}`}
-                      onClick={() => setMode(open === 'correct' ? null : { kind: 'correct', id: entry.id })}
+                      aria-expanded={open === 'correct'}
+                      onClick={(event) => toggle({ kind: 'correct', id: entry.id }, event.currentTarget)}
                     >
                       Correct
                     </button>
                     <button
                       type="button"
                       aria-label={`Void ${rowName}`}
-                      onClick={() => setMode(open === 'void' ? null : { kind: 'void', id: entry.id })}
+                      aria-expanded={open === 'void'}
+                      onClick={(event) => toggle({ kind: 'void', id: entry.id }, event.currentTarget)}
                     >
                       Void
                     </button>
@@ -431,9 +459,17 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
                 <tr key={`${entry.id}-${open}`} className="record-detail-row">
                   <td colSpan={columns}>
                     {open === 'correct' && (
-                      <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} />
+                      <CorrectForm
+                        entry={entry}
+                        units={units}
+                        onSave={onCorrect}
+                        onClose={close}
+                        onCancel={cancel}
+                      />
                     )}
-                    {open === 'void' && <VoidForm entry={entry} onVoid={onVoid} onClose={close} />}
+                    {open === 'void' && (
+                      <VoidForm entry={entry} onVoid={onVoid} onClose={close} onCancel={cancel} />
+                    )}
                     {open === 'history' && <History entry={entry} units={units} />}
                   </td>
                 </tr>

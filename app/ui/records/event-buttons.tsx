@@ -1,4 +1,5 @@
 import { useId, useRef, useState, type FormEvent, type KeyboardEvent } from 'react';
+import { onEscape } from '../common/return-focus.js';
 import { eventLabels, type EventType } from '../../core/procedure-events.js';
 import { clockMinutesText, resolveClockTime } from './clock-time.js';
 
@@ -46,13 +47,12 @@ export function EventButtons({
 
   /** Escape closes the open form and puts focus back on the button that opened it. */
   function closeOnEscape(event: KeyboardEvent<HTMLFormElement>) {
-    if (event.key !== 'Escape' || open === null) return;
-    event.preventDefault();
-    event.stopPropagation();
-    const opener = open === 'note' ? noteButton.current : drugButton.current;
-    setOpen(null);
-    setError(null);
-    opener?.focus();
+    onEscape(() => {
+      const opener = open === 'note' ? noteButton.current : drugButton.current;
+      setOpen(null);
+      setError(null);
+      opener?.focus();
+    })(event);
   }
 
   async function log(

@@ -19,6 +19,7 @@ import './record-entry.css';
 import { Milestones } from './record-milestones.js';
 import { LogForecastPanel } from '../evidence/log-forecast.js';
 import { useNowMs } from './use-now.js';
+import { useReturnFocus } from '../common/return-focus.js';
 import { useRecordWrites } from './use-record-writes.js';
 import { VitalsReminder } from './vitals-reminder.js';
 
@@ -58,6 +59,8 @@ function LiveRecordScreen({
   const values = record.values;
   const writes = useRecordWrites(record.id, units, reload);
   const [editingDetails, setEditingDetails] = useState(false);
+  // Escape or Close in the details editor puts focus back on the "Correct details" button.
+  const detailsOpener = useReturnFocus();
   // The Time box of the entry row: the event buttons log at this time too.
   const [timeText, setTimeText] = useState('');
   const stopwatch = useApnoeaStopwatch(nowMs, (finished) => {
@@ -75,7 +78,10 @@ function LiveRecordScreen({
         detail={detail}
         nowMs={nowMs}
         editingDetails={editingDetails}
-        onToggleDetails={() => setEditingDetails((open) => !open)}
+        onToggleDetails={() => {
+          if (!editingDetails) detailsOpener.remember();
+          setEditingDetails(!editingDetails);
+        }}
         onExportCsv={() => void writes.exportCsv()}
         onCorrect={(next, reason) => void writes.correctRecord(next, reason)}
       />
@@ -85,7 +91,10 @@ function LiveRecordScreen({
           recordId={record.id}
           values={values}
           onSave={writes.correctRecord}
-          onClose={() => setEditingDetails(false)}
+          onClose={() => {
+            setEditingDetails(false);
+            detailsOpener.returnFocus();
+          }}
         />
       )}
 

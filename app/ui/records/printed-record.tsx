@@ -1,10 +1,10 @@
-import { useLayoutEffect } from 'react';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { ProcedureDetail } from '../../contract/record-channels.js';
 import type { ProcedureEntry } from '../../contract/records.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
-import { cssStringToken, minutesWithRangeText } from '../../core/worksheet.js';
+import { minutesWithRangeText } from '../../core/worksheet.js';
+import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
 import { clockText } from './clock-time.js';
 import {
@@ -16,6 +16,7 @@ import {
 } from './entry-form.js';
 import { eventSummary, minutesFromStart, recoveryMilestones } from './monitoring.js';
 import { RecordStrips } from './record-strips.js';
+import type { VoidedRow } from './printed-record-data.js';
 import './printed-record.css';
 
 export type PrintedRecordProps = {
@@ -24,6 +25,8 @@ export type PrintedRecordProps = {
   readonly histories: Readonly<Record<number, readonly ProcedureEntry[]>>;
   /** The linked plan, or null when none is linked (or it could not be read). */
   readonly plan: PlanDetail | null;
+  /** The voided rows, printed struck through in the log with who voided them, when and why. */
+  readonly voided: readonly VoidedRow[];
   readonly settings: ClinicSettings;
   readonly appVersion: string;
   readonly printedAt: Date;
@@ -39,19 +42,6 @@ function localDateTime(iso: string): string {
 function readingText(values: ProcedureEntry['values'], field: ReadingField, units: DisplayUnits): string {
   const value = values[field];
   return value === null ? '' : String(toDisplayReading(field, value, units));
-}
-
-/** The running lines in the page margins, as on the worksheet (custom properties read by the CSS). */
-function useRunningLines(who: string, which: string): void {
-  useLayoutEffect(() => {
-    const style = document.documentElement.style;
-    style.setProperty('--rec-running-who', cssStringToken(who));
-    style.setProperty('--rec-running-which', cssStringToken(which));
-    return () => {
-      style.removeProperty('--rec-running-who');
-      style.removeProperty('--rec-running-which');
-    };
-  }, [who, which]);
 }
 
 /**
@@ -129,6 +119,7 @@ export function PrintedRecord({
   detail,
   histories,
   plan,
+  voided,
   settings,
   appVersion,
   printedAt,
@@ -144,9 +135,10 @@ export function PrintedRecord({
         : `patient ${String(patient.id)}`;
   const clinic = settings.clinicName === '' ? 'Clinic name not set' : settings.clinicName;
   const day = values.startedAt.slice(0, 10);
-  useRunningLines(
+  usePrintedRunningLines(
     `${clinic} · ${patient.values.name} (${identifier})`,
     `${day} · procedure record ${String(record.id)} version ${String(record.stamp.versionId)}`,
+    'Tidewing anaesthetic record',
   );
   const sorted = [...entries].sort((a, b) => Date.parse(a.values.at) - Date.parse(b.values.at));
   const startedAtMs = Date.parse(values.startedAt);
@@ -158,14 +150,21 @@ export function PrintedRecord({
   const shownFields = readingFields.filter((field) =>
     sorted.some((entry) => entry.values.kind === 'vitals' && entry.values[field] !== null),
   );
+  // The log table shows the voided rows in their place, struck through; the strips leave them out.
+  type LogRow =
+    | { readonly entry: (typeof sorted)[number]; readonly voidedRow: null }
+    | { readonly entry: ProcedureEntry; readonly voidedRow: VoidedRow };
+  const logRows: LogRow[] = [
+    ...sorted.map((entry): LogRow => ({ entry, voidedRow: null })),
+    ...voided.map((row): LogRow => ({ entry: row.entry, voidedRow: row })),
+  ].sort((a, b) => Date.parse(a.entry.values.at) - Date.parse(b.entry.values.at) || a.entry.id - b.entry.id);
   const events = sorted.filter((entry) => entry.values.kind === 'event');
   const milestones = recoveryMilestones(sorted);
   const initials = [...new Set(sorted.map((entry) => entry.stamp.enteredBy))];
-  const paperClass = settings.paperSize === 'Letter' ? 'pr-letter' : 'pr-a4';
 
   return (
     <article
-      className={`printed-record ${paperClass}`}
+      className={`printed-record ${paperClass(settings.paperSize)}`}
       data-ready="true"
       aria-labelledby="printed-record-title"
     >
@@ -349,7 +348,41 @@ export function PrintedRecord({
             </tr>
           </thead>
           <tbody>
-            {sorted.map((entry) => {
+            {logRows.map((row) => {
+              if (row.voidedRow !== null) {
+                const { entry, voidedRow } = row;
+                return (
+                  <tr key={entry.id} className="pr-voided">
+                    <td>
+                      <del>{clockText(entry.values.at)}</del>
+                    </td>
+                    <td className="pr-number">
+                      <del>{minutesFromStart(values.startedAt, entry.values.at)}</del>
+                    </td>
+                    {shownFields.map((field) => (
+                      <td key={field} className="pr-number">
+                        <del>
+                          {entry.values.kind === 'vitals' ? readingText(entry.values, field, units) : ''}
+                        </del>
+                      </td>
+                    ))}
+                    <td>
+                      {entry.values.kind === 'event' && <del>{eventSummary(entry.values)} </del>}
+                      <span className="pr-void-note">
+                        Voided by {entry.stamp.enteredBy} at {localDateTime(entry.stamp.enteredAt)}. Reason: “
+                        {entry.stamp.reason}”.
+                        {voidedRow.firstEnteredBy === null
+                          ? ''
+                          : ` First entered by ${voidedRow.firstEnteredBy}.`}
+                      </span>
+                    </td>
+                    <td>
+                      <del>{voidedRow.firstEnteredBy ?? ''}</del> {entry.stamp.enteredBy}
+                    </td>
+                  </tr>
+                );
+              }
+              const entry = row.entry;
               const versions = histories[entry.id];
               return (
                 <tr key={entry.id} className={entry.corrected ? 'pr-corrected' : undefined}>
@@ -399,9 +432,10 @@ export function PrintedRecord({
 
       <section aria-labelledby="pr-sign" className="pr-sign">
         <h2 id="pr-sign">Signatures</h2>
+        <p>Anaesthetist: ______________________________ Initials: ________ Date and time: ______________</p>
         <p>
-          Anaesthetist: ______________________ Initials: ______ · Veterinarian responsible:
-          ______________________ Initials: ______
+          Veterinarian responsible: ______________________________ Initials: ________ Date and time:
+          ______________
         </p>
       </section>
 

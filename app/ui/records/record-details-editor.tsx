@@ -2,6 +2,7 @@ import { useState, type FormEvent } from 'react';
 import type { ProcedureRecordValues } from '../../contract/records.js';
 import { displayDateTime } from '../common/display.js';
 import type { FieldErrors } from '../common/field-errors.js';
+import { onEscape } from '../common/return-focus.js';
 import { useChannel } from '../common/use-channel.js';
 import { TextBox } from './fields.js';
 import { RecordDetailsFields } from './record-details-fields.js';
@@ -11,6 +12,7 @@ type Props = {
   readonly recordId: number;
   readonly values: ProcedureRecordValues;
   readonly onSave: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+  /** Closes the editor (Close, Escape); the screen returns focus to what opened it. */
   readonly onClose: () => void;
 };
 
@@ -49,7 +51,11 @@ export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props
   }
 
   return (
-    <section className="panel record-details-editor" aria-labelledby="record-details-title">
+    <section
+      className="panel record-details-editor"
+      aria-labelledby="record-details-title"
+      onKeyDown={onEscape(onClose)}
+    >
       <h2 id="record-details-title">Correct the record’s details</h2>
       <form className="form record-new-form" noValidate onSubmit={(event) => void submit(event)}>
         <RecordDetailsFields draft={draft} errors={errors} update={update} />

@@ -37,6 +37,7 @@ export function RecordPrintView({ detail }: { readonly detail: ProcedureDetail }
           detail={detail}
           histories={extras.histories}
           plan={extras.plan}
+          voided={extras.voided}
           settings={settings}
           appVersion={info.state === 'ready' ? info.value.appVersion : ''}
           printedAt={printedAt}

@@ -9,7 +9,7 @@ import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { NumberField, numberText, parseNumber, TextField } from '../common/fields.js';
 import { useChannel } from '../common/use-channel.js';
-import { useWriteMeta } from '../common/write-meta.js';
+import { useInitialsGate } from '../common/initials-gate.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
@@ -75,7 +75,7 @@ type Editing =
  */
 export function EmergencyDrugs() {
   const [load, reload] = useChannel('drugs:list', {});
-  const writeMeta = useWriteMeta();
+  const { gate, withInitials } = useInitialsGate();
   const [editing, setEditing] = useState<Editing | null>(null);
   const [draft, setDraft] = useState<Draft>(emptyDraft);
   const [reason, setReason] = useState('');
@@ -96,27 +96,19 @@ export function EmergencyDrugs() {
     if (errors[`values.${key}`] !== undefined) setErrors(({ [`values.${key}`]: _removed, ...rest }) => rest);
   }
 
-  async function submit(event: FormEvent) {
+  /** Checks the form, then writes once the initials of whoever is at the keyboard are known. */
+  function submit(event: FormEvent) {
     event.preventDefault();
     if (editing === null) return;
-    const who = writeMeta(reason);
-    if ('missing' in who) {
-      setMessage({ kind: 'failed', text: who.missing });
-      return;
-    }
     if (editing.kind !== 'add' && reason.trim() === '') {
       setErrors({ 'meta.reason': 'Say why; the reason is kept with the history.' });
       setMessage({ kind: 'failed', text: 'Not saved: give a reason.' });
       return;
     }
-    let answer;
-    setBusy(true);
-    if (editing.kind === 'void') {
-      answer = await api.invoke('drugs:void', { id: editing.drug.id, meta: who.meta });
-    } else {
+    let values: EmergencyDrugValues | null = null;
+    if (editing.kind !== 'void') {
       const local = emergencyDrugValuesSchema.safeParse(valuesOf(draft));
       if (!local.success) {
-        setBusy(false);
         setErrors(
           fieldErrorsFrom(
             describeIssues(local.error.issues).map((issue) => ({ ...issue, field: `values.${issue.field}` })),
@@ -125,17 +117,33 @@ export function EmergencyDrugs() {
         setMessage({ kind: 'failed', text: 'Not saved: correct the fields marked below.' });
         return;
       }
-      answer =
-        editing.kind === 'add'
-          ? await api.invoke('drugs:add', { values: local.data, meta: who.meta })
-          : await api.invoke('drugs:correct', { id: editing.drug.id, values: local.data, meta: who.meta });
+      values = local.data;
     }
+    const target = editing;
+    withInitials((enteredBy) => void write(target, values, { enteredBy, reason: reason.trim() }));
+  }
+
+  async function write(
+    target: Editing,
+    values: EmergencyDrugValues | null,
+    meta: { enteredBy: string; reason: string },
+  ) {
+    setBusy(true);
+    const answer =
+      target.kind === 'void'
+        ? await api.invoke('drugs:void', { id: target.drug.id, meta })
+        : values === null
+          ? null
+          : target.kind === 'add'
+            ? await api.invoke('drugs:add', { values, meta })
+            : await api.invoke('drugs:correct', { id: target.drug.id, values, meta });
     setBusy(false);
+    if (answer === null) return;
     if (answer.ok) {
       setMessage({
         kind: 'saved',
         text:
-          editing.kind === 'void'
+          target.kind === 'void'
             ? `Removed ${answer.value.values.name}.`
             : `Saved ${answer.value.values.name}.`,
       });
@@ -225,12 +233,7 @@ export function EmergencyDrugs() {
           <SaveStatus message={message} />
         </div>
       ) : (
-        <form
-          onSubmit={(event) => void submit(event)}
-          noValidate
-          className="form drug-form"
-          aria-label={formTitle}
-        >
+        <form onSubmit={submit} noValidate className="form drug-form" aria-label={formTitle}>
           <h3>{formTitle}</h3>
           {editing.kind !== 'void' && (
             <>
@@ -302,6 +305,7 @@ export function EmergencyDrugs() {
               onChange={setReason}
             />
           )}
+          {gate}
           <div className="form-actions">
             <button type="submit" className="primary" disabled={busy}>
               {busy

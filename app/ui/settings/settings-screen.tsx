@@ -18,7 +18,7 @@ import { DataSection } from './data-section.js';
 import { EmergencyDrugs } from './emergency-drugs.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { focusMainHeading, useFocusFirstError } from '../common/screen-focus.js';
-import { readThemeChoice, storeThemeChoice, themeChoices, type ThemeChoice } from '../common/theme.js';
+import { WorkstationSection } from './workstation-section.js';
 
 type Props = {
   readonly stored: StoredSettings;
@@ -34,7 +34,6 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
   const [busy, setBusy] = useState(false);
   const firstRun = stored.settings === null;
   const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
-  const [theme, setTheme] = useState<ThemeChoice>(readThemeChoice);
 
   function update<K extends keyof ClinicSettings>(key: K, value: ClinicSettings[K]) {
     setDraft((current) => ({ ...current, [key]: value }));
@@ -162,29 +161,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
           {new Date(safety.last.acknowledgedAt).toLocaleString()} for version {safety.last.appVersion}.
         </p>
       )}
-      <section className="panel workstation-display" aria-labelledby="display-title">
-        <h2 id="display-title">Display on this workstation</h2>
-        <Choice
-          legend="Theme"
-          name="theme"
-          options={themeChoices}
-          labels={{
-            system: 'Follow this computer’s setting',
-            light: 'Light',
-            dim: 'Dim, for a darkened theatre',
-          }}
-          value={theme}
-          error={undefined}
-          onChange={(value) => {
-            setTheme(value);
-            storeThemeChoice(value);
-          }}
-        />
-        <p className="hint">
-          Applies at once and is kept on this computer only, so each workstation can have its own. The printed
-          worksheet is always black on white.
-        </p>
-      </section>
+      <WorkstationSection />
       {!firstRun && <EmergencyDrugs />}
       {!firstRun && <DataSection />}
     </section>

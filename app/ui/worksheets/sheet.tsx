@@ -1,11 +1,12 @@
-import { useCallback, useLayoutEffect, useState } from 'react';
+import { useCallback, useState } from 'react';
 import type { EmergencyDrug } from '../../contract/drug-channels.js';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
-import { cssStringToken, runningHeaderLines } from '../../core/worksheet.js';
+import { runningHeaderLines } from '../../core/worksheet.js';
 import { displayDate, setClinicDateFormat } from '../common/display.js';
+import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
 import { EstimatesSection } from './sheet-estimates.js';
@@ -35,23 +36,6 @@ export function patientIdentifier(detail: PlanDetail): string {
 }
 
 /**
- * The running lines of every printed page go to the page margins (`@page` margin boxes, which
- * take only strings): they are handed over as CSS custom properties on the root element, read by
- * worksheet.css, and removed when the sheet goes.
- */
-function useRunningHeader(who: string, which: string): void {
-  useLayoutEffect(() => {
-    const style = document.documentElement.style;
-    style.setProperty('--ws-running-who', cssStringToken(who));
-    style.setProperty('--ws-running-which', cssStringToken(which));
-    return () => {
-      style.removeProperty('--ws-running-who');
-      style.removeProperty('--ws-running-which');
-    };
-  }, [who, which]);
-}
-
-/**
  * The sheet itself, laid out for A4 or US Letter: page 1 the prep-room summary with the emergency
  * card, then the detail pages, then the monitoring grid; every page carries the clinic, bird,
  * identifier, date, plan version and "page n of N" in its margins. Plain hooks only: print.html
@@ -71,7 +55,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const recoveryWindowMin =
     input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
-  const sheetClass = settings.paperSize === 'Letter' ? 'sheet-letter' : 'sheet-a4';
+  const sheetClass = paperClass(settings.paperSize);
   const identifier = patientIdentifier(detail);
   const running = runningHeaderLines({
     clinicName: settings.clinicName,
@@ -81,7 +65,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
     planId: plan.id,
     planVersionId: plan.stamp.versionId,
   });
-  useRunningHeader(running.who, running.which);
+  usePrintedRunningLines(running.who, running.which, 'Tidewing anaesthetic worksheet');
 
   return (
     <article
