@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { planInputSchema, planResultSchema } from './plan.js';
+import { circuitSchema, planInputSchema, planResultSchema, routeSchema } from './plan.js';
 import { checklistStates } from './checklist.js';
 import { calendarDate, freeText, namingText } from './input-rules.js';
 import { patientSchema, recordStampSchema, speciesSchema } from './records.js';
@@ -67,6 +67,20 @@ export const savedPlanSchema = z.object({
 });
 export type SavedPlan = z.infer<typeof savedPlanSchema>;
 
+/** One phase of a saved plan in a list line: what is set, and the flow the model recommends for it. */
+export const planSummaryPhaseSchema = z.object({
+  startMin: z.number(),
+  gapMin: z.number(),
+  route: routeSchema,
+  /** The phase's breathing system, or null for a chamber. */
+  circuit: circuitSchema.nullable(),
+  freshGasLpm: z.number(),
+  recommendedLpm: z.number(),
+  minimumLpm: z.number(),
+  dialSteps: z.array(z.object({ atMin: z.number(), vaporPct: z.number() })),
+});
+export type PlanSummaryPhase = z.infer<typeof planSummaryPhaseSchema>;
+
 export const planSummarySchema = z.object({
   id: z.number().int(),
   patientId: z.number().int().nullable(),
@@ -81,6 +95,9 @@ export const planSummarySchema = z.object({
   liquidMl: z.number(),
   oxygenL: z.number(),
   inductionMin: z.number().nullable(),
+  recoveryMin: z.number().nullable().default(null),
+  /** The plan's phases in time order, the first from 0 min (one for a single-route plan). */
+  phases: z.array(planSummaryPhaseSchema).default([]),
   openChecklistItems: z.number().int(),
   asaGrade: z.number().int().nullable(),
   emergency: z.boolean(),
