@@ -11,3 +11,27 @@ export function agentRouteText(agent: string, route: string): string {
   const routeName = isKeyOf(routeLabels, route) ? routeLabels[route].toLowerCase() : route;
   return `${agentName}, ${routeName}`;
 }
+
+/** Number in a list line: at most 2 decimals. */
+function short(value: number): string {
+  return String(Math.round(value * 100) / 100);
+}
+
+/**
+ * A saved plan's agent and its phases in a list line, e.g.
+ * "Isoflurane, face mask → endotracheal tube at 6 min"; a one-phase plan reads as agent and route.
+ */
+export function agentPhasesText(plan: {
+  readonly agent: string;
+  readonly route: string;
+  readonly phases: readonly { readonly startMin: number; readonly route: string }[];
+}): string {
+  const later = plan.phases
+    .slice(1)
+    .map((phase) => {
+      const name = isKeyOf(routeLabels, phase.route) ? routeLabels[phase.route].toLowerCase() : phase.route;
+      return ` → ${name} at ${short(phase.startMin)} min`;
+    })
+    .join('');
+  return `${agentRouteText(plan.agent, plan.route)}${later}`;
+}

@@ -2,11 +2,11 @@ import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
 import { displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
-import { agentRouteText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { figure, minutes } from './format.js';
+import { PhaseLines } from './phase-lines.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 /** The plans for one day with the agent and oxygen the list needs. */
@@ -48,8 +48,9 @@ export function DayList() {
                     <th>Plan</th>
                     <th>Bird</th>
                     <th className="number">Mass</th>
-                    <th>Agent and route</th>
+                    <th>Agent, phases, flows and dials</th>
                     <th className="number">To planned depth</th>
+                    <th className="number">Recovery</th>
                     <th className="number">Liquid agent</th>
                     <th className="number">Oxygen</th>
                     <th>Checklist</th>
@@ -67,8 +68,15 @@ export function DayList() {
                       </td>
                       <td>{plan.patientName ?? 'quick plan'}</td>
                       <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
-                      <td>{agentRouteText(plan.agent, plan.route)}</td>
+                      <td>
+                        {agents[plan.agent as AgentId].displayName}
+                        <PhaseLines phases={plan.phases} />
+                      </td>
                       <td className="number">{minutes(plan.inductionMin)}</td>
+                      <td className="number">
+                        {minutes(plan.recoveryMin)}
+                        <span className="basis">after vaporiser off</span>
+                      </td>
                       <td className="number">{figure(plan.liquidMl)} mL</td>
                       <td className="number">{figure(plan.oxygenL)} L</td>
                       <td>
