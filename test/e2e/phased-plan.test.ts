@@ -102,14 +102,20 @@ describe('a mask induction then a tube, entered with the keyboard', () => {
     await page.getByLabel('spontaneous').check();
 
     // The results lead with the phases: a mask, then the tube from 6 min.
-    const table = page.getByRole('table', { name: 'Phases of the plan' });
-    await expect.poll(() => table.locator('tbody tr').count(), { timeout: 15_000 }).toBe(2);
-    const rows = await table.locator('tbody tr').allInnerTexts();
-    expect(squash(rows[0] ?? '')).toMatch(/^1: 0-6 min Face mask Non-rebreathing system set 1 L\/min/);
-    expect(squash(rows[1] ?? '')).toMatch(
-      /^2: 6-\d+ min intubate; 0\.5 min on room air \(assumption\) Endotracheal tube Non-rebreathing system set 0\.5 L\/min/,
+    const list = page.getByRole('list', { name: 'Phases of the plan' });
+    const items = list.locator(':scope > li');
+    await expect.poll(() => items.count(), { timeout: 15_000 }).toBe(2);
+    const texts = (await items.allInnerTexts()).map(squash);
+    expect(texts[0]).toMatch(
+      /^Phase 1, 0-6 min: Face mask Breathing system Non-rebreathing system Fresh gas set 1 L\/min/,
     );
+    expect(texts[1]).toMatch(
+      /^Phase 2, 6-\d+ min: Endotracheal tube · intubate after 0\.5 min on room air \(assumption\) Breathing system Non-rebreathing system Fresh gas set 0\.5 L\/min/,
+    );
+    expect(texts[1]).toMatch(/Uses [\d.]+ L oxygen, [\d.]+ mL liquid isoflurane$/);
     await page.screenshot({ path: path.join(shots, '60-phased-planning.png') });
+    await list.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(shots, '60-phased-planning-results.png') });
     await page
       .getByRole('group', { name: /^Phase 2/ })
       .scrollIntoViewIfNeeded()

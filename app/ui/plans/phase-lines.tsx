@@ -19,7 +19,7 @@ export function PhaseLines({ phases }: { readonly phases: readonly PlanSummaryPh
           <strong className={phase.freshGasLpm < phase.minimumLpm ? 'too-low' : undefined}>
             {figure(phase.freshGasLpm)} L/min
           </strong>{' '}
-          (recommended {figure(phase.recommendedLpm)}) · {dialStepTexts(phase.dialSteps).join(', ')}
+          (recommended {figure(phase.recommendedLpm, 2)}) · {dialStepTexts(phase.dialSteps).join(', ')}
         </li>
       ))}
     </ol>

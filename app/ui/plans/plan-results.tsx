@@ -5,7 +5,7 @@ import { plainBasis } from '../common/display.js';
 import { EstimateList } from './estimate-list.js';
 import { figure, minutes, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
-import { PhasesTable } from './phases-table.js';
+import { PhaseList } from './phase-list.js';
 
 type Props = {
   readonly result: PlanResult;
@@ -148,7 +148,7 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
           <h2 id="phases-heading">
             {result.phases.length === 1 ? 'Route, flow and dial' : `Phases (${result.phases.length})`}
           </h2>
-          <PhasesTable phases={result.phases} agent={result.agent} />
+          <PhaseList phases={result.phases} agent={result.agent} />
         </section>
       )}
 

@@ -123,9 +123,9 @@ export function SummarySection({
                 ))}
               </td>
               <td>
-                <span className="ws-block">oxygen {figure(phase.oxygenUsedL, 2)} L</span>
+                <span className="ws-block">{figure(phase.oxygenUsedL, 2)}&nbsp;L oxygen</span>
                 <span className="ws-block">
-                  {agentName} {figure(phase.liquidMl, 2)} mL
+                  {figure(phase.liquidMl, 2)}&nbsp;mL {agentName}
                 </span>
               </td>
               {phase.index === 0 && <td rowSpan={phases.length}>{ventilationText(input)}</td>}
