@@ -174,14 +174,23 @@ describe('a mask induction then a tube, entered with the keyboard', () => {
       'Emergency card for 95 g',
     ])
       expect(first, `page 1: ${expected}`).toContain(expected);
-    const stem = path.join(output.folder, 'phased-page');
-    await run('pdftoppm', ['-png', '-r', '80', '-f', '1', '-l', '1', file, stem]);
-    const image = fs.readdirSync(output.folder).find((name) => name.startsWith('phased-page'));
-    expect(image).toBeDefined();
-    fs.copyFileSync(
-      path.join(output.folder, image ?? ''),
-      path.join(shots, '62-phased-worksheet-page-1.png'),
+    // The detail pages list the phases with each one's flow.
+    const all = squash((await run('pdftotext', [file, '-'])).stdout);
+    expect(all).toMatch(/Phases 1\. 0-6 min: Face mask, Non-rebreathing system; fresh gas 1 L\/min oxygen/);
+    expect(all).toMatch(
+      /2\. 6-\d+ min, intubate after 0\.5 min on room air \(assumption\): Endotracheal tube, Non-rebreathing system; fresh gas 0\.5 L\/min oxygen/,
     );
+    expect(all).toContain('Fresh gas, phase 2');
+    const stem = path.join(output.folder, 'phased-page');
+    await run('pdftoppm', ['-png', '-r', '80', '-f', '1', '-l', '3', file, stem]);
+    for (const image of fs.readdirSync(output.folder).filter((name) => name.startsWith('phased-page'))) {
+      const number = Number(/-(\d+)\.png$/.exec(image)?.[1] ?? 0);
+      fs.copyFileSync(
+        path.join(output.folder, image),
+        path.join(shots, `62-phased-worksheet-page-${number}.png`),
+      );
+    }
+    expect(fs.existsSync(path.join(shots, '62-phased-worksheet-page-1.png'))).toBe(true);
 
     // The day list names both phases with their flows.
     await page.goto(`${host.origin}/#/plans`);
