@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { planInputSchema, planResultSchema } from './plan.js';
+import { circuitSchema, planInputSchema, planResultSchema, routeSchema } from './plan.js';
 import { checklistStates } from './checklist.js';
 import { calendarDate, freeText, namingText } from './input-rules.js';
 import { patientSchema, recordStampSchema, speciesSchema } from './records.js';
@@ -67,6 +67,20 @@ export const savedPlanSchema = z.object({
 });
 export type SavedPlan = z.infer<typeof savedPlanSchema>;
 
+/** One phase of a saved plan in a list line: what is set, and the flow the model recommends for it. */
+export const planSummaryPhaseSchema = z.object({
+  startMin: z.number(),
+  gapMin: z.number(),
+  route: routeSchema,
+  /** The phase's breathing system, or null for a chamber. */
+  circuit: circuitSchema.nullable(),
+  freshGasLpm: z.number(),
+  recommendedLpm: z.number(),
+  minimumLpm: z.number(),
+  dialSteps: z.array(z.object({ atMin: z.number(), vaporPct: z.number() })),
+});
+export type PlanSummaryPhase = z.infer<typeof planSummaryPhaseSchema>;
+
 export const planSummarySchema = z.object({
   id: z.number().int(),
   patientId: z.number().int().nullable(),
@@ -86,7 +100,9 @@ export const planSummarySchema = z.object({
   /** The vaporiser schedule: each dial setting from its minute. */
   schedule: z.array(z.object({ atMin: z.number(), vaporPct: z.number() })),
   /** Minutes after the vaporiser is off until first movement, or null when not predicted. */
-  recoveryMin: z.number().nullable(),
+  recoveryMin: z.number().nullable().default(null),
+  /** The plan's phases in time order, the first from 0 min (one for a single-route plan). */
+  phases: z.array(planSummaryPhaseSchema).default([]),
   openChecklistItems: z.number().int(),
   asaGrade: z.number().int().nullable(),
   emergency: z.boolean(),

@@ -4,6 +4,7 @@ import { planResultSchema, type PlanInput } from '../../app/contract/plan.js';
 import { localDateOf, plannedDateProblem } from '../../app/contract/input-rules.js';
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js';
+import { phasesOfPlan } from '../../app/core/plan-phases.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
@@ -60,6 +61,16 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
       freshGasLpm: plan.input.freshGasLpm,
       schedule: plan.input.schedule.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct })),
       recoveryMin: plan.result.milestones.recoveryMin,
+      phases: phasesOfPlan(plan.input, plan.result).map((phase) => ({
+        startMin: phase.startMin,
+        gapMin: phase.gapMin,
+        route: phase.route,
+        circuit: phase.route === 'chamber' ? null : phase.circuit,
+        freshGasLpm: phase.freshGasLpm,
+        recommendedLpm: phase.flows.recommendedLpm,
+        minimumLpm: phase.flows.minimumLpm,
+        dialSteps: phase.dialSteps.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct })),
+      })),
       openChecklistItems: openItems(plan),
       asaGrade: plan.checklist.asaGrade,
       emergency: plan.checklist.emergency,

@@ -201,7 +201,10 @@ describe('planning from a patient in headless Chromium', () => {
     await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(
       /Day total: [\d.]+ mL liquid isoflurane and [\d.]+ L oxygen/,
     );
-    await expect(page.getByRole('table').first().innerText()).resolves.toContain('Isoflurane, face mask');
+    // The agent, then each phase with its route, breathing system, flow (edited to 1.5) and dials.
+    await expect(page.getByRole('table').first().innerText()).resolves.toMatch(
+      /Isoflurane\s+Face mask, Non-rebreathing system · 1\.5 L\/min \(recommended [\d.]+\) · 4 % from 0 min/,
+    );
     await shoot(page, '42-day-list');
 
     // A procedure record that follows the plan shows the plan's predicted curve beside the log.

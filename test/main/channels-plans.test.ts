@@ -288,6 +288,19 @@ describe('plan channels', () => {
         { atMin: 30, vaporPct: 0 },
       ],
       recoveryMin: pipPlan.result.milestones.recoveryMin,
+      // A single-route plan is one phase from 0 min, with the flow the model recommends for it.
+      phases: [
+        {
+          startMin: 0,
+          gapMin: 0,
+          route: 'mask',
+          circuit: 'nonRebreathing',
+          freshGasLpm: pipInput.freshGasLpm,
+          recommendedLpm: pipPlan.result.flows.recommendedLpm,
+          minimumLpm: pipPlan.result.flows.minimumLpm,
+          dialSteps: pipInput.schedule,
+        },
+      ],
       // Two checklist items left open (scavenging, emergency card); the ASA grade is given.
       openChecklistItems: 2,
       asaGrade: 2,
@@ -314,6 +327,43 @@ describe('plan channels', () => {
       plans: [],
       totals: { liquidMlByAgent: {}, oxygenL: 0 },
     });
+  });
+
+  it('a phased plan is summarised phase by phase: chamber (no breathing system), then a tube', async () => {
+    const api = harness();
+    const kiwi = await api.answer('patients:create', { values: kiwiValues, meta: enteredByRw });
+    const input: PlanInputRequest = {
+      ...pipInput,
+      bodyMassG: 95,
+      route: 'chamber',
+      chamberVolumeL: 2,
+      freshGasLpm: 2,
+      laterPhases: [
+        { startMin: 6, gapMin: 1, route: 'endotracheal', circuit: 'nonRebreathing', freshGasLpm: 0.5 },
+      ],
+    };
+    delete (input as { circuit?: unknown }).circuit;
+    delete (input as { maskDeadSpaceMl?: unknown }).maskDeadSpaceMl;
+    delete (input as { maskLeakFraction?: unknown }).maskLeakFraction;
+    const saved = await api.answer('plans:save', {
+      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', label: '', input, checklist: allOpen },
+      meta: enteredByRw,
+    });
+    const [summary] = await api.answer('plans:for-patient', { patientId: kiwi.id });
+    expect(
+      summary?.phases.map(({ startMin, gapMin, route, circuit, freshGasLpm }) => ({
+        startMin,
+        gapMin,
+        route,
+        circuit,
+        freshGasLpm,
+      })),
+    ).toEqual([
+      { startMin: 0, gapMin: 0, route: 'chamber', circuit: null, freshGasLpm: 2 },
+      { startMin: 6, gapMin: 1, route: 'endotracheal', circuit: 'nonRebreathing', freshGasLpm: 0.5 },
+    ]);
+    expect(summary?.phases[1]?.recommendedLpm).toBe(saved.result.phases[1]?.flows.recommendedLpm);
+    expect(summary?.phases[1]?.dialSteps).toEqual(saved.result.phases[1]?.dialSteps);
   });
 
   it('plans:for-patient, plans:recent and plans:day name the field they refuse', async () => {

@@ -36,3 +36,27 @@ export function asaGradeText(asaGrade: number | null, emergency: boolean): strin
   if (asaGrade === null) return emergency ? 'not graded (E)' : 'not graded';
   return `${String(asaGrade)}${emergency ? 'E' : ''}`;
 }
+
+/** Number in a list line: at most 2 decimals. */
+function short(value: number): string {
+  return String(Math.round(value * 100) / 100);
+}
+
+/**
+ * A saved plan's agent and its phases in a list line, e.g.
+ * "Isoflurane, face mask → endotracheal tube at 6 min"; a one-phase plan reads as agent and route.
+ */
+export function agentPhasesText(plan: {
+  readonly agent: string;
+  readonly route: string;
+  readonly phases: readonly { readonly startMin: number; readonly route: string }[];
+}): string {
+  const later = plan.phases
+    .slice(1)
+    .map((phase) => {
+      const name = isKeyOf(routeLabels, phase.route) ? routeLabels[phase.route].toLowerCase() : phase.route;
+      return ` → ${name} at ${short(phase.startMin)} min`;
+    })
+    .join('');
+  return `${agentRouteText(plan.agent, plan.route)}${later}`;
+}

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { displayBasis, displayDate, displayDateTime } from '../common/display.js';
-import { agentRouteText } from '../common/plan-labels.js';
+import { agentPhasesText } from '../common/plan-labels.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { WeightsPanel } from './weights-panel.js';
@@ -15,7 +15,7 @@ function PatientPlans({ patientId }: { readonly patientId: number }) {
       {load.value.map((plan) => (
         <li key={plan.id}>
           <a href={href('plans', plan.id)}>
-            {displayDate(plan.plannedFor)}: {agentRouteText(plan.agent, plan.route)}
+            {displayDate(plan.plannedFor)}: {agentPhasesText(plan)}
             {plan.label === '' ? '' : ` (${plan.label})`}
           </a>{' '}
           · <a href={href('worksheets', plan.id)}>worksheet</a>

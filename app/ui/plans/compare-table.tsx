@@ -1,35 +1,42 @@
 import type { PlanInput } from '../../contract/plan.js';
-import type { PlanResult } from '../../core/model/plan-types.js';
+import type { PlanPhaseSummary, PlanResult } from '../../core/model/plan-types.js';
 import { agents } from '../../core/agents.js';
-import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { breathingSystemText, phasesOfPlan, phaseSequenceText } from '../../core/plan-phases.js';
 import { figure, minutes, range } from './format.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 type Row = { readonly label: string; readonly a: string; readonly b: string };
 
-/** A chamber has no breathing system; an air-sac tube always runs on a non-rebreathing system. */
-function breathingSystem(input: PlanInput): string {
-  return input.route === 'chamber' ? '—' : circuitLabels[input.circuit ?? 'nonRebreathing'];
+/** Each phase's value joined in time order, e.g. "1 L/min → 0.5 L/min"; one phase reads alone. */
+function perPhase(input: PlanInput, result: PlanResult, text: (phase: PlanPhaseSummary) => string): string {
+  return phasesOfPlan(input, result).map(text).join(' → ');
 }
 
-function inputRows(a: PlanInput, b: PlanInput): Row[] {
+function inputRows(a: PlanInput, b: PlanInput, resultA: PlanResult, resultB: PlanResult): Row[] {
   const schedule = (input: PlanInput) =>
     input.schedule.map((step) => `${step.vaporPct} % from ${step.atMin} min`).join(', ');
   const ventilation = (input: PlanInput) =>
     input.ventilation?.mode === 'ippv'
-      ? `IPPV ${input.ventilation.breathsPerMin}/min × ${input.ventilation.tidalVolumeMl} mL`
+      ? `IPPV ${input.ventilation.breathsPerMin}/min × ${input.ventilation.tidalVolumeMl} mL${input.ventilation.fromMin === undefined ? '' : ` from ${input.ventilation.fromMin} min`}`
       : 'Spontaneous';
+  const routes = (input: PlanInput, result: PlanResult) => phaseSequenceText(phasesOfPlan(input, result));
+  const systems = (input: PlanInput, result: PlanResult) =>
+    perPhase(input, result, (phase) => breathingSystemText(phase.route, phase.circuit));
+  const flows = (input: PlanInput, result: PlanResult) =>
+    perPhase(input, result, (phase) => `${figure(phase.freshGasLpm)} L/min`);
   return [
     { label: 'Agent', a: agents[a.agent].displayName, b: agents[b.agent].displayName },
-    { label: 'Route', a: routeLabels[a.route], b: routeLabels[b.route] },
-    { label: 'Breathing system', a: breathingSystem(a), b: breathingSystem(b) },
-    { label: 'Fresh gas flow', a: `${figure(a.freshGasLpm)} L/min`, b: `${figure(b.freshGasLpm)} L/min` },
+    { label: 'Route', a: routes(a, resultA), b: routes(b, resultB) },
+    { label: 'Breathing system', a: systems(a, resultA), b: systems(b, resultB) },
+    { label: 'Fresh gas flow', a: flows(a, resultA), b: flows(b, resultB) },
     { label: 'Vaporiser schedule', a: schedule(a), b: schedule(b) },
     { label: 'Ventilation', a: ventilation(a), b: ventilation(b) },
   ];
 }
 
-function resultRows(a: PlanResult, b: PlanResult): Row[] {
+function resultRows(inputA: PlanInput, inputB: PlanInput, a: PlanResult, b: PlanResult): Row[] {
+  const recommended = (input: PlanInput, result: PlanResult) =>
+    perPhase(input, result, (phase) => `${figure(phase.flows.recommendedLpm)} L/min`);
   return [
     {
       label: 'Time to planned depth',
@@ -54,8 +61,8 @@ function resultRows(a: PlanResult, b: PlanResult): Row[] {
     },
     {
       label: 'Recommended fresh gas',
-      a: `${figure(a.flows.recommendedLpm)} L/min`,
-      b: `${figure(b.flows.recommendedLpm)} L/min`,
+      a: recommended(inputA, a),
+      b: recommended(inputB, b),
     },
     {
       label: 'Liquid agent',
@@ -79,7 +86,10 @@ export function CompareTable(props: {
   readonly resultA: PlanResult;
   readonly resultB: PlanResult;
 }) {
-  const rows = [...inputRows(props.inputA, props.inputB), ...resultRows(props.resultA, props.resultB)];
+  const rows = [
+    ...inputRows(props.inputA, props.inputB, props.resultA, props.resultB),
+    ...resultRows(props.inputA, props.inputB, props.resultA, props.resultB),
+  ];
   return (
     <ScrollRegion label="Plan comparison">
       <table className="data-table compare-table" aria-label="Comparison of plan A and plan B">

@@ -2,11 +2,12 @@ import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
 import { displayDate, displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
-import { agentRouteText, asaGradeText, dialStepsText } from '../common/plan-labels.js';
+import { asaGradeText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
 import { figure, minutes } from './format.js';
+import { PhaseLines } from './phase-lines.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 /**
@@ -59,9 +60,7 @@ export function DayList() {
                     <th>Bird</th>
                     <th className="number">Mass</th>
                     <th>ASA</th>
-                    <th>Agent and route</th>
-                    <th>Dial</th>
-                    <th className="number">Fresh gas</th>
+                    <th>Agent, phases, flows and dials</th>
                     <th className="number">To planned depth</th>
                     <th className="number">First movement after off</th>
                     <th className="number">Liquid agent</th>
@@ -85,9 +84,10 @@ export function DayList() {
                       <td>{plan.patientName ?? 'quick plan'}</td>
                       <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
                       <td>{asaGradeText(plan.asaGrade, plan.emergency)}</td>
-                      <td>{agentRouteText(plan.agent, plan.route)}</td>
-                      <td>{dialStepsText(plan.schedule)}</td>
-                      <td className="number">{figure(plan.freshGasLpm)} L/min</td>
+                      <td>
+                        {agents[plan.agent as AgentId].displayName}
+                        <PhaseLines phases={plan.phases} />
+                      </td>
                       <td className="number">{minutes(plan.inductionMin)}</td>
                       <td className="number">{minutes(plan.recoveryMin)}</td>
                       <td className="number">{figure(plan.liquidMl)} mL</td>

@@ -2,6 +2,7 @@ import { planInputSchema, type PlanInput } from '../../contract/plan.js';
 import { agentLabels, agents, type AgentId } from '../../core/agents.js';
 import { vaporiserDialLimitPct } from '../../core/budget/consumption.js';
 import { kgToG, type MassUnit } from '../../core/units.js';
+import { laterPhaseDrafts, laterPhasesFromDraft, phaseFieldOfPath, type PhaseDraft } from './phase-draft.js';
 
 /**
  * What the planning form holds. Numbers stay as typed so that a half-typed "0." is never
@@ -37,6 +38,8 @@ export type PlanDraft = {
   cylinderBarText: string;
   roomVolumeText: string;
   roomChangesText: string;
+  /** Phases after the first (the route block above is the first, from 0 min); old drafts have none. */
+  laterPhases?: readonly PhaseDraft[] | undefined;
 };
 
 /**
@@ -212,6 +215,7 @@ export function draftToInput(
     ...(draft.route !== 'chamber' && draft.route !== 'airSacTube' && draft.circuit === 'circle'
       ? { circuitVolumeL: read('circuitVolumeText', 'Circle volume') }
       : {}),
+    ...laterPhasesFromDraft(draft.laterPhases ?? [], problems),
     schedule: [
       { atMin: 0, vaporPct: inductionPct },
       { atMin: inductionMin, vaporPct: maintenancePct },
@@ -254,7 +258,7 @@ export function draftToInput(
   if (parsed.success) return { input: parsed.data };
   for (const issue of parsed.error.issues) {
     const path = issue.path.map(String).join('.');
-    const field = fieldOfPath[path] ?? 'form';
+    const field = fieldOfPath[path] ?? phaseFieldOfPath(path) ?? 'form';
     if (problems[field] === undefined)
       problems[field] = issue.message.charAt(0).toUpperCase() + issue.message.slice(1) + '.';
   }
@@ -303,5 +307,6 @@ export function inputToDraft(input: PlanInput, massUnit: MassUnit): PlanDraft {
     cylinderBarText: cylinder?.kind === 'waterCapacity' ? String(cylinder.pressureBar) : base.cylinderBarText,
     roomVolumeText: input.room === undefined ? base.roomVolumeText : String(input.room.volumeM3),
     roomChangesText: input.room === undefined ? base.roomChangesText : String(input.room.airChangesPerHour),
+    laterPhases: laterPhaseDrafts(input.laterPhases ?? []),
   };
 }

@@ -6,6 +6,7 @@ import { basisText } from '../../core/sourced.js';
 import { displayBasis } from '../common/display.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
 import { dialCaution, dialHint, withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
+import { PhasesEditor } from './phases-editor.js';
 
 type Props = {
   readonly draft: PlanDraft;
@@ -95,7 +96,11 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
       </fieldset>
 
       <fieldset className="group">
-        <legend>Route and circuit</legend>
+        <legend>
+          {(draft.laterPhases ?? []).length === 0
+            ? 'Route and circuit'
+            : 'Phase 1: route and circuit, from 0 min'}
+        </legend>
         <div className="form-grid">
           <SelectField
             label="Route"
@@ -172,6 +177,14 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
           )}
         </div>
       </fieldset>
+
+      <PhasesEditor
+        phases={draft.laterPhases ?? []}
+        first={draft}
+        maintenanceFromText={draft.inductionMinText}
+        problems={problems}
+        onChange={(laterPhases) => onChange({ ...draft, laterPhases })}
+      />
 
       <fieldset className="group">
         <legend>Vaporiser schedule</legend>

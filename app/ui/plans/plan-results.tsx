@@ -5,6 +5,7 @@ import { plainBasis } from '../common/display.js';
 import { EstimateList } from './estimate-list.js';
 import { figure, minutes, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
+import { PhaseList } from './phase-list.js';
 
 type Props = {
   readonly result: PlanResult;
@@ -180,11 +181,20 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
         </p>
       </section>
 
+      {result.phases.length > 0 && (
+        <section className="panel" aria-labelledby="phases-heading">
+          <h2 id="phases-heading">
+            {result.phases.length === 1 ? 'Route, flow and dial' : `Phases (${result.phases.length})`}
+          </h2>
+          <PhaseList phases={result.phases} agent={result.agent} />
+        </section>
+      )}
+
       <Section content={[result.flows, result.consumption, result.oxygen, result.agent, setFreshGasLpm]}>
         <section className="panel" aria-labelledby="flows-heading">
           <h2 id="flows-heading">Fresh gas, agent and oxygen</h2>
           <dl className="details">
-            <dt>Recommended fresh gas</dt>
+            <dt>Recommended fresh gas{result.phases.length > 1 ? ', phase 1' : ''}</dt>
             <dd>
               {figure(flows.recommendedLpm)} L/min (rebreathing below {figure(flows.minimumLpm)} L/min)
               {setFreshGasLpm !== null && (

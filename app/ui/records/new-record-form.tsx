@@ -4,7 +4,7 @@ import { displayMass } from '../common/display.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { useOperator } from '../common/operator.js';
-import { agentRouteText } from '../common/plan-labels.js';
+import { agentPhasesText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -12,6 +12,7 @@ import { toLocalInputValue } from './clock-time.js';
 import { useInitialsGate } from '../common/initials-gate.js';
 import { RecordDetailsFields } from './record-details-fields.js';
 import { checkRecordDraft, emptyRecordDraft, type RecordDraft } from './record-form.js';
+import { plannedPhasesNote, withLinkedPlan } from './linked-plan.js';
 
 function PatientPicker() {
   const [query, setQuery] = useState('');
@@ -134,25 +135,11 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
           error={errors['planId']}
           onChoose={(plan, previous) => {
             setErrors(({ planId: _plan, ...rest }) => rest);
+            // The record follows the linked plan: the airway and breathing system of the phase it
+            // starts on replace what an earlier plan put there (change them here after choosing).
             setDraft((current) => ({
-              ...current,
+              ...withLinkedPlan(current, plan, previous),
               planId: plan === null ? null : plan.id,
-              ...(plan === null
-                ? {}
-                : {
-                    // The record follows the linked plan: its airway and breathing system replace
-                    // what an earlier plan put there (change them here after choosing the plan).
-                    airway: plan.route as RecordDraft['airway'],
-                    ...(plan.circuit === null ? {} : { circuit: plan.circuit as RecordDraft['circuit'] }),
-                    procedureName:
-                      current.procedureName === '' || current.procedureName === previous?.label
-                        ? plan.label
-                        : current.procedureName,
-                    // The ASA grade given in the plan's checklist, unless one is chosen here.
-                    ...(current.asaGrade === 0 && plan.asaGrade !== null
-                      ? { asaGrade: plan.asaGrade as RecordDraft['asaGrade'], emergency: plan.emergency }
-                      : {}),
-                  }),
             }));
           }}
         />
@@ -189,6 +176,7 @@ function LinkedPlan({
   const [plans] = useChannel('plans:for-patient', { patientId });
   const previous = plans.state === 'ready' ? (plans.value.find((plan) => plan.id === planId) ?? null) : null;
   const id = useId();
+  const note = previous === null ? null : plannedPhasesNote(previous);
   const message =
     error === undefined ? null : (
       <p className="field-error" id={`${id}-error`} role="alert">
@@ -209,7 +197,10 @@ function LinkedPlan({
         id={id}
         name="planId"
         aria-invalid={error !== undefined}
-        aria-describedby={error === undefined ? undefined : `${id}-error`}
+        aria-describedby={
+          [error === undefined ? '' : `${id}-error`, note === null ? '' : `${id}-phases`].join(' ').trim() ||
+          undefined
+        }
         value={planId === null ? '' : String(planId)}
         onChange={(event) =>
           onChoose(plans.value.find((plan) => String(plan.id) === event.target.value) ?? null, previous)
@@ -218,11 +209,16 @@ function LinkedPlan({
         <option value="">no plan</option>
         {plans.value.map((plan) => (
           <option key={plan.id} value={plan.id}>
-            Plan {plan.id}, {plan.plannedFor}: {agentRouteText(plan.agent, plan.route)}
+            Plan {plan.id}, {plan.plannedFor}: {agentPhasesText(plan)}
             {plan.label === '' ? '' : ` (${plan.label})`}
           </option>
         ))}
       </select>
+      {note !== null && (
+        <p className="hint phase-plan-note" id={`${id}-phases`}>
+          {note} The airway below is the plan’s first phase; log the move as an event when it happens.
+        </p>
+      )}
       {message}
     </div>
   );

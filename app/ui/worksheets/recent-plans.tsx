@@ -1,5 +1,5 @@
 import { displayDate, displayMass } from '../common/display.js';
-import { agentRouteText } from '../common/plan-labels.js';
+import { agentPhasesText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { href } from '../shell/areas.js';
@@ -54,7 +54,7 @@ export function RecentPlans() {
                     </td>
                     <td>
                       {plan.label === '' ? '' : `${plan.label}: `}
-                      {agentRouteText(plan.agent, plan.route)}
+                      {agentPhasesText(plan)}
                     </td>
                     <td className="number">{displayMass(plan.bodyMassG, settings.massUnit)}</td>
                     <td className="number">

@@ -1,25 +1,19 @@
 import type { PlanDetail } from '../../contract/plan-records.js';
-import type { PlanInput, PlanResult } from '../../contract/plan.js';
+import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
 import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
 import { displayDate, displayMass } from '../common/display.js';
-import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { routeLabels } from '../../core/delivery.js';
+import { breathingSystemText, dialStepTexts, phaseMoveText, phasesOfPlan } from '../../core/plan-phases.js';
 import { figure } from './labels.js';
 import { ventilationText } from './sheet-text.js';
 
 const severityWords = { danger: 'DANGER', warning: 'WARNING', notice: 'NOTICE' } as const;
 
-/** The dial steps as short lines, e.g. `0 min 4 %`, `30 min off`. */
-function dialSteps(input: PlanInput): string[] {
-  return input.schedule.map(
-    (step) => `${figure(step.atMin)} min ${step.vaporPct === 0 ? 'off' : `${figure(step.vaporPct)} %`}`,
-  );
-}
-
 /**
  * Page 1 of the worksheet, the prep-room summary that stands alone: the bird, how it is to be
- * anaesthetised (a table of steps, one row today, one per phase once plans have phases), the
+ * anaesthetised (one row per phase: route, breathing system, flow, dial steps, oxygen and agent), the
  * predicted times with their ranges, what to have ready and the cautions in one line each. The
  * emergency card follows it on the same page.
  */
@@ -41,7 +35,8 @@ export function SummarySection({
   const agent = agents[input.agent];
   const depthPct = result.targetMacMultiple * result.mac.valuePct;
   const grade = plan.checklist.asaGrade;
-  const belowMinimum = input.freshGasLpm < result.flows.minimumLpm;
+  const phases = phasesOfPlan(input, result);
+  const agentName = agent.displayName.toLowerCase();
   return (
     <section className="ws-section ws-summary" aria-labelledby="ws-summary">
       <h2 id="ws-summary" className="ws-visually-hidden">
@@ -83,36 +78,59 @@ export function SummarySection({
         </caption>
         <thead>
           <tr>
-            <th scope="col">Step</th>
-            <th scope="col">Route</th>
-            <th scope="col">Breathing system</th>
+            <th scope="col">Phase</th>
+            <th scope="col">Route and breathing system</th>
             <th scope="col">Fresh gas (oxygen)</th>
             <th scope="col">Dial steps</th>
+            <th scope="col">Uses</th>
             <th scope="col">Breathing</th>
           </tr>
         </thead>
         <tbody>
-          <tr>
-            <th scope="row">1</th>
-            <td>{routeLabels[input.route]}</td>
-            <td>{input.circuit === undefined ? 'none' : circuitLabels[input.circuit]}</td>
-            <td>
-              <strong>{figure(input.freshGasLpm, 2)} L/min</strong>
-              <span className="ws-block ws-small">
-                recommended {figure(result.flows.recommendedLpm, 2)}, at least{' '}
-                {figure(result.flows.minimumLpm, 2)}
-              </span>
-              {belowMinimum && <strong className="ws-open ws-block">BELOW THE MINIMUM</strong>}
-            </td>
-            <td>
-              {dialSteps(input).map((step) => (
-                <span key={step} className="ws-block">
-                  {step}
+          {phases.map((phase) => (
+            <tr key={phase.index}>
+              <th scope="row">
+                {phase.index + 1}
+                <span className="ws-block ws-small">
+                  {figure(phase.startMin)}-{figure(phase.endMin)} min
                 </span>
-              ))}
-            </td>
-            <td>{ventilationText(input)}</td>
-          </tr>
+                {phase.index > 0 && (
+                  <span className="ws-block ws-small">
+                    {phaseMoveText(phase.route)}
+                    {phase.gapMin > 0 ? `, ${figure(phase.gapMin)} min on room air` : ''}
+                  </span>
+                )}
+              </th>
+              <td>
+                <strong>{routeLabels[phase.route]}</strong>
+                <span className="ws-block ws-small">{breathingSystemText(phase.route, phase.circuit)}</span>
+              </td>
+              <td>
+                <strong>{figure(phase.freshGasLpm, 2)} L/min</strong>
+                <span className="ws-block ws-small">
+                  recommended {figure(phase.flows.recommendedLpm, 2)}, at least{' '}
+                  {figure(phase.flows.minimumLpm, 2)}
+                </span>
+                {phase.freshGasLpm < phase.flows.minimumLpm && (
+                  <strong className="ws-open ws-block">BELOW THE MINIMUM</strong>
+                )}
+              </td>
+              <td>
+                {dialStepTexts(phase.dialSteps).map((step) => (
+                  <span key={step} className="ws-block">
+                    {step}
+                  </span>
+                ))}
+              </td>
+              <td>
+                <span className="ws-block">{figure(phase.oxygenUsedL, 2)}&nbsp;L oxygen</span>
+                <span className="ws-block">
+                  {figure(phase.liquidMl, 2)}&nbsp;mL {agentName}
+                </span>
+              </td>
+              {phase.index === 0 && <td rowSpan={phases.length}>{ventilationText(input)}</td>}
+            </tr>
+          ))}
         </tbody>
       </table>
 

@@ -1,5 +1,7 @@
 import type { PlanInput, PlanResult } from '../../contract/plan.js';
 import { agents } from '../../core/agents.js';
+import { routeLabels } from '../../core/delivery.js';
+import { phasesOfPlan } from '../../core/plan-phases.js';
 import { figure } from './labels.js';
 import { Row } from './sheet-row.js';
 
@@ -12,29 +14,39 @@ export function SuppliesSection({
   readonly result: PlanResult;
 }) {
   const agent = agents[input.agent];
+  const phases = phasesOfPlan(input, result);
   return (
     <section className="ws-section" aria-labelledby="ws-supplies">
       <h2 id="ws-supplies">Flows, agent, oxygen and waste gas</h2>
       <table className="ws-facts">
         <tbody>
-          <Row label="Fresh gas flow">
-            recommended <strong>{figure(result.flows.recommendedLpm, 2)} L/min</strong> (at least{' '}
-            {figure(result.flows.minimumLpm, 2)} L/min); set{' '}
-            <strong>{figure(input.freshGasLpm, 2)} L/min</strong>
-            {input.freshGasLpm < result.flows.minimumLpm ? (
-              <strong className="ws-open"> · BELOW THE MINIMUM</strong>
-            ) : (
-              ''
-            )}
-            <br />
-            <span className="ws-basis">
-              {result.flows.rule}. {result.flows.basis}
-              {result.flows.rebreathing ? ` Rebreathing: ${result.flows.rebreathingReason}` : ''}
-              {result.flows.chamberTimeTo95Min === null
+          {phases.map((phase) => (
+            <Row
+              key={phase.index}
+              label={phases.length === 1 ? 'Fresh gas flow' : `Fresh gas, phase ${String(phase.index + 1)}`}
+            >
+              {phases.length === 1 ? '' : `${routeLabels[phase.route]}: `}
+              recommended <strong>{figure(phase.flows.recommendedLpm, 2)} L/min</strong> (at least{' '}
+              {figure(phase.flows.minimumLpm, 2)} L/min); set{' '}
+              <strong>{figure(phase.freshGasLpm, 2)} L/min</strong>
+              {phase.freshGasLpm < phase.flows.minimumLpm ? (
+                <strong className="ws-open"> · BELOW THE MINIMUM</strong>
+              ) : (
+                ''
+              )}
+              {phases.length === 1
                 ? ''
-                : ` Chamber reaches 95 % of the dial in ${figure(result.flows.chamberTimeTo95Min, 2)} min.`}
-            </span>
-          </Row>
+                : `; ${figure(phase.oxygenUsedL, 2)} L oxygen and ${figure(phase.liquidMl, 2)} mL liquid agent in this phase`}
+              <br />
+              <span className="ws-basis">
+                {phase.flows.rule}. {phase.flows.basis}
+                {phase.flows.rebreathing ? ` Rebreathing: ${phase.flows.rebreathingReason}` : ''}
+                {phase.flows.chamberTimeTo95Min === null
+                  ? ''
+                  : ` Chamber reaches 95 % of the dial in ${figure(phase.flows.chamberTimeTo95Min, 2)} min.`}
+              </span>
+            </Row>
+          ))}
           <Row label={`Liquid ${agent.displayName.toLowerCase()}`}>
             <strong>{figure(result.consumption.liquidMl, 2)} mL</strong> for the plan;{' '}
             {figure(result.consumption.liquidMlPerHour, 2)} mL/h at{' '}

@@ -41,8 +41,10 @@ export function cylinderText(input: PlanInput): string {
   return `${names[cylinder.presetId]}${gauge}`;
 }
 
-/** Chamber, circle, mask dead space and leak, where given. */
-export function deliveryDetails(input: PlanInput): string[] {
+/** Chamber, circle, mask dead space and leak, where given (the plan's own, or a later phase's). */
+export function deliveryDetails(
+  input: Pick<PlanInput, 'chamberVolumeL' | 'circuitVolumeL' | 'maskDeadSpaceMl' | 'maskLeakFraction'>,
+): string[] {
   const details: string[] = [];
   if (input.chamberVolumeL !== undefined) details.push(`chamber ${figure(input.chamberVolumeL)} L`);
   if (input.circuitVolumeL !== undefined) details.push(`circle volume ${figure(input.circuitVolumeL)} L`);

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { planInputSchema } from '../../../app/contract/plan.js';
 import { circuitLabels, routeLabels } from '../../../app/core/delivery.js';
-import { agentRouteText } from '../../../app/ui/common/plan-labels.js';
+import { agentPhasesText, agentRouteText } from '../../../app/ui/common/plan-labels.js';
 
 describe('plain names of plan choices', () => {
   it('names every route and breathing system the plan contract accepts', () => {
@@ -18,5 +18,24 @@ describe('plain names of plan choices', () => {
     expect(agentRouteText('desflurane', 'endotracheal')).toBe('Desflurane, endotracheal tube');
     // Unknown values (from a newer version) are shown as stored rather than dropped.
     expect(agentRouteText('xenon', 'nasal')).toBe('xenon, nasal');
+  });
+
+  it('writes a phased plan as its routes in time order with the minute of each move', () => {
+    const mask = { startMin: 0, route: 'mask' };
+    expect(agentPhasesText({ agent: 'isoflurane', route: 'mask', phases: [] })).toBe('Isoflurane, face mask');
+    expect(agentPhasesText({ agent: 'isoflurane', route: 'mask', phases: [mask] })).toBe(
+      'Isoflurane, face mask',
+    );
+    expect(
+      agentPhasesText({
+        agent: 'sevoflurane',
+        route: 'chamber',
+        phases: [
+          { startMin: 0, route: 'chamber' },
+          { startMin: 4, route: 'mask' },
+          { startMin: 9.5, route: 'endotracheal' },
+        ],
+      }),
+    ).toBe('Sevoflurane, induction chamber → face mask at 4 min → endotracheal tube at 9.5 min');
   });
 });
