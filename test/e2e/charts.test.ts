@@ -166,6 +166,26 @@ describe('charts of our own, in headless Chromium', () => {
         });
       await shoot(page, 'planning-forced-colours', '.plan-chart', false);
       await page.emulateMedia({ forcedColors: 'none' });
+
+      // The worksheet draws the same depth chart, in black and greys, with the saved plan's phases.
+      await page.goto(`${session.host.origin}/#/worksheets/${saved.id}`);
+      await page.locator('.worksheet[data-ready="true"]').waitFor();
+      const sheetChart = page.locator('.worksheet-chart');
+      await expect(sheetChart.locator('[data-band="planned-depth"]').count()).resolves.toBe(1);
+      await expect(sheetChart.locator('.strip-phase').count()).resolves.toBe(2);
+      // The mask phase is too short on the axis for its name: its short mark, named in the key.
+      await expect(sheetChart.locator('.strip-phase text').allTextContents()).resolves.toEqual([
+        'P1',
+        'Endotracheal tube',
+      ]);
+      await expect(sheetChart.locator('.strip-marker-key').innerText()).resolves.toContain(
+        'Phase 1 from the start: Face mask',
+      );
+      await expect(sheetChart.locator('[tabindex]').count()).resolves.toBe(0);
+      await sheetChart.screenshot({ path: path.join(shots, '70-charts-worksheet-chart.png') });
+      await page.emulateMedia({ media: 'print' });
+      await sheetChart.screenshot({ path: path.join(shots, '70-charts-worksheet-chart-print.png') });
+      await page.emulateMedia({ media: null });
       expect(problems).toEqual([]);
     } finally {
       await page.close();

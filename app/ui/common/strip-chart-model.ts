@@ -70,8 +70,10 @@ export type Strip = {
 /** A moment marked across the strips (a phase change, an event) or on one strip (a milestone). */
 export type StripMarker = {
   readonly atMin: number;
-  /** Short text drawn by the marker, e.g. "2" or "Phase 2". */
+  /** Short text drawn by the marker, e.g. "2" or a route's name. */
   readonly mark: string;
+  /** Drawn instead of `mark` where the mark does not fit before the next marker (e.g. "P2"). */
+  readonly shortMark?: string;
   /** Full words for the key and the read-out. */
   readonly label: string;
   readonly kind: 'phase' | 'milestone' | 'event';

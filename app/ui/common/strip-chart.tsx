@@ -16,6 +16,7 @@ import {
   type Strip,
   type StripChartData,
   type StripLine,
+  type StripMarker,
 } from './strip-chart-model.js';
 
 const margin = { left: 62, right: 122, top: 34, bottom: 36 };
@@ -105,8 +106,9 @@ type Layout = {
 
 function layoutOf(data: StripChartData, width: number, stripsHeight: number): Layout {
   const plotLeft = margin.left;
-  // A narrow window (a zoomed one) keeps less room for the level names at the right.
-  const plotRight = Math.max(plotLeft + 50, width - (width < 560 ? 92 : margin.right));
+  // Room at the right for the level names; a narrow window (a zoomed one) keeps less.
+  const named = data.strips.some((strip) => (strip.levels ?? []).length > 0);
+  const plotRight = Math.max(plotLeft + 50, width - (named ? (width < 560 ? 92 : margin.right) : 16));
   const totalWeight = data.strips.reduce((sum, strip) => sum + strip.weight, 0) || 1;
   const usable = stripsHeight - stripGap * Math.max(0, data.strips.length - 1);
   let top = margin.top;
@@ -345,7 +347,16 @@ export function StripChart({
   const bands = data.strips.flatMap((strip) => strip.bands ?? []);
   const areas = data.strips.flatMap((strip) => (strip.area === undefined ? [] : [strip.area]));
   const levels = data.strips.flatMap((strip) => strip.levels ?? []);
-  const markerKey = data.markers.filter((marker) => marker.kind !== 'phase');
+  const markerKey = data.markers;
+  // A phase's name where it fits before the next phase starts, else its short mark (the key says which).
+  const markText = (marker: StripMarker, index: number): string => {
+    if (marker.kind !== 'phase' || marker.shortMark === undefined) return marker.mark;
+    const next = data.markers.slice(index + 1).find((other) => other.kind === 'phase');
+    const room =
+      (next === undefined ? layout.plotRight + margin.right : layout.xAt(next.atMin)) -
+      layout.xAt(marker.atMin);
+    return marker.mark.length * 6.4 + 10 <= room ? marker.mark : marker.shortMark;
+  };
 
   const drawing = (
     <svg
@@ -404,7 +415,7 @@ export function StripChart({
             <line
               x1={x}
               x2={x}
-              y1={firstTop - (marker.kind === 'phase' ? 16 : 10)}
+              y1={firstTop - 16}
               y2={bottom}
               style={{
                 stroke: 'var(--chart-ink)',
@@ -414,11 +425,11 @@ export function StripChart({
             />
             <text
               x={x + (marker.kind === 'phase' ? 4 : 0)}
-              y={firstTop - (marker.kind === 'phase' ? 20 : 13)}
+              y={firstTop - 20}
               textAnchor={marker.kind === 'phase' ? 'start' : 'middle'}
               className="strip-marker-text"
             >
-              {marker.mark}
+              {markText(marker, index)}
             </text>
           </g>
         );
@@ -524,7 +535,7 @@ export function StripChart({
           {markerKey.map((marker, index) => (
             <li key={index}>
               <span className="strip-marker-badge" aria-hidden="true">
-                {marker.mark}
+                {marker.kind === 'phase' ? (marker.shortMark ?? marker.mark) : marker.mark}
               </span>{' '}
               {marker.label}
             </li>

@@ -128,6 +128,7 @@ function phaseMarks(result: ChartedPlan): { markers: StripMarker[]; spans: Strip
   const markers: StripMarker[] = result.phases.map((phase) => ({
     atMin: phase.startMin,
     mark: routeLabels[phase.route],
+    shortMark: `P${String(phase.index + 1)}`,
     label:
       phase.index === 0
         ? `Phase 1 from the start: ${routeLabels[phase.route]}`
@@ -237,13 +238,12 @@ export function depthChartData(result: ChartedPlan, options: PlanChartOptions = 
   const levelOf = (id: MilestoneId) => definitions.find((entry) => entry.id === id)?.macMultiple;
   const target = result.targetMacMultiple;
   const highest = Math.max(
-    2,
     target * 1.25,
     ...brain,
     ...(band?.high ?? []),
     ...(comparedValues ?? []).map((value) => value ?? 0),
   );
-  const range = { min: 0, max: Math.ceil((highest * 1.05) / 0.5) * 0.5 };
+  const range = { min: 0, max: Math.max(2, Math.ceil((highest * 1.05) / 0.5) * 0.5) };
   const firstMovement = levelOf('firstMovement') ?? result.recoveryMacFraction.value;
   const standing = levelOf('standing');
   const bands: StripBand[] = [
