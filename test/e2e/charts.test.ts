@@ -20,10 +20,19 @@ async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T>
  */
 async function shoot(page: Page, name: string, chart: string, accessibility = true) {
   await page.screenshot({ path: path.join(shots, `70-charts-${name}.png`), fullPage: true });
+  // The chart alone: the planning screen's sticky cautions panel, which would cover its top while
+  // scrolled, is set aside for this picture only.
+  const setAside = (hidden: boolean) =>
+    page.evaluate((hide) => {
+      const panel = document.querySelector<HTMLElement>('.cautions-panel');
+      if (panel !== null) panel.style.display = hide ? 'none' : '';
+    }, hidden);
+  await setAside(true);
   await page
     .locator(chart)
     .first()
     .screenshot({ path: path.join(shots, `70-charts-${name}-chart.png`) });
+  await setAside(false);
   if (!accessibility) return;
   const size = page.viewportSize();
   if (name.startsWith('planning')) await page.setViewportSize({ width: 1440, height: 1000 });
