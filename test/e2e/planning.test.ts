@@ -94,7 +94,7 @@ describe('planning from a patient in headless Chromium', () => {
         .filter({ hasText: /^Loss of righting$/ })
         .getAttribute('title'),
     ).resolves.toBe('Loss of righting: brain reaches 0.6 x MAC (assumption)');
-    const chart = page.locator('.plan-results canvas').first();
+    const chart = page.locator('.plan-results .plan-chart .strip-chart-svg').first();
     await chart.waitFor();
     const before = await inductionText(page);
     const pixelsBefore = await chart.screenshot();

@@ -300,7 +300,7 @@ describe('procedure record screens in headless Chromium', () => {
       await expect(page.getByLabel('Recovery milestones').getByText('Gas off').isVisible()).resolves.toBe(
         true,
       );
-      await expect(page.locator('.record-live .uplot').count()).resolves.toBe(1);
+      await expect(page.getByRole('group', { name: 'The log over time' }).count()).resolves.toBe(1);
       const widths = await page.evaluate(() => ({
         scroll: document.documentElement.scrollWidth,
         client: document.documentElement.clientWidth,

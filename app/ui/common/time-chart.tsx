@@ -62,6 +62,11 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
       }
       return value;
     };
+    // The legend shows the value under the cursor or nothing: never uPlot's "--" placeholder.
+    const legendValue = (_self: uPlot, value: number | null, _series: number, index: number | null) =>
+      index === null || value === null || !Number.isFinite(value)
+        ? ''
+        : String(Math.round(value * 100) / 100);
     const options: uPlot.Options = {
       width: Math.max(320, element.clientWidth),
       height,
@@ -86,7 +91,7 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
         })),
       ],
       series: [
-        { label: xLabel },
+        { label: xLabel, value: legendValue },
         ...series.map((item) => ({
           label: item.label,
           stroke: colour(item.stroke),
@@ -95,6 +100,7 @@ export function TimeChart({ x, xLabel, series, axes, height = 260, title, summar
           ...(item.dash === undefined ? {} : { dash: [...item.dash] }),
           points: { show: item.points ?? false },
           spanGaps: true,
+          value: legendValue,
         })),
       ],
       // A draw counter on the element lets tests and the benchmark see each redraw.

@@ -1,125 +1,74 @@
-import { useMemo } from 'react';
+import { useId, useMemo, useState } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
-import { TimeChart, type ChartSeries } from '../common/time-chart.js';
+import { StripChart } from '../common/strip-chart.js';
+import { figureText } from '../common/strip-chart-model.js';
+import { depthChartData, gasChartData, type ComparedPlan } from './plan-chart-data.js';
 
-export type CompareWith = { readonly label: string; readonly result: PlanResult } | undefined;
+export type CompareWith = ComparedPlan;
 
-/**
- * The chart's series for a result. The band series are always there (empty without samples) so
- * that the chart keeps its shape while the quick and the full runs alternate.
- */
-export function planChartSeries(result: PlanResult, compareWith: CompareWith): ChartSeries[] {
-  const timeline = result.timeline;
-  const x = timeline.timeMin;
-  const depthPct = result.mac.valuePct * result.targetMacMultiple;
-  const arousalPct = result.mac.valuePct * result.recoveryMacFraction.value;
-  const constant = (value: number) => x.map(() => value);
-  const band = result.uncertainty.brainBandPct;
-  const bandUsable = band !== null && band.p5.length === x.length;
-  const list: ChartSeries[] = [
-    {
-      label: 'Inspired',
-      values: timeline.inspiredPct,
-      stroke: 'var(--chart-grey)',
-      dash: [10, 5],
-      width: 1.5,
-      scale: 'pct',
-    },
-    {
-      label: 'Posterior air sacs',
-      values: timeline.posteriorSacsPct,
-      stroke: 'var(--chart-amber)',
-      dash: [4, 3],
-      width: 1.5,
-      scale: 'pct',
-    },
-    {
-      label: 'Parabronchial end gas',
-      values: timeline.parabronchialPct,
-      stroke: 'var(--chart-green)',
-      dash: [1, 3],
-      width: 2,
-      scale: 'pct',
-    },
-    {
-      label: 'Arterial',
-      values: timeline.arterialPct,
-      stroke: 'var(--chart-red)',
-      dash: [8, 3, 2, 3],
-      width: 1.5,
-      scale: 'pct',
-    },
-    { label: 'Brain', values: timeline.brainPct, stroke: 'var(--chart-blue)', width: 3, scale: 'pct' },
-    {
-      label: 'Planned depth',
-      values: constant(depthPct),
-      stroke: 'var(--chart-ink)',
-      dash: [2, 2],
-      width: 1,
-      scale: 'pct',
-    },
-    {
-      label: 'Arousal threshold',
-      values: constant(arousalPct),
-      stroke: 'var(--chart-ink)',
-      dash: [12, 4, 2, 4],
-      width: 1,
-      scale: 'pct',
-    },
-    // The shaded band lies between the two percentile curves (uPlot band between series).
-    {
-      label: 'Brain, 5th percentile',
-      values: bandUsable ? band.p5 : x.map(() => null),
-      stroke: 'var(--chart-band-line)',
-      width: 1,
-      scale: 'pct',
-      bandTo: 8,
-    },
-    {
-      label: 'Brain, 95th percentile',
-      values: bandUsable ? band.p95 : x.map(() => null),
-      stroke: 'var(--chart-band-line)',
-      width: 1,
-      scale: 'pct',
-    },
-  ];
-  if (compareWith !== undefined && compareWith.result.timeline.timeMin.length === x.length) {
-    // Drawn at the same MAC multiple on this plan's axis, so plans with different agents compare fairly.
-    const scale = result.mac.valuePct / compareWith.result.mac.valuePct;
-    list.push({
-      label: `Brain, ${compareWith.label} (same MAC multiple)`,
-      values: compareWith.result.timeline.brainPct.map((value) => value * scale),
-      stroke: 'var(--chart-violet)',
-      dash: [6, 2],
-      width: 2.5,
-      scale: 'pct',
-    });
-  }
-  return list;
-}
+type View = 'depth' | 'gas';
+
+const viewNames: Readonly<Record<View, string>> = {
+  depth: 'Depth (× MAC)',
+  gas: 'Gas in the airways and air sacs',
+};
 
 type Props = {
   readonly result: PlanResult;
   /** A second variant's brain curve, drawn for comparison. */
   readonly compareWith?: CompareWith;
+  /** The plan's dial steps, for a result that lists no phases. */
+  readonly schedule?: readonly { readonly atMin: number; readonly vaporPct: number }[];
   readonly height?: number;
 };
 
 /**
- * Predicted partial pressures over time (vol %), with lines at the planned depth and the
- * arousal threshold. Dash patterns keep the curves apart on a black-and-white printout.
+ * The planning chart. It leads with depth: the brain as a multiple of the bird's MAC against the
+ * planned depth and the levels at which a bird wakes, the dial as steps below. A second view shows
+ * the agent in the airways, the air sacs, the blood and the brain.
  */
-export function PlanChart({ result, compareWith, height = 300 }: Props) {
-  const x = result.timeline.timeMin;
-  const series = useMemo(() => planChartSeries(result, compareWith), [result, compareWith]);
+export function PlanChart({ result, compareWith, schedule, height = 330 }: Props) {
+  const [view, setView] = useState<View>('depth');
+  const name = useId();
+  const data = useMemo(
+    () =>
+      view === 'depth'
+        ? depthChartData(result, { compareWith, schedule })
+        : gasChartData(result, { compareWith, schedule }),
+    [view, result, compareWith, schedule],
+  );
+  const spanText = `${figureText(result.timeline.timeMin.at(-1) ?? 0, 0)} minutes`;
+  const summary =
+    view === 'depth'
+      ? `Predicted brain level over ${spanText}, as a multiple of the bird’s MAC: deepest ${figureText(result.milestones.peakBrainMacMultiple, 2)} × MAC; planned depth ${figureText(result.targetMacMultiple, 2)} × MAC; first movement below ${figureText(result.recoveryMacFraction.value, 2)} × MAC. The vaporiser dial is drawn as steps below.`
+      : `Predicted ${result.agent} in vol % over ${spanText}: as breathed in, in the posterior air sacs, at the gas-exchange surface, in arterial blood and in the brain; the vaporiser dial below.`;
   return (
-    <TimeChart
-      x={x}
-      xLabel="Minutes from start"
-      series={series}
-      axes={[{ scale: 'pct', label: `${result.agent} (vol %)` }]}
-      height={height}
-      summary={`Predicted ${result.agent} partial pressures over ${Math.round(x.at(-1) ?? 0)} minutes: brain reaches ${result.milestones.peakBrainMacMultiple.toFixed(2)} times MAC at its peak; planned depth ${result.targetMacMultiple} × MAC, arousal threshold ${result.recoveryMacFraction.value} × MAC.`}
-    />
+    <div className="plan-chart">
+      <fieldset className="chart-views">
+        <legend className="visually-hidden">Chart view</legend>
+        {(Object.keys(viewNames) as View[]).map((key) => (
+          <label key={key} className={view === key ? 'chart-view chart-view-current' : 'chart-view'}>
+            <input
+              type="radio"
+              name={name}
+              value={key}
+              checked={view === key}
+              onChange={() => setView(key)}
+            />{' '}
+            {viewNames[key]}
+          </label>
+        ))}
+      </fieldset>
+      <StripChart
+        data={data}
+        label={
+          view === 'depth'
+            ? 'Predicted depth over time'
+            : 'Predicted gas in the airways and air sacs over time'
+        }
+        summary={summary}
+        height={height}
+      />
+    </div>
   );
 }

@@ -1,3 +1,4 @@
+import { stepCorners, widenedRange } from '../common/strip-chart-model.js';
 import type { DisplayUnits } from './entry-form.js';
 import type { ChartedReading } from './record-series.js';
 
@@ -32,18 +33,13 @@ export function fixedStripRange(field: ChartedReading, units: DisplayUnits): Str
  * @param values logged values in display units (nulls ignored)
  */
 export function stripRange(fixed: StripRange, values: readonly (number | null)[]): StripRange {
-  let { min, max } = fixed;
-  for (const value of values) {
-    if (value === null || !Number.isFinite(value)) continue;
-    while (value > max) max += fixed.step;
-    while (value < min) min -= fixed.step;
-  }
-  return { min, max, step: fixed.step };
+  return { ...widenedRange(fixed, fixed.step, values), step: fixed.step };
 }
 
 /**
  * A dial drawn as steps: each setting holds until the next one (a vaporiser does not slide
- * between settings). Returns the corner points of the step line.
+ * between settings). Returns the corner points of the step line (the charts' one implementation,
+ * stepCorners).
  * @param points logged minutes and settings, ascending by minute
  * @param untilMin where the last setting is drawn to
  */
@@ -51,13 +47,5 @@ export function dialSteps(
   points: readonly { readonly minute: number; readonly value: number }[],
   untilMin: number,
 ): { readonly minute: number; readonly value: number }[] {
-  const corners: { minute: number; value: number }[] = [];
-  points.forEach((point, index) => {
-    const previous = corners.at(-1);
-    if (index > 0 && previous !== undefined) corners.push({ minute: point.minute, value: previous.value });
-    corners.push(point);
-  });
-  const last = corners.at(-1);
-  if (last !== undefined && untilMin > last.minute) corners.push({ minute: untilMin, value: last.value });
-  return corners;
+  return stepCorners(points, untilMin);
 }

@@ -29,16 +29,19 @@ function MilestoneRow({ line, mark }: { readonly line: ClinicalMilestoneLine; re
 /** The predicted course: the chart (which reports when drawn) and the milestones with their ranges. */
 export function PredictionSection({
   result,
+  schedule,
   onDrawn,
 }: {
   readonly result: PlanResult;
+  /** The plan's dial steps (drawn when the result lists no phases). */
+  readonly schedule?: readonly { readonly atMin: number; readonly vaporPct: number }[];
   readonly onDrawn: () => void;
 }) {
   const lines = clinicalMilestoneLines(result);
   return (
     <section className="ws-section" aria-labelledby="ws-prediction">
       <h2 id="ws-prediction">Predicted course</h2>
-      <WorksheetChart result={result} onDrawn={onDrawn} />
+      <WorksheetChart result={result} schedule={schedule} onDrawn={onDrawn} />
       <table className="ws-facts ws-milestones">
         <tbody>
           {lines

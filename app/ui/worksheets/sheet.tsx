@@ -105,7 +105,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       </div>
       <CautionsSection result={result} />
       <PlanSection input={input} result={result} recoveryWindowMin={recoveryWindowMin} />
-      <PredictionSection result={result} onDrawn={onDrawn} />
+      <PredictionSection result={result} schedule={input.schedule} onDrawn={onDrawn} />
       <SuppliesSection input={input} result={result} />
       <EstimatesSection result={result} />
       <MonitoringSection
