@@ -1,18 +1,42 @@
-import { useEffect, useState } from 'react';
+import { lazy, Suspense, useEffect, useState } from 'react';
 import type { SafetyStatus } from '../contract/safety.js';
 import type { StoredSettings } from '../contract/settings.js';
 import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
 import { PatientsArea } from './patients/patients-area.js';
-import { PlansArea } from './plans/plans-area.js';
-import { RecordsArea } from './records/records-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
 import { SettingsScreen } from './settings/settings-screen.js';
 import { routeFromHash, type Route } from './shell/areas.js';
 import { Shell } from './shell/shell.js';
-import { SpeciesArea } from './species/species-area.js';
-import { WorksheetsArea } from './worksheets/worksheets-area.js';
+
+// The first screen (patients) loads with the app; each other area loads when first opened, and
+// all of them once the browser is idle after the first screen, so a later switch seldom waits.
+const loadSpecies = () => import('./species/species-area.js');
+const loadPlans = () => import('./plans/plans-area.js');
+const loadRecords = () => import('./records/records-area.js');
+const loadWorksheets = () => import('./worksheets/worksheets-area.js');
+const loadPatientDetail = () => import('./patients/patient-detail.js');
+const SpeciesArea = lazy(() => loadSpecies().then((module) => ({ default: module.SpeciesArea })));
+const PlansArea = lazy(() => loadPlans().then((module) => ({ default: module.PlansArea })));
+const RecordsArea = lazy(() => loadRecords().then((module) => ({ default: module.RecordsArea })));
+const WorksheetsArea = lazy(() => loadWorksheets().then((module) => ({ default: module.WorksheetsArea })));
+
+function useIdleLoadOfAreas(ready: boolean): void {
+  useEffect(() => {
+    if (!ready) return undefined;
+    const load = () => {
+      for (const area of [loadPlans, loadWorksheets, loadRecords, loadSpecies, loadPatientDetail])
+        void area();
+    };
+    if (typeof window.requestIdleCallback === 'function') {
+      const handle = window.requestIdleCallback(load, { timeout: 5000 });
+      return () => window.cancelIdleCallback(handle);
+    }
+    const timer = window.setTimeout(load, 1000);
+    return () => window.clearTimeout(timer);
+  }, [ready]);
+}
 
 function useRoute(): Route {
   const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
@@ -36,6 +60,20 @@ function Failure({ message }: { readonly message: string }) {
 }
 
 function AreaContent({ route }: { readonly route: Route }) {
+  return (
+    <Suspense
+      fallback={
+        <p className="area-loading" aria-busy="true">
+          Loading…
+        </p>
+      }
+    >
+      <Area route={route} />
+    </Suspense>
+  );
+}
+
+function Area({ route }: { readonly route: Route }) {
   switch (route.area) {
     case 'patients':
       return <PatientsArea route={route} />;
@@ -62,6 +100,7 @@ export function App() {
 
   const currentSafety = safety ?? (safetyLoad.state === 'ready' ? safetyLoad.value : null);
   const currentSettings = stored ?? (settingsLoad.state === 'ready' ? settingsLoad.value : null);
+  useIdleLoadOfAreas(currentSafety?.acknowledged === true && currentSettings !== null);
 
   if (safetyLoad.state === 'failed') return <Failure message={safetyLoad.error.message} />;
   if (settingsLoad.state === 'failed') return <Failure message={settingsLoad.error.message} />;
