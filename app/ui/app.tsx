@@ -22,6 +22,15 @@ const PlansArea = lazy(() => loadPlans().then((module) => ({ default: module.Pla
 const RecordsArea = lazy(() => loadRecords().then((module) => ({ default: module.RecordsArea })));
 const WorksheetsArea = lazy(() => loadWorksheets().then((module) => ({ default: module.WorksheetsArea })));
 
+const areaLoaders: Partial<Record<Route['area'], () => Promise<unknown>>> = {
+  species: loadSpecies,
+  plans: loadPlans,
+  records: loadRecords,
+  worksheets: loadWorksheets,
+};
+// The area the address opens on starts loading with the app, not after the database answers.
+void areaLoaders[routeFromHash(window.location.hash).area]?.();
+
 function useIdleLoadOfAreas(ready: boolean): void {
   useEffect(() => {
     if (!ready) return undefined;
