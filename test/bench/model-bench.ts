@@ -111,8 +111,16 @@ async function bandInWorkers(): Promise<{ oneWorkerMs: number; poolMs: number; w
   const workers = Array.from({ length: size }, () => new Worker(script));
   const slice = (worker: Worker, job: BandJob) =>
     new Promise<UncertaintySlice>((resolve, reject) => {
-      worker.once('message', resolve);
-      worker.once('error', reject);
+      const settle = (answer: UncertaintySlice) => {
+        worker.off('error', fail);
+        resolve(answer);
+      };
+      const fail = (error: Error) => {
+        worker.off('message', settle);
+        reject(error);
+      };
+      worker.once('message', settle);
+      worker.once('error', fail);
       worker.postMessage(job);
     });
   const timeBand = async (parts: number): Promise<number> => {
