@@ -10,13 +10,12 @@ import { SettingsScreen } from './settings/settings-screen.js';
 import { routeFromHash, type Route } from './shell/areas.js';
 import { Shell } from './shell/shell.js';
 
-// The first screen (patients) loads with the app; each other area loads when first opened, and
-// all of them once the browser is idle after the first screen, so a later switch seldom waits.
+// The first screen (patients) loads with the app; each other area loads when first opened (no
+// loading of the others while idle: measured, it slowed the screen the address opened on).
 const loadSpecies = () => import('./species/species-area.js');
 const loadPlans = () => import('./plans/plans-area.js');
 const loadRecords = () => import('./records/records-area.js');
 const loadWorksheets = () => import('./worksheets/worksheets-area.js');
-const loadPatientDetail = () => import('./patients/patient-detail.js');
 const SpeciesArea = lazy(() => loadSpecies().then((module) => ({ default: module.SpeciesArea })));
 const PlansArea = lazy(() => loadPlans().then((module) => ({ default: module.PlansArea })));
 const RecordsArea = lazy(() => loadRecords().then((module) => ({ default: module.RecordsArea })));
@@ -30,22 +29,6 @@ const areaLoaders: Partial<Record<Route['area'], () => Promise<unknown>>> = {
 };
 // The area the address opens on starts loading with the app, not after the database answers.
 void areaLoaders[routeFromHash(window.location.hash).area]?.();
-
-function useIdleLoadOfAreas(ready: boolean): void {
-  useEffect(() => {
-    if (!ready) return undefined;
-    const load = () => {
-      for (const area of [loadPlans, loadWorksheets, loadRecords, loadSpecies, loadPatientDetail])
-        void area();
-    };
-    if (typeof window.requestIdleCallback === 'function') {
-      const handle = window.requestIdleCallback(load, { timeout: 5000 });
-      return () => window.cancelIdleCallback(handle);
-    }
-    const timer = window.setTimeout(load, 1000);
-    return () => window.clearTimeout(timer);
-  }, [ready]);
-}
 
 function useRoute(): Route {
   const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
@@ -109,7 +92,6 @@ export function App() {
 
   const currentSafety = safety ?? (safetyLoad.state === 'ready' ? safetyLoad.value : null);
   const currentSettings = stored ?? (settingsLoad.state === 'ready' ? settingsLoad.value : null);
-  useIdleLoadOfAreas(currentSafety?.acknowledged === true && currentSettings !== null);
 
   if (safetyLoad.state === 'failed') return <Failure message={safetyLoad.error.message} />;
   if (settingsLoad.state === 'failed') return <Failure message={settingsLoad.error.message} />;
