@@ -1,9 +1,45 @@
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { defineConfig, type UserConfig } from 'vite';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { defineConfig, type Plugin, type UserConfig } from 'vite';
 import react from '@vitejs/plugin-react';
 
 const root = path.dirname(fileURLToPath(import.meta.url));
+
+/** Zod's JSON Schema modules, which the renderer never calls (`npm run schema` runs in Node). */
+const jsonSchemaModule = /(^|[\\/])(json-schema-processors|to-json-schema|json-schema-generator)\.js$/;
+const withoutPrefix = '\0tidewing-without-json-schema:';
+
+/**
+ * Keeps zod's JSON Schema generation out of the renderer. Every zod schema type refers to its
+ * JSON Schema converter, so the bundler cannot drop that code by itself; here those modules are
+ * replaced by stand-ins with the same export names, each a function that throws if ever called
+ * (`schema.toJSONSchema()` in a screen would fail loudly, not quietly). Validation is untouched.
+ */
+function withoutJsonSchema(): Plugin {
+  return {
+    name: 'tidewing-without-json-schema',
+    enforce: 'pre',
+    async resolveId(source, importer) {
+      if (importer === undefined || !/[\\/]node_modules[\\/]zod[\\/]/.test(importer)) return null;
+      if (!jsonSchemaModule.test(source)) return null;
+      const resolved = await this.resolve(source, importer, { skipSelf: true });
+      return resolved === null ? null : `${withoutPrefix}${resolved.id}`;
+    },
+    async load(id) {
+      if (!id.startsWith(withoutPrefix)) return null;
+      const real = id.slice(withoutPrefix.length);
+      const names = Object.keys((await import(pathToFileURL(real).href)) as Record<string, unknown>);
+      return [
+        "const unavailable = () => { throw new Error('JSON Schema generation is not part of the renderer'); };",
+        // Called when a schema is made or read (`toJSONSchema`, `~standard`): hand back the thrower.
+        'function standIn() { return unavailable; }',
+        ...names.map((name) =>
+          name === 'default' ? 'export default standIn;' : `export { standIn as ${name} };`,
+        ),
+      ].join('\n');
+    },
+  };
+}
 
 /**
  * The renderer: built to build/renderer and served by the desktop protocol or the loopback host,
@@ -20,7 +56,7 @@ export default defineConfig(({ mode }): UserConfig => {
   return {
     root: 'app/ui',
     base: './',
-    plugins: [react()],
+    plugins: [withoutJsonSchema(), react()],
     resolve: print
       ? {
           alias: [

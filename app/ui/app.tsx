@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { lazy, Suspense, useEffect, useState } from 'react';
 import type { SafetyStatus } from '../contract/safety.js';
 import type { StoredSettings } from '../contract/settings.js';
 import { setClinicDateFormat } from './common/display.js';
@@ -7,14 +7,30 @@ import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
 import { EvidenceArea } from './evidence/evidence-area.js';
 import { PatientsArea } from './patients/patients-area.js';
-import { PlansArea } from './plans/plans-area.js';
-import { RecordsArea } from './records/records-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
 import { SettingsScreen } from './settings/settings-screen.js';
 import { routeFromHash, type Route } from './shell/areas.js';
 import { Shell } from './shell/shell.js';
-import { SpeciesArea } from './species/species-area.js';
-import { WorksheetsArea } from './worksheets/worksheets-area.js';
+
+// The first screen (patients) loads with the app; each other area loads when first opened (no
+// loading of the others while idle: measured, it slowed the screen the address opened on).
+const loadSpecies = () => import('./species/species-area.js');
+const loadPlans = () => import('./plans/plans-area.js');
+const loadRecords = () => import('./records/records-area.js');
+const loadWorksheets = () => import('./worksheets/worksheets-area.js');
+const SpeciesArea = lazy(() => loadSpecies().then((module) => ({ default: module.SpeciesArea })));
+const PlansArea = lazy(() => loadPlans().then((module) => ({ default: module.PlansArea })));
+const RecordsArea = lazy(() => loadRecords().then((module) => ({ default: module.RecordsArea })));
+const WorksheetsArea = lazy(() => loadWorksheets().then((module) => ({ default: module.WorksheetsArea })));
+
+const areaLoaders: Partial<Record<Route['area'], () => Promise<unknown>>> = {
+  species: loadSpecies,
+  plans: loadPlans,
+  records: loadRecords,
+  worksheets: loadWorksheets,
+};
+// The area the address opens on starts loading with the app, not after the database answers.
+void areaLoaders[routeFromHash(window.location.hash).area]?.();
 
 function useRoute(): Route {
   const [route, setRoute] = useState<Route>(() => routeFromHash(window.location.hash));
@@ -38,6 +54,20 @@ function Failure({ message }: { readonly message: string }) {
 }
 
 function AreaContent({ route }: { readonly route: Route }) {
+  return (
+    <Suspense
+      fallback={
+        <p className="area-loading" aria-busy="true">
+          Loading…
+        </p>
+      }
+    >
+      <Area route={route} />
+    </Suspense>
+  );
+}
+
+function Area({ route }: { readonly route: Route }) {
   switch (route.area) {
     case 'patients':
       return <PatientsArea route={route} />;

@@ -5,6 +5,13 @@ import { bridgePathPrefix, tokenHeader, tokenMetaName } from '../../app/contract
 import type { Dispatcher } from '../back-end/handlers.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
 import { readRendererFile, withPageTheme } from '../back-end/static-files.js';
+import {
+  cacheControlFor,
+  chooseEncoding,
+  compressible,
+  EncodedAssets,
+  smallestCompressedBytes,
+} from './asset-encoding.js';
 
 export type LoopbackHost = {
   /**
@@ -148,6 +155,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
   const usedStartCodes = new Set<string>();
   // Keyed by the cookie value; each use of a start code opens one session.
   const sessions = new Map<string, Session>();
+  const encodedAssets = new EncodedAssets();
 
   const server = http.createServer((request, response) => {
     void handle(request, response).catch((error: unknown) => {
@@ -218,6 +226,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     }
     let body =
       file.extension === '.html' ? withPageTheme(file, options.pageTheme?.() ?? 'system') : file.body;
+    let carriesToken = false;
     if (
       file.extension === '.html' &&
       request.method === 'GET' &&
@@ -227,8 +236,40 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       // Only the first page after the start address gets the token; it keeps it for its tab.
       session.tokenHandedOver = true;
       body = withToken(body, token);
+      carriesToken = true;
     }
-    send(response, 200, request.method === 'HEAD' ? Buffer.alloc(0) : body, contentTypeFor(file.extension));
+    // The page with the token goes uncompressed: no secret in a compressed stream.
+    await sendFile(request, response, url.pathname, body, contentTypeFor(file.extension), !carriesToken);
+  }
+
+  /**
+   * A renderer file: hashed assets cacheable for a year, the rest never kept; compressed when the
+   * browser accepts it (Content-Length is that of the bytes sent; a HEAD gets the same headers).
+   */
+  async function sendFile(
+    request: http.IncomingMessage,
+    response: http.ServerResponse,
+    urlPath: string,
+    body: Buffer,
+    contentType: string,
+    mayCompress: boolean,
+  ): Promise<void> {
+    const headers: Record<string, string> = { 'cache-control': cacheControlFor(urlPath) };
+    let sent = body;
+    if (compressible(contentType)) {
+      headers['vary'] = 'Accept-Encoding';
+      const encoding =
+        mayCompress && body.length >= smallestCompressedBytes
+          ? chooseEncoding(request.headers['accept-encoding'])
+          : null;
+      if (encoding !== null) {
+        sent = await encodedAssets.get(urlPath, body, encoding);
+        headers['content-encoding'] = encoding;
+      }
+    }
+    headers['content-length'] = String(sent.length);
+    response.writeHead(200, { ...securityHeaders, 'content-type': contentType, ...headers });
+    response.end(request.method === 'HEAD' ? undefined : sent);
   }
 
   function useStartCode(response: http.ServerResponse, url: URL, offered: string): void {

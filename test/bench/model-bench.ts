@@ -17,16 +17,28 @@
  *   batch-by-batch ratios
  * - analytic500MedianMs: 500 analytic runs; uncertaintyToAnalyticRatio likewise
  * - computePlanMedianMs: the whole plan assembler with its default 200 uncertainty samples
+ * - band500OneWorkerMedianMs, band500PoolMedianMs: the 500-sample band with its brain curve band,
+ *   as the planning screen gets it: slices run in worker threads (one, then the pool's size on
+ *   this machine, bandPoolWorkers) and merged; median of 5, from sending to the merged bands
  * Each timed figure also has a ...CpuMs twin (process CPU time): on a shared machine the CPU time
  * is the steadier of the two. CPU timer resolution is coarse for the sub-millisecond runs.
  */
 import { spawnSync } from 'node:child_process';
+import os from 'node:os';
 import { fileURLToPath } from 'node:url';
+import { Worker } from 'node:worker_threads';
 import { estimateRespiratory } from '../../app/core/model/allometry.js';
-import { buildSimulationSetup, computePlan, resolveMac } from '../../app/core/model/compute-plan.js';
+import {
+  buildSimulationSetup,
+  computePlan,
+  planUncertaintyInput,
+  resolveMac,
+} from '../../app/core/model/compute-plan.js';
 import type { PlanInput } from '../../app/core/model/plan-types.js';
 import { simulate, type ScheduleStep } from '../../app/core/model/simulation.js';
-import { runUncertainty } from '../../app/core/model/uncertainty.js';
+import { mergeUncertainty, runUncertainty, type UncertaintySlice } from '../../app/core/model/uncertainty.js';
+import { maxPoolSize, splitSamples } from '../../app/ui/plans/band-pool.js';
+import type { BandJob } from './band-worker.js';
 import { agents } from '../../app/core/agents.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { twoHourBudgerigarPhasedPlan, twoHourBudgerigarPlan } from '../core/model/plan-fixtures.js';
@@ -92,6 +104,51 @@ function analyticWashin(
     if (fraction > peak) peak = fraction;
   }
   return peak;
+}
+
+/** Median time of the 500-sample band over one worker thread and over the pool, in ms. */
+async function bandInWorkers(): Promise<{ oneWorkerMs: number; poolMs: number; workers: number }> {
+  const input: PlanInput = { ...benchPlan, uncertainty: { samples: 500, seed: 1 } };
+  const uncertaintyInput = planUncertaintyInput(input, { species: speciesReference });
+  const size = Math.max(1, Math.min(maxPoolSize, os.availableParallelism()));
+  const script = new URL('./band-worker.js', import.meta.url);
+  const workers = Array.from({ length: size }, () => new Worker(script));
+  const slice = (worker: Worker, job: BandJob) =>
+    new Promise<UncertaintySlice>((resolve, reject) => {
+      const settle = (answer: UncertaintySlice) => {
+        worker.off('error', fail);
+        resolve(answer);
+      };
+      const fail = (error: Error) => {
+        worker.off('message', settle);
+        reject(error);
+      };
+      worker.once('message', settle);
+      worker.once('error', fail);
+      worker.postMessage(job);
+    });
+  const timeBand = async (parts: number): Promise<number> => {
+    const times: number[] = [];
+    for (let run = 0; run < 6; run += 1) {
+      const started = performance.now();
+      const slices = await Promise.all(
+        splitSamples(500, parts).map(([from, to], part) =>
+          slice(workers[part] as Worker, { input, from, to }),
+        ),
+      );
+      mergeUncertainty(uncertaintyInput, slices);
+      // The first run warms the workers up.
+      if (run > 0) times.push(performance.now() - started);
+    }
+    return median(times);
+  };
+  try {
+    const oneWorkerMs = await timeBand(1);
+    const poolMs = await timeBand(size);
+    return { oneWorkerMs, poolMs, workers: size };
+  } finally {
+    await Promise.all(workers.map((worker) => worker.terminate()));
+  }
 }
 
 /** Runs the model benchmark and returns its figures. */
@@ -169,6 +226,7 @@ export async function benchModel(): Promise<Record<string, number>> {
   const computePlanMedianMs = timeRuns(10, () => {
     computePlan(benchPlan, { species: speciesReference });
   });
+  const pool = await bandInWorkers();
   const processMedians = planInFreshProcesses(7);
   return {
     plan2hMedianMs: plan2hMedianMs.wallMs,
@@ -192,6 +250,9 @@ export async function benchModel(): Promise<Record<string, number>> {
     uncertaintyToAnalyticRatio: uncertainty500MedianMs.wallMs / analytic500MedianMs.wallMs,
     computePlanMedianMs: computePlanMedianMs.wallMs,
     computePlanCpuMs: computePlanMedianMs.cpuMs,
+    band500OneWorkerMedianMs: pool.oneWorkerMs,
+    band500PoolMedianMs: pool.poolMs,
+    bandPoolWorkers: pool.workers,
     analyticChecksum: Number.isFinite(sink) ? 1 : 0,
   };
 }

@@ -68,7 +68,12 @@ import type {
 import { simulate, type DeliverySetup, type SimulationOutcome, type SimulationSetup } from './simulation.js';
 
 export { stepReleases } from './phase-budgets.js';
-import { runUncertainty, type MilestoneBand } from './uncertainty.js';
+import {
+  runUncertainty,
+  type MilestoneBand,
+  type UncertaintyInput,
+  type UncertaintyRun,
+} from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
 export const modelVersion = '3.0.0';
@@ -373,18 +378,67 @@ function timelineOf(outcome: SimulationOutcome, intervalMin: number): PlanTimeli
   };
 }
 
-/**
- * Computes a whole plan. Pure and deterministic: the same input and tables give the same result.
- * @param input a plan validated by planInputSchema (app/contract/plan.ts)
- * @param tables the species reference
- */
-export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
+export type PlanOptions = {
+  /**
+   * The plan's uncertainty run when already made (by a pool of workers running
+   * `runUncertaintySlice` on `planUncertaintyInput(input, tables)`, merged by `mergeUncertainty`);
+   * computed here otherwise.
+   */
+  readonly sampled?: UncertaintyRun;
+};
+
+/** The point estimate's set-up and run, shared by the plan and its uncertainty input. */
+function nominalRun(input: PlanInput, tables: PlanTables) {
   const species =
     input.speciesId === undefined ? undefined : tables.species.find((row) => row.id === input.speciesId);
   const estimates = estimateRespiratory(input.bodyMassG, input.overrides ?? {});
   const mac = resolveMac(input, species);
   const setup = buildSimulationSetup(input, estimates, mac, species);
-  const outcome = simulate(setup);
+  return { species, estimates, mac, setup, outcome: simulate(setup) };
+}
+
+function uncertaintyInputOf(
+  input: PlanInput,
+  setup: SimulationSetup,
+  outcome: SimulationOutcome,
+  mac: ResolvedMac,
+  species: SpeciesReference | undefined,
+): UncertaintyInput {
+  return {
+    setup,
+    outcome,
+    macSdPct: mac.sdPct,
+    samples: input.uncertainty?.samples ?? defaultUncertainty.samples,
+    seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
+    bloodGasRange: agents[input.agent].bloodGasRange,
+    brainTimeline: outcome.timeline,
+    maskEntered: { deadSpace: input.maskDeadSpaceMl !== undefined },
+    physiology: {
+      agent: input.agent,
+      anaestheticIndexPublished: species?.apnoeaMacMultiple !== undefined,
+      bodyTemperatureC: input.bodyTemperatureC ?? null,
+    },
+  };
+}
+
+/**
+ * The input of a plan's uncertainty run, as `computePlan` makes it: for running its samples in
+ * slices elsewhere (`runUncertaintySlice`) and merging them (`mergeUncertainty`).
+ * @param input a plan validated by planInputSchema (app/contract/plan.ts)
+ * @param tables the species reference
+ */
+export function planUncertaintyInput(input: PlanInput, tables: PlanTables): UncertaintyInput {
+  const { species, mac, setup, outcome } = nominalRun(input, tables);
+  return uncertaintyInputOf(input, setup, outcome, mac, species);
+}
+
+/**
+ * Computes a whole plan. Pure and deterministic: the same input and tables give the same result.
+ * @param input a plan validated by planInputSchema (app/contract/plan.ts)
+ * @param tables the species reference
+ */
+export function computePlan(input: PlanInput, tables: PlanTables, options: PlanOptions = {}): PlanResult {
+  const { species, estimates, mac, setup, outcome } = nominalRun(input, tables);
   const offMin = setup.offMin;
   const phases = resolvePlanPhases(input, setup.endMin);
   const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
@@ -420,21 +474,10 @@ export function computePlan(input: PlanInput, tables: PlanTables): PlanResult {
     airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
   });
 
-  const sampled = runUncertainty({
-    setup,
-    outcome,
-    macSdPct: mac.sdPct,
-    samples: input.uncertainty?.samples ?? defaultUncertainty.samples,
-    seed: input.uncertainty?.seed ?? defaultUncertainty.seed,
-    bloodGasRange: agents[input.agent].bloodGasRange,
-    brainTimeline: outcome.timeline,
-    maskEntered: { deadSpace: input.maskDeadSpaceMl !== undefined },
-    physiology: {
-      agent: input.agent,
-      anaestheticIndexPublished: species?.apnoeaMacMultiple !== undefined,
-      bodyTemperatureC: input.bodyTemperatureC ?? null,
-    },
-  });
+  const uncertaintyInput = uncertaintyInputOf(input, setup, outcome, mac, species);
+  const sampled = options.sampled ?? runUncertainty(uncertaintyInput);
+  if (sampled.samples !== uncertaintyInput.samples || sampled.seed !== uncertaintyInput.seed)
+    throw new Error('the uncertainty run given was made for another sample count or seed');
   const [rightingBand, standingBand] = sampled.milestoneBands;
   const bandOf = (id: MilestoneId, band: MilestoneBand | undefined): MilestoneUncertainty => ({
     id,

@@ -311,42 +311,134 @@ export function milestoneBand(values: number[], windowMin: number): MilestoneBan
 }
 
 /**
- * p5 / p50 / p95 of induction and recovery times (and of any further milestone levels of the
- * setup) over sampled parameters, each sample a full run of the same simulation as the point
- * estimate, and the 5th-95th percentile band of the brain curve when a timeline is given.
- * @param input nominal setup and outcome, sample count (0-5000) and seed
+ * Seed of one sample's own generator, from the run's seed and the sample's index (a 32-bit
+ * integer hash), so that each sample's draws depend only on these two and any range of samples
+ * can be run apart from the others (a pool of workers) with the same result as one run.
+ * @param seed the run's seed, any integer
+ * @param index the sample's index, 0 or more
  */
-export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, 'milestones'> & {
-  /** Bands of setup.milestoneBrainPct, in the same order. */
-  readonly milestoneBands: readonly MilestoneBand[];
-} {
-  const { setup } = input;
-  const random = seededRandom(input.seed);
-  const macRelativeSd = input.macSdPct !== null ? input.macSdPct / setup.macPct : macRelativeSpread.value;
-  const maskDefaults = {
-    deadSpace: setup.delivery.interface === 'mask' && input.maskEntered?.deadSpace !== true,
-  };
-  // A later mask phase with its default dead space also samples the dead-space multiple.
-  const laterMaskDefault = (setup.laterDeliveries ?? []).some(
-    (later) => later.delivery.interface === 'mask' && later.delivery.maskDeadSpaceEntered !== true,
-  );
-  const inductions: number[] = [];
-  const recoveries: number[] = [];
-  const levelCount = setup.milestoneBrainPct?.length ?? 0;
-  const levelTimes: number[][] = Array.from({ length: levelCount }, () => []);
+export function sampleSeed(seed: number, index: number): number {
+  let hash = (seed >>> 0) ^ Math.imul(index + 1, 0x9e3779b9);
+  hash = Math.imul(hash ^ (hash >>> 16), 0x85ebca6b);
+  hash = Math.imul(hash ^ (hash >>> 13), 0xc2b2ae35);
+  return (hash ^ (hash >>> 16)) >>> 0;
+}
+
+/**
+ * The raw results of samples [from, to) of an uncertainty run: what `mergeUncertainty` turns
+ * into bands. Plain typed arrays, so a worker can hand them over without copying.
+ */
+export type UncertaintySlice = {
+  readonly from: number;
+  readonly to: number;
+  /** Induction time of each sample, min; Infinity when not reached. */
+  readonly inductionMin: Float64Array;
+  /** Recovery time of each sample, min (Infinity when not reached); empty without a vaporiser-off time. */
+  readonly recoveryMin: Float64Array;
+  /** Per milestone level of the setup, the crossing time of each sample, min (Infinity when not reached). */
+  readonly milestoneMin: readonly Float64Array[];
+  /** Brain curves at the nominal timeline's times, sample-major; empty without a timeline. */
+  readonly brainPct: Float64Array;
+};
+
+/** Time points of the brain band the run returns (0 without a timeline or samples). */
+function bandPoints(input: UncertaintyInput): number {
   const timeline = input.brainTimeline;
-  const points = timeline === undefined || input.samples === 0 ? 0 : timeline.timeMin.length;
-  const curves = new Float64Array(points * input.samples);
-  for (let index = 0; index < input.samples; index += 1) {
+  return timeline === undefined || input.samples === 0 ? 0 : timeline.timeMin.length;
+}
+
+/**
+ * Runs samples [from, to) of the uncertainty run; each sample draws from its own generator
+ * (`sampleSeed(input.seed, index)`), so slices run anywhere merge to the whole run exactly.
+ * @param input nominal setup and outcome, sample count (0-5000) and seed
+ * @param from first sample index, 0 to input.samples
+ * @param to one past the last sample index, from to input.samples
+ */
+export function runUncertaintySlice(input: UncertaintyInput, from: number, to: number): UncertaintySlice {
+  if (!(Number.isInteger(from) && Number.isInteger(to) && from >= 0 && from <= to && to <= input.samples))
+    throw new Error(`sample range ${String(from)}-${String(to)} is outside 0-${String(input.samples)}`);
+  const { setup } = input;
+  const macRelativeSd = input.macSdPct !== null ? input.macSdPct / setup.macPct : macRelativeSpread.value;
+  const maskDefaults = maskDefaultsOf(input);
+  const count = to - from;
+  const levelCount = setup.milestoneBrainPct?.length ?? 0;
+  const points = bandPoints(input);
+  const slice = {
+    from,
+    to,
+    inductionMin: new Float64Array(count),
+    recoveryMin: new Float64Array(setup.offMin === null ? 0 : count),
+    milestoneMin: Array.from({ length: levelCount }, () => new Float64Array(count)),
+    brainPct: new Float64Array(points * count),
+  };
+  for (let offset = 0; offset < count; offset += 1) {
+    const random = seededRandom(sampleSeed(input.seed, from + offset));
     const draw = drawSetup(input, random, macRelativeSd, maskDefaults);
     const result = simulate(draw.setup);
-    inductions.push(result.inductionMin ?? Number.POSITIVE_INFINITY);
-    if (setup.offMin !== null) recoveries.push(result.recoveryMin ?? Number.POSITIVE_INFINITY);
+    slice.inductionMin[offset] = result.inductionMin ?? Number.POSITIVE_INFINITY;
+    if (setup.offMin !== null) slice.recoveryMin[offset] = result.recoveryMin ?? Number.POSITIVE_INFINITY;
     for (let level = 0; level < levelCount; level += 1)
-      (levelTimes[level] as number[]).push(result.milestoneMin[level] ?? Number.POSITIVE_INFINITY);
+      (slice.milestoneMin[level] as Float64Array)[offset] =
+        result.milestoneMin[level] ?? Number.POSITIVE_INFINITY;
     const brain = result.timeline.brainPct;
-    for (let point = 0; point < points; point += 1) curves[index * points + point] = brain[point] ?? 0;
+    for (let point = 0; point < points; point += 1)
+      slice.brainPct[offset * points + point] = brain[point] ?? 0;
   }
+  return slice;
+}
+
+/** A later mask phase with its default dead space also samples the dead-space multiple. */
+function laterMaskDefaultOf(input: UncertaintyInput): boolean {
+  return (input.setup.laterDeliveries ?? []).some(
+    (later) => later.delivery.interface === 'mask' && later.delivery.maskDeadSpaceEntered !== true,
+  );
+}
+
+function maskDefaultsOf(input: UncertaintyInput): { deadSpace: boolean } {
+  return {
+    deadSpace: input.setup.delivery.interface === 'mask' && input.maskEntered?.deadSpace !== true,
+  };
+}
+
+export type UncertaintyRun = Omit<PlanUncertainty, 'milestones'> & {
+  /** Bands of setup.milestoneBrainPct, in the same order. */
+  readonly milestoneBands: readonly MilestoneBand[];
+};
+
+/**
+ * Bands from slices that together cover samples 0 to input.samples once each (in any order):
+ * equal to `runUncertainty(input)`.
+ * @param input the same input the slices were run with
+ * @param slices from `runUncertaintySlice`
+ */
+export function mergeUncertainty(
+  input: UncertaintyInput,
+  slices: readonly UncertaintySlice[],
+): UncertaintyRun {
+  const { setup } = input;
+  const ordered = [...slices].sort((a, b) => a.from - b.from);
+  let covered = 0;
+  for (const slice of ordered) {
+    if (slice.from !== covered)
+      throw new Error(`samples ${String(covered)}-${String(slice.from)} missing or run twice`);
+    covered = slice.to;
+  }
+  if (covered !== input.samples)
+    throw new Error(`slices cover ${String(covered)} of ${String(input.samples)} samples`);
+  const levelCount = setup.milestoneBrainPct?.length ?? 0;
+  const points = bandPoints(input);
+  const joined = (pick: (slice: UncertaintySlice) => Float64Array, width = 1): Float64Array => {
+    const all = new Float64Array(input.samples * width);
+    for (const slice of ordered) all.set(pick(slice), slice.from * width);
+    return all;
+  };
+  const inductions = Array.from(joined((slice) => slice.inductionMin));
+  const recoveries = setup.offMin === null ? [] : Array.from(joined((slice) => slice.recoveryMin));
+  const levelTimes = Array.from({ length: levelCount }, (_, level) =>
+    Array.from(joined((slice) => slice.milestoneMin[level] as Float64Array)),
+  );
+  const curves = joined((slice) => slice.brainPct, points);
+  const macRelativeSd = input.macSdPct !== null ? input.macSdPct / setup.macPct : macRelativeSpread.value;
   const recoveryWindow = setup.offMin === null ? 0 : setup.endMin - setup.offMin;
   const induction = milestoneBand(inductions, setup.endMin);
   const recovery = milestoneBand(recoveries, recoveryWindow);
@@ -369,12 +461,23 @@ export function runUncertainty(input: UncertaintyInput): Omit<PlanUncertainty, '
     inductionNote: induction.note,
     recoveryNote: recovery.note,
     parameters: sampledParameters(input, macRelativeSd, {
-      deadSpace: maskDefaults.deadSpace || laterMaskDefault,
+      deadSpace: maskDefaultsOf(input).deadSpace || laterMaskDefaultOf(input),
     }),
     method:
-      'Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD), drawn the same way each time for the same plan. Samples that do not reach a milestone within the simulated window count as beyond it',
+      "Each sample is a full run of the same breath-resolved model as the point estimate, with the parameters drawn from triangular distributions (mode at the nominal value, ends at the stated range; MAC: normal, truncated at 2.5 SD), drawn the same way each time for the same plan (each sample from the plan's seed and its own number). Samples that do not reach a milestone within the simulated window count as beyond it",
     milestoneBands,
   };
+}
+
+/**
+ * p5 / p50 / p95 of induction and recovery times (and of any further milestone levels of the
+ * setup) over sampled parameters, each sample a full run of the same simulation as the point
+ * estimate, and the 5th-95th percentile band of the brain curve when a timeline is given. One
+ * thread; a pool of workers runs `runUncertaintySlice` over parts and `mergeUncertainty` instead.
+ * @param input nominal setup and outcome, sample count (0-5000) and seed
+ */
+export function runUncertainty(input: UncertaintyInput): UncertaintyRun {
+  return mergeUncertainty(input, [runUncertaintySlice(input, 0, input.samples)]);
 }
 
 function sampledParameters(

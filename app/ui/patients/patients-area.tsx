@@ -1,7 +1,13 @@
+import { lazy } from 'react';
 import type { Route } from '../shell/areas.js';
-import { PatientDetailScreen } from './patient-detail.js';
 import { PatientFormScreen } from './patient-form.js';
 import { PatientListScreen } from './patient-list.js';
+
+// The patient's page, with its weight chart (the charting library), loads when first opened, so
+// the list, the first screen, does not wait for it (app.tsx shows the loading line meanwhile).
+const PatientDetailScreen = lazy(() =>
+  import('./patient-detail.js').then((module) => ({ default: module.PatientDetailScreen })),
+);
 
 /** Patients: `#/patients`, `#/patients/new`, `#/patients/<id>`, `#/patients/<id>/edit`. */
 export function PatientsArea({ route }: { readonly route: Route }) {

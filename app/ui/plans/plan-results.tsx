@@ -6,11 +6,14 @@ import { EstimateList } from './estimate-list.js';
 import { figure, minutes, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
 import { PhaseList } from './phase-list.js';
+import type { BandProgress } from './band-pool.js';
 
 type Props = {
   readonly result: PlanResult;
   readonly setFreshGasLpm: number | null;
   readonly pending: boolean;
+  /** Parts of the band's samples done while it computes (the pool's progress), else null. */
+  readonly band?: BandProgress | null;
   readonly compareWith?: { readonly label: string; readonly result: PlanResult } | undefined;
 };
 
@@ -115,7 +118,7 @@ export function CautionsPanel({ cautions }: { readonly cautions: PlanResult['cau
 }
 
 /** Everything the model says about one plan, each figure with its unit and basis. */
-export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Props) {
+export function PlanResults({ result, setFreshGasLpm, pending, band = null, compareWith }: Props) {
   const milestones = result.milestones;
   const uncertainty = result.uncertainty;
   const flows = result.flows;
@@ -126,7 +129,14 @@ export function PlanResults({ result, setFreshGasLpm, pending, compareWith }: Pr
 
       <section className="panel" aria-labelledby="milestones-heading">
         <h2 id="milestones-heading">
-          Predicted times {pending && <span className="computing">updating…</span>}
+          Predicted times{' '}
+          {pending && (
+            <span className="computing">
+              {band === null
+                ? 'updating…'
+                : `band: computing…${band.total > 1 ? ` ${String(band.done)} of ${String(band.total)} parts` : ''}`}
+            </span>
+          )}
         </h2>
         <dl className="milestones">
           {clinicalMilestoneLines(result).map((line) => (

@@ -1,28 +1,26 @@
-// Runs the model off the main thread so that typing in the planning form stays smooth.
-import { computePlan } from '../../core/model/compute-plan.js';
-import type { PlanInput } from '../../core/model/plan-types.js';
-import type { SpeciesReference } from '../../core/species-reference.js';
-
-export type PlanRequest = {
-  readonly id: number;
-  readonly input: PlanInput;
-  readonly species: readonly SpeciesReference[];
-};
+// One worker of the band pool (band-pool.ts): runs a range of a plan's uncertainty samples off the
+// main thread, so that typing in the planning form stays smooth.
+import { planUncertaintyInput } from '../../core/model/compute-plan.js';
+import { runUncertaintySlice } from '../../core/model/uncertainty.js';
+import type { SliceAnswer, SliceRequest } from './band-pool.js';
 
 type WorkerScope = {
-  onmessage: ((event: MessageEvent<PlanRequest>) => void) | null;
-  postMessage(message: unknown): void;
+  onmessage: ((event: MessageEvent<SliceRequest>) => void) | null;
+  postMessage(message: SliceAnswer, transfer: Transferable[]): void;
 };
 
 const scope = self as unknown as WorkerScope;
 
 scope.onmessage = (event) => {
-  const { id, input, species } = event.data;
-  const startedAt = performance.now();
+  const { id, input, species, from, to } = event.data;
   try {
-    const result = computePlan(input, { species });
-    scope.postMessage({ id, result, computeMs: performance.now() - startedAt });
+    const slice = runUncertaintySlice(planUncertaintyInput(input, { species }), from, to);
+    // The arrays move to the page without a copy.
+    const buffers = [slice.inductionMin, slice.recoveryMin, slice.brainPct, ...slice.milestoneMin].map(
+      (array) => array.buffer,
+    );
+    scope.postMessage({ id, slice }, buffers);
   } catch (error) {
-    scope.postMessage({ id, error: error instanceof Error ? error.message : String(error) });
+    scope.postMessage({ id, error: error instanceof Error ? error.message : String(error) }, []);
   }
 };

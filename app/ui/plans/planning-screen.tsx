@@ -349,6 +349,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
                 cautions: cautionsForPatient(shownComputation.result.cautions, patientSex),
               }}
               pending={shownComputation.pending || Object.keys(shownComputation.problems).length > 0}
+              band={shownComputation.band}
               setFreshGasLpm={shownComputation.input?.freshGasLpm ?? null}
               compareWith={
                 comparing && computationA.result !== null && computationB.result !== null
