@@ -30,6 +30,7 @@ export function useScreenAnnouncement(screenKey: string): void {
     if (main === null) return undefined;
     let focusPending = !first.current;
     first.current = false;
+    let focusedHeading: Element | null = null;
     const update = () => {
       const heading = main.querySelector('h1');
       if (heading === null) return;
@@ -42,7 +43,15 @@ export function useScreenAnnouncement(screenKey: string): void {
         const active = document.activeElement;
         const ownField =
           active !== null && main.contains(active) && active.matches('input, select, textarea');
-        if (!ownField) focusMainHeading();
+        if (!ownField && focusMainHeading()) focusedHeading = heading;
+      } else if (
+        focusedHeading !== null &&
+        !focusedHeading.isConnected &&
+        (document.activeElement === null || document.activeElement === document.body)
+      ) {
+        // The heading focused on arrival was replaced (a screen drawn while loading, then with its
+        // data): focus follows to the new heading instead of dropping to the page.
+        focusedHeading = focusMainHeading() ? heading : null;
       }
     };
     update();
