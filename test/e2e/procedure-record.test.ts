@@ -229,12 +229,13 @@ describe('procedure record screens in headless Chromium', () => {
       await shoot(page, '04-apnoea-danger');
       await page.keyboard.press('F2');
       await expect.poll(() => entryRows.count()).toBe(7);
-      await expect(
-        page
-          .locator('.record-entries')
-          .getByText(/Apnoea: lasted 1\d s \(stopwatch\)/)
-          .isVisible(),
-      ).resolves.toBe(true);
+      // The logged length is at least the 10 s the danger state waited for; how much longer depends
+      // on how busy the machine is, so only the lower bound is checked.
+      const apnoeaText = await page
+        .locator('.record-entries')
+        .getByText(/Apnoea: lasted \d+ s \(stopwatch\)/)
+        .innerText();
+      expect(Number(/lasted (\d+) s/.exec(apnoeaText)?.[1])).toBeGreaterThanOrEqual(10);
       await shoot(page, '05-rows-and-events');
 
       // A sixth row at the current time clears the reminder; voiding it brings the reminder back.
