@@ -7,7 +7,7 @@ export type ClinicContents = {
   readonly tableCount: number;
   /**
    * Rows the clinic entered: settings, acknowledgements, patients and their versions, weights,
-   * plans, procedure records and entries, emergency drugs, and species the clinic added or
+   * plans and the choice among a comparison's plans, procedure records and entries, emergency drugs, and species the clinic added or
    * edited. The species reference Tidewing seeds itself is not counted. 0 or more.
    */
   readonly recordCount: number;
@@ -25,6 +25,7 @@ const recordTables: readonly { table: string; time: string; where?: string }[] =
   { table: 'patient_versions', time: 'entered_at' },
   { table: 'weights', time: 'entered_at' },
   { table: 'plans', time: 'entered_at' },
+  { table: 'plan_choices', time: 'entered_at' },
   { table: 'procedure_records', time: 'created_at' },
   { table: 'procedure_record_versions', time: 'entered_at' },
   { table: 'procedure_entries', time: 'entered_at' },

@@ -63,6 +63,8 @@ export const savedPlanSchema = z.object({
   result: planResultSchema,
   checklist: checklist(false),
   modelVersion: z.string(),
+  /** For the variant of a saved comparison: the id of the plan it was compared with; else null. */
+  variantOf: z.number().int().nullable().default(null),
   stamp: recordStampSchema,
 });
 export type SavedPlan = z.infer<typeof savedPlanSchema>;
@@ -104,6 +106,10 @@ export const planSummarySchema = z.object({
   /** The plan's phases in time order, the first from 0 min (one for a single-route plan). */
   phases: z.array(planSummaryPhaseSchema).default([]),
   openChecklistItems: z.number().int(),
+  /** For the variant of a saved comparison: the id of the plan it was compared with; else null. */
+  variantOf: z.number().int().nullable().default(null),
+  /** In a saved comparison, whether this is the plan the clinic will use; null outside one. */
+  chosen: z.boolean().nullable().default(null),
   asaGrade: z.number().int().nullable(),
   emergency: z.boolean(),
 });
@@ -115,6 +121,16 @@ export const planDetailSchema = z.object({
   species: speciesSchema.nullable(),
   weightTrendText: z.string().nullable(),
   history: z.array(z.object({ id: z.number().int(), stamp: recordStampSchema, modelVersion: z.string() })),
+  /** The saved comparison this plan belongs to (newest versions, compared plan first), or null. */
+  comparison: z
+    .object({
+      chosenId: z.number().int(),
+      plans: z.array(
+        z.object({ id: z.number().int(), label: z.string(), variantOf: z.number().int().nullable() }),
+      ),
+    })
+    .nullable()
+    .default(null),
 });
 export type PlanDetail = z.infer<typeof planDetailSchema>;
 
@@ -129,6 +145,16 @@ const meta = z.object({
 /** Planning channels, merged into the one channel table. */
 export const planChannels = {
   'plans:save': { request: z.object({ fields: planFieldsSchema, meta }), response: savedPlanSchema },
+  /** A comparison: both plans saved, the variant marked as an alternative of the first, the first chosen. */
+  'plans:save-comparison': {
+    request: z.object({ fields: planFieldsSchema, variantFields: planFieldsSchema, meta }),
+    response: z.object({ plan: savedPlanSchema, variant: savedPlanSchema }),
+  },
+  /** Makes this plan the chosen one of its saved comparison. */
+  'plans:choose': {
+    request: z.object({ id: z.number().int().positive(), meta }),
+    response: z.object({ chosenId: z.number().int() }),
+  },
   'plans:correct': {
     request: z.object({ id: z.number().int().positive(), fields: planFieldsSchema, meta }),
     response: savedPlanSchema,

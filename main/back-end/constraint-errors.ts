@@ -41,6 +41,7 @@ const foreignKeyField: Readonly<Record<string, string>> = {
   'entries:add': 'recordId',
   'plans:save': 'fields.patientId',
   'plans:correct': 'fields.patientId',
+  'plans:save-comparison': 'fields.patientId',
 };
 
 function camelCase(snake: string): string {

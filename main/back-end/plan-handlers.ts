@@ -44,6 +44,7 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
   }
 
   function summary(plan: SavedPlan) {
+    const comparison = plans.comparisonOf(plan.id);
     const patient = plan.patientId === null ? null : patients.get(plan.patientId);
     return {
       id: plan.id,
@@ -72,6 +73,8 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
         dialSteps: phase.dialSteps.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct })),
       })),
       openChecklistItems: openItems(plan),
+      variantOf: plan.variantOf,
+      chosen: comparison === null ? null : comparison.chosenId === plan.id,
       asaGrade: plan.checklist.asaGrade,
       emergency: plan.checklist.emergency,
     };
@@ -80,6 +83,32 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
   return {
     'plans:save': (request) =>
       plans.save(toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
+    'plans:save-comparison': (request) => {
+      const reasonGiven = request.meta.reason !== '';
+      const first = toStore(request.fields, reasonGiven);
+      const second = toStore(request.variantFields, reasonGiven);
+      if (first.patientId !== second.patientId || first.plannedFor !== second.plannedFor)
+        throw new RecordError(
+          'invalid-request',
+          'Both plans of a comparison are for the same patient on the same day.',
+          'variantFields.plannedFor',
+        );
+      return plans.saveComparison(first, second, request.meta, now());
+    },
+    'plans:choose': (request) => {
+      const outcome = plans.choose(request.id, request.meta, now());
+      if (outcome === 'not-found')
+        throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
+      if (outcome === 'stale')
+        throw new RecordError(
+          'conflict',
+          'This plan was changed since you opened it; open its newest version.',
+          'id',
+        );
+      if (outcome === 'no-comparison')
+        throw new RecordError('invalid-request', 'This plan was not saved as part of a comparison.', 'id');
+      return { chosenId: request.id };
+    },
     'plans:correct': (request) => {
       const saved = plans.correct(
         request.id,
@@ -131,8 +160,19 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
         parts.push(...trend.flags.map((flag) => flag.message));
         weightTrendText = parts.length === 0 ? null : parts.join('; ');
       }
+      const comparison = plans.comparisonOf(plan.id);
       return {
         plan,
+        comparison:
+          comparison === null
+            ? null
+            : {
+                chosenId: comparison.chosenId,
+                plans: comparison.planIds.map((id) => {
+                  const member = plans.get(id) as SavedPlan;
+                  return { id, label: member.label, variantOf: member.variantOf };
+                }),
+              },
         patient,
         species: speciesRecord,
         weightTrendText,

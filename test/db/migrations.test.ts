@@ -207,3 +207,37 @@ describe('migration 7 (workstations)', () => {
     expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
   });
 });
+
+describe('migration 8 (plan variants)', () => {
+  it('marks a variant plan by the plan it was compared with and keeps every choice unchanged', () => {
+    const db = new Database(freshFile());
+    cleanups.push(() => db.close());
+    migrate(db, migrations.slice(0, 7));
+    const at = '2026-12-01T09:30:00.000Z';
+    const plan = db.prepare(
+      `INSERT INTO plans (patient_id, corrects_id, planned_for, label, input_json, result_json, checklist_json, model_version, entered_at, entered_by, reason)
+       VALUES (NULL, NULL, '2026-12-02', 'Before', '{}', '{}', '{}', 'm1', ?, 'RW', '')`,
+    );
+    const before = Number(plan.run(at).lastInsertRowid);
+    expect(migrate(db, migrations.slice(0, 8))).toBe(8);
+    // A plan saved before the migration is in no comparison.
+    expect(db.prepare('SELECT variant_of FROM plans WHERE id = ?').get(before)).toEqual({ variant_of: null });
+    const variant = Number(
+      db
+        .prepare(
+          `INSERT INTO plans (patient_id, corrects_id, variant_of, planned_for, label, input_json, result_json, checklist_json, model_version, entered_at, entered_by, reason)
+           VALUES (NULL, NULL, ?, '2026-12-02', 'Variant', '{}', '{}', '{}', 'm1', ?, 'RW', '')`,
+        )
+        .run(before, at).lastInsertRowid,
+    );
+    const choose = db.prepare(
+      'INSERT INTO plan_choices (comparison_id, chosen_id, entered_at, entered_by, reason) VALUES (?, ?, ?, ?, ?)',
+    );
+    choose.run(before, variant, at, 'RW', '');
+    expect(() => choose.run(before, variant, at, '  ', '')).toThrow(/CHECK constraint failed/);
+    expect(() => db.prepare('UPDATE plan_choices SET chosen_id = ?').run(before)).toThrow(/never changed/);
+    expect(() => db.prepare('DELETE FROM plan_choices').run()).toThrow(/never deleted/);
+    expect(() => db.prepare('UPDATE plans SET variant_of = NULL').run()).toThrow(/never changed/);
+    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+  });
+});

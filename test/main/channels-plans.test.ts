@@ -288,6 +288,9 @@ describe('plan channels', () => {
         { atMin: 30, vaporPct: 0 },
       ],
       recoveryMin: pipPlan.result.milestones.recoveryMin,
+      // A plan saved alone is in no comparison.
+      variantOf: null,
+      chosen: null,
       // A single-route plan is one phase from 0 min, with the flow the model recommends for it.
       phases: [
         {
@@ -377,5 +380,101 @@ describe('plan channels', () => {
       field: 'date',
       message: 'Day "2026-12-2" is not a date on the calendar; enter it as YYYY-MM-DD, e.g. 2024-03-15.',
     });
+  });
+  it('plans:save-comparison keeps both variants, the second marked as an alternative, one chosen', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const fields = {
+      patientId: pip.id,
+      plannedFor: '2026-12-02',
+      label: 'Wing radiograph',
+      input: pipInput,
+      checklist: mostlyDone,
+    };
+    const variantFields = {
+      ...fields,
+      label: 'Wing radiograph, lower flow',
+      input: { ...pipInput, freshGasLpm: pipInput.freshGasLpm / 2 },
+    };
+    const { plan, variant } = await api.answer('plans:save-comparison', {
+      fields,
+      variantFields,
+      meta: enteredByRw,
+    });
+    expect(plan).toMatchObject({ label: 'Wing radiograph', variantOf: null });
+    expect(variant).toMatchObject({ label: 'Wing radiograph, lower flow', variantOf: plan.id });
+    expect(variant.input.freshGasLpm).toBe(pipInput.freshGasLpm / 2);
+
+    const chosenOf = async () =>
+      (await api.answer('plans:day', { date: '2026-12-02' })).plans.map((line) => ({
+        id: line.id,
+        variantOf: line.variantOf,
+        chosen: line.chosen,
+      }));
+    // The compared plan is the chosen one until the clinic chooses otherwise.
+    expect(await chosenOf()).toEqual([
+      { id: plan.id, variantOf: null, chosen: true },
+      { id: variant.id, variantOf: plan.id, chosen: false },
+    ]);
+    const detail = await api.answer('plans:get', { id: variant.id });
+    expect(detail.comparison).toEqual({
+      chosenId: plan.id,
+      plans: [
+        { id: plan.id, label: 'Wing radiograph', variantOf: null },
+        { id: variant.id, label: 'Wing radiograph, lower flow', variantOf: plan.id },
+      ],
+    });
+
+    api.clock.set('2026-12-01T12:00:00.000Z');
+    expect(await api.answer('plans:choose', { id: variant.id, meta: enteredByRw })).toEqual({
+      chosenId: variant.id,
+    });
+    expect(await chosenOf()).toEqual([
+      { id: plan.id, variantOf: null, chosen: false },
+      { id: variant.id, variantOf: plan.id, chosen: true },
+    ]);
+
+    // A correction of the chosen variant stays the chosen plan and stays an alternative.
+    const corrected = await api.answer('plans:correct', {
+      id: variant.id,
+      fields: { ...variantFields, label: 'Lower flow, checked' },
+      meta: correctionBy('MK', 'Label made clearer'),
+    });
+    expect(corrected.variantOf).toBe(plan.id);
+    expect(await chosenOf()).toEqual([
+      { id: plan.id, variantOf: null, chosen: false },
+      { id: corrected.id, variantOf: plan.id, chosen: true },
+    ]);
+    expect(await api.refusal('plans:choose', { id: variant.id, meta: enteredByRw })).toMatchObject({
+      code: 'conflict',
+    });
+    await api.answer('plans:choose', { id: plan.id, meta: enteredByRw });
+    expect((await chosenOf()).filter((line) => line.chosen === true)).toEqual([
+      { id: plan.id, variantOf: null, chosen: true },
+    ]);
+  });
+
+  it('plans:choose refuses a plan outside a comparison; a comparison is one patient on one day', async () => {
+    const api = harness();
+    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen };
+    const single = await api.answer('plans:save', { fields, meta: enteredByRw });
+    expect(single.variantOf).toBeNull();
+    expect(await api.refusal('plans:choose', { id: single.id, meta: enteredByRw })).toMatchObject({
+      code: 'invalid-request',
+      message: 'This plan was not saved as part of a comparison.',
+    });
+    expect(await api.refusal('plans:choose', { id: 999, meta: enteredByRw })).toMatchObject({
+      code: 'not-found',
+    });
+    const [line] = (await api.answer('plans:day', { date: '2026-12-02' })).plans;
+    expect(line).toMatchObject({ variantOf: null, chosen: null });
+    expect((await api.answer('plans:get', { id: single.id })).comparison).toBeNull();
+    expect(
+      await api.refusal('plans:save-comparison', {
+        fields,
+        variantFields: { ...fields, plannedFor: '2026-12-03' },
+        meta: enteredByRw,
+      }),
+    ).toMatchObject({ code: 'invalid-request', field: 'variantFields.plannedFor' });
   });
 });
