@@ -73,7 +73,8 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
         dialSteps: phase.dialSteps.map((step) => ({ atMin: step.atMin, vaporPct: step.vaporPct })),
       })),
       openChecklistItems: openItems(plan),
-      variantOf: plan.variantOf,
+      // The compared plan's newest version, which screens open.
+      variantOf: plan.variantOf === null ? null : (comparison?.planIds[0] ?? plan.variantOf),
       chosen: comparison === null ? null : comparison.chosenId === plan.id,
       asaGrade: plan.checklist.asaGrade,
       emergency: plan.checklist.emergency,
@@ -170,7 +171,8 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
                 chosenId: comparison.chosenId,
                 plans: comparison.planIds.map((id) => {
                   const member = plans.get(id) as SavedPlan;
-                  return { id, label: member.label, variantOf: member.variantOf };
+                  const variantOf = member.variantOf === null ? null : (comparison.planIds[0] ?? null);
+                  return { id, label: member.label, variantOf };
                 }),
               },
         patient,
@@ -187,12 +189,16 @@ export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanH
       const list = plans.listForDay(request.date);
       const liquidMlByAgent: Record<string, number> = {};
       let oxygenL = 0;
+      const lines = list.map(summary);
+      // A compared plan the clinic did not choose is not given: the day's totals leave it out.
+      const notChosen = new Set(lines.filter((line) => line.chosen === false).map((line) => line.id));
       for (const plan of list) {
+        if (notChosen.has(plan.id)) continue;
         liquidMlByAgent[plan.input.agent] =
           (liquidMlByAgent[plan.input.agent] ?? 0) + plan.result.consumption.liquidMl;
         oxygenL += plan.result.oxygen.usedL;
       }
-      return { date: request.date, plans: list.map(summary), totals: { liquidMlByAgent, oxygenL } };
+      return { date: request.date, plans: lines, totals: { liquidMlByAgent, oxygenL } };
     },
   };
 }

@@ -255,4 +255,87 @@ describe('planning from a patient in headless Chromium', () => {
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
     await page.close();
   });
+  it('saves a comparison as two plans, lets the clinic choose one, and the day list marks it', async () => {
+    const { browser, host } = session;
+    const page = await browser.newPage({ viewport: { width: 1366, height: 800 } });
+    const problems: string[] = [];
+    page.on('pageerror', (error) => problems.push(error.message));
+    await completeFirstRun(page, host.url);
+    const meta = { enteredBy: 'RW', reason: '' };
+    const created = await bridge(page, 'patients:create', {
+      values: {
+        name: 'Wren',
+        speciesKey: 'budgerigar',
+        sex: 'female',
+        hatchDate: null,
+        ageText: 'adult',
+        ringId: '',
+        microchipId: '',
+        ownerReference: 'Owner 7730',
+        notes: '',
+      },
+      meta,
+    });
+    const patientId = (created.value as { id: number }).id;
+    await bridge(page, 'weights:add', {
+      patientId,
+      values: { weighedOn: daysFromToday(-1), massG: 35, bodyCondition: 'ideal', weighedBy: 'RW' },
+      meta,
+    });
+    const day = daysFromToday(2);
+    await page.goto(`${host.origin}/#/patients/${patientId}`);
+    await page.getByRole('link', { name: 'New plan' }).click();
+    await page.getByRole('heading', { name: /New anaesthetic plan/ }).waitFor();
+    await page.getByTestId('induction-time').waitFor();
+    await page.getByLabel('Planned for').fill(day);
+    await page.getByLabel('Label').fill('beak trim');
+    await page.getByRole('button', { name: 'Compare with a variant' }).click();
+    await page.getByLabel(/^Fresh gas flow/).fill('0.6');
+    await page.getByRole('table', { name: 'Comparison of plan A and plan B' }).waitFor();
+    await page.getByRole('button', { name: 'Save both plans' }).click();
+    const savedText = await page
+      .getByText(/^Saved plan A as plan \d+ \(the chosen plan\) and plan B as plan \d+/)
+      .innerText();
+    const [, aText, bText] = /plan A as plan (\d+).*plan B as plan (\d+)/.exec(savedText) ?? [];
+    const planA = Number(aText);
+    const planB = Number(bText);
+    expect(planB).toBeGreaterThan(planA);
+    const panel = page.getByRole('region', { name: 'Saved comparison' });
+    await expect(panel.innerText()).resolves.toMatch(
+      new RegExp(`This plan \\(${planA}\\) · beak trim · compared plan · chosen`),
+    );
+    await expect(panel.innerText()).resolves.toContain(`alternative of plan ${planA}`);
+
+    // Open the alternative and make it the plan to use.
+    await panel.getByRole('link', { name: `Open plan ${planB}` }).click();
+    await page.getByRole('heading', { name: `Anaesthetic plan ${planB}` }).waitFor();
+    await expect(page.getByLabel(/^Fresh gas flow/).inputValue()).resolves.toBe('0.6');
+    await page
+      .getByRole('region', { name: 'Saved comparison' })
+      .getByRole('button', { name: 'Use this plan' })
+      .click();
+    await page.getByText(`Plan ${planB} is now the chosen plan.`).waitFor();
+    const detail = await bridge(page, 'plans:get', { id: planA });
+    expect((detail.value as { comparison: { chosenId: number } }).comparison.chosenId).toBe(planB);
+
+    // The day list says in words which plan is chosen and which is the alternative.
+    await page.goto(`${host.origin}/#/plans`);
+    await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
+    await page.getByLabel('Day').fill(day);
+    const rowOf = (id: number) =>
+      page
+        .getByRole('row')
+        .filter({ has: page.getByRole('link', { name: new RegExp(`^${id} · beak trim$`) }) });
+    await rowOf(planB).waitFor();
+    await expect(rowOf(planB).locator('td').first().innerText()).resolves.toMatch(
+      new RegExp(`· chosen · alternative of plan ${planA}`),
+    );
+    await expect(rowOf(planA).locator('td').first().innerText()).resolves.toMatch(/compared, not chosen/);
+    await expect(page.getByRole('status').filter({ hasText: 'Day total:' }).innerText()).resolves.toMatch(
+      /Compared plans not chosen are left out\.$/,
+    );
+    await shoot(page, '44-day-list-chosen-plan');
+    expect(problems).toEqual([]);
+    await page.close();
+  });
 });

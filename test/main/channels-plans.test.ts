@@ -433,6 +433,10 @@ describe('plan channels', () => {
       { id: plan.id, variantOf: null, chosen: false },
       { id: variant.id, variantOf: plan.id, chosen: true },
     ]);
+    // The day's totals count the chosen plan only: the other is not given.
+    const totals = (await api.answer('plans:day', { date: '2026-12-02' })).totals;
+    expect(totals.oxygenL).toBe(variant.result.oxygen.usedL);
+    expect(totals.liquidMlByAgent).toEqual({ isoflurane: variant.result.consumption.liquidMl });
 
     // A correction of the chosen variant stays the chosen plan and stays an alternative.
     const corrected = await api.answer('plans:correct', {

@@ -76,6 +76,17 @@ export function DayList() {
                           {plan.id}
                           {plan.label === '' ? '' : ` · ${plan.label}`}
                         </a>
+                        {plan.chosen === true && <strong className="plan-choice"> · chosen</strong>}
+                        {plan.variantOf !== null && (
+                          <span className="plan-choice">
+                            {' '}
+                            · alternative of plan {plan.variantOf}
+                            {plan.chosen === false ? ', not chosen' : ''}
+                          </span>
+                        )}
+                        {plan.variantOf === null && plan.chosen === false && (
+                          <span className="plan-choice"> · compared, not chosen</span>
+                        )}
                         <span className="screen-only">
                           {' '}
                           · <a href={href('worksheets', plan.id)}>worksheet</a>
@@ -109,6 +120,8 @@ export function DayList() {
                 )
                 .join(', ')}{' '}
               and {figure(load.value.totals.oxygenL)} L oxygen, before priming, leaks and spillage.
+              {load.value.plans.some((plan) => plan.chosen === false) &&
+                ' Compared plans not chosen are left out.'}
             </p>
           </>
         ))}

@@ -4,6 +4,7 @@ import {
   checklistSchema,
   planFieldsSchema,
   type Checklist,
+  type PlanDetail,
   type PlanFields,
 } from '../../contract/plan-records.js';
 import type { Species } from '../../contract/records.js';
@@ -65,6 +66,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [patientSex, setPatientSex] = useState<'male' | 'female' | 'unknown' | null>(null);
   const [saveMessage, setSaveMessage] = useState<SaveMessage | null>(null);
   const [loaded, setLoaded] = useState(start.kind === 'quick');
+  // The saved comparison this plan belongs to: its plans and which one the clinic will use.
+  const [comparison, setComparison] = useState<PlanDetail['comparison']>(null);
 
   useEffect(() => {
     void api
@@ -101,6 +104,9 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       void api.invoke('plans:get', { id: start.planId }).then((answer) => {
         if (!answer.ok) return setLoadFailure(answer.error.message);
         const { plan, patient } = answer.value;
+        setComparison(answer.value.comparison);
+        setDraftB(null);
+        setActive('A');
         setPatientSex(patient?.values.sex ?? null);
         setDraftA(inputToDraft(plan.input, settings.massUnit));
         setChecklist(plan.checklist);
@@ -153,8 +159,70 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     }
     const fields = { patientId: context.patientId, plannedFor, label, input: computationA.input, checklist };
     const reason = context.savedPlanId === null ? dateReason.trim() : 'Plan edited';
+    if (draftB !== null && context.savedPlanId === null) {
+      if (computationB.input === null) {
+        setSaveMessage({
+          kind: 'failed',
+          text: 'Not saved: correct the plan inputs marked in plan B first.',
+        });
+        return;
+      }
+      const variantFields = { ...fields, input: computationB.input };
+      withInitials((enteredBy) => void writeComparison(fields, variantFields, { enteredBy, reason }));
+      return;
+    }
     // Without initials, a prompt opens beside the button, focused, and the save goes ahead once given.
     withInitials((enteredBy) => void write(fields, { enteredBy, reason }));
+  }
+
+  /** A new plan with a variant open: both are saved, B as the alternative of A, A chosen. */
+  async function writeComparison(
+    fields: PlanFields,
+    variantFields: PlanFields,
+    meta: { enteredBy: string; reason: string },
+  ) {
+    const answer = await api.invoke('plans:save-comparison', { fields, variantFields, meta });
+    if (!answer.ok) {
+      setSaveErrors(fieldErrorsFromContract(answer.error));
+      setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
+      return;
+    }
+    const { plan, variant } = answer.value;
+    setContext((current) => ({
+      ...current,
+      savedPlanId: plan.id,
+      savedStamp: `${displayDateTime(plan.stamp.enteredAt)} by ${plan.stamp.enteredBy}`,
+    }));
+    setComparison({
+      chosenId: plan.id,
+      plans: [
+        { id: plan.id, label: plan.label, variantOf: null },
+        { id: variant.id, label: variant.label, variantOf: plan.id },
+      ],
+    });
+    setDraftB(null);
+    setActive('A');
+    setSaveMessage({
+      kind: 'saved',
+      text: `Saved plan A as plan ${plan.id} (the chosen plan) and plan B as plan ${variant.id}, its alternative (model ${plan.modelVersion}).`,
+    });
+    window.history.replaceState(null, '', href('plans', plan.id));
+  }
+
+  function choose(planId: number) {
+    withInitials(
+      (enteredBy) =>
+        void api.invoke('plans:choose', { id: planId, meta: { enteredBy, reason: '' } }).then((answer) => {
+          if (!answer.ok) {
+            setSaveMessage({ kind: 'failed', text: `Not chosen: ${answer.error.message}` });
+            return;
+          }
+          setComparison((current) =>
+            current === null ? null : { ...current, chosenId: answer.value.chosenId },
+          );
+          setSaveMessage({ kind: 'saved', text: `Plan ${answer.value.chosenId} is now the chosen plan.` });
+        }),
+    );
   }
 
   async function write(fields: PlanFields, meta: { enteredBy: string; reason: string }) {
@@ -206,6 +274,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     );
   if (!loaded) return <p aria-busy="true">Loading…</p>;
   const comparing = draftB !== null;
+  // A variant open on a new plan is saved with it; editing a saved plan saves plan A only.
+  const savesComparison = comparing && context.savedPlanId === null;
 
   return (
     <section className="screen" aria-labelledby="planning-title">
@@ -245,7 +315,7 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           onChange={setLabel}
         />
         <button type="button" className="primary" onClick={() => void save()}>
-          {context.savedPlanId === null ? 'Save plan' : 'Save changes'}
+          {savesComparison ? 'Save both plans' : context.savedPlanId === null ? 'Save plan' : 'Save changes'}
         </button>
         {context.savedPlanId !== null && (
           <a className="button-link secondary" href={href('worksheets', context.savedPlanId)}>
@@ -255,7 +325,42 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         {gate}
         <SaveStatus message={saveMessage} />
         {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
+        {comparing && context.savedPlanId !== null && (
+          <p className="hint">Plan B stays on this screen only: saving changes saves plan A.</p>
+        )}
       </div>
+      {comparison !== null && context.savedPlanId !== null && (
+        <section className="panel saved-comparison" aria-labelledby="saved-comparison-heading">
+          <h2 id="saved-comparison-heading">Saved comparison</h2>
+          <ul>
+            {comparison.plans.map((member) => (
+              <li key={member.id}>
+                {member.id === context.savedPlanId ? (
+                  <strong>This plan ({member.id})</strong>
+                ) : (
+                  <a href={href('plans', member.id)}>Open plan {member.id}</a>
+                )}
+                {member.label === '' ? '' : ` · ${member.label}`}
+                {member.variantOf === null
+                  ? ' · compared plan'
+                  : ` · alternative of plan ${member.variantOf}`}
+                {member.id === comparison.chosenId ? (
+                  <strong> · chosen</strong>
+                ) : (
+                  member.id === context.savedPlanId && (
+                    <>
+                      {' · '}
+                      <button type="button" onClick={() => choose(member.id)}>
+                        Use this plan
+                      </button>
+                    </>
+                  )
+                )}
+              </li>
+            ))}
+          </ul>
+        </section>
+      )}
       <div className="variant-tabs" role="group" aria-label="Plan variants">
         <button type="button" aria-pressed={active === 'A'} onClick={() => setActive('A')}>
           Plan A
