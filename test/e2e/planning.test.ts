@@ -260,7 +260,8 @@ describe('planning from a patient in headless Chromium', () => {
     const page = await browser.newPage({ viewport: { width: 1366, height: 800 } });
     const problems: string[] = [];
     page.on('pageerror', (error) => problems.push(error.message));
-    await completeFirstRun(page, host.url);
+    // The first test used the host's opening address; a new page asks for the next one.
+    await completeFirstRun(page, await host.nextUrl());
     const meta = { enteredBy: 'RW', reason: '' };
     const created = await bridge(page, 'patients:create', {
       values: {
@@ -315,6 +316,10 @@ describe('planning from a patient in headless Chromium', () => {
       .getByRole('button', { name: 'Use this plan' })
       .click();
     await page.getByText(`Plan ${planB} is now the chosen plan.`).waitFor();
+    await expect(page.getByRole('region', { name: 'Saved comparison' }).innerText()).resolves.toMatch(
+      new RegExp(`This plan \\(${planB}\\) · beak trim · alternative of plan ${planA} · chosen`),
+    );
+    await shoot(page, '45-saved-comparison');
     const detail = await bridge(page, 'plans:get', { id: planA });
     expect((detail.value as { comparison: { chosenId: number } }).comparison.chosenId).toBe(planB);
 
