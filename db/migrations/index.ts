@@ -5,6 +5,7 @@ import { bodyMassTo200KgMigration } from './0004-body-mass-to-200-kg.js';
 import { dateFormatMigration } from './0005-date-format.js';
 import { clinicEvidenceMigration } from './0006-clinic-evidence.js';
 import { workstationsMigration } from './0007-workstations.js';
+import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -17,6 +18,8 @@ export const migrations: readonly Migration[] = [
   dateFormatMigration,
   clinicEvidenceMigration,
   workstationsMigration,
+  // Becomes version 9 when the plan variants migration (8) is merged before it.
+  evidencePredictionCacheMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -2,6 +2,7 @@ import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contrac
 import {
   recordLogOf,
   type EvidenceFilter,
+  evidenceRowSchema,
   type EvidenceRow,
   type evidenceChannels,
 } from '../../app/contract/evidence-channels.js';
@@ -23,6 +24,7 @@ import {
 import { speciesGroupOf, speciesGroups } from '../../app/core/evidence/species-groups.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
 import type { TidewingDatabase } from '../../db/connection.js';
+import { createEvidenceCacheRepository } from '../../db/repositories/evidence-cache-repository.js';
 import { createEvidenceRepository } from '../../db/repositories/evidence-repository.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
@@ -35,6 +37,10 @@ import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
 type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
+
+/** A stored row as computed (the exclusion is applied when answering), or null when it no longer reads. */
+const storedRowSchema = evidenceRowSchema.omit({ exclusion: true });
 
 /** The method in one paragraph, for the screens (docs/evidence.md has the equations). */
 export const calibrationMethod =
@@ -55,8 +61,26 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
   const species = createSpeciesRepository(db);
   const plans = createPlanRepository(db);
   const settings = createSettingsRepository(db);
-  // Rows computed before, by record id, with the fingerprint they were computed for.
-  const cache = new Map<number, { key: string; row: Omit<EvidenceRow, 'exclusion'> }>();
+  const stored = createEvidenceCacheRepository(db);
+  // Rows computed before, by record id, with the fingerprint they were computed for: read from
+  // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
+  let cache: Map<number, { key: string; row: ComputedRow }> | null = null;
+
+  function loadCache(): Map<number, { key: string; row: ComputedRow }> {
+    const loaded = new Map<number, { key: string; row: ComputedRow }>();
+    for (const [recordId, entry] of stored.all()) {
+      let json: unknown;
+      try {
+        json = JSON.parse(entry.rowJson);
+      } catch {
+        continue;
+      }
+      // A row stored by an older build that no longer reads is computed again.
+      const parsed = storedRowSchema.safeParse(json);
+      if (parsed.success) loaded.set(recordId, { key: entry.key, row: parsed.data });
+    }
+    return loaded;
+  }
 
   function allRows(): { rows: EvidenceRow[]; inProgress: number } {
     const speciesList = species.list();
@@ -70,6 +94,8 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
       defaultAgent,
       speciesList.map((entry) => entry.stamp.versionId).join(','),
     ]);
+    cache ??= loadCache();
+    const computed: { recordId: number; key: string; rowJson: string }[] = [];
     let inProgress = 0;
     const rows: EvidenceRow[] = [];
     const exclusionOf = (recordId: number) => {
@@ -124,7 +150,7 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
         plan: planInput,
         defaultAgent,
       });
-      let row: Omit<EvidenceRow, 'exclusion'>;
+      let row: ComputedRow;
       if (!logged.ok) {
         row = {
           ...base,
@@ -163,8 +189,11 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
         };
       }
       cache.set(record.id, { key, row });
+      computed.push({ recordId: record.id, key, rowJson: JSON.stringify(row) });
       rows.push({ ...row, exclusion });
     }
+    // Kept for the next start; a write the file refuses is skipped (the rows are computed again).
+    stored.store(computed, now());
     // Newest start first, as the records list shows them.
     rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
     return { rows, inProgress };
