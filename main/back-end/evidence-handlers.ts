@@ -1,3 +1,5 @@
+import { createHash } from 'node:crypto';
+import { z } from 'zod';
 import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import {
   recordLogOf,
@@ -39,8 +41,17 @@ type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
 type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
 type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
 
-/** A stored row as computed (the exclusion is applied when answering), or null when it no longer reads. */
-const storedRowSchema = evidenceRowSchema.omit({ exclusion: true });
+/**
+ * The shape of a stored row (the exclusion is applied when answering), as a short hash of its
+ * JSON Schema: part of every row's cache key, so rows stored by a build whose rows had another
+ * shape are stale and computed again, without checking 5,000 stored rows one by one at each start.
+ */
+const rowFormat = createHash('sha256')
+  .update(
+    JSON.stringify(z.toJSONSchema(evidenceRowSchema.omit({ exclusion: true }), { unrepresentable: 'any' })),
+  )
+  .digest('hex')
+  .slice(0, 16);
 
 /** The method in one paragraph, for the screens (docs/evidence.md has the equations). */
 export const calibrationMethod =
@@ -69,15 +80,14 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
   function loadCache(): Map<number, { key: string; row: ComputedRow }> {
     const loaded = new Map<number, { key: string; row: ComputedRow }>();
     for (const [recordId, entry] of stored.all()) {
-      let json: unknown;
+      // Only rows of this build's format are read (the format is in the key); one that does not
+      // parse is computed again.
+      if (!entry.key.startsWith(`${rowFormat}|`)) continue;
       try {
-        json = JSON.parse(entry.rowJson);
+        loaded.set(recordId, { key: entry.key, row: JSON.parse(entry.rowJson) as ComputedRow });
       } catch {
         continue;
       }
-      // A row stored by an older build that no longer reads is computed again.
-      const parsed = storedRowSchema.safeParse(json);
-      if (parsed.success) loaded.set(recordId, { key: entry.key, row: parsed.data });
     }
     return loaded;
   }
@@ -90,6 +100,7 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
     const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
+      rowFormat,
       modelVersion,
       defaultAgent,
       speciesList.map((entry) => entry.stamp.versionId).join(','),
