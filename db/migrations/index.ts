@@ -6,6 +6,7 @@ import { dateFormatMigration } from './0005-date-format.js';
 import { clinicEvidenceMigration } from './0006-clinic-evidence.js';
 import { workstationsMigration } from './0007-workstations.js';
 import { planVariantsMigration } from './0008-plan-variants.js';
+import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
 
 export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
 
@@ -19,6 +20,7 @@ export const migrations: readonly Migration[] = [
   clinicEvidenceMigration,
   workstationsMigration,
   planVariantsMigration,
+  evidencePredictionCacheMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

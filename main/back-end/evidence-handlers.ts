@@ -1,7 +1,10 @@
+import { createHash } from 'node:crypto';
+import { z } from 'zod';
 import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import {
   recordLogOf,
   type EvidenceFilter,
+  evidenceRowSchema,
   type EvidenceRow,
   type evidenceChannels,
 } from '../../app/contract/evidence-channels.js';
@@ -23,6 +26,7 @@ import {
 import { speciesGroupOf, speciesGroups } from '../../app/core/evidence/species-groups.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
 import type { TidewingDatabase } from '../../db/connection.js';
+import { createEvidenceCacheRepository } from '../../db/repositories/evidence-cache-repository.js';
 import { createEvidenceRepository } from '../../db/repositories/evidence-repository.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
@@ -35,6 +39,19 @@ import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
 type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
+
+/**
+ * The shape of a stored row (the exclusion is applied when answering), as a short hash of its
+ * JSON Schema: part of every row's cache key, so rows stored by a build whose rows had another
+ * shape are stale and computed again, without checking 5,000 stored rows one by one at each start.
+ */
+const rowFormat = createHash('sha256')
+  .update(
+    JSON.stringify(z.toJSONSchema(evidenceRowSchema.omit({ exclusion: true }), { unrepresentable: 'any' })),
+  )
+  .digest('hex')
+  .slice(0, 16);
 
 /** The method in one paragraph, for the screens (docs/evidence.md has the equations). */
 export const calibrationMethod =
@@ -55,8 +72,25 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
   const species = createSpeciesRepository(db);
   const plans = createPlanRepository(db);
   const settings = createSettingsRepository(db);
-  // Rows computed before, by record id, with the fingerprint they were computed for.
-  const cache = new Map<number, { key: string; row: Omit<EvidenceRow, 'exclusion'> }>();
+  const stored = createEvidenceCacheRepository(db);
+  // Rows computed before, by record id, with the fingerprint they were computed for: read from
+  // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
+  let cache: Map<number, { key: string; row: ComputedRow }> | null = null;
+
+  function loadCache(): Map<number, { key: string; row: ComputedRow }> {
+    const loaded = new Map<number, { key: string; row: ComputedRow }>();
+    for (const [recordId, entry] of stored.all()) {
+      // Only rows of this build's format are read (the format is in the key); one that does not
+      // parse is computed again.
+      if (!entry.key.startsWith(`${rowFormat}|`)) continue;
+      try {
+        loaded.set(recordId, { key: entry.key, row: JSON.parse(entry.rowJson) as ComputedRow });
+      } catch {
+        continue;
+      }
+    }
+    return loaded;
+  }
 
   function allRows(): { rows: EvidenceRow[]; inProgress: number } {
     const speciesList = species.list();
@@ -66,10 +100,13 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
     const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
+      rowFormat,
       modelVersion,
       defaultAgent,
       speciesList.map((entry) => entry.stamp.versionId).join(','),
     ]);
+    cache ??= loadCache();
+    const computed: { recordId: number; key: string; rowJson: string }[] = [];
     let inProgress = 0;
     const rows: EvidenceRow[] = [];
     const exclusionOf = (recordId: number) => {
@@ -124,7 +161,7 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
         plan: planInput,
         defaultAgent,
       });
-      let row: Omit<EvidenceRow, 'exclusion'>;
+      let row: ComputedRow;
       if (!logged.ok) {
         row = {
           ...base,
@@ -163,8 +200,11 @@ export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): E
         };
       }
       cache.set(record.id, { key, row });
+      computed.push({ recordId: record.id, key, rowJson: JSON.stringify(row) });
       rows.push({ ...row, exclusion });
     }
+    // Kept for the next start; a write the file refuses is skipped (the rows are computed again).
+    stored.store(computed, now());
     // Newest start first, as the records list shows them.
     rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
     return { rows, inProgress };

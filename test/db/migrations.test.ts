@@ -241,3 +241,40 @@ describe('migration 8 (plan variants)', () => {
     expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
   });
 });
+
+describe('migration 9 (evidence prediction cache)', () => {
+  it('keeps one derived row per record, replaced when stale, with no triggers and no tie to the clinical tables', () => {
+    const db = new Database(freshFile());
+    cleanups.push(() => db.close());
+    db.pragma('foreign_keys = ON');
+    const version = migrations.findIndex((migration) => migration.name === 'evidence prediction cache') + 1;
+    migrate(db, migrations.slice(0, version - 1));
+    expect(migrate(db, migrations.slice(0, version))).toBe(version);
+    const upsert = db.prepare(
+      `INSERT INTO evidence_prediction_cache (record_id, cache_key, row_json, computed_at) VALUES (?, ?, ?, ?)
+       ON CONFLICT (record_id) DO UPDATE SET cache_key = excluded.cache_key, row_json = excluded.row_json,
+         computed_at = excluded.computed_at`,
+    );
+    const at = '2026-12-01T09:30:00.000Z';
+    // Derived data: a row for a record id the clinic does not hold is allowed (no foreign key).
+    upsert.run(1, 'model-1|4|3:9|2|1', '{"recordId":1}', at);
+    upsert.run(1, 'model-1|5|3:9|2|1', '{"recordId":1,"staffInitials":"RW"}', '2026-12-02T08:00:00.000Z');
+    expect(db.prepare('SELECT cache_key, row_json FROM evidence_prediction_cache').all()).toEqual([
+      { cache_key: 'model-1|5|3:9|2|1', row_json: '{"recordId":1,"staffInitials":"RW"}' },
+    ]);
+    expect(() => upsert.run(2, '', '{}', at)).toThrow(/CHECK constraint failed/);
+    expect(() => upsert.run(2, 'k', 'not json', at)).toThrow(/CHECK constraint failed/);
+    expect(() => upsert.run(2, 'k', '{}', '2026-12-01')).toThrow(/CHECK constraint failed/);
+    // Unlike the clinical tables, emptying it is allowed: the rows are computed again.
+    expect(db.prepare('DELETE FROM evidence_prediction_cache').run().changes).toBe(1);
+    expect(
+      db
+        .prepare(
+          "SELECT count(*) FROM sqlite_schema WHERE type = 'trigger' AND tbl_name = 'evidence_prediction_cache'",
+        )
+        .pluck()
+        .get(),
+    ).toBe(0);
+    expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
+  });
+});

@@ -1,10 +1,16 @@
 import { afterEach, describe, expect, it } from 'vitest';
+import type { ChannelName, RequestOf, ResponseOf } from '../../app/contract/channels.js';
+import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
 import { writeDemoClinic } from '../../main/back-end/demo-clinic.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
-import { enteredByRw, pipRadiographValues, pipValues } from '../support/clinic-birds.js';
+import { correctionBy, enteredByRw, pipRadiographValues, pipValues } from '../support/clinic-birds.js';
 
 const open: ChannelHarness[] = [];
-afterEach(() => open.splice(0).forEach((harness) => harness.close()));
+const restarted: BackEnd[] = [];
+afterEach(() => {
+  restarted.splice(0).forEach((backEnd) => backEnd.close());
+  open.splice(0).forEach((harness) => harness.close());
+});
 function harness(): ChannelHarness {
   const opened = openChannelHarness();
   open.push(opened);
@@ -166,5 +172,65 @@ describe('evidence channels', () => {
       code: 'invalid-request',
       field: 'on',
     });
+  });
+
+  it('evidence:list keeps its rows in the stored cache: after a restart none is run through the model again, a corrected record is', async () => {
+    const api = demoHarness();
+    const first = await api.answer('evidence:list', {});
+    const storedAt = () =>
+      new Map(
+        (restarted[0]?.db ?? api.backEnd.db)
+          .prepare<[], { record_id: number; computed_at: string }>(
+            'SELECT record_id, computed_at FROM evidence_prediction_cache',
+          )
+          .all()
+          .map((row) => [row.record_id, row.computed_at]),
+      );
+    // Every completed record computed once, at the harness's clock.
+    expect([...storedAt().values()]).toEqual(Array.from({ length: 60 }, () => '2026-12-01T09:30:00.000Z'));
+    api.backEnd.close();
+
+    // A restart, later: a second back end on the same folder answers the same rows from the store.
+    const later = new Date('2026-12-02T08:00:00.000Z');
+    const second = startBackEnd({
+      dataDirectory: api.dataDirectory,
+      appVersion: '9.8.7',
+      host: 'browser',
+      now: () => later,
+    });
+    restarted.push(second);
+    const ask = async <C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<ResponseOf<C>> => {
+      const result = await second.dispatch(channel, request);
+      if (!result.ok) expect.fail(`${channel} was refused: ${JSON.stringify(result.error)}`);
+      return result.value as ResponseOf<C>;
+    };
+    const answer = (request: RequestOf<'evidence:list'>) => ask('evidence:list', request);
+    expect(await answer({})).toEqual(first);
+    expect(new Set(storedAt().values())).toEqual(new Set(['2026-12-01T09:30:00.000Z']));
+
+    // A corrected record (new staff initials) is recomputed and its stored row replaced; no other is.
+    const recordId = first.rows[0]?.recordId as number;
+    const detail = await ask('procedures:get', { id: recordId });
+    await ask('procedures:correct', {
+      id: recordId,
+      values: { ...detail.record.values, staffInitials: 'ZQ' },
+      meta: correctionBy('RW', 'Initials entered wrongly'),
+    });
+    const afterCorrection = await answer({});
+    expect(afterCorrection.rows.find((row) => row.recordId === recordId)?.staffInitials).toBe('ZQ');
+    const stamps = storedAt();
+    expect(stamps.get(recordId)).toBe('2026-12-02T08:00:00.000Z');
+    expect(
+      [...stamps].filter(([id]) => id !== recordId).every(([, at]) => at === '2026-12-01T09:30:00.000Z'),
+    ).toBe(true);
+    expect(afterCorrection.rows.filter((row) => row.recordId !== recordId)).toEqual(
+      first.rows.filter((row) => row.recordId !== recordId),
+    );
+    // The clinical record itself keeps both versions; the cache never alters it.
+    const history = await ask('procedures:history', { id: recordId });
+    expect(history.map((version) => version.values.staffInitials)).toEqual([
+      'ZQ',
+      first.rows[0]?.staffInitials,
+    ]);
   });
 });
