@@ -326,7 +326,7 @@ describe('planning from a patient in headless Chromium', () => {
     // The day list says in words which plan is chosen and which is the alternative.
     await page.goto(`${host.origin}/#/plans`);
     await page.getByRole('heading', { name: 'Anaesthetic plans' }).waitFor();
-    await page.getByLabel('Day').fill(day);
+    await page.getByLabel('Day', { exact: true }).fill(day);
     const rowOf = (id: number) =>
       page
         .getByRole('row')
