@@ -32,6 +32,8 @@ export type PlanDraft = {
   ippvFromText: string;
   targetMacText: string;
   recoveryFractionText: string;
+  /** Expected or measured body temperature, C; blank: a normal bird. */
+  bodyTemperatureText: string;
   scavenging: boolean;
   cylinder: 'us-e' | 'metric-2l-200bar' | 'metric-10l-200bar' | 'waterCapacity';
   cylinderWaterText: string;
@@ -127,6 +129,7 @@ export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
     ippvFromText: '',
     targetMacText: '1.2',
     recoveryFractionText: '',
+    bodyTemperatureText: '',
     scavenging: true,
     cylinder: 'us-e',
     cylinderWaterText: '10',
@@ -157,6 +160,7 @@ const fieldOfPath: Readonly<Record<string, keyof PlanDraft>> = {
   'ventilation.mode': 'ventilation',
   targetMacMultiple: 'targetMacText',
   recoveryMacFraction: 'recoveryFractionText',
+  bodyTemperatureC: 'bodyTemperatureText',
   'room.volumeM3': 'roomVolumeText',
   'room.airChangesPerHour': 'roomChangesText',
   'cylinder.waterCapacityL': 'cylinderWaterText',
@@ -238,6 +242,9 @@ export function draftToInput(
     ...(read('recoveryFractionText', 'Recovery threshold') === undefined
       ? {}
       : { recoveryMacFraction: read('recoveryFractionText', 'Recovery threshold') }),
+    ...(read('bodyTemperatureText', 'Body temperature') === undefined
+      ? {}
+      : { bodyTemperatureC: read('bodyTemperatureText', 'Body temperature') }),
     scavenging: draft.scavenging,
     room: {
       volumeM3: read('roomVolumeText', 'Room volume'),
@@ -295,6 +302,7 @@ export function inputToDraft(input: PlanInput, massUnit: MassUnit): PlanDraft {
     ippvFromText: input.ventilation?.mode === 'ippv' ? text(input.ventilation.fromMin) : '',
     targetMacText: text(input.targetMacMultiple) || base.targetMacText,
     recoveryFractionText: text(input.recoveryMacFraction),
+    bodyTemperatureText: text(input.bodyTemperatureC),
     scavenging: input.scavenging ?? true,
     cylinder:
       cylinder === undefined

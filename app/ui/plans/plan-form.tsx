@@ -7,6 +7,7 @@ import { displayBasis } from '../common/display.js';
 import { Choice, NumberField, SelectField, TextField } from '../common/fields.js';
 import { dialCaution, dialHint, withAgent, type DraftProblems, type PlanDraft } from './plan-draft.js';
 import { PhasesEditor } from './phases-editor.js';
+import { avianNormalBodyTemperatureC } from '../../core/model/temperature.js';
 
 type Props = {
   readonly draft: PlanDraft;
@@ -289,6 +290,15 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
             error={problems['recoveryFractionText']}
             hint="Blank: 0.4 × MAC, an assumption (no avian value found)."
             onChange={set('recoveryFractionText')}
+          />
+          <NumberField
+            label="Body temperature"
+            name="bodyTemperature"
+            unit="°C"
+            value={draft.bodyTemperatureText}
+            error={problems['bodyTemperatureText']}
+            hint={`Expected or measured. Blank: ${String(avianNormalBodyTemperatureC.value)} °C, a bird kept warm (assumption). A cooler bird holds more agent and wakes later.`}
+            onChange={set('bodyTemperatureText')}
           />
         </div>
       </fieldset>
