@@ -21,6 +21,7 @@ import {
 import { eventSummary, minutesFromStart } from './monitoring.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { onEscape, useReturnFocus } from '../common/return-focus.js';
+import { displayDateTime } from '../common/display.js';
 
 export type TableEntry = ProcedureEntry & { readonly corrected: boolean };
 
@@ -340,7 +341,7 @@ function History({ entry, units }: { readonly entry: TableEntry; readonly units:
                 : eventSummary(version.values)}
             </td>
             <td>{version.stamp.enteredBy}</td>
-            <td>{new Date(version.stamp.enteredAt).toLocaleString()}</td>
+            <td>{displayDateTime(version.stamp.enteredAt)}</td>
             <td>{version.stamp.reason === '' ? '—' : version.stamp.reason}</td>
           </tr>
         ))}

@@ -2,6 +2,7 @@ import { href } from '../shell/areas.js';
 import { useChannel } from '../common/use-channel.js';
 import { asaText } from './record-form.js';
 import { ScrollRegion } from '../common/scroll-region.js';
+import { displayDateTime } from '../common/display.js';
 
 /** The most recent procedure records, newest first, each linking to its live screen. */
 export function RecentRecords() {
@@ -44,7 +45,7 @@ export function RecentRecords() {
                   </td>
                   <td>{speciesName ?? record.patientId}</td>
                   <td>{record.values.procedureName}</td>
-                  <td>{new Date(record.values.startedAt).toLocaleString()}</td>
+                  <td>{displayDateTime(record.values.startedAt)}</td>
                   <td>{asaText(record.values)}</td>
                   <td>
                     {record.values.endedAt === null

@@ -19,6 +19,7 @@ import { EmergencyDrugs } from './emergency-drugs.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { focusMainHeading, useFocusFirstError } from '../common/screen-focus.js';
 import { WorkstationSection } from './workstation-section.js';
+import { displayDateTime } from '../common/display.js';
 
 type Props = {
   readonly stored: StoredSettings;
@@ -58,7 +59,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
       if (answer.value.settings !== null) setDraft(answer.value.settings);
       setMessage({
         kind: 'saved',
-        text: `Saved ${new Date(answer.value.updatedAt ?? Date.now()).toLocaleString()}.`,
+        text: `Saved ${displayDateTime(answer.value.updatedAt ?? new Date().toISOString())}.`,
       });
       onSaved(answer.value);
       // Focus to the heading (after the first save it becomes Settings), so the change is heard.
@@ -158,7 +159,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
       {safety.last !== null && (
         <p className="provenance">
           Cautions acknowledged by {safety.last.acknowledgedBy} on{' '}
-          {new Date(safety.last.acknowledgedAt).toLocaleString()} for version {safety.last.appVersion}.
+          {displayDateTime(safety.last.acknowledgedAt)} for version {safety.last.appVersion}.
         </p>
       )}
       <WorkstationSection />
