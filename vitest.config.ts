@@ -2,6 +2,8 @@ import { defineConfig } from 'vitest/config';
 
 export default defineConfig({
   test: {
+    // One throwaway PostgreSQL cluster on 127.0.0.1 for the whole run, stopped at the end.
+    globalSetup: ['test/support/postgres-global-setup.ts'],
     projects: [
       {
         test: {

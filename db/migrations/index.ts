@@ -8,7 +8,16 @@ import { workstationsMigration } from './0007-workstations.js';
 import { planVariantsMigration } from './0008-plan-variants.js';
 import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
 
-export type Migration = { readonly version: number; readonly name: string; readonly sql: string };
+/**
+ * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
+ * two texts build the same tables, constraints and append-only rules in each dialect.
+ */
+export type Migration = {
+  readonly version: number;
+  readonly name: string;
+  readonly sql: string;
+  readonly postgresql?: string;
+};
 
 /** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
 export const migrations: readonly Migration[] = [

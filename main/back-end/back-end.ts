@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import type { Host } from '../../app/contract/channels.js';
 import { speciesReference } from '../../app/core/species-reference.js';
+import { sqliteClinicDb, type ClinicDb } from '../../db/clinic-db.js';
 import { openDatabase, type OpenOptions, type TidewingDatabase } from '../../db/connection.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { automaticBackupOnStart } from './automatic-backup.js';
@@ -12,6 +13,8 @@ import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
+  /** The clinic database behind the shared query layer. */
+  readonly clinic: ClinicDb;
   readonly dispatch: Dispatcher;
   /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
   readonly handlers: HandlerTable;
@@ -57,6 +60,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   fs.mkdirSync(options.dataDirectory, { recursive: true });
   const file = databaseFile(options.dataDirectory);
   const db = openDatabase(file, options.openOptions);
+  const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
   if (options.demoClinic === true) {
@@ -69,6 +73,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   }
   const { handlers, workstationTheme } = createBackEndParts({
     db,
+    clinic,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
     host: options.host,
@@ -88,6 +93,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
       : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
+    clinic,
     dispatch: createDispatcher(handlers, options.log),
     handlers,
     databaseFile: file,

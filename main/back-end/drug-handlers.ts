@@ -1,5 +1,6 @@
 import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { drugChannels } from '../../app/contract/drug-channels.js';
+import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import {
   createEmergencyDrugRepository,
@@ -28,7 +29,11 @@ function checked<T>(write: () => T | null, id: number): T {
 }
 
 /** Handlers for the clinic's emergency-drug list (the worksheet's emergency card). */
-export function createDrugHandlers(db: TidewingDatabase, now: () => Date): DrugHandlerTable {
+export function createDrugHandlers(
+  db: TidewingDatabase,
+  now: () => Date,
+  _clinic: ClinicDb,
+): DrugHandlerTable {
   const drugs = createEmergencyDrugRepository(db);
   return {
     'drugs:list': () => drugs.list(),

@@ -25,6 +25,7 @@ import {
 } from '../../app/core/evidence/observed.js';
 import { speciesGroupOf, speciesGroups } from '../../app/core/evidence/species-groups.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
+import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createEvidenceCacheRepository } from '../../db/repositories/evidence-cache-repository.js';
 import { createEvidenceRepository } from '../../db/repositories/evidence-repository.js';
@@ -63,7 +64,11 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 }
 
 /** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
-export function createEvidenceHandlers(db: TidewingDatabase, now: () => Date): EvidenceHandlerTable {
+export function createEvidenceHandlers(
+  db: TidewingDatabase,
+  now: () => Date,
+  _clinic: ClinicDb,
+): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(db);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);

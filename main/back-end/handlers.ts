@@ -10,6 +10,7 @@ import {
 import { describeIssues, type ContractError, type Result } from '../../app/contract/result.js';
 import { worksheetPdfUnavailableMessage } from '../../app/contract/worksheet-channels.js';
 import type { ThemeChoice } from '../../app/contract/workstation.js';
+import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { schemaVersion } from '../../db/connection.js';
 import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
@@ -26,6 +27,8 @@ import { createWorkstationHandlers } from './workstation-handlers.js';
 
 export type HandlerContext = {
   readonly db: TidewingDatabase;
+  /** The same clinic database behind the shared query layer (SQLite or PostgreSQL). */
+  readonly clinic: ClinicDb;
   readonly appVersion: string;
   readonly dataDirectory: string;
   readonly host: Host;
@@ -114,10 +117,10 @@ export function createBackEndParts(context: HandlerContext): {
     'worksheets:save-pdf': () => {
       throw new HandlerError('unavailable', worksheetPdfUnavailableMessage);
     },
-    ...createRecordHandlers(context.db, context.now),
-    ...createPlanHandlers(context.db, context.now),
-    ...createDrugHandlers(context.db, context.now),
-    ...createEvidenceHandlers(context.db, context.now),
+    ...createRecordHandlers(context.db, context.now, context.clinic),
+    ...createPlanHandlers(context.db, context.now, context.clinic),
+    ...createDrugHandlers(context.db, context.now, context.clinic),
+    ...createEvidenceHandlers(context.db, context.now, context.clinic),
     ...workstationHandlers,
   };
   return { handlers, workstationTheme };

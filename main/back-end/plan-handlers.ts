@@ -6,6 +6,7 @@ import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js';
 import { phasesOfPlan } from '../../app/core/plan-phases.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
+import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
@@ -24,7 +25,11 @@ function openItems(plan: SavedPlan): number {
 }
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
-export function createPlanHandlers(db: TidewingDatabase, now: () => Date): PlanHandlerTable {
+export function createPlanHandlers(
+  db: TidewingDatabase,
+  now: () => Date,
+  _clinic: ClinicDb,
+): PlanHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);

@@ -19,6 +19,7 @@ import {
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
+import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
@@ -64,7 +65,11 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
 }
 
 /** Handlers for species, patients, weights, procedure records and entries. */
-export function createRecordHandlers(db: TidewingDatabase, now: () => Date): RecordHandlerTable {
+export function createRecordHandlers(
+  db: TidewingDatabase,
+  now: () => Date,
+  _clinic: ClinicDb,
+): RecordHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);

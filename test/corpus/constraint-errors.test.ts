@@ -199,6 +199,7 @@ describe('database constraint failures become field errors', () => {
     async (_label, [, channel, payload, run, refusal]) => {
       const handlers = createHandlers({
         db: clinic.db,
+        clinic: clinic.backEnd.clinic,
         appVersion: '9.8.7',
         dataDirectory: '/nonexistent',
         host: 'browser',

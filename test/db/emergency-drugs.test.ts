@@ -1,3 +1,4 @@
+import { sqliteClinicDb } from '../../db/clinic-db.js';
 import Database from 'better-sqlite3';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
@@ -116,7 +117,14 @@ describe('drug channels', () => {
   function dispatcher() {
     const db = fresh();
     return createDispatcher(
-      createHandlers({ db, appVersion: '0.1.0', dataDirectory: '/tmp', host: 'browser', now: () => t0 }),
+      createHandlers({
+        db,
+        clinic: sqliteClinicDb(db),
+        appVersion: '0.1.0',
+        dataDirectory: '/tmp',
+        host: 'browser',
+        now: () => t0,
+      }),
     );
   }
 
