@@ -2,13 +2,19 @@ import Database from 'better-sqlite3';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, onTestFinished } from 'vitest';
 import { sql, type RawBuilder } from 'kysely';
 import type { ClinicDb } from '../../db/clinic-db.js';
 import { DatabaseTooNewError, migrate, openDatabase, schemaVersion } from '../../db/connection.js';
 import { latestSchemaVersion, migrations, type Migration } from '../../db/migrations/index.js';
-import { migratePostgres, postgresSchemaVersion } from '../../db/postgres-connection.js';
+import {
+  migratePostgres,
+  openPostgresClinic,
+  PostgresSchemaTooNewError,
+  postgresSchemaVersion,
+} from '../../db/postgres-connection.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
+import { needPostgres, scratchPostgresDatabase } from '../support/postgres-database.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => void)[] = [];
@@ -332,33 +338,44 @@ async function refusal(
 
 const at = '2026-12-01T09:30:00.000Z';
 
-/** One row in every clinical table (ids 1), through the same SQL on both engines. */
+/**
+ * One row in every clinical table, through the same SQL on both engines, each given id 1 by its
+ * table (an explicit id would not advance a PostgreSQL identity), and a second patient with a
+ * version but no current pointer yet.
+ */
 async function oneOfEach(db: ClinicDb): Promise<void> {
   for (const statement of [
-    sql`INSERT INTO species (id, species_key, origin, common_name, mass_min_g, mass_max_g, mass_basis, entered_at, entered_by)
-        VALUES (1, 'testbird', 'clinic', 'Test bird', 10, 20, 'test row', ${at}, 'RW')`,
-    sql`INSERT INTO patients (id, created_at) VALUES (1, ${at})`,
-    sql`INSERT INTO patient_versions (id, patient_id, name, species_key, sex, entered_at, entered_by)
-        VALUES (1, 1, 'Pip', 'testbird', 'female', ${at}, 'RW')`,
+    sql`INSERT INTO species (species_key, origin, common_name, mass_min_g, mass_max_g, mass_basis, entered_at, entered_by)
+        VALUES ('testbird', 'clinic', 'Test bird', 10, 20, 'test row', ${at}, 'RW')`,
+    sql`INSERT INTO patients (created_at) VALUES (${at})`,
+    sql`INSERT INTO patient_versions (patient_id, name, species_key, sex, entered_at, entered_by)
+        VALUES (1, 'Pip', 'testbird', 'female', ${at}, 'RW')`,
     sql`INSERT INTO patient_current (patient_id, version_id) VALUES (1, 1)`,
     sql`INSERT INTO patient_search (rowid, search_text) VALUES (1, 'Pip Test bird')`,
-    sql`INSERT INTO weights (id, patient_id, weighed_on, mass_g, entered_at, entered_by)
-        VALUES (1, 1, '2026-12-01', 350, ${at}, 'RW')`,
-    sql`INSERT INTO plans (id, patient_id, planned_for, input_json, result_json, model_version, entered_at, entered_by)
-        VALUES (1, 1, '2026-12-02', '{}', '{}', 'm1', ${at}, 'RW')`,
-    sql`INSERT INTO plan_choices (id, comparison_id, chosen_id, entered_at, entered_by) VALUES (1, 1, 1, ${at}, 'RW')`,
-    sql`INSERT INTO procedure_records (id, patient_id, created_at) VALUES (1, 1, ${at})`,
-    sql`INSERT INTO procedure_record_versions (id, record_id, plan_id, started_at, procedure_name, airway, circuit, staff_initials, entered_at, entered_by)
-        VALUES (1, 1, 1, ${at}, 'Wing radiographs', 'mask', 'nonRebreathing', 'RW', ${at}, 'RW')`,
-    sql`INSERT INTO procedure_entries (id, record_id, at, kind, heart_rate_per_min, entered_at, entered_by)
-        VALUES (1, 1, ${at}, 'vitals', 280, ${at}, 'RW')`,
-    sql`INSERT INTO emergency_drugs (id, name, concentration_mg_per_ml, dose_low_mg_per_kg, route, dose_source, entered_at, entered_by)
-        VALUES (1, 'Drug A', 1, 1, 'IV', 'Clinic protocol 2026', ${at}, 'RW')`,
-    sql`INSERT INTO evidence_exclusions (id, record_id, excluded, reason, entered_at, entered_by)
-        VALUES (1, 1, 1, 'premedicated', ${at}, 'RW')`,
-    sql`INSERT INTO evidence_calibration_switch (id, calibration_on, entered_at, entered_by) VALUES (1, 0, ${at}, 'RW')`,
+    sql`INSERT INTO weights (patient_id, weighed_on, mass_g, entered_at, entered_by)
+        VALUES (1, '2026-12-01', 350, ${at}, 'RW')`,
+    sql`INSERT INTO plans (patient_id, planned_for, input_json, result_json, model_version, entered_at, entered_by)
+        VALUES (1, '2026-12-02', '{}', '{}', 'm1', ${at}, 'RW')`,
+    sql`INSERT INTO plan_choices (comparison_id, chosen_id, entered_at, entered_by) VALUES (1, 1, ${at}, 'RW')`,
+    sql`INSERT INTO procedure_records (patient_id, created_at) VALUES (1, ${at})`,
+    sql`INSERT INTO procedure_record_versions (record_id, plan_id, started_at, procedure_name, airway, circuit, staff_initials, entered_at, entered_by)
+        VALUES (1, 1, ${at}, 'Wing radiographs', 'mask', 'nonRebreathing', 'RW', ${at}, 'RW')`,
+    sql`INSERT INTO procedure_entries (record_id, at, kind, heart_rate_per_min, entered_at, entered_by)
+        VALUES (1, ${at}, 'vitals', 280, ${at}, 'RW')`,
+    sql`INSERT INTO emergency_drugs (name, concentration_mg_per_ml, dose_low_mg_per_kg, route, dose_source, entered_at, entered_by)
+        VALUES ('Drug A', 1, 1, 'IV', 'Clinic protocol 2026', ${at}, 'RW')`,
+    sql`INSERT INTO evidence_exclusions (record_id, excluded, reason, entered_at, entered_by)
+        VALUES (1, 1, 'premedicated', ${at}, 'RW')`,
+    sql`INSERT INTO evidence_calibration_switch (calibration_on, entered_at, entered_by) VALUES (0, ${at}, 'RW')`,
+    sql`INSERT INTO patients (created_at) VALUES (${at})`,
+    sql`INSERT INTO patient_versions (patient_id, name, species_key, sex, entered_at, entered_by)
+        VALUES (2, 'Wren', 'testbird', 'unknown', ${at}, 'RW')`,
   ])
     await statement.execute(db.kysely);
+  const ids = await sql<{
+    id: number;
+  }>`SELECT id FROM procedure_entries UNION ALL SELECT id FROM emergency_drugs`.execute(db.kysely);
+  expect(ids.rows).toEqual([{ id: 1 }, { id: 1 }]);
 }
 
 /** Every table whose rows are never changed or deleted, with the remedy its refusals name. */
@@ -709,3 +726,356 @@ async function tablesWithTriggers(db: ClinicDb): Promise<string[]> {
     (table) => names.has(`${table}.${table}_never_updated`) && names.has(`${table}.${table}_never_deleted`),
   );
 }
+
+// ---------------------------------------------------------------------------------------------
+// The two engines side by side.
+
+type ColumnShape = { type: string; notNull: boolean; default: string | null };
+
+/** Every column as `table.column` with its type (PostgreSQL's spelling), nullability and default. */
+async function columnShapes(db: ClinicDb): Promise<Record<string, ColumnShape>> {
+  const shapes: Record<string, ColumnShape> = {};
+  if (db.engine === 'sqlite') {
+    const rows = await sql<{
+      table: string;
+      name: string;
+      type: string;
+      notnull: number;
+      dflt_value: string | null;
+      pk: number;
+    }>`
+      SELECT m.name AS "table", p.name, p.type, p."notnull", p.dflt_value, p.pk
+      FROM sqlite_schema m JOIN pragma_table_info(m.name) p
+      WHERE m.type = 'table' AND m.name NOT LIKE 'sqlite\_%' ESCAPE '\\' AND m.name NOT LIKE 'patient\_search\_%' ESCAPE '\\'`.execute(
+      db.kysely,
+    );
+    const types: Record<string, string> = {
+      INTEGER: 'integer',
+      REAL: 'double precision',
+      TEXT: 'text',
+      '': '(none)',
+    };
+    for (const row of rows.rows) {
+      // An INTEGER PRIMARY KEY is the rowid: never null, and given the next id when left out.
+      const rowid = row.pk === 1 && row.type === 'INTEGER';
+      shapes[`${row.table}.${row.name}`] = {
+        type: types[row.type] ?? row.type,
+        notNull: row.notnull === 1 || row.pk > 0,
+        default: rowid ? '(next id)' : row.dflt_value,
+      };
+    }
+    return shapes;
+  }
+  const rows = await sql<{
+    table: string;
+    name: string;
+    type: string;
+    nullable: string;
+    column_default: string | null;
+    identity: string;
+  }>`
+    SELECT table_name AS "table", column_name AS name, data_type AS type, is_nullable AS nullable, column_default,
+      is_identity AS identity
+    FROM information_schema.columns WHERE table_schema = current_schema() AND table_name <> 'tidewing_schema'`.execute(
+    db.kysely,
+  );
+  for (const row of rows.rows)
+    shapes[`${row.table}.${row.name}`] = {
+      type: row.type,
+      notNull: row.nullable === 'NO',
+      default: row.identity === 'YES' ? '(next id)' : (row.column_default?.replace(/::text$/, '') ?? null),
+    };
+  return shapes;
+}
+
+/** Every single-column foreign key as `table.column -> table.column`. */
+async function foreignKeys(db: ClinicDb): Promise<string[]> {
+  const rows =
+    db.engine === 'sqlite'
+      ? await sql<{ key: string }>`
+          SELECT m.name || '.' || f."from" || ' -> ' || f."table" || '.' || f."to" AS key
+          FROM sqlite_schema m JOIN pragma_foreign_key_list(m.name) f WHERE m.type = 'table'`.execute(
+          db.kysely,
+        )
+      : await sql<{ key: string }>`
+          SELECT c.conrelid::regclass::text || '.' || a.attname || ' -> ' || c.confrelid::regclass::text || '.' || r.attname
+            || CASE WHEN cardinality(c.conkey) = 1 THEN '' ELSE ' (more columns)' END AS key
+          FROM pg_constraint c
+          JOIN pg_attribute a ON a.attrelid = c.conrelid AND a.attnum = c.conkey[1]
+          JOIN pg_attribute r ON r.attrelid = c.confrelid AND r.attnum = c.confkey[1]
+          WHERE c.contype = 'f' AND c.connamespace = current_schema()::regnamespace`.execute(db.kysely);
+  return rows.rows.map((row) => row.key).sort();
+}
+
+/**
+ * Primary keys, UNIQUE constraints and named indexes, each as `table(columns)` with `unique`,
+ * `partial` and the index name where the schema names it.
+ */
+async function keysAndIndexes(db: ClinicDb): Promise<string[]> {
+  if (db.engine === 'sqlite') {
+    const keys = await sql<{ key: string }>`
+      SELECT m.name || '(' || group_concat(p.name, ',') || ') primary key' AS key
+      FROM sqlite_schema m JOIN pragma_table_info(m.name) p
+      WHERE m.type = 'table' AND p.pk > 0 AND m.name NOT LIKE 'patient\_search\_%' ESCAPE '\\' GROUP BY m.name`.execute(
+      db.kysely,
+    );
+    const indexes = await sql<{ key: string }>`
+      SELECT m.name || '(' || (SELECT group_concat(name, ',') FROM (SELECT c.name FROM pragma_index_info(i.name) c ORDER BY c.seqno)) || ')'
+        || CASE WHEN i."unique" = 1 THEN ' unique' ELSE '' END || CASE WHEN i.partial = 1 THEN ' partial' ELSE '' END
+        || CASE WHEN i.origin = 'c' THEN ' ' || i.name ELSE '' END AS key
+      FROM sqlite_schema m JOIN pragma_index_list(m.name) i
+      WHERE m.type = 'table' AND m.name NOT LIKE 'sqlite\_%' ESCAPE '\\' AND m.name NOT LIKE 'patient\_search\_%' ESCAPE '\\'
+        AND i.origin <> 'pk'`.execute(db.kysely);
+    return [...keys.rows, ...indexes.rows].map((row) => row.key).sort();
+  }
+  const rows = await sql<{ key: string }>`
+    SELECT i.indrelid::regclass::text || '(' ||
+      (SELECT string_agg(a.attname, ',' ORDER BY k.n) FROM unnest(i.indkey::int2[]) WITH ORDINALITY k(attnum, n)
+        JOIN pg_attribute a ON a.attrelid = i.indrelid AND a.attnum = k.attnum) || ')'
+      || CASE WHEN i.indisprimary THEN ' primary key' ELSE
+        CASE WHEN i.indisunique THEN ' unique' ELSE '' END || CASE WHEN i.indpred IS NOT NULL THEN ' partial' ELSE '' END
+        || CASE WHEN c.oid IS NULL THEN ' ' || i.indexrelid::regclass::text ELSE '' END END AS key
+    FROM pg_index i JOIN pg_class t ON t.oid = i.indrelid
+    LEFT JOIN pg_constraint c ON c.conindid = i.indexrelid AND c.contype IN ('p', 'u')
+    WHERE t.relnamespace = current_schema()::regnamespace AND t.relname <> 'tidewing_schema'`.execute(
+    db.kysely,
+  );
+  return rows.rows.map((row) => row.key).sort();
+}
+
+/** Reads `key` from a record, failing the test when it is missing. */
+function pick<T>(record: Readonly<Record<string, T>>, key: string): T {
+  const value = record[key];
+  if (value === undefined) throw new Error(`${key} is missing`);
+  return value;
+}
+
+describe('the two engines', () => {
+  it('build the same tables and columns: types, nullability and defaults', async (context) => {
+    const sqlite = await columnShapes(await openTestClinic('sqlite', context));
+    const postgresql = await columnShapes(await openTestClinic('postgresql', context));
+    expect(await tableNames(await openTestClinic('postgresql', context))).toEqual(
+      await tableNames(await openTestClinic('sqlite', context)),
+    );
+    // The differences the dialects force, each on purpose:
+    const expected = {
+      ...sqlite,
+      // Keyed by another table's id, never generated: an INTEGER PRIMARY KEY on SQLite is the
+      // rowid (which would be generated if left out); on PostgreSQL a plain integer key.
+      'patient_current.patient_id': { ...pick(sqlite, 'patient_current.patient_id'), default: null },
+      'evidence_prediction_cache.record_id': {
+        ...pick(sqlite, 'evidence_prediction_cache.record_id'),
+        default: null,
+      },
+      // SQLite's FTS5 table has an untyped column and a hidden rowid; PostgreSQL's is a plain table.
+      'patient_search.rowid': { type: 'integer', notNull: true, default: null },
+      'patient_search.search_text': { type: 'text', notNull: true, default: null },
+    };
+    expect(pick(sqlite, 'patient_search.search_text')).toEqual({
+      type: '(none)',
+      notNull: false,
+      default: null,
+    });
+    expect(postgresql).toEqual(expected);
+    // Spot checks of the mapping itself.
+    expect(pick(postgresql, 'weights.mass_g')).toEqual({
+      type: 'double precision',
+      notNull: true,
+      default: null,
+    });
+    expect(pick(postgresql, 'procedure_record_versions.prompt_interval_min').default).toBe('5');
+    expect(pick(postgresql, 'species.anatomy_notes_json').default).toBe("'[]'");
+    expect(pick(postgresql, 'clinic_settings.date_format').default).toBe("'YYYY-MM-DD'");
+    expect(pick(postgresql, 'plans.id')).toEqual({ type: 'integer', notNull: true, default: '(next id)' });
+  });
+
+  it('build the same foreign keys, keys, UNIQUE constraints and indexes', async (context) => {
+    const sqlite = await openTestClinic('sqlite', context);
+    const postgresql = await openTestClinic('postgresql', context);
+    expect(await foreignKeys(postgresql)).toEqual(
+      [...(await foreignKeys(sqlite)), 'patient_search.rowid -> patients.id'].sort(),
+    );
+    expect(await foreignKeys(postgresql)).toContain('weights.corrects_id -> weights.id');
+    expect(await keysAndIndexes(postgresql)).toEqual(
+      [
+        ...(await keysAndIndexes(sqlite)),
+        // The search table: its rowid key and trigram index (SQLite's FTS5 keeps its own).
+        'patient_search(rowid) primary key',
+        'patient_search(search_text) patient_search_trigram',
+      ].sort(),
+    );
+    expect(await keysAndIndexes(postgresql)).toContain(
+      'species(species_key) unique partial species_first_key',
+    );
+  });
+});
+
+describe('a PostgreSQL clinic database', () => {
+  it('refuses a database written by a newer schema and changes nothing in it', async (context) => {
+    const { appUrl } = needPostgres(context);
+    const scratch = await scratchPostgresDatabase(appUrl);
+    onTestFinished(scratch.drop);
+    const first = await openPostgresClinic(scratch.url);
+    await sql`CREATE TABLE future_things (id integer PRIMARY KEY)`.execute(first.kysely);
+    await sql`INSERT INTO future_things VALUES (1)`.execute(first.kysely);
+    await sql`UPDATE tidewing_schema SET version = ${latestSchemaVersion + 5}`.execute(first.kysely);
+    const snapshot = async () => ({
+      columns: await columnShapes(first),
+      keys: await keysAndIndexes(first),
+      version: await postgresSchemaVersion(first),
+      future: (await sql`SELECT * FROM future_things`.execute(first.kysely)).rows,
+      // Every row version the database holds: a write anywhere would add one.
+      rows: (
+        await sql<{ table: string; xmin: string }>`
+          SELECT 'tidewing_schema' AS "table", xmin::text FROM tidewing_schema
+          UNION ALL SELECT 'future_things', xmin::text FROM future_things`.execute(first.kysely)
+      ).rows,
+    });
+    const before = await snapshot();
+    expect(before.version).toBe(latestSchemaVersion + 5);
+
+    await expect(openPostgresClinic(scratch.url)).rejects.toThrow(PostgresSchemaTooNewError);
+    await expect(openPostgresClinic(scratch.url)).rejects.toThrow(
+      /newer version of Tidewing .*schema \d+.*has not been changed/,
+    );
+    expect(await snapshot()).toEqual(before);
+    await first.close();
+  });
+
+  it('migrates once when two workstations open an empty database at the same moment', async (context) => {
+    const { appUrl } = needPostgres(context);
+    const scratch = await scratchPostgresDatabase(appUrl);
+    onTestFinished(scratch.drop);
+    const opened = await Promise.all([openPostgresClinic(scratch.url), openPostgresClinic(scratch.url)]);
+    onTestFinished(async () => {
+      for (const db of opened) await db.close();
+    });
+    const [one, two] = opened;
+    if (one === undefined || two === undefined) throw new Error('two databases expected');
+    expect(await postgresSchemaVersion(one)).toBe(latestSchemaVersion);
+    expect(await postgresSchemaVersion(two)).toBe(latestSchemaVersion);
+    expect((await sql`SELECT * FROM tidewing_schema`.execute(one.kysely)).rows).toEqual([
+      { only_row: true, version: latestSchemaVersion },
+    ]);
+    // Each trigger made once, and both connections write to the one schema.
+    expect((await tablesWithTriggers(two)).sort()).toEqual(appendOnlyTables.map(({ table }) => table).sort());
+    await sql`INSERT INTO patients (created_at) VALUES (${at})`.execute(one.kysely);
+    await sql`INSERT INTO patients (created_at) VALUES (${at})`.execute(two.kysely);
+    expect((await sql`SELECT id FROM patients ORDER BY id`.execute(one.kysely)).rows).toEqual([
+      { id: 1 },
+      { id: 2 },
+    ]);
+  });
+
+  it('refuses TRUNCATE of a record table, which runs no row trigger', async (context) => {
+    const db = await openTestClinic('postgresql', context);
+    await oneOfEach(db);
+    for (const { table, deleted } of appendOnlyTables)
+      expect(await refusal(db, sql`TRUNCATE ${sql.table(table)} CASCADE`)).toEqual({
+        kind: 'append-only',
+        message: `${table} rows are never deleted; ${deleted}`,
+      });
+    await sql`TRUNCATE evidence_prediction_cache`.execute(db.kysely);
+  });
+
+  it('names the refused table and trigger in the error, beside the message', async (context) => {
+    const db = await openTestClinic('postgresql', context);
+    await oneOfEach(db);
+    const error: unknown = await sql`DELETE FROM weights`.execute(db.kysely).then(
+      () => null,
+      (caught: unknown) => caught,
+    );
+    expect(error).toMatchObject({
+      code: 'P0001',
+      message: 'weights rows are never deleted; add a correction that voids the row',
+      table: 'weights',
+      constraint: 'weights_never_deleted',
+    });
+  });
+
+  it('finds a patient by any part of the search text, ignoring case, through the trigram index', async (context) => {
+    const db = await openTestClinic('postgresql', context);
+    await oneOfEach(db);
+    await sql`DELETE FROM patient_search WHERE rowid = ${1}`.execute(db.kysely);
+    await sql`INSERT INTO patient_search (rowid, search_text) VALUES (${1}, ${'Pip • African grey parrot • RING-0042'})`.execute(
+      db.kysely,
+    );
+    await sql`INSERT INTO patient_search (rowid, search_text) VALUES (${2}, ${'Wren • Barn owl'})`.execute(
+      db.kysely,
+    );
+    const find = async (words: string) =>
+      (
+        await sql<{
+          rowid: number;
+        }>`SELECT rowid FROM patient_search WHERE search_text ILIKE ${`%${words}%`} ORDER BY rowid`.execute(
+          db.kysely,
+        )
+      ).rows.map((row) => row.rowid);
+    expect(await find('ring-0042')).toEqual([1]);
+    expect(await find('GREY')).toEqual([1]);
+    expect(await find('owl')).toEqual([2]);
+    expect(await find(' • ')).toEqual([1, 2]);
+    expect(
+      (await refusal(db, sql`INSERT INTO patient_search (rowid, search_text) VALUES (${9}, 'x')`)).kind,
+    ).toBe('foreign key');
+    // With sequential scans priced out, the planner uses the trigram index for ILIKE.
+    const plan = await db.kysely.connection().execute(async (connection) => {
+      await sql`SET enable_seqscan = off`.execute(connection);
+      const explained = await sql<{
+        'QUERY PLAN': string;
+      }>`EXPLAIN SELECT rowid FROM patient_search WHERE search_text ILIKE '%grey%'`.execute(connection);
+      await sql`RESET enable_seqscan`.execute(connection);
+      return explained.rows.map((row) => row['QUERY PLAN']).join('\n');
+    });
+    expect(plan).toContain('patient_search_trigram');
+  });
+
+  it('takes as JSON exactly the text SQLite json_valid takes', async (context) => {
+    const sqlite = await openTestClinic('sqlite', context, { migrations: [] });
+    const postgresql = await openTestClinic('postgresql', context);
+    const texts = [
+      '{}',
+      '[]',
+      '  [ 1, 2 ]  ',
+      '\n[]\n',
+      '{"a":1,"a":2}',
+      'true',
+      'null',
+      '-0',
+      '1e5',
+      '"\\u0000"',
+      '"\\ud800"',
+      '"é"',
+      '{"a":{"b":[1,{"c":null}]}}',
+      '',
+      ' ',
+      '01',
+      '1.',
+      '.5',
+      '{"a":1,}',
+      '[1,]',
+      "'a'",
+      'NaN',
+      'Infinity',
+      '"a\tb"',
+      '[]x',
+      '"\\x41"',
+      '0x10',
+      '{a:1}',
+      '/*c*/[]',
+      '{"a" 1}',
+      '[',
+      '"',
+    ];
+    for (const text of texts) {
+      const valid = await sql<{ valid: number }>`SELECT json_valid(${text}) AS valid`.execute(sqlite.kysely);
+      const checked = await sql<{ valid: boolean }>`SELECT tidewing_is_json(${text}) AS valid`.execute(
+        postgresql.kysely,
+      );
+      expect({ text, valid: checked.rows[0]?.valid }).toEqual({ text, valid: valid.rows[0]?.valid === 1 });
+    }
+    const nothing = await sql<{ valid: boolean | null; type: string | null }>`
+      SELECT tidewing_is_json(NULL) AS valid, tidewing_json_type('[1') AS type`.execute(postgresql.kysely);
+    expect(nothing.rows).toEqual([{ valid: null, type: null }]);
+  });
+});
