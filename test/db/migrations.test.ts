@@ -1030,6 +1030,39 @@ describe('a PostgreSQL clinic database', () => {
     expect(plan).toContain('patient_search_trigram');
   });
 
+  it('names every CHECK after its table and first column, which constraint errors read as the field', async (context) => {
+    const db = await openTestClinic('postgresql', context);
+    const checks = await sql<{ table: string; name: string; definition: string; columns: string[] }>`
+      SELECT t.relname AS "table", c.conname AS name, pg_get_constraintdef(c.oid) AS definition,
+        array(SELECT attname::text FROM pg_attribute WHERE attrelid = t.oid AND attnum > 0 AND NOT attisdropped) AS columns
+      FROM pg_constraint c JOIN pg_class t ON t.oid = c.conrelid
+      WHERE c.contype = 'c' AND t.relnamespace = current_schema()::regnamespace AND t.relname <> 'tidewing_schema'`.execute(
+      db.kysely,
+    );
+    // As many as SQLite's schema text holds, one constraint for each.
+    const sqlite = await openTestClinic('sqlite', context);
+    const texts = await sql<{
+      text: string;
+    }>`SELECT sql AS text FROM sqlite_schema WHERE type = 'table' AND sql IS NOT NULL`.execute(sqlite.kysely);
+    const sqliteChecks = texts.rows.reduce(
+      (count, row) => count + (row.text.match(/CHECK \(/g) ?? []).length,
+      0,
+    );
+    expect(checks.rows.length).toBe(sqliteChecks);
+    for (const check of checks.rows) {
+      const first = (check.definition.match(/[a-z_][a-z0-9_]*/g) ?? []).find((word) =>
+        check.columns.includes(word),
+      );
+      expect({
+        check: check.name,
+        ok: new RegExp(`^${check.table}_${first ?? '?'}(_with_[a-z0-9_]+)?_check$`).test(check.name),
+      }).toEqual({
+        check: check.name,
+        ok: true,
+      });
+    }
+  });
+
   it('takes as JSON exactly the text SQLite json_valid takes', async (context) => {
     const sqlite = await openTestClinic('sqlite', context, { migrations: [] });
     const postgresql = await openTestClinic('postgresql', context);
