@@ -11,13 +11,15 @@ import { entryWorkstationsMigration } from './0010-entry-workstations.js';
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
- * two texts build the same tables, constraints and append-only rules in each dialect.
+ * two texts build the same tables, constraints and append-only rules in each dialect; their
+ * histories may differ where SQLite needs a table rebuild that PostgreSQL does in place, but
+ * after each step the schema means the same on both.
  */
 export type Migration = {
   readonly version: number;
   readonly name: string;
   readonly sql: string;
-  readonly postgresql?: string;
+  readonly postgresql: string;
 };
 
 /** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
