@@ -2,7 +2,7 @@ import type { Checklist, SavedPlan } from '../../app/contract/plan-records.js';
 import type { PlanInput, PlanResult } from '../../app/contract/plan.js';
 import type { TidewingDatabase } from '../connection.js';
 import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
 
 type PlanRow = StampRow & {
   patient_id: number | null;
@@ -79,11 +79,11 @@ export function createPlanRepository(db: TidewingDatabase) {
 
   /** The first row of the chain holding `id`: a plan's id through all its versions. */
   function rootOf(id: number): number {
-    const ids = chainIds(db, 'plans', id);
+    const ids = chainIdsSync(db, 'plans', id);
     return ids[ids.length - 1] as number;
   }
   function newestOf(id: number): number {
-    return chainIds(db, 'plans', id)[0] as number;
+    return chainIdsSync(db, 'plans', id)[0] as number;
   }
 
   function write(
@@ -194,7 +194,7 @@ export function createPlanRepository(db: TidewingDatabase) {
       return recent.all(limit).map(rowToPlan);
     },
     history(planId: number): SavedPlan[] {
-      return chainIds(db, 'plans', planId).map((id) => rowToPlan(byId.get(id) as PlanRow));
+      return chainIdsSync(db, 'plans', planId).map((id) => rowToPlan(byId.get(id) as PlanRow));
     },
   };
 }

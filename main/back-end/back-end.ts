@@ -63,14 +63,22 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
-  if (options.demoClinic === true) {
-    const written = writeDemoClinic(db, now());
-    options.log?.(
-      written > 0
-        ? `Demo clinic: ${String(written)} invented procedure records written.`
-        : 'Demo clinic not written: this clinic already holds patients.',
-    );
-  }
+  // The demo clinic is written before the first request is answered and before the backup.
+  const demoWritten =
+    options.demoClinic === true
+      ? writeDemoClinic(db, clinic, now()).then(
+          (written) =>
+            options.log?.(
+              written > 0
+                ? `Demo clinic: ${String(written)} invented procedure records written.`
+                : 'Demo clinic not written: this clinic already holds patients.',
+            ),
+          (error: unknown) =>
+            options.log?.(
+              `Demo clinic not written: ${error instanceof Error ? error.message : String(error)}`,
+            ),
+        )
+      : Promise.resolve();
   const { handlers, workstationTheme } = createBackEndParts({
     db,
     clinic,
@@ -79,22 +87,27 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
+  const dispatcher = createDispatcher(handlers, options.log);
   const backupSettled =
     options.automaticBackup === true
-      ? automaticBackupOnStart({
-          dataDirectory: options.dataDirectory,
-          databaseFile: file,
-          connection: db,
-          now: now(),
-        }).then((result) => {
-          options.log?.(result.message);
-          return result.message;
-        })
+      ? demoWritten
+          .then(() =>
+            automaticBackupOnStart({
+              dataDirectory: options.dataDirectory,
+              databaseFile: file,
+              connection: db,
+              now: now(),
+            }),
+          )
+          .then((result) => {
+            options.log?.(result.message);
+            return result.message;
+          })
       : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
     clinic,
-    dispatch: createDispatcher(handlers, options.log),
+    dispatch: options.demoClinic === true ? dispatchAfter(demoWritten, dispatcher) : dispatcher,
     handlers,
     databaseFile: file,
     workstationTheme,
@@ -102,5 +115,13 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     close: () => {
       if (db.open) db.close();
     },
+  };
+}
+
+/** A dispatcher that answers only once `ready` has settled (the demo clinic written). */
+function dispatchAfter(ready: Promise<void>, dispatcher: Dispatcher): Dispatcher {
+  return async (channel, payload) => {
+    await ready;
+    return dispatcher(channel, payload);
   };
 }

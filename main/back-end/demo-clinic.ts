@@ -1,12 +1,12 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
+import { writeTransaction, type Sql } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository } from '../../db/repositories/weight-repository.js';
-import { writeTransaction } from '../../db/write-transaction.js';
 
 /** The seed of the demo clinic: the same clinic at every demo start on the same day. */
 export const demoSeed = 20261202;
@@ -18,25 +18,31 @@ const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
  * patient is left alone: invented birds are never mixed with a clinic's own.
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
-export function writeDemoClinic(db: TidewingDatabase, now: Date): number {
+export async function writeDemoClinic(db: TidewingDatabase, clinic: Sql, now: Date): Promise<number> {
   if (createPatientRepository(db).count() > 0) return 0;
   const species = createSpeciesRepository(db).list();
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
-  return writeDemoRecords(db, demo, now);
+  return writeDemoRecords(db, clinic, demo, now);
 }
 
 /**
  * Writes a generated demo clinic's patients, weights, records and entries in one transaction.
  * @returns the number of procedure records written
  */
-export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Date): number {
+export async function writeDemoRecords(
+  db: TidewingDatabase,
+  clinic: Sql,
+  demo: DemoClinic,
+  now: Date,
+): Promise<number> {
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
-  const records = createProcedureRecordRepository(db);
-  const entries = createProcedureEntryRepository(db);
-  return writeTransaction(db, () => {
+  // On SQLite the patients and weights (still on the raw handle) are written in this same transaction.
+  return writeTransaction(clinic, async (tx) => {
+    const records = createProcedureRecordRepository(tx);
+    const entries = createProcedureEntryRepository(tx);
     const patientIds = demo.patients.map((patient) => {
       const created = patients.create(
         {
@@ -62,7 +68,7 @@ export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Da
       return created.id;
     });
     for (const record of demo.records) {
-      const created = records.create(
+      const created = await records.create(
         patientIds[record.patientIndex] as number,
         {
           planId: null,
@@ -84,7 +90,7 @@ export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Da
         now,
       );
       for (const entry of record.entries)
-        entries.add(
+        await entries.add(
           created.id,
           { ...entry, etco2Mmhg: null, spo2Pct: null, eventNote: '', drugName: '', drugDose: '' },
           demoMeta,

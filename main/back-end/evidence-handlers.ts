@@ -39,7 +39,9 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
-type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type EvidenceHandlerTable = {
+  [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
 
 /**
@@ -67,11 +69,11 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 export function createEvidenceHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(db);
-  const procedures = createProcedureRecordRepository(db);
-  const entries = createProcedureEntryRepository(db);
+  const procedures = createProcedureRecordRepository(clinic);
+  const entries = createProcedureEntryRepository(clinic);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
   const species = createSpeciesRepository(db);
@@ -97,7 +99,7 @@ export function createEvidenceHandlers(
     return loaded;
   }
 
-  function allRows(): { rows: EvidenceRow[]; inProgress: number } {
+  async function allRows(): Promise<{ rows: EvidenceRow[]; inProgress: number }> {
     const speciesList = species.list();
     const tables = { species: speciesList.map(speciesToReference) };
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
@@ -131,12 +133,12 @@ export function createEvidenceHandlers(
         rows.push({ ...cached.row, exclusion: exclusionOf(recordId) });
         continue;
       }
-      const record = procedures.get(recordId);
+      const record = await procedures.get(recordId);
       if (record === null || record.values.endedAt === null) continue;
       const patient = patients.get(record.patientId);
       if (patient === null) continue;
       const speciesRecord = speciesByKey.get(patient.values.speciesKey);
-      const recordEntries = entries.list(record.id);
+      const recordEntries = await entries.list(record.id);
       const day = record.values.startedAt.slice(0, 10);
       const patientWeights = weights.list(patient.id);
       const weight =
@@ -232,10 +234,10 @@ export function createEvidenceHandlers(
     return true;
   }
 
-  function list(filter: EvidenceFilter) {
+  async function list(filter: EvidenceFilter) {
     if (filter.from !== undefined && filter.to !== undefined && filter.to < filter.from)
       throw new RecordError('invalid-request', 'The "to" date is before the "from" date; swap them.', 'to');
-    const { rows, inProgress } = allRows();
+    const { rows, inProgress } = await allRows();
     const shown = rows.filter((row) => matches(row, filter));
     const skippedByMilestone = Object.fromEntries(evidenceMilestoneIds.map((id) => [id, 0])) as Record<
       EvidenceMilestoneId,
@@ -261,9 +263,9 @@ export function createEvidenceHandlers(
     };
   }
 
-  function calibration() {
+  async function calibration() {
     const switchState = evidence.calibrationSwitch();
-    const { rows } = allRows();
+    const { rows } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
     const speciesList = species.list();
     const recordsIn = used
@@ -324,8 +326,8 @@ export function createEvidenceHandlers(
 
   return {
     'evidence:list': (request) => list(request),
-    'evidence:export-csv': (request) => {
-      const { rows } = list(request);
+    'evidence:export-csv': async (request) => {
+      const { rows } = await list(request);
       const csv = evidenceCsv(
         rows.map((row) => ({
           ...row,
@@ -337,8 +339,8 @@ export function createEvidenceHandlers(
       return { fileName: `tidewing-observed-vs-predicted-${day}.csv`, csv, rows: rows.length };
     },
     'evidence:calibration': () => calibration(),
-    'evidence:exclude': (request) => {
-      const record = procedures.get(request.recordId);
+    'evidence:exclude': async (request) => {
+      const record = await procedures.get(request.recordId);
       if (record === null)
         throw new RecordError(
           'not-found',
