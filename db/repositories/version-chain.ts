@@ -47,3 +47,28 @@ export function stampOf(row: StampRow) {
     correctsId: row.corrects_id,
   };
 }
+
+// The async chain reader over the shared query layer (kept together at the end of this module).
+import { sql as kyselySql } from 'kysely';
+import type { Sql } from '../clinic-db.js';
+
+/**
+ * Every row id in the chain containing `id`, newest first, through the shared query layer
+ * (SQLite or PostgreSQL): the async form of `chainIds`. The table name is one of ours.
+ */
+export async function readChainIds(sql: Sql, table: ChainTable, id: number): Promise<number[]> {
+  const result = await kyselySql<{ id: number }>`
+    WITH RECURSIVE earlier(id, corrects_id) AS (
+      SELECT id, corrects_id FROM ${kyselySql.table(table)} WHERE id = ${id}
+      UNION ALL
+      SELECT t.id, t.corrects_id FROM ${kyselySql.table(table)} t JOIN earlier ON t.id = earlier.corrects_id
+    ),
+    root AS (SELECT id FROM earlier WHERE corrects_id IS NULL),
+    later(id) AS (
+      SELECT id FROM root
+      UNION ALL
+      SELECT t.id FROM ${kyselySql.table(table)} t JOIN later ON t.corrects_id = later.id
+    )
+    SELECT id FROM later ORDER BY id DESC`.execute(sql.kysely);
+  return result.rows.map((row) => row.id);
+}

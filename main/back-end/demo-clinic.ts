@@ -1,12 +1,11 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
-import type { TidewingDatabase } from '../../db/connection.js';
+import { writeTransaction, type ClinicDb } from '../../db/clinic-db.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository } from '../../db/repositories/weight-repository.js';
-import { writeTransaction } from '../../db/write-transaction.js';
 
 /** The seed of the demo clinic: the same clinic at every demo start on the same day. */
 export const demoSeed = 20261202;
@@ -18,27 +17,32 @@ const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
  * patient is left alone: invented birds are never mixed with a clinic's own.
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
-export function writeDemoClinic(db: TidewingDatabase, now: Date): number {
-  if (createPatientRepository(db).count() > 0) return 0;
-  const species = createSpeciesRepository(db).list();
+export async function writeDemoClinic(clinic: ClinicDb, now: Date): Promise<number> {
+  if ((await createPatientRepository(clinic).count()) > 0) return 0;
+  const species = await createSpeciesRepository(clinic).list();
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
-  return writeDemoRecords(db, demo, now);
+  return writeDemoRecords(clinic, demo, now);
 }
 
 /**
  * Writes a generated demo clinic's patients, weights, records and entries in one transaction.
  * @returns the number of procedure records written
  */
-export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Date): number {
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
+export async function writeDemoRecords(clinic: ClinicDb, demo: DemoClinic, now: Date): Promise<number> {
+  // Procedure records and entries still go through the SQLite handle: on SQLite it is the same
+  // connection, so they are written inside the transaction below.
+  const db = clinic.sqlite;
+  if (db === null) throw new Error('The demo clinic is written to an SQLite clinic only, for now.');
   const records = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
-  return writeTransaction(db, () => {
-    const patientIds = demo.patients.map((patient) => {
-      const created = patients.create(
+  return writeTransaction(clinic, async (tx) => {
+    const patients = createPatientRepository(tx);
+    const weights = createWeightRepository(tx);
+    const patientIds: number[] = [];
+    for (const patient of demo.patients) {
+      const created = await patients.create(
         {
           name: patient.name,
           speciesKey: patient.speciesKey,
@@ -53,14 +57,14 @@ export function writeDemoRecords(db: TidewingDatabase, demo: DemoClinic, now: Da
         demoMeta,
         now,
       );
-      weights.add(
+      await weights.add(
         created.id,
         { weighedOn: patient.weighedOn, massG: patient.massG, bodyCondition: 'ideal', weighedBy: 'DEMO' },
         demoMeta,
         now,
       );
-      return created.id;
-    });
+      patientIds.push(created.id);
+    }
     for (const record of demo.records) {
       const created = records.create(
         patientIds[record.patientIndex] as number,

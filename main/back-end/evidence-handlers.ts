@@ -39,7 +39,9 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
-type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type EvidenceHandlerTable = {
+  [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
 
 /**
@@ -67,16 +69,16 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 export function createEvidenceHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(db);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
-  const species = createSpeciesRepository(db);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
+  const species = createSpeciesRepository(clinic);
   const plans = createPlanRepository(db);
-  const settings = createSettingsRepository(db);
+  const settings = createSettingsRepository(clinic);
   const stored = createEvidenceCacheRepository(db);
   // Rows computed before, by record id, with the fingerprint they were computed for: read from
   // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
@@ -97,12 +99,12 @@ export function createEvidenceHandlers(
     return loaded;
   }
 
-  function allRows(): { rows: EvidenceRow[]; inProgress: number } {
-    const speciesList = species.list();
+  async function allRows(): Promise<{ rows: EvidenceRow[]; inProgress: number }> {
+    const speciesList = await species.list();
     const tables = { species: speciesList.map(speciesToReference) };
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
     const exclusions = evidence.exclusions();
-    const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
+    const defaultAgent = (await settings.get()).settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
       rowFormat,
@@ -133,12 +135,12 @@ export function createEvidenceHandlers(
       }
       const record = procedures.get(recordId);
       if (record === null || record.values.endedAt === null) continue;
-      const patient = patients.get(record.patientId);
+      const patient = await patients.get(record.patientId);
       if (patient === null) continue;
       const speciesRecord = speciesByKey.get(patient.values.speciesKey);
       const recordEntries = entries.list(record.id);
       const day = record.values.startedAt.slice(0, 10);
-      const patientWeights = weights.list(patient.id);
+      const patientWeights = await weights.list(patient.id);
       const weight =
         [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
         patientWeights[0] ??
@@ -232,10 +234,10 @@ export function createEvidenceHandlers(
     return true;
   }
 
-  function list(filter: EvidenceFilter) {
+  async function list(filter: EvidenceFilter) {
     if (filter.from !== undefined && filter.to !== undefined && filter.to < filter.from)
       throw new RecordError('invalid-request', 'The "to" date is before the "from" date; swap them.', 'to');
-    const { rows, inProgress } = allRows();
+    const { rows, inProgress } = await allRows();
     const shown = rows.filter((row) => matches(row, filter));
     const skippedByMilestone = Object.fromEntries(evidenceMilestoneIds.map((id) => [id, 0])) as Record<
       EvidenceMilestoneId,
@@ -261,11 +263,11 @@ export function createEvidenceHandlers(
     };
   }
 
-  function calibration() {
+  async function calibration() {
     const switchState = evidence.calibrationSwitch();
-    const { rows } = allRows();
+    const { rows } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
-    const speciesList = species.list();
+    const speciesList = await species.list();
     const recordsIn = used
       .map((row) => ({
         recordId: row.recordId,
@@ -324,8 +326,8 @@ export function createEvidenceHandlers(
 
   return {
     'evidence:list': (request) => list(request),
-    'evidence:export-csv': (request) => {
-      const { rows } = list(request);
+    'evidence:export-csv': async (request) => {
+      const { rows } = await list(request);
       const csv = evidenceCsv(
         rows.map((row) => ({
           ...row,

@@ -23,7 +23,9 @@ import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
-type RecordHandlerTable = { [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type RecordHandlerTable = {
+  [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 
 /** A failure the dispatcher reports as `{ code, message, field? }`. */
 export class RecordError extends Error {
@@ -54,9 +56,9 @@ function refuse(problem: string | null, field: string): void {
   if (problem !== null) throw new RecordError('invalid-request', problem, field);
 }
 
-function conflictOnStaleCorrection<T>(write: () => T): T {
+async function conflictOnStaleCorrection<T>(write: () => T | Promise<T>): Promise<T> {
   try {
-    return write();
+    return await write();
   } catch (error) {
     if (error instanceof WeightCorrectionError || error instanceof EntryCorrectionError)
       throw new RecordError('conflict', error.message, 'id');
@@ -68,11 +70,11 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
 export function createRecordHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): RecordHandlerTable {
-  const species = createSpeciesRepository(db);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
+  const species = createSpeciesRepository(clinic);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
   const plans = createPlanRepository(db);
@@ -117,8 +119,8 @@ export function createRecordHandlers(
     refuse(entryTimeProblem(at, record.values, now()), 'values.at');
   }
 
-  function requireSpecies(key: string) {
-    if (species.get(key) === null)
+  async function requireSpecies(key: string) {
+    if ((await species.get(key)) === null)
       throw new RecordError(
         'invalid-request',
         `There is no species "${key}" in the reference; choose one from the list or add it first.`,
@@ -126,10 +128,10 @@ export function createRecordHandlers(
       );
   }
 
-  function patientDetail(id: number) {
-    const patient = found(patients.get(id), `Patient ${id}`);
-    const speciesRecord = species.get(patient.values.speciesKey);
-    const list = weights.list(id);
+  async function patientDetail(id: number) {
+    const patient = found(await patients.get(id), `Patient ${id}`);
+    const speciesRecord = await species.get(patient.values.speciesKey);
+    const list = await weights.list(id);
     const range =
       speciesRecord === null
         ? null
@@ -140,7 +142,7 @@ export function createRecordHandlers(
           };
     return {
       patient,
-      history: patients.history(id),
+      history: await patients.history(id),
       species: speciesRecord,
       weights: list,
       trend: weightTrend(
@@ -151,14 +153,14 @@ export function createRecordHandlers(
     };
   }
 
-  function procedureDetail(id: number) {
+  async function procedureDetail(id: number) {
     const record = found(procedures.get(id), `Procedure record ${id}`);
-    const patient = found(patients.get(record.patientId), `Patient ${record.patientId}`);
-    const latest = weights.list(patient.id).at(-1) ?? null;
+    const patient = found(await patients.get(record.patientId), `Patient ${record.patientId}`);
+    const latest = (await weights.list(patient.id)).at(-1) ?? null;
     return {
       record,
       patient,
-      species: species.get(patient.values.speciesKey),
+      species: await species.get(patient.values.speciesKey),
       latestMassG: latest?.values.massG ?? null,
       entries: entries.list(id),
     };
@@ -168,34 +170,34 @@ export function createRecordHandlers(
     'species:list': () => species.list(),
     'species:history': (request) => species.history(request.key),
     'species:add': (request) => species.add(request.values, request.meta, now()),
-    'species:correct': (request) =>
+    'species:correct': async (request) =>
       found(
-        species.correct(request.key, request.values, request.meta, now()),
+        await species.correct(request.key, request.values, request.meta, now()),
         `Species ${request.key}`,
         'key',
       ),
 
-    'patients:search': (request) => ({
-      patients: patients.search(request.query, request.limit),
-      total: patients.count(),
+    'patients:search': async (request) => ({
+      patients: await patients.search(request.query, request.limit),
+      total: await patients.count(),
     }),
     'patients:get': (request) => patientDetail(request.id),
-    'patients:create': (request) => {
-      requireSpecies(request.values.speciesKey);
+    'patients:create': async (request) => {
+      await requireSpecies(request.values.speciesKey);
       refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return patients.create(request.values, request.meta, now());
     },
-    'patients:correct': (request) => {
-      requireSpecies(request.values.speciesKey);
+    'patients:correct': async (request) => {
+      await requireSpecies(request.values.speciesKey);
       refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return found(
-        patients.correct(request.id, request.values, request.meta, now()),
+        await patients.correct(request.id, request.values, request.meta, now()),
         `Patient ${request.id}`,
       );
     },
 
-    'weights:add': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+    'weights:add': async (request) => {
+      found(await patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       refuse(
         weighingDateProblem(request.values.weighedOn, today(), request.meta.reason !== ''),
         'values.weighedOn',
@@ -203,22 +205,22 @@ export function createRecordHandlers(
       return weights.add(request.patientId, request.values, request.meta, now());
     },
     'weights:correct': (request) =>
-      conflictOnStaleCorrection(() => {
+      conflictOnStaleCorrection(async () => {
         // A correction always carries a reason, which is what lets an old date stand.
         refuse(weighingDateProblem(request.values.weighedOn, today(), true), 'values.weighedOn');
         return found(
-          weights.correct(request.id, request.values, request.meta, now()),
+          await weights.correct(request.id, request.values, request.meta, now()),
           `Weight ${request.id}`,
         );
       }),
     'weights:void': (request) =>
-      conflictOnStaleCorrection(() =>
-        found(weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
+      conflictOnStaleCorrection(async () =>
+        found(await weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
       ),
     'weights:history': (request) => weights.history(request.id),
 
-    'procedures:create': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+    'procedures:create': async (request) => {
+      found(await patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
@@ -232,19 +234,23 @@ export function createRecordHandlers(
       );
     },
     'procedures:recent': (request) =>
-      procedures.listRecent(request.limit).map((record) => {
-        const patient = patients.get(record.patientId);
-        return {
-          record,
-          patientName: patient?.values.name ?? `Patient ${record.patientId}`,
-          speciesName:
-            patient === null ? null : (species.get(patient.values.speciesKey)?.values.commonName ?? null),
-        };
-      }),
+      Promise.all(
+        procedures.listRecent(request.limit).map(async (record) => {
+          const patient = await patients.get(record.patientId);
+          return {
+            record,
+            patientName: patient?.values.name ?? `Patient ${record.patientId}`,
+            speciesName:
+              patient === null
+                ? null
+                : ((await species.get(patient.values.speciesKey))?.values.commonName ?? null),
+          };
+        }),
+      ),
     'procedures:get': (request) => procedureDetail(request.id),
     'procedures:history': (request) => procedures.history(request.id),
-    'procedures:export-csv': (request) => {
-      const detail = procedureDetail(request.id);
+    'procedures:export-csv': async (request) => {
+      const detail = await procedureDetail(request.id);
       // The workstation's time zone, as the clinic reads its wall clock (east of UTC positive).
       const utcOffsetMinAt = (iso: string) => -new Date(iso).getTimezoneOffset();
       const csv = procedureCsv({
