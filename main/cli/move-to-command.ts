@@ -127,7 +127,7 @@ export async function runMoveToCommand(
   try {
     io.stderr(`move-to: making the Tidewing tables in ${where}\n`);
     target = await openPostgresClinic(url);
-    const copied = progressPrinter(io, 'move-to: copied');
+    const copied = progressPrinter(io, 'move-to: rows copied');
     let verifying = false;
     const result = await moveClinic(source, target, {
       onProgress: (progress) => {

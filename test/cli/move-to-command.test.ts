@@ -262,7 +262,7 @@ describe('tidewing move-to: a clinic with its history on PostgreSQL', () => {
 
     const run = captured();
     const code = await runMoveToCommand(['--data', clinic.folder, '--database', target.url], run.io);
-    expect(run.stderr()).toContain('move-to: copied 100%');
+    expect(run.stderr()).toContain('move-to: rows copied: 100%');
     expect(code, run.stdout() + run.stderr()).toBe(0);
     expect(fileState(clinic.databaseFile)).toEqual(before);
     expect(run.stdout()).toMatch(/every table agrees/);
@@ -276,6 +276,7 @@ describe('tidewing move-to: a clinic with its history on PostgreSQL', () => {
     ])
       expect(run.stdout()).toMatch(new RegExp(`^${table} .* same$`, 'm'));
     expect(run.stdout()).not.toContain('DIFFERENT');
+    expect(run.stdout()).toContain('Search index patient_search: copied as it stands');
 
     // The one checksum function, run again from outside the move: every table agrees.
     const opened = openReadOnly(clinic.databaseFile);
