@@ -185,6 +185,18 @@ describe('table checksums', () => {
 });
 
 describe('table checksums across the engines', () => {
+  it('describes a migrated PostgreSQL clinic as it describes the SQLite one: tables, keys, links, columns', async (context) => {
+    const sqlite = await describeClinicTables(await openTestClinic('sqlite', context));
+    const postgres = await describeClinicTables(await openTestClinic('postgresql', context));
+    const shape = (tables: readonly TableShape[]) =>
+      tables.map((table) => ({ ...table, columns: [...table.columns].sort() }));
+    expect(shape(postgres.tables)).toEqual(shape(sqlite.tables));
+    expect(postgres.searchIndexes.map((table) => table.name)).toEqual(
+      sqlite.searchIndexes.map((table) => table.name),
+    );
+    expect(postgres.derivedNames).toEqual(['patient_search']);
+  });
+
   it('gives SQLite and PostgreSQL the same checksum for the same rows (REAL and double precision, integers, NULLs, text keys in byte order)', async (context) => {
     const sqlite = await openTestClinic('sqlite', context, { migrations: [] });
     const postgres = await openTestClinic('postgresql', context, { migrations: [] });
