@@ -5,7 +5,9 @@ import pg from 'pg';
 import { afterAll, afterEach, describe, expect, it } from 'vitest';
 import { sqliteClinicDb } from '../../db/clinic-db.js';
 import type { DatabaseExport } from '../../db/export.js';
+import { openDatabase } from '../../db/connection.js';
 import { openReadOnly } from '../../db/integrity.js';
+import { migrations } from '../../db/migrations/index.js';
 import { compareClinics } from '../../db/move-to-postgresql.js';
 import { connectPostgresForReading } from '../../db/postgres-reading.js';
 import { writeDemoClinic } from '../../main/back-end/demo-clinic.js';
@@ -251,6 +253,21 @@ describe('tidewing move-to: arguments and refusals', () => {
         "SELECT table_name FROM information_schema.tables WHERE table_schema = 'public'",
       ),
     ).toEqual([{ table_name: 'invoices' }]);
+  });
+  it('refuses a clinic file at an older schema, saying how to bring it up to date, and leaves it as it was', async (context) => {
+    const target = await scratchDatabase(context);
+    const older = temporaryFolder('tidewing-move-older-');
+    cleanups.push(older.remove);
+    const file = path.join(older.folder, 'tidewing.db');
+    const db = openDatabase(file, { migrations: migrations.slice(0, 8) });
+    db.prepare("INSERT INTO patients (created_at) VALUES ('2026-01-05T09:30:00.000Z')").run();
+    db.close();
+    const before = fileState(file);
+    const run = captured();
+    expect(await runMoveToCommand(['--data', older.folder, '--database', target.url], run.io)).toBe(1);
+    expect(run.stderr()).toMatch(/at schema 8 and the PostgreSQL database at \d+\. Start Tidewing once/);
+    expect(fileState(file)).toEqual(before);
+    expect(await rowsOf(target.url, 'SELECT count(*)::integer AS n FROM patients')).toEqual([{ n: 0 }]);
   });
 });
 
