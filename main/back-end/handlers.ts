@@ -97,9 +97,12 @@ export function createBackEndParts(context: HandlerContext): {
     },
     'settings:get': () => settings.get(),
     'settings:save': (request) => settings.save(request, context.now()),
-    'database:export-json': () => {
+    'database:export-json': async () => {
       const at = context.now();
-      const exported = exportDatabaseJson(context.db, { appVersion: context.appVersion, exportedAt: at });
+      const exported = await exportDatabaseJson(context.clinic, {
+        appVersion: context.appVersion,
+        exportedAt: at,
+      });
       return {
         fileName: `tidewing-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`,
         json: JSON.stringify(exported, null, 2),

@@ -9,7 +9,6 @@ import { sqliteClinicDb, writeTransaction } from '../../db/clinic-db.js';
 import { openDatabase } from '../../db/connection.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
-import { sqliteClinicDb } from '../../db/clinic-db.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { median, quantile, type Figure } from './figures.js';
 

@@ -1,16 +1,9 @@
-import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { speciesReference } from '../../app/core/species-reference.js';
-import { sqliteClinicDb } from '../../db/clinic-db.js';
-import { openDatabase, type TidewingDatabase } from '../../db/connection.js';
-import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import {
   createProcedureRecordRepository,
   RecordVersionMismatchError,
 } from '../../db/repositories/procedure-record-repository.js';
-import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
-import { temporaryFolder } from '../support/temporary-folder.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
 import { sql } from 'kysely';
 import {
@@ -29,28 +22,6 @@ const t0 = new Date('2026-12-01T08:00:00Z');
 const meta = { enteredBy: 'RW', reason: '' };
 
 // Species, patients and weights have their suite on both engines in people-repositories.test.ts.
-async function fresh(): Promise<TidewingDatabase> {
-  const temp = temporaryFolder();
-  const db = openDatabase(path.join(temp.folder, 'tidewing.db'));
-  cleanups.push(() => {
-    db.close();
-    temp.remove();
-  });
-  await createSpeciesRepository(sqliteClinicDb(db)).seedReference(speciesReference, t0);
-  return db;
-}
-
-const pip = {
-  name: 'Pip',
-  speciesKey: 'budgerigar',
-  sex: 'male',
-  hatchDate: '2024-04-02',
-  ageText: '',
-  ringId: 'HL-24-117',
-  microchipId: '',
-  ownerReference: 'Owner 5521',
-  notes: 'Plucks when stressed',
-} as const;
 
 describe.each(testEngines)('procedure records and entries on %s', (engine) => {
   it('logs entries, corrects one with its history and refuses edits in place', async (context) => {
