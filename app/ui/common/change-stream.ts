@@ -54,20 +54,14 @@ export function everythingChanged(): ChangeNotice[] {
   return changeKinds.map((kind) => ({ kind, elsewhere: false }));
 }
 
-function pause(ms: number, signal: AbortSignal): Promise<void> {
-  return new Promise((resolve) => {
-    const timer = setTimeout(resolve, ms);
-    signal.addEventListener('abort', () => {
-      clearTimeout(timer);
-      resolve();
-    });
-  });
+function pause(ms: number): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, ms));
 }
 
 /**
  * The loopback host's change stream for this tab: one `fetch` of `changeStreamPath` with the
- * bridge token (EventSource cannot send the header), opened while at least one listener is
- * subscribed. A dropped stream is opened again after a growing wait, and then every listener
+ * bridge token (EventSource cannot send the header), opened when the first listener subscribes
+ * and kept while the tab is open. A dropped stream is opened again after a growing wait, and then every listener
  * hears one notice of every kind, since notices were missed meanwhile. A refused token (403)
  * stops it: the bridge's own calls tell the user what to do.
  */
@@ -75,21 +69,20 @@ export function loopbackChangeStream(
   token: string | null,
 ): (listener: (notice: ChangeNotice) => void) => () => void {
   const listeners = new Set<(notice: ChangeNotice) => void>();
-  let controller: AbortController | null = null;
+  let started = false;
 
   function emit(notice: ChangeNotice): void {
     for (const listener of [...listeners]) listener(notice);
   }
 
-  async function run(signal: AbortSignal): Promise<void> {
+  async function run(): Promise<void> {
     let failures = 0;
     let openedBefore = false;
-    while (!signal.aborted) {
+    for (;;) {
       try {
         const response = await fetch(changeStreamPath, {
           headers: { [tokenHeader]: token ?? '' },
           cache: 'no-store',
-          signal,
         });
         if (response.status === 403) return;
         if (!response.ok || response.body === null) throw new Error(`HTTP ${String(response.status)}`);
@@ -110,27 +103,23 @@ export function loopbackChangeStream(
           }
         }
       } catch {
-        // Dropped or refused: tried again below unless the tab stopped listening.
+        // Dropped (the host stopped, the computer slept): tried again below.
       }
-      if (signal.aborted) return;
       failures += 1;
-      await pause(Math.min(30_000, 1000 * 2 ** Math.min(failures, 5)), signal);
+      await pause(Math.min(30_000, 1000 * 2 ** Math.min(failures, 5)));
     }
   }
 
   return (listener) => {
     listeners.add(listener);
-    if (controller === null) {
-      const started = new AbortController();
-      controller = started;
-      void run(started.signal);
+    // Opened with the first listener and kept for the tab's life: screens come and go as the
+    // user moves around, and a stream reopened for each would miss the notices in between.
+    if (!started) {
+      started = true;
+      void run();
     }
     return () => {
       listeners.delete(listener);
-      if (listeners.size === 0 && controller !== null) {
-        controller.abort();
-        controller = null;
-      }
     };
   };
 }

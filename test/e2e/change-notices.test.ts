@@ -1,0 +1,79 @@
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { localDateOf } from '../../app/contract/input-rules.js';
+import { checkScreen } from './accessibility.js';
+import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
+
+const session = sharedHost('tidewing-e2e-changes-');
+const shots = ensureScreenshotFolder();
+
+/** Resolves once the page's change stream has its answer (the host has subscribed it). */
+function changeStreamOpened(page: Page): Promise<unknown> {
+  return page.waitForResponse((response) => new URL(response.url()).pathname === '/changes');
+}
+
+describe('screens follow changes made in another window', () => {
+  it('a weight added on one page appears on another showing the same patient, without a reload and without losing what is typed there', async () => {
+    const { browser, host } = session;
+    const contextA = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    const contextB = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    try {
+      const pageA = await contextA.newPage();
+      const pageB = await contextB.newPage();
+      const problems: string[] = [];
+      for (const page of [pageA, pageB]) page.on('pageerror', (error) => problems.push(error.message));
+
+      await completeFirstRun(pageA, host.url);
+      const created = await callBridge<{ id: number }>(pageA, 'patients:create', {
+        values: { name: 'Juniper', speciesKey: 'budgerigar', sex: 'female' },
+        meta: { enteredBy: 'RW', reason: '' },
+      });
+      expect(created.ok, JSON.stringify(created)).toBe(true);
+      const patientId = created.value?.id ?? 0;
+
+      const opened = changeStreamOpened(pageB);
+      await pageB.goto(await host.nextUrl());
+      await pageB.getByRole('heading', { name: 'Patients' }).waitFor();
+      await opened;
+      // The patient list follows a new patient too: a second bird created on page A appears.
+      const second = await callBridge(pageA, 'patients:create', {
+        values: { name: 'Quill', speciesKey: 'budgerigar', sex: 'male' },
+        meta: { enteredBy: 'RW', reason: '' },
+      });
+      expect(second.ok, JSON.stringify(second)).toBe(true);
+      await pageB.getByRole('link', { name: /Quill/ }).waitFor();
+
+      for (const page of [pageA, pageB]) {
+        await page.evaluate((id) => {
+          window.location.hash = `#/patients/${String(id)}`;
+        }, patientId);
+        await page.getByRole('heading', { name: /Juniper/ }).waitFor();
+      }
+      // Marks page B: a reload would lose it.
+      await pageB.evaluate(() => {
+        (window as unknown as { notReloaded: boolean }).notReloaded = true;
+      });
+      // Someone is typing a weight on page B and has not saved it.
+      await pageB.getByLabel('Weight (g)', { exact: true }).fill('39');
+
+      const today = localDateOf(new Date());
+      await pageA.getByLabel('Date', { exact: true }).fill(today);
+      await pageA.getByLabel('Weight (g)', { exact: true }).fill('41.5');
+      await pageA.getByLabel('Weight (g)', { exact: true }).press('Enter');
+      await pageA.getByRole('cell', { name: '41.5 g' }).waitFor();
+
+      await pageB.getByRole('cell', { name: '41.5 g' }).waitFor();
+      expect(await pageB.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(
+        true,
+      );
+      expect(await pageB.getByLabel('Weight (g)', { exact: true }).inputValue()).toBe('39');
+      await pageB.screenshot({ path: path.join(shots, '90-weight-from-another-window.png'), fullPage: true });
+      await checkScreen(pageB, '90-weight-from-another-window');
+      expect(problems).toEqual([]);
+    } finally {
+      await contextA.close();
+      await contextB.close();
+    }
+  });
+});
