@@ -76,4 +76,101 @@ describe('screens follow changes made in another window', () => {
       await contextB.close();
     }
   });
+
+  it('a log row and a details correction made on one page reach the procedure record open on another; an open details form is kept, with an offer to show the new details', async () => {
+    const { browser, host } = session;
+    const contextA = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    const contextB = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    try {
+      const pageA = await contextA.newPage();
+      const pageB = await contextB.newPage();
+      const problems: string[] = [];
+      for (const page of [pageA, pageB]) page.on('pageerror', (error) => problems.push(error.message));
+      await completeFirstRun(pageA, await host.nextUrl());
+      const patient = await callBridge<{ id: number }>(pageA, 'patients:create', {
+        values: { name: 'Saffron', speciesKey: 'budgerigar', sex: 'female' },
+        meta: { enteredBy: 'RW', reason: '' },
+      });
+      expect(patient.ok, JSON.stringify(patient)).toBe(true);
+      const startedAt = new Date(Date.now() - 10 * 60_000).toISOString();
+      const details = {
+        planId: null,
+        startedAt,
+        endedAt: null,
+        asaGrade: 2,
+        emergency: false,
+        procedureName: 'Wing radiograph',
+        fasting: '1 h, crop empty',
+        cropChecked: 'empty',
+        airway: 'mask',
+        tubeSizeMm: null,
+        tubeType: '',
+        circuit: 'nonRebreathing',
+        staffInitials: 'RW',
+        promptIntervalMin: 5,
+      };
+      const record = await callBridge<{ id: number }>(pageA, 'procedures:create', {
+        patientId: patient.value?.id,
+        values: details,
+        meta: { enteredBy: 'RW', reason: '' },
+      });
+      expect(record.ok, JSON.stringify(record)).toBe(true);
+      const recordId = record.value?.id ?? 0;
+
+      const opened = changeStreamOpened(pageB);
+      await pageB.goto(await host.nextUrl());
+      await opened;
+      await pageB.evaluate((id) => {
+        window.location.hash = `#/records/${String(id)}`;
+      }, recordId);
+      await pageB.getByRole('button', { name: 'Correct details' }).waitFor();
+      await pageB.evaluate(() => {
+        (window as unknown as { notReloaded: boolean }).notReloaded = true;
+      });
+
+      const row = await callBridge(pageA, 'entries:add', {
+        recordId,
+        values: {
+          at: new Date(Date.now() - 5 * 60_000).toISOString(),
+          kind: 'event',
+          eventType: 'note',
+          eventNote: 'Left wing extended for the view',
+        },
+        meta: { enteredBy: 'RW', reason: '' },
+      });
+      expect(row.ok, JSON.stringify(row)).toBe(true);
+      await pageB.getByRole('cell', { name: /Left wing extended for the view/ }).waitFor();
+
+      // Page B starts a correction of the details and types in it; page A corrects them first.
+      await pageB.getByRole('button', { name: 'Correct details' }).click();
+      await pageB.getByLabel('Procedure', { exact: true }).fill('Wing and leg radiographs');
+      const corrected = await callBridge(pageA, 'procedures:correct', {
+        id: recordId,
+        values: { ...details, procedureName: 'Wing radiograph, two views' },
+        meta: { enteredBy: 'RW', reason: 'Second view taken' },
+      });
+      expect(corrected.ok, JSON.stringify(corrected)).toBe(true);
+      const offer = pageB.getByRole('button', { name: 'Show the new details' });
+      await offer.waitFor();
+      expect(await pageB.getByLabel('Procedure', { exact: true }).inputValue()).toBe(
+        'Wing and leg radiographs',
+      );
+      await pageB.screenshot({
+        path: path.join(shots, '91-record-details-changed-elsewhere.png'),
+        fullPage: true,
+      });
+      await checkScreen(pageB, '91-record-details-changed-elsewhere');
+      await offer.click();
+      expect(await pageB.getByLabel('Procedure', { exact: true }).inputValue()).toBe(
+        'Wing radiograph, two views',
+      );
+      expect(await pageB.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(
+        true,
+      );
+      expect(problems).toEqual([]);
+    } finally {
+      await contextA.close();
+      await contextB.close();
+    }
+  });
 });
