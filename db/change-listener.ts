@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import pg from 'pg';
 import { z } from 'zod';
 import { changeKinds, type ChangeKind, type ChangeNoticeInput } from '../app/contract/change-notices.js';
@@ -84,6 +85,16 @@ export type ChangeListening = {
   /** Stops listening and ends the connection; no reconnection afterwards. */
   close(): Promise<void>;
 };
+
+/**
+ * A name for one back end's pool connections (`application_name`, at most 63 bytes): give it to
+ * the pool (`openPostgresClinic(url, { pool: { application_name } })`) and to `listenForChanges`
+ * as `ownApplicationName`, so the back end's own writes, already published in-process, are not
+ * published again when their notices come back from the server.
+ */
+export function backEndApplicationName(): string {
+  return `tidewing ${randomBytes(6).toString('hex')}`;
+}
 
 /** The application_name of the listening connection (its own notices never come from it). */
 export const listenerApplicationName = 'tidewing change listener';

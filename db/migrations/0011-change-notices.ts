@@ -8,6 +8,9 @@
  * PostgreSQL's 8000-byte limit. `by` is the writing connection's application_name, so a
  * workstation can tell its own writes (already published in-process) from the others'.
  *
+ * Numbered 11 after migration 10 (being written on another branch); it joins the list in
+ * index.ts when that lands (the tests apply it after the current list meanwhile).
+ *
  * SQLite has one writer host per data folder; its own back end publishes every change it makes,
  * so its text is a harmless no-op that keeps the numbering the same on both engines.
  */

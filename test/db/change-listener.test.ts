@@ -3,6 +3,7 @@ import { describe, expect, it, onTestFinished } from 'vitest';
 import type { ChangeNoticeInput } from '../../app/contract/change-notices.js';
 import { changeKinds } from '../../app/contract/change-notices.js';
 import {
+  backEndApplicationName,
   changeKindOfTable,
   listenerApplicationName,
   listenForChanges,
@@ -13,6 +14,9 @@ import {
   noticeTablesOnInsert,
   noticeTablesOnWrite,
 } from '../../db/migrations/0011-change-notices.js';
+import { migrations } from '../../db/migrations/index.js';
+import { openPostgresClinic } from '../../db/postgres-connection.js';
+import { openTestClinic } from '../support/clinic-engines.js';
 import { needPostgres, scratchPostgresDatabase } from '../support/postgres-database.js';
 
 /** Notices as they arrive, and a way to wait for the next few. */
@@ -55,6 +59,14 @@ describe('reading a change notice payload', () => {
     for (const kind of Object.values(changeKindOfTable)) expect(changeKinds).toContain(kind);
   });
 
+  it('names each back end apart, within the 63 bytes PostgreSQL keeps of an application_name', () => {
+    const a = backEndApplicationName();
+    const b = backEndApplicationName();
+    expect(a).not.toBe(b);
+    expect(Buffer.byteLength(a)).toBeLessThanOrEqual(63);
+    expect(a).not.toBe(listenerApplicationName);
+  });
+
   it('reads the ids and who wrote it, and refuses text from no table of ours', () => {
     expect(
       noticeFromPayload('{"table":"plans","patient":2,"plan":5,"day":"2026-12-03","by":"ws-a"}'),
@@ -65,6 +77,22 @@ describe('reading a change notice payload', () => {
     expect(noticeFromPayload('{"table":"pg_class"}')).toBeNull();
     expect(noticeFromPayload('not json')).toBeNull();
     expect(noticeFromPayload('{"table":"weights","patient":"3"}')).toBeNull();
+  });
+});
+
+describe('migration 11 on SQLite', () => {
+  it('changes nothing in the schema: one writer host publishes its own changes', async (context) => {
+    const schemaOf = async (list: typeof migrations) => {
+      const db = await openTestClinic('sqlite', context, { migrations: list });
+      return db.sqlite?.prepare('SELECT type, name, sql FROM sqlite_schema ORDER BY name').all();
+    };
+    const before = await schemaOf(migrations);
+    const after = await schemaOf([
+      ...migrations,
+      { ...changeNoticesMigration, version: migrations.length + 1 },
+    ]);
+    expect(after).toEqual(before);
+    expect(before?.length).toBeGreaterThan(20);
   });
 });
 
@@ -150,6 +178,104 @@ describe('listening for other workstations’ changes on PostgreSQL', () => {
     await writer.query('ROLLBACK');
     await writer.query('INSERT INTO emergency_drugs (id) VALUES (1)');
     expect((await queue.until(11))[10]).toEqual({ kind: 'drugs', elsewhere: true });
+  });
+
+  it('gets one notice per row added to the clinic tables of the real schema, none from the derived tables', async (context) => {
+    const url = await scratch(context);
+    // Numbered next after the migrations on main (migration 10 is being written elsewhere).
+    const list = [...migrations, { ...changeNoticesMigration, version: migrations.length + 1 }];
+    const clinic = await openPostgresClinic(url, { migrations: list });
+    onTestFinished(() => clinic.close());
+    const queue = noticeQueue();
+    const listening = listenForChanges(url, (notice) => queue.publish(notice));
+    onTestFinished(() => listening.close());
+    await listening.ready;
+    const writer = await client(url, 'tidewing ws-other');
+    const at = '2026-12-01T09:30:00.000Z';
+    const statements: [string, unknown[]][] = [
+      [
+        `INSERT INTO species (species_key, origin, common_name, mass_min_g, mass_max_g, mass_basis, entered_at, entered_by)
+         VALUES ('testbird', 'clinic', 'Test bird', 10, 20, 'test row', $1, 'RW')`,
+        [at],
+      ],
+      ['INSERT INTO patients (created_at) VALUES ($1)', [at]],
+      [
+        `INSERT INTO patient_versions (patient_id, name, species_key, sex, entered_at, entered_by)
+         VALUES (1, 'Pip', 'testbird', 'female', $1, 'RW')`,
+        [at],
+      ],
+      ['INSERT INTO patient_current (patient_id, version_id) VALUES (1, 1)', []],
+      [
+        `INSERT INTO weights (patient_id, weighed_on, mass_g, entered_at, entered_by)
+         VALUES (1, '2026-12-01', 350, $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO plans (patient_id, planned_for, input_json, result_json, model_version, entered_at, entered_by)
+         VALUES (1, '2026-12-02', '{}', '{}', 'm1', $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO plan_choices (comparison_id, chosen_id, entered_at, entered_by) VALUES (1, 1, $1, 'RW')`,
+        [at],
+      ],
+      ['INSERT INTO procedure_records (patient_id, created_at) VALUES (1, $1)', [at]],
+      [
+        `INSERT INTO procedure_record_versions (record_id, plan_id, started_at, procedure_name, airway, circuit, staff_initials, entered_at, entered_by)
+         VALUES (1, 1, $1, 'Wing radiographs', 'mask', 'nonRebreathing', 'RW', $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO procedure_entries (record_id, at, kind, heart_rate_per_min, entered_at, entered_by)
+         VALUES (1, $1, 'vitals', 280, $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO emergency_drugs (name, concentration_mg_per_ml, dose_low_mg_per_kg, route, dose_source, entered_at, entered_by)
+         VALUES ('Drug A', 1, 1, 'IV', 'Clinic protocol 2026', $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO evidence_exclusions (record_id, excluded, reason, entered_at, entered_by)
+         VALUES (1, 1, 'premedicated', $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO evidence_calibration_switch (calibration_on, entered_at, entered_by) VALUES (0, $1, 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO safety_acknowledgements (acknowledged_at, app_version, acknowledged_by) VALUES ($1, '1.0.0', 'RW')`,
+        [at],
+      ],
+      [
+        `INSERT INTO clinic_settings (id, clinic_name, address_line, mass_unit, pressure_unit, temperature_unit, default_agent, paper_size, updated_at)
+         VALUES (1, 'A', '', 'g', 'mmHg', 'C', 'isoflurane', 'A4', $1)`,
+        [at],
+      ],
+      [
+        `INSERT INTO workstations (id, name, theme, initials, updated_at) VALUES ('abcdefgh', 'Theatre 1', 'dim', 'RW', $1)`,
+        [at],
+      ],
+    ];
+    for (const [text, values] of statements) await writer.query(text, values);
+    expect(await queue.until(statements.length - 1)).toEqual([
+      { kind: 'species', elsewhere: true },
+      { kind: 'patients', patientId: 1, elsewhere: true },
+      { kind: 'patients', patientId: 1, elsewhere: true },
+      { kind: 'weights', patientId: 1, elsewhere: true },
+      { kind: 'plans', patientId: 1, planId: 1, plannedFor: '2026-12-02', elsewhere: true },
+      { kind: 'plans', planId: 1, elsewhere: true },
+      { kind: 'procedure-records', patientId: 1, recordId: 1, elsewhere: true },
+      { kind: 'procedure-records', recordId: 1, elsewhere: true },
+      { kind: 'procedure-entries', recordId: 1, elsewhere: true },
+      { kind: 'drugs', elsewhere: true },
+      { kind: 'evidence', recordId: 1, elsewhere: true },
+      { kind: 'evidence', elsewhere: true },
+      { kind: 'safety', elsewhere: true },
+      { kind: 'settings', elsewhere: true },
+      { kind: 'workstations', elsewhere: true },
+    ]);
   });
 
   it('reconnects when its connection is cut, then tells every screen to refresh and carries on', async (context) => {
