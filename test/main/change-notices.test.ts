@@ -1,10 +1,11 @@
 import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { ChangeNotice } from '../../app/contract/change-notices.js';
 import { createChangeSource, publishingChanges } from '../../main/back-end/change-notices.js';
 import { createDispatcher, createHandlers, type HandlerTable } from '../../main/back-end/handlers.js';
+import { heartbeatMs } from '../../main/host/change-stream.js';
 import { startLoopbackHost } from '../../main/host/loopback-host.js';
 import { parseEventStream } from '../../app/ui/common/change-stream.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
@@ -204,6 +205,40 @@ describe('the loopback host change stream', () => {
     await started.close();
     await ended;
     expect(stream.response.complete).toBe(true);
+  });
+});
+
+describe('the change stream heartbeat', () => {
+  it('writes a comment line every heartbeat period while the stream is idle', async () => {
+    vi.useFakeTimers({ toFake: ['setInterval', 'clearInterval'] });
+    cleanups.push(() => void vi.useRealTimers());
+    const source = createChangeSource();
+    const temp = temporaryFolder();
+    cleanups.push(temp.remove);
+    const started = await startLoopbackHost({
+      port: 0,
+      rendererDirectory: temp.folder,
+      dispatch: () => Promise.resolve({ ok: true, value: null }),
+      changes: source,
+      token: 'test-token-for-the-heartbeat',
+    });
+    cleanups.push(() => started.close());
+    const stream = await openStream(started.port, { 'x-tidewing-token': started.token });
+    let text = '';
+    const waiting: (() => void)[] = [];
+    stream.response.setEncoding('utf8');
+    stream.response.on('data', (chunk: string) => {
+      text += chunk;
+      waiting.splice(0).forEach((wake) => wake());
+    });
+    const heard = async (what: string) => {
+      while (!text.includes(what)) await new Promise<void>((resolve) => waiting.push(resolve));
+    };
+    await heard(': listening for changes');
+    expect(text).not.toContain('heartbeat');
+    vi.advanceTimersByTime(heartbeatMs);
+    await heard(': heartbeat');
+    expect(text.match(/: heartbeat/g)?.length).toBe(1);
   });
 });
 
