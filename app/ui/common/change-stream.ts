@@ -54,6 +54,19 @@ export function everythingChanged(): ChangeNotice[] {
   return changeKinds.map((kind) => ({ kind, elsewhere: false }));
 }
 
+/** Settles when the tab is shown (at once when it is). */
+function visible(): Promise<void> {
+  if (!document.hidden) return Promise.resolve();
+  return new Promise((resolve) => {
+    const onChange = () => {
+      if (document.hidden) return;
+      document.removeEventListener('visibilitychange', onChange);
+      resolve();
+    };
+    document.addEventListener('visibilitychange', onChange);
+  });
+}
+
 function pause(ms: number): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, ms));
 }
@@ -61,9 +74,10 @@ function pause(ms: number): Promise<void> {
 /**
  * The loopback host's change stream for this tab: one `fetch` of `changeStreamPath` with the
  * bridge token (EventSource cannot send the header), opened when the first listener subscribes
- * and kept while the tab is open. A dropped stream is opened again after a growing wait, and then every listener
- * hears one notice of every kind, since notices were missed meanwhile. A refused token (403)
- * stops it: the bridge's own calls tell the user what to do.
+ * and kept while the tab is open and shown (closed while it is hidden). A stream opened again
+ * (after a drop, with a growing wait, or when the tab is shown again) first tells every listener
+ * one notice of every kind, since notices were missed meanwhile. A refused token (403) stops it:
+ * the bridge's own calls tell the user what to do.
  */
 export function loopbackChangeStream(
   token: string | null,
@@ -79,10 +93,19 @@ export function loopbackChangeStream(
     let failures = 0;
     let openedBefore = false;
     for (;;) {
+      // A hidden tab holds no stream: a browser allows few connections per host, which a
+      // stream per tab could use up; on its return the tab's screens refresh once.
+      await visible();
+      const connection = new AbortController();
+      const onHidden = () => {
+        if (document.hidden) connection.abort();
+      };
+      document.addEventListener('visibilitychange', onHidden);
       try {
         const response = await fetch(changeStreamPath, {
           headers: { [tokenHeader]: token ?? '' },
           cache: 'no-store',
+          signal: connection.signal,
         });
         if (response.status === 403) return;
         if (!response.ok || response.body === null) throw new Error(`HTTP ${String(response.status)}`);
@@ -103,8 +126,11 @@ export function loopbackChangeStream(
           }
         }
       } catch {
-        // Dropped (the host stopped, the computer slept): tried again below.
+        // Dropped (the host stopped, the computer slept) or closed as the tab was hidden.
+      } finally {
+        document.removeEventListener('visibilitychange', onHidden);
       }
+      if (connection.signal.aborted) continue;
       failures += 1;
       await pause(Math.min(30_000, 1000 * 2 ** Math.min(failures, 5)));
     }
