@@ -70,6 +70,26 @@ describe('screens follow changes made in another window', () => {
       expect(await pageB.getByLabel('Weight (g)', { exact: true }).inputValue()).toBe('39');
       await pageB.screenshot({ path: path.join(shots, '90-weight-from-another-window.png'), fullPage: true });
       await checkScreen(pageB, '90-weight-from-another-window');
+
+      // Page B is hidden (another tab in front): its stream closes. Shown again, it reopens the
+      // stream and refreshes, so a weight added meanwhile appears.
+      const setHidden = (page: Page, hidden: boolean) =>
+        page.evaluate((value) => {
+          Object.defineProperty(document, 'hidden', { configurable: true, get: () => value });
+          document.dispatchEvent(new Event('visibilitychange'));
+        }, hidden);
+      await setHidden(pageB, true);
+      await pageA.getByLabel('Weight (g)', { exact: true }).fill('42.5');
+      await pageA.getByLabel('Weight (g)', { exact: true }).press('Enter');
+      await pageA.getByRole('cell', { name: '42.5 g' }).waitFor();
+      const reopened = changeStreamOpened(pageB);
+      await setHidden(pageB, false);
+      await reopened;
+      await pageB.getByRole('cell', { name: '42.5 g' }).waitFor();
+      expect(await pageB.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(
+        true,
+      );
+      expect(await pageB.getByLabel('Weight (g)', { exact: true }).inputValue()).toBe('39');
       expect(problems).toEqual([]);
     } finally {
       await contextA.close();
