@@ -24,11 +24,21 @@ import { createEvidenceHandlers } from './evidence-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 import { constraintError } from './constraint-errors.js';
 import { createWorkstationHandlers } from './workstation-handlers.js';
+import { createDatabaseHandlers } from './database-handlers.js';
+import { sqliteOnlyHandle } from './sqlite-only-handle.js';
+import { postgresSchemaVersion } from '../../db/postgres-connection.js';
+import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
 
 export type HandlerContext = {
-  readonly db: TidewingDatabase;
+  /**
+   * Transitional: the raw better-sqlite3 handle for repositories not yet on the shared query
+   * layer; null when the clinic is on PostgreSQL (their requests then answer `unavailable`).
+   */
+  readonly db: TidewingDatabase | null;
   /** The same clinic database behind the shared query layer (SQLite or PostgreSQL). */
   readonly clinic: ClinicDb;
+  /** How the database in use was chosen (Settings shows it); 'default' when not given. */
+  readonly databaseChoice?: DatabaseChoiceSource;
   readonly appVersion: string;
   readonly dataDirectory: string;
   readonly host: Host;
@@ -61,10 +71,11 @@ export function createHandlers(context: HandlerContext): HandlerTable {
  * The handler table and what the hosts read beside it: the theme this workstation pinned, which
  * they write into the page before it is shown (`data-theme`), so a pinned theme never flashes.
  */
-export function createBackEndParts(context: HandlerContext): {
+export function createBackEndParts(given: HandlerContext): {
   readonly handlers: HandlerTable;
   readonly workstationTheme: () => ThemeChoice;
 } {
+  const context = { ...given, db: given.db ?? sqliteOnlyHandle(given.clinic.location) };
   const settings = createSettingsRepository(context.db);
   const acknowledgements = createSafetyAcknowledgementRepository(context.db);
   const safetyStatus = () => ({
@@ -80,9 +91,12 @@ export function createBackEndParts(context: HandlerContext): {
   );
 
   const handlers: HandlerTable = {
-    'app:info': () => ({
+    'app:info': async () => ({
       appVersion: context.appVersion,
-      schemaVersion: schemaVersion(context.db),
+      schemaVersion:
+        context.clinic.engine === 'postgresql'
+          ? await postgresSchemaVersion(context.clinic)
+          : schemaVersion(context.db),
       dataDirectory: context.dataDirectory,
       host: context.host,
     }),
@@ -122,6 +136,12 @@ export function createBackEndParts(context: HandlerContext): {
     ...createDrugHandlers(context.db, context.now, context.clinic),
     ...createEvidenceHandlers(context.db, context.now, context.clinic),
     ...workstationHandlers,
+    ...createDatabaseHandlers({
+      clinic: context.clinic,
+      dataDirectory: context.dataDirectory,
+      host: context.host,
+      chosenBy: context.databaseChoice ?? 'default',
+    }),
   };
   return { handlers, workstationTheme };
 }
