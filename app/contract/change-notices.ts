@@ -70,6 +70,10 @@ export const changeNoticesOf: { readonly [C in ChannelName]: NoticeRule<C> } = {
   'settings:save': () => [{ kind: 'settings' }],
   'database:export-json': 'read-only',
   'database:backups': 'read-only',
+  'database:current': 'read-only',
+  'database:test-connection': 'read-only',
+  // Writes this workstation's own workstation.json (its database at the next start), not clinic data.
+  'database:save-address': 'read-only',
 
   'species:list': 'read-only',
   'species:history': 'read-only',

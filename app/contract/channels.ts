@@ -7,6 +7,7 @@ import { drugChannels } from './drug-channels.js';
 import { worksheetChannels } from './worksheet-channels.js';
 import { evidenceChannels } from './evidence-channels.js';
 import { workstationChannels } from './workstation.js';
+import { databaseChannels } from './database-channels.js';
 
 const empty = z.object({}).strict();
 
@@ -46,6 +47,7 @@ export const channels = {
   ...worksheetChannels,
   ...evidenceChannels,
   ...workstationChannels,
+  ...databaseChannels,
 } as const;
 
 export type Channels = typeof channels;

@@ -11,6 +11,11 @@ import { createBackEndParts, createDispatcher, type Dispatcher, type HandlerTabl
 import type { ThemeChoice } from '../../app/contract/workstation.js';
 import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
 import { createChangeSource, publishingChanges, type ChangeSource } from './change-notices.js';
+import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
+import { openCheckedPostgresClinic } from '../../db/postgres-checks.js';
+import type { AddressSource } from '../../db/postgres-options.js';
+import { workstationIdentity } from './workstation-identity.js';
+import { backEndApplicationName, listenForChanges } from '../../db/change-listener.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
@@ -127,4 +132,143 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
       if (db.open) db.close();
     },
   };
+}
+
+/** A PostgreSQL clinic database to start on, and where its address came from. */
+export type DatabaseChoice = {
+  readonly url: string;
+  readonly source: AddressSource;
+  /** A password the desktop keeps sealed by the system keychain, opened (see PasswordKeeper). */
+  readonly keptPassword?: string | null;
+};
+
+export type StartOptions = BackEndOptions & {
+  /** The PostgreSQL database to use; null or absent for the file in the data folder. */
+  readonly database?: DatabaseChoice | null;
+  /** Where pg's password look-up reads PGPASSWORD and PGPASSFILE (the process's environment by default). */
+  readonly env?: NodeJS.ProcessEnv;
+};
+
+/** A started back end on either engine, as the hosts use it. */
+export type StartedBackEnd = {
+  readonly clinic: ClinicDb;
+  readonly dispatch: Dispatcher;
+  /** Change notices of this back end's writes and, on PostgreSQL, of other workstations'. */
+  readonly changes: ChangeSource;
+  /** Settles when the start-up writes are done (see `BackEnd.ready`). */
+  readonly ready: Promise<void>;
+  readonly handlers: HandlerTable;
+  readonly workstationTheme: () => ThemeChoice;
+  readonly backupSettled: Promise<string>;
+  /** The database file, or the server address without its password. */
+  readonly location: string;
+  close(): Promise<void>;
+};
+
+/** Where the clinic's IT is told how to back up a PostgreSQL clinic database. */
+export const serverBackupGuide = 'docs/postgresql.md ("Backups on the server")';
+
+/**
+ * Starts the back end on the database chosen at start. Without a PostgreSQL address it is
+ * exactly `startBackEnd` (the file in the data folder, the start-up guard, the automatic
+ * backup). With one, the address is checked and opened (`openCheckedPostgresClinic`: the
+ * password never from the data folder, a superuser role and a newer schema refused), the server
+ * in use is logged without its password, and the file backup is skipped: the server's own
+ * backup is the clinic IT's (see docs/postgresql.md). The data folder still holds this
+ * workstation's identity (workstation.json).
+ */
+export async function startBackEndOn(options: StartOptions): Promise<StartedBackEnd> {
+  const choice = options.database ?? null;
+  if (choice === null) {
+    const started = startBackEnd(options);
+    return {
+      clinic: started.clinic,
+      dispatch: started.dispatch,
+      changes: started.changes,
+      ready: started.ready,
+      handlers: started.handlers,
+      workstationTheme: started.workstationTheme,
+      backupSettled: started.backupSettled,
+      location: started.databaseFile,
+      close: async () => {
+        started.close();
+        return Promise.resolve();
+      },
+    };
+  }
+  fs.mkdirSync(options.dataDirectory, { recursive: true });
+  workstationIdentity(options.dataDirectory);
+  const applicationName = backEndApplicationName();
+  const opened = await openCheckedPostgresClinic(choice.url, {
+    applicationName,
+    source: choice.source,
+    ...(options.env === undefined ? {} : { env: options.env }),
+    ...(choice.keptPassword === undefined ? {} : { keptPassword: choice.keptPassword }),
+    ...(options.openOptions?.migrations === undefined ? {} : { migrations: options.openOptions.migrations }),
+  });
+  for (const warning of opened.warnings) options.log?.(`Warning: ${warning}`);
+  options.log?.(
+    `Clinic database: PostgreSQL ${opened.serverVersion} at ${opened.location} (${describeSource(choice.source)}).`,
+  );
+  const clinic = opened.clinic;
+  const now = options.now ?? (() => new Date());
+  const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
+    db: null,
+    clinic,
+    appVersion: options.appVersion,
+    dataDirectory: options.dataDirectory,
+    host: options.host,
+    now,
+    databaseChoice: choice.source,
+  });
+  // As on SQLite: the shipped species seeded (several workstations may start together; the
+  // seeding skips what another wrote first), the demo clinic into an empty clinic, the theme read.
+  const ready = (async () => {
+    await createSpeciesRepository(clinic).seedReference(speciesReference, now());
+    if (options.demoClinic === true) {
+      const written = await writeDemoClinic(clinic, now());
+      options.log?.(
+        written > 0
+          ? `Demo clinic: ${String(written)} invented procedure records written.`
+          : 'Demo clinic not written: this clinic already holds patients.',
+      );
+    }
+    await loadWorkstationTheme();
+  })();
+  ready.catch(() => undefined);
+  const changes = createChangeSource(options.log);
+  // Other workstations' writes reach this one's screens through LISTEN/NOTIFY (migration 11).
+  const listening = listenForChanges(opened.config, changes.publish, {
+    ownApplicationName: applicationName,
+    ...(options.log === undefined ? {} : { log: options.log }),
+  });
+  const skipped = `No file backup at start: the clinic database is on the server ${opened.location}; its backups are made on the server, see ${serverBackupGuide}.`;
+  if (options.automaticBackup === true) options.log?.(skipped);
+  return {
+    clinic,
+    dispatch: publishingChanges(createDispatcher(handlers, options.log, ready), changes),
+    changes,
+    ready,
+    handlers,
+    workstationTheme,
+    backupSettled: Promise.resolve(skipped),
+    location: opened.location,
+    close: async () => {
+      await listening.close();
+      await clinic.close();
+    },
+  };
+}
+
+function describeSource(source: DatabaseChoiceSource): string {
+  switch (source) {
+    case 'command line':
+      return 'named by --database';
+    case 'environment':
+      return 'named by TIDEWING_DATABASE_URL';
+    case 'saved':
+      return 'saved in Settings on this workstation';
+    case 'default':
+      return 'the default';
+  }
 }

@@ -26,11 +26,21 @@ import { constraintError } from './constraint-errors.js';
 import { createWorkstationHandlers } from './workstation-handlers.js';
 import { workstationIdOf } from './workstation-identity.js';
 import { ConcurrentChangeError } from './concurrent-change.js';
+import { createDatabaseHandlers } from './database-handlers.js';
+import { sqliteOnlyHandle } from './sqlite-only-handle.js';
+import { postgresSchemaVersion } from '../../db/postgres-connection.js';
+import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
 
 export type HandlerContext = {
-  readonly db: TidewingDatabase;
+  /**
+   * Transitional: the raw better-sqlite3 handle for repositories not yet on the shared query
+   * layer; null when the clinic is on PostgreSQL (their requests then answer `unavailable`).
+   */
+  readonly db: TidewingDatabase | null;
   /** The same clinic database behind the shared query layer (SQLite or PostgreSQL). */
   readonly clinic: ClinicDb;
+  /** How the database in use was chosen (Settings shows it); 'default' when not given. */
+  readonly databaseChoice?: DatabaseChoiceSource;
   readonly appVersion: string;
   readonly dataDirectory: string;
   readonly host: Host;
@@ -63,12 +73,13 @@ export function createHandlers(context: HandlerContext): HandlerTable {
  * The handler table and what the hosts read beside it: the theme this workstation pinned, which
  * they write into the page before it is shown (`data-theme`), so a pinned theme never flashes.
  */
-export function createBackEndParts(context: HandlerContext): {
+export function createBackEndParts(given: HandlerContext): {
   readonly handlers: HandlerTable;
   readonly workstationTheme: () => ThemeChoice;
   /** Reads the pinned theme into `workstationTheme`; the back end awaits it before the first dispatch. */
   readonly loadWorkstationTheme: () => Promise<void>;
 } {
+  const context = { ...given, db: given.db ?? sqliteOnlyHandle(given.clinic.location) };
   const settings = createSettingsRepository(context.clinic);
   const acknowledgements = createSafetyAcknowledgementRepository(context.clinic);
   const safetyStatus = async () => ({
@@ -84,9 +95,12 @@ export function createBackEndParts(context: HandlerContext): {
   } = createWorkstationHandlers(context.clinic, context.dataDirectory, context.now);
 
   const handlers: HandlerTable = {
-    'app:info': () => ({
+    'app:info': async () => ({
       appVersion: context.appVersion,
-      schemaVersion: schemaVersion(context.db),
+      schemaVersion:
+        context.clinic.engine === 'postgresql'
+          ? await postgresSchemaVersion(context.clinic)
+          : schemaVersion(context.db),
       dataDirectory: context.dataDirectory,
       host: context.host,
     }),
@@ -129,6 +143,12 @@ export function createBackEndParts(context: HandlerContext): {
     ...createDrugHandlers(context.db, context.now, context.clinic),
     ...createEvidenceHandlers(context.db, context.now, context.clinic),
     ...workstationHandlers,
+    ...createDatabaseHandlers({
+      clinic: context.clinic,
+      dataDirectory: context.dataDirectory,
+      host: context.host,
+      chosenBy: context.databaseChoice ?? 'default',
+    }),
   };
   return { handlers, workstationTheme, loadWorkstationTheme };
 }

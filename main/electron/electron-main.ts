@@ -1,9 +1,22 @@
-import { app, BrowserWindow, dialog, ipcMain, protocol, session, type WebContents } from 'electron';
+import {
+  app,
+  BrowserWindow,
+  dialog,
+  ipcMain,
+  protocol,
+  safeStorage,
+  session,
+  type WebContents,
+} from 'electron';
 import fs from 'node:fs';
 import path from 'node:path';
 import { channelNames, type ParsedRequestOf, type ResponseOf } from '../../app/contract/channels.js';
 import { restoreDatabase } from '../../db/restore.js';
-import { startBackEnd, type BackEnd } from '../back-end/back-end.js';
+import { startBackEndOn, type DatabaseChoice, type StartedBackEnd } from '../back-end/back-end.js';
+import { createDatabaseHandlers, type PasswordKeeper } from '../back-end/database-handlers.js';
+import { readSavedDatabase } from '../back-end/saved-database.js';
+import { PostgresConnectionError } from '../../db/postgres-checks.js';
+import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
 import { databaseFile } from '../back-end/data-directory.js';
 import { createDispatcher, HandlerError } from '../back-end/handlers.js';
 import { StartRefusedError } from '../back-end/start-up-guard.js';
@@ -55,7 +68,7 @@ function harden(): void {
   });
 }
 
-function registerProtocol(root: string, backEnd: BackEnd): void {
+function registerProtocol(root: string, backEnd: StartedBackEnd): void {
   const folder = rendererDirectory(root);
   protocol.handle(scheme, async (request) => {
     const url = new URL(request.url);
@@ -69,7 +82,37 @@ function registerProtocol(root: string, backEnd: BackEnd): void {
   });
 }
 
-function registerChannels(backEnd: BackEnd): void {
+/**
+ * The system keychain behind Electron's safeStorage, when the operating system offers one: the
+ * desktop may then keep a PostgreSQL password, sealed, in workstation.json.
+ */
+function keychain(): PasswordKeeper | undefined {
+  if (!safeStorage.isEncryptionAvailable()) return undefined;
+  return {
+    seal: (password) => safeStorage.encryptString(password).toString('base64'),
+    open: (sealed) => safeStorage.decryptString(Buffer.from(sealed, 'base64')),
+  };
+}
+
+function registerChannels(
+  backEnd: StartedBackEnd,
+  dataDirectory: string,
+  chosenBy: DatabaseChoiceSource,
+): void {
+  // The desktop answers the database channels with the keychain, so a password typed in
+  // Settings is kept sealed instead of being refused.
+  const keeper = keychain();
+  const handlers = {
+    ...backEnd.handlers,
+    ...createDatabaseHandlers({
+      clinic: backEnd.clinic,
+      dataDirectory,
+      host: 'desktop',
+      chosenBy,
+      ...(keeper === undefined ? {} : { keeper }),
+    }),
+  };
+  const dispatch = createDispatcher(handlers);
   ipcMain.on('tidewing:channel-list', (event) => {
     event.returnValue = isOwnFrame(event.senderFrame?.url) ? channelNames : [];
   });
@@ -88,12 +131,12 @@ function registerChannels(backEnd: BackEnd): void {
         // The one channel the desktop answers itself: it needs the asking window. The request and
         // the answer still pass the contract's schemas in the shared dispatcher.
         const desktop = createDispatcher({
-          ...backEnd.handlers,
+          ...handlers,
           'worksheets:save-pdf': (request) => saveWorksheetPdf(event.sender, request),
         });
         return desktop(channel, payload);
       }
-      return backEnd.dispatch(channel, payload);
+      return dispatch(channel, payload);
     });
   }
 }
@@ -102,7 +145,7 @@ function registerChannels(backEnd: BackEnd): void {
 const changeMessage = 'tidewing:change';
 
 /** Forwards every change notice of the back end to each Tidewing window. */
-function forwardChanges(backEnd: BackEnd): void {
+function forwardChanges(backEnd: StartedBackEnd): void {
   backEnd.changes.subscribe((notice) => {
     for (const window of BrowserWindow.getAllWindows()) {
       const contents = window.webContents;
@@ -233,11 +276,13 @@ async function main(): Promise<void> {
   const root = findProjectRoot();
   const dataDirectory = dataDirectoryFromArguments(process.argv) ?? app.getPath('userData');
   const binding = electronSqliteBinding(root);
-  let backEnd: BackEnd | null = null;
+  const database = desktopDatabase(dataDirectory);
+  let backEnd: StartedBackEnd | null = null;
   // A second try only after the guard's screen restored a backup.
   for (let attempt = 0; backEnd === null && attempt < 2; attempt += 1) {
     try {
-      backEnd = startBackEnd({
+      backEnd = await startBackEndOn({
+        database,
         dataDirectory,
         appVersion: readAppVersion(root),
         host: 'desktop',
@@ -248,7 +293,9 @@ async function main(): Promise<void> {
       });
     } catch (error) {
       if (error instanceof StartRefusedError && (await offerRestore(error, dataDirectory, binding))) continue;
-      if (!(error instanceof StartRefusedError))
+      if (error instanceof PostgresConnectionError)
+        dialog.showErrorBox('Tidewing cannot reach the clinic database', error.message);
+      else if (!(error instanceof StartRefusedError))
         dialog.showErrorBox(
           'Tidewing cannot open its database',
           error instanceof Error ? error.message : String(error),
@@ -275,13 +322,29 @@ async function main(): Promise<void> {
   }
   harden();
   registerProtocol(root, backEnd);
-  registerChannels(backEnd);
+  registerChannels(backEnd, dataDirectory, database?.source ?? 'default');
   forwardChanges(backEnd);
   app.on('window-all-closed', () => {
-    backEnd.close();
-    app.quit();
+    void backEnd.close().finally(() => app.quit());
   });
   await createWindow(root);
+}
+
+/**
+ * The database the window starts on: TIDEWING_DATABASE_URL (npm start passes --database this
+ * way), else the address saved in Settings with the password the keychain keeps for it, else
+ * the file in the data folder.
+ */
+function desktopDatabase(dataDirectory: string): DatabaseChoice | null {
+  const fromEnvironment = process.env['TIDEWING_DATABASE_URL'];
+  if (fromEnvironment !== undefined && fromEnvironment.trim() !== '')
+    return { url: fromEnvironment.trim(), source: 'environment' };
+  const saved = readSavedDatabase(dataDirectory);
+  if (saved.address === null) return null;
+  const keeper = keychain();
+  const keptPassword =
+    saved.sealedPassword === null || keeper === undefined ? null : keeper.open(saved.sealedPassword);
+  return { url: saved.address, source: 'saved', keptPassword };
 }
 
 void main();

@@ -7,12 +7,22 @@ export type StartArguments = {
   readonly newClinic: boolean;
   /** `--demo`: an empty clinic is filled with the invented demo clinic. */
   readonly demo: boolean;
+  /**
+   * `--database postgresql://...` or TIDEWING_DATABASE_URL (the option wins): the clinic
+   * database on a PostgreSQL server; null for the embedded SQLite file (or the address saved in
+   * Settings, which start.ts reads from the data folder).
+   */
+  readonly database: { readonly url: string; readonly source: 'command line' | 'environment' } | null;
 };
+
+/** The environment variable naming a PostgreSQL clinic database. */
+export const databaseUrlVariable = 'TIDEWING_DATABASE_URL';
 
 export class ArgumentError extends Error {}
 
 /**
- * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser] [--new-clinic] [--demo]`.
+ * Parses `npm start -- [--port N] [--data DIR] [--no-open] [--browser] [--new-clinic] [--demo]
+ * [--database postgresql://user@host:port/dbname]`.
  * `--port 0` (the default) takes any free port.
  */
 export function parseStartArguments(argv: readonly string[], env: NodeJS.ProcessEnv = {}): StartArguments {
@@ -22,6 +32,11 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
   let forceBrowser = false;
   let newClinic = false;
   let demo = false;
+  const fromEnvironment = env[databaseUrlVariable];
+  let database: StartArguments['database'] =
+    fromEnvironment === undefined || fromEnvironment.trim() === ''
+      ? null
+      : { url: fromEnvironment.trim(), source: 'environment' };
   for (let index = 0; index < argv.length; index += 1) {
     const argument = argv[index];
     const next = () => {
@@ -57,11 +72,20 @@ export function parseStartArguments(argv: readonly string[], env: NodeJS.Process
       case '--demo':
         demo = true;
         break;
+      case '--database': {
+        const url = next();
+        if (!/^postgres(ql)?:\/\//.test(url))
+          throw new ArgumentError(
+            `--database takes a PostgreSQL address, postgresql://user@host:5432/database; got "${url}". Without --database the clinic is the file in the data folder.`,
+          );
+        database = { url, source: 'command line' };
+        break;
+      }
       default:
         throw new ArgumentError(
-          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser, --new-clinic, --demo.`,
+          `Unknown option "${String(argument)}". Options: --port N, --data DIR, --no-open, --browser, --new-clinic, --demo, --database postgresql://user@host:5432/database.`,
         );
     }
   }
-  return { port, dataDirectory, open, forceBrowser, newClinic, demo };
+  return { port, dataDirectory, open, forceBrowser, newClinic, demo, database };
 }

@@ -1,7 +1,9 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { ArgumentError, parseStartArguments } from './arguments.js';
-import { startBackEnd } from '../back-end/back-end.js';
+import { startBackEndOn, type DatabaseChoice } from '../back-end/back-end.js';
+import { readSavedDatabase } from '../back-end/saved-database.js';
+import { PostgresConnectionError } from '../../db/postgres-checks.js';
 import { StartRefusedError } from '../back-end/start-up-guard.js';
 import { defaultDataDirectory } from '../back-end/data-directory.js';
 import { electronAvailability } from './electron-availability.js';
@@ -40,7 +42,11 @@ async function main(): Promise<number> {
     if (args.dataDirectory !== null) electronArgs.push('--data', path.resolve(args.dataDirectory));
     if (args.newClinic) electronArgs.push('--new-clinic');
     if (args.demo) electronArgs.push('--demo');
-    const child = spawn(availability.binary, electronArgs, { stdio: 'inherit' });
+    // The address goes to the window's process in its environment, not its command line, which
+    // other users of the computer can read.
+    const childEnv =
+      args.database === null ? process.env : { ...process.env, TIDEWING_DATABASE_URL: args.database.url };
+    const child = spawn(availability.binary, electronArgs, { stdio: 'inherit', env: childEnv });
     return new Promise((resolve) => child.on('close', (code) => resolve(code ?? 1)));
   }
 
@@ -48,17 +54,18 @@ async function main(): Promise<number> {
   const appVersion = readAppVersion(root);
   let backEnd;
   try {
-    backEnd = startBackEnd({
+    backEnd = await startBackEndOn({
       dataDirectory,
       appVersion,
       host: 'browser',
       automaticBackup: true,
       newClinic: args.newClinic,
       demoClinic: args.demo,
+      database: chosenDatabase(args.database, dataDirectory),
       log: (message) => process.stderr.write(`${message}\n`),
     });
   } catch (error) {
-    if (error instanceof StartRefusedError) {
+    if (error instanceof StartRefusedError || error instanceof PostgresConnectionError) {
       process.stderr.write(`tidewing: Tidewing did not start.\n${error.message}\n`);
       return 1;
     }
@@ -91,6 +98,7 @@ async function main(): Promise<number> {
     `Tidewing ${appVersion}: the desktop window cannot open because ${availability.reason}; serving the app to a browser on this computer instead.\n`,
   );
   process.stdout.write(`Data folder: ${dataDirectory}\n`);
+  process.stdout.write(`Clinic database: ${backEnd.location}\n`);
   process.stdout.write(`Open: ${host.url}\n`);
   process.stdout.write(
     `(ready in ${Math.round(performance.now() - startedAt)} ms; the address works once; press Ctrl+C to stop)\n`,
@@ -102,14 +110,26 @@ async function main(): Promise<number> {
       void host
         .close()
         .then(() => backEnd.backupSettled)
-        .then(() => {
-          backEnd.close();
-          resolve(0);
-        });
+        .then(() => backEnd.close())
+        .then(() => resolve(0));
     };
     process.once('SIGINT', stop);
     process.once('SIGTERM', stop);
   });
+}
+
+/**
+ * The database to start on: `--database` or TIDEWING_DATABASE_URL, else the address saved in
+ * Settings on this workstation (its password from PGPASSWORD or the password file: a password
+ * the desktop keeps sealed cannot be opened here), else the file in the data folder.
+ */
+function chosenDatabase(
+  given: { readonly url: string; readonly source: 'command line' | 'environment' } | null,
+  dataDirectory: string,
+): DatabaseChoice | null {
+  if (given !== null) return given;
+  const saved = readSavedDatabase(dataDirectory);
+  return saved.address === null ? null : { url: saved.address, source: 'saved' };
 }
 
 main().then(

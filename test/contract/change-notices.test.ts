@@ -9,8 +9,11 @@ import { channelNames } from '../../app/contract/channels.js';
 
 /** Verbs of channels that change clinic data; such a channel may never be marked read-only. */
 const writeVerbs = /:(add|create|correct|void|save|save-comparison|choose|exclude|set-[a-z-]+|acknowledge)$/;
-/** The one channel with a write verb that changes nothing in the clinic database (it writes a PDF file). */
-const writesNoClinicData = new Set(['worksheets:save-pdf']);
+/**
+ * Channels with a write verb that change nothing in the clinic database: a PDF file, and this
+ * workstation's own choice of database for its next start (workstation.json).
+ */
+const writesNoClinicData = new Set(['worksheets:save-pdf', 'database:save-address']);
 
 const stamp = {
   versionId: 7,

@@ -11,6 +11,7 @@ describe('start arguments', () => {
       forceBrowser: false,
       newClinic: false,
       demo: false,
+      database: null,
     });
   });
 
@@ -27,7 +28,26 @@ describe('start arguments', () => {
       forceBrowser: true,
       newClinic: true,
       demo: true,
+      database: null,
     });
+  });
+
+  it('reads --database and TIDEWING_DATABASE_URL, the option winning', () => {
+    const option = ['--database', 'postgresql://tidewing@clinic-server:5432/heron_lane'];
+    expect(parseStartArguments(option, {}).database).toEqual({
+      url: 'postgresql://tidewing@clinic-server:5432/heron_lane',
+      source: 'command line',
+    });
+    const env = { TIDEWING_DATABASE_URL: ' postgres://reader@10.0.0.5/clinic ' };
+    expect(parseStartArguments([], env).database).toEqual({
+      url: 'postgres://reader@10.0.0.5/clinic',
+      source: 'environment',
+    });
+    expect(parseStartArguments(option, env).database?.source).toBe('command line');
+    expect(parseStartArguments([], { TIDEWING_DATABASE_URL: '' }).database).toBeNull();
+    expect(() => parseStartArguments(['--database', '/srv/tidewing.db'], {})).toThrow(
+      /--database takes a PostgreSQL address, postgresql:\/\/user@host:5432\/database; got "\/srv\/tidewing.db"/,
+    );
   });
 
   it('does not open a browser when CI is set', () => {

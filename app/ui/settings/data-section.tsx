@@ -9,6 +9,8 @@ import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 export function DataSection() {
   const [info] = useChannel('app:info', {});
   const [backups] = useChannel('database:backups', {});
+  const [database] = useChannel('database:current', {});
+  const onServer = database.state === 'ready' && database.value.engine === 'postgresql';
   const [status, setStatus] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
 
@@ -28,13 +30,20 @@ export function DataSection() {
   return (
     <section className="panel data-section" aria-labelledby="data-title">
       <h2 id="data-title">Data and backups</h2>
-      {info.state === 'ready' && (
+      {onServer && (
+        <p>
+          The clinic database is on the server <code>{database.value.location}</code> (schema version{' '}
+          {info.state === 'ready' ? info.value.schemaVersion : '…'}). Its backups are made on the server by
+          the clinic’s IT (see docs/postgresql.md); this workstation makes no backup file at start.
+        </p>
+      )}
+      {!onServer && info.state === 'ready' && (
         <p>
           The clinic database is in <code>{info.value.dataDirectory}</code> (schema version{' '}
           {info.value.schemaVersion}).
         </p>
       )}
-      {backups.state === 'ready' && (
+      {!onServer && backups.state === 'ready' && (
         <p>
           Tidewing makes a backup in <code>{backups.value.folder}</code> at every start and keeps the last 10.{' '}
           {backups.value.backups[0] === undefined

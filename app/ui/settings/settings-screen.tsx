@@ -15,6 +15,7 @@ import { api } from '../common/bridge.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { Choice, TextField } from '../common/fields.js';
 import { DataSection } from './data-section.js';
+import { ClinicDatabaseSection } from './clinic-database-section.js';
 import { EmergencyDrugs } from './emergency-drugs.js';
 import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { focusMainHeading, useFocusFirstError } from '../common/screen-focus.js';
@@ -164,6 +165,7 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
       )}
       <WorkstationSection />
       {!firstRun && <EmergencyDrugs />}
+      {!firstRun && <ClinicDatabaseSection />}
       {!firstRun && <DataSection />}
     </section>
   );
