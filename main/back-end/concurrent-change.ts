@@ -87,11 +87,13 @@ export async function refuseConcurrentChange<T>(options: {
   readonly later: () => Promise<LaterVersion | null>;
   readonly now: () => Date;
   readonly field?: string;
+  /** A repository's own refusal of a version that is no longer the newest (read before writing). */
+  readonly isStale?: (error: unknown) => boolean;
 }): Promise<T> {
   try {
     return await options.write();
   } catch (error) {
-    if (!isCorrectionClash(error)) throw error;
+    if (!isCorrectionClash(error) && options.isStale?.(error) !== true) throw error;
     const later = await options.later();
     throw new ConcurrentChangeError(
       concurrentChangeMessage(options.noun, later, options.now()),

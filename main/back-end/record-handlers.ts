@@ -58,15 +58,6 @@ function refuse(problem: string | null, field: string): void {
   if (problem !== null) throw new RecordError('invalid-request', problem, field);
 }
 
-async function conflictOnStaleCorrection<T>(write: () => T | Promise<T>): Promise<T> {
-  try {
-    return await write();
-  } catch (error) {
-    if (error instanceof WeightCorrectionError) throw new RecordError('conflict', error.message, 'id');
-    throw error;
-  }
-}
-
 /** Handlers for species, patients, weights, procedure records and entries. */
 export function createRecordHandlers(
   db: TidewingDatabase,
@@ -207,19 +198,28 @@ export function createRecordHandlers(
       );
       return weights.add(request.patientId, request.values, request.meta, now());
     },
-    'weights:correct': (request) =>
-      conflictOnStaleCorrection(async () => {
-        // A correction always carries a reason, which is what lets an old date stand.
-        refuse(weighingDateProblem(request.values.weighedOn, today(), true), 'values.weighedOn');
-        return found(
-          await weights.correct(request.id, request.values, request.meta, now()),
-          `Weight ${request.id}`,
-        );
-      }),
-    'weights:void': (request) =>
-      conflictOnStaleCorrection(async () =>
-        found(await weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
-      ),
+    'weights:correct': async (request) => {
+      // A correction always carries a reason, which is what lets an old date stand.
+      refuse(weighingDateProblem(request.values.weighedOn, today(), true), 'values.weighedOn');
+      const corrected = await refuseConcurrentChange({
+        noun: 'weight',
+        now,
+        isStale: (error) => error instanceof WeightCorrectionError,
+        write: () => weights.correct(request.id, request.values, request.meta, now()),
+        later: () => laterVersion(clinic, 'weights', request.id),
+      });
+      return found(corrected, `Weight ${request.id}`);
+    },
+    'weights:void': async (request) => {
+      const voided = await refuseConcurrentChange({
+        noun: 'weight',
+        now,
+        isStale: (error) => error instanceof WeightCorrectionError,
+        write: () => weights.void(request.id, request.meta, now()),
+        later: () => laterVersion(clinic, 'weights', request.id),
+      });
+      return found(voided, `Weight ${request.id}`);
+    },
     'weights:history': (request) => weights.history(request.id),
 
     'procedures:create': async (request) => {

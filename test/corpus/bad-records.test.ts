@@ -519,7 +519,7 @@ describe('bad records are refused, naming the field, with the database unchanged
       clinic,
       'weights:correct',
       { id: clinic.ids.weight, values: validWeight, meta: correction },
-      { code: 'conflict', field: 'id', says: 'already been corrected' },
+      { code: 'conflict', field: 'id', says: 'already corrected by' },
     );
     expect(fingerprint(clinic.db)).toBe(before);
   });

@@ -229,10 +229,11 @@ describe('weight channels', () => {
       values: pipWeight,
       meta: correctionBy('MK', 'Also fixing'),
     });
-    expect(stale).toMatchObject({
-      code: 'conflict',
-      message: 'That weight has already been corrected; correct its newest version.',
-    });
+    // Who corrected it first, when and why; the clock shows the workstation's local time.
+    expect(stale).toMatchObject({ code: 'conflict', field: 'id' });
+    expect(stale.message).toMatch(
+      /^Not saved: this weight was already corrected by RW at \d\d:\d\d \(reason: Typed an extra zero\)\. Your change was not applied; reload to see the current weight\.$/,
+    );
     const noReason = await api.refusal('weights:correct', {
       id: fixed.id,
       values: pipWeight,
