@@ -15,7 +15,9 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type PlanChannel = keyof typeof planChannels;
-type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type PlanHandlerTable = {
+  [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 
 function openItems(plan: SavedPlan): number {
   return (
@@ -28,29 +30,29 @@ function openItems(plan: SavedPlan): number {
 export function createPlanHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): PlanHandlerTable {
-  const species = createSpeciesRepository(db);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
+  const species = createSpeciesRepository(clinic);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
   const plans = createPlanRepository(db);
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
   // read-only arrays into the plain shape the contract stores.
-  const compute = (input: PlanInput) =>
-    planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
+  const compute = async (input: PlanInput) =>
+    planResultSchema.parse(computePlan(input, { species: (await species.list()).map(speciesToReference) }));
 
-  function toStore(fields: PlanFields, reasonGiven: boolean) {
-    if (fields.patientId !== null && patients.get(fields.patientId) === null)
+  async function toStore(fields: PlanFields, reasonGiven: boolean) {
+    if (fields.patientId !== null && (await patients.get(fields.patientId)) === null)
       throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
     const dateProblem = plannedDateProblem(fields.plannedFor, localDateOf(now()), reasonGiven);
     if (dateProblem !== null) throw new RecordError('invalid-request', dateProblem, 'fields.plannedFor');
-    return { ...fields, result: compute(fields.input), modelVersion };
+    return { ...fields, result: await compute(fields.input), modelVersion };
   }
 
-  function summary(plan: SavedPlan) {
+  async function summary(plan: SavedPlan) {
     const comparison = plans.comparisonOf(plan.id);
-    const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+    const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
     return {
       id: plan.id,
       patientId: plan.patientId,
@@ -87,12 +89,12 @@ export function createPlanHandlers(
   }
 
   return {
-    'plans:save': (request) =>
-      plans.save(toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
-    'plans:save-comparison': (request) => {
+    'plans:save': async (request) =>
+      plans.save(await toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
+    'plans:save-comparison': async (request) => {
       const reasonGiven = request.meta.reason !== '';
-      const first = toStore(request.fields, reasonGiven);
-      const second = toStore(request.variantFields, reasonGiven);
+      const first = await toStore(request.fields, reasonGiven);
+      const second = await toStore(request.variantFields, reasonGiven);
       if (first.patientId !== second.patientId || first.plannedFor !== second.plannedFor)
         throw new RecordError(
           'invalid-request',
@@ -115,10 +117,10 @@ export function createPlanHandlers(
         throw new RecordError('invalid-request', 'This plan was not saved as part of a comparison.', 'id');
       return { chosenId: request.id };
     },
-    'plans:correct': (request) => {
+    'plans:correct': async (request) => {
       const saved = plans.correct(
         request.id,
-        toStore(request.fields, request.meta.reason !== ''),
+        await toStore(request.fields, request.meta.reason !== ''),
         request.meta,
         now(),
       );
@@ -132,15 +134,15 @@ export function createPlanHandlers(
         );
       return saved;
     },
-    'plans:get': (request) => {
+    'plans:get': async (request) => {
       const plan = plans.get(request.id);
       if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
-      const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+      const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
-      const speciesRecord = speciesKey === undefined ? null : species.get(speciesKey);
+      const speciesRecord = speciesKey === undefined ? null : await species.get(speciesKey);
       let weightTrendText: string | null = null;
       if (patient !== null) {
-        const list = weights.list(patient.id);
+        const list = await weights.list(patient.id);
         const range =
           speciesRecord === null
             ? null
@@ -188,13 +190,13 @@ export function createPlanHandlers(
           .map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
       };
     },
-    'plans:for-patient': (request) => plans.listForPatient(request.patientId).map(summary),
-    'plans:recent': (request) => plans.listRecent(request.limit).map(summary),
-    'plans:day': (request) => {
+    'plans:for-patient': (request) => Promise.all(plans.listForPatient(request.patientId).map(summary)),
+    'plans:recent': (request) => Promise.all(plans.listRecent(request.limit).map(summary)),
+    'plans:day': async (request) => {
       const list = plans.listForDay(request.date);
       const liquidMlByAgent: Record<string, number> = {};
       let oxygenL = 0;
-      const lines = list.map(summary);
+      const lines = await Promise.all(list.map(summary));
       // A compared plan the clinic did not choose is not given: the day's totals leave it out.
       const notChosen = new Set(lines.filter((line) => line.chosen === false).map((line) => line.id));
       for (const plan of list) {

@@ -20,7 +20,8 @@ function harness(): ChannelHarness {
 /** A harness holding the invented demo clinic (60 completed records). */
 async function demoHarness(): Promise<ChannelHarness> {
   const api = harness();
-  expect(await writeDemoClinic(api.backEnd.db, api.backEnd.clinic, api.clock.now)).toBe(60);
+  await api.backEnd.ready;
+  expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
   return api;
 }
 
