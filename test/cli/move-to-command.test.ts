@@ -58,7 +58,8 @@ const because = (reason: string) => ({ enteredBy: 'RW', reason });
 async function writeClinicWithHistory(): Promise<{ folder: string; databaseFile: string }> {
   const api = openChannelHarness();
   sharedCleanups.push(() => api.close());
-  expect(writeDemoClinic(api.backEnd.db, api.clock.now)).toBe(60);
+  await api.backEnd.ready;
+  expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
   await api.answer('settings:save', heronLaneSettings as never);
   await api.answer('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true } as never);
   const pip = await api.answer('patients:create', { values: validPatient, meta } as never);
