@@ -50,10 +50,12 @@ function WrittenBy({ entry }: { readonly entry: ProcedureEntry }) {
     <>
       {entry.stamp.enteredBy}
       {entry.workstationName !== null && (
-        <span className="record-workstation" title="Workstation that wrote this row">
+        <>
           {' '}
-          {entry.workstationName}
-        </span>
+          <span className="record-workstation" title="Workstation that wrote this row">
+            {entry.workstationName}
+          </span>
+        </>
       )}
     </>
   );
