@@ -2,7 +2,7 @@ import path from 'node:path';
 import pg from 'pg';
 import { heronLaneSettings } from '../../support/clinic-settings.js';
 import { pipValues } from '../../support/clinic-birds.js';
-import { startHostProcess, type RunningHost } from '../host-process.js';
+import { startHostProcess, type RunningHost } from './host-spawn.js';
 import { connectApi, type ApiClient } from './host-api-client.js';
 
 export type LoadOptions = {
