@@ -6,6 +6,7 @@ import { benchRecords } from './records-bench.js';
 import { benchWorksheet } from './worksheet-bench.js';
 import { benchPlanningScreen } from './planning-bench.js';
 import { benchEvidence } from './evidence-bench.js';
+import { benchWorkstationLoad } from './workstations-bench.js';
 
 const sections: Readonly<Record<string, () => Promise<void>>> = {
   foundation: async () => printFigures('Foundation', await benchFoundation()),
@@ -32,6 +33,11 @@ const sections: Readonly<Record<string, () => Promise<void>>> = {
     ),
   worksheet: async () => printFigures('Worksheet (target: PDF under 2 s)', await benchWorksheet()),
   evidence: async () => printFigures('Clinic evidence', await benchEvidence()),
+  workstations: async () =>
+    printFigures(
+      'Five workstations on one PostgreSQL database, 1 row/s each for 2 min, one host SIGKILLed and restarted',
+      await benchWorkstationLoad(),
+    ),
 };
 
 /**
