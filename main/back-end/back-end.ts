@@ -23,6 +23,11 @@ export type BackEnd = {
   readonly workstationTheme: () => ThemeChoice;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
+  /**
+   * Resolves when the demo clinic asked for with `demoClinic` is written (at once when none was
+   * asked for); rejects when it could not be written. A host awaits it before serving.
+   */
+  readonly demoWritten: Promise<void>;
   close(): void;
 };
 
@@ -63,14 +68,16 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
-  if (options.demoClinic === true) {
-    const written = writeDemoClinic(db, now());
-    options.log?.(
-      written > 0
-        ? `Demo clinic: ${String(written)} invented procedure records written.`
-        : 'Demo clinic not written: this clinic already holds patients.',
-    );
-  }
+  const demoWritten =
+    options.demoClinic === true
+      ? writeDemoClinic(clinic, now()).then((written) => {
+          options.log?.(
+            written > 0
+              ? `Demo clinic: ${String(written)} invented procedure records written.`
+              : 'Demo clinic not written: this clinic already holds patients.',
+          );
+        })
+      : Promise.resolve();
   const { handlers, workstationTheme } = createBackEndParts({
     db,
     clinic,
@@ -79,17 +86,22 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
+  // The backup at start copies the clinic once the demo clinic (if asked for) is in it.
+  const backUp = () =>
+    automaticBackupOnStart({
+      dataDirectory: options.dataDirectory,
+      databaseFile: file,
+      connection: db,
+      now: now(),
+    });
   const backupSettled =
     options.automaticBackup === true
-      ? automaticBackupOnStart({
-          dataDirectory: options.dataDirectory,
-          databaseFile: file,
-          connection: db,
-          now: now(),
-        }).then((result) => {
-          options.log?.(result.message);
-          return result.message;
-        })
+      ? (options.demoClinic === true ? demoWritten.catch(() => undefined).then(backUp) : backUp()).then(
+          (result) => {
+            options.log?.(result.message);
+            return result.message;
+          },
+        )
       : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
@@ -99,6 +111,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     databaseFile: file,
     workstationTheme,
     backupSettled,
+    demoWritten,
     close: () => {
       if (db.open) db.close();
     },

@@ -39,7 +39,9 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
-type EvidenceHandlerTable = { [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type EvidenceHandlerTable = {
+  [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>>;
+};
 type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
 
 /**
@@ -67,24 +69,24 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 export function createEvidenceHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): EvidenceHandlerTable {
-  const evidence = createEvidenceRepository(db);
+  const evidence = createEvidenceRepository(clinic);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
   const species = createSpeciesRepository(db);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
   const settings = createSettingsRepository(db);
-  const stored = createEvidenceCacheRepository(db);
+  const stored = createEvidenceCacheRepository(clinic);
   // Rows computed before, by record id, with the fingerprint they were computed for: read from
   // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
   let cache: Map<number, { key: string; row: ComputedRow }> | null = null;
 
-  function loadCache(): Map<number, { key: string; row: ComputedRow }> {
+  async function loadCache(): Promise<Map<number, { key: string; row: ComputedRow }>> {
     const loaded = new Map<number, { key: string; row: ComputedRow }>();
-    for (const [recordId, entry] of stored.all()) {
+    for (const [recordId, entry] of await stored.all()) {
       // Only rows of this build's format are read (the format is in the key); one that does not
       // parse is computed again.
       if (!entry.key.startsWith(`${rowFormat}|`)) continue;
@@ -97,11 +99,11 @@ export function createEvidenceHandlers(
     return loaded;
   }
 
-  function allRows(): { rows: EvidenceRow[]; inProgress: number } {
+  async function allRows(): Promise<{ rows: EvidenceRow[]; inProgress: number }> {
     const speciesList = species.list();
     const tables = { species: speciesList.map(speciesToReference) };
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
-    const exclusions = evidence.exclusions();
+    const exclusions = await evidence.exclusions();
     const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
@@ -110,7 +112,7 @@ export function createEvidenceHandlers(
       defaultAgent,
       speciesList.map((entry) => entry.stamp.versionId).join(','),
     ]);
-    cache ??= loadCache();
+    cache ??= await loadCache();
     const computed: { recordId: number; key: string; rowJson: string }[] = [];
     let inProgress = 0;
     const rows: EvidenceRow[] = [];
@@ -120,7 +122,7 @@ export function createEvidenceHandlers(
         ? { reason: entry.reason, enteredBy: entry.enteredBy, enteredAt: entry.enteredAt }
         : null;
     };
-    for (const { recordId, ended, key: recordKey } of evidence.recordFingerprints()) {
+    for (const { recordId, ended, key: recordKey } of await evidence.recordFingerprints()) {
       if (!ended) {
         inProgress += 1;
         continue;
@@ -144,7 +146,7 @@ export function createEvidenceHandlers(
         patientWeights[0] ??
         null;
       const exclusion = exclusionOf(recordId);
-      const planRecord = record.values.planId === null ? null : plans.get(record.values.planId);
+      const planRecord = record.values.planId === null ? null : await plans.get(record.values.planId);
       const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
       const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
       const base = {
@@ -209,7 +211,7 @@ export function createEvidenceHandlers(
       rows.push({ ...row, exclusion });
     }
     // Kept for the next start; a write the file refuses is skipped (the rows are computed again).
-    stored.store(computed, now());
+    await stored.store(computed, now());
     // Newest start first, as the records list shows them.
     rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
     return { rows, inProgress };
@@ -232,10 +234,10 @@ export function createEvidenceHandlers(
     return true;
   }
 
-  function list(filter: EvidenceFilter) {
+  async function list(filter: EvidenceFilter) {
     if (filter.from !== undefined && filter.to !== undefined && filter.to < filter.from)
       throw new RecordError('invalid-request', 'The "to" date is before the "from" date; swap them.', 'to');
-    const { rows, inProgress } = allRows();
+    const { rows, inProgress } = await allRows();
     const shown = rows.filter((row) => matches(row, filter));
     const skippedByMilestone = Object.fromEntries(evidenceMilestoneIds.map((id) => [id, 0])) as Record<
       EvidenceMilestoneId,
@@ -261,9 +263,9 @@ export function createEvidenceHandlers(
     };
   }
 
-  function calibration() {
-    const switchState = evidence.calibrationSwitch();
-    const { rows } = allRows();
+  async function calibration() {
+    const switchState = await evidence.calibrationSwitch();
+    const { rows } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
     const speciesList = species.list();
     const recordsIn = used
@@ -324,8 +326,8 @@ export function createEvidenceHandlers(
 
   return {
     'evidence:list': (request) => list(request),
-    'evidence:export-csv': (request) => {
-      const { rows } = list(request);
+    'evidence:export-csv': async (request) => {
+      const { rows } = await list(request);
       const csv = evidenceCsv(
         rows.map((row) => ({
           ...row,
@@ -337,7 +339,7 @@ export function createEvidenceHandlers(
       return { fileName: `tidewing-observed-vs-predicted-${day}.csv`, csv, rows: rows.length };
     },
     'evidence:calibration': () => calibration(),
-    'evidence:exclude': (request) => {
+    'evidence:exclude': async (request) => {
       const record = procedures.get(request.recordId);
       if (record === null)
         throw new RecordError(

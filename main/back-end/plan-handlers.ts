@@ -15,7 +15,7 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type PlanChannel = keyof typeof planChannels;
-type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>> };
 
 function openItems(plan: SavedPlan): number {
   return (
@@ -28,12 +28,12 @@ function openItems(plan: SavedPlan): number {
 export function createPlanHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): PlanHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
   // read-only arrays into the plain shape the contract stores.
@@ -48,8 +48,8 @@ export function createPlanHandlers(
     return { ...fields, result: compute(fields.input), modelVersion };
   }
 
-  function summary(plan: SavedPlan) {
-    const comparison = plans.comparisonOf(plan.id);
+  async function summary(plan: SavedPlan) {
+    const comparison = await plans.comparisonOf(plan.id);
     const patient = plan.patientId === null ? null : patients.get(plan.patientId);
     return {
       id: plan.id,
@@ -86,10 +86,17 @@ export function createPlanHandlers(
     };
   }
 
+  /** One plan at a time: a pool or the SQLite connection is not flooded by a long list. */
+  async function summaries(list: readonly SavedPlan[]) {
+    const lines = [];
+    for (const plan of list) lines.push(await summary(plan));
+    return lines;
+  }
+
   return {
-    'plans:save': (request) =>
+    'plans:save': async (request) =>
       plans.save(toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
-    'plans:save-comparison': (request) => {
+    'plans:save-comparison': async (request) => {
       const reasonGiven = request.meta.reason !== '';
       const first = toStore(request.fields, reasonGiven);
       const second = toStore(request.variantFields, reasonGiven);
@@ -101,8 +108,8 @@ export function createPlanHandlers(
         );
       return plans.saveComparison(first, second, request.meta, now());
     },
-    'plans:choose': (request) => {
-      const outcome = plans.choose(request.id, request.meta, now());
+    'plans:choose': async (request) => {
+      const outcome = await plans.choose(request.id, request.meta, now());
       if (outcome === 'not-found')
         throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       if (outcome === 'stale')
@@ -115,8 +122,8 @@ export function createPlanHandlers(
         throw new RecordError('invalid-request', 'This plan was not saved as part of a comparison.', 'id');
       return { chosenId: request.id };
     },
-    'plans:correct': (request) => {
-      const saved = plans.correct(
+    'plans:correct': async (request) => {
+      const saved = await plans.correct(
         request.id,
         toStore(request.fields, request.meta.reason !== ''),
         request.meta,
@@ -132,8 +139,8 @@ export function createPlanHandlers(
         );
       return saved;
     },
-    'plans:get': (request) => {
-      const plan = plans.get(request.id);
+    'plans:get': async (request) => {
+      const plan = await plans.get(request.id);
       if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       const patient = plan.patientId === null ? null : patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
@@ -166,7 +173,9 @@ export function createPlanHandlers(
         parts.push(...trend.flags.map((flag) => flag.message));
         weightTrendText = parts.length === 0 ? null : parts.join('; ');
       }
-      const comparison = plans.comparisonOf(plan.id);
+      const comparison = await plans.comparisonOf(plan.id);
+      const members = new Map<number, SavedPlan>();
+      for (const id of comparison?.planIds ?? []) members.set(id, (await plans.get(id)) as SavedPlan);
       return {
         plan,
         comparison:
@@ -175,7 +184,7 @@ export function createPlanHandlers(
             : {
                 chosenId: comparison.chosenId,
                 plans: comparison.planIds.map((id) => {
-                  const member = plans.get(id) as SavedPlan;
+                  const member = members.get(id) as SavedPlan;
                   const variantOf = member.variantOf === null ? null : (comparison.planIds[0] ?? null);
                   return { id, label: member.label, variantOf };
                 }),
@@ -183,18 +192,20 @@ export function createPlanHandlers(
         patient,
         species: speciesRecord,
         weightTrendText,
-        history: plans
-          .history(request.id)
-          .map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
+        history: (await plans.history(request.id)).map((version) => ({
+          id: version.id,
+          stamp: version.stamp,
+          modelVersion: version.modelVersion,
+        })),
       };
     },
-    'plans:for-patient': (request) => plans.listForPatient(request.patientId).map(summary),
-    'plans:recent': (request) => plans.listRecent(request.limit).map(summary),
-    'plans:day': (request) => {
-      const list = plans.listForDay(request.date);
+    'plans:for-patient': async (request) => summaries(await plans.listForPatient(request.patientId)),
+    'plans:recent': async (request) => summaries(await plans.listRecent(request.limit)),
+    'plans:day': async (request) => {
+      const list = await plans.listForDay(request.date);
       const liquidMlByAgent: Record<string, number> = {};
       let oxygenL = 0;
-      const lines = list.map(summary);
+      const lines = await summaries(list);
       // A compared plan the clinic did not choose is not given: the day's totals leave it out.
       const notChosen = new Set(lines.filter((line) => line.chosen === false).map((line) => line.id));
       for (const plan of list) {

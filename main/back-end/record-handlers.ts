@@ -23,7 +23,9 @@ import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
-type RecordHandlerTable = { [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type RecordHandlerTable = {
+  [C in RecordChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
+};
 
 /** A failure the dispatcher reports as `{ code, message, field? }`. */
 export class RecordError extends Error {
@@ -68,21 +70,21 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
 export function createRecordHandlers(
   db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): RecordHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
   const procedures = createProcedureRecordRepository(db);
   const entries = createProcedureEntryRepository(db);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
   /** Today on the back end's clock: the date the clinic is living in. */
   const today = () => localDateOf(now());
 
   /** A linked plan must exist and be a plan for this record's bird. */
-  function requireOwnPlan(planId: number | null, patientId: number) {
+  async function requireOwnPlan(planId: number | null, patientId: number) {
     if (planId === null) return;
-    const plan = plans.get(planId);
+    const plan = await plans.get(planId);
     if (plan === null)
       throw new RecordError(
         'invalid-request',
@@ -217,14 +219,14 @@ export function createRecordHandlers(
       ),
     'weights:history': (request) => weights.history(request.id),
 
-    'procedures:create': (request) => {
+    'procedures:create': async (request) => {
       found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
-      requireOwnPlan(request.values.planId, request.patientId);
+      await requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
-    'procedures:correct': (request) => {
+    'procedures:correct': async (request) => {
       const record = found(procedures.get(request.id), `Procedure record ${request.id}`);
-      requireOwnPlan(request.values.planId, record.patientId);
+      await requireOwnPlan(request.values.planId, record.patientId);
       requireEntriesWithin(request.id, request.values);
       return found(
         procedures.correct(request.id, request.values, request.meta, now()),

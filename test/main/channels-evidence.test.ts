@@ -18,15 +18,15 @@ function harness(): ChannelHarness {
 }
 
 /** A harness holding the invented demo clinic (60 completed records). */
-function demoHarness(): ChannelHarness {
+async function demoHarness(): Promise<ChannelHarness> {
   const api = harness();
-  expect(writeDemoClinic(api.backEnd.db, api.clock.now)).toBe(60);
+  expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
   return api;
 }
 
 describe('evidence channels', () => {
   it('evidence:list answers every completed record with observed, predicted and ratio, and counts the skipped', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const list = await api.answer('evidence:list', {});
     expect(list.counts.completed).toBe(60);
     expect(list.rows).toHaveLength(60);
@@ -51,7 +51,7 @@ describe('evidence channels', () => {
   });
 
   it('evidence:list filters by species, route, staff and dates, and refuses a reversed date range', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const cockatiels = await api.answer('evidence:list', { speciesKey: 'cockatiel' });
     expect(cockatiels.rows.length).toBe(16);
     expect(cockatiels.rows.every((row) => row.speciesKey === 'cockatiel')).toBe(true);
@@ -71,7 +71,7 @@ describe('evidence channels', () => {
   });
 
   it('evidence:export-csv gives one row per completed record after the header', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const exported = await api.answer('evidence:export-csv', {});
     const lines = exported.csv.trimEnd().split('\r\n');
     expect(exported.rows).toBe(60);
@@ -85,7 +85,7 @@ describe('evidence channels', () => {
   });
 
   it('evidence:calibration answers each milestone per species with its band and the records it rests on', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const calibration = await api.answer('evidence:calibration', {});
     expect(calibration.on).toBe(true);
     const standing = calibration.milestones.find((milestone) => milestone.id === 'standing');
@@ -103,7 +103,7 @@ describe('evidence channels', () => {
   });
 
   it('evidence:exclude leaves a record out with a reason, and the calibration no longer counts it', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const before = await api.answer('evidence:calibration', {});
     const list = await api.answer('evidence:list', {});
     const recordId = list.rows[0]?.recordId as number;
@@ -175,7 +175,7 @@ describe('evidence channels', () => {
   });
 
   it('evidence:list keeps its rows in the stored cache: after a restart none is run through the model again, a corrected record is', async () => {
-    const api = demoHarness();
+    const api = await demoHarness();
     const first = await api.answer('evidence:list', {});
     const storedAt = () =>
       new Map(
