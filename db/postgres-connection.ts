@@ -93,8 +93,6 @@ export async function migratePostgres(db: ClinicDb, list: readonly Migration[]):
       const current = now.rows[0]?.version ?? 0;
       if (current > list.length) throw new PostgresSchemaTooNewError(db.location, current, list.length);
       if (current >= migration.version) return;
-      if (migration.postgresql === undefined)
-        throw new Error(`Migration ${migration.name} has no PostgreSQL text yet.`);
       await sql.raw(migration.postgresql).execute(trx);
       await sql`UPDATE tidewing_schema SET version = ${migration.version}`.execute(trx);
     });

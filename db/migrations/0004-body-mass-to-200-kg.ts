@@ -8,6 +8,7 @@
  *
  * Dropping the old table runs no trigger (SQLite: "the implicit DELETE FROM does not cause any
  * SQL triggers to fire"), and only the table itself refers to its rows (corrects_id).
+ * PostgreSQL changes the CHECK in place (named in migration 2 for this).
  */
 export const bodyMassTo200KgMigration = {
   version: 4,
@@ -36,5 +37,11 @@ export const bodyMassTo200KgMigration = {
       BEGIN SELECT RAISE(ABORT, 'weights rows are never changed in place; add a correction'); END;
     CREATE TRIGGER weights_never_deleted BEFORE DELETE ON weights
       BEGIN SELECT RAISE(ABORT, 'weights rows are never deleted; add a correction that voids the row'); END;
+  `,
+  postgresql: `
+    -- PostgreSQL changes the CHECK in place: same table, rows, ids, index and triggers.
+    ALTER TABLE weights
+      DROP CONSTRAINT weights_mass_g_check,
+      ADD CONSTRAINT weights_mass_g_check CHECK (mass_g > 0 AND mass_g <= 200000);
   `,
 } as const;

@@ -9,4 +9,8 @@ export const dateFormatMigration = {
     ALTER TABLE clinic_settings ADD COLUMN date_format TEXT NOT NULL DEFAULT 'YYYY-MM-DD'
       CHECK (date_format IN ('YYYY-MM-DD', 'DD/MM/YYYY', 'MM/DD/YYYY', 'D MMM YYYY'));
   `,
+  postgresql: `
+    ALTER TABLE clinic_settings ADD COLUMN date_format text NOT NULL DEFAULT 'YYYY-MM-DD'
+      CHECK (date_format IN ('YYYY-MM-DD', 'DD/MM/YYYY', 'MM/DD/YYYY', 'D MMM YYYY'));
+  `,
 } as const;

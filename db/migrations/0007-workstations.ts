@@ -16,4 +16,13 @@ export const workstationsMigration = {
       updated_at TEXT NOT NULL CHECK (length(updated_at) >= 20)
     ) STRICT;
   `,
+  postgresql: `
+    CREATE TABLE workstations (
+      id text PRIMARY KEY CHECK (length(id) BETWEEN 8 AND 64),
+      name text NOT NULL CHECK (length(trim(name)) BETWEEN 1 AND 80),
+      theme text NOT NULL DEFAULT 'system' CHECK (theme IN ('system', 'light', 'dim')),
+      initials text NOT NULL DEFAULT '' CHECK (length(initials) <= 40),
+      updated_at text NOT NULL CHECK (length(updated_at) >= 20)
+    );
+  `,
 } as const;

@@ -21,4 +21,12 @@ export const evidencePredictionCacheMigration = {
       computed_at TEXT NOT NULL CHECK (length(computed_at) >= 20)
     ) STRICT;
   `,
+  postgresql: `
+    CREATE TABLE evidence_prediction_cache (
+      record_id integer PRIMARY KEY,
+      cache_key text NOT NULL CHECK (length(cache_key) > 0),
+      row_json text NOT NULL CHECK (tidewing_is_json(row_json)),
+      computed_at text NOT NULL CHECK (length(computed_at) >= 20)
+    );
+  `,
 } as const;

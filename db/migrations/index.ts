@@ -10,13 +10,15 @@ import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cac
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
- * two texts build the same tables, constraints and append-only rules in each dialect.
+ * two texts build the same tables, constraints and append-only rules in each dialect; their
+ * histories may differ where SQLite needs a table rebuild that PostgreSQL does in place, but
+ * after each step the schema means the same on both.
  */
 export type Migration = {
   readonly version: number;
   readonly name: string;
   readonly sql: string;
-  readonly postgresql?: string;
+  readonly postgresql: string;
 };
 
 /** Forward-only, numbered from 1 without gaps; each runs in one transaction. */
