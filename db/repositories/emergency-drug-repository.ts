@@ -50,7 +50,11 @@ function drugQueries(sql: Sql) {
   const db = sql.kysely.withTables<Tables>();
 
   async function newestVersion(drugId: number): Promise<DrugRow | null> {
-    const row = await db.selectFrom('emergency_drugs').selectAll().where('id', '=', drugId).executeTakeFirst();
+    const row = await db
+      .selectFrom('emergency_drugs')
+      .selectAll()
+      .where('id', '=', drugId)
+      .executeTakeFirst();
     if (row === undefined) return null;
     const later = await db
       .selectFrom('emergency_drugs')
@@ -106,7 +110,12 @@ export function createEmergencyDrugRepository(sql: Sql) {
       return queries.write(values, null, false, meta, at);
     },
     /** A new version of a drug; null when there is no such row. */
-    correct(drugId: number, values: EmergencyDrugValues, meta: Meta, at: Date): Promise<EmergencyDrug | null> {
+    correct(
+      drugId: number,
+      values: EmergencyDrugValues,
+      meta: Meta,
+      at: Date,
+    ): Promise<EmergencyDrug | null> {
       return writeTransaction(sql, async (tx) => {
         const inTx = drugQueries(tx);
         const previous = await inTx.newestVersion(drugId);
@@ -130,7 +139,9 @@ export function createEmergencyDrugRepository(sql: Sql) {
         .where(({ not, exists, selectFrom }) =>
           not(
             exists(
-              selectFrom('emergency_drugs as later').select('later.id').whereRef('later.corrects_id', '=', 'd.id'),
+              selectFrom('emergency_drugs as later')
+                .select('later.id')
+                .whereRef('later.corrects_id', '=', 'd.id'),
             ),
           ),
         )

@@ -27,7 +27,10 @@ export function createEvidenceCacheRepository(sql: Sql) {
       return new Map(rows.map((row) => [row.record_id, { key: row.cache_key, rowJson: row.row_json }]));
     },
     /** Stores (or replaces) computed rows in one transaction; false when the database refused the write. */
-    async store(rows: readonly { recordId: number; key: string; rowJson: string }[], at: Date): Promise<boolean> {
+    async store(
+      rows: readonly { recordId: number; key: string; rowJson: string }[],
+      at: Date,
+    ): Promise<boolean> {
       if (rows.length === 0) return true;
       const stamp = at.toISOString();
       try {

@@ -174,7 +174,9 @@ function planQueries(sql: Sql) {
       .selectFrom('plans as p')
       .selectAll('p')
       .where(({ not, exists, selectFrom }) =>
-        not(exists(selectFrom('plans as later').select('later.id').whereRef('later.corrects_id', '=', 'p.id'))),
+        not(
+          exists(selectFrom('plans as later').select('later.id').whereRef('later.corrects_id', '=', 'p.id')),
+        ),
       );
 
   return {
@@ -241,7 +243,11 @@ export function createPlanRepository(sql: Sql) {
       return { comparisonId, planIds, chosenId: await queries.newestOf(chosen ?? comparisonId) };
     },
     /** Records which plan of its comparison the clinic will use; the earlier choice stays as history. */
-    choose(planId: number, meta: Meta, at: Date): Promise<'not-found' | 'no-comparison' | 'stale' | 'chosen'> {
+    choose(
+      planId: number,
+      meta: Meta,
+      at: Date,
+    ): Promise<'not-found' | 'no-comparison' | 'stale' | 'chosen'> {
       return writeTransaction(sql, async (tx) => {
         const inTx = planQueries(tx);
         const plan = await inTx.byId(planId);

@@ -215,4 +215,18 @@ describe.each(testEngines)('evidence prediction cache on %s', (engine) => {
       { record_id: 600, computed_at: t1.toISOString() },
     ]);
   });
+
+  it('a write the database refuses is skipped whole: false, and the stored rows stay as they were', async (context) => {
+    const clinic = await openTestClinic(engine, context);
+    const cache = createEvidenceCacheRepository(clinic);
+    expect(await cache.store([{ recordId: 1, key: 'k1', rowJson: '{"recordId":1}' }], t0)).toBe(true);
+    // The table refuses a row that is not JSON; the good rows written with it are rolled back.
+    const refused = [
+      { recordId: 1, key: 'k2', rowJson: '{"recordId":1,"again":true}' },
+      { recordId: 2, key: 'k2', rowJson: '{"recordId":2}' },
+      { recordId: 3, key: 'k2', rowJson: '{not json' },
+    ];
+    expect(await cache.store(refused, t1)).toBe(false);
+    expect(await cache.all()).toEqual(new Map([[1, { key: 'k1', rowJson: '{"recordId":1}' }]]));
+  });
 });
