@@ -1,7 +1,10 @@
+import { sql } from 'kysely';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { ChannelName, RequestOf, ResponseOf } from '../../app/contract/channels.js';
 import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
-import { writeDemoClinic } from '../../main/back-end/demo-clinic.js';
+import { generateDemoClinic } from '../../app/core/evidence/demo-clinic.js';
+import { speciesReference } from '../../app/core/species-reference.js';
+import { demoSeed, writeDemoClinic, writeDemoRecords } from '../../main/back-end/demo-clinic.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
 import { correctionBy, enteredByRw, pipRadiographValues, pipValues } from '../support/clinic-birds.js';
 
@@ -232,5 +235,49 @@ describe('evidence channels', () => {
       'ZQ',
       first.rows[0]?.staffInitials,
     ]);
+  });
+});
+
+describe('the demo clinic (--demo)', () => {
+  const rowsIn = async (api: ChannelHarness, table: 'patients' | 'weights' | 'procedure_records') => {
+    const result = await sql<{ n: number }>`SELECT count(*) AS n FROM ${sql.table(table)}`.execute(
+      api.backEnd.clinic.kysely,
+    );
+    return Number(result.rows[0]?.n);
+  };
+
+  it('is written by the back end before it serves, once, and never into a clinic with patients', async () => {
+    const api = harness();
+    const messages: string[] = [];
+    api.backEnd.close();
+    const demoStart = startBackEnd({
+      dataDirectory: api.dataDirectory,
+      appVersion: '9.8.7',
+      host: 'browser',
+      now: () => api.clock.now,
+      demoClinic: true,
+      log: (message) => messages.push(message),
+    });
+    restarted.push(demoStart);
+    await demoStart.demoWritten;
+    expect(messages).toEqual(['Demo clinic: 60 invented procedure records written.']);
+    const list = await demoStart.dispatch('evidence:list', {});
+    expect(list.ok && (list.value as ResponseOf<'evidence:list'>).counts.completed).toBe(60);
+    expect(await writeDemoClinic(demoStart.clinic, api.clock.now)).toBe(0);
+  });
+
+  it('writes its patients, weights, records and entries in one transaction: a failure leaves none', async () => {
+    const api = harness();
+    const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
+    const first = demo.records[0];
+    if (first === undefined) throw new Error('the demo clinic has no record');
+    // The last record names a bird the demo does not have: the whole write is refused.
+    const broken = { ...demo, records: [...demo.records, { ...first, patientIndex: demo.patients.length }] };
+    await expect(writeDemoRecords(api.backEnd.clinic, broken, api.clock.now)).rejects.toThrow();
+    expect(await rowsIn(api, 'patients')).toBe(0);
+    expect(await rowsIn(api, 'weights')).toBe(0);
+    expect(await rowsIn(api, 'procedure_records')).toBe(0);
+    expect(await writeDemoRecords(api.backEnd.clinic, demo, api.clock.now)).toBe(60);
+    expect(await rowsIn(api, 'procedure_records')).toBe(60);
   });
 });
