@@ -238,6 +238,50 @@ describe('evidence channels', () => {
   });
 });
 
+describe('evidence:list over many records', () => {
+  it('reads stored rows with as many statements for 120 records as for 60: no query per record', async () => {
+    const api = harness();
+    api.backEnd.close();
+    const statements: string[] = [];
+    const openBackEnd = () => {
+      const backEnd = startBackEnd({
+        dataDirectory: api.dataDirectory,
+        appVersion: '9.8.7',
+        host: 'browser',
+        now: () => api.clock.now,
+        openOptions: { trace: (text) => statements.push(text) },
+      });
+      restarted.push(backEnd);
+      return backEnd;
+    };
+    /** The statements one evidence:list runs. */
+    const counted = async (backEnd: BackEnd) => {
+      statements.length = 0;
+      const answer = await backEnd.dispatch('evidence:list', {});
+      expect(answer.ok).toBe(true);
+      return statements.length;
+    };
+    const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
+    const first = openBackEnd();
+    expect(await writeDemoRecords(first.clinic, demo, api.clock.now)).toBe(60);
+    await counted(first);
+    const again60 = await counted(first);
+    first.close();
+    const restart60 = await counted(openBackEnd());
+
+    const second = openBackEnd();
+    expect(await writeDemoRecords(second.clinic, demo, api.clock.now)).toBe(60);
+    await counted(second);
+    expect(await counted(second)).toBe(again60);
+    second.close();
+    expect(await counted(openBackEnd())).toBe(restart60);
+    // Species, settings, exclusions and the fingerprints at least; the stored rows after a restart.
+    expect(again60).toBeGreaterThanOrEqual(4);
+    expect(restart60).toBeGreaterThan(again60);
+    expect(restart60).toBeLessThan(20);
+  });
+});
+
 describe('the demo clinic (--demo)', () => {
   const rowsIn = async (api: ChannelHarness, table: 'patients' | 'weights' | 'procedure_records') => {
     const result = await sql<{ n: number }>`SELECT count(*) AS n FROM ${sql.table(table)}`.execute(
