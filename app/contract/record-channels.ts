@@ -101,7 +101,17 @@ export const recordChannels = {
     response: procedureRecordSchema,
   },
   'procedures:correct': {
-    request: z.object({ id, values: procedureRecordValuesSchema, meta: correctionMetaSchema }),
+    request: z.object({
+      id,
+      /**
+       * The version of the details the correction replaces (the `stamp.versionId` the user saw).
+       * Refused with `conflict` when someone saved another correction of it first; without it the
+       * current version is corrected.
+       */
+      versionId: id.optional(),
+      values: procedureRecordValuesSchema,
+      meta: correctionMetaSchema,
+    }),
     response: procedureRecordSchema,
   },
   'procedures:recent': {

@@ -350,5 +350,7 @@ export const procedureEntrySchema = z.object({
   values: procedureEntryValues(storedRules),
   voided: z.boolean(),
   stamp: recordStampSchema,
+  /** The current name of the workstation that wrote this version; null when unknown (older rows). */
+  workstationName: z.string().nullable(),
 });
 export type ProcedureEntry = z.infer<typeof procedureEntrySchema>;

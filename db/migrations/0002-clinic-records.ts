@@ -65,11 +65,13 @@ function macColumnsPostgresql(agent: string): string {
   mac_${agent}_note text`;
 }
 
-// Table checks are named after the column to fill, so that a failure can point at its field.
+// PostgreSQL names a CHECK on one column after its table and column (`weights_mass_g_check`);
+// checks on two columns are named here the same way after their first column, so that a failure
+// can point at the field as SQLite's message (the check's text) does.
 function macChecksPostgresql(agent: string): string {
   return `
-  CONSTRAINT species_mac_${agent}_basis_paired_check CHECK ((mac_${agent}_pct IS NULL) = (mac_${agent}_basis IS NULL)),
-  CONSTRAINT species_mac_${agent}_measure_paired_check CHECK ((mac_${agent}_pct IS NULL) = (mac_${agent}_measure IS NULL))`;
+  CONSTRAINT species_mac_${agent}_pct_with_basis_check CHECK ((mac_${agent}_pct IS NULL) = (mac_${agent}_basis IS NULL)),
+  CONSTRAINT species_mac_${agent}_pct_with_measure_check CHECK ((mac_${agent}_pct IS NULL) = (mac_${agent}_measure IS NULL))`;
 }
 
 export const clinicRecordsMigration = {
@@ -268,13 +270,13 @@ export const clinicRecordsMigration = {
       common_name text NOT NULL CHECK (length(trim(common_name)) BETWEEN 1 AND 120),
       scientific_name text NOT NULL DEFAULT '' CHECK (length(scientific_name) <= 120),
       mass_min_g double precision NOT NULL CHECK (mass_min_g > 0),
-      mass_max_g double precision NOT NULL CHECK (mass_max_g >= mass_min_g AND mass_max_g <= 20000),
+      mass_max_g double precision NOT NULL CONSTRAINT species_mass_max_g_check CHECK (mass_max_g >= mass_min_g AND mass_max_g <= 20000),
       mass_basis text NOT NULL CHECK (length(trim(mass_basis)) > 0),
       heart_rate_min_per_min double precision CHECK (heart_rate_min_per_min IS NULL OR heart_rate_min_per_min > 0),
-      heart_rate_max_per_min double precision CHECK (heart_rate_max_per_min IS NULL OR heart_rate_max_per_min >= heart_rate_min_per_min),
+      heart_rate_max_per_min double precision CONSTRAINT species_heart_rate_max_per_min_check CHECK (heart_rate_max_per_min IS NULL OR heart_rate_max_per_min >= heart_rate_min_per_min),
       heart_rate_basis text,
       breaths_min_per_min double precision CHECK (breaths_min_per_min IS NULL OR breaths_min_per_min > 0),
-      breaths_max_per_min double precision CHECK (breaths_max_per_min IS NULL OR breaths_max_per_min >= breaths_min_per_min),
+      breaths_max_per_min double precision CONSTRAINT species_breaths_max_per_min_check CHECK (breaths_max_per_min IS NULL OR breaths_max_per_min >= breaths_min_per_min),
       breaths_basis text,
       ${macColumnsPostgresql('isoflurane')},
       ${macColumnsPostgresql('sevoflurane')},
@@ -283,9 +285,9 @@ export const clinicRecordsMigration = {
       apnoea_basis text,
       anatomy_notes_json text NOT NULL DEFAULT '[]' CHECK (tidewing_is_json(anatomy_notes_json) AND tidewing_json_type(anatomy_notes_json) = 'array'),
       ${recordColumnsPostgresql},
-      CONSTRAINT species_heart_rate_basis_paired_check CHECK ((heart_rate_min_per_min IS NULL) = (heart_rate_basis IS NULL)),
-      CONSTRAINT species_breaths_basis_paired_check CHECK ((breaths_min_per_min IS NULL) = (breaths_basis IS NULL)),
-      CONSTRAINT species_apnoea_basis_paired_check CHECK ((apnoea_mac_multiple IS NULL) = (apnoea_basis IS NULL)),
+      CONSTRAINT species_heart_rate_min_per_min_with_basis_check CHECK ((heart_rate_min_per_min IS NULL) = (heart_rate_basis IS NULL)),
+      CONSTRAINT species_breaths_min_per_min_with_basis_check CHECK ((breaths_min_per_min IS NULL) = (breaths_basis IS NULL)),
+      CONSTRAINT species_apnoea_mac_multiple_with_basis_check CHECK ((apnoea_mac_multiple IS NULL) = (apnoea_basis IS NULL)),
       ${macChecksPostgresql('isoflurane')},
       ${macChecksPostgresql('sevoflurane')},
       ${macChecksPostgresql('desflurane')}
@@ -418,7 +420,7 @@ export const clinicRecordsMigration = {
       drug_name text NOT NULL DEFAULT '' CHECK (length(drug_name) <= 120),
       drug_dose text NOT NULL DEFAULT '' CHECK (length(drug_dose) <= 120),
       ${recordColumnsPostgresql},
-      CONSTRAINT procedure_entries_event_type_paired_check CHECK ((kind = 'event') = (event_type IS NOT NULL))
+      CONSTRAINT procedure_entries_kind_with_event_type_check CHECK ((kind = 'event') = (event_type IS NOT NULL))
     );
     CREATE INDEX procedure_entries_record ON procedure_entries (record_id, at);
     ${immutablePostgresql('procedure_entries')}

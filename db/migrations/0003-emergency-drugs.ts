@@ -36,7 +36,7 @@ export const emergencyDrugsMigration = {
       name text NOT NULL CHECK (length(trim(name)) BETWEEN 1 AND 120),
       concentration_mg_per_ml double precision NOT NULL CHECK (concentration_mg_per_ml > 0 AND concentration_mg_per_ml <= 1000),
       dose_low_mg_per_kg double precision NOT NULL CHECK (dose_low_mg_per_kg > 0 AND dose_low_mg_per_kg <= 1000),
-      dose_high_mg_per_kg double precision CHECK (dose_high_mg_per_kg IS NULL OR (dose_high_mg_per_kg >= dose_low_mg_per_kg AND dose_high_mg_per_kg <= 1000)),
+      dose_high_mg_per_kg double precision CONSTRAINT emergency_drugs_dose_high_mg_per_kg_check CHECK (dose_high_mg_per_kg IS NULL OR (dose_high_mg_per_kg >= dose_low_mg_per_kg AND dose_high_mg_per_kg <= 1000)),
       route text NOT NULL CHECK (length(trim(route)) BETWEEN 1 AND 60),
       dose_source text NOT NULL CHECK (length(trim(dose_source)) BETWEEN 1 AND 300),
       notes text NOT NULL DEFAULT '' CHECK (length(notes) <= 500),

@@ -7,6 +7,7 @@ import { clinicEvidenceMigration } from './0006-clinic-evidence.js';
 import { workstationsMigration } from './0007-workstations.js';
 import { planVariantsMigration } from './0008-plan-variants.js';
 import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
+import { entryWorkstationsMigration } from './0010-entry-workstations.js';
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
@@ -32,6 +33,7 @@ export const migrations: readonly Migration[] = [
   workstationsMigration,
   planVariantsMigration,
   evidencePredictionCacheMigration,
+  entryWorkstationsMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -1,7 +1,7 @@
 import type { Patient, PatientSummary, PatientValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
 import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
 
 type PatientVersionRow = StampRow & {
   patient_id: number;
@@ -171,7 +171,7 @@ export function createPatientRepository(db: TidewingDatabase) {
     history(patientId: number): Patient[] {
       const row = currentRow.get(patientId);
       if (row === undefined) return [];
-      return chainIds(db, 'patient_versions', row.id).map((id) =>
+      return chainIdsSync(db, 'patient_versions', row.id).map((id) =>
         rowToPatient(versionRow.get(id) as PatientVersionRow),
       );
     },

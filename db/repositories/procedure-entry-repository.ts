@@ -1,10 +1,12 @@
+import type { Generated, Selectable } from 'kysely';
 import type { ProcedureEntry, ProcedureEntryValues } from '../../app/contract/records.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { chainIds, stampOf } from './version-chain.js';
 
-type EntryRow = StampRow & {
+type ProcedureEntriesTable = {
+  id: Generated<number>;
   record_id: number;
+  corrects_id: number | null;
   voided: number;
   at: string;
   kind: ProcedureEntryValues['kind'];
@@ -19,9 +21,22 @@ type EntryRow = StampRow & {
   event_note: string;
   drug_name: string;
   drug_dose: string;
+  entered_at: string;
+  entered_by: string;
+  reason: string;
+  /** The workstation that wrote the row (migration 10); null for rows written before it. */
+  workstation_id: string | null;
 };
 
-type Meta = { enteredBy: string; reason: string };
+/** Read here only for the name of the workstation that wrote each entry. */
+type WorkstationsTable = { id: string; name: string };
+
+type Tables = { procedure_entries: ProcedureEntriesTable; workstations: WorkstationsTable };
+
+type EntryRow = Selectable<ProcedureEntriesTable> & { workstation_name: string | null };
+
+/** Who wrote a row: initials and reason, and the workstation it was written on (null when unknown). */
+type Meta = { enteredBy: string; reason: string; workstationId?: string | null };
 
 function rowToEntry(row: EntryRow): ProcedureEntry {
   return {
@@ -44,97 +59,141 @@ function rowToEntry(row: EntryRow): ProcedureEntry {
       drugDose: row.drug_dose,
     },
     stamp: stampOf(row),
+    workstationName: row.workstation_name,
   };
 }
 
-export class EntryCorrectionError extends Error {}
+/**
+ * All SQL for procedure_entries: one row per time point or event; corrections are new rows. A
+ * correction or void names the version it replaces in `corrects_id`, which is UNIQUE: when
+ * another workstation corrected that version first, the database refuses the second one and
+ * nothing is overwritten (see main/back-end/concurrent-change.ts for what the user is told).
+ */
+export function createProcedureEntryRepository(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
 
-/** All SQL for procedure_entries: one row per time point or event; corrections are new rows. */
-export function createProcedureEntryRepository(db: TidewingDatabase) {
-  const insert = db.prepare(
-    `INSERT INTO procedure_entries (record_id, corrects_id, voided, at, kind, vapor_pct, oxygen_lpm, heart_rate_per_min, breaths_per_min,
-       temperature_c, etco2_mmhg, spo2_pct, event_type, event_note, drug_name, drug_dose, entered_at, entered_by, reason)
-     VALUES (@recordId, @correctsId, @voided, @at, @kind, @vaporPct, @oxygenLpm, @heartRatePerMin, @breathsPerMin,
-       @temperatureC, @etco2Mmhg, @spo2Pct, @eventType, @eventNote, @drugName, @drugDose, @enteredAt, @enteredBy, @reason)`,
-  );
-  const byId = db.prepare<[number], EntryRow>('SELECT * FROM procedure_entries WHERE id = ?');
-  const corrected = db.prepare<[number], { found: number }>(
-    'SELECT 1 AS found FROM procedure_entries WHERE corrects_id = ?',
-  );
-  const listCurrent = db.prepare<[number], EntryRow>(
-    `SELECT * FROM procedure_entries e WHERE record_id = ? AND voided = 0 AND NOT EXISTS (SELECT 1 FROM procedure_entries later WHERE later.corrects_id = e.id)
-     ORDER BY at, id`,
-  );
-  const listVoided = db.prepare<[number], EntryRow>(
-    `SELECT * FROM procedure_entries e WHERE record_id = ? AND voided = 1 AND NOT EXISTS (SELECT 1 FROM procedure_entries later WHERE later.corrects_id = e.id)
-     ORDER BY at, id`,
-  );
-  const correctedIds = db.prepare<[number], { id: number }>(
-    'SELECT DISTINCT corrects_id AS id FROM procedure_entries WHERE record_id = ? AND corrects_id IS NOT NULL',
-  );
+  /** Entries with the current name of the workstation that wrote each (by id; none when unknown). */
+  const entries = (from = db) =>
+    from
+      .selectFrom('procedure_entries as e')
+      .leftJoin('workstations as w', 'w.id', 'e.workstation_id')
+      .selectAll('e')
+      .select('w.name as workstation_name');
 
-  function newest(entryId: number): EntryRow | null {
-    const row = byId.get(entryId);
-    if (row === undefined) return null;
-    if (corrected.get(entryId) !== undefined)
-      throw new EntryCorrectionError('That entry has already been corrected; correct its newest version.');
-    return row;
+  /** A record's rows that nothing corrects, in time order. */
+  const currentOf = (recordId: number, voided: boolean) =>
+    entries()
+      .where('e.record_id', '=', recordId)
+      .where('e.voided', '=', voided ? 1 : 0)
+      .where(({ not, exists, selectFrom }) =>
+        not(
+          exists(
+            selectFrom('procedure_entries as later')
+              .select('later.id')
+              .whereRef('later.corrects_id', '=', 'e.id'),
+          ),
+        ),
+      )
+      .orderBy('e.at')
+      .orderBy('e.id');
+
+  async function byId(id: number, from = db): Promise<EntryRow | undefined> {
+    return entries(from).where('e.id', '=', id).executeTakeFirst();
   }
 
-  function write(
+  async function write(
+    tx: Sql,
     recordId: number,
     correctsId: number | null,
     voided: boolean,
     values: ProcedureEntryValues,
     meta: Meta,
     at: Date,
-  ): ProcedureEntry {
-    const id = Number(
-      insert.run({
-        ...values,
-        recordId,
-        correctsId,
+  ): Promise<ProcedureEntry> {
+    const from = tx.kysely.withTables<Tables>();
+    const inserted = await from
+      .insertInto('procedure_entries')
+      .values({
+        record_id: recordId,
+        corrects_id: correctsId,
         voided: voided ? 1 : 0,
-        enteredAt: at.toISOString(),
-        ...meta,
-      }).lastInsertRowid,
-    );
-    return rowToEntry(byId.get(id) as EntryRow);
+        at: values.at,
+        kind: values.kind,
+        vapor_pct: values.vaporPct,
+        oxygen_lpm: values.oxygenLpm,
+        heart_rate_per_min: values.heartRatePerMin,
+        breaths_per_min: values.breathsPerMin,
+        temperature_c: values.temperatureC,
+        etco2_mmhg: values.etco2Mmhg,
+        spo2_pct: values.spo2Pct,
+        event_type: values.eventType,
+        event_note: values.eventNote,
+        drug_name: values.drugName,
+        drug_dose: values.drugDose,
+        entered_at: at.toISOString(),
+        entered_by: meta.enteredBy,
+        reason: meta.reason,
+        workstation_id: meta.workstationId ?? null,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    return rowToEntry((await byId(inserted.id, from)) as EntryRow);
+  }
+
+  /** Writes a row replacing version `entryId`; null when there is no such entry. */
+  async function replace(
+    entryId: number,
+    voided: boolean,
+    values: ((previous: ProcedureEntry) => ProcedureEntryValues) | ProcedureEntryValues,
+    meta: Meta,
+    at: Date,
+  ): Promise<ProcedureEntry | null> {
+    return writeTransaction(sql, async (tx) => {
+      const row = await byId(entryId, tx.kysely.withTables<Tables>());
+      if (row === undefined) return null;
+      const previous = rowToEntry(row);
+      const next = typeof values === 'function' ? values(previous) : values;
+      return write(tx, previous.recordId, previous.id, voided, next, meta, at);
+    });
   }
 
   return {
     /** One insert, its own transaction: a committed entry survives a crash right after. */
-    add(recordId: number, values: ProcedureEntryValues, meta: Meta, at: Date): ProcedureEntry {
-      return write(recordId, null, false, values, meta, at);
+    async add(recordId: number, values: ProcedureEntryValues, meta: Meta, at: Date): Promise<ProcedureEntry> {
+      return write(sql, recordId, null, false, values, meta, at);
     },
-    correct(entryId: number, values: ProcedureEntryValues, meta: Meta, at: Date): ProcedureEntry | null {
-      return writeTransaction(db, () => {
-        const previous = newest(entryId);
-        return previous === null ? null : write(previous.record_id, previous.id, false, values, meta, at);
-      });
+    /**
+     * Saves `values` as the correction of version `entryId`. Refused by the database (UNIQUE
+     * `corrects_id`) when that version was already corrected or voided.
+     */
+    async correct(
+      entryId: number,
+      values: ProcedureEntryValues,
+      meta: Meta,
+      at: Date,
+    ): Promise<ProcedureEntry | null> {
+      return replace(entryId, false, values, meta, at);
     },
-    void(entryId: number, meta: Meta, at: Date): ProcedureEntry | null {
-      return writeTransaction(db, () => {
-        const previous = newest(entryId);
-        return previous === null
-          ? null
-          : write(previous.record_id, previous.id, true, rowToEntry(previous).values, meta, at);
-      });
+    /** Voids version `entryId`: a row with its values, marked voided. Refused like `correct`. */
+    async void(entryId: number, meta: Meta, at: Date): Promise<ProcedureEntry | null> {
+      return replace(entryId, true, (previous) => previous.values, meta, at);
     },
     /** Current entries of a record in time order, each flagged when it has earlier versions. */
-    list(recordId: number): (ProcedureEntry & { corrected: boolean })[] {
-      const withHistory = new Set(correctedIds.all(recordId).map((row) => row.id));
-      return listCurrent.all(recordId).map((row) => ({
-        ...rowToEntry(row),
-        corrected: row.corrects_id !== null && withHistory.has(row.corrects_id),
-      }));
+    async list(recordId: number): Promise<(ProcedureEntry & { corrected: boolean })[]> {
+      const rows = await currentOf(recordId, false).execute();
+      // A current row with `corrects_id` has an earlier version: it was corrected.
+      return rows.map((row) => ({ ...rowToEntry(row), corrected: row.corrects_id !== null }));
     },
     /** The rows that voided a row of the record (the values as they stood, who voided, when, why), in time order. */
-    voided(recordId: number): ProcedureEntry[] {
-      return listVoided.all(recordId).map(rowToEntry);
+    async voided(recordId: number): Promise<ProcedureEntry[]> {
+      return (await currentOf(recordId, true).execute()).map(rowToEntry);
     },
-    history(entryId: number): ProcedureEntry[] {
-      return chainIds(db, 'procedure_entries', entryId).map((id) => rowToEntry(byId.get(id) as EntryRow));
+    /** Every version of the entry holding `entryId`, newest first. */
+    async history(entryId: number): Promise<ProcedureEntry[]> {
+      const ids = await chainIds(sql, 'procedure_entries', entryId);
+      if (ids.length === 0) return [];
+      const rows = await entries().where('e.id', 'in', ids).orderBy('e.id', 'desc').execute();
+      return rows.map(rowToEntry);
     },
   };
 }

@@ -1,11 +1,14 @@
+import type { Generated, Selectable } from 'kysely';
 import type { ProcedureRecord, ProcedureRecordValues } from '../../app/contract/records.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { chainIds, stampOf } from './version-chain.js';
 
-type RecordVersionRow = StampRow & {
+type ProcedureRecordsTable = { id: Generated<number>; patient_id: number; created_at: string };
+
+type ProcedureRecordVersionsTable = {
+  id: Generated<number>;
   record_id: number;
-  patient_id: number;
+  corrects_id: number | null;
   plan_id: number | null;
   started_at: string;
   ended_at: string | null;
@@ -20,9 +23,22 @@ type RecordVersionRow = StampRow & {
   circuit: ProcedureRecordValues['circuit'];
   staff_initials: string;
   prompt_interval_min: number;
+  entered_at: string;
+  entered_by: string;
+  reason: string;
 };
 
+type Tables = {
+  procedure_records: ProcedureRecordsTable;
+  procedure_record_versions: ProcedureRecordVersionsTable;
+};
+
+type RecordVersionRow = Selectable<ProcedureRecordVersionsTable> & { patient_id: number };
+
 type Meta = { enteredBy: string; reason: string };
+
+/** A correction named a version of another record (or none that exists). */
+export class RecordVersionMismatchError extends Error {}
 
 function rowToRecord(row: RecordVersionRow): ProcedureRecord {
   return {
@@ -49,77 +65,148 @@ function rowToRecord(row: RecordVersionRow): ProcedureRecord {
 }
 
 /** All SQL for procedure_records and procedure_record_versions. */
-export function createProcedureRecordRepository(db: TidewingDatabase) {
-  const insertRecord = db.prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)');
-  const insertVersion = db.prepare(
-    `INSERT INTO procedure_record_versions (record_id, corrects_id, plan_id, started_at, ended_at, asa_grade, emergency, procedure_name, fasting,
-       crop_checked, airway, tube_size_mm, tube_type, circuit, staff_initials, prompt_interval_min, entered_at, entered_by, reason)
-     VALUES (@recordId, @correctsId, @planId, @startedAt, @endedAt, @asaGrade, @emergency, @procedureName, @fasting,
-       @cropChecked, @airway, @tubeSizeMm, @tubeType, @circuit, @staffInitials, @promptIntervalMin, @enteredAt, @enteredBy, @reason)`,
-  );
-  const select = `SELECT v.*, r.patient_id FROM procedure_record_versions v JOIN procedure_records r ON r.id = v.record_id`;
-  const current = db.prepare<[number], RecordVersionRow>(
-    `${select} WHERE v.record_id = ? AND NOT EXISTS (SELECT 1 FROM procedure_record_versions later WHERE later.corrects_id = v.id)`,
-  );
-  const byVersion = db.prepare<[number], RecordVersionRow>(`${select} WHERE v.id = ?`);
-  const forPatient = db.prepare<[number], RecordVersionRow>(
-    `${select} WHERE r.patient_id = ? AND NOT EXISTS (SELECT 1 FROM procedure_record_versions later WHERE later.corrects_id = v.id) ORDER BY v.started_at DESC`,
-  );
+export function createProcedureRecordRepository(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
 
-  const recent = db.prepare<[number], RecordVersionRow>(
-    `${select} WHERE NOT EXISTS (SELECT 1 FROM procedure_record_versions later WHERE later.corrects_id = v.id) ORDER BY v.started_at DESC, v.record_id DESC LIMIT ?`,
-  );
+  /** Each record version joined with its record's patient. */
+  const versions = (from = db) =>
+    from
+      .selectFrom('procedure_record_versions as v')
+      .innerJoin('procedure_records as r', 'r.id', 'v.record_id')
+      .selectAll('v')
+      .select('r.patient_id');
 
-  function parameters(
+  /** Only the versions nothing corrects: each record's current details. */
+  const currentVersions = (from = db) =>
+    versions(from).where(({ not, exists, selectFrom }) =>
+      not(
+        exists(
+          selectFrom('procedure_record_versions as later')
+            .select('later.id')
+            .whereRef('later.corrects_id', '=', 'v.id'),
+        ),
+      ),
+    );
+
+  async function current(recordId: number, from = db): Promise<RecordVersionRow | undefined> {
+    return currentVersions(from).where('v.record_id', '=', recordId).executeTakeFirst();
+  }
+
+  async function insertVersion(
+    tx: Sql,
     recordId: number,
     correctsId: number | null,
     values: ProcedureRecordValues,
     meta: Meta,
     at: Date,
-  ) {
-    return {
-      ...values,
-      emergency: values.emergency ? 1 : 0,
-      recordId,
-      correctsId,
-      enteredAt: at.toISOString(),
-      ...meta,
-    };
+  ): Promise<void> {
+    await tx.kysely
+      .withTables<Tables>()
+      .insertInto('procedure_record_versions')
+      .values({
+        record_id: recordId,
+        corrects_id: correctsId,
+        plan_id: values.planId,
+        started_at: values.startedAt,
+        ended_at: values.endedAt,
+        asa_grade: values.asaGrade,
+        emergency: values.emergency ? 1 : 0,
+        procedure_name: values.procedureName,
+        fasting: values.fasting,
+        crop_checked: values.cropChecked,
+        airway: values.airway,
+        tube_size_mm: values.tubeSizeMm,
+        tube_type: values.tubeType,
+        circuit: values.circuit,
+        staff_initials: values.staffInitials,
+        prompt_interval_min: values.promptIntervalMin,
+        entered_at: at.toISOString(),
+        entered_by: meta.enteredBy,
+        reason: meta.reason,
+      })
+      .execute();
   }
 
   return {
-    create(patientId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord {
-      return writeTransaction(db, () => {
-        const recordId = Number(insertRecord.run(patientId, at.toISOString()).lastInsertRowid);
-        insertVersion.run(parameters(recordId, null, values, meta, at));
-        return rowToRecord(current.get(recordId) as RecordVersionRow);
+    async create(
+      patientId: number,
+      values: ProcedureRecordValues,
+      meta: Meta,
+      at: Date,
+    ): Promise<ProcedureRecord> {
+      return writeTransaction(sql, async (tx) => {
+        const inserted = await tx.kysely
+          .withTables<Tables>()
+          .insertInto('procedure_records')
+          .values({ patient_id: patientId, created_at: at.toISOString() })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        await insertVersion(tx, inserted.id, null, values, meta, at);
+        return rowToRecord((await current(inserted.id, tx.kysely.withTables<Tables>())) as RecordVersionRow);
       });
     },
-    correct(recordId: number, values: ProcedureRecordValues, meta: Meta, at: Date): ProcedureRecord | null {
-      return writeTransaction(db, () => {
-        const previous = current.get(recordId);
+    /**
+     * Saves new details as a version correcting `versionId` (the version the user saw; the
+     * current one when not given). When another correction of that version was saved first the
+     * database refuses this one (`corrects_id` is UNIQUE): nothing is overwritten.
+     * @returns the record as corrected, or null when there is no such record
+     */
+    async correct(
+      recordId: number,
+      values: ProcedureRecordValues,
+      meta: Meta,
+      at: Date,
+      versionId?: number,
+    ): Promise<ProcedureRecord | null> {
+      return writeTransaction(sql, async (tx) => {
+        const from = tx.kysely.withTables<Tables>();
+        const previous = await current(recordId, from);
         if (previous === undefined) return null;
-        insertVersion.run(parameters(recordId, previous.id, values, meta, at));
-        return rowToRecord(current.get(recordId) as RecordVersionRow);
+        let correctsId = previous.id;
+        if (versionId !== undefined && versionId !== previous.id) {
+          const named = await from
+            .selectFrom('procedure_record_versions')
+            .select('record_id')
+            .where('id', '=', versionId)
+            .executeTakeFirst();
+          if (named?.record_id !== recordId)
+            throw new RecordVersionMismatchError(
+              `Version ${String(versionId)} is not a version of procedure record ${String(recordId)}.`,
+            );
+          correctsId = versionId;
+        }
+        await insertVersion(tx, recordId, correctsId, values, meta, at);
+        return rowToRecord((await current(recordId, from)) as RecordVersionRow);
       });
     },
-    get(recordId: number): ProcedureRecord | null {
-      const row = current.get(recordId);
+    async get(recordId: number): Promise<ProcedureRecord | null> {
+      const row = await current(recordId);
       return row === undefined ? null : rowToRecord(row);
     },
     /** The latest records across all patients, newest start first. */
-    listRecent(limit: number): ProcedureRecord[] {
-      return recent.all(limit).map(rowToRecord);
+    async listRecent(limit: number): Promise<ProcedureRecord[]> {
+      const rows = await currentVersions()
+        .orderBy('v.started_at', 'desc')
+        .orderBy('v.record_id', 'desc')
+        .limit(limit)
+        .execute();
+      return rows.map(rowToRecord);
     },
-    listForPatient(patientId: number): ProcedureRecord[] {
-      return forPatient.all(patientId).map(rowToRecord);
+    async listForPatient(patientId: number): Promise<ProcedureRecord[]> {
+      const rows = await currentVersions()
+        .where('r.patient_id', '=', patientId)
+        .orderBy('v.started_at', 'desc')
+        .orderBy('v.record_id', 'desc')
+        .execute();
+      return rows.map(rowToRecord);
     },
-    history(recordId: number): ProcedureRecord[] {
-      const row = current.get(recordId);
+    /** Every version of the record's details, newest first. */
+    async history(recordId: number): Promise<ProcedureRecord[]> {
+      const row = await current(recordId);
       if (row === undefined) return [];
-      return chainIds(db, 'procedure_record_versions', row.id).map((id) =>
-        rowToRecord(byVersion.get(id) as RecordVersionRow),
-      );
+      const ids = await chainIds(sql, 'procedure_record_versions', row.id);
+      const rows = await versions().where('v.id', 'in', ids).orderBy('v.id', 'desc').execute();
+      return rows.map(rowToRecord);
     },
   };
 }

@@ -4,7 +4,7 @@ import { storedBasis } from '../../app/core/sourced.js';
 import type { PotencyMeasure, SpeciesReference } from '../../app/core/species-reference.js';
 import type { TidewingDatabase } from '../connection.js';
 import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
 
 type SpeciesRow = StampRow & {
   species_key: string;
@@ -252,7 +252,7 @@ export function createSpeciesRepository(db: TidewingDatabase) {
     history(key: string): Species[] {
       const current = getCurrent.get(key);
       if (current === undefined) return [];
-      return chainIds(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
+      return chainIdsSync(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
     },
     add(values: SpeciesValues, meta: Meta, at: Date): Species {
       return writeTransaction(db, () =>

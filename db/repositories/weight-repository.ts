@@ -1,7 +1,7 @@
 import type { Weight, WeightValues } from '../../app/contract/records.js';
 import type { TidewingDatabase } from '../connection.js';
 import { writeTransaction } from '../write-transaction.js';
-import { chainIds, stampOf, type StampRow } from './version-chain.js';
+import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
 
 type WeightRow = StampRow & {
   patient_id: number;
@@ -109,7 +109,7 @@ export function createWeightRepository(db: TidewingDatabase) {
       return listCurrent.all(patientId).map(rowToWeight);
     },
     history(weightId: number): Weight[] {
-      return chainIds(db, 'weights', weightId).map((id) => rowToWeight(byId.get(id) as WeightRow));
+      return chainIdsSync(db, 'weights', weightId).map((id) => rowToWeight(byId.get(id) as WeightRow));
     },
   };
 }

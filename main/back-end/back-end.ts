@@ -23,11 +23,6 @@ export type BackEnd = {
   readonly workstationTheme: () => ThemeChoice;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
-  /**
-   * Resolves when the demo clinic asked for with `demoClinic` is written (at once when none was
-   * asked for); rejects when it could not be written. A host awaits it before serving.
-   */
-  readonly demoWritten: Promise<void>;
   close(): void;
 };
 
@@ -68,15 +63,21 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
   createSpeciesRepository(db).seedReference(speciesReference, now());
+  // The demo clinic is written before the first request is answered and before the backup.
   const demoWritten =
     options.demoClinic === true
-      ? writeDemoClinic(clinic, now()).then((written) => {
-          options.log?.(
-            written > 0
-              ? `Demo clinic: ${String(written)} invented procedure records written.`
-              : 'Demo clinic not written: this clinic already holds patients.',
-          );
-        })
+      ? writeDemoClinic(db, clinic, now()).then(
+          (written) =>
+            options.log?.(
+              written > 0
+                ? `Demo clinic: ${String(written)} invented procedure records written.`
+                : 'Demo clinic not written: this clinic already holds patients.',
+            ),
+          (error: unknown) =>
+            options.log?.(
+              `Demo clinic not written: ${error instanceof Error ? error.message : String(error)}`,
+            ),
+        )
       : Promise.resolve();
   const { handlers, workstationTheme } = createBackEndParts({
     db,
@@ -86,34 +87,41 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
-  // The backup at start copies the clinic once the demo clinic (if asked for) is in it.
-  const backUp = () =>
-    automaticBackupOnStart({
-      dataDirectory: options.dataDirectory,
-      databaseFile: file,
-      connection: db,
-      now: now(),
-    });
+  const dispatcher = createDispatcher(handlers, options.log);
   const backupSettled =
     options.automaticBackup === true
-      ? (options.demoClinic === true ? demoWritten.catch(() => undefined).then(backUp) : backUp()).then(
-          (result) => {
+      ? demoWritten
+          .then(() =>
+            automaticBackupOnStart({
+              dataDirectory: options.dataDirectory,
+              databaseFile: file,
+              connection: db,
+              now: now(),
+            }),
+          )
+          .then((result) => {
             options.log?.(result.message);
             return result.message;
-          },
-        )
+          })
       : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
     clinic,
-    dispatch: createDispatcher(handlers, options.log),
+    dispatch: options.demoClinic === true ? dispatchAfter(demoWritten, dispatcher) : dispatcher,
     handlers,
     databaseFile: file,
     workstationTheme,
     backupSettled,
-    demoWritten,
     close: () => {
       if (db.open) db.close();
     },
+  };
+}
+
+/** A dispatcher that answers only once `ready` has settled (the demo clinic written). */
+function dispatchAfter(ready: Promise<void>, dispatcher: Dispatcher): Dispatcher {
+  return async (channel, payload) => {
+    await ready;
+    return dispatcher(channel, payload);
   };
 }

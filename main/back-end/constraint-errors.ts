@@ -4,7 +4,7 @@ import type { ContractError } from '../../app/contract/result.js';
  * The database's own constraints (FOREIGN KEY, CHECK, UNIQUE, NOT NULL, the triggers that keep
  * records unchanged) are the last line behind the contract's schemas and the handlers' checks.
  * When one of them fires anyway, the clinic user gets the field to look at and what to do,
- * never SQLite's wording.
+ * never the database's wording (SQLite's or PostgreSQL's).
  */
 
 /** Plain names of fields a constraint can point at; other fields are named by their path. */
@@ -62,13 +62,80 @@ function pathOfKey(request: unknown, key: string): string | null {
   return null;
 }
 
-/** The request field a constraint message's column names (`weights.mass_g`, `mass_g > 0`), if any. */
-function fieldFromMessage(message: string, request: unknown): string | null {
-  const afterColon = message.slice(message.indexOf(':') + 1);
-  for (const word of afterColon.match(/[a-z][a-z0-9_]*/g) ?? []) {
+/** The first request field among `words`, column names such as `mass_g` (or `weights`), if any. */
+function fieldFromWords(words: readonly string[], request: unknown): string | null {
+  for (const word of words) {
     const path = pathOfKey(request, camelCase(word));
     if (path !== null) return path;
   }
+  return null;
+}
+
+/** Column names in SQLite's message after its colon (`weights.mass_g`, `mass_g > 0`). */
+function wordsOfSqliteMessage(message: string): string[] {
+  return message.slice(message.indexOf(':') + 1).match(/[a-z][a-z0-9_]*/g) ?? [];
+}
+
+/**
+ * The column a PostgreSQL CHECK is about, from its name: `weights_mass_g_check` names `mass_g`
+ * (PostgreSQL names a check after its table and first column; the migrations name table checks
+ * the same way, `species_heart_rate_min_per_min_with_basis_check`). Every leading run of words
+ * is offered, longest first, as SQLite's message offers its columns in order.
+ */
+function wordsOfPostgresCheck(constraint: string, table: string): string[] {
+  const inner = constraint.replace(new RegExp(`^${table}_`), '').replace(/_check\d*$/, '');
+  const parts = inner.split('_');
+  return parts.map((_part, index) => parts.slice(0, parts.length - index).join('_'));
+}
+
+/** The columns of a PostgreSQL unique violation's detail: `Key (species_key)=(kestrel) already exists.` */
+function wordsOfPostgresKey(detail: string): string[] {
+  const columns = /^Key \(([^)]*)\)=/.exec(detail)?.[1] ?? '';
+  return columns.split(',').map((column) => column.trim().replace(/^"|"$/g, ''));
+}
+
+type ConstraintKind = 'foreign key' | 'unique' | 'append-only' | 'not null' | 'check' | 'other';
+
+/** A constraint failure of either engine in one shape: its kind and the column names it gives. */
+type ConstraintFailure = { readonly kind: ConstraintKind; readonly words: readonly string[] };
+
+const sqliteKinds: Readonly<Record<string, ConstraintKind>> = {
+  SQLITE_CONSTRAINT_FOREIGNKEY: 'foreign key',
+  SQLITE_CONSTRAINT_UNIQUE: 'unique',
+  SQLITE_CONSTRAINT_PRIMARYKEY: 'unique',
+  SQLITE_CONSTRAINT_TRIGGER: 'append-only',
+  SQLITE_CONSTRAINT_NOTNULL: 'not null',
+  SQLITE_CONSTRAINT_CHECK: 'check',
+};
+
+/** The append-only triggers' wording, the same on both engines (see db/migrations). */
+const appendOnlyMessage = /^[a-z_]+ rows are never (changed in place|deleted);/;
+
+/** Reads a string field of a driver's error object. */
+function textField(error: Error, name: string): string {
+  const value = (error as Error & Record<string, unknown>)[name];
+  return typeof value === 'string' ? value : '';
+}
+
+/**
+ * better-sqlite3's SqliteError carries `code` SQLITE_CONSTRAINT_*; node-postgres's DatabaseError
+ * carries the SQLSTATE in `code` (class 23, or P0001 raised by the append-only triggers with
+ * their message) and `table`, `column`, `constraint`, `detail` fields.
+ */
+function constraintFailure(error: Error): ConstraintFailure | null {
+  const code = textField(error, 'code');
+  if (code.startsWith('SQLITE_CONSTRAINT'))
+    return { kind: sqliteKinds[code] ?? 'other', words: wordsOfSqliteMessage(error.message) };
+  if (textField(error, 'severity') === '') return null;
+  const table = textField(error, 'table');
+  const constraint = textField(error, 'constraint');
+  if (code === 'P0001' && appendOnlyMessage.test(error.message)) return { kind: 'append-only', words: [] };
+  if (code === '23503') return { kind: 'foreign key', words: [] };
+  if (code === '23505')
+    return { kind: 'unique', words: [...wordsOfPostgresKey(textField(error, 'detail')), constraint] };
+  if (code === '23502') return { kind: 'not null', words: [textField(error, 'column')] };
+  if (code === '23514') return { kind: 'check', words: wordsOfPostgresCheck(constraint, table) };
+  if (code.startsWith('23')) return { kind: 'other', words: [constraint] };
   return null;
 }
 
@@ -80,16 +147,16 @@ function labelOf(field: string): string {
 /**
  * A contract error for a database constraint failure, or null when `error` is not one.
  * @param channel the channel whose handler failed
- * @param error what the handler threw (better-sqlite3's SqliteError carries `code`)
+ * @param error what the handler threw (better-sqlite3's SqliteError or node-postgres's
+ *   DatabaseError, both with `code`)
  * @param request the parsed request, searched for the field a column belongs to
  */
 export function constraintError(channel: string, error: unknown, request: unknown): ContractError | null {
   if (!(error instanceof Error)) return null;
-  const code = (error as Error & { code?: unknown }).code;
-  if (typeof code !== 'string' || !code.startsWith('SQLITE_CONSTRAINT')) return null;
-  const message = error.message;
+  const failure = constraintFailure(error);
+  if (failure === null) return null;
 
-  if (code === 'SQLITE_CONSTRAINT_FOREIGNKEY') {
+  if (failure.kind === 'foreign key') {
     const field = foreignKeyField[channel] ?? pathOfKey(request, 'id') ?? '(request)';
     return {
       code: 'invalid-request',
@@ -97,19 +164,20 @@ export function constraintError(channel: string, error: unknown, request: unknow
       field,
     };
   }
-  if (code === 'SQLITE_CONSTRAINT_UNIQUE' || code === 'SQLITE_CONSTRAINT_PRIMARYKEY') {
-    const field = /corrects_id/.test(message)
+  if (failure.kind === 'unique') {
+    const correction = failure.words.some((word) => /corrects_id/.test(word));
+    const field = correction
       ? (pathOfKey(request, 'id') ?? 'id')
-      : (fieldFromMessage(message, request) ?? '(request)');
+      : (fieldFromWords(failure.words, request) ?? '(request)');
     return {
       code: 'conflict',
-      message: /corrects_id/.test(message)
+      message: correction
         ? 'This record was corrected by someone else since you opened it; open its newest version and correct that.'
         : `${labelOf(field)} is already used by another record; choose another.`,
       field,
     };
   }
-  if (code === 'SQLITE_CONSTRAINT_TRIGGER') {
+  if (failure.kind === 'append-only') {
     return {
       code: 'conflict',
       message:
@@ -118,11 +186,11 @@ export function constraintError(channel: string, error: unknown, request: unknow
     };
   }
   // CHECK, NOT NULL and any other constraint: point at the column's field when it can be found.
-  const field = fieldFromMessage(message, request) ?? '(request)';
+  const field = fieldFromWords(failure.words, request) ?? '(request)';
   return {
     code: 'invalid-request',
     message:
-      code === 'SQLITE_CONSTRAINT_NOTNULL'
+      failure.kind === 'not null'
         ? `${labelOf(field)} is required; fill it in and save again.`
         : `${labelOf(field)} has a value the clinic database does not accept; check it and save again.`,
     field,

@@ -1,6 +1,6 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
-import { writeTransaction, type ClinicDb } from '../../db/clinic-db.js';
+import { writeTransaction, type Sql } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
@@ -18,37 +18,31 @@ const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
  * patient is left alone: invented birds are never mixed with a clinic's own.
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
-export async function writeDemoClinic(clinic: ClinicDb, now: Date): Promise<number> {
-  const db = sqliteHandle(clinic);
+export async function writeDemoClinic(db: TidewingDatabase, clinic: Sql, now: Date): Promise<number> {
   if (createPatientRepository(db).count() > 0) return 0;
   const species = createSpeciesRepository(db).list();
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
-  return writeDemoRecords(clinic, demo, now);
-}
-
-/**
- * The SQLite handle for the repositories not yet on the shared query layer: on SQLite it is the
- * same connection as `clinic`, so their writes join the transaction begun through `clinic`.
- */
-function sqliteHandle(clinic: ClinicDb): TidewingDatabase {
-  if (clinic.sqlite === null)
-    throw new Error('The demo clinic can be written only to an SQLite clinic database for now.');
-  return clinic.sqlite;
+  return writeDemoRecords(db, clinic, demo, now);
 }
 
 /**
  * Writes a generated demo clinic's patients, weights, records and entries in one transaction.
  * @returns the number of procedure records written
  */
-export async function writeDemoRecords(clinic: ClinicDb, demo: DemoClinic, now: Date): Promise<number> {
-  const db = sqliteHandle(clinic);
-  return writeTransaction(clinic, async () => {
-    const patients = createPatientRepository(db);
-    const weights = createWeightRepository(db);
-    const records = createProcedureRecordRepository(db);
-    const entries = createProcedureEntryRepository(db);
+export async function writeDemoRecords(
+  db: TidewingDatabase,
+  clinic: Sql,
+  demo: DemoClinic,
+  now: Date,
+): Promise<number> {
+  const patients = createPatientRepository(db);
+  const weights = createWeightRepository(db);
+  // On SQLite the patients and weights (still on the raw handle) are written in this same transaction.
+  return writeTransaction(clinic, async (tx) => {
+    const records = createProcedureRecordRepository(tx);
+    const entries = createProcedureEntryRepository(tx);
     const patientIds = demo.patients.map((patient) => {
       const created = patients.create(
         {
@@ -74,7 +68,7 @@ export async function writeDemoRecords(clinic: ClinicDb, demo: DemoClinic, now: 
       return created.id;
     });
     for (const record of demo.records) {
-      const created = records.create(
+      const created = await records.create(
         patientIds[record.patientIndex] as number,
         {
           planId: null,
@@ -96,7 +90,7 @@ export async function writeDemoRecords(clinic: ClinicDb, demo: DemoClinic, now: 
         now,
       );
       for (const entry of record.entries)
-        entries.add(
+        await entries.add(
           created.id,
           { ...entry, etco2Mmhg: null, spo2Pct: null, eventNote: '', drugName: '', drugDose: '' },
           demoMeta,

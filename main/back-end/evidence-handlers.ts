@@ -40,7 +40,7 @@ import { RecordError } from './record-handlers.js';
 
 type EvidenceChannel = keyof typeof evidenceChannels & ChannelName;
 type EvidenceHandlerTable = {
-  [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>>;
+  [C in EvidenceChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
 };
 type ComputedRow = Omit<EvidenceRow, 'exclusion'>;
 
@@ -72,8 +72,8 @@ export function createEvidenceHandlers(
   clinic: ClinicDb,
 ): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(clinic);
-  const procedures = createProcedureRecordRepository(db);
-  const entries = createProcedureEntryRepository(db);
+  const procedures = createProcedureRecordRepository(clinic);
+  const entries = createProcedureEntryRepository(clinic);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
   const species = createSpeciesRepository(db);
@@ -133,12 +133,12 @@ export function createEvidenceHandlers(
         rows.push({ ...cached.row, exclusion: exclusionOf(recordId) });
         continue;
       }
-      const record = procedures.get(recordId);
+      const record = await procedures.get(recordId);
       if (record === null || record.values.endedAt === null) continue;
       const patient = patients.get(record.patientId);
       if (patient === null) continue;
       const speciesRecord = speciesByKey.get(patient.values.speciesKey);
-      const recordEntries = entries.list(record.id);
+      const recordEntries = await entries.list(record.id);
       const day = record.values.startedAt.slice(0, 10);
       const patientWeights = weights.list(patient.id);
       const weight =
@@ -340,7 +340,7 @@ export function createEvidenceHandlers(
     },
     'evidence:calibration': () => calibration(),
     'evidence:exclude': async (request) => {
-      const record = procedures.get(request.recordId);
+      const record = await procedures.get(request.recordId);
       if (record === null)
         throw new RecordError(
           'not-found',

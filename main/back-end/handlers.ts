@@ -24,6 +24,8 @@ import { createEvidenceHandlers } from './evidence-handlers.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 import { constraintError } from './constraint-errors.js';
 import { createWorkstationHandlers } from './workstation-handlers.js';
+import { workstationIdOf } from './workstation-identity.js';
+import { ConcurrentChangeError } from './concurrent-change.js';
 
 export type HandlerContext = {
   readonly db: TidewingDatabase;
@@ -117,7 +119,7 @@ export function createBackEndParts(context: HandlerContext): {
     'worksheets:save-pdf': () => {
       throw new HandlerError('unavailable', worksheetPdfUnavailableMessage);
     },
-    ...createRecordHandlers(context.db, context.now, context.clinic),
+    ...createRecordHandlers(context.db, context.now, context.clinic, workstationIdOf(context.dataDirectory)),
     ...createPlanHandlers(context.db, context.now, context.clinic),
     ...createDrugHandlers(context.db, context.now, context.clinic),
     ...createEvidenceHandlers(context.db, context.now, context.clinic),
@@ -174,7 +176,11 @@ export function createDispatcher(
       }
       return { ok: true, value: checked.data };
     } catch (error) {
-      if (error instanceof HandlerError || error instanceof RecordError) {
+      if (
+        error instanceof HandlerError ||
+        error instanceof RecordError ||
+        error instanceof ConcurrentChangeError
+      ) {
         return {
           ok: false,
           error: {

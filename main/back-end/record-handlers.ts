@@ -12,15 +12,17 @@ import { localTimeWithOffset } from '../../app/core/procedure-events.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
+import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import {
-  createProcedureEntryRepository,
-  EntryCorrectionError,
-} from '../../db/repositories/procedure-entry-repository.js';
-import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
+  createProcedureRecordRepository,
+  RecordVersionMismatchError,
+} from '../../db/repositories/procedure-record-repository.js';
+import { laterVersion } from '../../db/repositories/version-chain.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
 import type { TidewingDatabase } from '../../db/connection.js';
+import { refuseConcurrentChange } from './concurrent-change.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
 type RecordHandlerTable = {
@@ -60,8 +62,7 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
   try {
     return write();
   } catch (error) {
-    if (error instanceof WeightCorrectionError || error instanceof EntryCorrectionError)
-      throw new RecordError('conflict', error.message, 'id');
+    if (error instanceof WeightCorrectionError) throw new RecordError('conflict', error.message, 'id');
     throw error;
   }
 }
@@ -71,12 +72,14 @@ export function createRecordHandlers(
   db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
+  /** This workstation's id, stamped on each entry it writes (null when it cannot be read). */
+  workstationId: () => string | null = () => null,
 ): RecordHandlerTable {
   const species = createSpeciesRepository(db);
   const patients = createPatientRepository(db);
   const weights = createWeightRepository(db);
-  const procedures = createProcedureRecordRepository(db);
-  const entries = createProcedureEntryRepository(db);
+  const procedures = createProcedureRecordRepository(clinic);
+  const entries = createProcedureEntryRepository(clinic);
   const plans = createPlanRepository(clinic);
   /** Today on the back end's clock: the date the clinic is living in. */
   const today = () => localDateOf(now());
@@ -100,10 +103,10 @@ export function createRecordHandlers(
   }
 
   /** A record's new start and end must still hold every entry already logged in it. */
-  function requireEntriesWithin(recordId: number, values: ProcedureRecordValues) {
-    const outside = entries
-      .list(recordId)
-      .find((entry) => entryTimeProblem(entry.values.at, values, now()) !== null);
+  async function requireEntriesWithin(recordId: number, values: ProcedureRecordValues) {
+    const outside = (await entries.list(recordId)).find(
+      (entry) => entryTimeProblem(entry.values.at, values, now()) !== null,
+    );
     if (outside === undefined) return;
     const early = Date.parse(outside.values.at) < Date.parse(values.startedAt);
     throw new RecordError(
@@ -114,8 +117,8 @@ export function createRecordHandlers(
   }
 
   /** An entry's time must lie within its record's span, with the stated tolerances. */
-  function requireEntryWithinRecord(recordId: number, at: string) {
-    const record = found(procedures.get(recordId), `Procedure record ${String(recordId)}`, 'recordId');
+  async function requireEntryWithinRecord(recordId: number, at: string) {
+    const record = found(await procedures.get(recordId), `Procedure record ${String(recordId)}`, 'recordId');
     refuse(entryTimeProblem(at, record.values, now()), 'values.at');
   }
 
@@ -128,7 +131,7 @@ export function createRecordHandlers(
       );
   }
 
-  function patientDetail(id: number) {
+  async function patientDetail(id: number) {
     const patient = found(patients.get(id), `Patient ${id}`);
     const speciesRecord = species.get(patient.values.speciesKey);
     const list = weights.list(id);
@@ -149,12 +152,12 @@ export function createRecordHandlers(
         list.map((weight) => ({ weighedOn: weight.values.weighedOn, massG: weight.values.massG })),
         range,
       ),
-      procedures: procedures.listForPatient(id),
+      procedures: await procedures.listForPatient(id),
     };
   }
 
-  function procedureDetail(id: number) {
-    const record = found(procedures.get(id), `Procedure record ${id}`);
+  async function procedureDetail(id: number) {
+    const record = found(await procedures.get(id), `Procedure record ${id}`);
     const patient = found(patients.get(record.patientId), `Patient ${record.patientId}`);
     const latest = weights.list(patient.id).at(-1) ?? null;
     return {
@@ -162,7 +165,7 @@ export function createRecordHandlers(
       patient,
       species: species.get(patient.values.speciesKey),
       latestMassG: latest?.values.massG ?? null,
-      entries: entries.list(id),
+      entries: await entries.list(id),
     };
   }
 
@@ -225,16 +228,24 @@ export function createRecordHandlers(
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
     'procedures:correct': async (request) => {
-      const record = found(procedures.get(request.id), `Procedure record ${request.id}`);
+      const record = found(await procedures.get(request.id), `Procedure record ${request.id}`);
       await requireOwnPlan(request.values.planId, record.patientId);
-      requireEntriesWithin(request.id, request.values);
-      return found(
-        procedures.correct(request.id, request.values, request.meta, now()),
-        `Procedure record ${request.id}`,
-      );
+      await requireEntriesWithin(request.id, request.values);
+      const versionId = request.versionId ?? record.stamp.versionId;
+      const corrected = await refuseConcurrentChange({
+        noun: 'record',
+        now,
+        write: () => procedures.correct(request.id, request.values, request.meta, now(), versionId),
+        later: () => laterVersion(clinic, 'procedure_record_versions', versionId),
+      }).catch((error: unknown) => {
+        if (error instanceof RecordVersionMismatchError)
+          throw new RecordError('invalid-request', error.message, 'versionId');
+        throw error;
+      });
+      return found(corrected, `Procedure record ${request.id}`);
     },
-    'procedures:recent': (request) =>
-      procedures.listRecent(request.limit).map((record) => {
+    'procedures:recent': async (request) =>
+      (await procedures.listRecent(request.limit)).map((record) => {
         const patient = patients.get(record.patientId);
         return {
           record,
@@ -245,8 +256,8 @@ export function createRecordHandlers(
       }),
     'procedures:get': (request) => procedureDetail(request.id),
     'procedures:history': (request) => procedures.history(request.id),
-    'procedures:export-csv': (request) => {
-      const detail = procedureDetail(request.id);
+    'procedures:export-csv': async (request) => {
+      const detail = await procedureDetail(request.id);
       // The workstation's time zone, as the clinic reads its wall clock (east of UTC positive).
       const utcOffsetMinAt = (iso: string) => -new Date(iso).getTimezoneOffset();
       const csv = procedureCsv({
@@ -285,20 +296,41 @@ export function createRecordHandlers(
       return { fileName: `tidewing-procedure-${request.id}-${safeName}-${day}.csv`, csv };
     },
 
-    'entries:add': (request) => {
-      requireEntryWithinRecord(request.recordId, request.values.at);
-      return entries.add(request.recordId, request.values, request.meta, now());
+    'entries:add': async (request) => {
+      await requireEntryWithinRecord(request.recordId, request.values.at);
+      return entries.add(
+        request.recordId,
+        request.values,
+        { ...request.meta, workstationId: workstationId() },
+        now(),
+      );
     },
-    'entries:correct': (request) =>
-      conflictOnStaleCorrection(() => {
-        const entry = found(entries.history(request.id)[0] ?? null, `Entry ${request.id}`);
-        requireEntryWithinRecord(entry.recordId, request.values.at);
-        return found(entries.correct(request.id, request.values, request.meta, now()), `Entry ${request.id}`);
-      }),
-    'entries:void': (request) =>
-      conflictOnStaleCorrection(() =>
-        found(entries.void(request.id, request.meta, now()), `Entry ${request.id}`),
-      ),
+    'entries:correct': async (request) => {
+      const entry = found((await entries.history(request.id))[0] ?? null, `Entry ${request.id}`);
+      await requireEntryWithinRecord(entry.recordId, request.values.at);
+      const corrected = await refuseConcurrentChange({
+        noun: 'entry',
+        now,
+        write: () =>
+          entries.correct(
+            request.id,
+            request.values,
+            { ...request.meta, workstationId: workstationId() },
+            now(),
+          ),
+        later: () => laterVersion(clinic, 'procedure_entries', request.id),
+      });
+      return found(corrected, `Entry ${request.id}`);
+    },
+    'entries:void': async (request) => {
+      const voided = await refuseConcurrentChange({
+        noun: 'entry',
+        now,
+        write: () => entries.void(request.id, { ...request.meta, workstationId: workstationId() }, now()),
+        later: () => laterVersion(clinic, 'procedure_entries', request.id),
+      });
+      return found(voided, `Entry ${request.id}`);
+    },
     'entries:history': (request) => entries.history(request.id),
     'entries:voided': (request) => entries.voided(request.recordId),
   };

@@ -84,3 +84,22 @@ export function workstationIdentity(
   }
   throw new Error(`Could not read or make ${file}; check that the data folder can be written.`);
 }
+
+/**
+ * This workstation's id, for stamping the entries it writes: read (or made) at the first call
+ * and kept. Null while the data folder cannot give one (unwritable, unreadable): the entry is
+ * still saved, without its workstation, because losing a clinical row to a preferences file
+ * would be worse.
+ */
+export function workstationIdOf(dataDirectory: string): () => string | null {
+  let id: string | null = null;
+  return () => {
+    if (id !== null) return id;
+    try {
+      id = workstationIdentity(dataDirectory).id;
+    } catch {
+      return null;
+    }
+    return id;
+  };
+}

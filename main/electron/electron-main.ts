@@ -233,7 +233,6 @@ async function main(): Promise<void> {
         demoClinic: process.argv.includes('--demo'),
         ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
       });
-      await backEnd.demoWritten;
     } catch (error) {
       if (error instanceof StartRefusedError && (await offerRestore(error, dataDirectory, binding))) continue;
       if (!(error instanceof StartRefusedError))

@@ -57,7 +57,6 @@ async function main(): Promise<number> {
       demoClinic: args.demo,
       log: (message) => process.stderr.write(`${message}\n`),
     });
-    await backEnd.demoWritten;
   } catch (error) {
     if (error instanceof StartRefusedError) {
       process.stderr.write(`tidewing: Tidewing did not start.\n${error.message}\n`);

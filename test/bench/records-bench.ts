@@ -8,6 +8,7 @@ import { backupDatabase } from '../../db/backup.js';
 import { openDatabase } from '../../db/connection.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import { sqliteClinicDb } from '../../db/clinic-db.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { median, quantile, type Figure } from './figures.js';
 
@@ -100,7 +101,7 @@ export async function benchRecords(): Promise<Figure[]> {
   try {
     const db = openDatabase(path.join(folder, 'tidewing.db'));
     const patients = createPatientRepository(db);
-    const entries = createProcedureEntryRepository(db);
+    const entries = createProcedureEntryRepository(sqliteClinicDb(db));
     const meta = { enteredBy: 'bench', reason: '' };
     const at = new Date(Date.UTC(2026, 0, 1, 9, 0, 0));
 
@@ -121,7 +122,7 @@ export async function benchRecords(): Promise<Figure[]> {
     for (let sequence = 0; sequence < entryWrites + 20; sequence += 1) {
       const values = vitals(sequence);
       let startedAt = performance.now();
-      entries.add(recordId, values, meta, at);
+      await entries.add(recordId, values, meta, at);
       const repositoryMs = performance.now() - startedAt;
       startedAt = performance.now();
       raw.run({ ...values, recordId, enteredAt: at.toISOString() });

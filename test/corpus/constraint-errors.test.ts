@@ -51,7 +51,7 @@ const cases: Case[] = [
     'procedures:create',
     (ids) => ({ patientId: ids.pip, values: validRecord, meta }),
     (clinic) => () =>
-      createProcedureRecordRepository(clinic.db).create(
+      createProcedureRecordRepository(clinic.backEnd.clinic).create(
         clinic.ids.pip,
         { ...recordValues, planId: 999_999 },
         meta,
@@ -81,7 +81,7 @@ const cases: Case[] = [
     'entries:add',
     (ids) => ({ recordId: ids.record, values: validVitals, meta }),
     (clinic) => () =>
-      createProcedureEntryRepository(clinic.db).add(
+      createProcedureEntryRepository(clinic.backEnd.clinic).add(
         999_999,
         {
           ...validVitals,

@@ -38,6 +38,9 @@ function afterCall(text: string, start: number): string {
 
 describe('write transactions', () => {
   it('no code in db/ begins a transaction without naming its mode: IMMEDIATE for writes, DEFERRED only for the read-only export', () => {
+    // better-sqlite3's db.transaction(fn) names its mode; the query layer's kysely.transaction()
+    // gets it from the driver (BEGIN IMMEDIATE on SQLite, see db/clinic-db.ts) and is begun only
+    // by writeTransaction and by the PostgreSQL migrations.
     const calls: { file: string; after: string }[] = [];
     for (const file of sourceFiles(path.join(root, 'db'))) {
       const text = fs.readFileSync(file, 'utf8');
@@ -47,13 +50,21 @@ describe('write transactions', () => {
           after: afterCall(text, (match.index ?? 0) + match[0].length - 1),
         });
     }
-    // writeTransaction (which every repository write uses), the migration and the export's read.
-    expect(calls.map((call) => call.file).sort()).toEqual([
+    const queryLayer = calls.filter((call) => call.after.startsWith('.execute('));
+    expect(queryLayer.map((call) => call.file).sort()).toEqual([
+      path.join('db', 'clinic-db.ts'),
+      path.join('db', 'postgres-connection.ts'),
+      path.join('db', 'postgres-connection.ts'),
+    ]);
+    // The raw handle's: writeTransaction of the repositories not yet on the query layer, the
+    // migration and the export's read.
+    const raw = calls.filter((call) => !queryLayer.includes(call));
+    expect(raw.map((call) => call.file).sort()).toEqual([
       path.join('db', 'connection.ts'),
       path.join('db', 'export.ts'),
       path.join('db', 'write-transaction.ts'),
     ]);
-    for (const call of calls) {
+    for (const call of raw) {
       const mode = /^\s*\.(immediate|deferred)\(/.exec(call.after)?.[1];
       expect(mode, `${call.file}: transaction(...)${call.after}`).toBeDefined();
       if (mode === 'deferred') expect(call.file).toBe(path.join('db', 'export.ts'));
@@ -94,11 +105,39 @@ describe('write transactions', () => {
       meta: { enteredBy: 'RW', reason: 'Misread the scale' },
     });
     expect(corrected.ok, JSON.stringify(corrected)).toBe(true);
+    const now = new Date();
+    const record = await backEnd.dispatch('procedures:create', {
+      patientId,
+      values: {
+        startedAt: new Date(now.getTime() - 60_000).toISOString(),
+        procedureName: 'Wing radiograph',
+        airway: 'mask',
+        circuit: 'nonRebreathing',
+        staffInitials: 'RW',
+      },
+      meta,
+    });
+    expect(record.ok, JSON.stringify(record)).toBe(true);
+    const recordId = record.ok ? (record.value as { id: number }).id : 0;
+    const entry = await backEnd.dispatch('entries:add', {
+      recordId,
+      values: { at: now.toISOString(), kind: 'vitals', heartRatePerMin: 300 },
+      meta,
+    });
+    expect(entry.ok, JSON.stringify(entry)).toBe(true);
+    const entryId = entry.ok ? (entry.value as { id: number }).id : 0;
+    const voided = await backEnd.dispatch('entries:void', {
+      id: entryId,
+      meta: { enteredBy: 'RW', reason: 'Wrong bird' },
+    });
+    expect(voided.ok, JSON.stringify(voided)).toBe(true);
 
     const begins = statements.filter((sql) => /^\s*BEGIN\b/i.test(sql));
-    // Three migrations, the species seeding, the new patient and the weight correction (a new
-    // weight is one INSERT, which takes the write lock by itself).
-    expect(begins.length).toBeGreaterThanOrEqual(6);
-    expect([...new Set(begins)]).toEqual(['BEGIN IMMEDIATE']);
+    // The migrations, the species seeding, the new patient and the weight correction on the raw
+    // handle; the new record and the void through the query layer, whose driver writes it in
+    // lower case (a new weight or entry is one INSERT, which takes the write lock by itself).
+    expect(begins.filter((sql) => sql === 'begin immediate').length).toBeGreaterThanOrEqual(2);
+    expect(begins.length).toBeGreaterThanOrEqual(8);
+    expect([...new Set(begins.map((sql) => sql.toUpperCase()))]).toEqual(['BEGIN IMMEDIATE']);
   });
 });

@@ -203,4 +203,123 @@ describe('entry that catches slips, in headless Chromium', () => {
       await page.close();
     }
   }, 90_000);
+
+  it('shows the workstation beside each row, and a correction or void another workstation saved first refuses this one in its form, what was typed kept', async () => {
+    const page = await session.browser.newPage({ viewport: { width: 1366, height: 800 } });
+    try {
+      await completeFirstRun(page, await session.host.nextUrl());
+      await bridge(page, 'workstation:save', { name: 'Theatre 1' });
+      const tui = await bridge<{ id: number }>(page, 'patients:create', {
+        values: { name: 'Tui', speciesKey: 'budgerigar', sex: 'female' },
+        meta: { enteredBy: 'RW' },
+      });
+      const startMs = await page.evaluate(() => {
+        const start = new Date(Date.now() - 30 * 60_000);
+        start.setSeconds(0, 0);
+        return start.getTime();
+      });
+      const record = await bridge<{ id: number }>(page, 'procedures:create', {
+        patientId: tui.id,
+        values: {
+          startedAt: new Date(startMs).toISOString(),
+          procedureName: 'Beak trim',
+          airway: 'mask',
+          circuit: 'nonRebreathing',
+          staffInitials: 'RW',
+        },
+        meta: { enteredBy: 'RW' },
+      });
+      type Entry = { id: number; values: Record<string, unknown> };
+      const logRow = (offsetMin: number, heartRatePerMin: number) =>
+        bridge<Entry>(page, 'entries:add', {
+          recordId: record.id,
+          values: {
+            at: new Date(startMs + offsetMin * 60_000).toISOString(),
+            kind: 'vitals',
+            heartRatePerMin,
+          },
+          meta: { enteredBy: 'RW' },
+        });
+      const early = await logRow(5, 310);
+      const later = await logRow(10, 42);
+      await page.goto(`${session.host.origin}/#/records/${record.id}`);
+      const log = page.getByRole('region', { name: 'Procedure log' });
+      await log.getByRole('cell', { name: 'RW Theatre 1' }).first().waitFor();
+      await expect(log.locator('.record-workstation').allInnerTexts()).resolves.toEqual([
+        'Theatre 1',
+        'Theatre 1',
+      ]);
+
+      // This screen opens Correct on the 10-minute row and types; another workstation corrects
+      // that row first.
+      const laterTime = `${await clockAt(page, startMs, 10)}:00`;
+      await log.getByRole('button', { name: `Correct the row at ${laterTime}` }).click();
+      const form = page.getByRole('form', { name: `Correct the row at ${laterTime}` });
+      await form.getByLabel('HR').fill('240');
+      await form.getByLabel('Reason (kept with the history)').fill('Counted for 15 s');
+      const elsewhere = await bridge<{ stamp: { enteredAt: string } }>(page, 'entries:correct', {
+        id: later.id,
+        values: { ...later.values, heartRatePerMin: 420 },
+        meta: { enteredBy: 'MK', reason: 'Heart rate missed a digit' },
+      });
+      const elsewhereClock = await page.evaluate((iso) => {
+        const at = new Date(iso);
+        return `${String(at.getHours()).padStart(2, '0')}:${String(at.getMinutes()).padStart(2, '0')}`;
+      }, elsewhere.stamp.enteredAt);
+      await form.getByRole('button', { name: 'Save correction' }).click();
+      await form
+        .getByRole('alert')
+        .filter({
+          hasText: `Not saved: this entry was already corrected by MK on Theatre 1 at ${elsewhereClock} (reason: Heart rate missed a digit). Your change was not applied; reload to see the current entry.`,
+        })
+        .waitFor();
+      // The log shows the other correction; the form stays open on that row with what was typed.
+      await log.getByRole('cell', { name: '420' }).waitFor();
+      await expect(form.getByLabel('HR').inputValue()).resolves.toBe('240');
+      await expect(form.getByLabel('Reason (kept with the history)').inputValue()).resolves.toBe(
+        'Counted for 15 s',
+      );
+      await shoot(page, 'correction-conflict');
+
+      // Saving again, now knowing, corrects the version on screen.
+      await form.getByRole('button', { name: 'Save correction' }).click();
+      await log.getByRole('cell', { name: '240' }).waitFor();
+      await expect(form.count()).resolves.toBe(0);
+      const afterResave = await bridge<{ entries: { values: { heartRatePerMin: number | null } }[] }>(
+        page,
+        'procedures:get',
+        { id: record.id },
+      );
+      expect(afterResave.entries.map((entry) => entry.values.heartRatePerMin)).toEqual([310, 240]);
+
+      // Void: the row was voided elsewhere first; the form stays with its reason and says so.
+      const earlyTime = `${await clockAt(page, startMs, 5)}:00`;
+      await log.getByRole('button', { name: `Void the row at ${earlyTime}` }).click();
+      const voidForm = page.getByRole('form', { name: `Void the row at ${earlyTime}` });
+      await voidForm.getByLabel('Reason (kept with the history)').fill('Wrong bird');
+      await bridge(page, 'entries:void', {
+        id: early.id,
+        meta: { enteredBy: 'JS', reason: 'Probe off the bird' },
+      });
+      await voidForm.getByRole('button', { name: 'Void row' }).click();
+      await voidForm
+        .getByRole('alert')
+        .filter({ hasText: 'Not saved: this entry was already voided by JS on Theatre 1' })
+        .waitFor();
+      await page.getByText(`The row at ${earlyTime} is no longer in the log as you opened it.`).waitFor();
+      await expect(voidForm.getByLabel('Reason (kept with the history)').inputValue()).resolves.toBe(
+        'Wrong bird',
+      );
+      await shoot(page, 'void-conflict');
+      await voidForm.getByRole('button', { name: 'Cancel' }).click();
+      await expect(voidForm.count()).resolves.toBe(0);
+
+      // The printed record names the workstation beside the initials.
+      await page.emulateMedia({ media: 'print' });
+      await expect(page.locator('.printed-record').innerText()).resolves.toContain('MK (Theatre 1)');
+      await page.emulateMedia({ media: 'screen' });
+    } finally {
+      await page.close();
+    }
+  }, 90_000);
 });

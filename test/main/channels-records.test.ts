@@ -18,6 +18,12 @@ import {
 const open: ChannelHarness[] = [];
 afterEach(() => open.splice(0).forEach((harness) => harness.close()));
 
+/** "at 10:06" as the back end's clock shows an instant (the workstation's time zone). */
+const localClock = (iso: string) => {
+  const at = new Date(iso);
+  return `at ${String(at.getHours()).padStart(2, '0')}:${String(at.getMinutes()).padStart(2, '0')}`;
+};
+
 /** A back end holding Pip (weighed at 38 g) and one procedure record for him. */
 async function withPipRecord() {
   const api = openChannelHarness();
@@ -260,9 +266,10 @@ describe('procedure entry channels', () => {
       values: pipVitalsValues,
       meta: correctionBy('MK', 'Again'),
     });
-    expect(stale).toMatchObject({
+    expect(stale).toEqual({
       code: 'conflict',
-      message: 'That entry has already been corrected; correct its newest version.',
+      field: 'id',
+      message: `Not saved: this entry was already corrected by RW ${localClock('2026-12-01T10:06:00.000Z')} (reason: Heart rate missed a digit). Your change was not applied; reload to see the current entry.`,
     });
     const noReason = await api.refusal('entries:correct', {
       id: fixed.id,
@@ -327,6 +334,94 @@ describe('procedure entry channels', () => {
     expect(listed.map((entry) => entry.id)).not.toContain(kept.id);
     expect(await api.answer('entries:voided', { recordId: 4321 })).toEqual([]);
     expect(await api.refusal('entries:voided', { recordId: 0 })).toMatchObject({ field: 'recordId' });
+  });
+
+  it('a second correction or void of an entry version is refused with who, where, when and why, and nothing is overwritten', async () => {
+    const { api, record } = await withPipRecord();
+    await api.answer('workstation:save', { name: 'Theatre 1' });
+    const row = await api.answer('entries:add', {
+      recordId: record.id,
+      values: { ...pipVitalsValues, heartRatePerMin: 42 },
+      meta: enteredByRw,
+    });
+    // Each entry names the workstation that wrote it, by its current name.
+    expect(row.workstationName).toBe('Theatre 1');
+    api.clock.set('2026-12-01T10:42:00.000Z');
+    const first = await api.answer('entries:correct', {
+      id: row.id,
+      values: pipVitalsValues,
+      meta: correctionBy('RW', 'Heart rate missed a digit'),
+    });
+    expect(first.workstationName).toBe('Theatre 1');
+    const told = `already corrected by RW on Theatre 1 ${localClock('2026-12-01T10:42:00.000Z')} (reason: Heart rate missed a digit). Your change was not applied; reload to see the current entry.`;
+    const second = await api.refusal('entries:correct', {
+      id: row.id,
+      values: { ...pipVitalsValues, heartRatePerMin: 400 },
+      meta: correctionBy('MK', 'Recounted'),
+    });
+    expect(second).toEqual({ code: 'conflict', field: 'id', message: `Not saved: this entry was ${told}` });
+    const voiding = await api.refusal('entries:void', { id: row.id, meta: correctionBy('MK', 'Wrong bird') });
+    expect(voiding.message).toBe(`Not saved: this entry was ${told}`);
+    // The first correction stands, and the history holds only the two saved versions.
+    const detail = await api.answer('procedures:get', { id: record.id });
+    expect(detail.entries.map((entry) => [entry.id, entry.values.heartRatePerMin])).toEqual([
+      [first.id, 420],
+    ]);
+    expect(
+      (await api.answer('entries:history', { id: first.id })).map((entry) => entry.stamp.enteredBy),
+    ).toEqual(['RW', 'RW']);
+    // Voided first: the same refusal says so.
+    const voided = await api.answer('entries:void', { id: first.id, meta: correctionBy('JS', 'Probe off') });
+    const late = await api.refusal('entries:correct', {
+      id: first.id,
+      values: pipVitalsValues,
+      meta: correctionBy('MK', 'Recounted'),
+    });
+    expect(late.message).toBe(
+      `Not saved: this entry was already voided by JS on Theatre 1 ${localClock(voided.stamp.enteredAt)} (reason: Probe off). Your change was not applied; reload to see the current entry.`,
+    );
+  });
+
+  it('procedures:correct naming a version someone corrected first is refused with who and when; without a version it corrects the current one', async () => {
+    const { api, record } = await withPipRecord();
+    api.clock.set('2026-12-01T10:40:00.000Z');
+    const fasting = await api.answer('procedures:correct', {
+      id: record.id,
+      versionId: record.stamp.versionId,
+      values: { ...pipRadiographValues, fasting: '2 h' },
+      meta: correctionBy('RW', 'Fasted longer'),
+    });
+    const stale = await api.refusal('procedures:correct', {
+      id: record.id,
+      versionId: record.stamp.versionId,
+      values: { ...pipRadiographValues, procedureName: 'Wing and leg radiographs' },
+      meta: correctionBy('MK', 'Both views'),
+    });
+    expect(stale).toEqual({
+      code: 'conflict',
+      field: 'id',
+      message: `Not saved: this record was already corrected by RW ${localClock('2026-12-01T10:40:00.000Z')} (reason: Fasted longer). Your change was not applied; reload to see the current record.`,
+    });
+    expect((await api.answer('procedures:get', { id: record.id })).record).toEqual(fasting);
+    const otherRecord = await api.answer('procedures:create', {
+      patientId: record.patientId,
+      values: pipRadiographValues,
+      meta: enteredByRw,
+    });
+    expect(
+      await api.refusal('procedures:correct', {
+        id: record.id,
+        versionId: otherRecord.stamp.versionId,
+        values: pipRadiographValues,
+        meta: correctionBy('MK', 'Both views'),
+      }),
+    ).toMatchObject({ code: 'invalid-request', field: 'versionId' });
+    const current = await api.answer('procedures:correct', {
+      id: record.id,
+      values: { ...fasting.values, procedureName: 'Wing and leg radiographs' },
+      meta: correctionBy('MK', 'Both views'),
+    });
+    expect(current.stamp.correctsId).toBe(fasting.stamp.versionId);
   });
 
   it('entries:history answers an empty chain for an unknown id and refuses a text id', async () => {

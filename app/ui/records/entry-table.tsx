@@ -1,4 +1,4 @@
-import { useEffect, useId, useState, type FormEvent } from 'react';
+import { useEffect, useId, useState, type FormEvent, type ReactNode } from 'react';
 import {
   correctionMetaSchema,
   type ProcedureEntry,
@@ -34,7 +34,30 @@ type Props = {
   readonly onVoid: (id: number, reason: string) => Promise<string | null>;
 };
 
-type Mode = { readonly kind: 'correct' | 'void' | 'history'; readonly id: number } | null;
+/**
+ * The open form or history: which row (by the version it was opened on) and that row as it was
+ * then, so the form stays open, with what the user typed, when the log reloads underneath it.
+ */
+type Mode = {
+  readonly kind: 'correct' | 'void' | 'history';
+  readonly id: number;
+  readonly opened: TableEntry;
+} | null;
+
+/** Who wrote a version: initials, with the workstation it was written on when known. */
+function WrittenBy({ entry }: { readonly entry: ProcedureEntry }) {
+  return (
+    <>
+      {entry.stamp.enteredBy}
+      {entry.workstationName !== null && (
+        <span className="record-workstation" title="Workstation that wrote this row">
+          {' '}
+          {entry.workstationName}
+        </span>
+      )}
+    </>
+  );
+}
 
 function reasonError(reason: string): string | undefined {
   const checked = correctionMetaSchema.shape.reason.safeParse(reason);
@@ -340,7 +363,9 @@ function History({ entry, units }: { readonly entry: TableEntry; readonly units:
                 ? readingsSummary(version.values, units)
                 : eventSummary(version.values)}
             </td>
-            <td>{version.stamp.enteredBy}</td>
+            <td>
+              <WrittenBy entry={version} />
+            </td>
             <td>{displayDateTime(version.stamp.enteredAt)}</td>
             <td>{version.stamp.reason === '' ? '—' : version.stamp.reason}</td>
           </tr>
@@ -373,8 +398,35 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
   const newestFirst = [...entries].sort(
     (a, b) => Date.parse(b.values.at) - Date.parse(a.values.at) || b.id - a.id,
   );
+  /**
+   * The row the open form belongs to: the version it was opened on, or the correction another
+   * workstation saved of it (after a refused save the log reloads with that one).
+   */
+  const isOpenRow = (entry: TableEntry) =>
+    mode !== null && (entry.id === mode.id || entry.stamp.correctsId === mode.id);
   const columns = 2 + readingFields.length + 3;
-  if (entries.length === 0) return <p className="hint">No rows logged yet.</p>;
+  const close = () => setMode(null);
+  /**
+   * The row holding the open form or history for `entry` (the row now in the log, or as it was
+   * opened when it has left the log: voided elsewhere).
+   */
+  const detailRow = (open: NonNullable<Mode>, entry: TableEntry, gone: boolean) => (
+    <tr key={`detail-${open.id}`} className="record-detail-row">
+      <td colSpan={columns}>
+        {gone && (
+          <p className="hint">
+            The row at {clockText(entry.values.at)} is no longer in the log as you opened it.
+          </p>
+        )}
+        {open.kind === 'correct' && (
+          <CorrectForm entry={entry} units={units} onSave={onCorrect} onClose={close} onCancel={cancel} />
+        )}
+        {open.kind === 'void' && <VoidForm entry={entry} onVoid={onVoid} onClose={close} onCancel={cancel} />}
+        {open.kind === 'history' && <History entry={entry} units={units} />}
+      </td>
+    </tr>
+  );
+  if (entries.length === 0 && mode === null) return <p className="hint">No rows logged yet.</p>;
   return (
     <ScrollRegion label="Procedure log">
       <table className="record-table record-entries">
@@ -401,82 +453,82 @@ export function EntryTable({ entries, startedAt, units, onCorrect, onVoid }: Pro
           </tr>
         </thead>
         <tbody>
-          {newestFirst.map((entry, index) => {
-            // Rows logged in the same second share a time: the row number keeps each button's name unique.
-            const rowName = `the row at ${clockText(entry.values.at)} (row ${newestFirst.length - index})`;
-            const open = mode !== null && mode.id === entry.id ? mode.kind : null;
-            const close = () => setMode(null);
-            return [
-              <tr key={entry.id} className={entry.values.kind === 'event' ? 'record-event-row' : undefined}>
-                <td>
-                  {clockText(entry.values.at)}
-                  {entry.corrected && (
-                    <span className="record-corrected" title="Corrected: see its history">
-                      {' '}
-                      corrected
-                    </span>
-                  )}
-                </td>
-                <td className="record-number">{minutesFromStart(startedAt, entry.values.at)}</td>
-                {readingFields.map((field) => (
-                  <td key={field} className="record-number">
-                    {readingCell(entry.values, field, units)}
-                  </td>
-                ))}
-                <td>{entry.values.kind === 'event' ? eventSummary(entry.values) : ''}</td>
-                <td>{entry.stamp.enteredBy}</td>
-                <td>
-                  <div className="record-actions">
-                    <button
-                      type="button"
-                      aria-label={`Correct ${rowName}`}
-                      aria-expanded={open === 'correct'}
-                      onClick={(event) => toggle({ kind: 'correct', id: entry.id }, event.currentTarget)}
-                    >
-                      Correct
-                    </button>
-                    <button
-                      type="button"
-                      aria-label={`Void ${rowName}`}
-                      aria-expanded={open === 'void'}
-                      onClick={(event) => toggle({ kind: 'void', id: entry.id }, event.currentTarget)}
-                    >
-                      Void
-                    </button>
+          {/* One flat list, the open form's row keyed by the version it was opened on: it keeps
+              what was typed when the log reloads and its row is replaced or leaves the log. */}
+          {[
+            mode !== null && !newestFirst.some(isOpenRow) && detailRow(mode, mode.opened, true),
+            ...newestFirst.flatMap((entry, index) => {
+              // Rows logged in the same second share a time: the row number keeps each button's name unique.
+              const rowName = `the row at ${clockText(entry.values.at)} (row ${newestFirst.length - index})`;
+              const open = mode !== null && isOpenRow(entry) ? mode.kind : null;
+              const rows: ReactNode[] = [
+                <tr
+                  key={`entry-${entry.id}`}
+                  className={entry.values.kind === 'event' ? 'record-event-row' : undefined}
+                >
+                  <td>
+                    {clockText(entry.values.at)}
                     {entry.corrected && (
+                      <span className="record-corrected" title="Corrected: see its history">
+                        {' '}
+                        corrected
+                      </span>
+                    )}
+                  </td>
+                  <td className="record-number">{minutesFromStart(startedAt, entry.values.at)}</td>
+                  {readingFields.map((field) => (
+                    <td key={field} className="record-number">
+                      {readingCell(entry.values, field, units)}
+                    </td>
+                  ))}
+                  <td>{entry.values.kind === 'event' ? eventSummary(entry.values) : ''}</td>
+                  <td>
+                    <WrittenBy entry={entry} />
+                  </td>
+                  <td>
+                    <div className="record-actions">
                       <button
                         type="button"
-                        aria-label={`History of ${rowName}`}
-                        aria-expanded={open === 'history'}
-                        onClick={() => setMode(open === 'history' ? null : { kind: 'history', id: entry.id })}
+                        aria-label={`Correct ${rowName}`}
+                        aria-expanded={open === 'correct'}
+                        onClick={(event) =>
+                          toggle({ kind: 'correct', id: entry.id, opened: entry }, event.currentTarget)
+                        }
                       >
-                        History
+                        Correct
                       </button>
-                    )}
-                  </div>
-                </td>
-              </tr>,
-              open !== null && (
-                <tr key={`${entry.id}-${open}`} className="record-detail-row">
-                  <td colSpan={columns}>
-                    {open === 'correct' && (
-                      <CorrectForm
-                        entry={entry}
-                        units={units}
-                        onSave={onCorrect}
-                        onClose={close}
-                        onCancel={cancel}
-                      />
-                    )}
-                    {open === 'void' && (
-                      <VoidForm entry={entry} onVoid={onVoid} onClose={close} onCancel={cancel} />
-                    )}
-                    {open === 'history' && <History entry={entry} units={units} />}
+                      <button
+                        type="button"
+                        aria-label={`Void ${rowName}`}
+                        aria-expanded={open === 'void'}
+                        onClick={(event) =>
+                          toggle({ kind: 'void', id: entry.id, opened: entry }, event.currentTarget)
+                        }
+                      >
+                        Void
+                      </button>
+                      {entry.corrected && (
+                        <button
+                          type="button"
+                          aria-label={`History of ${rowName}`}
+                          aria-expanded={open === 'history'}
+                          onClick={() =>
+                            setMode(
+                              open === 'history' ? null : { kind: 'history', id: entry.id, opened: entry },
+                            )
+                          }
+                        >
+                          History
+                        </button>
+                      )}
+                    </div>
                   </td>
-                </tr>
-              ),
-            ];
-          })}
+                </tr>,
+              ];
+              if (mode !== null && open !== null) rows.push(detailRow(mode, entry, false));
+              return rows;
+            }),
+          ]}
         </tbody>
       </table>
     </ScrollRegion>

@@ -57,7 +57,7 @@ function LiveRecordScreen({
   const nowMs = useNowMs();
   const { record, entries } = detail;
   const values = record.values;
-  const writes = useRecordWrites(record.id, units, reload);
+  const writes = useRecordWrites(record.id, record.stamp.versionId, units, reload);
   const [editingDetails, setEditingDetails] = useState(false);
   // Escape or Close in the details editor puts focus back on the "Correct details" button.
   const detailsOpener = useReturnFocus();
@@ -89,6 +89,7 @@ function LiveRecordScreen({
       {editingDetails && (
         <RecordDetailsEditor
           recordId={record.id}
+          versionId={record.stamp.versionId}
           values={values}
           onSave={writes.correctRecord}
           onClose={() => {

@@ -74,6 +74,18 @@ function changedParts(
   return parts;
 }
 
+/** Who wrote a version: the initials, with the workstation in brackets when known. */
+function writtenBy(entry: ProcedureEntry): string {
+  return entry.workstationName === null
+    ? entry.stamp.enteredBy
+    : `${entry.stamp.enteredBy} (${entry.workstationName})`;
+}
+
+/** " on Theatre 1" for a version whose workstation is known. */
+function onWorkstation(entry: ProcedureEntry): string {
+  return entry.workstationName === null ? '' : ` on ${entry.workstationName}`;
+}
+
 /** Each correction of a row: the struck value, the new one, who corrected it, when and why. */
 function Corrections({
   versions,
@@ -91,7 +103,8 @@ function Corrections({
         const parts = changedParts(earlier.values, replacedBy.values, units);
         return (
           <li key={earlier.id}>
-            Corrected by {replacedBy.stamp.enteredBy} at {localDateTime(replacedBy.stamp.enteredAt)}
+            Corrected by {replacedBy.stamp.enteredBy}
+            {onWorkstation(replacedBy)} at {localDateTime(replacedBy.stamp.enteredAt)}
             {replacedBy.voided ? ', as entered in error' : ''}:{' '}
             {parts.length === 0
               ? 'no value changed'
@@ -101,7 +114,7 @@ function Corrections({
                     {at < parts.length - 1 ? '; ' : ''}
                   </span>
                 ))}
-            . Reason: “{replacedBy.stamp.reason}”. First entered by {earlier.stamp.enteredBy}.
+            . Reason: “{replacedBy.stamp.reason}”. First entered by {writtenBy(earlier)}.
           </li>
         );
       })}
@@ -369,7 +382,8 @@ export function PrintedRecord({
                     <td>
                       {entry.values.kind === 'event' && <del>{eventSummary(entry.values)} </del>}
                       <span className="pr-void-note">
-                        Voided by {entry.stamp.enteredBy} at {localDateTime(entry.stamp.enteredAt)}. Reason: “
+                        Voided by {entry.stamp.enteredBy}
+                        {onWorkstation(entry)} at {localDateTime(entry.stamp.enteredAt)}. Reason: “
                         {entry.stamp.reason}”.
                         {voidedRow.firstEnteredBy === null
                           ? ''
@@ -377,7 +391,7 @@ export function PrintedRecord({
                       </span>
                     </td>
                     <td>
-                      <del>{voidedRow.firstEnteredBy ?? ''}</del> {entry.stamp.enteredBy}
+                      <del>{voidedRow.firstEnteredBy ?? ''}</del> {writtenBy(entry)}
                     </td>
                   </tr>
                 );
@@ -406,7 +420,7 @@ export function PrintedRecord({
                         <Corrections versions={versions} units={units} />
                       ))}
                   </td>
-                  <td>{entry.stamp.enteredBy}</td>
+                  <td>{writtenBy(entry)}</td>
                 </tr>
               );
             })}
@@ -423,7 +437,7 @@ export function PrintedRecord({
             {events.map((entry) => (
               <li key={entry.id}>
                 {clockText(entry.values.at)} ({minutesFromStart(values.startedAt, entry.values.at)} min):{' '}
-                {eventSummary(entry.values)} · {entry.stamp.enteredBy}
+                {eventSummary(entry.values)} · {writtenBy(entry)}
               </li>
             ))}
           </ol>

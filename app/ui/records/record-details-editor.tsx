@@ -10,18 +10,27 @@ import { airwayText, asaText, checkRecordDraft, recordToDraft, type RecordDraft 
 
 type Props = {
   readonly recordId: number;
+  /** The version of the details now on screen. */
+  readonly versionId: number;
   readonly values: ProcedureRecordValues;
-  readonly onSave: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+  /** Saves a correction of `versionId`; null when saved, else the message to show. */
+  readonly onSave: (next: ProcedureRecordValues, reason: string, versionId: number) => Promise<string | null>;
   /** Closes the editor (Close, Escape); the screen returns focus to what opened it. */
   readonly onClose: () => void;
 };
 
 /**
  * Corrects a record's details (procedure, ASA grade, airway, ...) as a new version with a
- * reason; the earlier versions stay listed below it.
+ * reason; the earlier versions stay listed below it. The correction names the version the
+ * editor was opened on, so a change saved meanwhile on another workstation is not overwritten:
+ * the refusal is shown here with the typed values kept. After a save (saved or refused, the
+ * screen reloads) the editor follows the version on screen: the user has seen what it holds.
  */
-export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props) {
+export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClose }: Props) {
   const [draft, setDraft] = useState<RecordDraft>(() => recordToDraft(values));
+  const [openedOn] = useState(versionId);
+  const [followScreen, setFollowScreen] = useState(false);
+  const basedOn = followScreen ? versionId : openedOn;
   const [reason, setReason] = useState('');
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
@@ -42,12 +51,11 @@ export function RecordDetailsEditor({ recordId, values, onSave, onClose }: Props
       return;
     }
     setErrors({});
-    const message = await onSave({ ...checked.values, endedAt: values.endedAt }, reason.trim());
+    const message = await onSave({ ...checked.values, endedAt: values.endedAt }, reason.trim(), basedOn);
     setFailure(message);
-    if (message === null) {
-      setReason('');
-      reloadHistory();
-    }
+    setFollowScreen(true);
+    reloadHistory();
+    if (message === null) setReason('');
   }
 
   return (

@@ -1,12 +1,25 @@
 import { useState, type ReactNode } from 'react';
 import type { ProcedureEntryValues, ProcedureRecordValues } from '../../contract/records.js';
+import type { Result } from '../../contract/result.js';
 import type { EventType } from '../../core/procedure-events.js';
 import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { checkEntry, emptyReadings, type DisplayUnits } from './entry-form.js';
 import { useInitialsGate } from '../common/initials-gate.js';
 
-type Write = (enteredBy: string) => Promise<string | null>;
+/** What a write answered: null when saved, else the message and whether another change came first. */
+type Outcome = { readonly message: string; readonly conflict: boolean } | null;
+type Write = (enteredBy: string) => Promise<Outcome>;
+
+/** The answer as an outcome; a refusal starts with "Not saved:" when `notSaved` (once). */
+function outcomeOf(answer: Result<unknown>, notSaved: boolean): Outcome {
+  if (answer.ok) return null;
+  const text = answer.error.message;
+  return {
+    message: notSaved && !text.startsWith('Not saved:') ? `Not saved: ${text}` : text,
+    conflict: answer.error.code === 'conflict',
+  };
+}
 
 /** Details an event row may carry besides its type; `at` (ISO 8601) back-dates it. */
 /**
@@ -28,7 +41,15 @@ export type RecordWrites = {
   readonly writeFailure: string | null;
   readonly addEntry: (values: ProcedureEntryValues) => Promise<string | null>;
   readonly logEvent: (eventType: EventType, extra?: EventExtra) => Promise<string | null>;
-  readonly correctRecord: (next: ProcedureRecordValues, reason: string) => Promise<string | null>;
+  /**
+   * Saves the record's details as a correction of `versionId` (the version the user worked
+   * from; the one on screen when not given).
+   */
+  readonly correctRecord: (
+    next: ProcedureRecordValues,
+    reason: string,
+    versionId?: number,
+  ) => Promise<string | null>;
   readonly correctEntry: (id: number, next: ProcedureEntryValues, reason: string) => Promise<string | null>;
   readonly voidEntry: (id: number, reason: string) => Promise<string | null>;
   readonly exportCsv: () => Promise<void>;
@@ -36,9 +57,17 @@ export type RecordWrites = {
 
 /**
  * Every write of the live record screen. Each runs once initials are known, answers null when
- * saved or the message to show, and reloads the record after a success.
+ * saved or the message to show, and reloads the record after a success, and after a refusal
+ * because another workstation changed it first (so the screen shows what is now saved, while
+ * the form that was refused keeps what the user typed).
+ * @param versionId the version of the record's details on screen
  */
-export function useRecordWrites(recordId: number, units: DisplayUnits, reload: () => void): RecordWrites {
+export function useRecordWrites(
+  recordId: number,
+  versionId: number,
+  units: DisplayUnits,
+  reload: () => void,
+): RecordWrites {
   const { gate, withInitials } = useInitialsGate();
   const [writeFailure, setWriteFailure] = useState<string | null>(null);
 
@@ -47,10 +76,10 @@ export function useRecordWrites(recordId: number, units: DisplayUnits, reload: (
     return new Promise((resolve) => {
       withInitials(
         (enteredBy) => {
-          void run(enteredBy).then((message) => {
-            if (message === null) reload();
-            setWriteFailure(message);
-            resolve(message);
+          void run(enteredBy).then((outcome) => {
+            if (outcome === null || outcome.conflict) reload();
+            setWriteFailure(outcome?.message ?? null);
+            resolve(outcome?.message ?? null);
           });
         },
         () => resolve('Not saved: enter your initials to save.'),
@@ -65,7 +94,7 @@ export function useRecordWrites(recordId: number, units: DisplayUnits, reload: (
         values: entryValues,
         meta: { enteredBy, reason: '' },
       });
-      return answer.ok ? null : `Not saved: ${answer.error.message}`;
+      return outcomeOf(answer, true);
     });
   }
 
@@ -88,14 +117,19 @@ export function useRecordWrites(recordId: number, units: DisplayUnits, reload: (
     return addEntry({ ...checked.values, at: extra.at ?? checked.values.at });
   }
 
-  function correctRecord(next: ProcedureRecordValues, reason: string): Promise<string | null> {
+  function correctRecord(
+    next: ProcedureRecordValues,
+    reason: string,
+    basedOn: number = versionId,
+  ): Promise<string | null> {
     return write(async (enteredBy) => {
       const answer = await api.invoke('procedures:correct', {
         id: recordId,
+        versionId: basedOn,
         values: next,
         meta: { enteredBy, reason },
       });
-      return answer.ok ? null : `Not saved: ${answer.error.message}`;
+      return outcomeOf(answer, true);
     });
   }
 
@@ -106,14 +140,14 @@ export function useRecordWrites(recordId: number, units: DisplayUnits, reload: (
         values: next,
         meta: { enteredBy, reason },
       });
-      return answer.ok ? null : answer.error.message;
+      return outcomeOf(answer, false);
     });
   }
 
   function voidEntry(id: number, reason: string): Promise<string | null> {
     return write(async (enteredBy) => {
       const answer = await api.invoke('entries:void', { id, meta: { enteredBy, reason } });
-      return answer.ok ? null : answer.error.message;
+      return outcomeOf(answer, false);
     });
   }
 
