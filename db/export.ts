@@ -1,7 +1,8 @@
-import type Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
 import { BackupError, flushToDisk, temporaryNameBeside } from './backup.js';
+import type { Sql } from './clinic-db.js';
+import { describeClinicTables, readSnapshot, storedSchemaVersion, tableRows } from './clinic-tables.js';
 
 /** Identifies the file for whoever reads the archive years later. */
 export const databaseExportFormat = 'tidewing-database-export';
@@ -37,72 +38,49 @@ export type ExportOptions = {
   readonly onProgress?: (percent: number, table: string) => void;
 };
 
-type TableListRow = { schema: string; name: string; type: string; wr: number };
-type ColumnRow = { name: string; pk: number };
-
-function quoteIdentifier(name: string): string {
-  return `"${name.replace(/"/g, '""')}"`;
-}
-
 function exportedValue(value: unknown): ExportedValue {
   if (value === null || typeof value === 'string' || typeof value === 'number') return value;
   if (typeof value === 'bigint')
     return Number.isSafeInteger(Number(value)) ? Number(value) : value.toString();
   if (Buffer.isBuffer(value)) return { base64: value.toString('base64') };
+  if (value instanceof Uint8Array) return { base64: Buffer.from(value).toString('base64') };
   return String(value);
 }
 
 /**
  * The whole database as one JSON-ready object: every table's rows with their column names,
- * the schema version, the app version and the time of export. Read inside one transaction, so
- * the tables agree with each other even while the app keeps writing. Search indexes (FTS
- * virtual tables and their shadow tables) are left out and named, since they are rebuilt from
- * the rows. Suitable for a clinic archive; not a backup (restore needs the .db backup).
+ * the schema version, the app version and the time of export, on either engine (the same
+ * shape from SQLite and from PostgreSQL). Read inside one snapshot (`readSnapshot`), so the
+ * tables agree with each other even while the app keeps writing. Search indexes (SQLite's FTS
+ * virtual tables and their shadow tables, PostgreSQL's table of the same name) are left out and
+ * named, since they are rebuilt from the rows. Suitable for a clinic archive; not a backup
+ * (restore needs the .db backup).
  */
-export function exportDatabaseJson(db: Database.Database, options: ExportOptions): DatabaseExport {
+export async function exportDatabaseJson(sql: Sql, options: ExportOptions): Promise<DatabaseExport> {
   if (Number.isNaN(options.exportedAt.getTime()))
     throw new BackupError('The export time is not a valid date.');
-  const read = () => {
-    const listed = db
-      .prepare<[], TableListRow>('PRAGMA table_list')
-      .all()
-      .filter((row) => row.schema === 'main' && !row.name.startsWith('sqlite_'));
-    const derived = listed
-      .filter((row) => row.type === 'virtual' || row.type === 'shadow')
-      .map((row) => row.name)
-      .sort();
-    const ordinary = listed
-      .filter((row) => row.type === 'table')
-      .map((row) => row.name)
-      .sort();
-    const tables: Record<string, ExportedTable> = {};
-    ordinary.forEach((name, index) => {
-      const columnRows = db.prepare<[], ColumnRow>(`PRAGMA table_info(${quoteIdentifier(name)})`).all();
-      const columns = columnRows.map((column) => column.name);
-      const keys = columnRows
-        .filter((column) => column.pk > 0)
-        .sort((a, b) => a.pk - b.pk)
-        .map((column) => quoteIdentifier(column.name));
-      const withoutRowId = listed.find((row) => row.name === name)?.wr === 1;
-      const order =
-        keys.length > 0 ? keys.join(', ') : withoutRowId ? columns.map(quoteIdentifier).join(', ') : 'rowid';
-      const rows = db
-        .prepare<[], Record<string, unknown>>(
-          `SELECT ${columns.map(quoteIdentifier).join(', ')} FROM ${quoteIdentifier(name)} ORDER BY ${order}`,
-        )
-        .all()
-        .map((row) => Object.fromEntries(columns.map((column) => [column, exportedValue(row[column])])));
-      tables[name] = { columns, rows };
-      options.onProgress?.(Math.floor((100 * (index + 1)) / ordinary.length), name);
-    });
-    return { tables, derived };
-  };
-  const { tables, derived } = db.inTransaction ? read() : db.transaction(read).deferred();
+  const { tables, derived, schemaVersion } = await readSnapshot(sql, async (snapshot) => {
+    const described = await describeClinicTables(snapshot);
+    const read: Record<string, ExportedTable> = {};
+    for (const [index, table] of described.tables.entries()) {
+      const rows: Record<string, ExportedValue>[] = [];
+      for await (const batch of tableRows(snapshot, table, { batchRows: 5000 }))
+        for (const row of batch)
+          rows.push(Object.fromEntries(table.columns.map((column) => [column, exportedValue(row[column])])));
+      read[table.name] = { columns: table.columns, rows };
+      options.onProgress?.(Math.floor((100 * (index + 1)) / described.tables.length), table.name);
+    }
+    return {
+      tables: read,
+      derived: [...described.derivedNames],
+      schemaVersion: await storedSchemaVersion(snapshot),
+    };
+  });
   return {
     format: databaseExportFormat,
     formatVersion: databaseExportFormatVersion,
     appVersion: options.appVersion,
-    schemaVersion: db.pragma('user_version', { simple: true }) as number,
+    schemaVersion,
     exportedAt: options.exportedAt.toISOString(),
     note: 'Every row of every table of a Tidewing clinic database. Record rows are never changed: a correction is a later row whose corrects_id points at the row it replaces.',
     tables,
@@ -115,15 +93,15 @@ export function exportDatabaseJson(db: Database.Database, options: ExportOptions
  * that the final name only ever holds a whole export. Refuses to replace an existing file unless
  * `overwrite`. Returns the bytes written.
  */
-export function writeDatabaseJson(
-  db: Database.Database,
+export async function writeDatabaseJson(
+  sql: Sql,
   outFile: string,
   options: ExportOptions & { readonly overwrite?: boolean },
-): { file: string; sizeBytes: number; tableCount: number; rowCount: number } {
+): Promise<{ file: string; sizeBytes: number; tableCount: number; rowCount: number }> {
   const target = path.resolve(outFile);
   if (options.overwrite !== true && fs.existsSync(target))
     throw new BackupError(`${target} already exists; choose another file name. Nothing was written.`);
-  const exported = exportDatabaseJson(db, options);
+  const exported = await exportDatabaseJson(sql, options);
   fs.mkdirSync(path.dirname(target), { recursive: true });
   const temporary = temporaryNameBeside(target, 'partial');
   try {

@@ -1,7 +1,7 @@
 import type { Patient, PatientSummary, PatientValues } from '../../app/contract/records.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
+import { sql as kyselySql, type Generated } from 'kysely';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type PatientVersionRow = StampRow & {
   patient_id: number;
@@ -15,6 +15,26 @@ type PatientVersionRow = StampRow & {
   owner_reference: string;
   notes: string;
   created_at: string;
+};
+
+type Tables = {
+  patients: { id: Generated<number>; created_at: string };
+  patient_versions: Omit<PatientVersionRow, 'id' | 'created_at'> & { id: Generated<number> };
+  patient_current: { patient_id: number; version_id: number };
+  /**
+   * SQLite: an FTS5 table (trigram), whose hidden column named after the table is what MATCH
+   * takes; PostgreSQL: a plain table with a pg_trgm index on search_text.
+   */
+  patient_search: { rowid: number; search_text: string; patient_search: Generated<string> };
+  species: { id: number; species_key: string; common_name: string; corrects_id: number | null };
+  weights: {
+    id: number;
+    patient_id: number;
+    corrects_id: number | null;
+    voided: number;
+    weighed_on: string;
+    mass_g: number;
+  };
 };
 
 type SummaryRow = {
@@ -86,109 +106,214 @@ function ftsPhrase(query: string): string {
   return `"${query.replace(/"/g, '""')}"`;
 }
 
+/** A LIKE pattern that finds `text` anywhere, with LIKE's own characters matched literally (escape \). */
+function containsPattern(text: string): string {
+  return `%${text.replace(/[\\%_]/g, (match) => `\\${match}`)}%`;
+}
+
 /** All SQL for patients, patient_versions, patient_current and patient_search. */
-export function createPatientRepository(db: TidewingDatabase) {
-  const insertPatient = db.prepare('INSERT INTO patients (created_at) VALUES (?)');
-  const insertVersion = db.prepare(
-    `INSERT INTO patient_versions (patient_id, corrects_id, name, species_key, sex, hatch_date, age_text, ring_id, microchip_id, owner_reference, notes, entered_at, entered_by, reason)
-     VALUES (@patientId, @correctsId, @name, @speciesKey, @sex, @hatchDate, @ageText, @ringId, @microchipId, @ownerReference, @notes, @enteredAt, @enteredBy, @reason)`,
-  );
-  const setCurrent = db.prepare(
-    'INSERT INTO patient_current (patient_id, version_id) VALUES (?, ?) ON CONFLICT (patient_id) DO UPDATE SET version_id = excluded.version_id',
-  );
-  const deleteSearch = db.prepare('DELETE FROM patient_search WHERE rowid = ?');
-  const insertSearch = db.prepare('INSERT INTO patient_search (rowid, search_text) VALUES (?, ?)');
-  const speciesName = db.prepare<[string], { common_name: string }>(
-    'SELECT common_name FROM species s WHERE species_key = ? AND NOT EXISTS (SELECT 1 FROM species later WHERE later.corrects_id = s.id)',
-  );
-  const currentRow = db.prepare<[number], PatientVersionRow>(
-    `SELECT v.*, p.created_at FROM patient_current c JOIN patient_versions v ON v.id = c.version_id JOIN patients p ON p.id = c.patient_id WHERE c.patient_id = ?`,
-  );
-  const versionRow = db.prepare<[number], PatientVersionRow>(
-    'SELECT v.*, p.created_at FROM patient_versions v JOIN patients p ON p.id = v.patient_id WHERE v.id = ?',
-  );
+export function createPatientRepository(sql: Sql) {
+  const tables = (on: Sql) => on.kysely.withTables<Tables>();
 
-  const summarySelect = `
-    SELECT p.id, v.name, v.species_key, v.ring_id, v.microchip_id, v.owner_reference,
-      (SELECT common_name FROM species s WHERE s.species_key = v.species_key AND NOT EXISTS (SELECT 1 FROM species later WHERE later.corrects_id = s.id)) AS species_name,
-      w.mass_g AS latest_mass_g, w.weighed_on AS latest_weighed_on
-    FROM patients p
-    JOIN patient_current c ON c.patient_id = p.id
-    JOIN patient_versions v ON v.id = c.version_id
-    LEFT JOIN weights w ON w.id = (
-      SELECT id FROM weights x WHERE x.patient_id = p.id AND x.voided = 0 AND NOT EXISTS (SELECT 1 FROM weights later WHERE later.corrects_id = x.id)
-      ORDER BY x.weighed_on DESC, x.id DESC LIMIT 1)`;
-  const searchFts = db.prepare<[string, number], SummaryRow>(
-    `${summarySelect} WHERE p.id IN (SELECT rowid FROM patient_search WHERE patient_search MATCH ? ORDER BY rank) ORDER BY v.name COLLATE NOCASE LIMIT ?`,
-  );
-  const searchShort = db.prepare<[string, number], SummaryRow>(
-    `${summarySelect} WHERE p.id IN (SELECT rowid FROM patient_search WHERE search_text LIKE ? ESCAPE '\\') ORDER BY v.name COLLATE NOCASE LIMIT ?`,
-  );
-  const recent = db.prepare<[number], SummaryRow>(`${summarySelect} ORDER BY p.id DESC LIMIT ?`);
-  const count = db.prepare<[], { total: number }>('SELECT count(*) AS total FROM patients');
+  async function speciesName(on: Sql, key: string): Promise<string | null> {
+    const row = await tables(on)
+      .selectFrom('species as s')
+      .select('s.common_name')
+      .where('s.species_key', '=', key)
+      .where(({ not, exists, selectFrom }) =>
+        not(
+          exists(
+            selectFrom('species as later').select('later.id').whereRef('later.corrects_id', '=', 's.id'),
+          ),
+        ),
+      )
+      .executeTakeFirst();
+    return row?.common_name ?? null;
+  }
 
-  function index(patientId: number, values: PatientValues) {
-    deleteSearch.run(patientId);
-    insertSearch.run(patientId, searchText(values, speciesName.get(values.speciesKey)?.common_name ?? null));
+  async function currentRow(on: Sql, patientId: number): Promise<PatientVersionRow | undefined> {
+    return tables(on)
+      .selectFrom('patient_current as c')
+      .innerJoin('patient_versions as v', 'v.id', 'c.version_id')
+      .innerJoin('patients as p', 'p.id', 'c.patient_id')
+      .selectAll('v')
+      .select('p.created_at')
+      .where('c.patient_id', '=', patientId)
+      .executeTakeFirst();
+  }
+
+  async function addVersion(
+    on: Sql,
+    patientId: number,
+    correctsId: number | null,
+    values: PatientValues,
+    meta: Meta,
+    at: Date,
+  ): Promise<Patient> {
+    const { id: versionId } = await tables(on)
+      .insertInto('patient_versions')
+      .values({
+        patient_id: patientId,
+        corrects_id: correctsId,
+        name: values.name,
+        species_key: values.speciesKey,
+        sex: values.sex,
+        hatch_date: values.hatchDate,
+        age_text: values.ageText,
+        ring_id: values.ringId,
+        microchip_id: values.microchipId,
+        owner_reference: values.ownerReference,
+        notes: values.notes,
+        entered_at: at.toISOString(),
+        entered_by: meta.enteredBy,
+        reason: meta.reason,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await tables(on)
+      .insertInto('patient_current')
+      .values({ patient_id: patientId, version_id: versionId })
+      .onConflict((conflict) =>
+        conflict
+          .column('patient_id')
+          .doUpdateSet((update) => ({ version_id: update.ref('excluded.version_id') })),
+      )
+      .execute();
+    await tables(on).deleteFrom('patient_search').where('rowid', '=', patientId).execute();
+    await tables(on)
+      .insertInto('patient_search')
+      .values({ rowid: patientId, search_text: searchText(values, await speciesName(on, values.speciesKey)) })
+      .execute();
+    return rowToPatient((await currentRow(on, patientId)) as PatientVersionRow);
+  }
+
+  /** Each patient's current version with its species' name and its newest weight that stands. */
+  function summaries() {
+    return tables(sql)
+      .selectFrom('patients as p')
+      .innerJoin('patient_current as c', 'c.patient_id', 'p.id')
+      .innerJoin('patient_versions as v', 'v.id', 'c.version_id')
+      .leftJoin('weights as w', (join) =>
+        join.on(({ eb, selectFrom }) =>
+          eb(
+            'w.id',
+            '=',
+            selectFrom('weights as x')
+              .select('x.id')
+              .whereRef('x.patient_id', '=', 'p.id')
+              .where('x.voided', '=', 0)
+              .where(({ not, exists, selectFrom: inner }) =>
+                not(
+                  exists(
+                    inner('weights as later').select('later.id').whereRef('later.corrects_id', '=', 'x.id'),
+                  ),
+                ),
+              )
+              .orderBy('x.weighed_on', 'desc')
+              .orderBy('x.id', 'desc')
+              .limit(1),
+          ),
+        ),
+      )
+      .select(({ selectFrom }) => [
+        'p.id',
+        'v.name',
+        'v.species_key',
+        'v.ring_id',
+        'v.microchip_id',
+        'v.owner_reference',
+        selectFrom('species as s')
+          .select('s.common_name')
+          .whereRef('s.species_key', '=', 'v.species_key')
+          .where(({ not, exists, selectFrom: inner }) =>
+            not(
+              exists(inner('species as later').select('later.id').whereRef('later.corrects_id', '=', 's.id')),
+            ),
+          )
+          .as('species_name'),
+        'w.mass_g as latest_mass_g',
+        'w.weighed_on as latest_weighed_on',
+      ]);
+  }
+
+  /** The ids of patients whose search text holds `text` (three or more characters on SQLite). */
+  function matching(text: string) {
+    const search = tables(sql).selectFrom('patient_search').select('rowid');
+    // The one statement whose dialects differ: SQLite's FTS5 trigram index is asked with MATCH
+    // (a quoted phrase, so punctuation in IDs is literal); PostgreSQL's pg_trgm index serves ILIKE.
+    if (sql.engine === 'postgresql') return search.where('search_text', 'ilike', containsPattern(text));
+    return search.where('patient_search', 'match', ftsPhrase(text));
+  }
+
+  /** SQLite's LIKE, with its escape character named, for searches too short for the trigram index. */
+  function matchingShort(text: string) {
+    return tables(sql)
+      .selectFrom('patient_search')
+      .select('rowid')
+      .where(kyselySql<boolean>`search_text LIKE ${containsPattern(text)} ESCAPE '\\'`);
   }
 
   return {
-    create(values: PatientValues, meta: Meta, at: Date): Patient {
-      return writeTransaction(db, () => {
-        const patientId = Number(insertPatient.run(at.toISOString()).lastInsertRowid);
-        const versionId = Number(
-          insertVersion.run({ ...values, patientId, correctsId: null, enteredAt: at.toISOString(), ...meta })
-            .lastInsertRowid,
-        );
-        setCurrent.run(patientId, versionId);
-        index(patientId, values);
-        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+    create(values: PatientValues, meta: Meta, at: Date): Promise<Patient> {
+      return writeTransaction(sql, async (tx) => {
+        const { id: patientId } = await tables(tx)
+          .insertInto('patients')
+          .values({ created_at: at.toISOString() })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        return addVersion(tx, patientId, null, values, meta, at);
       });
     },
     /** Adds a corrected version; the earlier one stays in the history. */
-    correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Patient | null {
-      return writeTransaction(db, () => {
-        const current = currentRow.get(patientId);
+    correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Promise<Patient | null> {
+      return writeTransaction(sql, async (tx) => {
+        const current = await currentRow(tx, patientId);
         if (current === undefined) return null;
-        const versionId = Number(
-          insertVersion.run({
-            ...values,
-            patientId,
-            correctsId: current.id,
-            enteredAt: at.toISOString(),
-            ...meta,
-          }).lastInsertRowid,
-        );
-        setCurrent.run(patientId, versionId);
-        index(patientId, values);
-        return rowToPatient(currentRow.get(patientId) as PatientVersionRow);
+        return addVersion(tx, patientId, current.id, values, meta, at);
       });
     },
-    get(patientId: number): Patient | null {
-      const row = currentRow.get(patientId);
+    async get(patientId: number): Promise<Patient | null> {
+      const row = await currentRow(sql, patientId);
       return row === undefined ? null : rowToPatient(row);
     },
-    history(patientId: number): Patient[] {
-      const row = currentRow.get(patientId);
+    async history(patientId: number): Promise<Patient[]> {
+      const row = await currentRow(sql, patientId);
       if (row === undefined) return [];
-      return chainIdsSync(db, 'patient_versions', row.id).map((id) =>
-        rowToPatient(versionRow.get(id) as PatientVersionRow),
-      );
+      const ids = await chainIds(sql, 'patient_versions', row.id);
+      // Newest first, as the chain is: a later version always has a higher id.
+      const rows = await tables(sql)
+        .selectFrom('patient_versions as v')
+        .innerJoin('patients as p', 'p.id', 'v.patient_id')
+        .selectAll('v')
+        .select('p.created_at')
+        .where('v.id', 'in', ids)
+        .orderBy('v.id', 'desc')
+        .execute();
+      return rows.map(rowToPatient);
     },
     /**
      * Finds patients by name or ID, species, ring, microchip, owner reference, hatch date or notes.
      * Three or more characters use the trigram index (substring match); shorter ones a scan.
      */
-    search(query: string, limit = 50): PatientSummary[] {
+    async search(query: string, limit = 50): Promise<PatientSummary[]> {
       const trimmed = query.trim();
-      if (trimmed === '') return recent.all(limit).map(rowToSummary);
-      if ([...trimmed].length >= 3) return searchFts.all(ftsPhrase(trimmed), limit).map(rowToSummary);
-      return searchShort
-        .all(`%${trimmed.replace(/[\\%_]/g, (match) => `\\${match}`)}%`, limit)
-        .map(rowToSummary);
+      if (trimmed === '')
+        return (await summaries().orderBy('p.id', 'desc').limit(limit).execute()).map(rowToSummary);
+      const ids =
+        sql.engine === 'sqlite' && [...trimmed].length < 3 ? matchingShort(trimmed) : matching(trimmed);
+      const rows = await summaries()
+        .where('p.id', 'in', ids)
+        .orderBy(kyselySql`lower(v.name)`)
+        .limit(limit)
+        .execute();
+      return rows.map(rowToSummary);
     },
-    count(): number {
-      return count.get()?.total ?? 0;
+    async count(): Promise<number> {
+      const row = await tables(sql)
+        .selectFrom('patients')
+        .select(({ fn }) => fn.countAll<number>().as('total'))
+        .executeTakeFirst();
+      return Number(row?.total ?? 0);
     },
   };
 }

@@ -1,24 +1,29 @@
-import type { TidewingDatabase } from '../connection.js';
+import type { Generated } from 'kysely';
+import type { Sql } from '../clinic-db.js';
 
 export type SafetyAcknowledgement = { acknowledgedAt: string; appVersion: string; acknowledgedBy: string };
 
-type AcknowledgementRow = { acknowledged_at: string; app_version: string; acknowledged_by: string };
+type AcknowledgementRow = {
+  id: Generated<number>;
+  acknowledged_at: string;
+  app_version: string;
+  acknowledged_by: string;
+};
+
+type Tables = { safety_acknowledgements: AcknowledgementRow };
 
 /** All SQL for the safety_acknowledgements table; rows are only ever added. */
-export function createSafetyAcknowledgementRepository(db: TidewingDatabase) {
-  const latest = db.prepare<[], AcknowledgementRow>(
-    'SELECT acknowledged_at, app_version, acknowledged_by FROM safety_acknowledgements ORDER BY id DESC LIMIT 1',
-  );
-  const forVersion = db.prepare<[string], { count: number }>(
-    'SELECT count(*) AS count FROM safety_acknowledgements WHERE app_version = ?',
-  );
-  const insert = db.prepare(
-    'INSERT INTO safety_acknowledgements (acknowledged_at, app_version, acknowledged_by) VALUES (?, ?, ?)',
-  );
+export function createSafetyAcknowledgementRepository(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
 
   return {
-    latest(): SafetyAcknowledgement | null {
-      const row = latest.get();
+    async latest(): Promise<SafetyAcknowledgement | null> {
+      const row = await db
+        .selectFrom('safety_acknowledgements')
+        .select(['acknowledged_at', 'app_version', 'acknowledged_by'])
+        .orderBy('id', 'desc')
+        .limit(1)
+        .executeTakeFirst();
       return row === undefined
         ? null
         : {
@@ -27,11 +32,24 @@ export function createSafetyAcknowledgementRepository(db: TidewingDatabase) {
             acknowledgedBy: row.acknowledged_by,
           };
     },
-    isAcknowledged(appVersion: string): boolean {
-      return (forVersion.get(appVersion)?.count ?? 0) > 0;
+    async isAcknowledged(appVersion: string): Promise<boolean> {
+      const row = await db
+        .selectFrom('safety_acknowledgements')
+        .select('id')
+        .where('app_version', '=', appVersion)
+        .limit(1)
+        .executeTakeFirst();
+      return row !== undefined;
     },
-    record(appVersion: string, acknowledgedBy: string, at: Date): void {
-      insert.run(at.toISOString(), appVersion, acknowledgedBy);
+    async record(appVersion: string, acknowledgedBy: string, at: Date): Promise<void> {
+      await db
+        .insertInto('safety_acknowledgements')
+        .values({
+          acknowledged_at: at.toISOString(),
+          app_version: appVersion,
+          acknowledged_by: acknowledgedBy,
+        })
+        .execute();
     },
   };
 }

@@ -2,9 +2,9 @@ import type { Species, SpeciesValues } from '../../app/contract/records.js';
 import { agentIds, type AgentId } from '../../app/core/agents.js';
 import { storedBasis } from '../../app/core/sourced.js';
 import type { PotencyMeasure, SpeciesReference } from '../../app/core/species-reference.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
+import { sql as kyselySql, type Generated, type Insertable } from 'kysely';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type SpeciesRow = StampRow & {
   species_key: string;
@@ -25,6 +25,8 @@ type SpeciesRow = StampRow & {
   anatomy_notes_json: string;
 } & Record<`mac_${AgentId}_${'pct' | 'sd_pct'}`, number | null> &
   Record<`mac_${AgentId}_${'measure' | 'basis' | 'note'}`, string | null>;
+
+type Tables = { species: Omit<SpeciesRow, 'id'> & { id: Generated<number> } };
 
 type Meta = { enteredBy: string; reason: string };
 
@@ -82,7 +84,10 @@ function rowToSpecies(row: SpeciesRow): Species {
   };
 }
 
-function valuesToParameters(values: SpeciesValues) {
+/** The value columns of a species row (everything but the key, origin and stamp). */
+type ValueColumns = Omit<SpeciesRow, keyof StampRow | 'species_key' | 'origin'>;
+
+function valuesToParameters(values: SpeciesValues): ValueColumns {
   const parameters: Record<string, string | number | null> = {
     common_name: values.commonName,
     scientific_name: values.scientificName,
@@ -107,7 +112,7 @@ function valuesToParameters(values: SpeciesValues) {
     parameters[`mac_${agent}_basis`] = mac?.basis ?? null;
     parameters[`mac_${agent}_note`] = mac?.note ?? null;
   }
-  return parameters;
+  return parameters as ValueColumns;
 }
 
 /** Converts an entry of the shipped species reference into editable species values. */
@@ -167,53 +172,64 @@ export function referenceToValues(reference: SpeciesReference): SpeciesValues {
   };
 }
 
-const columns = [
-  'common_name',
-  'scientific_name',
-  'mass_min_g',
-  'mass_max_g',
-  'mass_basis',
-  'heart_rate_min_per_min',
-  'heart_rate_max_per_min',
-  'heart_rate_basis',
-  'breaths_min_per_min',
-  'breaths_max_per_min',
-  'breaths_basis',
-  'apnoea_mac_multiple',
-  'apnoea_basis',
-  'anatomy_notes_json',
-  ...agentIds.flatMap((agent) =>
-    ['pct', 'sd_pct', 'measure', 'basis', 'note'].map((part) => `mac_${agent}_${part}`),
-  ),
-];
-
 /** All SQL for the species table. Edits add a version; the old value and its source stay. */
-export function createSpeciesRepository(db: TidewingDatabase) {
-  const currentCondition = 'NOT EXISTS (SELECT 1 FROM species later WHERE later.corrects_id = s.id)';
-  const listCurrent = db.prepare<[], SpeciesRow>(
-    `SELECT * FROM species s WHERE ${currentCondition} ORDER BY common_name COLLATE NOCASE`,
-  );
-  const getCurrent = db.prepare<[string], SpeciesRow>(
-    `SELECT * FROM species s WHERE species_key = ? AND ${currentCondition}`,
-  );
-  const getById = db.prepare<[number], SpeciesRow>('SELECT * FROM species WHERE id = ?');
-  const keyExists = db.prepare<[string], { found: number }>(
-    'SELECT 1 AS found FROM species WHERE species_key = ? LIMIT 1',
-  );
-  const insert = db.prepare(
-    `INSERT INTO species (species_key, corrects_id, origin, ${columns.join(', ')}, entered_at, entered_by, reason)
-     VALUES (@species_key, @corrects_id, @origin, ${columns.map((column) => `@${column}`).join(', ')}, @entered_at, @entered_by, @reason)`,
-  );
+export function createSpeciesRepository(sql: Sql) {
+  const tables = (on: Sql) => on.kysely.withTables<Tables>();
 
-  function write(
+  /** The current version of each species: the rows no later row corrects. */
+  function current(on: Sql) {
+    return tables(on)
+      .selectFrom('species as s')
+      .selectAll('s')
+      .where(({ not, exists, selectFrom }) =>
+        not(
+          exists(
+            selectFrom('species as later').select('later.id').whereRef('later.corrects_id', '=', 's.id'),
+          ),
+        ),
+      );
+  }
+
+  async function getCurrent(on: Sql, key: string): Promise<SpeciesRow | undefined> {
+    return current(on).where('s.species_key', '=', key).executeTakeFirst();
+  }
+
+  async function keyExists(on: Sql, key: string): Promise<boolean> {
+    const row = await tables(on)
+      .selectFrom('species')
+      .select('id')
+      .where('species_key', '=', key)
+      .limit(1)
+      .executeTakeFirst();
+    return row !== undefined;
+  }
+
+  async function write(
+    on: Sql,
     key: string,
     origin: 'reference' | 'clinic',
     correctsId: number | null,
     values: SpeciesValues,
     meta: Meta,
     at: Date,
-  ): Species {
-    const result = insert.run({
+  ): Promise<Species> {
+    const written = await insert(on, key, origin, correctsId, values, meta, at, false);
+    if (written === null) throw new Error('Species row vanished after insert');
+    return written;
+  }
+
+  /** Inserts a version; with `onlyNewKey`, a first version whose key another writer just took is skipped (null). */
+  async function insert(
+    on: Sql,
+    key: string,
+    origin: 'reference' | 'clinic',
+    correctsId: number | null,
+    values: SpeciesValues,
+    meta: Meta,
+    at: Date,
+    onlyNewKey: boolean,
+  ): Promise<Species | null> {
+    const row: Insertable<Tables['species']> = {
       ...valuesToParameters(values),
       species_key: key,
       corrects_id: correctsId,
@@ -221,13 +237,25 @@ export function createSpeciesRepository(db: TidewingDatabase) {
       entered_at: at.toISOString(),
       entered_by: meta.enteredBy,
       reason: meta.reason,
-    });
-    const row = getById.get(Number(result.lastInsertRowid));
-    if (row === undefined) throw new Error('Species row vanished after insert');
-    return rowToSpecies(row);
+    };
+    const inserted = await tables(on)
+      .insertInto('species')
+      .values(row)
+      .$if(onlyNewKey, (query) =>
+        query.onConflict((conflict) =>
+          conflict.column('species_key').where('corrects_id', 'is', null).doNothing(),
+        ),
+      )
+      .returning('id')
+      .executeTakeFirst();
+    if (inserted === undefined) return null;
+    const { id } = inserted;
+    const stored = await tables(on).selectFrom('species').selectAll().where('id', '=', id).executeTakeFirst();
+    if (stored === undefined) throw new Error('Species row vanished after insert');
+    return rowToSpecies(stored);
   }
 
-  function uniqueKey(commonName: string): string {
+  async function uniqueKey(on: Sql, commonName: string): Promise<string> {
     const base =
       commonName
         .toLowerCase()
@@ -236,44 +264,59 @@ export function createSpeciesRepository(db: TidewingDatabase) {
         .replace(/^-+|-+$/g, '')
         .slice(0, 50) || 'species';
     let key = base;
-    for (let suffix = 2; keyExists.get(key) !== undefined; suffix += 1) key = `${base}-${suffix}`;
+    for (let suffix = 2; await keyExists(on, key); suffix += 1) key = `${base}-${suffix}`;
     return key;
   }
 
   return {
-    list(): Species[] {
-      return listCurrent.all().map(rowToSpecies);
+    async list(): Promise<Species[]> {
+      const rows = await current(sql)
+        .orderBy(kyselySql`lower(s.common_name)`)
+        .execute();
+      return rows.map(rowToSpecies);
     },
-    get(key: string): Species | null {
-      const row = getCurrent.get(key);
+    async get(key: string): Promise<Species | null> {
+      const row = await getCurrent(sql, key);
       return row === undefined ? null : rowToSpecies(row);
     },
     /** Every version of one species, newest first. */
-    history(key: string): Species[] {
-      const current = getCurrent.get(key);
-      if (current === undefined) return [];
-      return chainIdsSync(db, 'species', current.id).map((id) => rowToSpecies(getById.get(id) as SpeciesRow));
+    async history(key: string): Promise<Species[]> {
+      const row = await getCurrent(sql, key);
+      if (row === undefined) return [];
+      const ids = await chainIds(sql, 'species', row.id);
+      // Newest first, as the chain is: a later version always has a higher id.
+      const rows = await tables(sql)
+        .selectFrom('species')
+        .selectAll()
+        .where('id', 'in', ids)
+        .orderBy('id', 'desc')
+        .execute();
+      return rows.map(rowToSpecies);
     },
-    add(values: SpeciesValues, meta: Meta, at: Date): Species {
-      return writeTransaction(db, () =>
-        write(uniqueKey(values.commonName), 'clinic', null, values, meta, at),
+    add(values: SpeciesValues, meta: Meta, at: Date): Promise<Species> {
+      return writeTransaction(sql, async (tx) =>
+        write(tx, await uniqueKey(tx, values.commonName), 'clinic', null, values, meta, at),
       );
     },
     /** Records an edit as a new version pointing at the one it replaces. */
-    correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Species | null {
-      return writeTransaction(db, () => {
-        const current = getCurrent.get(key);
-        if (current === undefined) return null;
-        return write(key, current.origin, current.id, values, meta, at);
+    correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Promise<Species | null> {
+      return writeTransaction(sql, async (tx) => {
+        const row = await getCurrent(tx, key);
+        if (row === undefined) return null;
+        return write(tx, key, row.origin, row.id, values, meta, at);
       });
     },
     /** Adds every shipped reference species the database lacks; never touches clinic edits. */
-    seedReference(reference: readonly SpeciesReference[], at: Date): number {
-      return writeTransaction(db, () => {
+    seedReference(reference: readonly SpeciesReference[], at: Date): Promise<number> {
+      return writeTransaction(sql, async (tx) => {
+        const keys = await tables(tx).selectFrom('species').select('species_key').distinct().execute();
+        const present = new Set(keys.map((row) => row.species_key));
         let added = 0;
         for (const entry of reference) {
-          if (keyExists.get(entry.id) !== undefined) continue;
-          write(
+          if (present.has(entry.id)) continue;
+          // Another workstation starting at the same moment may seed the same key first (PostgreSQL).
+          const written = await insert(
+            tx,
             entry.id,
             'reference',
             null,
@@ -283,8 +326,9 @@ export function createSpeciesRepository(db: TidewingDatabase) {
               reason: 'Seeded from the species reference shipped with Tidewing',
             },
             at,
+            true,
           );
-          added += 1;
+          if (written !== null) added += 1;
         }
         return added;
       });

@@ -1,7 +1,7 @@
+import type { Generated } from 'kysely';
 import type { Weight, WeightValues } from '../../app/contract/records.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { chainIdsSync, stampOf, type StampRow } from './version-chain.js';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { chainIds, stampOf, type StampRow } from './version-chain.js';
 
 type WeightRow = StampRow & {
   patient_id: number;
@@ -11,6 +11,8 @@ type WeightRow = StampRow & {
   body_condition: WeightValues['bodyCondition'];
   weighed_by: string;
 };
+
+type Tables = { weights: Omit<WeightRow, 'id'> & { id: Generated<number> } };
 
 type Meta = { enteredBy: string; reason: string };
 
@@ -30,86 +32,118 @@ function rowToWeight(row: WeightRow): Weight {
 }
 
 /** All SQL for the weights table. Corrections and voids are new rows. */
-export function createWeightRepository(db: TidewingDatabase) {
-  const insert = db.prepare(
-    `INSERT INTO weights (patient_id, corrects_id, voided, weighed_on, mass_g, body_condition, weighed_by, entered_at, entered_by, reason)
-     VALUES (@patientId, @correctsId, @voided, @weighedOn, @massG, @bodyCondition, @weighedBy, @enteredAt, @enteredBy, @reason)`,
-  );
-  const byId = db.prepare<[number], WeightRow>('SELECT * FROM weights WHERE id = ?');
-  const isCurrent = db.prepare<[number], { found: number }>(
-    'SELECT 1 AS found FROM weights WHERE corrects_id = ?',
-  );
-  const listCurrent = db.prepare<[number], WeightRow>(
-    `SELECT * FROM weights w WHERE patient_id = ? AND voided = 0 AND NOT EXISTS (SELECT 1 FROM weights later WHERE later.corrects_id = w.id)
-     ORDER BY weighed_on, id`,
-  );
+export function createWeightRepository(sql: Sql) {
+  const tables = (on: Sql) => on.kysely.withTables<Tables>();
 
-  function latestVersion(weightId: number): WeightRow | null {
-    const row = byId.get(weightId);
+  async function byId(on: Sql, id: number): Promise<WeightRow | undefined> {
+    return tables(on).selectFrom('weights').selectAll().where('id', '=', id).executeTakeFirst();
+  }
+
+  async function insert(
+    on: Sql,
+    values: WeightValues,
+    row: { patientId: number; correctsId: number | null; voided: 0 | 1 },
+    meta: Meta,
+    at: Date,
+  ): Promise<Weight> {
+    const { id } = await tables(on)
+      .insertInto('weights')
+      .values({
+        patient_id: row.patientId,
+        corrects_id: row.correctsId,
+        voided: row.voided,
+        weighed_on: values.weighedOn,
+        mass_g: values.massG,
+        body_condition: values.bodyCondition,
+        weighed_by: values.weighedBy,
+        entered_at: at.toISOString(),
+        entered_by: meta.enteredBy,
+        reason: meta.reason,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    return rowToWeight((await byId(on, id)) as WeightRow);
+  }
+
+  async function latestVersion(on: Sql, weightId: number): Promise<WeightRow | null> {
+    const row = await byId(on, weightId);
     if (row === undefined) return null;
-    if (isCurrent.get(weightId) !== undefined)
+    const later = await tables(on)
+      .selectFrom('weights')
+      .select('id')
+      .where('corrects_id', '=', weightId)
+      .executeTakeFirst();
+    if (later !== undefined)
       throw new WeightCorrectionError('That weight has already been corrected; correct its newest version.');
     return row;
   }
 
   return {
-    add(patientId: number, values: WeightValues, meta: Meta, at: Date): Weight {
-      const id = Number(
-        insert.run({
-          ...values,
-          patientId,
-          correctsId: null,
-          voided: 0,
-          enteredAt: at.toISOString(),
-          ...meta,
-        }).lastInsertRowid,
-      );
-      return rowToWeight(byId.get(id) as WeightRow);
+    add(patientId: number, values: WeightValues, meta: Meta, at: Date): Promise<Weight> {
+      return insert(sql, values, { patientId, correctsId: null, voided: 0 }, meta, at);
     },
-    correct(weightId: number, values: WeightValues, meta: Meta, at: Date): Weight | null {
-      return writeTransaction(db, () => {
-        const previous = latestVersion(weightId);
+    correct(weightId: number, values: WeightValues, meta: Meta, at: Date): Promise<Weight | null> {
+      return writeTransaction(sql, async (tx) => {
+        const previous = await latestVersion(tx, weightId);
         if (previous === null) return null;
-        const id = Number(
-          insert.run({
-            ...values,
-            patientId: previous.patient_id,
-            correctsId: previous.id,
-            voided: 0,
-            enteredAt: at.toISOString(),
-            ...meta,
-          }).lastInsertRowid,
+        return insert(
+          tx,
+          values,
+          { patientId: previous.patient_id, correctsId: previous.id, voided: 0 },
+          meta,
+          at,
         );
-        return rowToWeight(byId.get(id) as WeightRow);
       });
     },
     /** Withdraws a weight entered in error; it stays in the history, marked void. */
-    void(weightId: number, meta: Meta, at: Date): Weight | null {
-      return writeTransaction(db, () => {
-        const previous = latestVersion(weightId);
+    void(weightId: number, meta: Meta, at: Date): Promise<Weight | null> {
+      return writeTransaction(sql, async (tx) => {
+        const previous = await latestVersion(tx, weightId);
         if (previous === null) return null;
-        const id = Number(
-          insert.run({
-            patientId: previous.patient_id,
-            correctsId: previous.id,
-            voided: 1,
+        return insert(
+          tx,
+          {
             weighedOn: previous.weighed_on,
             massG: previous.mass_g,
             bodyCondition: previous.body_condition,
             weighedBy: previous.weighed_by,
-            enteredAt: at.toISOString(),
-            ...meta,
-          }).lastInsertRowid,
+          },
+          { patientId: previous.patient_id, correctsId: previous.id, voided: 1 },
+          meta,
+          at,
         );
-        return rowToWeight(byId.get(id) as WeightRow);
       });
     },
     /** Current, not voided weights of a patient, oldest first. */
-    list(patientId: number): Weight[] {
-      return listCurrent.all(patientId).map(rowToWeight);
+    async list(patientId: number): Promise<Weight[]> {
+      const rows = await tables(sql)
+        .selectFrom('weights as w')
+        .selectAll('w')
+        .where('w.patient_id', '=', patientId)
+        .where('w.voided', '=', 0)
+        .where(({ not, exists, selectFrom }) =>
+          not(
+            exists(
+              selectFrom('weights as later').select('later.id').whereRef('later.corrects_id', '=', 'w.id'),
+            ),
+          ),
+        )
+        .orderBy('w.weighed_on')
+        .orderBy('w.id')
+        .execute();
+      return rows.map(rowToWeight);
     },
-    history(weightId: number): Weight[] {
-      return chainIdsSync(db, 'weights', weightId).map((id) => rowToWeight(byId.get(id) as WeightRow));
+    async history(weightId: number): Promise<Weight[]> {
+      const ids = await chainIds(sql, 'weights', weightId);
+      if (ids.length === 0) return [];
+      // Newest first, as the chain is: a later version always has a higher id.
+      const rows = await tables(sql)
+        .selectFrom('weights')
+        .selectAll()
+        .where('id', 'in', ids)
+        .orderBy('id', 'desc')
+        .execute();
+      return rows.map(rowToWeight);
     },
   };
 }

@@ -21,6 +21,12 @@ export type BackEnd = {
   readonly databaseFile: string;
   /** The theme this workstation pinned in Settings, for the hosts to write into the page. */
   readonly workstationTheme: () => ThemeChoice;
+  /**
+   * Settles when the start-up writes are done: the shipped species reference seeded, the demo
+   * clinic written when asked for, this workstation's theme read. `dispatch` awaits it before
+   * the first handler runs; a host awaits it before serving pages (and gives up if it rejects).
+   */
+  readonly ready: Promise<void>;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
   close(): void;
@@ -62,24 +68,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const db = openDatabase(file, options.openOptions);
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
-  createSpeciesRepository(db).seedReference(speciesReference, now());
-  // The demo clinic is written before the first request is answered and before the backup.
-  const demoWritten =
-    options.demoClinic === true
-      ? writeDemoClinic(db, clinic, now()).then(
-          (written) =>
-            options.log?.(
-              written > 0
-                ? `Demo clinic: ${String(written)} invented procedure records written.`
-                : 'Demo clinic not written: this clinic already holds patients.',
-            ),
-          (error: unknown) =>
-            options.log?.(
-              `Demo clinic not written: ${error instanceof Error ? error.message : String(error)}`,
-            ),
-        )
-      : Promise.resolve();
-  const { handlers, workstationTheme } = createBackEndParts({
+  const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
     db,
     clinic,
     appVersion: options.appVersion,
@@ -87,41 +76,49 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
-  const dispatcher = createDispatcher(handlers, options.log);
+  const ready = (async () => {
+    await createSpeciesRepository(clinic).seedReference(speciesReference, now());
+    if (options.demoClinic === true) {
+      const written = await writeDemoClinic(clinic, now());
+      options.log?.(
+        written > 0
+          ? `Demo clinic: ${String(written)} invented procedure records written.`
+          : 'Demo clinic not written: this clinic already holds patients.',
+      );
+    }
+    await loadWorkstationTheme();
+  })();
+  // A failure is answered by every dispatch and by the hosts that await `ready`; not unhandled.
+  ready.catch(() => undefined);
+  // The backup is made after the start-up writes, as when they were synchronous; none when they failed.
   const backupSettled =
     options.automaticBackup === true
-      ? demoWritten
-          .then(() =>
-            automaticBackupOnStart({
+      ? ready.then(
+          async () => {
+            const result = await automaticBackupOnStart({
               dataDirectory: options.dataDirectory,
               databaseFile: file,
               connection: db,
               now: now(),
-            }),
-          )
-          .then((result) => {
+            });
             options.log?.(result.message);
             return result.message;
-          })
+          },
+          (error: unknown) =>
+            `No automatic backup: the clinic database could not be prepared (${error instanceof Error ? error.message : String(error)}).`,
+        )
       : Promise.resolve('No automatic backup was asked for.');
   return {
     db,
     clinic,
-    dispatch: options.demoClinic === true ? dispatchAfter(demoWritten, dispatcher) : dispatcher,
+    dispatch: createDispatcher(handlers, options.log, ready),
     handlers,
     databaseFile: file,
     workstationTheme,
+    ready,
     backupSettled,
     close: () => {
       if (db.open) db.close();
     },
-  };
-}
-
-/** A dispatcher that answers only once `ready` has settled (the demo clinic written). */
-function dispatchAfter(ready: Promise<void>, dispatcher: Dispatcher): Dispatcher {
-  return async (channel, payload) => {
-    await ready;
-    return dispatcher(channel, payload);
   };
 }

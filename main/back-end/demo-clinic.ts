@@ -1,7 +1,6 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
 import { writeTransaction, type Sql } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
@@ -18,33 +17,28 @@ const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
  * patient is left alone: invented birds are never mixed with a clinic's own.
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
-export async function writeDemoClinic(db: TidewingDatabase, clinic: Sql, now: Date): Promise<number> {
-  if (createPatientRepository(db).count() > 0) return 0;
-  const species = createSpeciesRepository(db).list();
+export async function writeDemoClinic(clinic: Sql, now: Date): Promise<number> {
+  if ((await createPatientRepository(clinic).count()) > 0) return 0;
+  const species = await createSpeciesRepository(clinic).list();
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
-  return writeDemoRecords(db, clinic, demo, now);
+  return writeDemoRecords(clinic, demo, now);
 }
 
 /**
  * Writes a generated demo clinic's patients, weights, records and entries in one transaction.
  * @returns the number of procedure records written
  */
-export async function writeDemoRecords(
-  db: TidewingDatabase,
-  clinic: Sql,
-  demo: DemoClinic,
-  now: Date,
-): Promise<number> {
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
-  // On SQLite the patients and weights (still on the raw handle) are written in this same transaction.
+export async function writeDemoRecords(clinic: Sql, demo: DemoClinic, now: Date): Promise<number> {
   return writeTransaction(clinic, async (tx) => {
+    const patients = createPatientRepository(tx);
+    const weights = createWeightRepository(tx);
     const records = createProcedureRecordRepository(tx);
     const entries = createProcedureEntryRepository(tx);
-    const patientIds = demo.patients.map((patient) => {
-      const created = patients.create(
+    const patientIds: number[] = [];
+    for (const patient of demo.patients) {
+      const created = await patients.create(
         {
           name: patient.name,
           speciesKey: patient.speciesKey,
@@ -59,14 +53,14 @@ export async function writeDemoRecords(
         demoMeta,
         now,
       );
-      weights.add(
+      await weights.add(
         created.id,
         { weighedOn: patient.weighedOn, massG: patient.massG, bodyCondition: 'ideal', weighedBy: 'DEMO' },
         demoMeta,
         now,
       );
-      return created.id;
-    });
+      patientIds.push(created.id);
+    }
     for (const record of demo.records) {
       const created = await records.create(
         patientIds[record.patientIndex] as number,

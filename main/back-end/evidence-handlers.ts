@@ -67,18 +67,18 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 
 /** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
 export function createEvidenceHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
 ): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
-  const species = createSpeciesRepository(db);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
+  const species = createSpeciesRepository(clinic);
   const plans = createPlanRepository(clinic);
-  const settings = createSettingsRepository(db);
+  const settings = createSettingsRepository(clinic);
   const stored = createEvidenceCacheRepository(clinic);
   // Rows computed before, by record id, with the fingerprint they were computed for: read from
   // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
@@ -100,11 +100,11 @@ export function createEvidenceHandlers(
   }
 
   async function allRows(): Promise<{ rows: EvidenceRow[]; inProgress: number }> {
-    const speciesList = species.list();
+    const speciesList = await species.list();
     const tables = { species: speciesList.map(speciesToReference) };
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
     const exclusions = await evidence.exclusions();
-    const defaultAgent = settings.get().settings?.defaultAgent ?? 'isoflurane';
+    const defaultAgent = (await settings.get()).settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
       rowFormat,
@@ -135,12 +135,12 @@ export function createEvidenceHandlers(
       }
       const record = await procedures.get(recordId);
       if (record === null || record.values.endedAt === null) continue;
-      const patient = patients.get(record.patientId);
+      const patient = await patients.get(record.patientId);
       if (patient === null) continue;
       const speciesRecord = speciesByKey.get(patient.values.speciesKey);
       const recordEntries = await entries.list(record.id);
       const day = record.values.startedAt.slice(0, 10);
-      const patientWeights = weights.list(patient.id);
+      const patientWeights = await weights.list(patient.id);
       const weight =
         [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
         patientWeights[0] ??
@@ -267,7 +267,7 @@ export function createEvidenceHandlers(
     const switchState = await evidence.calibrationSwitch();
     const { rows } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
-    const speciesList = species.list();
+    const speciesList = await species.list();
     const recordsIn = used
       .map((row) => ({
         recordId: row.recordId,

@@ -66,20 +66,22 @@ export function createHandlers(context: HandlerContext): HandlerTable {
 export function createBackEndParts(context: HandlerContext): {
   readonly handlers: HandlerTable;
   readonly workstationTheme: () => ThemeChoice;
+  /** Reads the pinned theme into `workstationTheme`; the back end awaits it before the first dispatch. */
+  readonly loadWorkstationTheme: () => Promise<void>;
 } {
-  const settings = createSettingsRepository(context.db);
-  const acknowledgements = createSafetyAcknowledgementRepository(context.db);
-  const safetyStatus = () => ({
-    acknowledged: acknowledgements.isAcknowledged(context.appVersion),
+  const settings = createSettingsRepository(context.clinic);
+  const acknowledgements = createSafetyAcknowledgementRepository(context.clinic);
+  const safetyStatus = async () => ({
+    acknowledged: await acknowledgements.isAcknowledged(context.appVersion),
     appVersion: context.appVersion,
-    last: acknowledgements.latest(),
+    last: await acknowledgements.latest(),
   });
 
-  const { theme: workstationTheme, ...workstationHandlers } = createWorkstationHandlers(
-    context.db,
-    context.dataDirectory,
-    context.now,
-  );
+  const {
+    theme: workstationTheme,
+    loadTheme: loadWorkstationTheme,
+    ...workstationHandlers
+  } = createWorkstationHandlers(context.clinic, context.dataDirectory, context.now);
 
   const handlers: HandlerTable = {
     'app:info': () => ({
@@ -89,15 +91,18 @@ export function createBackEndParts(context: HandlerContext): {
       host: context.host,
     }),
     'safety:status': safetyStatus,
-    'safety:acknowledge': (request) => {
-      acknowledgements.record(context.appVersion, request.acknowledgedBy, context.now());
+    'safety:acknowledge': async (request) => {
+      await acknowledgements.record(context.appVersion, request.acknowledgedBy, context.now());
       return safetyStatus();
     },
     'settings:get': () => settings.get(),
     'settings:save': (request) => settings.save(request, context.now()),
-    'database:export-json': () => {
+    'database:export-json': async () => {
       const at = context.now();
-      const exported = exportDatabaseJson(context.db, { appVersion: context.appVersion, exportedAt: at });
+      const exported = await exportDatabaseJson(context.clinic, {
+        appVersion: context.appVersion,
+        exportedAt: at,
+      });
       return {
         fileName: `tidewing-database-${at.toISOString().slice(0, 19).replace(/[:T]/g, '-')}.json`,
         json: JSON.stringify(exported, null, 2),
@@ -125,18 +130,21 @@ export function createBackEndParts(context: HandlerContext): {
     ...createEvidenceHandlers(context.db, context.now, context.clinic),
     ...workstationHandlers,
   };
-  return { handlers, workstationTheme };
+  return { handlers, workstationTheme, loadWorkstationTheme };
 }
 
 export type Dispatcher = (channel: unknown, payload: unknown) => Promise<Result<unknown>>;
 
 /**
  * Validates the channel and payload, runs the handler and validates its answer.
- * Never throws: every failure becomes `{ ok: false, error }`.
+ * Never throws: every failure becomes `{ ok: false, error }`. No handler runs before `ready`
+ * (the back end's start-up writes, such as the species seeding) has settled; if it failed, every
+ * request answers with its error.
  */
 export function createDispatcher(
   handlers: HandlerTable,
   log: (message: string) => void = () => undefined,
+  ready: Promise<unknown> = Promise.resolve(),
 ): Dispatcher {
   return async (channel, payload) => {
     if (!isChannelName(channel)) {
@@ -161,6 +169,7 @@ export function createDispatcher(
       };
     }
     try {
+      await ready;
       const handler = handlers[channel] as (request: unknown) => unknown;
       const value = await handler(parsed.data);
       const checked = (spec.response as z.ZodType).safeParse(value);

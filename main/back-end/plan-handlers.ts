@@ -26,31 +26,31 @@ function openItems(plan: SavedPlan): number {
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
 export function createPlanHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
 ): PlanHandlerTable {
-  const species = createSpeciesRepository(db);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
+  const species = createSpeciesRepository(clinic);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
   const plans = createPlanRepository(clinic);
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
   // read-only arrays into the plain shape the contract stores.
-  const compute = (input: PlanInput) =>
-    planResultSchema.parse(computePlan(input, { species: species.list().map(speciesToReference) }));
+  const compute = async (input: PlanInput) =>
+    planResultSchema.parse(computePlan(input, { species: (await species.list()).map(speciesToReference) }));
 
-  function toStore(fields: PlanFields, reasonGiven: boolean) {
-    if (fields.patientId !== null && patients.get(fields.patientId) === null)
+  async function toStore(fields: PlanFields, reasonGiven: boolean) {
+    if (fields.patientId !== null && (await patients.get(fields.patientId)) === null)
       throw new RecordError('not-found', `Patient ${fields.patientId} was not found.`, 'fields.patientId');
     const dateProblem = plannedDateProblem(fields.plannedFor, localDateOf(now()), reasonGiven);
     if (dateProblem !== null) throw new RecordError('invalid-request', dateProblem, 'fields.plannedFor');
-    return { ...fields, result: compute(fields.input), modelVersion };
+    return { ...fields, result: await compute(fields.input), modelVersion };
   }
 
   async function summary(plan: SavedPlan) {
     const comparison = await plans.comparisonOf(plan.id);
-    const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+    const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
     return {
       id: plan.id,
       patientId: plan.patientId,
@@ -95,11 +95,11 @@ export function createPlanHandlers(
 
   return {
     'plans:save': async (request) =>
-      plans.save(toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
+      plans.save(await toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
     'plans:save-comparison': async (request) => {
       const reasonGiven = request.meta.reason !== '';
-      const first = toStore(request.fields, reasonGiven);
-      const second = toStore(request.variantFields, reasonGiven);
+      const first = await toStore(request.fields, reasonGiven);
+      const second = await toStore(request.variantFields, reasonGiven);
       if (first.patientId !== second.patientId || first.plannedFor !== second.plannedFor)
         throw new RecordError(
           'invalid-request',
@@ -125,7 +125,7 @@ export function createPlanHandlers(
     'plans:correct': async (request) => {
       const saved = await plans.correct(
         request.id,
-        toStore(request.fields, request.meta.reason !== ''),
+        await toStore(request.fields, request.meta.reason !== ''),
         request.meta,
         now(),
       );
@@ -142,12 +142,12 @@ export function createPlanHandlers(
     'plans:get': async (request) => {
       const plan = await plans.get(request.id);
       if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
-      const patient = plan.patientId === null ? null : patients.get(plan.patientId);
+      const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
-      const speciesRecord = speciesKey === undefined ? null : species.get(speciesKey);
+      const speciesRecord = speciesKey === undefined ? null : await species.get(speciesKey);
       let weightTrendText: string | null = null;
       if (patient !== null) {
-        const list = weights.list(patient.id);
+        const list = await weights.list(patient.id);
         const range =
           speciesRecord === null
             ? null

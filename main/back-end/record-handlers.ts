@@ -58,9 +58,9 @@ function refuse(problem: string | null, field: string): void {
   if (problem !== null) throw new RecordError('invalid-request', problem, field);
 }
 
-function conflictOnStaleCorrection<T>(write: () => T): T {
+async function conflictOnStaleCorrection<T>(write: () => T | Promise<T>): Promise<T> {
   try {
-    return write();
+    return await write();
   } catch (error) {
     if (error instanceof WeightCorrectionError) throw new RecordError('conflict', error.message, 'id');
     throw error;
@@ -69,15 +69,15 @@ function conflictOnStaleCorrection<T>(write: () => T): T {
 
 /** Handlers for species, patients, weights, procedure records and entries. */
 export function createRecordHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
   /** This workstation's id, stamped on each entry it writes (null when it cannot be read). */
   workstationId: () => string | null = () => null,
 ): RecordHandlerTable {
-  const species = createSpeciesRepository(db);
-  const patients = createPatientRepository(db);
-  const weights = createWeightRepository(db);
+  const species = createSpeciesRepository(clinic);
+  const patients = createPatientRepository(clinic);
+  const weights = createWeightRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);
   const plans = createPlanRepository(clinic);
@@ -122,8 +122,8 @@ export function createRecordHandlers(
     refuse(entryTimeProblem(at, record.values, now()), 'values.at');
   }
 
-  function requireSpecies(key: string) {
-    if (species.get(key) === null)
+  async function requireSpecies(key: string) {
+    if ((await species.get(key)) === null)
       throw new RecordError(
         'invalid-request',
         `There is no species "${key}" in the reference; choose one from the list or add it first.`,
@@ -132,9 +132,9 @@ export function createRecordHandlers(
   }
 
   async function patientDetail(id: number) {
-    const patient = found(patients.get(id), `Patient ${id}`);
-    const speciesRecord = species.get(patient.values.speciesKey);
-    const list = weights.list(id);
+    const patient = found(await patients.get(id), `Patient ${id}`);
+    const speciesRecord = await species.get(patient.values.speciesKey);
+    const list = await weights.list(id);
     const range =
       speciesRecord === null
         ? null
@@ -145,7 +145,7 @@ export function createRecordHandlers(
           };
     return {
       patient,
-      history: patients.history(id),
+      history: await patients.history(id),
       species: speciesRecord,
       weights: list,
       trend: weightTrend(
@@ -158,12 +158,12 @@ export function createRecordHandlers(
 
   async function procedureDetail(id: number) {
     const record = found(await procedures.get(id), `Procedure record ${id}`);
-    const patient = found(patients.get(record.patientId), `Patient ${record.patientId}`);
-    const latest = weights.list(patient.id).at(-1) ?? null;
+    const patient = found(await patients.get(record.patientId), `Patient ${record.patientId}`);
+    const latest = (await weights.list(patient.id)).at(-1) ?? null;
     return {
       record,
       patient,
-      species: species.get(patient.values.speciesKey),
+      species: await species.get(patient.values.speciesKey),
       latestMassG: latest?.values.massG ?? null,
       entries: await entries.list(id),
     };
@@ -173,34 +173,34 @@ export function createRecordHandlers(
     'species:list': () => species.list(),
     'species:history': (request) => species.history(request.key),
     'species:add': (request) => species.add(request.values, request.meta, now()),
-    'species:correct': (request) =>
+    'species:correct': async (request) =>
       found(
-        species.correct(request.key, request.values, request.meta, now()),
+        await species.correct(request.key, request.values, request.meta, now()),
         `Species ${request.key}`,
         'key',
       ),
 
-    'patients:search': (request) => ({
-      patients: patients.search(request.query, request.limit),
-      total: patients.count(),
+    'patients:search': async (request) => ({
+      patients: await patients.search(request.query, request.limit),
+      total: await patients.count(),
     }),
     'patients:get': (request) => patientDetail(request.id),
-    'patients:create': (request) => {
-      requireSpecies(request.values.speciesKey);
+    'patients:create': async (request) => {
+      await requireSpecies(request.values.speciesKey);
       refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return patients.create(request.values, request.meta, now());
     },
-    'patients:correct': (request) => {
-      requireSpecies(request.values.speciesKey);
+    'patients:correct': async (request) => {
+      await requireSpecies(request.values.speciesKey);
       refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
       return found(
-        patients.correct(request.id, request.values, request.meta, now()),
+        await patients.correct(request.id, request.values, request.meta, now()),
         `Patient ${request.id}`,
       );
     },
 
-    'weights:add': (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+    'weights:add': async (request) => {
+      found(await patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       refuse(
         weighingDateProblem(request.values.weighedOn, today(), request.meta.reason !== ''),
         'values.weighedOn',
@@ -208,22 +208,22 @@ export function createRecordHandlers(
       return weights.add(request.patientId, request.values, request.meta, now());
     },
     'weights:correct': (request) =>
-      conflictOnStaleCorrection(() => {
+      conflictOnStaleCorrection(async () => {
         // A correction always carries a reason, which is what lets an old date stand.
         refuse(weighingDateProblem(request.values.weighedOn, today(), true), 'values.weighedOn');
         return found(
-          weights.correct(request.id, request.values, request.meta, now()),
+          await weights.correct(request.id, request.values, request.meta, now()),
           `Weight ${request.id}`,
         );
       }),
     'weights:void': (request) =>
-      conflictOnStaleCorrection(() =>
-        found(weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
+      conflictOnStaleCorrection(async () =>
+        found(await weights.void(request.id, request.meta, now()), `Weight ${request.id}`),
       ),
     'weights:history': (request) => weights.history(request.id),
 
     'procedures:create': async (request) => {
-      found(patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
+      found(await patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
       await requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
@@ -245,15 +245,19 @@ export function createRecordHandlers(
       return found(corrected, `Procedure record ${request.id}`);
     },
     'procedures:recent': async (request) =>
-      (await procedures.listRecent(request.limit)).map((record) => {
-        const patient = patients.get(record.patientId);
-        return {
-          record,
-          patientName: patient?.values.name ?? `Patient ${record.patientId}`,
-          speciesName:
-            patient === null ? null : (species.get(patient.values.speciesKey)?.values.commonName ?? null),
-        };
-      }),
+      Promise.all(
+        (await procedures.listRecent(request.limit)).map(async (record) => {
+          const patient = await patients.get(record.patientId);
+          return {
+            record,
+            patientName: patient?.values.name ?? `Patient ${record.patientId}`,
+            speciesName:
+              patient === null
+                ? null
+                : ((await species.get(patient.values.speciesKey))?.values.commonName ?? null),
+          };
+        }),
+      ),
     'procedures:get': (request) => procedureDetail(request.id),
     'procedures:history': (request) => procedures.history(request.id),
     'procedures:export-csv': async (request) => {

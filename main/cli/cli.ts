@@ -18,7 +18,7 @@ const commands: Readonly<Record<string, Command>> = {
       }),
   },
   backup: {
-    summary: 'copy the clinic database to a file: --out FILE [--data DIR]',
+    summary: 'copy the clinic database to a file: --out FILE [--data DIR], or --database URL [--out FILE]',
     run: async (args) => (await import('./backup-command.js')).runBackupCommand(args, processIo),
   },
   restore: {
@@ -26,12 +26,17 @@ const commands: Readonly<Record<string, Command>> = {
     run: async (args) => (await import('./restore-command.js')).runRestoreCommand(args, processIo),
   },
   check: {
-    summary: 'integrity and schema version of the database: [--data DIR] or FILE',
+    summary: 'integrity and schema version of the database: [--data DIR] or FILE or --database URL',
     run: async (args) => (await import('./check-command.js')).runCheckCommand(args, processIo),
   },
   export: {
-    summary: 'the whole database as JSON: --out FILE.json [--data DIR]',
+    summary: 'the whole database as JSON: --out FILE.json [--data DIR | --database URL]',
     run: async (args) => (await import('./export-command.js')).runExportCommand(args, processIo),
+  },
+  'move-to': {
+    summary:
+      'copy the whole clinic into an empty PostgreSQL database and check it: --database URL [--data DIR]',
+    run: async (args) => (await import('./move-to-command.js')).runMoveToCommand(args, processIo),
   },
   worksheet: {
     summary: 'the printable worksheet of a saved plan as PDF: --plan ID --out FILE.pdf [--data DIR]',

@@ -143,6 +143,7 @@ export async function runPrintJob(
         appVersion: readAppVersion(root),
         host: 'browser',
       });
+      await backEnd.ready;
     } catch (error) {
       throw new Refusal(
         error instanceof DatabaseTooNewError || error instanceof StartRefusedError

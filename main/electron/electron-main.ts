@@ -248,6 +248,18 @@ async function main(): Promise<void> {
     app.exit(1);
     return;
   }
+  try {
+    // The start-up writes (species reference, demo clinic) and the workstation's theme.
+    await backEnd.ready;
+  } catch (error) {
+    dialog.showErrorBox(
+      'Tidewing cannot open its database',
+      error instanceof Error ? error.message : String(error),
+    );
+    backEnd.close();
+    app.exit(1);
+    return;
+  }
   harden();
   registerProtocol(root, backEnd);
   registerChannels(backEnd);

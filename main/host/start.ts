@@ -65,6 +65,14 @@ async function main(): Promise<number> {
     process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
     return 1;
   }
+  try {
+    // The start-up writes (species reference, demo clinic) and the workstation's theme.
+    await backEnd.ready;
+  } catch (error) {
+    process.stderr.write(`tidewing: ${error instanceof Error ? error.message : String(error)}\n`);
+    backEnd.close();
+    return 1;
+  }
   // Each printed address works once (the browser's command line and the process list show it):
   // after each use, print the next one for another tab or browser.
   const host: LoopbackHost = await startLoopbackHost({

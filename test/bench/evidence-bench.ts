@@ -104,7 +104,8 @@ export async function benchEvidence(): Promise<Figure[]> {
     try {
       const now = new Date('2026-06-01T00:00:00Z');
       const demo = generateDemoClinic(demoSeed, '2026-06-01', tables);
-      while (records < 5000) records += await writeDemoRecords(backEnd.db, backEnd.clinic, demo, now);
+      await backEnd.ready;
+      while (records < 5000) records += await writeDemoRecords(backEnd.clinic, demo, now);
       const started = performance.now();
       const firstOpen = await backEnd.dispatch('evidence:list', {});
       const firstMs = performance.now() - started;

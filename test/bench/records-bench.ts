@@ -5,10 +5,10 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { PatientValues, ProcedureEntryValues } from '../../app/contract/records.js';
 import { backupDatabase } from '../../db/backup.js';
+import { sqliteClinicDb, writeTransaction } from '../../db/clinic-db.js';
 import { openDatabase } from '../../db/connection.js';
 import { checkDatabaseFile } from '../../db/integrity.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
-import { sqliteClinicDb } from '../../db/clinic-db.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { median, quantile, type Figure } from './figures.js';
 
@@ -100,12 +100,13 @@ export async function benchRecords(): Promise<Figure[]> {
   const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tidewing-records-bench-'));
   try {
     const db = openDatabase(path.join(folder, 'tidewing.db'));
-    const patients = createPatientRepository(db);
-    const entries = createProcedureEntryRepository(sqliteClinicDb(db));
+    const clinic = sqliteClinicDb(db);
+    const patients = createPatientRepository(clinic);
+    const entries = createProcedureEntryRepository(clinic);
     const meta = { enteredBy: 'bench', reason: '' };
     const at = new Date(Date.UTC(2026, 0, 1, 9, 0, 0));
 
-    const first = patients.create(generatedPatient(seededRandom(1), 0), meta, at);
+    const first = await patients.create(generatedPatient(seededRandom(1), 0), meta, at);
     const recordId = Number(
       db
         .prepare('INSERT INTO procedure_records (patient_id, created_at) VALUES (?, ?)')
@@ -138,13 +139,14 @@ export async function benchRecords(): Promise<Figure[]> {
     const generateStartedAt = performance.now();
     // Queries are taken from patients half-way through the list, so that each one finds someone.
     const sample: PatientValues[] = [];
-    db.transaction(() => {
+    await writeTransaction(clinic, async (tx) => {
+      const inTransaction = createPatientRepository(tx);
       for (let index = 1; index < patientCount; index += 1) {
         const values = generatedPatient(random, index);
         if (index >= patientCount / 2 && sample.length < 200) sample.push(values);
-        patients.create(values, meta, at);
+        await inTransaction.create(values, meta, at);
       }
-    })();
+    });
     const generateMs = performance.now() - generateStartedAt;
 
     const withRing = sample.find((values) => values.ringId !== '');
@@ -163,7 +165,7 @@ export async function benchRecords(): Promise<Figure[]> {
       let found = 0;
       for (let repeat = 0; repeat < searchRepeats; repeat += 1) {
         const startedAt = performance.now();
-        found = patients.search(query).length;
+        found = (await patients.search(query)).length;
         times.push(performance.now() - startedAt);
       }
       allSearches.push(...times.slice(3));

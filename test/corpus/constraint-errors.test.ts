@@ -68,7 +68,7 @@ const cases: Case[] = [
     'weights:add',
     (ids) => ({ patientId: ids.pip, values: validWeight, meta }),
     (clinic) => () =>
-      createWeightRepository(clinic.db).add(
+      createWeightRepository(clinic.backEnd.clinic).add(
         999_999,
         { ...validWeight, bodyCondition: 'ideal' },
         meta,

@@ -3,6 +3,7 @@ import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { clinicContentsOfFile } from '../../db/clinic-contents.js';
+import { sqliteClinicDb } from '../../db/clinic-db.js';
 import { openDatabase } from '../../db/connection.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
@@ -18,11 +19,11 @@ function folder(): string {
 }
 
 describe('clinicContentsOfFile', () => {
-  it('counts what the clinic entered, not the species reference Tidewing seeds, and reads only', () => {
+  it('counts what the clinic entered, not the species reference Tidewing seeds, and reads only', async () => {
     const file = path.join(folder(), 'tidewing.db');
     const db = openDatabase(file);
-    const species = createSpeciesRepository(db);
-    species.seedReference(speciesReference, new Date('2026-01-01T00:00:00Z'));
+    const species = createSpeciesRepository(sqliteClinicDb(db));
+    await species.seedReference(speciesReference, new Date('2026-01-01T00:00:00Z'));
     db.close();
     const empty = clinicContentsOfFile(file);
     expect(empty?.recordCount).toBe(0);
@@ -32,9 +33,9 @@ describe('clinicContentsOfFile', () => {
     const writer = openDatabase(file);
     // One patient (a patient row and its first version) and one record (row and version).
     addPatientAndRecord(writer);
-    const budgerigar = createSpeciesRepository(writer).get('budgerigar');
+    const budgerigar = await createSpeciesRepository(sqliteClinicDb(writer)).get('budgerigar');
     if (budgerigar === null) throw new Error('the seeded reference lacks the budgerigar');
-    createSpeciesRepository(writer).correct(
+    await createSpeciesRepository(sqliteClinicDb(writer)).correct(
       'budgerigar',
       { ...budgerigar.values, massMaxG: 60 },
       { enteredBy: 'MK', reason: 'Exhibition birds' },

@@ -2,6 +2,7 @@ import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
+import { sqliteClinicDb } from '../../db/clinic-db.js';
 import { openDatabase } from '../../db/connection.js';
 import { exportDatabaseJson, writeDatabaseJson, type DatabaseExport } from '../../db/export.js';
 import { latestSchemaVersion } from '../../db/migrations/index.js';
@@ -35,9 +36,9 @@ function populated() {
 }
 
 describe('exportDatabaseJson', () => {
-  it('holds every clinic table with all its rows and columns, the schema and app versions and the export time', () => {
+  it('holds every clinic table with all its rows and columns, the schema and app versions and the export time', async () => {
     const { db } = populated();
-    const exported = exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt });
+    const exported = await exportDatabaseJson(sqliteClinicDb(db), { appVersion: '0.1.0', exportedAt });
     const expectedTables = db
       .prepare(
         "SELECT name FROM pragma_table_list WHERE schema = 'main' AND type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name",
@@ -71,10 +72,12 @@ describe('exportDatabaseJson', () => {
     });
   });
 
-  it('keeps corrections and the rows they correct, in id order', () => {
+  it('keeps corrections and the rows they correct, in id order', async () => {
     const { db } = populated();
     const entries =
-      exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt }).tables['procedure_entries']?.rows ?? [];
+      (await exportDatabaseJson(sqliteClinicDb(db), { appVersion: '0.1.0', exportedAt })).tables[
+        'procedure_entries'
+      ]?.rows ?? [];
     expect(entries.map((row) => row['id'])).toEqual([1, 2, 3, 4]);
     expect(entries[0]).toMatchObject({ id: 1, corrects_id: null, vapor_pct: 2.5 });
     expect(entries[3]).toMatchObject({
@@ -86,26 +89,28 @@ describe('exportDatabaseJson', () => {
     });
   });
 
-  it('leaves out the search index, which is rebuilt from the rows, and says so', () => {
+  it('leaves out the search index, which is rebuilt from the rows, and says so', async () => {
     const { db } = populated();
-    const exported = exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt });
+    const exported = await exportDatabaseJson(sqliteClinicDb(db), { appVersion: '0.1.0', exportedAt });
     expect(exported.derivedTablesLeftOut).toContain('patient_search');
     expect(Object.keys(exported.tables).some((name) => name.startsWith('patient_search'))).toBe(false);
   });
 
-  it('survives a JSON round trip unchanged', () => {
+  it('survives a JSON round trip unchanged', async () => {
     const { db } = populated();
-    const exported = exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt });
+    const exported = await exportDatabaseJson(sqliteClinicDb(db), { appVersion: '0.1.0', exportedAt });
     expect(JSON.parse(JSON.stringify(exported))).toEqual(exported);
   });
 
-  it('writes BLOBs as base64 and leaves text, numbers and nulls as they are', () => {
+  it('writes BLOBs as base64 and leaves text, numbers and nulls as they are', async () => {
     const db = new Database(':memory:');
     cleanups.push(() => db.close());
     db.exec(
       "CREATE TABLE attachments (id INTEGER PRIMARY KEY, label TEXT, bytes BLOB, grams REAL); INSERT INTO attachments VALUES (2, 'scan', x'00ff10', 38.5), (1, NULL, NULL, NULL)",
     );
-    const rows = exportDatabaseJson(db, { appVersion: 'test', exportedAt }).tables['attachments']?.rows;
+    const rows = (await exportDatabaseJson(sqliteClinicDb(db), { appVersion: 'test', exportedAt })).tables[
+      'attachments'
+    ]?.rows;
     expect(rows).toEqual([
       { id: 1, label: null, bytes: null, grams: null },
       { id: 2, label: 'scan', bytes: { base64: Buffer.from([0, 255, 16]).toString('base64') }, grams: 38.5 },
@@ -114,18 +119,18 @@ describe('exportDatabaseJson', () => {
 });
 
 describe('writeDatabaseJson', () => {
-  it('writes the export as JSON that parses back to the same object', () => {
+  it('writes the export as JSON that parses back to the same object', async () => {
     const { db } = populated();
     const folder = temporaryFolder();
     cleanups.push(folder.remove);
     const percents: number[] = [];
-    const written = writeDatabaseJson(db, path.join(folder.folder, 'archive.json'), {
+    const written = await writeDatabaseJson(sqliteClinicDb(db), path.join(folder.folder, 'archive.json'), {
       appVersion: '0.1.0',
       exportedAt,
       onProgress: (percent) => percents.push(percent),
     });
     const parsed = JSON.parse(fs.readFileSync(written.file, 'utf8')) as DatabaseExport;
-    expect(parsed).toEqual(exportDatabaseJson(db, { appVersion: '0.1.0', exportedAt }));
+    expect(parsed).toEqual(await exportDatabaseJson(sqliteClinicDb(db), { appVersion: '0.1.0', exportedAt }));
     expect(written.rowCount).toBe(
       Object.values(parsed.tables).reduce((sum, table) => sum + table.rows.length, 0),
     );
@@ -133,15 +138,15 @@ describe('writeDatabaseJson', () => {
     expect(listing(folder.folder)).toEqual(['archive.json']);
   });
 
-  it('refuses to replace an existing file', () => {
+  it('refuses to replace an existing file', async () => {
     const { db } = populated();
     const folder = temporaryFolder();
     cleanups.push(folder.remove);
     const file = path.join(folder.folder, 'archive.json');
     fs.writeFileSync(file, '{"earlier": true}');
-    expect(() => writeDatabaseJson(db, file, { appVersion: '0.1.0', exportedAt })).toThrow(
-      /already exists.*Nothing was written/,
-    );
+    await expect(
+      writeDatabaseJson(sqliteClinicDb(db), file, { appVersion: '0.1.0', exportedAt }),
+    ).rejects.toThrow(/already exists.*Nothing was written/);
     expect(fs.readFileSync(file, 'utf8')).toBe('{"earlier": true}');
   });
 });

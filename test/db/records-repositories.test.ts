@@ -1,16 +1,9 @@
-import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { speciesReference } from '../../app/core/species-reference.js';
-import { openDatabase, type TidewingDatabase } from '../../db/connection.js';
-import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import {
   createProcedureRecordRepository,
   RecordVersionMismatchError,
 } from '../../db/repositories/procedure-record-repository.js';
-import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
-import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
-import { temporaryFolder } from '../support/temporary-folder.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
 import { sql } from 'kysely';
 import {
@@ -28,140 +21,7 @@ afterEach(() => cleanups.splice(0).forEach((cleanup) => cleanup()));
 const t0 = new Date('2026-12-01T08:00:00Z');
 const meta = { enteredBy: 'RW', reason: '' };
 
-function fresh(): TidewingDatabase {
-  const temp = temporaryFolder();
-  const db = openDatabase(path.join(temp.folder, 'tidewing.db'));
-  cleanups.push(() => {
-    db.close();
-    temp.remove();
-  });
-  createSpeciesRepository(db).seedReference(speciesReference, t0);
-  return db;
-}
-
-const pip = {
-  name: 'Pip',
-  speciesKey: 'budgerigar',
-  sex: 'male',
-  hatchDate: '2024-04-02',
-  ageText: '',
-  ringId: 'HL-24-117',
-  microchipId: '',
-  ownerReference: 'Owner 5521',
-  notes: 'Plucks when stressed',
-} as const;
-
-describe('species repository', () => {
-  it('seeds the shipped reference once and never twice', () => {
-    const db = fresh();
-    const species = createSpeciesRepository(db);
-    expect(species.list()).toHaveLength(speciesReference.length);
-    expect(species.seedReference(speciesReference, t0)).toBe(0);
-    // Pekin duck isoflurane MAC 1.30 +/- 0.23 % (Ludders, Mitchell & Rode 1990)
-    const duck = species.list().find((entry) => entry.values.mac.isoflurane?.macPct === 1.3);
-    expect(duck?.values.mac.isoflurane?.basis).toMatch(/Ludders/);
-  });
-
-  it('keeps the old value and its source when a clinic edits a species', () => {
-    const db = fresh();
-    const species = createSpeciesRepository(db);
-    const before = species.get('budgerigar');
-    expect(before).not.toBeNull();
-    if (before === null) return;
-    const edited = species.correct(
-      'budgerigar',
-      {
-        ...before.values,
-        massMaxG: 60,
-        massBasis: 'Exhibition budgerigars in our clinic, 30-60 g (common practice)',
-      },
-      { enteredBy: 'MK', reason: 'Many exhibition birds' },
-      new Date('2026-12-02T09:00:00Z'),
-    );
-    expect(edited?.values.massMaxG).toBe(60);
-    const history = species.history('budgerigar');
-    expect(history.map((entry) => entry.values.massMaxG)).toEqual([60, before.values.massMaxG]);
-    expect(history[1]?.values.massBasis).toBe(before.values.massBasis);
-    expect(history[0]?.stamp).toMatchObject({
-      enteredBy: 'MK',
-      reason: 'Many exhibition birds',
-      correctsId: before.stamp.versionId,
-    });
-    expect(species.list()).toHaveLength(speciesReference.length);
-  });
-
-  it('refuses to change or delete a species row in place', () => {
-    const db = fresh();
-    expect(() =>
-      db.prepare("UPDATE species SET mass_max_g = 1 WHERE species_key = 'budgerigar'").run(),
-    ).toThrow(/never changed in place/);
-    expect(() => db.prepare("DELETE FROM species WHERE species_key = 'budgerigar'").run()).toThrow(
-      /never deleted/,
-    );
-  });
-});
-
-describe('patient repository', () => {
-  it('creates, corrects with history and finds patients by any identifier', () => {
-    const db = fresh();
-    const patients = createPatientRepository(db);
-    const created = patients.create(pip, meta, t0);
-    patients.create({ ...pip, name: 'Kiwi', ringId: 'HL-25-002', ownerReference: 'Owner 7000' }, meta, t0);
-    const corrected = patients.correct(
-      created.id,
-      { ...pip, microchipId: '985112004455667' },
-      { enteredBy: 'MK', reason: 'Chip read at check-in' },
-      new Date('2026-12-01T09:00:00Z'),
-    );
-    expect(corrected?.values.microchipId).toBe('985112004455667');
-    expect(patients.history(created.id).map((version) => version.values.microchipId)).toEqual([
-      '985112004455667',
-      '',
-    ]);
-    expect(patients.search('004455').map((summary) => summary.name)).toEqual(['Pip']);
-    expect(patients.search('HL-2').map((summary) => summary.name)).toEqual(['Kiwi', 'Pip']);
-    expect(patients.search('budgerigar')).toHaveLength(2);
-    expect(patients.search('owner 70').map((summary) => summary.name)).toEqual(['Kiwi']);
-    expect(patients.search('Pi').map((summary) => summary.name)).toEqual(['Pip']);
-    expect(patients.search('"; DROP TABLE patients; --')).toEqual([]);
-    expect(patients.count()).toBe(2);
-  });
-});
-
-describe('weight repository', () => {
-  it('lists current weights, keeps corrections and voids in the history, and refuses a stale correction', () => {
-    const db = fresh();
-    const patient = createPatientRepository(db).create(pip, meta, t0);
-    const weights = createWeightRepository(db);
-    const first = weights.add(
-      patient.id,
-      { weighedOn: '2026-11-01', massG: 34, bodyCondition: 'ideal', weighedBy: 'RW' },
-      meta,
-      t0,
-    );
-    const second = weights.add(
-      patient.id,
-      { weighedOn: '2026-11-30', massG: 3.1, bodyCondition: '', weighedBy: 'RW' },
-      meta,
-      t0,
-    );
-    const fixed = weights.correct(
-      second.id,
-      { ...second.values, massG: 31 },
-      { enteredBy: 'RW', reason: 'Decimal point slipped' },
-      t0,
-    );
-    expect(weights.list(patient.id).map((weight) => weight.values.massG)).toEqual([34, 31]);
-    expect(() =>
-      weights.correct(second.id, { ...second.values, massG: 30 }, { enteredBy: 'RW', reason: 'again' }, t0),
-    ).toThrow(WeightCorrectionError);
-    expect(weights.history(second.id).map((weight) => weight.values.massG)).toEqual([31, 3.1]);
-    weights.void(first.id, { enteredBy: 'RW', reason: 'Wrong bird on the scale' }, t0);
-    expect(weights.list(patient.id).map((weight) => weight.values.massG)).toEqual([31]);
-    expect(weights.history(first.id).map((weight) => weight.voided)).toEqual([true, false]);
-    expect(fixed?.stamp.reason).toBe('Decimal point slipped');
-  });
-});
+// Species, patients and weights have their suite on both engines in people-repositories.test.ts.
 
 describe.each(testEngines)('procedure records and entries on %s', (engine) => {
   it('logs entries, corrects one with its history and refuses edits in place', async (context) => {

@@ -23,7 +23,8 @@ function harness(): ChannelHarness {
 /** A harness holding the invented demo clinic (60 completed records). */
 async function demoHarness(): Promise<ChannelHarness> {
   const api = harness();
-  expect(await writeDemoClinic(api.backEnd.db, api.backEnd.clinic, api.clock.now)).toBe(60);
+  await api.backEnd.ready;
+  expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
   return api;
 }
 
@@ -263,14 +264,14 @@ describe('evidence:list over many records', () => {
     };
     const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
     const first = openBackEnd();
-    expect(await writeDemoRecords(first.db, first.clinic, demo, api.clock.now)).toBe(60);
+    expect(await writeDemoRecords(first.clinic, demo, api.clock.now)).toBe(60);
     await counted(first);
     const again60 = await counted(first);
     first.close();
     const restart60 = await counted(openBackEnd());
 
     const second = openBackEnd();
-    expect(await writeDemoRecords(second.db, second.clinic, demo, api.clock.now)).toBe(60);
+    expect(await writeDemoRecords(second.clinic, demo, api.clock.now)).toBe(60);
     await counted(second);
     expect(await counted(second)).toBe(again60);
     second.close();
@@ -307,7 +308,7 @@ describe('the demo clinic (--demo)', () => {
     const list = await demoStart.dispatch('evidence:list', {});
     expect(messages).toEqual(['Demo clinic: 60 invented procedure records written.']);
     expect(list.ok && (list.value as ResponseOf<'evidence:list'>).counts.completed).toBe(60);
-    expect(await writeDemoClinic(demoStart.db, demoStart.clinic, api.clock.now)).toBe(0);
+    expect(await writeDemoClinic(demoStart.clinic, api.clock.now)).toBe(0);
   });
 
   it('writes its patients, weights, records and entries in one transaction: a failure leaves none', async () => {
@@ -317,13 +318,11 @@ describe('the demo clinic (--demo)', () => {
     if (first === undefined) throw new Error('the demo clinic has no record');
     // The last record names a bird the demo does not have: the whole write is refused.
     const broken = { ...demo, records: [...demo.records, { ...first, patientIndex: demo.patients.length }] };
-    await expect(
-      writeDemoRecords(api.backEnd.db, api.backEnd.clinic, broken, api.clock.now),
-    ).rejects.toThrow();
+    await expect(writeDemoRecords(api.backEnd.clinic, broken, api.clock.now)).rejects.toThrow();
     expect(await rowsIn(api, 'patients')).toBe(0);
     expect(await rowsIn(api, 'weights')).toBe(0);
     expect(await rowsIn(api, 'procedure_records')).toBe(0);
-    expect(await writeDemoRecords(api.backEnd.db, api.backEnd.clinic, demo, api.clock.now)).toBe(60);
+    expect(await writeDemoRecords(api.backEnd.clinic, demo, api.clock.now)).toBe(60);
     expect(await rowsIn(api, 'procedure_records')).toBe(60);
   });
 });

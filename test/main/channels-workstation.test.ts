@@ -53,6 +53,9 @@ describe('workstation channels', () => {
     api.backEnd.close();
     const again = startBackEnd({ dataDirectory: api.dataDirectory, appVersion: '9.8.7', host: 'browser' });
     try {
+      // The pinned theme is read at start, for the hosts to write into the first page.
+      await again.ready;
+      expect(again.workstationTheme()).toBe('light');
       const answer = await again.dispatch('workstation:get', {});
       expect(answer).toMatchObject({ ok: true, value: { theme: 'light', initials: 'JS' } });
     } finally {

@@ -1,6 +1,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { latestSchemaVersion } from '../../db/migrations/index.js';
 import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
+import { createDispatcher } from '../../main/back-end/handlers.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const cleanups: (() => void)[] = [];
@@ -105,5 +106,41 @@ describe('contract dispatcher', () => {
       schemaVersion: latestSchemaVersion,
       host: 'browser',
     });
+  });
+
+  it('runs no handler before the start-up writes have settled, and answers their failure when they fail', async () => {
+    const started = backEnd();
+    await started.ready;
+    // The species reference is seeded before the first answer.
+    const species = await started.dispatch('species:list', {});
+    expect(species.ok && Array.isArray(species.value) && species.value.length > 0).toBe(true);
+
+    const calls: string[] = [];
+    const logged: string[] = [];
+    let fail: (error: Error) => void = () => undefined;
+    const ready = new Promise<void>((_resolve, reject) => {
+      fail = reject;
+    });
+    const dispatch = createDispatcher(
+      {
+        ...started.handlers,
+        'settings:get': () => (calls.push('settings:get'), started.handlers['settings:get']({})),
+      },
+      (message) => logged.push(message),
+      ready,
+    );
+    const answer = dispatch('settings:get', {});
+    await new Promise((resolve) => setTimeout(resolve, 10));
+    expect(calls).toEqual([]);
+    fail(new Error('the species reference could not be written'));
+    expect(await answer).toEqual({
+      ok: false,
+      error: {
+        code: 'internal',
+        message: 'Something went wrong: the species reference could not be written',
+      },
+    });
+    expect(calls).toEqual([]);
+    expect(logged).toEqual(['Handler settings:get failed: the species reference could not be written']);
   });
 });
