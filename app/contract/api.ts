@@ -1,9 +1,15 @@
+import type { ChangeNotice } from './change-notices.js';
 import type { ChannelName, RequestOf, ResponseOf } from './channels.js';
 import type { Result } from './result.js';
 
 /** What the renderer sees on `window.tidewing`, whichever host it runs in. */
 export type TidewingApi = {
   invoke<C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<Result<ResponseOf<C>>>;
+  /**
+   * Calls `listener` with each change notice (a write on this workstation or, on a shared
+   * database, on another); returns the function that stops it.
+   */
+  onChange(listener: (notice: ChangeNotice) => void): () => void;
 };
 
 /** The token header the loopback host requires on every bridge call. */

@@ -5,6 +5,7 @@ import { setClinicDateFormat } from './common/display.js';
 import { OperatorProvider } from './common/operator.js';
 import { SettingsContext } from './common/settings-context.js';
 import { useChannel } from './common/use-channel.js';
+import { useChangeNotices } from './common/use-change-notices.js';
 import { EvidenceArea } from './evidence/evidence-area.js';
 import { PatientsArea } from './patients/patients-area.js';
 import { CautionsScreen } from './safety/cautions-screen.js';
@@ -86,17 +87,27 @@ function Area({ route }: { readonly route: Route }) {
   }
 }
 
+/** The settings saved here or loaded (again, after another workstation saved them): the newer. */
+function newerSettings(saved: StoredSettings | null, loaded: StoredSettings | null): StoredSettings | null {
+  if (saved === null || loaded === null) return saved ?? loaded;
+  return (loaded.updatedAt ?? '') > (saved.updatedAt ?? '') ? loaded : saved;
+}
+
 /** First run: cautions, then clinic setup; afterwards the shell with its areas. */
 export function App() {
   const [safetyLoad] = useChannel('safety:status', {});
-  const [settingsLoad] = useChannel('settings:get', {});
+  const [settingsLoad, reloadSettings] = useChannel('settings:get', {});
   const [workstationLoad] = useChannel('workstation:get', {});
   const [safety, setSafety] = useState<SafetyStatus | null>(null);
   const [stored, setStored] = useState<StoredSettings | null>(null);
   const route = useRoute();
 
   const currentSafety = safety ?? (safetyLoad.state === 'ready' ? safetyLoad.value : null);
-  const currentSettings = stored ?? (settingsLoad.state === 'ready' ? settingsLoad.value : null);
+  const currentSettings = newerSettings(stored, settingsLoad.state === 'ready' ? settingsLoad.value : null);
+  // Units, date format and clinic name saved on another workstation reach every screen here. Not
+  // during first-run setup, whose form would be replaced; the settings form keeps its draft.
+  const setUp = currentSettings?.settings != null;
+  useChangeNotices((notice) => notice.kind === 'settings' && setUp, reloadSettings);
 
   if (safetyLoad.state === 'failed') return <Failure message={safetyLoad.error.message} />;
   if (settingsLoad.state === 'failed') return <Failure message={settingsLoad.error.message} />;

@@ -8,6 +8,7 @@ import { workstationsMigration } from './0007-workstations.js';
 import { planVariantsMigration } from './0008-plan-variants.js';
 import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
 import { entryWorkstationsMigration } from './0010-entry-workstations.js';
+import { changeNoticesMigration } from './0011-change-notices.js';
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
@@ -34,6 +35,7 @@ export const migrations: readonly Migration[] = [
   planVariantsMigration,
   evidencePredictionCacheMigration,
   entryWorkstationsMigration,
+  changeNoticesMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

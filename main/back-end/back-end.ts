@@ -10,12 +10,16 @@ import { databaseFile } from './data-directory.js';
 import { createBackEndParts, createDispatcher, type Dispatcher, type HandlerTable } from './handlers.js';
 import type { ThemeChoice } from '../../app/contract/workstation.js';
 import { checkBeforeStart, StartRefusedError } from './start-up-guard.js';
+import { createChangeSource, publishingChanges, type ChangeSource } from './change-notices.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
   /** The clinic database behind the shared query layer. */
   readonly clinic: ClinicDb;
+  /** The contract's dispatcher; each successful write publishes its notices to `changes`. */
   readonly dispatch: Dispatcher;
+  /** Change notices of this back end's writes (and, on PostgreSQL, other workstations'). */
+  readonly changes: ChangeSource;
   /** The handler table behind `dispatch`, for a host that replaces one channel with its own. */
   readonly handlers: HandlerTable;
   readonly databaseFile: string;
@@ -108,10 +112,12 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
             `No automatic backup: the clinic database could not be prepared (${error instanceof Error ? error.message : String(error)}).`,
         )
       : Promise.resolve('No automatic backup was asked for.');
+  const changes = createChangeSource(options.log);
   return {
     db,
     clinic,
-    dispatch: createDispatcher(handlers, options.log, ready),
+    dispatch: publishingChanges(createDispatcher(handlers, options.log, ready), changes),
+    changes,
     handlers,
     databaseFile: file,
     workstationTheme,

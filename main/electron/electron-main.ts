@@ -98,6 +98,19 @@ function registerChannels(backEnd: BackEnd): void {
   }
 }
 
+/** The IPC message that carries a change notice to the window (see preload.cts `onChange`). */
+const changeMessage = 'tidewing:change';
+
+/** Forwards every change notice of the back end to each Tidewing window. */
+function forwardChanges(backEnd: BackEnd): void {
+  backEnd.changes.subscribe((notice) => {
+    for (const window of BrowserWindow.getAllWindows()) {
+      const contents = window.webContents;
+      if (!contents.isDestroyed() && isOwnFrame(contents.getURL())) contents.send(changeMessage, notice);
+    }
+  });
+}
+
 /** File name for the save dialog: letters, digits and hyphens only, ending in .pdf. */
 function safePdfName(suggested: unknown): string {
   const stem =
@@ -263,6 +276,7 @@ async function main(): Promise<void> {
   harden();
   registerProtocol(root, backEnd);
   registerChannels(backEnd);
+  forwardChanges(backEnd);
   app.on('window-all-closed', () => {
     backEnd.close();
     app.quit();

@@ -1,5 +1,6 @@
-// Sandboxed preload: exposes one function, `invoke`. Channel names come from the main process, so
-// the renderer can reach only the contract's channels and nothing else of Electron or Node.
+// Sandboxed preload: exposes `invoke` and `onChange`. Channel names come from the main process, so
+// the renderer can reach only the contract's channels and nothing else of Electron or Node;
+// `onChange` hands the listener each change notice's plain data, never the IPC event.
 import electron = require('electron');
 
 const allowedChannels = new Set<string>(electron.ipcRenderer.sendSync('tidewing:channel-list') as string[]);
@@ -13,5 +14,13 @@ electron.contextBridge.exposeInMainWorld('tidewing', {
       });
     }
     return electron.ipcRenderer.invoke(channel, request);
+  },
+  onChange(listener: (notice: unknown) => void): () => void {
+    if (typeof listener !== 'function') return () => undefined;
+    const forward = (_event: unknown, notice: unknown) => listener(notice);
+    electron.ipcRenderer.on('tidewing:change', forward);
+    return () => {
+      electron.ipcRenderer.removeListener('tidewing:change', forward);
+    };
   },
 });

@@ -3,6 +3,9 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { bridgePathPrefix, tokenHeader, tokenMetaName } from '../../app/contract/api.js';
 import type { Dispatcher } from '../back-end/handlers.js';
+import { changeStreamPath } from '../../app/contract/change-notices.js';
+import type { ChangeSource } from '../back-end/change-notices.js';
+import { ChangeStreams } from './change-stream.js';
 import { contentTypeFor, securityHeaders } from '../back-end/security-headers.js';
 import { readRendererFile, withPageTheme } from '../back-end/static-files.js';
 import {
@@ -40,6 +43,8 @@ export type LoopbackOptions = {
   readonly pageTheme?: () => 'system' | 'light' | 'dim';
   /** Called each time a start address is used (after its session is set up). */
   readonly onStartAddressUsed?: () => void;
+  /** Change notices streamed to the pages at `changeStreamPath` (Server-Sent Events). */
+  readonly changes?: Pick<ChangeSource, 'subscribe'>;
 };
 
 /** Largest bridge request body, bytes (a plan with its snapshot is a few hundred KiB at most). */
@@ -156,6 +161,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
   // Keyed by the cookie value; each use of a start code opens one session.
   const sessions = new Map<string, Session>();
   const encodedAssets = new EncodedAssets();
+  const changeStreams = new ChangeStreams(options.changes);
 
   const server = http.createServer((request, response) => {
     void handle(request, response).catch((error: unknown) => {
@@ -190,6 +196,11 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       return;
     }
 
+    if (url.pathname === changeStreamPath) {
+      if (refuseWithoutBridgeAccess(request, response)) return;
+      changeStreams.open(request, response);
+      return;
+    }
     if (url.pathname.startsWith(bridgePathPrefix)) {
       await bridgeCall(request, response, decodeURIComponent(url.pathname.slice(bridgePathPrefix.length)));
       return;
@@ -312,21 +323,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
       request.resume();
       return;
     }
-    // Bridge calls need the header: a cookie alone could be replayed by another page.
-    const headerToken = request.headers[tokenHeader];
-    if (!sameSecret(token, typeof headerToken === 'string' ? headerToken : undefined)) {
-      sendBridgeError(response, 403, 'Missing or wrong access token.');
-      return;
-    }
-    const requestOrigin = request.headers.origin;
-    const fetchSite = request.headers['sec-fetch-site'];
-    if (
-      (requestOrigin !== undefined && !allowedOrigins.has(requestOrigin.toLowerCase())) ||
-      (fetchSite !== undefined && fetchSite !== 'same-origin')
-    ) {
-      sendBridgeError(response, 403, 'Calls from another web page are refused.');
-      return;
-    }
+    if (refuseWithoutBridgeAccess(request, response)) return;
     if (request.method !== 'POST') {
       send(response, 405, 'Use POST', textType, { allow: 'POST' });
       return;
@@ -346,6 +343,26 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     }
     const result = await options.dispatch(channel, payload);
     send(response, 200, JSON.stringify(result), jsonType);
+  }
+
+  /** Answers 403 (and says true) unless the call carries the token and comes from our own page. */
+  function refuseWithoutBridgeAccess(request: http.IncomingMessage, response: http.ServerResponse): boolean {
+    // Bridge calls need the header: a cookie alone could be replayed by another page.
+    const headerToken = request.headers[tokenHeader];
+    if (!sameSecret(token, typeof headerToken === 'string' ? headerToken : undefined)) {
+      sendBridgeError(response, 403, 'Missing or wrong access token.');
+      return true;
+    }
+    const requestOrigin = request.headers.origin;
+    const fetchSite = request.headers['sec-fetch-site'];
+    if (
+      (requestOrigin !== undefined && !allowedOrigins.has(requestOrigin.toLowerCase())) ||
+      (fetchSite !== undefined && fetchSite !== 'same-origin')
+    ) {
+      sendBridgeError(response, 403, 'Calls from another web page are refused.');
+      return true;
+    }
+    return false;
   }
 
   function sendTooLarge(response: http.ServerResponse): void {
@@ -385,6 +402,7 @@ export async function startLoopbackHost(options: LoopbackOptions): Promise<Loopb
     newStartUrl,
     close: () =>
       new Promise<void>((resolve) => {
+        changeStreams.closeAll();
         server.closeAllConnections();
         server.close(() => resolve());
       }),

@@ -79,6 +79,7 @@ async function main(): Promise<number> {
     port: args.port,
     rendererDirectory: rendererDirectory(root),
     dispatch: backEnd.dispatch,
+    changes: backEnd.changes,
     pageTheme: backEnd.workstationTheme,
     log: (message) => process.stderr.write(`${message}\n`),
     onStartAddressUsed: () =>

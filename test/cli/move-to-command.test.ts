@@ -58,6 +58,7 @@ const because = (reason: string) => ({ enteredBy: 'RW', reason });
 async function writeClinicWithHistory(): Promise<{ folder: string; databaseFile: string }> {
   const api = openChannelHarness();
   sharedCleanups.push(() => api.close());
+  await api.backEnd.ready;
   expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
   await api.answer('settings:save', heronLaneSettings as never);
   await api.answer('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true } as never);

@@ -244,7 +244,7 @@ describe('evidence:list over many records', () => {
     const api = harness();
     api.backEnd.close();
     const statements: string[] = [];
-    const openBackEnd = () => {
+    const openBackEnd = async () => {
       const backEnd = startBackEnd({
         dataDirectory: api.dataDirectory,
         appVersion: '9.8.7',
@@ -253,6 +253,7 @@ describe('evidence:list over many records', () => {
         openOptions: { trace: (text) => statements.push(text) },
       });
       restarted.push(backEnd);
+      await backEnd.ready;
       return backEnd;
     };
     /** The statements one evidence:list runs. */
@@ -263,19 +264,19 @@ describe('evidence:list over many records', () => {
       return statements.length;
     };
     const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
-    const first = openBackEnd();
+    const first = await openBackEnd();
     expect(await writeDemoRecords(first.clinic, demo, api.clock.now)).toBe(60);
     await counted(first);
     const again60 = await counted(first);
     first.close();
-    const restart60 = await counted(openBackEnd());
+    const restart60 = await counted(await openBackEnd());
 
-    const second = openBackEnd();
+    const second = await openBackEnd();
     expect(await writeDemoRecords(second.clinic, demo, api.clock.now)).toBe(60);
     await counted(second);
     expect(await counted(second)).toBe(again60);
     second.close();
-    expect(await counted(openBackEnd())).toBe(restart60);
+    expect(await counted(await openBackEnd())).toBe(restart60);
     // Species, settings, exclusions and the fingerprints at least; the stored rows after a restart.
     expect(again60).toBeGreaterThanOrEqual(4);
     expect(restart60).toBeGreaterThan(again60);
@@ -313,6 +314,7 @@ describe('the demo clinic (--demo)', () => {
 
   it('writes its patients, weights, records and entries in one transaction: a failure leaves none', async () => {
     const api = harness();
+    await api.backEnd.ready;
     const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
     const first = demo.records[0];
     if (first === undefined) throw new Error('the demo clinic has no record');

@@ -1,6 +1,7 @@
 import { bridgePathPrefix, tokenHeader, tokenMetaName, type TidewingApi } from '../../contract/api.js';
 import type { ChannelName, RequestOf, ResponseOf } from '../../contract/channels.js';
 import type { Result } from '../../contract/result.js';
+import { loopbackChangeStream, readNotice } from './change-stream.js';
 
 declare global {
   // The desktop preload puts the API here; the browser host leaves it undefined.
@@ -30,6 +31,7 @@ function takeLoopbackToken(): string | null {
 function loopbackApi(): TidewingApi {
   const token = takeLoopbackToken();
   return {
+    onChange: loopbackChangeStream(token),
     async invoke<C extends ChannelName>(channel: C, request: RequestOf<C>): Promise<Result<ResponseOf<C>>> {
       try {
         const response = await fetch(`${bridgePathPrefix}${encodeURIComponent(channel)}`, {
@@ -62,5 +64,18 @@ function loopbackApi(): TidewingApi {
   };
 }
 
+/** The desktop's API, with each change notice from the main process checked before a screen sees it. */
+function desktopApi(desktop: TidewingApi): TidewingApi {
+  return {
+    invoke: (channel, request) => desktop.invoke(channel, request),
+    onChange: (listener) =>
+      desktop.onChange((notice: unknown) => {
+        const checked = readNotice(notice);
+        if (checked !== null) listener(checked);
+      }),
+  };
+}
+
 /** The one typed way the screens reach the back end. */
-export const api: TidewingApi = globalThis.tidewing ?? loopbackApi();
+export const api: TidewingApi =
+  globalThis.tidewing === undefined ? loopbackApi() : desktopApi(globalThis.tidewing);

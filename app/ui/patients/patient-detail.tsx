@@ -2,11 +2,16 @@ import { useState } from 'react';
 import { displayBasis, displayDate, displayDateTime } from '../common/display.js';
 import { agentPhasesText } from '../common/plan-labels.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 import { WeightsPanel } from './weights-panel.js';
 
 function PatientPlans({ patientId }: { readonly patientId: number }) {
-  const [load] = useChannel('plans:for-patient', { patientId });
+  const [load, reload] = useChannel('plans:for-patient', { patientId });
+  useChangeNotices(
+    (notice) => notice.kind === 'plans' && (notice.patientId === undefined || notice.patientId === patientId),
+    reload,
+  );
   if (load.state !== 'ready')
     return load.state === 'failed' ? <p className="form-error">{load.error.message}</p> : null;
   if (load.value.length === 0) return <p className="muted">No plans yet.</p>;
@@ -31,6 +36,14 @@ function PatientPlans({ patientId }: { readonly patientId: number }) {
 /** One bird: details with their history, weights with trend flags, procedure records. */
 export function PatientDetailScreen({ patientId }: { readonly patientId: number }) {
   const [load, reload] = useChannel('patients:get', { id: patientId });
+  // The details, weights and records shown; the weights form keeps what is being typed.
+  useChangeNotices(
+    (notice) =>
+      notice.kind === 'species' ||
+      (['patients', 'weights', 'procedure-records'].includes(notice.kind) &&
+        (notice.patientId === undefined || notice.patientId === patientId)),
+    reload,
+  );
   const [showHistory, setShowHistory] = useState(false);
   if (load.state === 'loading') return <p aria-busy="true">Loading…</p>;
   if (load.state === 'failed')

@@ -5,6 +5,7 @@ import { isSearchShortcut } from '../common/keyboard.js';
 import { displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { href } from '../shell/areas.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 /** Search the clinic's birds by any identifier; Enter opens the first match. */
@@ -14,6 +15,12 @@ export function PatientListScreen() {
   const [results, setResults] = useState<{ patients: PatientSummary[]; total: number } | null>(null);
   const [error, setError] = useState<string | null>(null);
   const searchBox = useRef<HTMLInputElement | null>(null);
+  // A new or corrected patient, or a new weight (the latest mass), asks the search again.
+  const [generation, setGeneration] = useState(0);
+  useChangeNotices(
+    (notice) => notice.kind === 'patients' || notice.kind === 'weights',
+    () => setGeneration((value) => value + 1),
+  );
 
   useEffect(() => {
     let live = true;
@@ -30,7 +37,7 @@ export function PatientListScreen() {
       live = false;
       window.clearTimeout(timer);
     };
-  }, [query]);
+  }, [query, generation]);
 
   useEffect(() => {
     function onKey(event: KeyboardEvent) {

@@ -5,6 +5,7 @@ import { TextField } from '../common/fields.js';
 import { asaGradeText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 import { figure, minutes } from './format.js';
 import { PhaseLines } from './phase-lines.js';
@@ -17,7 +18,9 @@ import { ScrollRegion } from '../common/scroll-region.js';
 export function DayList() {
   const settings = useClinicSettings();
   const [date, setDate] = useState(todayIso());
-  const [load] = useChannel('plans:day', { date });
+  const [load, reload] = useChannel('plans:day', { date });
+  // Any plan may have moved to or from this day (a correction names only its new day).
+  useChangeNotices((notice) => notice.kind === 'plans' || notice.kind === 'patients', reload);
   return (
     <section className="screen day-list" aria-labelledby="day-title">
       <h1 id="day-title">Anaesthetic plans</h1>

@@ -2,6 +2,7 @@ import { useMemo, useState } from 'react';
 import type { ProcedureDetail } from '../../contract/record-channels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 import { ApnoeaStopwatchButton, useApnoeaStopwatch } from './apnoea-stopwatch.js';
 import type { DisplayUnits } from './entry-form.js';
@@ -28,6 +29,13 @@ export { apnoeaKey } from './apnoea-stopwatch.js';
 /** The live entry screen for one procedure record. */
 export function LiveRecord({ recordId }: { readonly recordId: number }) {
   const [load, reload] = useChannel('procedures:get', { id: recordId });
+  // The log rows and details shown; the entry row and open forms keep what is being typed.
+  useChangeNotices(
+    (notice) =>
+      (notice.kind === 'procedure-entries' || notice.kind === 'procedure-records') &&
+      (notice.recordId === undefined || notice.recordId === recordId),
+    reload,
+  );
   if (load.state === 'loading') return <p aria-busy="true">Opening the procedure record…</p>;
   if (load.state === 'failed') {
     return (

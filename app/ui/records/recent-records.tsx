@@ -1,5 +1,6 @@
 import { href } from '../shell/areas.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { asaText } from './record-form.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { displayDateTime } from '../common/display.js';
@@ -7,6 +8,7 @@ import { displayDateTime } from '../common/display.js';
 /** The most recent procedure records, newest first, each linking to its live screen. */
 export function RecentRecords() {
   const [recent, reload] = useChannel('procedures:recent', { limit: 50 });
+  useChangeNotices((notice) => notice.kind === 'procedure-records' || notice.kind === 'patients', reload);
   return (
     <section className="screen" aria-labelledby="records-title">
       <h1 id="records-title">Procedure records</h1>

@@ -4,9 +4,14 @@ import { displayDateTime } from '../common/display.js';
 import type { FieldErrors } from '../common/field-errors.js';
 import { onEscape } from '../common/return-focus.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { TextBox } from './fields.js';
 import { RecordDetailsFields } from './record-details-fields.js';
 import { airwayText, asaText, checkRecordDraft, recordToDraft, type RecordDraft } from './record-form.js';
+
+function sameDetails<T>(a: T, b: T): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
+}
 
 type Props = {
   readonly recordId: number;
@@ -35,6 +40,22 @@ export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClo
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [history, reloadHistory] = useChannel('procedures:history', { id: recordId });
+  useChangeNotices(
+    (notice) =>
+      notice.kind === 'procedure-records' && (notice.recordId === undefined || notice.recordId === recordId),
+    reloadHistory,
+  );
+  // The details the draft started from. When the record changes meanwhile (another workstation
+  // or tab), an untouched draft follows it; a draft being edited is kept, with an offer to show
+  // the new details instead.
+  const [base, setBase] = useState(values);
+  const changedMeanwhile = !sameDetails(base, values);
+  // Untouched, or just saved from here: the new details are what the draft says.
+  const followsRecord = sameDetails(recordToDraft(base), draft) || sameDetails(recordToDraft(values), draft);
+  if (changedMeanwhile && followsRecord) {
+    setBase(values);
+    setDraft(recordToDraft(values));
+  }
 
   function update<K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) {
     setDraft((current) => ({ ...current, [key]: value }));
@@ -66,6 +87,22 @@ export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClo
     >
       <h2 id="record-details-title">Correct the record’s details</h2>
       <form className="form record-new-form" noValidate onSubmit={(event) => void submit(event)}>
+        {changedMeanwhile && !followsRecord && (
+          <p className="notice" role="status">
+            These details were changed on another workstation or in another tab while you were correcting
+            them.{' '}
+            <button
+              type="button"
+              onClick={() => {
+                setBase(values);
+                setDraft(recordToDraft(values));
+              }}
+            >
+              Show the new details
+            </button>{' '}
+            (your changes here are then dropped)
+          </p>
+        )}
         <RecordDetailsFields draft={draft} errors={errors} update={update} />
         <TextBox
           label="Reason for the correction"
