@@ -1,9 +1,11 @@
+import { sql as sqlText, type Generated, type Selectable } from 'kysely';
 import type { EmergencyDrug, EmergencyDrugValues } from '../../app/contract/drug-channels.js';
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
-import { stampOf, type StampRow } from './version-chain.js';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+import { stampOf } from './version-chain.js';
 
-type DrugRow = StampRow & {
+type EmergencyDrugsTable = {
+  id: Generated<number>;
+  corrects_id: number | null;
   voided: number;
   name: string;
   concentration_mg_per_ml: number;
@@ -12,7 +14,14 @@ type DrugRow = StampRow & {
   route: string;
   dose_source: string;
   notes: string;
+  entered_at: string;
+  entered_by: string;
+  reason: string;
 };
+
+type Tables = { emergency_drugs: EmergencyDrugsTable };
+
+type DrugRow = Selectable<EmergencyDrugsTable>;
 
 type Meta = { enteredBy: string; reason: string };
 
@@ -36,25 +45,23 @@ function rowToDrug(row: DrugRow): EmergencyDrug {
 /** A correction or void was asked of a row that a later row already replaces. */
 export class DrugCorrectionError extends Error {}
 
-/** All SQL for the clinic's emergency drugs. Corrections and voids are new rows. */
-export function createEmergencyDrugRepository(db: TidewingDatabase) {
-  const insert = db.prepare(
-    `INSERT INTO emergency_drugs (corrects_id, voided, name, concentration_mg_per_ml, dose_low_mg_per_kg, dose_high_mg_per_kg, route, dose_source, notes, entered_at, entered_by, reason)
-     VALUES (@correctsId, @voided, @name, @concentrationMgPerMl, @doseLowMgPerKg, @doseHighMgPerKg, @route, @doseSource, @notes, @enteredAt, @enteredBy, @reason)`,
-  );
-  const byId = db.prepare<[number], DrugRow>('SELECT * FROM emergency_drugs WHERE id = ?');
-  const correctedBy = db.prepare<[number], { id: number }>(
-    'SELECT id FROM emergency_drugs WHERE corrects_id = ?',
-  );
-  const listCurrent = db.prepare<[], DrugRow>(
-    `SELECT * FROM emergency_drugs d WHERE voided = 0 AND NOT EXISTS (SELECT 1 FROM emergency_drugs later WHERE later.corrects_id = d.id)
-     ORDER BY name COLLATE NOCASE, id`,
-  );
+/** The statements of the emergency_drugs table on one connection or transaction. */
+function drugQueries(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
 
-  function newestVersion(drugId: number): DrugRow | null {
-    const row = byId.get(drugId);
+  async function newestVersion(drugId: number): Promise<DrugRow | null> {
+    const row = await db
+      .selectFrom('emergency_drugs')
+      .selectAll()
+      .where('id', '=', drugId)
+      .executeTakeFirst();
     if (row === undefined) return null;
-    if (correctedBy.get(drugId) !== undefined)
+    const later = await db
+      .selectFrom('emergency_drugs')
+      .select('id')
+      .where('corrects_id', '=', drugId)
+      .executeTakeFirst();
+    if (later !== undefined)
       throw new DrugCorrectionError(
         'That drug has already been changed since you opened it; open the list again and change its newest version.',
       );
@@ -63,41 +70,85 @@ export function createEmergencyDrugRepository(db: TidewingDatabase) {
     return row;
   }
 
-  function write(
+  async function write(
     values: EmergencyDrugValues,
     correctsId: number | null,
     voided: boolean,
     meta: Meta,
     at: Date,
-  ): EmergencyDrug {
-    const id = Number(
-      insert.run({ ...values, correctsId, voided: voided ? 1 : 0, enteredAt: at.toISOString(), ...meta })
-        .lastInsertRowid,
-    );
-    return rowToDrug(byId.get(id) as DrugRow);
+  ): Promise<EmergencyDrug> {
+    const row = await db
+      .insertInto('emergency_drugs')
+      .values({
+        corrects_id: correctsId,
+        voided: voided ? 1 : 0,
+        name: values.name,
+        concentration_mg_per_ml: values.concentrationMgPerMl,
+        dose_low_mg_per_kg: values.doseLowMgPerKg,
+        dose_high_mg_per_kg: values.doseHighMgPerKg,
+        route: values.route,
+        dose_source: values.doseSource,
+        notes: values.notes,
+        entered_at: at.toISOString(),
+        entered_by: meta.enteredBy,
+        reason: meta.reason,
+      })
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    return rowToDrug(row);
   }
 
+  return { db, newestVersion, write };
+}
+
+/** All SQL for the clinic's emergency drugs, on SQLite and PostgreSQL. Corrections and voids are new rows. */
+export function createEmergencyDrugRepository(sql: Sql) {
+  const queries = drugQueries(sql);
+
   return {
-    add(values: EmergencyDrugValues, meta: Meta, at: Date): EmergencyDrug {
-      return write(values, null, false, meta, at);
+    add(values: EmergencyDrugValues, meta: Meta, at: Date): Promise<EmergencyDrug> {
+      return queries.write(values, null, false, meta, at);
     },
     /** A new version of a drug; null when there is no such row. */
-    correct(drugId: number, values: EmergencyDrugValues, meta: Meta, at: Date): EmergencyDrug | null {
-      return writeTransaction(db, () => {
-        const previous = newestVersion(drugId);
-        return previous === null ? null : write(values, previous.id, false, meta, at);
+    correct(
+      drugId: number,
+      values: EmergencyDrugValues,
+      meta: Meta,
+      at: Date,
+    ): Promise<EmergencyDrug | null> {
+      return writeTransaction(sql, async (tx) => {
+        const inTx = drugQueries(tx);
+        const previous = await inTx.newestVersion(drugId);
+        return previous === null ? null : inTx.write(values, previous.id, false, meta, at);
       });
     },
     /** Takes a drug off the card; the row and its history stay, marked void. */
-    void(drugId: number, meta: Meta, at: Date): EmergencyDrug | null {
-      return writeTransaction(db, () => {
-        const previous = newestVersion(drugId);
-        return previous === null ? null : write(rowToDrug(previous).values, previous.id, true, meta, at);
+    void(drugId: number, meta: Meta, at: Date): Promise<EmergencyDrug | null> {
+      return writeTransaction(sql, async (tx) => {
+        const inTx = drugQueries(tx);
+        const previous = await inTx.newestVersion(drugId);
+        return previous === null ? null : inTx.write(rowToDrug(previous).values, previous.id, true, meta, at);
       });
     },
-    /** The current, not voided drugs, by name. */
-    list(): EmergencyDrug[] {
-      return listCurrent.all().map(rowToDrug);
+    /** The current, not voided drugs, by name (letter case ignored), then id. */
+    async list(): Promise<EmergencyDrug[]> {
+      const rows = await queries.db
+        .selectFrom('emergency_drugs as d')
+        .selectAll('d')
+        .where('d.voided', '=', 0)
+        .where(({ not, exists, selectFrom }) =>
+          not(
+            exists(
+              selectFrom('emergency_drugs as later')
+                .select('later.id')
+                .whereRef('later.corrects_id', '=', 'd.id'),
+            ),
+          ),
+        )
+        .orderBy(sqlText`lower(d.name)`)
+        .orderBy('d.id')
+        .execute();
+      return rows.map(rowToDrug);
     },
   };
 }

@@ -1,35 +1,60 @@
-import type { TidewingDatabase } from '../connection.js';
-import { writeTransaction } from '../write-transaction.js';
+import { writeTransaction, type Sql } from '../clinic-db.js';
+
+type Tables = {
+  evidence_prediction_cache: { record_id: number; cache_key: string; row_json: string; computed_at: string };
+};
 
 /** One stored row of the clinic view, with the key it was computed for. */
 export type CachedEvidenceRow = { readonly key: string; readonly rowJson: string };
 
+/** Rows per INSERT: 4 bound values each, well inside both engines' limits on bound values. */
+const rowsPerInsert = 250;
+
 /**
  * All SQL for evidence_prediction_cache: derived rows, replaced when stale. Reading and writing
  * here never touches a clinical table; a write that fails (a read-only or busy file) is skipped,
- * since the rows can always be computed again.
+ * since the rows can always be computed again. Works on SQLite and PostgreSQL alike.
  */
-export function createEvidenceCacheRepository(db: TidewingDatabase) {
-  const all = db.prepare<[], { record_id: number; cache_key: string; row_json: string }>(
-    'SELECT record_id, cache_key, row_json FROM evidence_prediction_cache',
-  );
-  const upsert = db.prepare(
-    `INSERT INTO evidence_prediction_cache (record_id, cache_key, row_json, computed_at) VALUES (?, ?, ?, ?)
-     ON CONFLICT (record_id) DO UPDATE SET cache_key = excluded.cache_key, row_json = excluded.row_json,
-       computed_at = excluded.computed_at`,
-  );
+export function createEvidenceCacheRepository(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
   return {
-    /** Every stored row by record id. */
-    all(): Map<number, CachedEvidenceRow> {
-      return new Map(all.all().map((row) => [row.record_id, { key: row.cache_key, rowJson: row.row_json }]));
+    /** Every stored row by record id (one query). */
+    async all(): Promise<Map<number, CachedEvidenceRow>> {
+      const rows = await db
+        .selectFrom('evidence_prediction_cache')
+        .select(['record_id', 'cache_key', 'row_json'])
+        .execute();
+      return new Map(rows.map((row) => [row.record_id, { key: row.cache_key, rowJson: row.row_json }]));
     },
-    /** Stores (or replaces) computed rows in one transaction; false when the file refused the write. */
-    store(rows: readonly { recordId: number; key: string; rowJson: string }[], at: Date): boolean {
+    /** Stores (or replaces) computed rows in one transaction; false when the database refused the write. */
+    async store(
+      rows: readonly { recordId: number; key: string; rowJson: string }[],
+      at: Date,
+    ): Promise<boolean> {
       if (rows.length === 0) return true;
       const stamp = at.toISOString();
       try {
-        writeTransaction(db, () => {
-          for (const row of rows) upsert.run(row.recordId, row.key, row.rowJson, stamp);
+        await writeTransaction(sql, async (tx) => {
+          const inTx = tx.kysely.withTables<Tables>();
+          for (let start = 0; start < rows.length; start += rowsPerInsert)
+            await inTx
+              .insertInto('evidence_prediction_cache')
+              .values(
+                rows.slice(start, start + rowsPerInsert).map((row) => ({
+                  record_id: row.recordId,
+                  cache_key: row.key,
+                  row_json: row.rowJson,
+                  computed_at: stamp,
+                })),
+              )
+              .onConflict((conflict) =>
+                conflict.column('record_id').doUpdateSet((eb) => ({
+                  cache_key: eb.ref('excluded.cache_key'),
+                  row_json: eb.ref('excluded.row_json'),
+                  computed_at: eb.ref('excluded.computed_at'),
+                })),
+              )
+              .execute();
         });
         return true;
       } catch {

@@ -1,4 +1,5 @@
-import type { TidewingDatabase } from '../connection.js';
+import type { Generated } from 'kysely';
+import type { Sql } from '../clinic-db.js';
 
 type Meta = { enteredBy: string; reason: string };
 
@@ -17,7 +18,8 @@ export type CalibrationSwitch = {
   readonly reason: string;
 };
 
-type ExclusionRow = {
+type EvidenceExclusionsTable = {
+  id: Generated<number>;
   record_id: number;
   excluded: number;
   reason: string;
@@ -25,56 +27,49 @@ type ExclusionRow = {
   entered_by: string;
 };
 
-/** All SQL for evidence_exclusions and evidence_calibration_switch: new rows only; the newest decides. */
-export function createEvidenceRepository(db: TidewingDatabase) {
-  const insertExclusion = db.prepare(
-    'INSERT INTO evidence_exclusions (record_id, excluded, reason, entered_at, entered_by) VALUES (?, ?, ?, ?, ?)',
-  );
-  const latestExclusions = db.prepare<[], ExclusionRow>(
-    `SELECT e.* FROM evidence_exclusions e
-     WHERE e.id = (SELECT max(id) FROM evidence_exclusions later WHERE later.record_id = e.record_id)`,
-  );
-  const insertSwitch = db.prepare(
-    'INSERT INTO evidence_calibration_switch (calibration_on, reason, entered_at, entered_by) VALUES (?, ?, ?, ?)',
-  );
-  const latestSwitch = db.prepare<
-    [],
-    { calibration_on: number; reason: string; entered_at: string; entered_by: string }
-  >('SELECT * FROM evidence_calibration_switch ORDER BY id DESC LIMIT 1');
+type EvidenceCalibrationSwitchTable = {
+  id: Generated<number>;
+  calibration_on: number;
+  reason: string;
+  entered_at: string;
+  entered_by: string;
+};
 
-  const fingerprints = db.prepare<
-    [],
-    {
-      record_id: number;
-      patient_id: number;
-      version_id: number;
-      ended_at: string | null;
-      entries: string;
-      weight_id: number | null;
-      patient_version_id: number | null;
-    }
-  >(
-    `SELECT r.id AS record_id, r.patient_id,
-       v.id AS version_id, v.ended_at,
-       (SELECT count(*) || ':' || ifnull(max(e.id), 0) FROM procedure_entries e WHERE e.record_id = r.id) AS entries,
-       (SELECT max(w.id) FROM weights w WHERE w.patient_id = r.patient_id) AS weight_id,
-       (SELECT max(p.id) FROM patient_versions p WHERE p.patient_id = r.patient_id) AS patient_version_id
-     FROM procedure_records r
-     JOIN procedure_record_versions v ON v.id = (SELECT max(id) FROM procedure_record_versions WHERE record_id = r.id)`,
-  );
+/** The columns of the record tables the fingerprints read (those tables' own modules write them). */
+type FingerprintTables = {
+  procedure_records: { id: number; patient_id: number };
+  procedure_record_versions: { id: number; record_id: number; ended_at: string | null };
+  procedure_entries: { id: number; record_id: number };
+  weights: { id: number; patient_id: number };
+  patient_versions: { id: number; patient_id: number };
+};
 
-  const toExclusion = (row: ExclusionRow): Exclusion => ({
-    recordId: row.record_id,
-    excluded: row.excluded === 1,
-    reason: row.reason,
-    enteredAt: row.entered_at,
-    enteredBy: row.entered_by,
-  });
+type Tables = FingerprintTables & {
+  evidence_exclusions: EvidenceExclusionsTable;
+  evidence_calibration_switch: EvidenceCalibrationSwitchTable;
+};
+
+/**
+ * All SQL for evidence_exclusions and evidence_calibration_switch (new rows only; the newest
+ * decides), and the records' fingerprints the clinic view's stored rows are keyed by. Works on
+ * SQLite and PostgreSQL alike.
+ */
+export function createEvidenceRepository(sql: Sql) {
+  const db = sql.kysely.withTables<Tables>();
 
   return {
     /** Leaves a record out of the calibration (or takes it back in); one insert. */
-    setExcluded(recordId: number, excluded: boolean, meta: Meta, at: Date): Exclusion {
-      insertExclusion.run(recordId, excluded ? 1 : 0, meta.reason, at.toISOString(), meta.enteredBy);
+    async setExcluded(recordId: number, excluded: boolean, meta: Meta, at: Date): Promise<Exclusion> {
+      await db
+        .insertInto('evidence_exclusions')
+        .values({
+          record_id: recordId,
+          excluded: excluded ? 1 : 0,
+          reason: meta.reason,
+          entered_at: at.toISOString(),
+          entered_by: meta.enteredBy,
+        })
+        .execute();
       return {
         recordId,
         excluded,
@@ -83,24 +78,91 @@ export function createEvidenceRepository(db: TidewingDatabase) {
         enteredBy: meta.enteredBy,
       };
     },
-    /** The newest decision per record that has one. */
-    exclusions(): Map<number, Exclusion> {
-      return new Map(latestExclusions.all().map((row) => [row.record_id, toExclusion(row)]));
+    /** The newest decision per record that has one (one query). */
+    async exclusions(): Promise<Map<number, Exclusion>> {
+      const rows = await db
+        .selectFrom('evidence_exclusions as e')
+        .selectAll('e')
+        .where('e.id', '=', (eb) =>
+          eb
+            .selectFrom('evidence_exclusions as later')
+            .select((inner) => inner.fn.max('later.id').as('newest'))
+            .whereRef('later.record_id', '=', 'e.record_id'),
+        )
+        .execute();
+      return new Map(
+        rows.map((row) => [
+          row.record_id,
+          {
+            recordId: row.record_id,
+            excluded: row.excluded === 1,
+            reason: row.reason,
+            enteredAt: row.entered_at,
+            enteredBy: row.entered_by,
+          },
+        ]),
+      );
     },
     /**
      * For every record, what its evidence depends on (newest record version, entries, weights,
      * patient version: rows are only ever added, so the newest ids change with every write),
      * and whether it has ended. One query, so an unchanged clinic is checked without reading it.
      */
-    recordFingerprints(): { recordId: number; ended: boolean; key: string }[] {
-      return fingerprints.all().map((row) => ({
+    async recordFingerprints(): Promise<{ recordId: number; ended: boolean; key: string }[]> {
+      const rows = await db
+        .selectFrom('procedure_records as r')
+        .innerJoin('procedure_record_versions as v', (join) =>
+          join.on((eb) =>
+            eb(
+              'v.id',
+              '=',
+              eb
+                .selectFrom('procedure_record_versions as newest')
+                .select((inner) => inner.fn.max('newest.id').as('id'))
+                .whereRef('newest.record_id', '=', 'r.id'),
+            ),
+          ),
+        )
+        .select((eb) => [
+          'r.id as record_id',
+          'v.id as version_id',
+          'v.ended_at',
+          eb
+            .selectFrom('procedure_entries as e')
+            .select((inner) => inner.fn.countAll().as('count'))
+            .whereRef('e.record_id', '=', 'r.id')
+            .as('entry_count'),
+          eb
+            .selectFrom('procedure_entries as e')
+            .select((inner) => inner.fn.max('e.id').as('id'))
+            .whereRef('e.record_id', '=', 'r.id')
+            .as('entry_id'),
+          eb
+            .selectFrom('weights as w')
+            .select((inner) => inner.fn.max('w.id').as('id'))
+            .whereRef('w.patient_id', '=', 'r.patient_id')
+            .as('weight_id'),
+          eb
+            .selectFrom('patient_versions as p')
+            .select((inner) => inner.fn.max('p.id').as('id'))
+            .whereRef('p.patient_id', '=', 'r.patient_id')
+            .as('patient_version_id'),
+        ])
+        .execute();
+      // The key keeps the format the stored rows were keyed with before (count:newest entry id).
+      return rows.map((row) => ({
         recordId: row.record_id,
         ended: row.ended_at !== null,
-        key: `${row.version_id}|${row.entries}|${String(row.weight_id)}|${String(row.patient_version_id)}`,
+        key: `${row.version_id}|${Number(row.entry_count ?? 0)}:${row.entry_id ?? 0}|${String(row.weight_id ?? null)}|${String(row.patient_version_id ?? null)}`,
       }));
     },
-    calibrationSwitch(): CalibrationSwitch {
-      const row = latestSwitch.get();
+    async calibrationSwitch(): Promise<CalibrationSwitch> {
+      const row = await db
+        .selectFrom('evidence_calibration_switch')
+        .selectAll()
+        .orderBy('id', 'desc')
+        .limit(1)
+        .executeTakeFirst();
       return row === undefined
         ? { on: true, enteredAt: null, enteredBy: null, reason: '' }
         : {
@@ -110,8 +172,16 @@ export function createEvidenceRepository(db: TidewingDatabase) {
             reason: row.reason,
           };
     },
-    setCalibration(on: boolean, meta: Meta, at: Date): CalibrationSwitch {
-      insertSwitch.run(on ? 1 : 0, meta.reason, at.toISOString(), meta.enteredBy);
+    async setCalibration(on: boolean, meta: Meta, at: Date): Promise<CalibrationSwitch> {
+      await db
+        .insertInto('evidence_calibration_switch')
+        .values({
+          calibration_on: on ? 1 : 0,
+          reason: meta.reason,
+          entered_at: at.toISOString(),
+          entered_by: meta.enteredBy,
+        })
+        .execute();
       return { on, enteredAt: at.toISOString(), enteredBy: meta.enteredBy, reason: meta.reason };
     },
   };

@@ -9,12 +9,12 @@ import {
 import { RecordError } from './record-handlers.js';
 
 type DrugChannel = keyof typeof drugChannels;
-type DrugHandlerTable = { [C in DrugChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> };
+type DrugHandlerTable = { [C in DrugChannel]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>> };
 
-function checked<T>(write: () => T | null, id: number): T {
+async function checked<T>(write: () => Promise<T | null>, id: number): Promise<T> {
   let written: T | null;
   try {
-    written = write();
+    written = await write();
   } catch (error) {
     if (error instanceof DrugCorrectionError) throw new RecordError('conflict', error.message, 'id');
     throw error;
@@ -30,11 +30,11 @@ function checked<T>(write: () => T | null, id: number): T {
 
 /** Handlers for the clinic's emergency-drug list (the worksheet's emergency card). */
 export function createDrugHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
-  _clinic: ClinicDb,
+  clinic: ClinicDb,
 ): DrugHandlerTable {
-  const drugs = createEmergencyDrugRepository(db);
+  const drugs = createEmergencyDrugRepository(clinic);
   return {
     'drugs:list': () => drugs.list(),
     'drugs:add': (request) => drugs.add(request.values, request.meta, now()),

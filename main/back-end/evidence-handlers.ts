@@ -67,26 +67,26 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 
 /** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
 export function createEvidenceHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
 ): EvidenceHandlerTable {
-  const evidence = createEvidenceRepository(db);
+  const evidence = createEvidenceRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);
   const patients = createPatientRepository(clinic);
   const weights = createWeightRepository(clinic);
   const species = createSpeciesRepository(clinic);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
   const settings = createSettingsRepository(clinic);
-  const stored = createEvidenceCacheRepository(db);
+  const stored = createEvidenceCacheRepository(clinic);
   // Rows computed before, by record id, with the fingerprint they were computed for: read from
   // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
   let cache: Map<number, { key: string; row: ComputedRow }> | null = null;
 
-  function loadCache(): Map<number, { key: string; row: ComputedRow }> {
+  async function loadCache(): Promise<Map<number, { key: string; row: ComputedRow }>> {
     const loaded = new Map<number, { key: string; row: ComputedRow }>();
-    for (const [recordId, entry] of stored.all()) {
+    for (const [recordId, entry] of await stored.all()) {
       // Only rows of this build's format are read (the format is in the key); one that does not
       // parse is computed again.
       if (!entry.key.startsWith(`${rowFormat}|`)) continue;
@@ -103,7 +103,7 @@ export function createEvidenceHandlers(
     const speciesList = await species.list();
     const tables = { species: speciesList.map(speciesToReference) };
     const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
-    const exclusions = evidence.exclusions();
+    const exclusions = await evidence.exclusions();
     const defaultAgent = (await settings.get()).settings?.defaultAgent ?? 'isoflurane';
     // Species edits and the default agent change every record's answer.
     const clinicKey = fingerprint([
@@ -112,7 +112,7 @@ export function createEvidenceHandlers(
       defaultAgent,
       speciesList.map((entry) => entry.stamp.versionId).join(','),
     ]);
-    cache ??= loadCache();
+    cache ??= await loadCache();
     const computed: { recordId: number; key: string; rowJson: string }[] = [];
     let inProgress = 0;
     const rows: EvidenceRow[] = [];
@@ -122,7 +122,7 @@ export function createEvidenceHandlers(
         ? { reason: entry.reason, enteredBy: entry.enteredBy, enteredAt: entry.enteredAt }
         : null;
     };
-    for (const { recordId, ended, key: recordKey } of evidence.recordFingerprints()) {
+    for (const { recordId, ended, key: recordKey } of await evidence.recordFingerprints()) {
       if (!ended) {
         inProgress += 1;
         continue;
@@ -146,7 +146,7 @@ export function createEvidenceHandlers(
         patientWeights[0] ??
         null;
       const exclusion = exclusionOf(recordId);
-      const planRecord = record.values.planId === null ? null : plans.get(record.values.planId);
+      const planRecord = record.values.planId === null ? null : await plans.get(record.values.planId);
       const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
       const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
       const base = {
@@ -211,7 +211,7 @@ export function createEvidenceHandlers(
       rows.push({ ...row, exclusion });
     }
     // Kept for the next start; a write the file refuses is skipped (the rows are computed again).
-    stored.store(computed, now());
+    await stored.store(computed, now());
     // Newest start first, as the records list shows them.
     rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
     return { rows, inProgress };
@@ -264,7 +264,7 @@ export function createEvidenceHandlers(
   }
 
   async function calibration() {
-    const switchState = evidence.calibrationSwitch();
+    const switchState = await evidence.calibrationSwitch();
     const { rows } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
     const speciesList = await species.list();

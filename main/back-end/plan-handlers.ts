@@ -15,9 +15,7 @@ import { createWeightRepository } from '../../db/repositories/weight-repository.
 import { RecordError } from './record-handlers.js';
 
 type PlanChannel = keyof typeof planChannels;
-type PlanHandlerTable = {
-  [C in PlanChannel]: (request: ParsedRequestOf<C>) => ResponseOf<C> | Promise<ResponseOf<C>>;
-};
+type PlanHandlerTable = { [C in PlanChannel]: (request: ParsedRequestOf<C>) => Promise<ResponseOf<C>> };
 
 function openItems(plan: SavedPlan): number {
   return (
@@ -28,14 +26,14 @@ function openItems(plan: SavedPlan): number {
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
 export function createPlanHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
 ): PlanHandlerTable {
   const species = createSpeciesRepository(clinic);
   const patients = createPatientRepository(clinic);
   const weights = createWeightRepository(clinic);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
   // read-only arrays into the plain shape the contract stores.
@@ -51,7 +49,7 @@ export function createPlanHandlers(
   }
 
   async function summary(plan: SavedPlan) {
-    const comparison = plans.comparisonOf(plan.id);
+    const comparison = await plans.comparisonOf(plan.id);
     const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
     return {
       id: plan.id,
@@ -88,6 +86,13 @@ export function createPlanHandlers(
     };
   }
 
+  /** One plan at a time: a pool or the SQLite connection is not flooded by a long list. */
+  async function summaries(list: readonly SavedPlan[]) {
+    const lines = [];
+    for (const plan of list) lines.push(await summary(plan));
+    return lines;
+  }
+
   return {
     'plans:save': async (request) =>
       plans.save(await toStore(request.fields, request.meta.reason !== ''), request.meta, now()),
@@ -103,8 +108,8 @@ export function createPlanHandlers(
         );
       return plans.saveComparison(first, second, request.meta, now());
     },
-    'plans:choose': (request) => {
-      const outcome = plans.choose(request.id, request.meta, now());
+    'plans:choose': async (request) => {
+      const outcome = await plans.choose(request.id, request.meta, now());
       if (outcome === 'not-found')
         throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       if (outcome === 'stale')
@@ -118,7 +123,7 @@ export function createPlanHandlers(
       return { chosenId: request.id };
     },
     'plans:correct': async (request) => {
-      const saved = plans.correct(
+      const saved = await plans.correct(
         request.id,
         await toStore(request.fields, request.meta.reason !== ''),
         request.meta,
@@ -135,7 +140,7 @@ export function createPlanHandlers(
       return saved;
     },
     'plans:get': async (request) => {
-      const plan = plans.get(request.id);
+      const plan = await plans.get(request.id);
       if (plan === null) throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
       const patient = plan.patientId === null ? null : await patients.get(plan.patientId);
       const speciesKey = patient?.values.speciesKey ?? plan.input.speciesId;
@@ -168,7 +173,9 @@ export function createPlanHandlers(
         parts.push(...trend.flags.map((flag) => flag.message));
         weightTrendText = parts.length === 0 ? null : parts.join('; ');
       }
-      const comparison = plans.comparisonOf(plan.id);
+      const comparison = await plans.comparisonOf(plan.id);
+      const members = new Map<number, SavedPlan>();
+      for (const id of comparison?.planIds ?? []) members.set(id, (await plans.get(id)) as SavedPlan);
       return {
         plan,
         comparison:
@@ -177,7 +184,7 @@ export function createPlanHandlers(
             : {
                 chosenId: comparison.chosenId,
                 plans: comparison.planIds.map((id) => {
-                  const member = plans.get(id) as SavedPlan;
+                  const member = members.get(id) as SavedPlan;
                   const variantOf = member.variantOf === null ? null : (comparison.planIds[0] ?? null);
                   return { id, label: member.label, variantOf };
                 }),
@@ -185,18 +192,20 @@ export function createPlanHandlers(
         patient,
         species: speciesRecord,
         weightTrendText,
-        history: plans
-          .history(request.id)
-          .map((version) => ({ id: version.id, stamp: version.stamp, modelVersion: version.modelVersion })),
+        history: (await plans.history(request.id)).map((version) => ({
+          id: version.id,
+          stamp: version.stamp,
+          modelVersion: version.modelVersion,
+        })),
       };
     },
-    'plans:for-patient': (request) => Promise.all(plans.listForPatient(request.patientId).map(summary)),
-    'plans:recent': (request) => Promise.all(plans.listRecent(request.limit).map(summary)),
+    'plans:for-patient': async (request) => summaries(await plans.listForPatient(request.patientId)),
+    'plans:recent': async (request) => summaries(await plans.listRecent(request.limit)),
     'plans:day': async (request) => {
-      const list = plans.listForDay(request.date);
+      const list = await plans.listForDay(request.date);
       const liquidMlByAgent: Record<string, number> = {};
       let oxygenL = 0;
-      const lines = await Promise.all(list.map(summary));
+      const lines = await summaries(list);
       // A compared plan the clinic did not choose is not given: the day's totals leave it out.
       const notChosen = new Set(lines.filter((line) => line.chosen === false).map((line) => line.id));
       for (const plan of list) {

@@ -60,7 +60,7 @@ function refuse(problem: string | null, field: string): void {
 
 /** Handlers for species, patients, weights, procedure records and entries. */
 export function createRecordHandlers(
-  db: TidewingDatabase,
+  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
   /** This workstation's id, stamped on each entry it writes (null when it cannot be read). */
@@ -71,14 +71,14 @@ export function createRecordHandlers(
   const weights = createWeightRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);
-  const plans = createPlanRepository(db);
+  const plans = createPlanRepository(clinic);
   /** Today on the back end's clock: the date the clinic is living in. */
   const today = () => localDateOf(now());
 
   /** A linked plan must exist and be a plan for this record's bird. */
-  function requireOwnPlan(planId: number | null, patientId: number) {
+  async function requireOwnPlan(planId: number | null, patientId: number) {
     if (planId === null) return;
-    const plan = plans.get(planId);
+    const plan = await plans.get(planId);
     if (plan === null)
       throw new RecordError(
         'invalid-request',
@@ -224,12 +224,12 @@ export function createRecordHandlers(
 
     'procedures:create': async (request) => {
       found(await patients.get(request.patientId), `Patient ${request.patientId}`, 'patientId');
-      requireOwnPlan(request.values.planId, request.patientId);
+      await requireOwnPlan(request.values.planId, request.patientId);
       return procedures.create(request.patientId, request.values, request.meta, now());
     },
     'procedures:correct': async (request) => {
       const record = found(await procedures.get(request.id), `Procedure record ${request.id}`);
-      requireOwnPlan(request.values.planId, record.patientId);
+      await requireOwnPlan(request.values.planId, record.patientId);
       await requireEntriesWithin(request.id, request.values);
       const versionId = request.versionId ?? record.stamp.versionId;
       const corrected = await refuseConcurrentChange({

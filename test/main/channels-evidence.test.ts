@@ -1,7 +1,10 @@
+import { sql } from 'kysely';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { ChannelName, RequestOf, ResponseOf } from '../../app/contract/channels.js';
 import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
-import { writeDemoClinic } from '../../main/back-end/demo-clinic.js';
+import { generateDemoClinic } from '../../app/core/evidence/demo-clinic.js';
+import { speciesReference } from '../../app/core/species-reference.js';
+import { demoSeed, writeDemoClinic, writeDemoRecords } from '../../main/back-end/demo-clinic.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
 import { correctionBy, enteredByRw, pipRadiographValues, pipValues } from '../support/clinic-birds.js';
 
@@ -233,5 +236,95 @@ describe('evidence channels', () => {
       'ZQ',
       first.rows[0]?.staffInitials,
     ]);
+  });
+});
+
+describe('evidence:list over many records', () => {
+  it('reads stored rows with as many statements for 120 records as for 60: no query per record', async () => {
+    const api = harness();
+    api.backEnd.close();
+    const statements: string[] = [];
+    const openBackEnd = async () => {
+      const backEnd = startBackEnd({
+        dataDirectory: api.dataDirectory,
+        appVersion: '9.8.7',
+        host: 'browser',
+        now: () => api.clock.now,
+        openOptions: { trace: (text) => statements.push(text) },
+      });
+      restarted.push(backEnd);
+      await backEnd.ready;
+      return backEnd;
+    };
+    /** The statements one evidence:list runs. */
+    const counted = async (backEnd: BackEnd) => {
+      statements.length = 0;
+      const answer = await backEnd.dispatch('evidence:list', {});
+      expect(answer.ok).toBe(true);
+      return statements.length;
+    };
+    const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
+    const first = await openBackEnd();
+    expect(await writeDemoRecords(first.clinic, demo, api.clock.now)).toBe(60);
+    await counted(first);
+    const again60 = await counted(first);
+    first.close();
+    const restart60 = await counted(await openBackEnd());
+
+    const second = await openBackEnd();
+    expect(await writeDemoRecords(second.clinic, demo, api.clock.now)).toBe(60);
+    await counted(second);
+    expect(await counted(second)).toBe(again60);
+    second.close();
+    expect(await counted(await openBackEnd())).toBe(restart60);
+    // Species, settings, exclusions and the fingerprints at least; the stored rows after a restart.
+    expect(again60).toBeGreaterThanOrEqual(4);
+    expect(restart60).toBeGreaterThan(again60);
+    expect(restart60).toBeLessThan(20);
+  });
+});
+
+describe('the demo clinic (--demo)', () => {
+  const rowsIn = async (api: ChannelHarness, table: 'patients' | 'weights' | 'procedure_records') => {
+    const result = await sql<{ n: number }>`SELECT count(*) AS n FROM ${sql.table(table)}`.execute(
+      api.backEnd.clinic.kysely,
+    );
+    return Number(result.rows[0]?.n);
+  };
+
+  it('is written by the back end before it serves, once, and never into a clinic with patients', async () => {
+    const api = harness();
+    const messages: string[] = [];
+    api.backEnd.close();
+    const demoStart = startBackEnd({
+      dataDirectory: api.dataDirectory,
+      appVersion: '9.8.7',
+      host: 'browser',
+      now: () => api.clock.now,
+      demoClinic: true,
+      log: (message) => messages.push(message),
+    });
+    restarted.push(demoStart);
+    // The first request waits for the demo clinic.
+    const list = await demoStart.dispatch('evidence:list', {});
+    expect(messages).toEqual(['Demo clinic: 60 invented procedure records written.']);
+    expect(list.ok && (list.value as ResponseOf<'evidence:list'>).counts.completed).toBe(60);
+    expect(await writeDemoClinic(demoStart.clinic, api.clock.now)).toBe(0);
+  });
+
+  it('writes its patients, weights, records and entries in one transaction: a failure leaves none', async () => {
+    const api = harness();
+    await api.backEnd.ready;
+    const demo = generateDemoClinic(demoSeed, '2026-12-01', { species: speciesReference });
+    const first = demo.records[0];
+    if (first === undefined) throw new Error('the demo clinic has no record');
+    // The last record names a bird the demo does not have: the whole write is refused.
+    const broken = { ...demo, records: [...demo.records, { ...first, patientIndex: demo.patients.length }] };
+    await expect(writeDemoRecords(api.backEnd.clinic, broken, api.clock.now)).rejects.toThrow();
+    expect(await rowsIn(api, 'patients')).toBe(0);
+    expect(await rowsIn(api, 'weights')).toBe(0);
+    expect(await rowsIn(api, 'procedure_records')).toBe(0);
+    expect(await writeDemoRecords(api.backEnd.clinic, demo, api.clock.now)).toBe(60);
+    expect(await rowsIn(api, 'procedure_records')).toBe(60);
   });
 });
