@@ -1,6 +1,5 @@
 import { sql } from 'kysely';
 import type { Sql } from '../clinic-db.js';
-import type { TidewingDatabase } from '../connection.js';
 
 /**
  * Record tables keep every version: a correction is a new row whose `corrects_id` names the row
@@ -28,30 +27,6 @@ export async function chainIds(db: Sql, table: ChainTable, id: number): Promise<
     )
     SELECT id FROM later ORDER BY id DESC`.execute(db.kysely);
   return result.rows.map((row) => row.id);
-}
-
-/**
- * The synchronous form of `chainIds` over the raw better-sqlite3 handle, for the repositories not
- * yet moved onto the shared query layer. Remove it when the last of them is converted.
- */
-export function chainIdsSync(db: TidewingDatabase, table: ChainTable, id: number): number[] {
-  const rows = db
-    .prepare<[number], { id: number }>(
-      `WITH RECURSIVE earlier(id, corrects_id) AS (
-         SELECT id, corrects_id FROM ${table} WHERE id = ?
-         UNION ALL
-         SELECT t.id, t.corrects_id FROM ${table} t JOIN earlier ON t.id = earlier.corrects_id
-       ),
-       root AS (SELECT id FROM earlier WHERE corrects_id IS NULL),
-       later(id) AS (
-         SELECT id FROM root
-         UNION ALL
-         SELECT t.id FROM ${table} t JOIN later ON t.corrects_id = later.id
-       )
-       SELECT id FROM later ORDER BY id DESC`,
-    )
-    .all(id);
-  return rows.map((row) => row.id);
 }
 
 /**

@@ -78,7 +78,6 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
   const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
-    db,
     clinic,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
@@ -213,7 +212,6 @@ export async function startBackEndOn(options: StartOptions): Promise<StartedBack
   const clinic = opened.clinic;
   const now = options.now ?? (() => new Date());
   const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
-    db: null,
     clinic,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,

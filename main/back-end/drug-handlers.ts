@@ -1,7 +1,6 @@
 import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { drugChannels } from '../../app/contract/drug-channels.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import {
   createEmergencyDrugRepository,
   DrugCorrectionError,
@@ -29,11 +28,7 @@ async function checked<T>(write: () => Promise<T | null>, id: number): Promise<T
 }
 
 /** Handlers for the clinic's emergency-drug list (the worksheet's emergency card). */
-export function createDrugHandlers(
-  _db: TidewingDatabase,
-  now: () => Date,
-  clinic: ClinicDb,
-): DrugHandlerTable {
+export function createDrugHandlers(now: () => Date, clinic: ClinicDb): DrugHandlerTable {
   const drugs = createEmergencyDrugRepository(clinic);
   return {
     'drugs:list': () => drugs.list(),

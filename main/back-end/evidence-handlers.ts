@@ -26,7 +26,6 @@ import {
 import { speciesGroupOf, speciesGroups } from '../../app/core/evidence/species-groups.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import { createEvidenceCacheRepository } from '../../db/repositories/evidence-cache-repository.js';
 import { createEvidenceRepository } from '../../db/repositories/evidence-repository.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
@@ -66,11 +65,7 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
 }
 
 /** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
-export function createEvidenceHandlers(
-  _db: TidewingDatabase,
-  now: () => Date,
-  clinic: ClinicDb,
-): EvidenceHandlerTable {
+export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): EvidenceHandlerTable {
   const evidence = createEvidenceRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);

@@ -11,7 +11,6 @@ import { describeIssues, type ContractError, type Result } from '../../app/contr
 import { worksheetPdfUnavailableMessage } from '../../app/contract/worksheet-channels.js';
 import type { ThemeChoice } from '../../app/contract/workstation.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import { schemaVersion } from '../../db/connection.js';
 import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
 import { createSafetyAcknowledgementRepository } from '../../db/repositories/safety-acknowledgement-repository.js';
@@ -27,17 +26,11 @@ import { createWorkstationHandlers } from './workstation-handlers.js';
 import { workstationIdOf } from './workstation-identity.js';
 import { ConcurrentChangeError } from './concurrent-change.js';
 import { createDatabaseHandlers } from './database-handlers.js';
-import { sqliteOnlyHandle } from './sqlite-only-handle.js';
 import { postgresSchemaVersion } from '../../db/postgres-connection.js';
 import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
 
 export type HandlerContext = {
-  /**
-   * Transitional: the raw better-sqlite3 handle for repositories not yet on the shared query
-   * layer; null when the clinic is on PostgreSQL (their requests then answer `unavailable`).
-   */
-  readonly db: TidewingDatabase | null;
-  /** The same clinic database behind the shared query layer (SQLite or PostgreSQL). */
+  /** The clinic database behind the shared query layer (SQLite or PostgreSQL). */
   readonly clinic: ClinicDb;
   /** How the database in use was chosen (Settings shows it); 'default' when not given. */
   readonly databaseChoice?: DatabaseChoiceSource;
@@ -79,7 +72,7 @@ export function createBackEndParts(given: HandlerContext): {
   /** Reads the pinned theme into `workstationTheme`; the back end awaits it before the first dispatch. */
   readonly loadWorkstationTheme: () => Promise<void>;
 } {
-  const context = { ...given, db: given.db ?? sqliteOnlyHandle(given.clinic.location) };
+  const context = given;
   const settings = createSettingsRepository(context.clinic);
   const acknowledgements = createSafetyAcknowledgementRepository(context.clinic);
   const safetyStatus = async () => ({
@@ -100,7 +93,9 @@ export function createBackEndParts(given: HandlerContext): {
       schemaVersion:
         context.clinic.engine === 'postgresql'
           ? await postgresSchemaVersion(context.clinic)
-          : schemaVersion(context.db),
+          : context.clinic.sqlite === null
+            ? 0
+            : schemaVersion(context.clinic.sqlite),
       dataDirectory: context.dataDirectory,
       host: context.host,
     }),
@@ -138,10 +133,10 @@ export function createBackEndParts(given: HandlerContext): {
     'worksheets:save-pdf': () => {
       throw new HandlerError('unavailable', worksheetPdfUnavailableMessage);
     },
-    ...createRecordHandlers(context.db, context.now, context.clinic, workstationIdOf(context.dataDirectory)),
-    ...createPlanHandlers(context.db, context.now, context.clinic),
-    ...createDrugHandlers(context.db, context.now, context.clinic),
-    ...createEvidenceHandlers(context.db, context.now, context.clinic),
+    ...createRecordHandlers(context.now, context.clinic, workstationIdOf(context.dataDirectory)),
+    ...createPlanHandlers(context.now, context.clinic),
+    ...createDrugHandlers(context.now, context.clinic),
+    ...createEvidenceHandlers(context.now, context.clinic),
     ...workstationHandlers,
     ...createDatabaseHandlers({
       clinic: context.clinic,

@@ -7,7 +7,6 @@ import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js'
 import { phasesOfPlan } from '../../app/core/plan-phases.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
@@ -25,11 +24,7 @@ function openItems(plan: SavedPlan): number {
 }
 
 /** Handlers for planning: compute, save (the snapshot is computed here, never taken from the screen), read. */
-export function createPlanHandlers(
-  _db: TidewingDatabase,
-  now: () => Date,
-  clinic: ClinicDb,
-): PlanHandlerTable {
+export function createPlanHandlers(now: () => Date, clinic: ClinicDb): PlanHandlerTable {
   const species = createSpeciesRepository(clinic);
   const patients = createPatientRepository(clinic);
   const weights = createWeightRepository(clinic);

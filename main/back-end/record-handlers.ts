@@ -21,7 +21,6 @@ import { laterVersion } from '../../db/repositories/version-chain.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
-import type { TidewingDatabase } from '../../db/connection.js';
 import { refuseConcurrentChange } from './concurrent-change.js';
 
 type RecordChannel = keyof typeof recordChannels & ChannelName;
@@ -60,7 +59,6 @@ function refuse(problem: string | null, field: string): void {
 
 /** Handlers for species, patients, weights, procedure records and entries. */
 export function createRecordHandlers(
-  _db: TidewingDatabase,
   now: () => Date,
   clinic: ClinicDb,
   /** This workstation's id, stamped on each entry it writes (null when it cannot be read). */

@@ -198,7 +198,6 @@ describe('database constraint failures become field errors', () => {
     '%s',
     async (_label, [, channel, payload, run, refusal]) => {
       const handlers = createHandlers({
-        db: clinic.db,
         clinic: clinic.backEnd.clinic,
         appVersion: '9.8.7',
         dataDirectory: '/nonexistent',

@@ -144,7 +144,6 @@ describe('drug channels', () => {
     const db = fresh();
     return createDispatcher(
       createHandlers({
-        db,
         clinic: sqliteClinicDb(db),
         appVersion: '0.1.0',
         dataDirectory: '/tmp',

@@ -65,13 +65,9 @@ describe('write transactions', () => {
       path.join('db', 'postgres-connection.ts'),
       path.join('db', 'postgres-connection.ts'),
     ]);
-    // better-sqlite3's db.transaction(fn), which must name its mode: the SQLite migrations and the
-    // synchronous writeTransaction kept for file-level tools.
+    // better-sqlite3's db.transaction(fn), which must name its mode: only the SQLite migrations.
     const raw = calls.filter((call) => !queryLayer.includes(call));
-    expect(raw.map((call) => call.file).sort()).toEqual([
-      path.join('db', 'connection.ts'),
-      path.join('db', 'write-transaction.ts'),
-    ]);
+    expect(raw.map((call) => call.file).sort()).toEqual([path.join('db', 'connection.ts')]);
     for (const call of raw) {
       const mode = /^\s*\.(immediate|deferred)\(/.exec(call.after)?.[1];
       expect(mode, `${call.file}: transaction(...)${call.after}`).toBeDefined();

@@ -54,7 +54,6 @@ describe('change notices from the dispatcher', () => {
     const api = openChannelHarness();
     cleanups.push(() => api.close());
     const handlers: HandlerTable = createHandlers({
-      db: api.backEnd.db,
       clinic: api.backEnd.clinic,
       appVersion: '1.0.0',
       dataDirectory: temp.folder,
