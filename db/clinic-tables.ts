@@ -243,8 +243,8 @@ export function parentsFirst(tables: readonly TableShape[]): TableShape[] {
  * Runs `fn` inside one read-only snapshot of the database, so that every table read agrees with
  * every other even while a workstation keeps writing. On PostgreSQL a REPEATABLE READ, READ ONLY
  * transaction; on SQLite a deferred transaction on the one connection, always ended with COMMIT
- * (it writes nothing of its own, and an unconverted synchronous write on the same handle that
- * ran meanwhile must not be rolled back with it). Inside a transaction already, `fn` joins it.
+ * (it writes nothing of its own, and a write on the same handle that ran meanwhile, such as a
+ * file-level tool's, must not be rolled back with it). Inside a transaction already, `fn` joins it.
  */
 export async function readSnapshot<T>(sql: Sql, fn: (snapshot: Sql) => Promise<T>): Promise<T> {
   if (sql.kysely.isTransaction) return fn(sql);

@@ -56,7 +56,7 @@ const speciesKeys = [
   'barnowl',
 ];
 
-function generatedPatient(random: () => number, index: number): PatientValues {
+export function generatedPatient(random: () => number, index: number): PatientValues {
   const pick = <T>(list: readonly T[]): T => list[Math.floor(random() * list.length)] as T;
   const name = `${pick(syllables)}${pick(syllables)}${pick(syllables)}`;
   return {
@@ -72,7 +72,7 @@ function generatedPatient(random: () => number, index: number): PatientValues {
   };
 }
 
-function vitals(sequence: number): ProcedureEntryValues {
+export function vitals(sequence: number): ProcedureEntryValues {
   return {
     at: new Date(Date.UTC(2026, 0, 1, 9, 0, 0) + sequence * 60_000).toISOString(),
     kind: 'vitals',

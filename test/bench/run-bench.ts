@@ -7,6 +7,7 @@ import { benchWorksheet } from './worksheet-bench.js';
 import { benchPlanningScreen } from './planning-bench.js';
 import { benchEvidence } from './evidence-bench.js';
 import { benchWorkstationLoad } from './workstations-bench.js';
+import { benchEngines } from './engines-bench.js';
 
 const sections: Readonly<Record<string, () => Promise<void>>> = {
   foundation: async () => printFigures('Foundation', await benchFoundation()),
@@ -33,6 +34,8 @@ const sections: Readonly<Record<string, () => Promise<void>>> = {
     ),
   worksheet: async () => printFigures('Worksheet (target: PDF under 2 s)', await benchWorksheet()),
   evidence: async () => printFigures('Clinic evidence', await benchEvidence()),
+  engines: async () =>
+    printFigures('SQLite and PostgreSQL through the same repositories', await benchEngines()),
   workstations: async () =>
     printFigures(
       'Five workstations on one PostgreSQL database, 1 row/s each for 2 min, one host SIGKILLed and restarted',

@@ -59,7 +59,7 @@ function runAs(user: string | null, command: string, args: readonly string[]): s
 }
 
 /** Starts the cluster; throws with the server's log when it cannot. */
-export async function startTestCluster(): Promise<TestCluster> {
+export async function startTestCluster(options: { readonly fsync?: boolean } = {}): Promise<TestCluster> {
   const binaries = postgresBinaries();
   if ('missing' in binaries) throw new Error(binaries.missing);
   const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
@@ -96,8 +96,9 @@ export async function startTestCluster(): Promise<TestCluster> {
       '-t',
       '60',
       '-o',
-      // fsync off: the cluster is thrown away after the run; the tests kill app hosts, not the server.
-      `-c listen_addresses=127.0.0.1 -c port=${String(port)} -c unix_socket_directories=${folder} -c fsync=off -c max_connections=200`,
+      // fsync off for tests: the cluster is thrown away after the run and the tests kill app hosts,
+      // not the server; the bench turns it on so that a commit costs what it does on a clinic's server.
+      `-c listen_addresses=127.0.0.1 -c port=${String(port)} -c unix_socket_directories=${folder} -c fsync=${options.fsync === true ? 'on' : 'off'} -c max_connections=200`,
       'start',
     ]);
   } catch (error) {
