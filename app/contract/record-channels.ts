@@ -81,7 +81,17 @@ export const recordChannels = {
     response: patientSchema,
   },
   'patients:correct': {
-    request: z.object({ id, values: patientValuesSchema, meta: correctionMetaSchema }),
+    request: z.object({
+      id,
+      /**
+       * The version of the details the correction replaces (the `stamp.versionId` the user saw).
+       * Refused with `conflict` when someone saved another correction first; without it the
+       * current version is corrected.
+       */
+      versionId: id.optional(),
+      values: patientValuesSchema,
+      meta: correctionMetaSchema,
+    }),
     response: patientSchema,
   },
 

@@ -264,11 +264,22 @@ export function createPatientRepository(sql: Sql) {
         return addVersion(tx, patientId, null, values, meta, at);
       });
     },
-    /** Adds a corrected version; the earlier one stays in the history. */
-    correct(patientId: number, values: PatientValues, meta: Meta, at: Date): Promise<Patient | null> {
+    /**
+     * Adds a corrected version; the earlier one stays in the history. With `versionId` (the version
+     * the user saw), refuses with PatientVersionMismatchError when another version was saved since.
+     */
+    correct(
+      patientId: number,
+      values: PatientValues,
+      meta: Meta,
+      at: Date,
+      versionId?: number,
+    ): Promise<Patient | null> {
       return writeTransaction(sql, async (tx) => {
         const current = await currentRow(tx, patientId);
         if (current === undefined) return null;
+        if (versionId !== undefined && versionId !== current.id)
+          throw new PatientVersionMismatchError(versionId, current.id);
         return addVersion(tx, patientId, current.id, values, meta, at);
       });
     },
@@ -319,3 +330,15 @@ export function createPatientRepository(sql: Sql) {
 }
 
 export type PatientRepository = ReturnType<typeof createPatientRepository>;
+
+/** A correction named a version of the patient's details that is no longer the current one. */
+export class PatientVersionMismatchError extends Error {
+  readonly seenVersionId: number;
+  readonly currentVersionId: number;
+  constructor(seenVersionId: number, currentVersionId: number) {
+    super(`Version ${String(seenVersionId)} of the patient's details is not the current one.`);
+    this.name = 'PatientVersionMismatchError';
+    this.seenVersionId = seenVersionId;
+    this.currentVersionId = currentVersionId;
+  }
+}

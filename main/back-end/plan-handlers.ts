@@ -1,3 +1,5 @@
+import { ConcurrentChangeError, concurrentChangeMessage } from './concurrent-change.js';
+import { laterVersion } from '../../db/repositories/version-chain.js';
 import type { ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import type { planChannels, PlanFields, SavedPlan } from '../../app/contract/plan-records.js';
 import { planResultSchema, type PlanInput } from '../../app/contract/plan.js';
@@ -126,12 +128,11 @@ export function createPlanHandlers(now: () => Date, clinic: ClinicDb): PlanHandl
       );
       if (saved === 'not-found')
         throw new RecordError('not-found', `Plan ${request.id} was not found.`, 'id');
-      if (saved === 'stale')
-        throw new RecordError(
-          'conflict',
-          'This plan was changed since you opened it; open its newest version and edit that.',
-          'id',
-        );
+      if (saved === 'stale') {
+        // Who saved the newer version, where, when and why; nothing of this change was written.
+        const later = await laterVersion(clinic, 'plans', request.id);
+        throw new ConcurrentChangeError(concurrentChangeMessage('plan', later, now()), later);
+      }
       return saved;
     },
     'plans:get': async (request) => {

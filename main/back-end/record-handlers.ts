@@ -10,7 +10,10 @@ import type { ProcedureRecordValues } from '../../app/contract/records.js';
 import { procedureCsv } from '../../app/core/procedure-csv.js';
 import { localTimeWithOffset } from '../../app/core/procedure-events.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
-import { createPatientRepository } from '../../db/repositories/patient-repository.js';
+import {
+  createPatientRepository,
+  PatientVersionMismatchError,
+} from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import {
@@ -182,10 +185,17 @@ export function createRecordHandlers(
     'patients:correct': async (request) => {
       await requireSpecies(request.values.speciesKey);
       refuse(hatchDateProblem(request.values.hatchDate, today()), 'values.hatchDate');
-      return found(
-        await patients.correct(request.id, request.values, request.meta, now()),
-        `Patient ${request.id}`,
-      );
+      const corrected = await refuseConcurrentChange({
+        noun: 'patient',
+        now,
+        isStale: (error) => error instanceof PatientVersionMismatchError,
+        write: () => patients.correct(request.id, request.values, request.meta, now(), request.versionId),
+        later: () =>
+          request.versionId === undefined
+            ? Promise.resolve(null)
+            : laterVersion(clinic, 'patient_versions', request.versionId),
+      });
+      return found(corrected, `Patient ${request.id}`);
     },
 
     'weights:add': async (request) => {

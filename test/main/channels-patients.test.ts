@@ -123,6 +123,32 @@ describe('patient channels', () => {
     expect(detail.history.map((version) => version.values.sex)).toEqual(['female', 'male']);
   });
 
+  it('patients:correct naming the version the user saw is refused with who, when and why when another was saved first', async () => {
+    const api = harness();
+    const created = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const seen = created.stamp.versionId;
+    api.clock.set('2026-12-01T11:00:00.000Z');
+    await api.answer('patients:correct', {
+      id: created.id,
+      versionId: seen,
+      values: { ...pipValues, ringId: 'HL-24-118' },
+      meta: correctionBy('MK', 'Ring misread'),
+    });
+    const clash = await api.refusal('patients:correct', {
+      id: created.id,
+      versionId: seen,
+      values: { ...pipValues, notes: 'Calm today' },
+      meta: correctionBy('RW', 'Note added'),
+    });
+    expect(clash).toMatchObject({ code: 'conflict', field: 'id' });
+    expect(clash.message).toMatch(
+      /^Not saved: this patient was already corrected by MK at \d\d:\d\d \(reason: Ring misread\)\. Your change was not applied; reload to see the current patient\.$/,
+    );
+    const detail = await api.answer('patients:get', { id: created.id });
+    expect(detail.patient.values).toMatchObject({ ringId: 'HL-24-118', notes: pipValues.notes });
+    expect(detail.history).toHaveLength(2);
+  });
+
   it('patients:correct needs a reason, a known species and a patient that exists', async () => {
     const api = harness();
     const created = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });

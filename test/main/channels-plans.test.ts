@@ -214,10 +214,12 @@ describe('plan channels', () => {
     });
     const history = (await api.answer('plans:get', { id: second.id })).history;
     expect(history.map((version) => version.id)).toEqual([second.id, first.id]);
-    expect(await api.refusal('plans:correct', { id: first.id, fields, meta: enteredByRw })).toMatchObject({
-      code: 'conflict',
-      message: 'This plan was changed since you opened it; open its newest version and edit that.',
-    });
+    const stale = await api.refusal('plans:correct', { id: first.id, fields, meta: enteredByRw });
+    expect(stale.code).toBe('conflict');
+    // Who saved the newer version, when and why (the clock shows the workstation's local time).
+    expect(stale.message).toMatch(
+      /^Not saved: this plan was already corrected by MK at \d\d:\d\d \(reason: Owner asked for Thursday\)\. Your change was not applied; reload to see the current plan\.$/,
+    );
     expect(await api.refusal('plans:correct', { id: 999, fields, meta: enteredByRw })).toMatchObject({
       code: 'not-found',
     });

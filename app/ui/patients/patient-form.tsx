@@ -43,6 +43,9 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
   const [speciesLoad] = useChannel('species:list', {});
   const [draft, setDraft] = useState<Draft>(emptyDraft);
   const [reason, setReason] = useState('');
+  // The version of the details this form was opened on: a correction names it, so one saved
+  // meanwhile on another workstation is refused (with who and when) instead of silently followed.
+  const [versionId, setVersionId] = useState<number | null>(null);
   const [loaded, setLoaded] = useState(patientId === null);
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
@@ -55,6 +58,7 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
     void api.invoke('patients:get', { id: patientId }).then((answer) => {
       if (answer.ok) {
         setDraft(toDraft(answer.value.patient.values));
+        setVersionId(answer.value.patient.stamp.versionId);
         setLoaded(true);
       } else setFailure(answer.error.message);
     });
@@ -102,7 +106,12 @@ export function PatientFormScreen({ patientId }: { readonly patientId: number | 
     const answer =
       patientId === null
         ? await api.invoke('patients:create', { values, meta })
-        : await api.invoke('patients:correct', { id: patientId, values, meta });
+        : await api.invoke('patients:correct', {
+            id: patientId,
+            ...(versionId === null ? {} : { versionId }),
+            values,
+            meta,
+          });
     setBusy(false);
     if (answer.ok) {
       window.location.hash = href('patients', answer.value.id);
