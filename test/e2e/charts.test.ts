@@ -2,16 +2,16 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { checkScreen } from './accessibility.js';
-import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
+import {
+  completeFirstRun,
+  ensureScreenshotFolder,
+  sharedHost,
+  bridgeValue as bridge,
+  startRecordFor,
+} from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-charts-');
 const shots = ensureScreenshotFolder();
-
-async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T> {
-  const answer = await callBridge<T>(page, channel, body);
-  if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer.error)}`);
-  return answer.value as T;
-}
 
 /**
  * The screen at 1366 x 800 and the chart alone, then axe-core in light and dim. The planning
@@ -205,26 +205,12 @@ describe('charts of our own, in headless Chromium', () => {
     const page = await session.browser.newPage({ viewport: { width: 1366, height: 800 } });
     try {
       await completeFirstRun(page, await session.host.nextUrl());
-      const wren = await bridge<{ id: number }>(page, 'patients:create', {
-        values: { name: 'Wren', speciesKey: 'cockatiel', sex: 'male' },
-        meta: { enteredBy: 'RW' },
-      });
-      const startMs = await page.evaluate(() => {
-        const start = new Date(Date.now() - 20 * 60_000);
-        start.setSeconds(0, 0);
-        return start.getTime();
-      });
-      const record = await bridge<{ id: number }>(page, 'procedures:create', {
-        patientId: wren.id,
-        values: {
-          startedAt: new Date(startMs).toISOString(),
-          procedureName: 'Wing radiograph',
-          airway: 'mask',
-          circuit: 'nonRebreathing',
-          staffInitials: 'RW',
-        },
-        meta: { enteredBy: 'RW' },
-      });
+      const { recordId, startMs } = await startRecordFor(
+        page,
+        { name: 'Wren', speciesKey: 'cockatiel', sex: 'male' },
+        { minutesAgo: 20, procedureName: 'Wing radiograph' },
+      );
+      const record = { id: recordId };
       const empty = {
         vaporPct: null,
         oxygenLpm: null,

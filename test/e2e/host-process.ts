@@ -127,3 +127,46 @@ export function sharedHost(prefix: string): {
     dataFolder: session.dataFolder,
   };
 }
+
+/** A contract call through the bridge that must succeed; throws with the channel's error otherwise. */
+export async function bridgeValue<T>(
+  page: import('playwright-core').Page,
+  channel: string,
+  body: unknown,
+): Promise<T> {
+  const answer = await callBridge<T>(page, channel, body);
+  if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer.error)}`);
+  return answer.value as T;
+}
+
+/**
+ * A patient and a mask procedure record for it that began `minutesAgo` whole minutes ago on the
+ * page's clock, made through the bridge as the screens make them; for tests that then log rows.
+ */
+export async function startRecordFor(
+  page: import('playwright-core').Page,
+  patient: { readonly name: string; readonly speciesKey: string; readonly sex: string },
+  options: { readonly minutesAgo: number; readonly procedureName: string },
+): Promise<{ readonly patientId: number; readonly recordId: number; readonly startMs: number }> {
+  const created = await bridgeValue<{ id: number }>(page, 'patients:create', {
+    values: patient,
+    meta: { enteredBy: 'RW' },
+  });
+  const startMs = await page.evaluate((minutesAgo) => {
+    const start = new Date(Date.now() - minutesAgo * 60_000);
+    start.setSeconds(0, 0);
+    return start.getTime();
+  }, options.minutesAgo);
+  const record = await bridgeValue<{ id: number }>(page, 'procedures:create', {
+    patientId: created.id,
+    values: {
+      startedAt: new Date(startMs).toISOString(),
+      procedureName: options.procedureName,
+      airway: 'mask',
+      circuit: 'nonRebreathing',
+      staffInitials: 'RW',
+    },
+    meta: { enteredBy: 'RW' },
+  });
+  return { patientId: created.id, recordId: record.id, startMs };
+}

@@ -2,7 +2,13 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { checkScreen } from './accessibility.js';
-import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
+import {
+  completeFirstRun,
+  ensureScreenshotFolder,
+  sharedHost,
+  bridgeValue as bridge,
+  startRecordFor,
+} from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-theatre-');
 const shots = ensureScreenshotFolder();
@@ -11,12 +17,6 @@ async function shoot(page: Page, name: string, accessibility = true) {
   await page.screenshot({ path: path.join(shots, `4x-theatre-${name}.png`), fullPage: true });
   // axe-core in light and dim, and no sideways scroll at 200 % zoom, as on every other screen.
   if (accessibility) await checkScreen(page, `theatre-${name}`);
-}
-
-async function bridge<T>(page: Page, channel: string, body: unknown): Promise<T> {
-  const answer = await callBridge<T>(page, channel, body);
-  if (!answer.ok) throw new Error(`${channel} failed: ${JSON.stringify(answer.error)}`);
-  return answer.value as T;
 }
 
 /** HH:MM on the page's clock, `offsetMin` minutes from `baseMs`. */
@@ -94,26 +94,12 @@ describe('entry that catches slips, in headless Chromium', () => {
     const page = await session.browser.newPage({ viewport: { width: 1366, height: 800 } });
     try {
       await completeFirstRun(page, await session.host.nextUrl());
-      const pip = await bridge<{ id: number }>(page, 'patients:create', {
-        values: { name: 'Pip', speciesKey: 'budgerigar', sex: 'male' },
-        meta: { enteredBy: 'RW' },
-      });
-      const startMs = await page.evaluate(() => {
-        const start = new Date(Date.now() - 25 * 60_000);
-        start.setSeconds(0, 0);
-        return start.getTime();
-      });
-      const record = await bridge<{ id: number }>(page, 'procedures:create', {
-        patientId: pip.id,
-        values: {
-          startedAt: new Date(startMs).toISOString(),
-          procedureName: 'Wing radiograph',
-          airway: 'mask',
-          circuit: 'nonRebreathing',
-          staffInitials: 'RW',
-        },
-        meta: { enteredBy: 'RW' },
-      });
+      const { recordId, startMs } = await startRecordFor(
+        page,
+        { name: 'Pip', speciesKey: 'budgerigar', sex: 'male' },
+        { minutesAgo: 25, procedureName: 'Wing radiograph' },
+      );
+      const record = { id: recordId };
       await page.goto(`${session.host.origin}/#/records/${record.id}`);
       const row = page.getByRole('form', { name: 'New row of readings' });
       await row.waitFor();
@@ -209,26 +195,12 @@ describe('entry that catches slips, in headless Chromium', () => {
     try {
       await completeFirstRun(page, await session.host.nextUrl());
       await bridge(page, 'workstation:save', { name: 'Theatre 1' });
-      const tui = await bridge<{ id: number }>(page, 'patients:create', {
-        values: { name: 'Tui', speciesKey: 'budgerigar', sex: 'female' },
-        meta: { enteredBy: 'RW' },
-      });
-      const startMs = await page.evaluate(() => {
-        const start = new Date(Date.now() - 30 * 60_000);
-        start.setSeconds(0, 0);
-        return start.getTime();
-      });
-      const record = await bridge<{ id: number }>(page, 'procedures:create', {
-        patientId: tui.id,
-        values: {
-          startedAt: new Date(startMs).toISOString(),
-          procedureName: 'Beak trim',
-          airway: 'mask',
-          circuit: 'nonRebreathing',
-          staffInitials: 'RW',
-        },
-        meta: { enteredBy: 'RW' },
-      });
+      const { recordId, startMs } = await startRecordFor(
+        page,
+        { name: 'Tui', speciesKey: 'budgerigar', sex: 'female' },
+        { minutesAgo: 30, procedureName: 'Beak trim' },
+      );
+      const record = { id: recordId };
       type Entry = { id: number; values: Record<string, unknown> };
       const logRow = (offsetMin: number, heartRatePerMin: number) =>
         bridge<Entry>(page, 'entries:add', {
