@@ -84,18 +84,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     host: options.host,
     now,
   });
-  const ready = (async () => {
-    await createSpeciesRepository(clinic).seedReference(speciesReference, now());
-    if (options.demoClinic === true) {
-      const written = await writeDemoClinic(clinic, now());
-      options.log?.(
-        written > 0
-          ? `Demo clinic: ${String(written)} invented procedure records written.`
-          : 'Demo clinic not written: this clinic already holds patients.',
-      );
-    }
-    await loadWorkstationTheme();
-  })();
+  const ready = startUpWrites(clinic, now(), options, loadWorkstationTheme);
   // A failure is answered by every dispatch and by the hosts that await `ready`; not unhandled.
   ready.catch(() => undefined);
   // The backup is made after the start-up writes, as when they were synchronous; none when they failed.
@@ -219,20 +208,8 @@ export async function startBackEndOn(options: StartOptions): Promise<StartedBack
     now,
     databaseChoice: choice.source,
   });
-  // As on SQLite: the shipped species seeded (several workstations may start together; the
-  // seeding skips what another wrote first), the demo clinic into an empty clinic, the theme read.
-  const ready = (async () => {
-    await createSpeciesRepository(clinic).seedReference(speciesReference, now());
-    if (options.demoClinic === true) {
-      const written = await writeDemoClinic(clinic, now());
-      options.log?.(
-        written > 0
-          ? `Demo clinic: ${String(written)} invented procedure records written.`
-          : 'Demo clinic not written: this clinic already holds patients.',
-      );
-    }
-    await loadWorkstationTheme();
-  })();
+  // As on SQLite (several workstations may start together; the seeding skips what another wrote first).
+  const ready = startUpWrites(clinic, now(), options, loadWorkstationTheme);
   ready.catch(() => undefined);
   const changes = createChangeSource(options.log);
   // Other workstations' writes reach this one's screens through LISTEN/NOTIFY (migration 11).
@@ -269,4 +246,27 @@ function describeSource(source: DatabaseChoiceSource): string {
     case 'default':
       return 'the default';
   }
+}
+
+/**
+ * The writes a back end makes once its database has passed its checks, on either engine: the
+ * shipped species reference seeded, the demo clinic written into an empty clinic when asked for,
+ * this workstation's theme read. The dispatcher and the hosts await the promise.
+ */
+async function startUpWrites(
+  clinic: ClinicDb,
+  at: Date,
+  options: { readonly demoClinic?: boolean; readonly log?: (message: string) => void },
+  loadWorkstationTheme: () => Promise<void>,
+): Promise<void> {
+  await createSpeciesRepository(clinic).seedReference(speciesReference, at);
+  if (options.demoClinic === true) {
+    const written = await writeDemoClinic(clinic, at);
+    options.log?.(
+      written > 0
+        ? `Demo clinic: ${String(written)} invented procedure records written.`
+        : 'Demo clinic not written: this clinic already holds patients.',
+    );
+  }
+  await loadWorkstationTheme();
 }
