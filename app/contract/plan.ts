@@ -8,6 +8,7 @@ import { agentIds } from '../core/agents.js';
 import { cautionSeverities } from '../core/cautions.js';
 import { circuits, routes, type Circuit, type Route } from '../core/delivery.js';
 import { estimateRespiratory } from '../core/model/allometry.js';
+import { ippvPeriodsOf, maxLaterIppvPeriods } from '../core/model/ippv-periods.js';
 import { defaultPhaseGapMin } from '../core/model/phases.js';
 import { bodyTemperatureLimitsC } from '../core/model/temperature.js';
 import { hasLetterOrDigit, hiddenCharacterProblem } from './input-rules.js';
@@ -97,6 +98,20 @@ export const phaseChangeSchema = strict(
   'a later phase',
 );
 
+const ventilatorRate = boundedNumber('ventilator rate', ' breaths/min', 1, 150);
+const ventilatorTidalVolume = boundedNumber('ventilator tidal volume', ' mL', 0.05, 1000);
+
+/** A later IPPV period: its own start, optional end and settings. */
+export const ippvPeriodSchema = strict(
+  {
+    fromMin: boundedNumber('IPPV period start', ' min', 0, 1440),
+    untilMin: boundedNumber('IPPV period end', ' min', 0, 1440).optional(),
+    breathsPerMin: ventilatorRate,
+    tidalVolumeMl: ventilatorTidalVolume,
+  },
+  'a later IPPV period',
+);
+
 export const ventilationSchema = z.discriminatedUnion(
   'mode',
   [
@@ -104,9 +119,16 @@ export const ventilationSchema = z.discriminatedUnion(
     strict(
       {
         mode: z.literal('ippv'),
-        breathsPerMin: boundedNumber('ventilator rate', ' breaths/min', 1, 150),
-        tidalVolumeMl: boundedNumber('ventilator tidal volume', ' mL', 0.05, 1000),
+        breathsPerMin: ventilatorRate,
+        tidalVolumeMl: ventilatorTidalVolume,
         fromMin: boundedNumber('ventilation start', ' min', 0, 1440).optional(),
+        untilMin: boundedNumber('ventilation end', ' min', 0, 1440).optional(),
+        laterPeriods: z
+          .array(ippvPeriodSchema, { error: 'later IPPV periods must be a list of periods' })
+          .max(maxLaterIppvPeriods, {
+            error: `a plan may have at most ${String(maxLaterIppvPeriods)} later IPPV periods`,
+          })
+          .optional(),
       },
       'IPPV settings',
     ),
@@ -144,7 +166,7 @@ export const cylinderSchema = z.discriminatedUnion(
   { error: 'cylinder kind must be preset, waterCapacity or content' },
 );
 
-export const planInputSchema = strict(
+const planShape = strict(
   {
     patientName: z
       .string({ error: 'patient name must be text' })
@@ -213,7 +235,9 @@ export const planInputSchema = strict(
     ).optional(),
   },
   'a plan',
-).superRefine((plan, context) => {
+);
+
+export const planInputSchema = planShape.superRefine((plan, context) => {
   const steps = plan.schedule;
   const first = steps[0];
   if (first !== undefined && first.atMin !== 0) {
@@ -266,57 +290,7 @@ export const planInputSchema = strict(
   });
   const ventilation = plan.ventilation;
   if (ventilation?.mode === 'ippv') {
-    const ippvFrom = ventilation.fromMin ?? 0;
-    // A later phase's route delivers from the end of its gap (the default gap when none is set).
-    const deliveryFrom = (phase: (typeof laterPhases)[number]): number =>
-      phase.startMin + (phase.gapMin ?? defaultPhaseGapMin.value);
-    const tubeRoute = (route: Route): boolean => route === 'endotracheal' || route === 'airSacTube';
-    const routeAtIppv = laterPhases.reduce<Route>(
-      (route, phase) => (deliveryFrom(phase) <= ippvFrom ? phase.route : route),
-      plan.route,
-    );
-    const laterTubeRoutes = laterPhases.filter(
-      (phase) => deliveryFrom(phase) > ippvFrom && tubeRoute(phase.route),
-    );
-    if (routeAtIppv === 'chamber' || routeAtIppv === 'mask') {
-      const firstTube = laterTubeRoutes[0];
-      context.addIssue({
-        code: 'custom',
-        path: ['ventilation', firstTube !== undefined ? 'fromMin' : 'mode'],
-        message:
-          firstTube !== undefined
-            ? `IPPV needs an endotracheal tube or an air-sac tube: start it once the tube phase is running (from ${String(deliveryFrom(firstTube))} min, after its gap on room air)`
-            : 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
-      });
-    }
-    laterPhases.forEach((phase, index) => {
-      if (deliveryFrom(phase) > ippvFrom && !tubeRoute(phase.route)) {
-        context.addIssue({
-          code: 'custom',
-          path: ['laterPhases', index, 'route'],
-          message: `IPPV runs from ${String(ippvFrom)} min to the end of the plan: a later ${phase.route === 'mask' ? 'mask' : 'chamber'} phase cannot follow it; keep the bird on a tube`,
-        });
-      }
-    });
-    const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
-    if (ventilation.tidalVolumeMl > expectedTidal * overridePlausibilityFactor) {
-      context.addIssue({
-        code: 'custom',
-        path: ['ventilation', 'tidalVolumeMl'],
-        message: `a ventilator tidal volume of ${String(ventilation.tidalVolumeMl)} mL is more than ${String(overridePlausibilityFactor)} times the ${expectedTidal.toPrecision(3)} mL expected for a ${String(plan.bodyMassG)} g bird: check the value and the units`,
-      });
-    }
-    if (
-      ventilation.fromMin !== undefined &&
-      last !== undefined &&
-      ventilation.fromMin > last.atMin + window
-    ) {
-      context.addIssue({
-        code: 'custom',
-        path: ['ventilation', 'fromMin'],
-        message: 'ventilation must start before the end of the plan',
-      });
-    }
+    checkIppvPeriods(plan, ventilation, last === undefined ? 1440 : last.atMin + window, context);
   }
   if (plan.overrides !== undefined) {
     const estimates = estimateRespiratory(plan.bodyMassG);
@@ -345,6 +319,118 @@ export const planInputSchema = strict(
     }
   }
 });
+
+type ParsedPlan = z.infer<typeof planShape>;
+type IppvVentilation = Extract<NonNullable<ParsedPlan['ventilation']>, { mode: 'ippv' }>;
+
+/**
+ * The IPPV periods' checks: each ends after it starts, they come in time order without
+ * overlapping (only the last may run to the end of the plan), each starts and ends within the
+ * plan, each runs on a tube (no mask or chamber phase within it), and each tidal volume is
+ * plausible for the bird. The first period is the plan's own IPPV fields (`ventilation.fromMin`,
+ * `ventilation.untilMin`); later ones are at `ventilation.laterPeriods[i]`.
+ */
+function checkIppvPeriods(
+  plan: ParsedPlan,
+  ventilation: IppvVentilation,
+  planEndMin: number,
+  context: z.RefinementCtx,
+) {
+  const laterPhases = plan.laterPhases ?? [];
+  const periods = ippvPeriodsOf(ventilation);
+  const pathOf = (index: number, field: string): (string | number)[] =>
+    index === 0 ? ['ventilation', field] : ['ventilation', 'laterPeriods', index - 1, field];
+  const nameOf = (index: number): string => (index === 0 ? 'IPPV' : `IPPV period ${String(index + 1)}`);
+  const span = (fromMin: number, untilMin: number | null): string =>
+    untilMin === null
+      ? `from ${String(fromMin)} min to the end of the plan`
+      : `from ${String(fromMin)} to ${String(untilMin)} min`;
+  // A later phase's route delivers from the end of its gap (the default gap when none is set).
+  const deliveryFrom = (phase: (typeof laterPhases)[number]): number =>
+    phase.startMin + (phase.gapMin ?? defaultPhaseGapMin.value);
+  const tubeRoute = (route: Route): boolean => route === 'endotracheal' || route === 'airSacTube';
+  const expectedTidal = estimateRespiratory(plan.bodyMassG).tidalVolumeMl.value;
+  const phasesRefused = new Set<number>();
+  periods.forEach((period, index) => {
+    const { fromMin, untilMin } = period;
+    // IPPV needs a tube from its start until its end.
+    const routeAtStart = laterPhases.reduce<Route>(
+      (route, phase) => (deliveryFrom(phase) <= fromMin ? phase.route : route),
+      plan.route,
+    );
+    if (!tubeRoute(routeAtStart)) {
+      const firstTube = laterPhases.find((phase) => deliveryFrom(phase) > fromMin && tubeRoute(phase.route));
+      context.addIssue({
+        code: 'custom',
+        path: index === 0 && firstTube === undefined ? ['ventilation', 'mode'] : pathOf(index, 'fromMin'),
+        message:
+          firstTube !== undefined
+            ? `IPPV needs an endotracheal tube or an air-sac tube: start it once the tube phase is running (from ${String(deliveryFrom(firstTube))} min, after its gap on room air)`
+            : 'IPPV needs an endotracheal tube or an air-sac tube, not a mask or chamber',
+      });
+    }
+    laterPhases.forEach((phase, phaseIndex) => {
+      if (phasesRefused.has(phaseIndex) || tubeRoute(phase.route)) return;
+      if (deliveryFrom(phase) > fromMin && (untilMin === null || phase.startMin < untilMin)) {
+        phasesRefused.add(phaseIndex);
+        const route = phase.route === 'mask' ? 'mask' : 'chamber';
+        context.addIssue({
+          code: 'custom',
+          path: ['laterPhases', phaseIndex, 'route'],
+          message:
+            untilMin === null
+              ? `IPPV runs from ${String(fromMin)} min to the end of the plan: a later ${route} phase cannot follow it; keep the bird on a tube`
+              : `${nameOf(index)} runs ${span(fromMin, untilMin)}: a ${route} phase cannot start before it ends; end IPPV by ${String(phase.startMin)} min or keep the bird on a tube`,
+        });
+      }
+    });
+    if (period.tidalVolumeMl > expectedTidal * overridePlausibilityFactor) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index, 'tidalVolumeMl'),
+        message: `a ventilator tidal volume of ${String(period.tidalVolumeMl)} mL is more than ${String(overridePlausibilityFactor)} times the ${expectedTidal.toPrecision(3)} mL expected for a ${String(plan.bodyMassG)} g bird: check the value and the units`,
+      });
+    }
+    if (untilMin !== null && untilMin <= fromMin) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index, 'untilMin'),
+        message: `${nameOf(index)} must end after it starts: the end (${String(untilMin)} min) is not after the start (${String(fromMin)} min)`,
+      });
+    }
+    const previous = periods[index - 1];
+    if (previous !== undefined && previous.untilMin === null) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index - 1, 'untilMin'),
+        message: `${nameOf(index - 1)} has no end, so it runs to the end of the plan: give it an end before ${nameOf(index)} starts (${String(fromMin)} min); only the last period may run to the end`,
+      });
+    } else if (previous !== undefined && previous.untilMin !== null && fromMin < previous.untilMin) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index, 'fromMin'),
+        message: `IPPV periods must be in time order and must not overlap: ${nameOf(index)} starts at ${String(fromMin)} min, before ${nameOf(index - 1)} ends (${String(previous.untilMin)} min)`,
+      });
+    }
+    if ((index > 0 || ventilation.fromMin !== undefined) && fromMin > planEndMin) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index, 'fromMin'),
+        message:
+          index === 0
+            ? 'ventilation must start before the end of the plan'
+            : `${nameOf(index)} must start before the end of the plan (${String(planEndMin)} min, the last step plus the recovery window)`,
+      });
+    }
+    if (untilMin !== null && untilMin > planEndMin) {
+      context.addIssue({
+        code: 'custom',
+        path: pathOf(index, 'untilMin'),
+        message: `${nameOf(index)} must end within the plan (by ${String(planEndMin)} min, the last step plus the recovery window); leave the end out to ventilate to the end`,
+      });
+    }
+  });
+}
 
 type PhaseDelivery = {
   readonly route: Route;

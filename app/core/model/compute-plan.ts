@@ -43,6 +43,7 @@ import {
 } from './temperature.js';
 import { estimateRespiratory, type RespiratoryEstimates } from './allometry.js';
 import type { BodyModel, TissueGroup } from './body-uptake.js';
+import { ippvPeriodAt, ippvPeriodsOf } from './ippv-periods.js';
 import { gasSpaceWash } from './milestones.js';
 import {
   bloodVolumeFraction,
@@ -76,7 +77,7 @@ import {
 } from './uncertainty.js';
 
 /** Version of the model; stored with every computed plan. */
-export const modelVersion = '3.0.0';
+export const modelVersion = '3.1.0';
 
 export type PlanTables = { readonly species: readonly SpeciesReference[] };
 
@@ -265,14 +266,7 @@ export function buildSimulationSetup(
       rateShare: depression.rateShare,
       cardiacSlope: depression.cardiacSlope,
       cardiacFloor: depression.cardiacFloor,
-      ippv:
-        ventilation.mode === 'ippv'
-          ? {
-              fromMin: ventilation.fromMin ?? 0,
-              breathsPerMin: ventilation.breathsPerMin,
-              tidalVolumeMl: ventilation.tidalVolumeMl,
-            }
-          : null,
+      ippv: ventilation.mode === 'ippv' ? ippvPeriodsOf(ventilation) : null,
     },
     schedule: input.schedule,
     endMin,
@@ -449,9 +443,10 @@ export function computePlan(input: PlanInput, tables: PlanTables, options: PlanO
   };
 
   // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
+  const ippvAtStart = ippvPeriodAt(setup.ventilation.ippv ?? [], 0);
   const startVentilation =
-    setup.ventilation.ippv !== null && setup.ventilation.ippv.fromMin <= 0
-      ? { tidal: setup.ventilation.ippv.tidalVolumeMl, rate: setup.ventilation.ippv.breathsPerMin }
+    ippvAtStart !== null
+      ? { tidal: ippvAtStart.tidalVolumeMl, rate: ippvAtStart.breathsPerMin }
       : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
   const washIn = gasSpaceWash({
     gasPath: setup.gasPath,

@@ -22,6 +22,7 @@ import {
 import { wasteGasRelease, type RoomRelease, type WasteGasSourceAmount } from '../budget/waste-gas.js';
 import { collectCautions, type Caution, type CautionContext } from '../cautions.js';
 import type { RespiratoryEstimates } from './allometry.js';
+import { ippvPeriodsOf } from './ippv-periods.js';
 import type { ResolvedPlanPhase } from './phases.js';
 import type { PlanFlows, PlanInput, PlanPhaseSummary, PlanScheduleStep } from './plan-types.js';
 import type { DeliverySetup } from './simulation.js';
@@ -37,8 +38,9 @@ export type PhaseFlowBudget = {
 
 /**
  * Minute ventilation the flow rules of a phase follow: the set IPPV ventilation when IPPV runs
- * from the phase's delivery on, the larger of set and resting when IPPV starts within the phase
- * (or, in the last phase, at all: a plan's only phase keeps the rule it had before phases), and
+ * through the whole phase from its delivery on (the largest set ventilation when several periods
+ * follow one another), the larger of set and resting when IPPV runs in part of the phase (or, in
+ * the last phase, starts at all: a plan's only phase keeps the rule it had before phases), and
  * the resting estimate when IPPV does not run in the phase. Kept within the rules' 0.1-100000
  * mL/min.
  */
@@ -49,13 +51,19 @@ export function phaseMinuteVentilationMlMin(
   isLast: boolean,
 ): number {
   const resting = estimates.minuteVentilationMlMin.value;
-  const ventilation = input.ventilation;
+  const running = ippvPeriodsOf(input.ventilation).filter(
+    (period) =>
+      (period.fromMin < phase.endMin || period.fromMin <= phase.deliveryFromMin || isLast) &&
+      (period.untilMin === null || period.untilMin > phase.deliveryFromMin),
+  );
   let minute = resting;
-  if (ventilation?.mode === 'ippv') {
-    const set = ventilation.tidalVolumeMl * ventilation.breathsPerMin;
-    const from = ventilation.fromMin ?? 0;
-    if (from <= phase.deliveryFromMin) minute = set;
-    else if (from < phase.endMin || isLast) minute = Math.max(set, resting);
+  if (running.length > 0) {
+    // IPPV covers the phase when the periods leave no spontaneous minute from delivery to end.
+    let coveredTo = phase.deliveryFromMin;
+    for (const period of running)
+      if (period.fromMin <= coveredTo) coveredTo = Math.max(coveredTo, period.untilMin ?? Infinity);
+    const set = Math.max(...running.map((period) => period.tidalVolumeMl * period.breathsPerMin));
+    minute = coveredTo >= phase.endMin ? set : Math.max(set, resting);
   }
   return Math.min(100000, Math.max(0.1, minute));
 }

@@ -10,6 +10,22 @@ import type { Caution } from '../cautions.js';
 import type { MeasuredOverrides, RespiratoryEstimates } from './allometry.js';
 import type { AgentTotals } from './simulation.js';
 
+/**
+ * A later IPPV period: the ventilator runs from `fromMin` until `untilMin` (absent: to the end of
+ * the plan) at its own settings; the bird breathes spontaneously (depressed) between periods.
+ */
+export type PlanIppvPeriod = {
+  readonly fromMin: number;
+  readonly untilMin?: number | undefined;
+  readonly breathsPerMin: number;
+  readonly tidalVolumeMl: number;
+};
+
+/**
+ * Spontaneous breathing throughout, or IPPV in one or more periods. The plan's own IPPV fields are
+ * the first period: from `fromMin` (absent: 0) until `untilMin` (absent: the end of the plan);
+ * `laterPeriods` follow it in time order (app/core/model/ippv-periods.ts resolves them).
+ */
 export type PlanVentilation =
   | { readonly mode: 'spontaneous' }
   | {
@@ -17,6 +33,8 @@ export type PlanVentilation =
       readonly breathsPerMin: number;
       readonly tidalVolumeMl: number;
       readonly fromMin?: number | undefined;
+      readonly untilMin?: number | undefined;
+      readonly laterPeriods?: readonly PlanIppvPeriod[] | undefined;
     };
 
 export type PlanScheduleStep = { readonly atMin: number; readonly vaporPct: number };

@@ -94,11 +94,20 @@ export type VentilationSetup = {
   readonly cardiacSlope?: number;
   /** Lowest fraction of resting cardiac output kept. */
   readonly cardiacFloor?: number;
-  readonly ippv: {
-    readonly fromMin: number;
-    readonly breathsPerMin: number;
-    readonly tidalVolumeMl: number;
-  } | null;
+  /** IPPV periods in time order, not overlapping; null or empty: spontaneous throughout. */
+  readonly ippv: readonly IppvPeriodSetup[] | null;
+};
+
+/**
+ * One IPPV period: from the first breath that starts at or after `fromMin` until the first that
+ * starts at or after `untilMin` (null: to the end), the set rate and tidal volume replace
+ * spontaneous breathing.
+ */
+export type IppvPeriodSetup = {
+  readonly fromMin: number;
+  readonly untilMin: number | null;
+  readonly breathsPerMin: number;
+  readonly tidalVolumeMl: number;
 };
 
 export type ScheduleStep = { readonly atMin: number; readonly vaporPct: number };
@@ -364,8 +373,11 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
   // Off the bird (the gap) an air-sac tube delivers nothing.
   let tube = onBird && route.tube;
   const mac = setup.macPct / 100;
-  const ippv = ventilation.ippv;
-  const ippvFrom = ippv === null ? Number.POSITIVE_INFINITY : ippv.fromMin;
+  // The IPPV period running or next (undefined after the last), and the minute it ends.
+  const ippvPeriods = ventilation.ippv ?? [];
+  let ippvIndex = 0;
+  let ippv = ippvPeriods[0];
+  let ippvUntil = ippv?.untilMin ?? Number.POSITIVE_INFINITY;
   const restingTidal = ventilation.restingTidalVolumeMl;
   const restingRate = ventilation.restingBreathsPerMin;
   const depressionSlope = ventilation.depressionSlope;
@@ -469,7 +481,12 @@ function simulateRun(setup: SimulationSetup): SimulationOutcome {
     breathStartBody[3] = state[bodyState.fat] as number;
     let tidal: number;
     let rate: number;
-    if (time >= ippvFrom && ippv !== null) {
+    while (ippv !== undefined && time >= ippvUntil) {
+      ippvIndex += 1;
+      ippv = ippvPeriods[ippvIndex];
+      ippvUntil = ippv?.untilMin ?? Number.POSITIVE_INFINITY;
+    }
+    if (ippv !== undefined && time >= ippv.fromMin) {
       tidal = ippv.tidalVolumeMl;
       rate = ippv.breathsPerMin;
     } else {
