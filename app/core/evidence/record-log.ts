@@ -10,6 +10,7 @@ import {
   breathsPerMin as restingBreathsPerMin,
   tidalVolumeMl as restingTidalVolumeMl,
 } from '../model/allometry.js';
+import { maxLaterIppvPeriods } from '../model/ippv-periods.js';
 import type { PlanInput, PlanPhaseChange, PlanScheduleStep } from '../model/plan-types.js';
 import type { EventType } from '../procedure-events.js';
 
@@ -124,6 +125,96 @@ function compactSchedule(steps: PlanScheduleStep[]): PlanScheduleStep[] {
   return merged;
 }
 
+/** One IPPV period read from the log, before the tidal volume is added. */
+type LoggedIppvPeriod = { fromMin: number; untilMin?: number; breathsPerMin: number };
+
+/**
+ * The IPPV periods of a log: each IPPV on up to the next IPPV off (none: to the end of the plan),
+ * at the median breathing rate logged within the period, else the allometric resting rate. An
+ * IPPV on before the tube is in place, a second IPPV on while IPPV runs and an IPPV off without
+ * an on are not modelled and are named in the notes, as is every period kept.
+ */
+function ippvPeriodsFromLog(
+  entries: readonly LoggedEntry[],
+  context: {
+    readonly tubeAt: (ms: number) => boolean;
+    readonly minutesOf: (ms: number) => number;
+    /** Earliest minute IPPV may start in the plan (after the tube phase's gap), min. */
+    readonly earliestMin: number;
+    readonly planEndMin: number;
+    readonly restingRate: number;
+  },
+): { periods: LoggedIppvPeriod[]; notes: string[] } {
+  const { tubeAt, minutesOf, earliestMin, planEndMin, restingRate } = context;
+  const notes: string[] = [];
+  const spans: { onMs: number; offMs: number | null }[] = [];
+  const skipped: string[] = [];
+  let onMs: number | null = null;
+  for (const entry of entries) {
+    if (entry.kind !== 'event') continue;
+    const at = `${String(minutesOf(entry.atMs))} min`;
+    if (entry.eventType === 'ippvOn') {
+      if (onMs !== null) skipped.push(`IPPV on at ${at} while IPPV already runs: read as running on.`);
+      else onMs = entry.atMs;
+    } else if (entry.eventType === 'ippvOff') {
+      if (onMs === null) skipped.push(`IPPV off at ${at} without an IPPV on before it: not modelled.`);
+      else {
+        spans.push({ onMs, offMs: entry.atMs });
+        onMs = null;
+      }
+    }
+  }
+  if (onMs !== null) spans.push({ onMs, offMs: null });
+
+  const periods: LoggedIppvPeriod[] = [];
+  const described: string[] = [];
+  for (const span of spans) {
+    const on = minutesOf(span.onMs);
+    const off = span.offMs === null ? null : minutesOf(span.offMs);
+    const during = off === null ? `from ${String(on)} min` : `from ${String(on)} to ${String(off)} min`;
+    if (!tubeAt(span.onMs)) {
+      skipped.push(`IPPV logged before a tube is in place (${during}): not modelled.`);
+      continue;
+    }
+    const fromMin = Math.max(0, on, earliestMin);
+    // Ends at the plan's end or later: runs to the end.
+    const untilMin = off === null || off >= planEndMin ? undefined : off;
+    if (fromMin >= planEndMin || (untilMin !== undefined && untilMin <= fromMin)) {
+      skipped.push(`IPPV ${during} falls outside the plan or the tube's room-air gap: not modelled.`);
+      continue;
+    }
+    if (periods.length > maxLaterIppvPeriods) {
+      skipped.push(`IPPV ${during}: only the first ${String(maxLaterIppvPeriods + 1)} periods are modelled.`);
+      continue;
+    }
+    const rates = entries
+      .filter(
+        (entry) =>
+          entry.atMs >= span.onMs &&
+          (span.offMs === null || entry.atMs < span.offMs) &&
+          entry.breathsPerMin !== null &&
+          entry.breathsPerMin > 0,
+      )
+      .map((entry) => entry.breathsPerMin as number);
+    const logged = median(rates);
+    const breathsPerMin = round2(Math.min(150, Math.max(1, logged ?? restingRate)));
+    periods.push({ fromMin, ...(untilMin === undefined ? {} : { untilMin }), breathsPerMin });
+    const rateBasis =
+      logged === null
+        ? 'the allometric resting rate, none logged'
+        : `the median of ${String(rates.length)} logged`;
+    described.push(
+      `${untilMin === undefined ? `from ${String(fromMin)} min to the end` : `${String(fromMin)}-${String(untilMin)} min`} at ${String(breathsPerMin)} breaths/min (${rateBasis})`,
+    );
+  }
+  if (described.length > 0)
+    notes.push(
+      `IPPV ${described.length === 1 ? 'period' : 'periods'}: ${described.join('; ')}; with the resting tidal volume (allometric estimate).`,
+    );
+  notes.push(...skipped);
+  return { periods, notes };
+}
+
 /**
  * The record's log as a PlanInput.
  * - Minute 0 is the first logged dial above 0 (gas on); the dial steps sit at their logged
@@ -133,9 +224,10 @@ function compactSchedule(steps: PlanScheduleStep[]): PlanScheduleStep[] {
  *   bird is on the linked plan's induction route (mask or chamber), else a mask (common practice).
  * - Fresh gas flow: the flow logged last before each phase starts, else the first one logged in
  *   it, else the linked plan's flow; none at all: the log cannot be read.
- * - The first IPPV-on event starts IPPV from that minute to the end (the model has one IPPV
- *   period; an IPPV-off is listed in the notes), at the median breathing rate logged after it
- *   and the bird's allometric resting tidal volume.
+ * - Every IPPV on up to the next IPPV off (none: to the end) is an IPPV period, at the median
+ *   breathing rate logged within it (else the allometric resting rate) and the bird's allometric
+ *   resting tidal volume; the bird breathes spontaneously between periods. An IPPV on before the
+ *   tube is in place and an IPPV off without an on are named in the notes, not modelled.
  * - The median measured heart rate replaces the allometric one (it scales cardiac output).
  * @param log the record's log and the bird
  * @param options offAtMs: turn the vaporiser off at this time when the log has not; recoveryWindowMin 5-240
@@ -215,29 +307,30 @@ export function planInputFromLog(
     });
   }
 
-  const ippvOnMs = firstEventMs(entries, 'ippvOn');
-  let ventilation: PlanInput['ventilation'];
   const tubeAt = (ms: number) => (intubatedLater ? intubationMs !== null && ms >= intubationMs : tubeRoute);
-  if (ippvOnMs !== null && tubeAt(ippvOnMs)) {
-    const rates = entries
-      .filter((entry) => entry.atMs >= ippvOnMs && entry.breathsPerMin !== null && entry.breathsPerMin > 0)
-      .map((entry) => entry.breathsPerMin as number);
-    const rate = median(rates) ?? restingBreathsPerMin(log.bird.bodyMassG);
-    const fromMin = Math.max(0, minutesOf(ippvOnMs));
-    // IPPV must start after the room-air gap of the tube phase.
-    const tubeStart = laterPhases[0]?.startMin;
-    ventilation = {
-      mode: 'ippv',
-      breathsPerMin: round2(Math.min(150, Math.max(1, rate))),
-      tidalVolumeMl: Number(restingTidalVolumeMl(log.bird.bodyMassG).toPrecision(3)),
-      fromMin: tubeStart === undefined ? fromMin : Math.max(fromMin, tubeStart + 1),
-    };
-    notes.push(
-      `IPPV from ${String(fromMin)} min at ${String(ventilation.breathsPerMin)} breaths/min with the resting tidal volume (allometric estimate)${firstEventMs(entries, 'ippvOff') !== null ? '; IPPV off is not modelled, IPPV runs to the end' : ''}.`,
-    );
-  } else if (ippvOnMs !== null) {
-    notes.push('IPPV logged before a tube is in place: not modelled.');
-  }
+  // IPPV must start after the room-air gap of the tube phase.
+  const tubeStart = laterPhases[0]?.startMin;
+  const ippv = ippvPeriodsFromLog(entries, {
+    tubeAt,
+    minutesOf,
+    earliestMin: tubeStart === undefined ? 0 : tubeStart + 1,
+    planEndMin: planEnd,
+    restingRate: restingBreathsPerMin(log.bird.bodyMassG),
+  });
+  notes.push(...ippv.notes);
+  const tidalVolumeMl = Number(restingTidalVolumeMl(log.bird.bodyMassG).toPrecision(3));
+  const [firstPeriod, ...laterPeriods] = ippv.periods;
+  const ventilation: PlanInput['ventilation'] =
+    firstPeriod === undefined
+      ? undefined
+      : {
+          mode: 'ippv',
+          ...firstPeriod,
+          tidalVolumeMl,
+          ...(laterPeriods.length === 0
+            ? {}
+            : { laterPeriods: laterPeriods.map((period) => ({ ...period, tidalVolumeMl })) }),
+        };
 
   const heartRates = entries
     .filter(

@@ -2,6 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { forecastPlan, readForecast } from '../../../app/core/evidence/forecast.js';
 import { recordEvidence } from '../../../app/core/evidence/observed.js';
 import { planInputFromLog, type LoggedEntry, type RecordLog } from '../../../app/core/evidence/record-log.js';
+import {
+  breathsPerMin as restingBreathsPerMin,
+  tidalVolumeMl as restingTidalVolumeMl,
+} from '../../../app/core/model/allometry.js';
 import { computePlan } from '../../../app/core/model/compute-plan.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import { planInputSchema } from '../../../app/contract/plan.js';
@@ -85,6 +89,93 @@ describe('a record log read as a plan', () => {
     });
     const noFlow = planInputFromLog({ ...log, entries: [row(0, { vaporPct: 3 })] });
     expect(noFlow.ok).toBe(false);
+  });
+});
+
+describe('IPPV periods read from the log', () => {
+  const tidal = Number(restingTidalVolumeMl(95).toPrecision(3));
+  const withEvents = (...extra: LoggedEntry[]): RecordLog => ({
+    ...log,
+    entries: [
+      ...log.entries.filter((entry) => entry.eventType !== 'ippvOn' && entry.eventType !== 'ippvOff'),
+      ...extra,
+    ],
+  });
+  const planOf = (record: RecordLog) => {
+    const plan = planInputFromLog(record);
+    if (!plan.ok) throw new Error(plan.missing);
+    expect(planInputSchema.safeParse(plan.input).success).toBe(true);
+    return plan;
+  };
+
+  it('makes the IPPV on and off of the log one period with an end, named in a plain note', () => {
+    const plan = planOf(log);
+    expect(plan.input.ventilation).toEqual({
+      mode: 'ippv',
+      fromMin: 8,
+      untilMin: 20,
+      breathsPerMin: 12,
+      tidalVolumeMl: tidal,
+    });
+    expect(plan.notes).toContain(
+      'IPPV period: 8-20 min at 12 breaths/min (the median of 1 logged); with the resting tidal volume (allometric estimate).',
+    );
+    expect(plan.notes.join(' ')).not.toContain('not modelled');
+  });
+
+  it('makes every on-off pair a period, each at the median rate logged within it, else the resting rate', () => {
+    const plan = planOf(
+      withEvents(
+        event(8, 'ippvOn'),
+        row(12, { breathsPerMin: 10 }),
+        row(14, { breathsPerMin: 14 }),
+        event(18, 'ippvOff'),
+        row(22, { breathsPerMin: 30 }),
+        event(25, 'ippvOn'),
+        event(32, 'ippvOff'),
+        event(35, 'ippvOn'),
+        row(36, { breathsPerMin: 9 }),
+      ),
+    );
+    const resting = Math.round(restingBreathsPerMin(95) * 100) / 100;
+    expect(plan.input.ventilation).toEqual({
+      mode: 'ippv',
+      fromMin: 8,
+      untilMin: 18,
+      breathsPerMin: 12,
+      tidalVolumeMl: tidal,
+      laterPeriods: [
+        { fromMin: 25, untilMin: 32, breathsPerMin: resting, tidalVolumeMl: tidal },
+        { fromMin: 35, breathsPerMin: 9, tidalVolumeMl: tidal },
+      ],
+    });
+    expect(plan.notes).toContain(
+      `IPPV periods: 8-18 min at 12 breaths/min (the median of 3 logged); 25-32 min at ${String(resting)} breaths/min (the allometric resting rate, none logged); from 35 min to the end at 9 breaths/min (the median of 1 logged); with the resting tidal volume (allometric estimate).`,
+    );
+    // The model follows: the bird off the ventilator from 18 to 25 min is not the bird kept on it.
+    const tables = { species: speciesReference };
+    const onlyFirstOn = planOf(withEvents(event(8, 'ippvOn'), row(12, { breathsPerMin: 12 })));
+    const brainOf = (input: typeof plan.input) => computePlan(input, tables).timeline.brainPct;
+    expect(brainOf(plan.input)).not.toEqual(brainOf(onlyFirstOn.input));
+  });
+
+  it('notes an IPPV off without an IPPV on, and an IPPV on before the tube, as not modelled', () => {
+    const offAlone = planOf(withEvents(event(20, 'ippvOff')));
+    expect(offAlone.input.ventilation).toBeUndefined();
+    expect(offAlone.notes).toContain('IPPV off at 20 min without an IPPV on before it: not modelled.');
+    const beforeTube = planOf(
+      withEvents(event(2, 'ippvOn'), event(3, 'ippvOff'), event(10, 'ippvOn'), event(30, 'ippvOff')),
+    );
+    expect(beforeTube.notes).toContain(
+      'IPPV logged before a tube is in place (from 2 to 3 min): not modelled.',
+    );
+    expect(beforeTube.input.ventilation).toMatchObject({ fromMin: 10, untilMin: 30 });
+    expect(beforeTube.input.ventilation).not.toHaveProperty('laterPeriods');
+  });
+
+  it('starts IPPV logged in the room-air gap of the tube once the tube delivers', () => {
+    const plan = planOf(withEvents(event(4.2, 'ippvOn'), event(15, 'ippvOff')));
+    expect(plan.input.ventilation).toMatchObject({ fromMin: 5, untilMin: 15 });
   });
 });
 
