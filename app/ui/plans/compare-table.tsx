@@ -1,6 +1,7 @@
 import type { PlanInput } from '../../contract/plan.js';
 import type { PlanPhaseSummary, PlanResult } from '../../core/model/plan-types.js';
 import { agents } from '../../core/agents.js';
+import { ippvText } from '../../core/model/ippv-periods.js';
 import { breathingSystemText, phasesOfPlan, phaseSequenceText } from '../../core/plan-phases.js';
 import { figure, minutes, range } from './format.js';
 import { ScrollRegion } from '../common/scroll-region.js';
@@ -16,9 +17,7 @@ function inputRows(a: PlanInput, b: PlanInput, resultA: PlanResult, resultB: Pla
   const schedule = (input: PlanInput) =>
     input.schedule.map((step) => `${step.vaporPct} % from ${step.atMin} min`).join(', ');
   const ventilation = (input: PlanInput) =>
-    input.ventilation?.mode === 'ippv'
-      ? `IPPV ${input.ventilation.breathsPerMin}/min × ${input.ventilation.tidalVolumeMl} mL${input.ventilation.fromMin === undefined ? '' : ` from ${input.ventilation.fromMin} min`}`
-      : 'Spontaneous';
+    input.ventilation?.mode === 'ippv' ? ippvText(input.ventilation, String, 'short') : 'Spontaneous';
   const routes = (input: PlanInput, result: PlanResult) => phaseSequenceText(phasesOfPlan(input, result));
   const systems = (input: PlanInput, result: PlanResult) =>
     perPhase(input, result, (phase) => breathingSystemText(phase.route, phase.circuit));

@@ -1,6 +1,7 @@
 import { planInputSchema, type PlanInput } from '../../contract/plan.js';
 import { agentLabels, agents, type AgentId } from '../../core/agents.js';
 import { vaporiserDialLimitPct } from '../../core/budget/consumption.js';
+import type { PlanIppvPeriod } from '../../core/model/plan-types.js';
 import { kgToG, type MassUnit } from '../../core/units.js';
 import { laterPhaseDrafts, laterPhasesFromDraft, phaseFieldOfPath, type PhaseDraft } from './phase-draft.js';
 
@@ -30,6 +31,10 @@ export type PlanDraft = {
   ippvRateText: string;
   ippvTidalText: string;
   ippvFromText: string;
+  /** Minute IPPV stops (spontaneous breathing after); blank: to the end. Old drafts have none. */
+  ippvUntilText?: string | undefined;
+  /** Later IPPV periods of a saved plan (the form edits the first), kept as they are. */
+  ippvLaterPeriods?: readonly PlanIppvPeriod[] | undefined;
   targetMacText: string;
   recoveryFractionText: string;
   /** Expected or measured body temperature, C; blank: a normal bird. */
@@ -127,6 +132,7 @@ export function defaultDraft(agent: AgentId, massUnit: MassUnit): PlanDraft {
     ippvRateText: '',
     ippvTidalText: '',
     ippvFromText: '',
+    ippvUntilText: '',
     targetMacText: '1.2',
     recoveryFractionText: '',
     bodyTemperatureText: '',
@@ -157,6 +163,7 @@ const fieldOfPath: Readonly<Record<string, keyof PlanDraft>> = {
   'ventilation.breathsPerMin': 'ippvRateText',
   'ventilation.tidalVolumeMl': 'ippvTidalText',
   'ventilation.fromMin': 'ippvFromText',
+  'ventilation.untilMin': 'ippvUntilText',
   'ventilation.mode': 'ventilation',
   targetMacMultiple: 'targetMacText',
   recoveryMacFraction: 'recoveryFractionText',
@@ -186,7 +193,7 @@ export function draftToInput(
 ): { input: PlanInput } | { problems: DraftProblems } {
   const problems: Record<string, string> = {};
   const read = (key: keyof PlanDraft, label: string): number | undefined => {
-    const value = number(String(draft[key]));
+    const value = number(String(draft[key] ?? ''));
     if (value === 'not a number') {
       problems[key] = `${label} must be a number.`;
       return undefined;
@@ -235,6 +242,12 @@ export function draftToInput(
             ...(read('ippvFromText', 'Ventilation start') === undefined
               ? {}
               : { fromMin: read('ippvFromText', 'Ventilation start') }),
+            ...(read('ippvUntilText', 'Ventilation end') === undefined
+              ? {}
+              : { untilMin: read('ippvUntilText', 'Ventilation end') }),
+            ...(draft.ippvLaterPeriods === undefined || draft.ippvLaterPeriods.length === 0
+              ? {}
+              : { laterPeriods: draft.ippvLaterPeriods }),
           },
     ...(read('targetMacText', 'Planned depth') === undefined
       ? {}
@@ -300,6 +313,10 @@ export function inputToDraft(input: PlanInput, massUnit: MassUnit): PlanDraft {
     ippvRateText: input.ventilation?.mode === 'ippv' ? String(input.ventilation.breathsPerMin) : '',
     ippvTidalText: input.ventilation?.mode === 'ippv' ? String(input.ventilation.tidalVolumeMl) : '',
     ippvFromText: input.ventilation?.mode === 'ippv' ? text(input.ventilation.fromMin) : '',
+    ippvUntilText: input.ventilation?.mode === 'ippv' ? text(input.ventilation.untilMin) : '',
+    ...(input.ventilation?.mode === 'ippv' && input.ventilation.laterPeriods !== undefined
+      ? { ippvLaterPeriods: input.ventilation.laterPeriods }
+      : {}),
     targetMacText: text(input.targetMacMultiple) || base.targetMacText,
     recoveryFractionText: text(input.recoveryMacFraction),
     bodyTemperatureText: text(input.bodyTemperatureC),

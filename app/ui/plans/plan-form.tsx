@@ -267,6 +267,27 @@ export const PlanForm = memo(function PlanForm({ draft, problems, species, onCha
               error={problems['ippvFromText']}
               onChange={set('ippvFromText')}
             />
+            <NumberField
+              label="IPPV until"
+              name="ippvUntil"
+              unit="min"
+              value={draft.ippvUntilText ?? ''}
+              error={problems['ippvUntilText']}
+              hint="Blank: to the end. The bird breathes on its own after."
+              onChange={set('ippvUntilText')}
+            />
+            {draft.ippvLaterPeriods !== undefined && draft.ippvLaterPeriods.length > 0 && (
+              <p className="hint">
+                Later IPPV periods, kept as saved:{' '}
+                {draft.ippvLaterPeriods
+                  .map(
+                    (period) =>
+                      `${period.untilMin === undefined ? `from ${String(period.fromMin)} min` : `${String(period.fromMin)}-${String(period.untilMin)} min`} at ${String(period.breathsPerMin)}/min × ${String(period.tidalVolumeMl)} mL`,
+                  )
+                  .join('; ')}
+                .
+              </p>
+            )}
           </div>
         )}
       </fieldset>

@@ -1,6 +1,7 @@
 /** Plain-text pieces of the worksheet: the plan's settings and the monitoring targets in words. */
 import type { PlanInput } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
+import { ippvText } from '../../core/model/ippv-periods.js';
 import { cToF, formatPressure } from '../../core/units.js';
 import { figure } from './labels.js';
 
@@ -13,11 +14,11 @@ export function scheduleText(input: PlanInput): string {
     .join('; ');
 }
 
-/** Spontaneous breathing or the IPPV settings, in words. */
+/** Spontaneous breathing or the IPPV settings of each period, in words. */
 export function ventilationText(input: PlanInput): string {
   const ventilation = input.ventilation ?? { mode: 'spontaneous' as const };
   if (ventilation.mode === 'spontaneous') return 'Spontaneous breathing';
-  return `IPPV ${figure(ventilation.breathsPerMin)} breaths/min, ${figure(ventilation.tidalVolumeMl)} mL tidal volume${ventilation.fromMin === undefined ? '' : ` from ${figure(ventilation.fromMin)} min`}`;
+  return ippvText(ventilation, figure, 'long');
 }
 
 /** The oxygen cylinder as entered (content in L, water capacity and bar, or a preset with its gauge). */
