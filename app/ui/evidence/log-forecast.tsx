@@ -4,7 +4,7 @@ import type { ProcedureDetail } from '../../contract/record-channels.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { forecastPlan, readForecast, type LogForecast } from '../../core/evidence/forecast.js';
 import type { LogPlan } from '../../core/evidence/record-log.js';
-import { computePlan } from '../../core/model/compute-plan.js';
+import { computePlanCourse } from '../../core/model/compute-plan.js';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
@@ -66,7 +66,7 @@ function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; 
   const quick = useMemo((): LogForecast | { failure: string } | null => {
     if (built === null || !('plan' in built) || species === null) return null;
     try {
-      return readForecast(built.plan, computePlan(built.plan.input, { species }), minuteMs);
+      return readForecast(built.plan, computePlanCourse(built.plan.input, { species }), minuteMs);
     } catch (error) {
       return { failure: error instanceof Error ? error.message : String(error) };
     }
