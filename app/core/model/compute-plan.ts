@@ -61,6 +61,7 @@ import type {
   MilestoneId,
   MilestoneUncertainty,
   PlanInput,
+  PlanMilestones,
   PlanResult,
   PlanTimeline,
   PlanUncertainty,
@@ -432,13 +433,20 @@ export function planUncertaintyInput(input: PlanInput, tables: PlanTables): Unce
   return uncertaintyInputOf(input, setup, outcome, mac, species);
 }
 
+/** The air-sac wash times: properties of the gas spaces (an insoluble tracer), not of the agent's course. */
+type AirSacWashKey =
+  'airSacWashin95Breaths' | 'airSacWashin95Min' | 'airSacWashout95Breaths' | 'airSacWashout95Min';
+
 /**
- * What a plan predicts for the bird: the MAC in use, the time course, the milestones and their
- * uncertainty, without the flows, budgets, waste gas and cautions. The same values as those
- * fields of `computePlan` (which builds its answer on this one), for callers that read nothing
- * else: the forecast that follows the log and the clinic's observed-beside-predicted rows.
+ * What a plan predicts for the bird: the MAC in use, the time course, the milestones (all but the
+ * air-sac wash times) and their uncertainty, without the flows, budgets, waste gas and cautions.
+ * The same values as those fields of `computePlan` (which builds its answer on this one), for
+ * callers that read nothing else: the forecast that follows the log and the clinic's
+ * observed-beside-predicted rows.
  */
-export type PlanCourse = Pick<PlanResult, 'mac' | 'timeline' | 'milestones' | 'uncertainty'>;
+export type PlanCourse = Pick<PlanResult, 'mac' | 'timeline' | 'uncertainty'> & {
+  readonly milestones: Omit<PlanMilestones, AirSacWashKey>;
+};
 
 /**
  * Computes what a plan predicts for the bird (see PlanCourse). Pure and deterministic.
@@ -456,42 +464,8 @@ export function computePlanCourse(
 /** The nominal run and what follows from it for the bird: the first part of computePlan. */
 function courseRun(input: PlanInput, tables: PlanTables, options: PlanOptions) {
   const run = nominalRun(input, tables);
-  const { species, estimates, mac, setup, outcome } = run;
+  const { species, mac, setup, outcome } = run;
   const offMin = setup.offMin;
-  const phases = resolvePlanPhases(input, setup.endMin);
-  const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
-  // The air-sac wash times follow the route at induction (the first phase) and when the vaporiser goes off.
-  const tubeFlowAt = (timeMin: number): number => {
-    const phase = phaseAt(phases, timeMin);
-    return phase.route === 'airSacTube' ? (phaseDeliveries[phase.index] as DeliverySetup).freshGasMlMin : 0;
-  };
-
-  // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
-  const startVentilation =
-    setup.ventilation.ippv !== null && setup.ventilation.ippv.fromMin <= 0
-      ? { tidal: setup.ventilation.ippv.tidalVolumeMl, rate: setup.ventilation.ippv.breathsPerMin }
-      : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
-  const washIn = gasSpaceWash({
-    gasPath: setup.gasPath,
-    body: setup.body,
-    tidalVolumeMl: startVentilation.tidal,
-    breathsPerMin: startVentilation.rate,
-    direction: 'in',
-    airSacTubeMlMin: tubeFlowAt(0),
-  });
-  const offVentilation = outcome.atOff ?? {
-    tidalVolumeMl: startVentilation.tidal,
-    breathsPerMin: startVentilation.rate,
-  };
-  const washOut = gasSpaceWash({
-    gasPath: setup.gasPath,
-    body: setup.body,
-    tidalVolumeMl: offVentilation.tidalVolumeMl,
-    breathsPerMin: offVentilation.breathsPerMin,
-    direction: 'out',
-    airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
-  });
-
   const uncertaintyInput = uncertaintyInputOf(input, setup, outcome, mac, species);
   const sampled = options.sampled ?? runUncertainty(uncertaintyInput);
   if (sampled.samples !== uncertaintyInput.samples || sampled.seed !== uncertaintyInput.seed)
@@ -554,10 +528,6 @@ function courseRun(input: PlanInput, tables: PlanTables, options: PlanOptions) {
       inductionMin: outcome.inductionMin,
       recoveryMin: outcome.recoveryMin,
       vaporiserOffMin: offMin,
-      airSacWashin95Breaths: washIn.breaths,
-      airSacWashin95Min: washIn.minutes,
-      airSacWashout95Breaths: washOut.breaths,
-      airSacWashout95Min: washOut.minutes,
       peakBrainMacMultiple: outcome.peakBrainMacMultiple,
       lowestVentilationFraction: outcome.lowestVentilationFraction,
       lossOfRightingMin: outcome.milestoneMin[0] ?? null,
@@ -574,7 +544,7 @@ function courseRun(input: PlanInput, tables: PlanTables, options: PlanOptions) {
     },
     uncertainty,
   };
-  return { ...run, phases, phaseDeliveries, course };
+  return { ...run, course };
 }
 
 /**
@@ -583,13 +553,44 @@ function courseRun(input: PlanInput, tables: PlanTables, options: PlanOptions) {
  * @param tables the species reference
  */
 export function computePlan(input: PlanInput, tables: PlanTables, options: PlanOptions = {}): PlanResult {
-  const { species, estimates, mac, setup, outcome, phases, phaseDeliveries, course } = courseRun(
-    input,
-    tables,
-    options,
-  );
+  const { species, estimates, mac, setup, outcome, course } = courseRun(input, tables, options);
   const offMin = setup.offMin;
   const uncertainty = course.uncertainty;
+  const phases = resolvePlanPhases(input, setup.endMin);
+  const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
+  // The air-sac wash times follow the route at induction (the first phase) and when the vaporiser goes off.
+  const tubeFlowAt = (timeMin: number): number => {
+    const phase = phaseAt(phases, timeMin);
+    return phase.route === 'airSacTube' ? (phaseDeliveries[phase.index] as DeliverySetup).freshGasMlMin : 0;
+  };
+
+  // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
+  const startVentilation =
+    setup.ventilation.ippv !== null && setup.ventilation.ippv.fromMin <= 0
+      ? { tidal: setup.ventilation.ippv.tidalVolumeMl, rate: setup.ventilation.ippv.breathsPerMin }
+      : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
+  const washIn = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+    direction: 'in',
+    airSacTubeMlMin: tubeFlowAt(0),
+  });
+  const offVentilation = outcome.atOff ?? {
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+  };
+  const washOut = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: offVentilation.tidalVolumeMl,
+    breathsPerMin: offVentilation.breathsPerMin,
+    direction: 'out',
+    airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
+  });
+
+  const { inductionMin, recoveryMin, vaporiserOffMin, ...courseMilestones } = course.milestones;
 
   // Flows: each phase's own rule for its route and breathing system; the plan's are the first phase's.
   const phaseFlows = phases.map((phase, index) =>
@@ -673,7 +674,16 @@ export function computePlan(input: PlanInput, tables: PlanTables, options: PlanO
     estimates,
     phases: phaseResults,
     timeline: course.timeline,
-    milestones: course.milestones,
+    milestones: {
+      inductionMin,
+      recoveryMin,
+      vaporiserOffMin,
+      airSacWashin95Breaths: washIn.breaths,
+      airSacWashin95Min: washIn.minutes,
+      airSacWashout95Breaths: washOut.breaths,
+      airSacWashout95Min: washOut.minutes,
+      ...courseMilestones,
+    },
     uncertainty,
     flows,
     consumption,

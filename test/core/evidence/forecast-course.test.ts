@@ -6,10 +6,16 @@ import { forecastPlan, readForecast } from '../../../app/core/evidence/forecast.
 import { compareWithLog, recordEvidence } from '../../../app/core/evidence/observed.js';
 import { planInputFromLog, type LoggedEntry, type RecordLog } from '../../../app/core/evidence/record-log.js';
 import { computePlan, computePlanCourse } from '../../../app/core/model/compute-plan.js';
+import type { PlanResult } from '../../../app/core/model/plan-types.js';
 import { seededRandom } from '../../../app/core/model/uncertainty.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 
 const tables = { species: speciesReference };
+
+/** The whole plan's milestones but the air-sac wash times (a tracer's, not the agent's course). */
+function agentMilestones(milestones: PlanResult['milestones']): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(milestones).filter(([key]) => !key.startsWith('airSacWash')));
+}
 const t0 = Date.parse('2026-03-02T09:00:00Z');
 const at = (minutes: number) => t0 + minutes * 60_000;
 const row = (minutes: number, values: Partial<LoggedEntry>): LoggedEntry => ({
@@ -125,7 +131,7 @@ describe('the forecast reads the same numbers from the course as from the whole 
         const whole = computePlan(plan.input, tables);
         const course = computePlanCourse(plan.input, tables);
         expect(course.mac).toEqual(whole.mac);
-        expect(course.milestones).toEqual(whole.milestones);
+        expect(course.milestones).toEqual(agentMilestones(whole.milestones));
         expect(course.timeline).toEqual(whole.timeline);
         expect(course.uncertainty).toEqual(whole.uncertainty);
         const fromCourse = readForecast(plan, course, nowMs);
