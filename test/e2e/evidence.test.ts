@@ -105,6 +105,15 @@ describe('the clinic’s own evidence with the demo clinic (--demo)', () => {
       const before = await standing.innerText();
       const minutesBefore = Number(await standing.getAttribute('data-minutes-after-off'));
       expect(minutesBefore).toBeGreaterThan(0);
+      // The band from the uncertainty samples (run in the workers) joins the quick answer.
+      await page.waitForFunction(
+        () =>
+          document
+            .querySelector('[data-testid="forecast-depth"]')
+            ?.textContent?.includes('90 % of birds like this') === true,
+        undefined,
+        { timeout: 60_000 },
+      );
       await shoot(page, '03-forecast');
 
       // A row at a higher dial, saved through the screen's entry row.

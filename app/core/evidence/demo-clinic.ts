@@ -7,7 +7,7 @@
  * the hens sooner (x0.8); induction is about as predicted. Seeded: the same seed and day give
  * the same clinic.
  */
-import { computePlan, type PlanTables } from '../model/compute-plan.js';
+import { computePlanCourse, type PlanTables } from '../model/compute-plan.js';
 import { seededRandom } from '../model/uncertainty.js';
 import type { EventType } from '../procedure-events.js';
 import type { Route } from '../delivery.js';
@@ -219,7 +219,7 @@ export function generateDemoClinic(seed: number, endDay: string, tables: PlanTab
       };
       const plan = planInputFromLog(log);
       if (!plan.ok) continue;
-      const predicted = computePlan(plan.input, tables).milestones;
+      const predicted = computePlanCourse(plan.input, tables).milestones;
       const noise = () => Math.exp(0.3 * normal(random));
       const lossOfRighting = (predicted.lossOfRightingMin ?? 1) * species.inductionFactor * noise();
       entries.push(event(gasOnMs + lossOfRighting * minute, 'induction'));

@@ -3,7 +3,7 @@
  * and answers "how deep is the bird now" and "if the vaporiser goes off now, when will it move
  * and stand". An estimate for a typical bird given this log; the bird decides.
  */
-import type { PlanResult } from '../model/plan-types.js';
+import type { PlanCourse } from '../model/compute-plan.js';
 import { planInputFromLog, type LogPlan, type RecordLog } from './record-log.js';
 
 /** Minutes simulated after the vaporiser goes off in the forecast (enough for standing in most birds). */
@@ -50,12 +50,12 @@ export function forecastPlan(log: RecordLog, nowMs: number, samples = 0): LogPla
 /**
  * Reads the forecast out of the model's answer for forecastPlan(log, nowMs).
  * @param plan the forecast plan
- * @param result computePlan(plan.input)
+ * @param result computePlanCourse(plan.input) (or the whole computePlan answer: the same values)
  * @param nowMs the time of the question, ms since the epoch
  */
 export function readForecast(
   plan: Extract<LogPlan, { ok: true }>,
-  result: PlanResult,
+  result: PlanCourse,
   nowMs: number,
 ): LogForecast {
   const offAtMs = plan.offMs as number;

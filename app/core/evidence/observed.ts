@@ -6,8 +6,8 @@
  * from the vaporiser off. A milestone whose event is missing is skipped with its reason, never
  * filled in.
  */
-import { computePlan, type PlanTables } from '../model/compute-plan.js';
-import type { MilestoneId, PlanResult } from '../model/plan-types.js';
+import { computePlanCourse, type PlanCourse, type PlanTables } from '../model/compute-plan.js';
+import type { MilestoneId } from '../model/plan-types.js';
 import type { EventType } from '../procedure-events.js';
 import { firstEventMs, planInputFromLog, type LogPlan, type RecordLog } from './record-log.js';
 
@@ -53,7 +53,7 @@ export type RecordEvidence =
 const minute = 60_000;
 const round2 = (value: number) => Math.round(value * 100) / 100;
 
-function predictedOf(result: PlanResult, id: EvidenceMilestoneId): number | null {
+function predictedOf(result: PlanCourse, id: EvidenceMilestoneId): number | null {
   switch (id) {
     case 'lossOfRighting':
       return result.milestones.lossOfRightingMin;
@@ -70,12 +70,12 @@ function predictedOf(result: PlanResult, id: EvidenceMilestoneId): number | null
  * Observed beside predicted for one record, from its log and the model's answer for that log.
  * @param log the record's log and the bird
  * @param plan planInputFromLog(log) (passed in so a caller that already built it need not again)
- * @param result computePlan(plan.input)
+ * @param result computePlanCourse(plan.input) (or the whole computePlan answer: the same values)
  */
 export function compareWithLog(
   log: RecordLog,
   plan: Extract<LogPlan, { ok: true }>,
-  result: PlanResult,
+  result: PlanCourse,
 ): Extract<RecordEvidence, { ok: true }> {
   const offMs = firstEventMs(log.entries, 'vaporiserOff');
   const milestones = evidenceMilestoneIds.map((id): MilestoneComparison => {
@@ -120,6 +120,6 @@ export function recordEvidence(log: RecordLog, tables: PlanTables): RecordEviden
   const plan = planInputFromLog(log);
   if (!plan.ok) return { ok: false, skipped: plan.missing };
   if (plan.offMs === null) return { ok: false, skipped: 'no vaporiser-off event logged' };
-  const result = computePlan(plan.input, tables);
+  const result = computePlanCourse(plan.input, tables);
   return compareWithLog(log, plan, result);
 }

@@ -62,6 +62,7 @@ import type {
   MilestoneId,
   MilestoneUncertainty,
   PlanInput,
+  PlanMilestones,
   PlanResult,
   PlanTimeline,
   PlanUncertainty,
@@ -426,49 +427,39 @@ export function planUncertaintyInput(input: PlanInput, tables: PlanTables): Unce
   return uncertaintyInputOf(input, setup, outcome, mac, species);
 }
 
+/** The air-sac wash times: properties of the gas spaces (an insoluble tracer), not of the agent's course. */
+type AirSacWashKey =
+  'airSacWashin95Breaths' | 'airSacWashin95Min' | 'airSacWashout95Breaths' | 'airSacWashout95Min';
+
 /**
- * Computes a whole plan. Pure and deterministic: the same input and tables give the same result.
+ * What a plan predicts for the bird: the MAC in use, the time course, the milestones (all but the
+ * air-sac wash times) and their uncertainty, without the flows, budgets, waste gas and cautions.
+ * The same values as those fields of `computePlan` (which builds its answer on this one), for
+ * callers that read nothing else: the forecast that follows the log and the clinic's
+ * observed-beside-predicted rows.
+ */
+export type PlanCourse = Pick<PlanResult, 'mac' | 'timeline' | 'uncertainty'> & {
+  readonly milestones: Omit<PlanMilestones, AirSacWashKey>;
+};
+
+/**
+ * Computes what a plan predicts for the bird (see PlanCourse). Pure and deterministic.
  * @param input a plan validated by planInputSchema (app/contract/plan.ts)
  * @param tables the species reference
  */
-export function computePlan(input: PlanInput, tables: PlanTables, options: PlanOptions = {}): PlanResult {
-  const { species, estimates, mac, setup, outcome } = nominalRun(input, tables);
+export function computePlanCourse(
+  input: PlanInput,
+  tables: PlanTables,
+  options: PlanOptions = {},
+): PlanCourse {
+  return courseRun(input, tables, options).course;
+}
+
+/** The nominal run and what follows from it for the bird: the first part of computePlan. */
+function courseRun(input: PlanInput, tables: PlanTables, options: PlanOptions) {
+  const run = nominalRun(input, tables);
+  const { species, mac, setup, outcome } = run;
   const offMin = setup.offMin;
-  const phases = resolvePlanPhases(input, setup.endMin);
-  const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
-  // The air-sac wash times follow the route at induction (the first phase) and when the vaporiser goes off.
-  const tubeFlowAt = (timeMin: number): number => {
-    const phase = phaseAt(phases, timeMin);
-    return phase.route === 'airSacTube' ? (phaseDeliveries[phase.index] as DeliverySetup).freshGasMlMin : 0;
-  };
-
-  // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
-  const ippvAtStart = ippvPeriodAt(setup.ventilation.ippv ?? [], 0);
-  const startVentilation =
-    ippvAtStart !== null
-      ? { tidal: ippvAtStart.tidalVolumeMl, rate: ippvAtStart.breathsPerMin }
-      : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
-  const washIn = gasSpaceWash({
-    gasPath: setup.gasPath,
-    body: setup.body,
-    tidalVolumeMl: startVentilation.tidal,
-    breathsPerMin: startVentilation.rate,
-    direction: 'in',
-    airSacTubeMlMin: tubeFlowAt(0),
-  });
-  const offVentilation = outcome.atOff ?? {
-    tidalVolumeMl: startVentilation.tidal,
-    breathsPerMin: startVentilation.rate,
-  };
-  const washOut = gasSpaceWash({
-    gasPath: setup.gasPath,
-    body: setup.body,
-    tidalVolumeMl: offVentilation.tidalVolumeMl,
-    breathsPerMin: offVentilation.breathsPerMin,
-    direction: 'out',
-    airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
-  });
-
   const uncertaintyInput = uncertaintyInputOf(input, setup, outcome, mac, species);
   const sampled = options.sampled ?? runUncertainty(uncertaintyInput);
   if (sampled.samples !== uncertaintyInput.samples || sampled.seed !== uncertaintyInput.seed)
@@ -523,6 +514,78 @@ export function computePlan(input: PlanInput, tables: PlanTables, options: PlanO
       bandOf('standing', standingBand),
     ],
   };
+
+  const course: PlanCourse = {
+    mac: { valuePct: mac.valuePct, basis: mac.basis },
+    timeline: timelineOf(outcome, setup.sampleIntervalMin),
+    milestones: {
+      inductionMin: outcome.inductionMin,
+      recoveryMin: outcome.recoveryMin,
+      vaporiserOffMin: offMin,
+      peakBrainMacMultiple: outcome.peakBrainMacMultiple,
+      lowestVentilationFraction: outcome.lowestVentilationFraction,
+      lossOfRightingMin: outcome.milestoneMin[0] ?? null,
+      surgicalDepthMin: outcome.inductionMin,
+      firstMovementMin: outcome.recoveryMin,
+      standingMin: outcome.milestoneMin[1] ?? null,
+      definitions: milestoneDefinitions(
+        input.targetMacMultiple ?? defaultTargetMacMultiple.value,
+        input.recoveryMacFraction ?? defaultRecoveryMacFraction.value,
+        input.recoveryMacFraction !== undefined,
+      ),
+      basis:
+        'Induction (planned surgical depth): brain (vessel-rich group) reaches the target MAC multiple; loss of righting: brain rises through the light-plane fraction of MAC; recovery (first movement or head lift): brain falls below the recovery fraction of MAC after the vaporiser is off; standing or perching: brain falls below the standing fraction of MAC; a recovery milestone is timed only for a brain that was above its level; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
+    },
+    uncertainty,
+  };
+  return { ...run, course };
+}
+
+/**
+ * Computes a whole plan. Pure and deterministic: the same input and tables give the same result.
+ * @param input a plan validated by planInputSchema (app/contract/plan.ts)
+ * @param tables the species reference
+ */
+export function computePlan(input: PlanInput, tables: PlanTables, options: PlanOptions = {}): PlanResult {
+  const { species, estimates, mac, setup, outcome, course } = courseRun(input, tables, options);
+  const offMin = setup.offMin;
+  const uncertainty = course.uncertainty;
+  const phases = resolvePlanPhases(input, setup.endMin);
+  const phaseDeliveries = [setup.delivery, ...(setup.laterDeliveries ?? []).map((later) => later.delivery)];
+  // The air-sac wash times follow the route at induction (the first phase) and when the vaporiser goes off.
+  const tubeFlowAt = (timeMin: number): number => {
+    const phase = phaseAt(phases, timeMin);
+    return phase.route === 'airSacTube' ? (phaseDeliveries[phase.index] as DeliverySetup).freshGasMlMin : 0;
+  };
+
+  // Gas-space wash times: ventilation at induction and at the moment the vaporiser goes off.
+  const ippvAtStart = ippvPeriodAt(setup.ventilation.ippv ?? [], 0);
+  const startVentilation =
+    ippvAtStart !== null
+      ? { tidal: ippvAtStart.tidalVolumeMl, rate: ippvAtStart.breathsPerMin }
+      : { tidal: estimates.tidalVolumeMl.value, rate: estimates.breathsPerMin.value };
+  const washIn = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+    direction: 'in',
+    airSacTubeMlMin: tubeFlowAt(0),
+  });
+  const offVentilation = outcome.atOff ?? {
+    tidalVolumeMl: startVentilation.tidal,
+    breathsPerMin: startVentilation.rate,
+  };
+  const washOut = gasSpaceWash({
+    gasPath: setup.gasPath,
+    body: setup.body,
+    tidalVolumeMl: offVentilation.tidalVolumeMl,
+    breathsPerMin: offVentilation.breathsPerMin,
+    direction: 'out',
+    airSacTubeMlMin: tubeFlowAt(offMin ?? 0),
+  });
+
+  const { inductionMin, recoveryMin, vaporiserOffMin, ...courseMilestones } = course.milestones;
 
   // Flows: each phase's own rule for its route and breathing system; the plan's are the first phase's.
   const phaseFlows = phases.map((phase, index) =>
@@ -597,7 +660,7 @@ export function computePlan(input: PlanInput, tables: PlanTables, options: PlanO
     patientName: input.patientName ?? null,
     speciesId: species?.id ?? null,
     agent: input.agent,
-    mac: { valuePct: mac.valuePct, basis: mac.basis },
+    mac: course.mac,
     targetMacMultiple: input.targetMacMultiple ?? defaultTargetMacMultiple.value,
     recoveryMacFraction:
       input.recoveryMacFraction === undefined
@@ -605,28 +668,16 @@ export function computePlan(input: PlanInput, tables: PlanTables, options: PlanO
         : { value: input.recoveryMacFraction, basis: 'entered for this plan' },
     estimates,
     phases: phaseResults,
-    timeline: timelineOf(outcome, setup.sampleIntervalMin),
+    timeline: course.timeline,
     milestones: {
-      inductionMin: outcome.inductionMin,
-      recoveryMin: outcome.recoveryMin,
-      vaporiserOffMin: offMin,
+      inductionMin,
+      recoveryMin,
+      vaporiserOffMin,
       airSacWashin95Breaths: washIn.breaths,
       airSacWashin95Min: washIn.minutes,
       airSacWashout95Breaths: washOut.breaths,
       airSacWashout95Min: washOut.minutes,
-      peakBrainMacMultiple: outcome.peakBrainMacMultiple,
-      lowestVentilationFraction: outcome.lowestVentilationFraction,
-      lossOfRightingMin: outcome.milestoneMin[0] ?? null,
-      surgicalDepthMin: outcome.inductionMin,
-      firstMovementMin: outcome.recoveryMin,
-      standingMin: outcome.milestoneMin[1] ?? null,
-      definitions: milestoneDefinitions(
-        input.targetMacMultiple ?? defaultTargetMacMultiple.value,
-        input.recoveryMacFraction ?? defaultRecoveryMacFraction.value,
-        input.recoveryMacFraction !== undefined,
-      ),
-      basis:
-        'Induction (planned surgical depth): brain (vessel-rich group) reaches the target MAC multiple; loss of righting: brain rises through the light-plane fraction of MAC; recovery (first movement or head lift): brain falls below the recovery fraction of MAC after the vaporiser is off; standing or perching: brain falls below the standing fraction of MAC; a recovery milestone is timed only for a brain that was above its level; air-sac wash times: both sac groups within 5 % of a step of an insoluble tracer at the airway opening, at the ventilation of induction (wash-in) and of the moment the vaporiser goes off (washout)',
+      ...courseMilestones,
     },
     uncertainty,
     flows,

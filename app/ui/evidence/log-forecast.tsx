@@ -4,16 +4,24 @@ import type { ProcedureDetail } from '../../contract/record-channels.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { forecastPlan, readForecast, type LogForecast } from '../../core/evidence/forecast.js';
 import type { LogPlan } from '../../core/evidence/record-log.js';
-import { computePlan } from '../../core/model/compute-plan.js';
-import type { PlanResult } from '../../core/model/plan-types.js';
+import { computePlanCourse, planUncertaintyInput } from '../../core/model/compute-plan.js';
+import { mergeUncertainty } from '../../core/model/uncertainty.js';
+import { BandPool, poolSize, type SliceWorker } from '../plans/band-pool.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
 import { clockText } from '../records/clock-time.js';
 import { RecordOutcome } from './record-outcome.js';
 import './evidence.css';
 
-/** Uncertainty samples of the band run in the worker (the quick answer has none). */
+/** Uncertainty samples of the band run in the workers (the quick answer has none). */
 const bandSamples = 40;
+
+function newBandWorker(): SliceWorker {
+  // Written out here so that Vite finds and bundles the worker.
+  return new Worker(new URL('../plans/plan-worker.ts', import.meta.url), {
+    type: 'module',
+  }) as unknown as SliceWorker;
+}
 
 const clock = (ms: number | null) =>
   ms === null ? 'not within 90 min' : clockText(new Date(ms).toISOString());
@@ -66,34 +74,42 @@ function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; 
   const quick = useMemo((): LogForecast | { failure: string } | null => {
     if (built === null || !('plan' in built) || species === null) return null;
     try {
-      return readForecast(built.plan, computePlan(built.plan.input, { species }), minuteMs);
+      return readForecast(built.plan, computePlanCourse(built.plan.input, { species }), minuteMs);
     } catch (error) {
       return { failure: error instanceof Error ? error.message : String(error) };
     }
   }, [built, species, minuteMs]);
 
-  // The band: the same run with uncertainty samples, off the main thread.
-  const worker = useRef<Worker | null>(null);
+  // The band: the same run with uncertainty samples, in slices over the planning screen's pool of
+  // workers (plan-worker.ts), merged into the course when they are all in.
+  const pool = useRef<BandPool | null>(null);
   const [banded, setBanded] = useState<{ key: string; forecast: LogForecast } | null>(null);
   const bandKey = built !== null && 'plan' in built ? JSON.stringify(built.plan.input) : '';
+  useEffect(
+    () => () => {
+      pool.current?.close();
+      pool.current = null;
+    },
+    [],
+  );
   useEffect(() => {
-    const created = new Worker(new URL('../plans/plan-worker.ts', import.meta.url), { type: 'module' });
-    worker.current = created;
-    return () => {
-      created.terminate();
-      worker.current = null;
-    };
-  }, []);
-  useEffect(() => {
-    const target = worker.current;
-    if (target === null || built === null || !('plan' in built) || species === null) return;
+    if (built === null || !('plan' in built) || species === null) return undefined;
     const request = { ...built.plan.input, uncertainty: { samples: bandSamples, seed: 1 } };
-    const id = Math.floor(minuteMs / 1000) % 1_000_000;
-    target.onmessage = (event: MessageEvent<{ id: number; result?: PlanResult }>) => {
-      if (event.data.id !== id || event.data.result === undefined) return;
-      setBanded({ key: bandKey, forecast: readForecast(built.plan, event.data.result, minuteMs) });
-    };
-    target.postMessage({ id, input: request, species });
+    pool.current ??= new BandPool(poolSize(navigator.hardwareConcurrency), newBandWorker);
+    pool.current.run(request, species, {
+      onProgress: () => undefined,
+      onDone: (slices) => {
+        try {
+          const sampled = mergeUncertainty(planUncertaintyInput(request, { species }), slices);
+          const course = computePlanCourse(request, { species }, { sampled });
+          setBanded({ key: bandKey, forecast: readForecast(built.plan, course, minuteMs) });
+        } catch {
+          // The quick answer stays on view without its band.
+        }
+      },
+      onFailure: () => undefined,
+    });
+    return () => pool.current?.cancel();
   }, [built, bandKey, species, minuteMs]);
 
   const shown =
