@@ -115,6 +115,10 @@ describe('the agent of a procedure record in headless Chromium', () => {
       );
       expect(detail.record.values.agent).toBe('sevoflurane');
       await shoot(page, '02-live-sevoflurane');
+      // The printed record names it too.
+      await page.emulateMedia({ media: 'print' });
+      await expect(page.locator('.printed-record').innerText()).resolves.toMatch(/Agent\s+Sevoflurane/);
+      await page.emulateMedia({ media: 'screen' });
 
       // The details editor shows the agent, with no "not recorded" for a record that names one.
       await page.getByRole('button', { name: 'Correct details' }).click();
@@ -177,6 +181,29 @@ describe('the agent of a procedure record in headless Chromium', () => {
       await shoot(page, '05-evidence-sevoflurane');
       await page.getByLabel('Agent').first().selectOption('isoflurane');
       await expect.poll(() => kiwiRows.count()).toBe(0);
+
+      // A record that names no agent (as every record made before records carried one) says so,
+      // and its correction may keep it so: "not recorded" is offered and chosen.
+      const older = await bridgeValue<{ id: number }>(page, 'procedures:create', {
+        patientId: kiwi.id,
+        values: {
+          startedAt: new Date(startMs - 24 * 3_600_000).toISOString(),
+          procedureName: 'Radiographs',
+          airway: 'mask',
+          circuit: 'nonRebreathing',
+          staffInitials: 'RW',
+        },
+        meta: { enteredBy: 'RW' },
+      });
+      await page.evaluate((id) => (window.location.hash = `#/records/${id}`), older.id);
+      await page.locator('.record-header').getByText('agent not recorded', { exact: true }).waitFor();
+      await page.getByRole('button', { name: 'Correct details' }).click();
+      const olderAgent = page.locator('.record-details-editor').getByLabel('Anaesthetic agent');
+      await expect(olderAgent.inputValue()).resolves.toBe('');
+      await expect(olderAgent.locator('option:checked').innerText()).resolves.toBe(
+        'not recorded (record made before agents were logged)',
+      );
+      await shoot(page, '06-older-record-editor');
       expect(pageErrors).toEqual([]);
     } finally {
       await page.close();
