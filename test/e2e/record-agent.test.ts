@@ -200,9 +200,7 @@ describe('the agent of a procedure record in headless Chromium', () => {
       await page.getByRole('button', { name: 'Correct details' }).click();
       const olderAgent = page.locator('.record-details-editor').getByLabel('Anaesthetic agent');
       await expect(olderAgent.inputValue()).resolves.toBe('');
-      await expect(olderAgent.locator('option:checked').innerText()).resolves.toBe(
-        'not recorded (record made before agents were logged)',
-      );
+      await expect(olderAgent.locator('option:checked').innerText()).resolves.toBe('not recorded');
       await shoot(page, '06-older-record-editor');
       expect(pageErrors).toEqual([]);
     } finally {

@@ -93,7 +93,7 @@ export function RecordDetailsFields({
         name="agent"
         options={[
           ...(agentMayStayUnrecorded || draft.agent === ''
-            ? [{ value: '' as const, label: 'not recorded (record made before agents were logged)' }]
+            ? [{ value: '' as const, label: 'not recorded' }]
             : []),
           ...agentIds.map((value) => ({ value, label: agentLabels[value] })),
         ]}
