@@ -8,12 +8,34 @@ import type { PlanInput } from './plan.js';
 import type { ProcedureEntry, ProcedureRecord } from './records.js';
 
 /**
+ * The agent a record's evidence and forecast use, with where it came from: the agent logged on
+ * the record; for a record that does not name one (made before records carried an agent), the
+ * linked plan's, else the clinic's default agent. The stored record is never changed by this.
+ * @param record the record's current version
+ * @param plan the linked plan's input, or null
+ * @param defaultAgent the clinic's default agent
+ */
+export function recordAgentOf(
+  record: ProcedureRecord,
+  plan: Pick<PlanInput, 'agent'> | null,
+  defaultAgent: AgentId,
+): { readonly agent: AgentId; readonly basis: string } {
+  const logged = record.values.agent;
+  if (logged !== null) return { agent: logged, basis: `${agentLabels[logged]}, logged on the record` };
+  if (plan !== null) return { agent: plan.agent, basis: `${agentLabels[plan.agent]}, from the linked plan` };
+  return {
+    agent: defaultAgent,
+    basis: `${agentLabels[defaultAgent]}, the clinic's default agent (no plan is linked to the record)`,
+  };
+}
+
+/**
  * The one reading of a stored record as the model's log, used by the back end (observed vs
  * predicted, calibration) and by the live record screen (the forecast), so both answer alike.
  * @param record the record's current version
  * @param entries its current entries (voided ones are left out here)
  * @param bird the body mass (g, or null when none is known), the species key, the linked plan's
- *   input (or null) and the clinic's default agent
+ *   input (or null) and the clinic's default agent (the agent: `recordAgentOf`)
  */
 export function recordLogOf(
   record: ProcedureRecord,
@@ -30,7 +52,7 @@ export function recordLogOf(
   if (bodyMassG < 5 || bodyMassG > 15000)
     return { ok: false, missing: `a body mass of ${String(bodyMassG)} g is outside the model's 5-15000 g` };
   const plan = bird.plan;
-  const agent = plan?.agent ?? bird.defaultAgent;
+  const { agent, basis: agentBasis } = recordAgentOf(record, plan, bird.defaultAgent);
   const logged: LoggedEntry[] = entries
     .filter((entry) => !entry.voided)
     .map((entry) => ({
@@ -53,10 +75,7 @@ export function recordLogOf(
         bodyMassG,
         speciesId: bird.speciesKey,
         agent,
-        agentBasis:
-          plan === null
-            ? `${agentLabels[agent]}, the clinic's default agent (no plan is linked to the record)`
-            : `${agentLabels[agent]}, from the linked plan`,
+        agentBasis,
         ...(plan?.macPct === undefined ? {} : { macPct: plan.macPct }),
       },
       ...(plan === null ? {} : { inductionRoute: plan.route, plannedFreshGasLpm: plan.freshGasLpm }),

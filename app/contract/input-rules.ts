@@ -8,6 +8,7 @@
  * clock's date and reports a field error; the screens pass theirs to warn before sending.
  */
 import { z } from 'zod';
+import { agentLabels, type AgentId } from '../core/agents.js';
 
 // Text --------------------------------------------------------------------------------------------
 
@@ -233,6 +234,20 @@ export function entryTimeProblem(
   } else if (atMs > now.getTime() + clockSlackMin * minuteMs)
     return `Time ${at} is in the future; enter the time the reading was taken.`;
   return null;
+}
+
+// Procedure agent -------------------------------------------------------------------------------
+
+/**
+ * Why a correction's agent cannot stand, or null. A record that names its agent may have it
+ * corrected to another agent, never removed: the log's dial readings mean nothing without it. A
+ * record that never named one (made before records carried an agent) may stay without.
+ * @param recorded the agent of the version being corrected (null: not recorded)
+ * @param next the agent the correction gives
+ */
+export function recordAgentProblem(recorded: AgentId | null, next: AgentId | null): string | null {
+  if (recorded === null || next !== null) return null;
+  return `The record names ${agentLabels[recorded]} as the agent given; choose the agent given (a recorded agent can be corrected, not removed).`;
 }
 
 // Body mass ---------------------------------------------------------------------------------------

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { agentIds } from '../core/agents.js';
 import { circuits, routes } from '../core/delivery.js';
 import { eventTypes } from '../core/procedure-events.js';
 import { potencyMeasures } from '../core/species-reference.js';
@@ -239,6 +240,10 @@ export type Weight = z.infer<typeof weightSchema>;
 export const tubeTypes = ['', 'uncuffed', 'cuffed, cuff down', 'cuffed, cuff up'] as const;
 export const cropStates = ['not checked', 'empty', 'not empty'] as const;
 
+/** What the record form and the contract say when the agent is missing or not one of the list. */
+export const recordAgentMessage =
+  'Choose the anaesthetic agent given: isoflurane, sevoflurane or desflurane.';
+
 function procedureRecordValues(rules: Rules) {
   return z.object({
     planId: z.number().int().positive().nullable().default(null),
@@ -264,6 +269,12 @@ function procedureRecordValues(rules: Rules) {
       .default(null),
     tubeType: z.enum(tubeTypes).default(''),
     circuit: z.enum(circuits, { error: 'Choose non-rebreathing system or circle.' }),
+    /**
+     * The inhalant given. Null: not recorded on the record (every record made before records
+     * carried an agent); the evidence then reads the linked plan's agent or the clinic's default
+     * and says so. Never filled in by guess.
+     */
+    agent: z.enum(agentIds, { error: recordAgentMessage }).nullable().default(null),
     staffInitials: rules.naming('Staff initials', {
       max: 40,
       blank: 'Enter the initials of the staff monitoring.',

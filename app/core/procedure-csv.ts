@@ -1,8 +1,11 @@
 /**
  * A procedure record as CSV (RFC 4180): one row per logged time point or event, with units in
- * the headers, local times with their UTC offset and events by their readable names. Text cells
- * that a spreadsheet would run as a formula are prefixed with an apostrophe.
+ * the headers, local times with their UTC offset and events by their readable names. Each row
+ * names the record's agent (blank when the record does not say: records made before records
+ * carried one) and the workstation that wrote the row (blank when unknown). Text cells that a
+ * spreadsheet would run as a formula are prefixed with an apostrophe.
  */
+import type { AgentId } from './agents.js';
 import { eventName, localTimeWithOffset } from './procedure-events.js';
 
 export type CsvEntry = {
@@ -22,12 +25,15 @@ export type CsvEntry = {
   readonly enteredBy: string;
   readonly enteredAt: string;
   readonly corrected: boolean;
+  /** The current name of the workstation that wrote the row; null when unknown (older rows). */
+  readonly workstationName: string | null;
 };
 
 export const procedureCsvHeaders = [
   'time (local, with UTC offset)',
   'minutes from start',
   'kind',
+  'agent',
   'vaporiser (%)',
   'oxygen (L/min)',
   'heart rate (/min)',
@@ -40,6 +46,7 @@ export const procedureCsvHeaders = [
   'drug',
   'dose (entered by the clinic)',
   'entered by',
+  'workstation',
   'entered at (local, with UTC offset)',
   'corrected',
 ] as const;
@@ -65,6 +72,8 @@ function minutesBetween(startIso: string, atIso: string): number {
 export function procedureCsv(input: {
   readonly startedAt: string;
   readonly title: readonly (readonly [string, string])[];
+  /** The record's agent; null when the record does not name one. */
+  readonly agent: AgentId | null;
   readonly entries: readonly CsvEntry[];
   readonly utcOffsetMinAt: (iso: string) => number;
 }): string {
@@ -80,6 +89,7 @@ export function procedureCsv(input: {
         local(entry.at),
         minutesBetween(input.startedAt, entry.at),
         entry.kind,
+        input.agent,
         entry.vaporPct,
         entry.oxygenLpm,
         entry.heartRatePerMin,
@@ -92,6 +102,7 @@ export function procedureCsv(input: {
         entry.drugName,
         entry.drugDose,
         entry.enteredBy,
+        entry.workstationName,
         local(entry.enteredAt),
         entry.corrected ? 'yes' : 'no',
       ]

@@ -21,6 +21,8 @@ type ProcedureRecordVersionsTable = {
   tube_size_mm: number | null;
   tube_type: ProcedureRecordValues['tubeType'];
   circuit: ProcedureRecordValues['circuit'];
+  /** Migration 12; null on records made before it (never guessed). */
+  agent: ProcedureRecordValues['agent'];
   staff_initials: string;
   prompt_interval_min: number;
   entered_at: string;
@@ -57,6 +59,7 @@ function rowToRecord(row: RecordVersionRow): ProcedureRecord {
       tubeSizeMm: row.tube_size_mm,
       tubeType: row.tube_type,
       circuit: row.circuit,
+      agent: row.agent,
       staffInitials: row.staff_initials,
       promptIntervalMin: row.prompt_interval_min,
     },
@@ -118,6 +121,7 @@ export function createProcedureRecordRepository(sql: Sql) {
         tube_size_mm: values.tubeSizeMm,
         tube_type: values.tubeType,
         circuit: values.circuit,
+        agent: values.agent,
         staff_initials: values.staffInitials,
         prompt_interval_min: values.promptIntervalMin,
         entered_at: at.toISOString(),

@@ -24,6 +24,7 @@ const fieldLabels: Readonly<Record<string, string>> = {
   name: 'Name',
   commonName: 'Common name',
   staffInitials: 'Staff initials',
+  agent: 'Anaesthetic agent',
   procedureName: 'Procedure',
   startedAt: 'Start',
   endedAt: 'End',

@@ -77,6 +77,7 @@ export async function writeDemoRecords(clinic: Sql, demo: DemoClinic, now: Date)
           tubeSizeMm: null,
           tubeType: record.airway === 'endotracheal' ? 'uncuffed' : '',
           circuit: 'nonRebreathing',
+          agent: record.agent,
           staffInitials: record.staffInitials,
           promptIntervalMin: 5,
         },

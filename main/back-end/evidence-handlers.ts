@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import { z } from 'zod';
 import type { ChannelName, ParsedRequestOf, ResponseOf } from '../../app/contract/channels.js';
 import {
+  recordAgentOf,
   recordLogOf,
   type EvidenceFilter,
   evidenceRowSchema,
@@ -144,13 +145,14 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
       const planRecord = record.values.planId === null ? null : await plans.get(record.values.planId);
       const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
       const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
+      const agentOf = recordAgentOf(record, planInput, defaultAgent);
       const base = {
         recordId: record.id,
         patientId: patient.id,
         patientName: patient.values.name,
         speciesKey: patient.values.speciesKey,
         speciesName: speciesRecord?.values.commonName ?? patient.values.speciesKey,
-        agent: planInput?.agent ?? defaultAgent,
+        agent: agentOf.agent,
         airway: record.values.airway,
         staffInitials: record.values.staffInitials,
         procedureName: record.values.procedureName,
@@ -167,7 +169,7 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
       if (!logged.ok) {
         row = {
           ...base,
-          agentBasis: '',
+          agentBasis: agentOf.basis,
           bodyMassG: null,
           skipped: logged.missing,
           milestones: [],

@@ -4,6 +4,7 @@ import {
   entryTimeProblem,
   hatchDateProblem,
   localDateOf,
+  recordAgentProblem,
   weighingDateProblem,
 } from '../../app/contract/input-rules.js';
 import type { ProcedureRecordValues } from '../../app/contract/records.js';
@@ -238,6 +239,7 @@ export function createRecordHandlers(
     'procedures:correct': async (request) => {
       const record = found(await procedures.get(request.id), `Procedure record ${request.id}`);
       await requireOwnPlan(request.values.planId, record.patientId);
+      refuse(recordAgentProblem(record.values.agent, request.values.agent), 'values.agent');
       await requireEntriesWithin(request.id, request.values);
       const versionId = request.versionId ?? record.stamp.versionId;
       const corrected = await refuseConcurrentChange({
@@ -293,13 +295,16 @@ export function createRecordHandlers(
               : `${detail.record.values.asaGrade}${detail.record.values.emergency ? 'E' : ''}`,
           ],
           ['airway', detail.record.values.airway],
+          ['agent', detail.record.values.agent ?? 'not recorded'],
           ['staff', detail.record.values.staffInitials],
         ],
+        agent: detail.record.values.agent,
         entries: detail.entries.map((entry) => ({
           ...entry.values,
           enteredBy: entry.stamp.enteredBy,
           enteredAt: entry.stamp.enteredAt,
           corrected: entry.corrected,
+          workstationName: entry.workstationName,
         })),
       });
       const day = detail.record.values.startedAt.slice(0, 10);

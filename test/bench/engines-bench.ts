@@ -47,6 +47,7 @@ async function measure(clinic: ClinicDb): Promise<EngineFigures> {
       tubeSizeMm: null,
       tubeType: '',
       circuit: 'nonRebreathing',
+      agent: 'isoflurane',
       staffInitials: 'RW',
       promptIntervalMin: 5,
     },

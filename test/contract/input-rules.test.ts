@@ -12,6 +12,7 @@ import {
   namingText,
   optionalNamingText,
   plannedDateProblem,
+  recordAgentProblem,
   weighingDateProblem,
 } from '../../app/contract/input-rules.js';
 import { patientValuesSchema, procedureRecordValuesSchema } from '../../app/contract/records.js';
@@ -114,6 +115,37 @@ describe('entry times within their record', () => {
     }
     expect(procedureRecordValuesSchema.safeParse({ ...base, endedAt: '2026-12-01T09:40:00Z' }).success).toBe(
       true,
+    );
+  });
+});
+
+describe('the agent of a procedure record', () => {
+  const base = {
+    startedAt: '2026-12-01T09:00:00.000Z',
+    procedureName: 'Beak trim',
+    airway: 'mask',
+    circuit: 'nonRebreathing',
+    staffInitials: 'RW',
+  };
+
+  it('takes one of the agents, or none (not recorded), and names the list otherwise', () => {
+    expect(procedureRecordValuesSchema.parse({ ...base, agent: 'sevoflurane' }).agent).toBe('sevoflurane');
+    expect(procedureRecordValuesSchema.parse(base).agent).toBeNull();
+    for (const agent of ['halothane', 'Isoflurane', '', 3]) {
+      const result = procedureRecordValuesSchema.safeParse({ ...base, agent });
+      expect(result.error?.issues[0]).toMatchObject({
+        path: ['agent'],
+        message: 'Choose the anaesthetic agent given: isoflurane, sevoflurane or desflurane.',
+      });
+    }
+  });
+
+  it('lets a correction change a recorded agent but not remove it', () => {
+    expect(recordAgentProblem('isoflurane', 'sevoflurane')).toBeNull();
+    expect(recordAgentProblem(null, null)).toBeNull();
+    expect(recordAgentProblem(null, 'desflurane')).toBeNull();
+    expect(recordAgentProblem('sevoflurane', null)).toBe(
+      'The record names Sevoflurane as the agent given; choose the agent given (a recorded agent can be corrected, not removed).',
     );
   });
 });

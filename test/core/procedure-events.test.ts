@@ -36,6 +36,7 @@ describe('procedure CSV', () => {
     const csv = procedureCsv({
       startedAt: '2026-12-01T10:00:00.000Z',
       title: [['patient', 'Pip']],
+      agent: 'sevoflurane',
       utcOffsetMinAt: () => 60,
       entries: [
         {
@@ -55,13 +56,39 @@ describe('procedure CSV', () => {
           enteredBy: 'RW',
           enteredAt: '2026-12-01T10:04:00.000Z',
           corrected: false,
+          workstationName: 'Theatre 1',
+        },
+        {
+          at: '2026-12-01T10:05:00.000Z',
+          kind: 'vitals',
+          vaporPct: 3.5,
+          oxygenLpm: 1,
+          heartRatePerMin: 300,
+          breathsPerMin: null,
+          temperatureC: null,
+          etco2Mmhg: null,
+          spo2Pct: null,
+          eventType: null,
+          eventNote: '',
+          drugName: '',
+          drugDose: '',
+          enteredBy: 'RW',
+          enteredAt: '2026-12-01T10:05:00.000Z',
+          corrected: false,
+          workstationName: null,
         },
       ],
     });
     const lines = csv.split('\r\n');
     expect(lines[2]).toBe(procedureCsvHeaders.map((h) => (h.includes(',') ? `"${h}"` : h)).join(','));
+    // Each row names the record's agent and the workstation that wrote it (blank when unknown).
+    expect(procedureCsvHeaders).toContain('agent');
+    expect(procedureCsvHeaders).toContain('workstation');
     expect(lines[3]).toBe(
-      '2026-12-01T11:03:00+01:00,3,event,,,,,,,,Drug given,,Clinic drug A,0.02 mL,RW,2026-12-01T11:04:00+01:00,no',
+      '2026-12-01T11:03:00+01:00,3,event,sevoflurane,,,,,,,,Drug given,,Clinic drug A,0.02 mL,RW,Theatre 1,2026-12-01T11:04:00+01:00,no',
+    );
+    expect(lines[4]).toBe(
+      '2026-12-01T11:05:00+01:00,5,vitals,sevoflurane,3.5,1,300,,,,,,,,,RW,,2026-12-01T11:05:00+01:00,no',
     );
   });
 });

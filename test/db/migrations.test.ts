@@ -13,6 +13,7 @@ import {
   PostgresSchemaTooNewError,
   postgresSchemaVersion,
 } from '../../db/postgres-connection.js';
+import { agentIds } from '../../app/core/agents.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
 import { needPostgres, scratchPostgresDatabase } from '../support/postgres-database.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
@@ -607,6 +608,32 @@ describe.each(testEngines)('migrations on %s', (engine) => {
     ).toBe(1);
   });
 
+  it('migration 12 gives procedure records an agent: old records keep none, new ones one of the agents', async (context) => {
+    const db = await openTestClinic(engine, context, { migrations: migrations.slice(0, 11) });
+    await oneOfEach(db);
+    expect(await migrateOn(db, migrations.slice(0, 12))).toBe(12);
+    // The record written before the migration is not given an agent.
+    const before = await sql<{ agent: string | null }>`SELECT agent FROM procedure_record_versions`.execute(
+      db.kysely,
+    );
+    expect(before.rows).toEqual([{ agent: null }]);
+    const version = (agent: string | null) =>
+      sql`INSERT INTO procedure_record_versions (record_id, corrects_id, started_at, procedure_name, airway, circuit, staff_initials, agent, entered_at, entered_by, reason)
+          VALUES (1, (SELECT max(id) FROM procedure_record_versions), ${at}, 'Wing radiographs', 'mask', 'nonRebreathing', 'RW', ${agent}, ${at}, 'RW', 'agent added')`;
+    // The stored list is the agents of app/core/agents.ts, exactly.
+    for (const agent of agentIds) await version(agent).execute(db.kysely);
+    for (const wrong of ['halothane', 'Isoflurane', 'sevoflurane ', ''])
+      expect((await refusal(db, version(wrong))).kind).toBe('check');
+    const chain = await sql<{
+      agent: string | null;
+    }>`SELECT agent FROM procedure_record_versions ORDER BY id`.execute(db.kysely);
+    expect(chain.rows.map((row) => row.agent)).toEqual([null, ...agentIds]);
+    // Still append-only: the agent of a version is corrected by a new version, never in place.
+    expect(
+      (await refusal(db, sql`UPDATE procedure_record_versions SET agent = 'isoflurane' WHERE id = 1`)).kind,
+    ).toBe('append-only');
+  });
+
   it('refuses UPDATE and DELETE on every record table with the same message on both engines', async (context) => {
     const db = await openTestClinic(engine, context);
     await oneOfEach(db);
@@ -1179,6 +1206,7 @@ const validRows: Readonly<Record<string, Readonly<Record<string, string | number
     airway: 'mask',
     circuit: 'circle',
     staff_initials: 'RW',
+    agent: 'sevoflurane',
     entered_at: at,
     entered_by: 'RW',
   },

@@ -59,6 +59,43 @@ describe.each(testEngines)('procedure records and entries on %s', (engine) => {
     expect((await records.listRecent(10))[0]?.values.procedureName).toBe('Crop biopsy');
   });
 
+  it('keeps the agent on each version of the details, and null for a record that never named one', async (context) => {
+    const db = await openTestClinic(engine, context);
+    const patientId = await insertPatient(db);
+    const records = createProcedureRecordRepository(db);
+    const record = await records.create(patientId, { ...cropBiopsy, agent: 'sevoflurane' }, meta, t0);
+    expect(record.values.agent).toBe('sevoflurane');
+    expect((await records.get(record.id))?.values).toEqual({ ...cropBiopsy, agent: 'sevoflurane' });
+    await records.correct(
+      record.id,
+      { ...cropBiopsy, agent: 'isoflurane' },
+      { enteredBy: 'MK', reason: 'Isoflurane was given, not sevoflurane' },
+      t0,
+    );
+    expect((await records.history(record.id)).map((version) => version.values.agent)).toEqual([
+      'isoflurane',
+      'sevoflurane',
+    ]);
+    expect((await records.listForPatient(patientId))[0]?.values.agent).toBe('isoflurane');
+    // A record made before records carried an agent reads back with none: nothing is filled in.
+    const older = await records.create(patientId, { ...cropBiopsy, agent: null }, meta, t0);
+    expect((await records.get(older.id))?.values.agent).toBeNull();
+    const stored = await sql<{
+      agent: string | null;
+    }>`SELECT agent FROM procedure_record_versions ORDER BY id`.execute(db.kysely);
+    expect(stored.rows).toEqual([{ agent: 'sevoflurane' }, { agent: 'isoflurane' }, { agent: null }]);
+    // The stored CHECK lists the agents and nothing else; the versions stay append-only.
+    await expect(
+      sql`INSERT INTO procedure_record_versions (record_id, started_at, procedure_name, airway, circuit, staff_initials, agent, entered_at, entered_by)
+          VALUES (${record.id}, ${t0.toISOString()}, 'x', 'mask', 'circle', 'RW', 'halothane', ${t0.toISOString()}, 'RW')`.execute(
+        db.kysely,
+      ),
+    ).rejects.toThrow(/check/i);
+    await expect(
+      sql`UPDATE procedure_record_versions SET agent = 'desflurane'`.execute(db.kysely),
+    ).rejects.toThrow(/never changed in place/);
+  });
+
   it('keeps every version of the details, newest first, and voided rows apart from the log', async (context) => {
     const db = await openTestClinic(engine, context);
     const patientId = await insertPatient(db);

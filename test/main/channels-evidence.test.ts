@@ -1,3 +1,5 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { sql } from 'kysely';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { ChannelName, RequestOf, ResponseOf } from '../../app/contract/channels.js';
@@ -5,8 +7,24 @@ import { startBackEnd, type BackEnd } from '../../main/back-end/back-end.js';
 import { generateDemoClinic } from '../../app/core/evidence/demo-clinic.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { demoSeed, writeDemoClinic, writeDemoRecords } from '../../main/back-end/demo-clinic.js';
+import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
-import { correctionBy, enteredByRw, pipRadiographValues, pipValues } from '../support/clinic-birds.js';
+import {
+  correctionBy,
+  enteredByRw,
+  pipInductionValues,
+  pipRadiographValues,
+  pipValues,
+  pipVitalsValues,
+} from '../support/clinic-birds.js';
+
+/** Pip's plan from examples/plans: a mask induction with isoflurane. */
+const pipIsofluranePlan = JSON.parse(
+  fs.readFileSync(
+    path.join(findProjectRoot(), 'examples', 'plans', 'pip-budgerigar-mask-isoflurane.json'),
+    'utf8',
+  ),
+) as RequestOf<'plans:save'>['fields']['input'];
 
 const open: ChannelHarness[] = [];
 const restarted: BackEnd[] = [];
@@ -51,7 +69,136 @@ describe('evidence channels', () => {
       (firstMovement?.observedMin ?? 0) / (firstMovement?.predictedMin ?? 1),
       1,
     );
-    expect(row?.agentBasis).toContain("the clinic's default agent");
+    // The demo clinic writes the agent on each of its records.
+    expect(row?.agentBasis).toMatch(/^(Isoflurane|Sevoflurane), logged on the record$/);
+  });
+
+  it('evidence:list filters by the agent logged on each record', async () => {
+    const api = await demoHarness();
+    // The invented practice gives its budgerigars (12 records) and hens (8) sevoflurane.
+    const sevoflurane = await api.answer('evidence:list', { agent: 'sevoflurane' });
+    expect(sevoflurane.rows).toHaveLength(20);
+    expect(new Set(sevoflurane.rows.map((row) => row.speciesKey))).toEqual(
+      new Set(['budgerigar', 'chicken']),
+    );
+    expect(sevoflurane.rows.every((row) => row.agentBasis === 'Sevoflurane, logged on the record')).toBe(
+      true,
+    );
+    expect(sevoflurane.counts.compared).toBe(20);
+    const isoflurane = await api.answer('evidence:list', { agent: 'isoflurane' });
+    expect(isoflurane.rows).toHaveLength(40);
+    expect(isoflurane.rows.some((row) => row.speciesKey === 'budgerigar')).toBe(false);
+    expect((await api.answer('evidence:list', { agent: 'desflurane' })).rows).toEqual([]);
+    const recordId = sevoflurane.rows[0]?.recordId as number;
+    expect((await api.answer('procedures:get', { id: recordId })).record.values.agent).toBe('sevoflurane');
+  });
+
+  it('a record started with sevoflurane is read with sevoflurane; one that names no agent falls back and says so', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    await api.answer('weights:add', {
+      patientId: pip.id,
+      values: { weighedOn: '2026-12-01', massG: 38, bodyCondition: 'ideal', weighedBy: 'RW' },
+      meta: enteredByRw,
+    });
+    const plan = await api.answer('plans:save', {
+      fields: {
+        patientId: pip.id,
+        plannedFor: '2026-12-01',
+        input: pipIsofluranePlan,
+        checklist: {
+          asaGrade: null,
+          emergency: false,
+          items: {
+            fastingAndCrop: 'open',
+            hydration: 'open',
+            bloods: 'open',
+            equipmentLeakCheck: 'open',
+            oxygenSupply: 'open',
+            scavenging: 'open',
+            emergencyCard: 'open',
+          },
+          notes: '',
+        },
+      },
+      meta: enteredByRw,
+    });
+    expect(plan.input.agent).toBe('isoflurane');
+    api.clock.set('2026-12-01T12:00:00.000Z');
+    /** A completed record of Pip's, started at `hour`, with the events of a whole anaesthetic. */
+    const completed = async (hour: string, values: Partial<RequestOf<'procedures:create'>['values']>) => {
+      const at = (minute: string) => `2026-12-01T${hour}:${minute}:00.000Z`;
+      const record = await api.answer('procedures:create', {
+        patientId: pip.id,
+        values: { ...pipRadiographValues, startedAt: at('00'), ...values },
+        meta: enteredByRw,
+      });
+      const vitals = (minute: string, vaporPct: number) => ({
+        ...pipVitalsValues,
+        at: at(minute),
+        vaporPct,
+      });
+      const event = (
+        minute: string,
+        eventType: 'induction' | 'vaporiserOff' | 'firstMovement' | 'standing',
+      ) => ({
+        ...pipInductionValues,
+        at: at(minute),
+        eventType,
+        eventNote: '',
+      });
+      for (const values of [
+        vitals('02', 5),
+        event('04', 'induction'),
+        vitals('08', 3.5),
+        event('20', 'vaporiserOff'),
+        event('24', 'firstMovement'),
+        event('30', 'standing'),
+      ])
+        await api.answer('entries:add', { recordId: record.id, values, meta: enteredByRw });
+      return api.answer('procedures:correct', {
+        id: record.id,
+        values: { ...record.values, endedAt: at('40') },
+        meta: correctionBy('RW', 'Procedure ended'),
+      });
+    };
+    const sevo = await completed('09', { agent: 'sevoflurane', planId: plan.id });
+    const planOnly = await completed('10', { planId: plan.id });
+    const neither = await completed('11', {});
+    // The record shows the agent it was started with; the others name none.
+    expect((await api.answer('procedures:get', { id: sevo.id })).record.values.agent).toBe('sevoflurane');
+    expect([planOnly.values.agent, neither.values.agent]).toEqual([null, null]);
+
+    const rows = (await api.answer('evidence:list', {})).rows;
+    const rowOf = (id: number) => rows.find((row) => row.recordId === id);
+    // Logged on the record: it wins over the linked plan's isoflurane.
+    expect(rowOf(sevo.id)).toMatchObject({
+      agent: 'sevoflurane',
+      agentBasis: 'Sevoflurane, logged on the record',
+      skipped: null,
+    });
+    expect(rowOf(sevo.id)?.notes[0]).toBe('Agent: Sevoflurane, logged on the record.');
+    // No agent on the record: the linked plan's, else the clinic's default, each saying so.
+    expect(rowOf(planOnly.id)).toMatchObject({
+      agent: 'isoflurane',
+      agentBasis: 'Isoflurane, from the linked plan',
+    });
+    expect(rowOf(neither.id)).toMatchObject({
+      agent: 'isoflurane',
+      agentBasis: "Isoflurane, the clinic's default agent (no plan is linked to the record)",
+    });
+    // The same bird and log, read with sevoflurane, wakes sooner than with isoflurane (lower
+    // blood/gas partition coefficient, agents.ts).
+    const firstMovement = (id: number) =>
+      rowOf(id)?.milestones.find((milestone) => milestone.id === 'firstMovement')?.predictedMin ?? NaN;
+    expect(firstMovement(sevo.id)).toBeLessThan(firstMovement(neither.id));
+    // The filter by agent reads the record's agent.
+    expect(
+      (await api.answer('evidence:list', { agent: 'sevoflurane' })).rows.map((row) => row.recordId),
+    ).toEqual([sevo.id]);
+    expect(
+      (await api.answer('evidence:list', { agent: 'isoflurane' })).rows.map((row) => row.recordId).sort(),
+    ).toEqual([planOnly.id, neither.id].sort());
   });
 
   it('evidence:list filters by species, route, staff and dates, and refuses a reversed date range', async () => {

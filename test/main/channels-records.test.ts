@@ -59,6 +59,80 @@ describe('procedure record channels', () => {
     expect((await api.answer('patients:get', { id: pip.id })).procedures).toEqual([record]);
   });
 
+  it('procedures:create keeps the agent given; an agent not in the list is refused on its field', async () => {
+    const { api, pip } = await withPipRecord();
+    const record = await api.answer('procedures:create', {
+      patientId: pip.id,
+      values: { ...pipRadiographValues, agent: 'sevoflurane' },
+      meta: enteredByRw,
+    });
+    expect(record.values.agent).toBe('sevoflurane');
+    expect((await api.answer('procedures:get', { id: record.id })).record.values.agent).toBe('sevoflurane');
+    // Not given: the record does not name its agent (null), nothing is filled in for it.
+    const without = await api.answer('procedures:create', {
+      patientId: pip.id,
+      values: pipRadiographValues,
+      meta: enteredByRw,
+    });
+    expect(without.values.agent).toBeNull();
+    for (const agent of ['halothane', 'Sevoflurane', ''])
+      expect(
+        await api.refusal('procedures:create', {
+          patientId: pip.id,
+          values: { ...pipRadiographValues, agent },
+          meta: enteredByRw,
+        }),
+      ).toMatchObject({
+        code: 'invalid-request',
+        field: 'values.agent',
+        message: 'Choose the anaesthetic agent given: isoflurane, sevoflurane or desflurane.',
+      });
+  });
+
+  it('procedures:correct changes a recorded agent with a reason, never removes it; an old record may stay without', async () => {
+    const { api, pip, record: older } = await withPipRecord();
+    const record = await api.answer('procedures:create', {
+      patientId: pip.id,
+      values: { ...pipRadiographValues, agent: 'sevoflurane' },
+      meta: enteredByRw,
+    });
+    const corrected = await api.answer('procedures:correct', {
+      id: record.id,
+      values: { ...pipRadiographValues, agent: 'isoflurane' },
+      meta: correctionBy('RW', 'Isoflurane vaporiser was on the machine'),
+    });
+    expect(corrected.values.agent).toBe('isoflurane');
+    expect((await api.answer('procedures:history', { id: record.id })).map((v) => v.values.agent)).toEqual([
+      'isoflurane',
+      'sevoflurane',
+    ]);
+    expect(
+      await api.refusal('procedures:correct', {
+        id: record.id,
+        values: { ...pipRadiographValues, agent: null },
+        meta: correctionBy('RW', 'Not sure'),
+      }),
+    ).toEqual({
+      code: 'invalid-request',
+      field: 'values.agent',
+      message:
+        'The record names Isoflurane as the agent given; choose the agent given (a recorded agent can be corrected, not removed).',
+    });
+    // A record that never named its agent is corrected without one, or given one.
+    const kept = await api.answer('procedures:correct', {
+      id: older.id,
+      values: { ...pipRadiographValues, procedureName: 'Wing radiographs' },
+      meta: correctionBy('RW', 'Both wings'),
+    });
+    expect(kept.values.agent).toBeNull();
+    const named = await api.answer('procedures:correct', {
+      id: older.id,
+      values: { ...pipRadiographValues, agent: 'desflurane' },
+      meta: correctionBy('RW', 'Agent found on the paper sheet'),
+    });
+    expect(named.values.agent).toBe('desflurane');
+  });
+
   it('procedures:create names the airway field when the airway is not one of the four, and needs a patient', async () => {
     const { api, pip } = await withPipRecord();
     const airway = await api.refusal('procedures:create', {
@@ -157,22 +231,49 @@ describe('procedure record channels', () => {
     const exported = await api.answer('procedures:export-csv', { id: record.id });
     expect(exported.fileName).toBe(`tidewing-procedure-${record.id}-Pip-2026-12-01.csv`);
     const lines = exported.csv.split('\r\n');
-    expect(lines.slice(0, 8)).toEqual([
+    expect(lines.slice(0, 9)).toEqual([
       'patient,Pip',
       'species,Budgerigar',
       'procedure,Wing radiograph',
       `started,${wallClock('2026-12-01T10:00:00.000Z')}`,
       'ASA grade,2',
       'airway,mask',
+      // Pip's record does not name its agent (as every record made before records carried one).
+      'agent,not recorded',
       'staff,RW',
       '',
     ]);
     // A header holding a comma is quoted (RFC 4180).
-    expect(lines[8]).toBe(procedureCsvHeaders.map((h) => (h.includes(',') ? `"${h}"` : h)).join(','));
-    expect(lines.slice(9)).toEqual([
-      `${wallClock('2026-12-01T10:01:00.000Z')},1,event,,,,,,,,Induction,"Smooth, no struggling",,,RW,${wallClock('2026-12-01T10:05:30.000Z')},no`,
-      `${wallClock('2026-12-01T10:05:00.000Z')},5,vitals,2,1,420,40,40.1,,,,,,,RW,${wallClock('2026-12-01T10:05:30.000Z')},no`,
+    expect(lines[9]).toBe(procedureCsvHeaders.map((h) => (h.includes(',') ? `"${h}"` : h)).join(','));
+    expect(lines.slice(10)).toEqual([
+      `${wallClock('2026-12-01T10:01:00.000Z')},1,event,,,,,,,,,Induction,"Smooth, no struggling",,,RW,,${wallClock('2026-12-01T10:05:30.000Z')},no`,
+      `${wallClock('2026-12-01T10:05:00.000Z')},5,vitals,,2,1,420,40,40.1,,,,,,,RW,,${wallClock('2026-12-01T10:05:30.000Z')},no`,
       '',
+    ]);
+  });
+
+  it('procedures:export-csv names the record’s agent and each row’s workstation', async () => {
+    const { api, pip } = await withPipRecord();
+    const record = await api.answer('procedures:create', {
+      patientId: pip.id,
+      values: { ...pipRadiographValues, agent: 'sevoflurane' },
+      meta: enteredByRw,
+    });
+    await api.answer('entries:add', { recordId: record.id, values: pipInductionValues, meta: enteredByRw });
+    await api.answer('workstation:save', { name: 'Theatre 1' });
+    await api.answer('entries:add', { recordId: record.id, values: pipVitalsValues, meta: enteredByRw });
+    const exported = await api.answer('procedures:export-csv', { id: record.id });
+    const lines = exported.csv.split('\r\n');
+    expect(lines).toContain('agent,sevoflurane');
+    const header = lines.indexOf(procedureCsvHeaders.map((h) => (h.includes(',') ? `"${h}"` : h)).join(','));
+    const rows = lines.slice(header + 1, -1).map((line) => line.replace(/"[^"]*"/g, 'quoted').split(','));
+    const column = (name: (typeof procedureCsvHeaders)[number]) => procedureCsvHeaders.indexOf(name);
+    expect(
+      rows.map((row) => [row[column('kind')], row[column('agent')], row[column('workstation')]]),
+    ).toEqual([
+      // By the workstation's current name (the rows carry its id).
+      ['event', 'sevoflurane', 'Theatre 1'],
+      ['vitals', 'sevoflurane', 'Theatre 1'],
     ]);
   });
 

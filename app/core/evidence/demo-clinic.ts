@@ -4,9 +4,11 @@
  * measurement: the times of the events are made up so that the clinic's own evidence has
  * something to show. In this invented practice, cockatiels wake and stand later than the
  * population model says (x1.4), African greys a little later (x1.2), pigeons as predicted, and
- * the hens sooner (x0.8); induction is about as predicted. Seeded: the same seed and day give
- * the same clinic.
+ * the hens sooner (x0.8); induction is about as predicted. The practice runs its budgerigars
+ * and hens on sevoflurane and the other birds on isoflurane, and writes the agent on every
+ * record. Seeded: the same seed and day give the same clinic.
  */
+import { agentLabels, agents, type AgentId } from '../agents.js';
 import { computePlanCourse, type PlanTables } from '../model/compute-plan.js';
 import { seededRandom } from '../model/uncertainty.js';
 import type { EventType } from '../procedure-events.js';
@@ -25,6 +27,8 @@ type DemoSpecies = {
   readonly inductionFactor: number;
   readonly intubated: number;
   readonly flowLpm: number;
+  /** The agent this invented practice gives the species. */
+  readonly agent: AgentId;
 };
 
 const demoSpecies: readonly DemoSpecies[] = [
@@ -37,6 +41,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 1.1,
     intubated: 0.6,
     flowLpm: 0.8,
+    agent: 'isoflurane',
   },
   {
     key: 'budgerigar',
@@ -47,6 +52,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 1.0,
     intubated: 0,
     flowLpm: 0.5,
+    agent: 'sevoflurane',
   },
   {
     key: 'african-grey-parrot',
@@ -57,6 +63,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 0.9,
     intubated: 0.9,
     flowLpm: 1,
+    agent: 'isoflurane',
   },
   {
     key: 'domestic-pigeon',
@@ -67,6 +74,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 1.0,
     intubated: 0.8,
     flowLpm: 1,
+    agent: 'isoflurane',
   },
   {
     key: 'chicken',
@@ -77,6 +85,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 1.0,
     intubated: 1,
     flowLpm: 1.5,
+    agent: 'sevoflurane',
   },
   {
     key: 'blue-fronted-amazon',
@@ -87,6 +96,7 @@ const demoSpecies: readonly DemoSpecies[] = [
     inductionFactor: 1.0,
     intubated: 1,
     flowLpm: 1,
+    agent: 'isoflurane',
   },
 ];
 
@@ -118,6 +128,8 @@ export type DemoRecord = {
   readonly endedAt: string;
   readonly procedureName: string;
   readonly airway: Route;
+  /** The agent given, written on the record. */
+  readonly agent: AgentId;
   readonly staffInitials: string;
   readonly entries: readonly DemoEntry[];
 };
@@ -171,7 +183,10 @@ export function generateDemoClinic(seed: number, endDay: string, tables: PlanTab
       const dayOffset = 1 + Math.floor(random() * 179);
       const startMs = endMs - dayOffset * 86_400_000 + (8 * 60 + Math.floor(random() * 480)) * minute;
       const intubated = random() < species.intubated;
-      const inductionDial = 4 + Math.round(random() * 2) / 2;
+      // Dials in the agent's own potency: isoflurane's scaled by the ratio of the fallback MACs
+      // (in steps of 0.5 and 0.25 %, at most 8 %: the usual vaporiser's top mark).
+      const potency = agents[species.agent].fallbackMacPct.value / agents.isoflurane.fallbackMacPct.value;
+      const inductionDial = Math.min(8, Math.round((4 + Math.round(random() * 2) / 2) * potency * 2) / 2);
       const maintenanceMin = 15 + Math.floor(random() * 40);
       const gasOnMs = startMs + 2 * minute;
       const flow = species.flowLpm;
@@ -199,7 +214,7 @@ export function generateDemoClinic(seed: number, endDay: string, tables: PlanTab
         eventType,
       });
       entries.push(vitals(gasOnMs, inductionDial));
-      const maintenanceDial = 2 + Math.round(random() * 4) / 4;
+      const maintenanceDial = Math.round((2 + Math.round(random() * 4) / 4) * potency * 4) / 4;
       for (let at = 5; at <= maintenanceMin; at += 5)
         entries.push(
           vitals(
@@ -214,7 +229,12 @@ export function generateDemoClinic(seed: number, endDay: string, tables: PlanTab
         endedAtMs: null,
         airway: intubated ? 'endotracheal' : 'mask',
         circuit: 'nonRebreathing',
-        bird: { bodyMassG: patient.massG, speciesId: species.key, agent: 'isoflurane', agentBasis: 'demo' },
+        bird: {
+          bodyMassG: patient.massG,
+          speciesId: species.key,
+          agent: species.agent,
+          agentBasis: `${agentLabels[species.agent]}, logged on the record`,
+        },
         entries: intubated ? [...entries, event(gasOnMs + 4 * minute, 'intubation')] : entries,
       };
       const plan = planInputFromLog(log);
@@ -246,6 +266,7 @@ export function generateDemoClinic(seed: number, endDay: string, tables: PlanTab
         endedAt: new Date(Math.round(endedMs / minute) * minute).toISOString(),
         procedureName: procedures[Math.floor(random() * procedures.length)] as string,
         airway: intubated ? 'endotracheal' : 'mask',
+        agent: species.agent,
         staffInitials: staff[Math.floor(random() * staff.length)] as string,
         entries: entries
           .sort((a, b) => a.atMs - b.atMs)

@@ -32,7 +32,7 @@ export type LogBird = {
   readonly bodyMassG: number;
   readonly speciesId?: string | undefined;
   readonly agent: AgentId;
-  /** Where the agent came from: the linked plan, or the clinic's default agent. */
+  /** Where the agent came from: logged on the record, else the linked plan or the clinic's default agent. */
   readonly agentBasis: string;
   readonly macPct?: number | undefined;
 };

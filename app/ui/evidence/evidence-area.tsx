@@ -253,7 +253,7 @@ function EvidenceTable({
               <th scope="col">Record</th>
               <th scope="col">Day</th>
               <th scope="col">Bird</th>
-              <th scope="col">Airway, staff</th>
+              <th scope="col">Agent, airway, staff</th>
               <th scope="col">Observed (min)</th>
               <th scope="col">Predicted (min)</th>
               <th scope="col">Observed / predicted</th>
@@ -273,7 +273,7 @@ function EvidenceTable({
                     {row.patientName} ({row.speciesName})
                   </td>
                   <td>
-                    {row.airway}, {row.staffInitials}
+                    {agentLabels[row.agent]}, {row.airway}, {row.staffInitials}
                   </td>
                   {row.skipped !== null ? (
                     <td colSpan={3}>Skipped: {row.skipped}</td>

@@ -56,6 +56,64 @@ export function TextBox({
   );
 }
 
+type SelectBoxProps<T extends string> = {
+  readonly label: string;
+  readonly name: string;
+  readonly options: readonly { readonly value: T; readonly label: string }[];
+  readonly value: T;
+  readonly error: string | undefined;
+  readonly hint?: ReactNode;
+  readonly onChange: (value: T) => void;
+};
+
+/** A labelled drop-down list (arrow keys and typing a letter choose) with its hint and error. */
+export function SelectBox<T extends string>({
+  label,
+  name,
+  options,
+  value,
+  error,
+  hint,
+  onChange,
+}: SelectBoxProps<T>) {
+  const id = useId();
+  const describedBy = [error !== undefined ? `${id}-error` : '', hint !== undefined ? `${id}-hint` : '']
+    .join(' ')
+    .trim();
+  return (
+    <div className="field">
+      <label htmlFor={id}>{label}</label>
+      <select
+        id={id}
+        name={name}
+        value={value}
+        aria-invalid={error !== undefined}
+        aria-describedby={describedBy === '' ? undefined : describedBy}
+        onChange={(event) => {
+          const chosen = options.find((option) => option.value === event.target.value);
+          if (chosen !== undefined) onChange(chosen.value);
+        }}
+      >
+        {options.map((option) => (
+          <option key={option.value} value={option.value}>
+            {option.label}
+          </option>
+        ))}
+      </select>
+      {hint !== undefined && (
+        <p className="hint" id={`${id}-hint`}>
+          {hint}
+        </p>
+      )}
+      {error !== undefined && (
+        <p className="field-error" id={`${id}-error`} role="alert">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
 type RadioGroupProps<T extends string | number> = {
   readonly legend: string;
   readonly name: string;

@@ -12,7 +12,7 @@ import { toLocalInputValue } from './clock-time.js';
 import { useInitialsGate } from '../common/initials-gate.js';
 import { RecordDetailsFields } from './record-details-fields.js';
 import { checkRecordDraft, emptyRecordDraft, type RecordDraft } from './record-form.js';
-import { plannedPhasesNote, withLinkedPlan } from './linked-plan.js';
+import { plannedPhasesNote, recordAgentHint, withLinkedPlan } from './linked-plan.js';
 
 function PatientPicker() {
   const [query, setQuery] = useState('');
@@ -61,11 +61,12 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
   const settings = useClinicSettings();
   const [patient] = useChannel('patients:get', { id: patientId });
   const [draft, setDraft] = useState<RecordDraft>(() =>
-    emptyRecordDraft(toLocalInputValue(new Date()), initials),
+    emptyRecordDraft(toLocalInputValue(new Date()), initials, settings.defaultAgent),
   );
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const [linkedPlan, setLinkedPlan] = useState<PlanSummary | null>(null);
   const { gate, withInitials } = useInitialsGate();
 
   function update<K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) {
@@ -135,15 +136,21 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
           error={errors['planId']}
           onChoose={(plan, previous) => {
             setErrors(({ planId: _plan, ...rest }) => rest);
+            setLinkedPlan(plan);
             // The record follows the linked plan: the airway and breathing system of the phase it
             // starts on replace what an earlier plan put there (change them here after choosing).
             setDraft((current) => ({
-              ...withLinkedPlan(current, plan, previous),
+              ...withLinkedPlan(current, plan, previous, settings.defaultAgent),
               planId: plan === null ? null : plan.id,
             }));
           }}
         />
-        <RecordDetailsFields draft={draft} errors={errors} update={update} />
+        <RecordDetailsFields
+          draft={draft}
+          errors={errors}
+          update={update}
+          agentHint={recordAgentHint(draft.agent, linkedPlan, settings.defaultAgent)}
+        />
         {gate}
         <div className="form-actions">
           <button type="submit" className="primary" disabled={busy}>

@@ -224,6 +224,14 @@ export function PrintedRecord({
               </td>
             </tr>
             <tr>
+              <th scope="row">Agent</th>
+              <td>
+                {values.agent === null
+                  ? 'not recorded (the record was made before records named their agent)'
+                  : agents[values.agent].displayName}
+              </td>
+            </tr>
+            <tr>
               <th scope="row">Before induction</th>
               <td>
                 Fasting: {values.fasting === '' ? 'not recorded' : values.fasting} · crop {values.cropChecked}

@@ -7,7 +7,14 @@ import { useChannel } from '../common/use-channel.js';
 import { useChangeNotices } from '../common/use-change-notices.js';
 import { TextBox } from './fields.js';
 import { RecordDetailsFields } from './record-details-fields.js';
-import { airwayText, asaText, checkRecordDraft, recordToDraft, type RecordDraft } from './record-form.js';
+import {
+  agentText,
+  airwayText,
+  asaText,
+  checkRecordDraft,
+  recordToDraft,
+  type RecordDraft,
+} from './record-form.js';
 
 function sameDetails<T>(a: T, b: T): boolean {
   return JSON.stringify(a) === JSON.stringify(b);
@@ -63,7 +70,7 @@ export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClo
 
   async function submit(event: FormEvent) {
     event.preventDefault();
-    const checked = checkRecordDraft(draft);
+    const checked = checkRecordDraft(draft, { agentMayStayUnrecorded: base.agent === null });
     const found: Record<string, string> = checked.ok ? {} : { ...checked.errors };
     if (reason.trim() === '')
       found['reason'] = 'Say why the record is corrected; the reason is kept with the history.';
@@ -103,7 +110,17 @@ export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClo
             (your changes here are then dropped)
           </p>
         )}
-        <RecordDetailsFields draft={draft} errors={errors} update={update} />
+        <RecordDetailsFields
+          draft={draft}
+          errors={errors}
+          update={update}
+          agentMayStayUnrecorded={base.agent === null}
+          agentHint={
+            base.agent === null
+              ? 'This record was made before records named their agent; choose it only if you know it.'
+              : undefined
+          }
+        />
         <TextBox
           label="Reason for the correction"
           name="reason"
@@ -132,8 +149,8 @@ export function RecordDetailsEditor({ recordId, versionId, values, onSave, onClo
             <li key={version.stamp.versionId}>
               {displayDateTime(version.stamp.enteredAt)} by {version.stamp.enteredBy}
               {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`} ·{' '}
-              {version.values.procedureName}, ASA {asaText(version.values)}, {airwayText(version.values)},
-              staff {version.values.staffInitials}
+              {version.values.procedureName}, ASA {asaText(version.values)}, {airwayText(version.values)},{' '}
+              {agentText(version.values.agent)}, staff {version.values.staffInitials}
             </li>
           ))}
         </ol>

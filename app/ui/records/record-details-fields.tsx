@@ -1,18 +1,32 @@
 import { useId } from 'react';
 import { cropStates, tubeTypes } from '../../contract/records.js';
+import { agentIds, agentLabels } from '../../core/agents.js';
 import { circuitLabels, circuits, routeLabels, routes } from '../../core/delivery.js';
 import type { FieldErrors } from '../common/field-errors.js';
-import { RadioGroup, TextBox } from './fields.js';
+import { RadioGroup, SelectBox, TextBox } from './fields.js';
 import { airwayHasTube, tubeTypeLabels, type RecordDraft } from './record-form.js';
 
 type Props = {
   readonly draft: RecordDraft;
   readonly errors: FieldErrors;
   readonly update: <K extends keyof RecordDraft>(key: K, value: RecordDraft[K]) => void;
+  /**
+   * Offer "not recorded" for the agent: only when correcting a record made before records
+   * carried an agent, so that it may stay as it was rather than be guessed.
+   */
+  readonly agentMayStayUnrecorded?: boolean;
+  /** Where the agent shown comes from, e.g. "From the linked plan.". */
+  readonly agentHint?: string;
 };
 
 /** The fields of a procedure record, shared by the new-record form and the correction form. */
-export function RecordDetailsFields({ draft, errors, update }: Props) {
+export function RecordDetailsFields({
+  draft,
+  errors,
+  update,
+  agentMayStayUnrecorded = false,
+  agentHint,
+}: Props) {
   const emergencyId = useId();
   return (
     <>
@@ -73,6 +87,20 @@ export function RecordDetailsFields({ draft, errors, update }: Props) {
         value={draft.cropChecked}
         error={errors['cropChecked']}
         onChange={(value) => update('cropChecked', value)}
+      />
+      <SelectBox
+        label="Anaesthetic agent"
+        name="agent"
+        options={[
+          ...(agentMayStayUnrecorded || draft.agent === ''
+            ? [{ value: '' as const, label: 'not recorded' }]
+            : []),
+          ...agentIds.map((value) => ({ value, label: agentLabels[value] })),
+        ]}
+        value={draft.agent}
+        error={errors['agent']}
+        hint={agentHint}
+        onChange={(value) => update('agent', value)}
       />
       <RadioGroup
         legend="Airway"

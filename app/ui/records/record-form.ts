@@ -1,8 +1,10 @@
+import { agentLabels, type AgentId } from '../../core/agents.js';
 import type { Circuit, Route } from '../../core/delivery.js';
 import { routeLabels } from '../../core/delivery.js';
 import {
   cropStates,
   procedureRecordValuesSchema,
+  recordAgentMessage,
   tubeTypes,
   type ProcedureRecordValues,
 } from '../../contract/records.js';
@@ -26,6 +28,8 @@ export type RecordDraft = {
   readonly tubeSizeMm: string;
   readonly tubeType: (typeof tubeTypes)[number];
   readonly circuit: Circuit | '';
+  /** The anaesthetic agent given; '' only for a record made before records carried one. */
+  readonly agent: AgentId | '';
   readonly staffInitials: string;
   readonly promptIntervalMin: string;
   /** The saved anaesthetic plan this procedure follows, if any. */
@@ -33,11 +37,17 @@ export type RecordDraft = {
 };
 
 /**
- * A blank form: start now, not graded, crop not checked, reminder every 5 minutes.
+ * A blank form: start now, not graded, crop not checked, reminder every 5 minutes, the clinic's
+ * default agent (a linked plan's agent replaces it: `withLinkedPlan`).
  * @param startedAtLocal `datetime-local` value for the start, normally the current minute
  * @param staffInitials the initials of the person at the keyboard, possibly blank
+ * @param defaultAgent the clinic's default agent
  */
-export function emptyRecordDraft(startedAtLocal: string, staffInitials: string): RecordDraft {
+export function emptyRecordDraft(
+  startedAtLocal: string,
+  staffInitials: string,
+  defaultAgent: AgentId,
+): RecordDraft {
   return {
     procedureName: '',
     startedAtLocal,
@@ -49,6 +59,7 @@ export function emptyRecordDraft(startedAtLocal: string, staffInitials: string):
     tubeSizeMm: '',
     tubeType: '',
     circuit: '',
+    agent: defaultAgent,
     staffInitials,
     promptIntervalMin: String(defaultPromptIntervalMin),
     planId: null,
@@ -62,10 +73,12 @@ export function airwayHasTube(airway: RecordDraft['airway']): boolean {
 
 /**
  * Checks the typed form with the contract's schema and returns the values to send, or a message
- * per field. Tube size and type are kept only for an airway that has a tube.
+ * per field. Tube size and type are kept only for an airway that has a tube. The agent must be
+ * chosen, except when correcting a record that never named one (`agentMayStayUnrecorded`).
  */
 export function checkRecordDraft(
   draft: RecordDraft,
+  options: { readonly agentMayStayUnrecorded?: boolean } = {},
 ):
   | { readonly ok: true; readonly values: ProcedureRecordValues }
   | { readonly ok: false; readonly errors: FieldErrors } {
@@ -77,6 +90,7 @@ export function checkRecordDraft(
   const interval = parseNumber(draft.promptIntervalMin);
   if (interval === 'invalid' || interval === null)
     errors['promptIntervalMin'] = 'Prompt interval must be a number of minutes, 1 to 30.';
+  if (draft.agent === '' && options.agentMayStayUnrecorded !== true) errors['agent'] = recordAgentMessage;
   const candidate = {
     planId: draft.planId,
     startedAt: startedAt ?? '',
@@ -90,6 +104,7 @@ export function checkRecordDraft(
     tubeSizeMm: size === 'invalid' ? null : size,
     tubeType: draft.airway === 'endotracheal' ? draft.tubeType : '',
     circuit: draft.circuit === '' ? undefined : draft.circuit,
+    agent: draft.agent === '' ? null : draft.agent,
     staffInitials: draft.staffInitials,
     promptIntervalMin: typeof interval === 'number' ? interval : undefined,
   };
@@ -118,6 +133,11 @@ export function airwayText(
   return `${routeLabels[values.airway]}${size}${type}`;
 }
 
+/** The record's agent as the record shows it: its name, or that the record does not say. */
+export function agentText(agent: AgentId | null): string {
+  return agent === null ? 'agent not recorded' : agentLabels[agent];
+}
+
 /** ASA grade as written on records: 1-5 with E for emergency. */
 export function asaText(values: Pick<ProcedureRecordValues, 'asaGrade' | 'emergency'>): string {
   if (values.asaGrade === null) return values.emergency ? 'not graded (E)' : 'not graded';
@@ -137,6 +157,7 @@ export function recordToDraft(values: ProcedureRecordValues): RecordDraft {
     tubeSizeMm: values.tubeSizeMm === null ? '' : String(values.tubeSizeMm),
     tubeType: values.tubeType,
     circuit: values.circuit,
+    agent: values.agent ?? '',
     staffInitials: values.staffInitials,
     promptIntervalMin: String(values.promptIntervalMin),
     planId: values.planId,

@@ -5,7 +5,7 @@ import { displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useId, useState, type FormEvent } from 'react';
 import { clockMinutesText, clockText, formatElapsed, resolveClockTime } from './clock-time.js';
-import { airwayText, asaText } from './record-form.js';
+import { agentText, airwayText, asaText } from './record-form.js';
 
 /**
  * The head of the live record: the bird, the procedure's facts, the elapsed (or total) time, and
@@ -43,6 +43,7 @@ export function RecordHeader({
           <span>ASA {asaText(values)}</span>
           <span>{airwayText(values)}</span>
           <span>{circuitLabels[values.circuit]}</span>
+          <span>{agentText(values.agent)}</span>
           <span>
             {latestMassG === null
               ? 'no weight recorded'

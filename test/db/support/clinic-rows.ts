@@ -50,6 +50,7 @@ export const cropBiopsy: ProcedureRecordValues = {
   tubeSizeMm: null,
   tubeType: '',
   circuit: 'nonRebreathing',
+  agent: 'isoflurane',
   staffInitials: 'RW',
   promptIntervalMin: 5,
 };

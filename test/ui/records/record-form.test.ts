@@ -1,14 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import {
+  agentText,
   airwayText,
   asaText,
   checkRecordDraft,
   emptyRecordDraft,
+  recordToDraft,
   type RecordDraft,
 } from '../../../app/ui/records/record-form.js';
 
 const filled: RecordDraft = {
-  ...emptyRecordDraft('2026-03-10T09:00', 'RW'),
+  ...emptyRecordDraft('2026-03-10T09:00', 'RW', 'isoflurane'),
   procedureName: 'Beak trim',
   airway: 'endotracheal',
   tubeSizeMm: '2.5',
@@ -19,7 +21,7 @@ const filled: RecordDraft = {
 
 describe('new procedure record form', () => {
   it('names every missing field of an empty form', () => {
-    const checked = checkRecordDraft(emptyRecordDraft('2026-03-10T09:00', ''));
+    const checked = checkRecordDraft(emptyRecordDraft('2026-03-10T09:00', '', 'isoflurane'));
     expect(checked.ok).toBe(false);
     if (!checked.ok) {
       expect(checked.errors).toMatchObject({
@@ -33,7 +35,7 @@ describe('new procedure record form', () => {
 
   it('defaults the reminder to 5 minutes and sends a filled form in contract form', () => {
     // Vital signs recorded at least every 5 min: common practice.
-    expect(emptyRecordDraft('2026-03-10T09:00', 'RW').promptIntervalMin).toBe('5');
+    expect(emptyRecordDraft('2026-03-10T09:00', 'RW', 'isoflurane').promptIntervalMin).toBe('5');
     const checked = checkRecordDraft(filled);
     expect(checked.ok).toBe(true);
     if (checked.ok) {
@@ -46,6 +48,7 @@ describe('new procedure record form', () => {
         promptIntervalMin: 5,
         planId: null,
         endedAt: null,
+        agent: 'isoflurane',
       });
       expect(checked.values.startedAt).toBe(new Date(2026, 2, 10, 9, 0).toISOString());
     }
@@ -64,6 +67,46 @@ describe('new procedure record form', () => {
       expect(checked.errors['promptIntervalMin']).toBe('Prompt interval is 1 to 30 minutes.');
       expect(checked.errors['tubeSizeMm']).toBe('Tube size must be a number in mm.');
     }
+  });
+
+  it('starts on the clinic default agent, sends the one chosen, and asks for one when none is chosen', () => {
+    expect(emptyRecordDraft('2026-03-10T09:00', 'RW', 'sevoflurane').agent).toBe('sevoflurane');
+    const chosen = checkRecordDraft({ ...filled, agent: 'sevoflurane' });
+    expect(chosen.ok && chosen.values.agent).toBe('sevoflurane');
+    const none = checkRecordDraft({ ...filled, agent: '' });
+    expect(none.ok).toBe(false);
+    if (!none.ok)
+      expect(none.errors['agent']).toBe(
+        'Choose the anaesthetic agent given: isoflurane, sevoflurane or desflurane.',
+      );
+  });
+
+  it('lets a record made before records named their agent keep none when corrected', () => {
+    const older = checkRecordDraft({ ...filled, agent: '' }, { agentMayStayUnrecorded: true });
+    expect(older.ok).toBe(true);
+    const draft = recordToDraft({
+      planId: null,
+      startedAt: '2026-03-10T09:00:00.000Z',
+      endedAt: null,
+      asaGrade: null,
+      emergency: false,
+      procedureName: 'Beak trim',
+      fasting: '',
+      cropChecked: 'not checked',
+      airway: 'mask',
+      tubeSizeMm: null,
+      tubeType: '',
+      circuit: 'circle',
+      agent: null,
+      staffInitials: 'RW',
+      promptIntervalMin: 5,
+    });
+    expect(draft.agent).toBe('');
+    const kept = checkRecordDraft(draft, { agentMayStayUnrecorded: true });
+    expect(kept.ok && kept.values.agent).toBeNull();
+    expect(checkRecordDraft(draft).ok).toBe(false);
+    expect(agentText(null)).toBe('agent not recorded');
+    expect(agentText('desflurane')).toBe('Desflurane');
   });
 
   it('writes the airway and ASA grade as a record shows them', () => {
