@@ -62,6 +62,7 @@ export function createEvidenceBackfill(
     let lastStore = performance.now();
     let lastNotice = performance.now();
     let readySinceNotice = 0;
+    const failed: string[] = [];
     const flush = async () => {
       if (unstored.length > 0) await rows.store(unstored);
       storedRows += unstored.length;
@@ -83,7 +84,14 @@ export function createEvidenceBackfill(
       for (const target of chunk) {
         if (stopped) break;
         if (adopted.has(target.recordId)) continue;
-        const computed = await rows.compute(target, state);
+        let computed: Awaited<ReturnType<EvidenceRows['compute']>> = null;
+        try {
+          computed = await rows.compute(target, state);
+        } catch (error) {
+          // One record that cannot be read now stays pending; the others go on.
+          if (stopped) break;
+          failed.push(`${target.recordId} (${error instanceof Error ? error.message : String(error)})`);
+        }
         if (computed !== null) unstored.push(computed);
         if (unstored.length >= storeEveryRows || performance.now() - lastStore >= storeEveryMs) await flush();
         if (performance.now() - sliceStart >= sliceMs) {
@@ -95,6 +103,10 @@ export function createEvidenceBackfill(
     }
     await flush();
     if (readySinceNotice > 0 || storedRows > 0) options.publish({ kind: 'evidence' });
+    if (failed.length > 0)
+      options.log?.(
+        `The clinic view could not compare ${String(failed.length)} ${failed.length === 1 ? 'record' : 'records'} with the model; they stay counted as still being compared: record ${failed.slice(0, 5).join(', ')}${failed.length > 5 ? ', …' : ''}.`,
+      );
     return storedRows;
   }
 

@@ -182,7 +182,16 @@ export function createEvidenceRows(now: () => Date, clinic: ClinicDb) {
         extubationMin: null,
         notes: [],
       };
-    const compared = recordEvidence(logged.log, tables);
+    let compared: ReturnType<typeof recordEvidence>;
+    try {
+      compared = recordEvidence(logged.log, tables);
+    } catch (error) {
+      // One log the model cannot run must not hold back every other record: listed, skipped with why.
+      compared = {
+        ok: false,
+        skipped: `the model could not run on this log (${error instanceof Error ? error.message : String(error)})`,
+      };
+    }
     return {
       ...base,
       agentBasis: logged.log.bird.agentBasis,
