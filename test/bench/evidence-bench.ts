@@ -102,10 +102,13 @@ export async function benchEvidence(): Promise<Figure[]> {
   let records = 0;
   const open = async (backEnd: { dispatch: ReturnType<typeof startBackEnd>['dispatch'] }) => {
     const started = performance.now();
+    const cpu = process.cpuUsage();
     const answer = await backEnd.dispatch('evidence:list', {});
     const ms = performance.now() - started;
+    const used = process.cpuUsage(cpu);
     if (!answer.ok) throw new Error(JSON.stringify(answer.error));
-    return { ms, list: answer.value as EvidenceList };
+    // CPU time of this process too: on a shared, busy machine the wall time also counts waiting for a core.
+    return { ms, cpuMs: (used.user + used.system) / 1000, list: answer.value as EvidenceList };
   };
   const start = () =>
     startBackEnd({ dataDirectory: folder, appVersion: 'bench', host: 'browser', evidenceBackfill: 'manual' });
@@ -151,6 +154,7 @@ export async function benchEvidence(): Promise<Figure[]> {
           unit: 'ms',
           note: 'target: under 200 ms (reads only; every record counted as still being compared)',
         },
+        { name: '  the same open, CPU time of the back end', value: first.cpuMs, unit: 'ms' },
         {
           name: `clinic view back-fill, ${records} records`,
           value: backfillMs,
@@ -169,6 +173,7 @@ export async function benchEvidence(): Promise<Figure[]> {
           unit: 'ms',
           note: 'target: under 200 ms',
         },
+        { name: '  the same open, CPU time of the back end', value: full.cpuMs, unit: 'ms' },
         {
           name: `response schema check of the ${records}-row answer`,
           value: check,
@@ -190,6 +195,11 @@ export async function benchEvidence(): Promise<Figure[]> {
         value: afterRestart.ms,
         unit: 'ms',
         note: 'target: under 200 ms (rows read from the stored cache)',
+      });
+      figures.push({
+        name: '  the same open, CPU time of the back end',
+        value: afterRestart.cpuMs,
+        unit: 'ms',
       });
     } finally {
       restarted.close();
