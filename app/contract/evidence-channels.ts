@@ -148,6 +148,13 @@ export const evidenceListSchema = z.object({
     excluded: count,
     /** Records still running (no end), not shown. */
     inProgress: count,
+    /**
+     * Completed records whose row is still being computed (after an upgrade, a species edit or
+     * records that ended before rows were kept): not in `rows` nor in the counts above. The whole
+     * clinic's, whatever the filter (their species, agent and staff are not known before); for a
+     * `recordId` filter, 1 when that record is the one waiting.
+     */
+    pending: count,
   }),
 });
 export type EvidenceList = z.infer<typeof evidenceListSchema>;
@@ -188,6 +195,8 @@ export const calibrationSchema = z.object({
   ),
   /** Every record that went in, with the milestones it gave. */
   recordsIn: z.array(z.object({ recordId: z.number().int(), milestones: z.array(milestoneIdSchema) })),
+  /** Completed records still being compared with the model: not in these figures yet. */
+  pending: count,
 });
 export type CalibrationView = z.infer<typeof calibrationSchema>;
 
@@ -205,7 +214,13 @@ export const evidenceChannels = {
   'evidence:list': { request: evidenceFilterSchema, response: evidenceListSchema },
   'evidence:export-csv': {
     request: evidenceFilterSchema,
-    response: z.object({ fileName: z.string(), csv: z.string(), rows: count }),
+    response: z.object({
+      fileName: z.string(),
+      csv: z.string(),
+      rows: count,
+      /** Completed records still being compared, not in the file (see `counts.pending`). */
+      pending: count,
+    }),
   },
   'evidence:calibration': { request: z.object({}).strict(), response: calibrationSchema },
   'evidence:exclude': {

@@ -26,6 +26,16 @@ export function createEvidenceCacheRepository(sql: Sql) {
         .execute();
       return new Map(rows.map((row) => [row.record_id, { key: row.cache_key, rowJson: row.row_json }]));
     },
+    /** The stored rows of these records (those that have one), e.g. rows another workstation stored. */
+    async rowsFor(recordIds: readonly number[]): Promise<Map<number, CachedEvidenceRow>> {
+      if (recordIds.length === 0) return new Map();
+      const rows = await db
+        .selectFrom('evidence_prediction_cache')
+        .select(['record_id', 'cache_key', 'row_json'])
+        .where('record_id', 'in', recordIds)
+        .execute();
+      return new Map(rows.map((row) => [row.record_id, { key: row.cache_key, rowJson: row.row_json }]));
+    },
     /** Stores (or replaces) computed rows in one transaction; false when the database refused the write. */
     async store(
       rows: readonly { recordId: number; key: string; rowJson: string }[],

@@ -106,11 +106,17 @@ export function createEvidenceRepository(sql: Sql) {
     /**
      * For every record, what its evidence depends on (newest record version, entries, weights,
      * patient version: rows are only ever added, so the newest ids change with every write),
-     * and whether it has ended. One query, so an unchanged clinic is checked without reading it.
+     * and whether it has ended. One query, so an unchanged clinic is checked without reading it;
+     * `only` narrows it to some records or one patient's.
      */
-    async recordFingerprints(): Promise<{ recordId: number; ended: boolean; key: string }[]> {
+    async recordFingerprints(
+      only: { readonly recordIds?: readonly number[]; readonly patientId?: number } = {},
+    ): Promise<{ recordId: number; ended: boolean; key: string }[]> {
+      if (only.recordIds !== undefined && only.recordIds.length === 0) return [];
       const rows = await db
         .selectFrom('procedure_records as r')
+        .$if(only.recordIds !== undefined, (query) => query.where('r.id', 'in', only.recordIds ?? []))
+        .$if(only.patientId !== undefined, (query) => query.where('r.patient_id', '=', only.patientId ?? 0))
         .innerJoin('procedure_record_versions as v', (join) =>
           join.on((eb) =>
             eb(

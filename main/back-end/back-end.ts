@@ -16,6 +16,7 @@ import { openCheckedPostgresClinic } from '../../db/postgres-checks.js';
 import type { AddressSource } from '../../db/postgres-options.js';
 import { workstationIdentity } from './workstation-identity.js';
 import { backEndApplicationName, listenForChanges } from '../../db/change-listener.js';
+import type { EvidenceBackfill, EvidenceBackfillMode } from './evidence-backfill.js';
 
 export type BackEnd = {
   readonly db: TidewingDatabase;
@@ -38,6 +39,8 @@ export type BackEnd = {
   readonly ready: Promise<void>;
   /** Settles when the automatic backup made at start has finished (or was not asked for). */
   readonly backupSettled: Promise<string>;
+  /** The background computation of the clinic view's rows (see `BackEndOptions.evidenceBackfill`). */
+  readonly evidenceBackfill: EvidenceBackfill;
   close(): void;
 };
 
@@ -54,6 +57,14 @@ export type BackEndOptions = {
   readonly newClinic?: boolean;
   /** `--demo`: fill an empty clinic with the invented demo clinic (a clinic with patients is left alone). */
   readonly demoClinic?: boolean;
+  /**
+   * 'automatic' (the hosts): once the start-up writes and the automatic backup are done, the
+   * clinic view's rows of records that ended before they were kept, or whose rows went stale,
+   * are computed in the background. 'manual' (the default: tests, the bench, short commands):
+   * only when `evidenceBackfill.run()` is called. Either way a record's row is computed when it
+   * ends or is corrected.
+   */
+  readonly evidenceBackfill?: EvidenceBackfillMode;
 };
 
 /**
@@ -77,12 +88,14 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
   const db = openDatabase(file, options.openOptions);
   const clinic = sqliteClinicDb(db);
   const now = options.now ?? (() => new Date());
-  const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
+  const changes = createChangeSource(options.log);
+  const { handlers, workstationTheme, loadWorkstationTheme, evidenceBackfill } = createBackEndParts({
     clinic,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
     host: options.host,
     now,
+    ...evidenceOptions(options, changes),
   });
   const ready = startUpWrites(clinic, now(), options, loadWorkstationTheme);
   // A failure is answered by every dispatch and by the hosts that await `ready`; not unhandled.
@@ -105,7 +118,7 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
             `No automatic backup: the clinic database could not be prepared (${error instanceof Error ? error.message : String(error)}).`,
         )
       : Promise.resolve('No automatic backup was asked for.');
-  const changes = createChangeSource(options.log);
+  startBackfillWhenSettled(evidenceBackfill, ready, backupSettled);
   return {
     db,
     clinic,
@@ -116,7 +129,9 @@ export function startBackEnd(options: BackEndOptions): BackEnd {
     workstationTheme,
     ready,
     backupSettled,
+    evidenceBackfill,
     close: () => {
+      evidenceBackfill.stop();
       if (db.open) db.close();
     },
   };
@@ -148,6 +163,7 @@ export type StartedBackEnd = {
   readonly handlers: HandlerTable;
   readonly workstationTheme: () => ThemeChoice;
   readonly backupSettled: Promise<string>;
+  readonly evidenceBackfill: EvidenceBackfill;
   /** The database file, or the server address without its password. */
   readonly location: string;
   close(): Promise<void>;
@@ -177,6 +193,7 @@ export async function startBackEndOn(options: StartOptions): Promise<StartedBack
       handlers: started.handlers,
       workstationTheme: started.workstationTheme,
       backupSettled: started.backupSettled,
+      evidenceBackfill: started.evidenceBackfill,
       location: started.databaseFile,
       close: async () => {
         started.close();
@@ -200,18 +217,20 @@ export async function startBackEndOn(options: StartOptions): Promise<StartedBack
   );
   const clinic = opened.clinic;
   const now = options.now ?? (() => new Date());
-  const { handlers, workstationTheme, loadWorkstationTheme } = createBackEndParts({
+  const changes = createChangeSource(options.log);
+  const { handlers, workstationTheme, loadWorkstationTheme, evidenceBackfill } = createBackEndParts({
     clinic,
     appVersion: options.appVersion,
     dataDirectory: options.dataDirectory,
     host: options.host,
     now,
     databaseChoice: choice.source,
+    ...evidenceOptions(options, changes),
   });
   // As on SQLite (several workstations may start together; the seeding skips what another wrote first).
   const ready = startUpWrites(clinic, now(), options, loadWorkstationTheme);
   ready.catch(() => undefined);
-  const changes = createChangeSource(options.log);
+  startBackfillWhenSettled(evidenceBackfill, ready, Promise.resolve(''));
   // Other workstations' writes reach this one's screens through LISTEN/NOTIFY (migration 11).
   const listening = listenForChanges(opened.config, changes.publish, {
     ownApplicationName: applicationName,
@@ -227,12 +246,39 @@ export async function startBackEndOn(options: StartOptions): Promise<StartedBack
     handlers,
     workstationTheme,
     backupSettled: Promise.resolve(skipped),
+    evidenceBackfill,
     location: opened.location,
     close: async () => {
+      evidenceBackfill.stop();
+      await evidenceBackfill.idle();
       await listening.close();
       await clinic.close();
     },
   };
+}
+
+/** The back-fill's mode, where it tells the screens, and where it logs, from the start options. */
+function evidenceOptions(options: BackEndOptions, changes: ChangeSource) {
+  return {
+    evidenceBackfill: options.evidenceBackfill ?? 'manual',
+    publishChange: changes.publish,
+    ...(options.log === undefined ? {} : { log: options.log }),
+  } as const;
+}
+
+/**
+ * Starts the back-fill of the clinic view's rows once the start-up writes (and the backup made
+ * at start) are done; never when they failed. It only ever writes the evidence cache table.
+ */
+function startBackfillWhenSettled(
+  backfill: EvidenceBackfill,
+  ready: Promise<void>,
+  backupSettled: Promise<string>,
+): void {
+  void Promise.all([ready, backupSettled]).then(
+    () => backfill.start(),
+    () => undefined,
+  );
 }
 
 function describeSource(source: DatabaseChoiceSource): string {

@@ -11,6 +11,7 @@ import {
 } from '../../app/contract/evidence-channels.js';
 import { planInputSchema, type PlanInput } from '../../app/contract/plan.js';
 import { speciesToReference } from '../../app/contract/species-mapping.js';
+import type { AgentId } from '../../app/core/agents.js';
 import {
   calibrationPrior,
   fitMilestone,
@@ -65,8 +66,27 @@ function fingerprint(parts: readonly (string | number | null)[]): string {
   return parts.map((part) => String(part)).join('|');
 }
 
-/** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
-export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): EvidenceHandlerTable {
+/** What every row depends on besides its record: the species table and the default agent, as a key part. */
+type ClinicState = {
+  readonly tables: { species: ReturnType<typeof speciesToReference>[] };
+  readonly speciesByKey: ReadonlyMap<string, SpeciesRecord>;
+  readonly defaultAgent: AgentId;
+  readonly clinicKey: string;
+};
+type SpeciesRecord = Awaited<ReturnType<ReturnType<typeof createSpeciesRepository>['list']>>[number];
+
+/** A completed record whose row is missing or stale, with the key its row is to be stored under. */
+export type PendingRow = { readonly recordId: number; readonly key: string };
+
+/**
+ * The clinic view's rows (observed vs predicted per completed record), kept in
+ * evidence_prediction_cache: computed when a record ends or an ended record is corrected
+ * (`keep`), and for older or stale rows by the back-fill (`pendingRows`, `adopt`, `compute`,
+ * `store`), so the view only reads them (`readyRows`). Writes only the cache table, never a
+ * clinical table; a key is always read before the record it describes, so a row stored under a
+ * key never holds older data than the key says (a write in between makes it stale, not wrong).
+ */
+export function createEvidenceRows(now: () => Date, clinic: ClinicDb) {
   const evidence = createEvidenceRepository(clinic);
   const procedures = createProcedureRecordRepository(clinic);
   const entries = createProcedureEntryRepository(clinic);
@@ -80,138 +100,260 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
   // the stored cache (evidence_prediction_cache) at the first answer, kept here after.
   let cache: Map<number, { key: string; row: ComputedRow }> | null = null;
 
+  /** A stored row of this build's format (the format is in the key), or null; one that does not parse is computed again. */
+  function parsed(entry: { key: string; rowJson: string }): ComputedRow | null {
+    if (!entry.key.startsWith(`${rowFormat}|`)) return null;
+    try {
+      return JSON.parse(entry.rowJson) as ComputedRow;
+    } catch {
+      return null;
+    }
+  }
+
   async function loadCache(): Promise<Map<number, { key: string; row: ComputedRow }>> {
     const loaded = new Map<number, { key: string; row: ComputedRow }>();
     for (const [recordId, entry] of await stored.all()) {
-      // Only rows of this build's format are read (the format is in the key); one that does not
-      // parse is computed again.
-      if (!entry.key.startsWith(`${rowFormat}|`)) continue;
-      try {
-        loaded.set(recordId, { key: entry.key, row: JSON.parse(entry.rowJson) as ComputedRow });
-      } catch {
-        continue;
-      }
+      const row = parsed(entry);
+      if (row !== null) loaded.set(recordId, { key: entry.key, row });
     }
     return loaded;
   }
 
-  async function allRows(): Promise<{ rows: EvidenceRow[]; inProgress: number }> {
+  async function clinicState(): Promise<ClinicState> {
     const speciesList = await species.list();
-    const tables = { species: speciesList.map(speciesToReference) };
-    const speciesByKey = new Map(speciesList.map((entry) => [entry.key, entry]));
-    const exclusions = await evidence.exclusions();
     const defaultAgent = (await settings.get()).settings?.defaultAgent ?? 'isoflurane';
-    // Species edits and the default agent change every record's answer.
-    const clinicKey = fingerprint([
-      rowFormat,
-      modelVersion,
+    return {
+      tables: { species: speciesList.map(speciesToReference) },
+      speciesByKey: new Map(speciesList.map((entry) => [entry.key, entry])),
       defaultAgent,
-      speciesList.map((entry) => entry.stamp.versionId).join(','),
-    ]);
+      // Species edits and the default agent change every record's answer.
+      clinicKey: fingerprint([
+        rowFormat,
+        modelVersion,
+        defaultAgent,
+        speciesList.map((entry) => entry.stamp.versionId).join(','),
+      ]),
+    };
+  }
+
+  /** One completed record beside the model: the one computation of a row, for every path. */
+  async function computeRow(recordId: number, state: ClinicState): Promise<ComputedRow | null> {
+    const { tables, speciesByKey, defaultAgent } = state;
+    const record = await procedures.get(recordId);
+    if (record === null || record.values.endedAt === null) return null;
+    const patient = await patients.get(record.patientId);
+    if (patient === null) return null;
+    const speciesRecord = speciesByKey.get(patient.values.speciesKey);
+    const recordEntries = await entries.list(record.id);
+    const day = record.values.startedAt.slice(0, 10);
+    const patientWeights = await weights.list(patient.id);
+    const weight =
+      [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
+      patientWeights[0] ??
+      null;
+    const planRecord = record.values.planId === null ? null : await plans.get(record.values.planId);
+    const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
+    const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
+    const agentOf = recordAgentOf(record, planInput, defaultAgent);
+    const base = {
+      recordId: record.id,
+      patientId: patient.id,
+      patientName: patient.values.name,
+      speciesKey: patient.values.speciesKey,
+      speciesName: speciesRecord?.values.commonName ?? patient.values.speciesKey,
+      agent: agentOf.agent,
+      airway: record.values.airway,
+      staffInitials: record.values.staffInitials,
+      procedureName: record.values.procedureName,
+      startedAt: record.values.startedAt,
+      endedAt: record.values.endedAt,
+    };
+    const logged = recordLogOf(record, recordEntries, {
+      bodyMassG: weight?.values.massG ?? null,
+      speciesKey: patient.values.speciesKey,
+      plan: planInput,
+      defaultAgent,
+    });
+    if (!logged.ok)
+      return {
+        ...base,
+        agentBasis: agentOf.basis,
+        bodyMassG: null,
+        skipped: logged.missing,
+        milestones: [],
+        extubationMin: null,
+        notes: [],
+      };
+    let compared: ReturnType<typeof recordEvidence>;
+    try {
+      compared = recordEvidence(logged.log, tables);
+    } catch (error) {
+      // One log the model cannot run must not hold back every other record: listed, skipped with why.
+      compared = {
+        ok: false,
+        skipped: `the model could not run on this log (${error instanceof Error ? error.message : String(error)})`,
+      };
+    }
+    return {
+      ...base,
+      agentBasis: logged.log.bird.agentBasis,
+      bodyMassG: logged.log.bird.bodyMassG,
+      skipped: compared.ok ? null : compared.skipped,
+      milestones: compared.ok
+        ? compared.milestones.map((milestone) =>
+            'ratio' in milestone
+              ? { ...milestone, skipped: null }
+              : {
+                  id: milestone.id,
+                  observedMin: null,
+                  predictedMin: null,
+                  ratio: null,
+                  skipped: milestone.skipped,
+                },
+          )
+        : [],
+      extubationMin:
+        compared.ok && compared.extubationMin !== null && compared.extubationMin > 0
+          ? compared.extubationMin
+          : null,
+      notes: compared.ok ? [...compared.notes] : [],
+    };
+  }
+
+  /** Computes one pending row (kept in memory; `store` writes it); null when the record has no row. */
+  async function compute(
+    target: PendingRow,
+    state: ClinicState,
+  ): Promise<{ recordId: number; key: string; rowJson: string } | null> {
+    const row = await computeRow(target.recordId, state);
+    if (row === null) return null;
     cache ??= await loadCache();
-    const computed: { recordId: number; key: string; rowJson: string }[] = [];
-    let inProgress = 0;
-    const rows: EvidenceRow[] = [];
+    cache.set(target.recordId, { key: target.key, row });
+    return { recordId: target.recordId, key: target.key, rowJson: JSON.stringify(row) };
+  }
+
+  /** Completed records whose row is missing or stale, newest first; never computes. */
+  async function pendingRows(state: ClinicState): Promise<PendingRow[]> {
+    cache ??= await loadCache();
+    const pending: PendingRow[] = [];
+    for (const { recordId, ended, key: recordKey } of await evidence.recordFingerprints()) {
+      if (!ended) continue;
+      const key = `${state.clinicKey}|${recordKey}`;
+      if (cache.get(recordId)?.key !== key) pending.push({ recordId, key });
+    }
+    return pending.sort((a, b) => b.recordId - a.recordId);
+  }
+
+  return {
+    clinicState,
+    compute,
+    pendingRows,
+    /** Stores computed rows (one transaction); a write the database refuses is skipped (computed again later). */
+    store: (rows: readonly { recordId: number; key: string; rowJson: string }[]) => stored.store(rows, now()),
+    /**
+     * Takes up the rows of these records already stored under the same key (by another back end on
+     * the same database, or before a restart of this one); answers the ids taken up.
+     */
+    async adopt(targets: readonly PendingRow[]): Promise<Set<number>> {
+      cache ??= await loadCache();
+      const adopted = new Set<number>();
+      const found = await stored.rowsFor(targets.map((target) => target.recordId));
+      for (const target of targets) {
+        const entry = found.get(target.recordId);
+        const row = entry === undefined || entry.key !== target.key ? null : parsed(entry);
+        if (row === null) continue;
+        cache.set(target.recordId, { key: target.key, row });
+        adopted.add(target.recordId);
+      }
+      return adopted;
+    },
+    /**
+     * Computes and stores the rows of these records (or all of one patient's) that have ended and
+     * whose row is missing or stale: what a write of an ended record calls. Answers how many were stored.
+     */
+    async keep(only: {
+      readonly recordIds?: readonly number[];
+      readonly patientId?: number;
+    }): Promise<number> {
+      // A running record (a row logged in theatre) costs this one query.
+      const ended = (await evidence.recordFingerprints(only)).filter((entry) => entry.ended);
+      if (ended.length === 0) return 0;
+      const state = await clinicState();
+      cache ??= await loadCache();
+      const computed: { recordId: number; key: string; rowJson: string }[] = [];
+      for (const { recordId, key: recordKey } of ended) {
+        const key = `${state.clinicKey}|${recordKey}`;
+        if (cache.get(recordId)?.key === key) continue;
+        const row = await compute({ recordId, key }, state);
+        if (row !== null) computed.push(row);
+      }
+      await stored.store(computed, now());
+      return computed.length;
+    },
+    /**
+     * The rows ready now (their stored key matches the record and the clinic as they are), newest
+     * start first, the completed records still waiting for theirs, and the records still running.
+     * Never runs the model: the view opens at once and says what is still being compared.
+     */
+    async readyRows(): Promise<{ rows: ComputedRow[]; pending: PendingRow[]; inProgress: number }> {
+      const state = await clinicState();
+      cache ??= await loadCache();
+      const rows: ComputedRow[] = [];
+      const pending: PendingRow[] = [];
+      let inProgress = 0;
+      for (const { recordId, ended, key: recordKey } of await evidence.recordFingerprints()) {
+        if (!ended) {
+          inProgress += 1;
+          continue;
+        }
+        const key = `${state.clinicKey}|${recordKey}`;
+        const cached = cache.get(recordId);
+        if (cached !== undefined && cached.key === key) rows.push(cached.row);
+        else pending.push({ recordId, key });
+      }
+      // Newest start first, as the records list shows them.
+      rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
+      return { rows, pending, inProgress };
+    },
+  };
+}
+
+export type EvidenceRows = ReturnType<typeof createEvidenceRows>;
+
+/** Handlers for the clinic's own evidence: observed vs predicted, the CSV, the calibration, exclusions. */
+export function createEvidenceHandlers(
+  now: () => Date,
+  clinic: ClinicDb,
+  keeper: {
+    readonly rows: EvidenceRows;
+    /** Called when an answer found completed records whose rows are not ready (starts the back-fill). */
+    readonly pendingSeen: () => void;
+  } = { rows: createEvidenceRows(now, clinic), pendingSeen: () => undefined },
+): EvidenceHandlerTable {
+  const evidence = createEvidenceRepository(clinic);
+  const procedures = createProcedureRecordRepository(clinic);
+  const species = createSpeciesRepository(clinic);
+
+  /** The ready rows with their exclusions; `pending` counts the completed records still being compared. */
+  async function allRows(): Promise<{
+    rows: EvidenceRow[];
+    pending: readonly PendingRow[];
+    inProgress: number;
+  }> {
+    const { rows, pending, inProgress } = await keeper.rows.readyRows();
+    if (pending.length > 0) keeper.pendingSeen();
+    const exclusions = await evidence.exclusions();
     const exclusionOf = (recordId: number) => {
       const entry = exclusions.get(recordId);
       return entry !== undefined && entry.excluded
         ? { reason: entry.reason, enteredBy: entry.enteredBy, enteredAt: entry.enteredAt }
         : null;
     };
-    for (const { recordId, ended, key: recordKey } of await evidence.recordFingerprints()) {
-      if (!ended) {
-        inProgress += 1;
-        continue;
-      }
-      const key = `${clinicKey}|${recordKey}`;
-      const cached = cache.get(recordId);
-      if (cached !== undefined && cached.key === key) {
-        rows.push({ ...cached.row, exclusion: exclusionOf(recordId) });
-        continue;
-      }
-      const record = await procedures.get(recordId);
-      if (record === null || record.values.endedAt === null) continue;
-      const patient = await patients.get(record.patientId);
-      if (patient === null) continue;
-      const speciesRecord = speciesByKey.get(patient.values.speciesKey);
-      const recordEntries = await entries.list(record.id);
-      const day = record.values.startedAt.slice(0, 10);
-      const patientWeights = await weights.list(patient.id);
-      const weight =
-        [...patientWeights].reverse().find((entry) => entry.values.weighedOn <= day) ??
-        patientWeights[0] ??
-        null;
-      const exclusion = exclusionOf(recordId);
-      const planRecord = record.values.planId === null ? null : await plans.get(record.values.planId);
-      const parsedPlan = planRecord === null ? null : planInputSchema.safeParse(planRecord.input);
-      const planInput: PlanInput | null = parsedPlan?.success === true ? parsedPlan.data : null;
-      const agentOf = recordAgentOf(record, planInput, defaultAgent);
-      const base = {
-        recordId: record.id,
-        patientId: patient.id,
-        patientName: patient.values.name,
-        speciesKey: patient.values.speciesKey,
-        speciesName: speciesRecord?.values.commonName ?? patient.values.speciesKey,
-        agent: agentOf.agent,
-        airway: record.values.airway,
-        staffInitials: record.values.staffInitials,
-        procedureName: record.values.procedureName,
-        startedAt: record.values.startedAt,
-        endedAt: record.values.endedAt,
-      };
-      const logged = recordLogOf(record, recordEntries, {
-        bodyMassG: weight?.values.massG ?? null,
-        speciesKey: patient.values.speciesKey,
-        plan: planInput,
-        defaultAgent,
-      });
-      let row: ComputedRow;
-      if (!logged.ok) {
-        row = {
-          ...base,
-          agentBasis: agentOf.basis,
-          bodyMassG: null,
-          skipped: logged.missing,
-          milestones: [],
-          extubationMin: null,
-          notes: [],
-        };
-      } else {
-        const compared = recordEvidence(logged.log, tables);
-        row = {
-          ...base,
-          agentBasis: logged.log.bird.agentBasis,
-          bodyMassG: logged.log.bird.bodyMassG,
-          skipped: compared.ok ? null : compared.skipped,
-          milestones: compared.ok
-            ? compared.milestones.map((milestone) =>
-                'ratio' in milestone
-                  ? { ...milestone, skipped: null }
-                  : {
-                      id: milestone.id,
-                      observedMin: null,
-                      predictedMin: null,
-                      ratio: null,
-                      skipped: milestone.skipped,
-                    },
-              )
-            : [],
-          extubationMin:
-            compared.ok && compared.extubationMin !== null && compared.extubationMin > 0
-              ? compared.extubationMin
-              : null,
-          notes: compared.ok ? [...compared.notes] : [],
-        };
-      }
-      cache.set(record.id, { key, row });
-      computed.push({ recordId: record.id, key, rowJson: JSON.stringify(row) });
-      rows.push({ ...row, exclusion });
-    }
-    // Kept for the next start; a write the file refuses is skipped (the rows are computed again).
-    await stored.store(computed, now());
-    // Newest start first, as the records list shows them.
-    rows.sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.recordId - a.recordId);
-    return { rows, inProgress };
+    return {
+      rows: rows.map((row) => ({ ...row, exclusion: exclusionOf(row.recordId) })),
+      pending,
+      inProgress,
+    };
   }
 
   function matches(row: EvidenceRow, filter: EvidenceFilter): boolean {
@@ -234,7 +376,7 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
   async function list(filter: EvidenceFilter) {
     if (filter.from !== undefined && filter.to !== undefined && filter.to < filter.from)
       throw new RecordError('invalid-request', 'The "to" date is before the "from" date; swap them.', 'to');
-    const { rows, inProgress } = await allRows();
+    const { rows, pending, inProgress } = await allRows();
     const shown = rows.filter((row) => matches(row, filter));
     const skippedByMilestone = Object.fromEntries(evidenceMilestoneIds.map((id) => [id, 0])) as Record<
       EvidenceMilestoneId,
@@ -256,13 +398,18 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
         skippedByMilestone,
         excluded: shown.filter((row) => row.exclusion !== null).length,
         inProgress,
+        // One record asked for: whether it is the one still waiting; else the whole clinic's.
+        pending:
+          filter.recordId === undefined
+            ? pending.length
+            : pending.filter((entry) => entry.recordId === filter.recordId).length,
       },
     };
   }
 
   async function calibration() {
     const switchState = await evidence.calibrationSwitch();
-    const { rows } = await allRows();
+    const { rows, pending } = await allRows();
     const used = rows.filter((row) => row.exclusion === null && row.skipped === null);
     const speciesList = await species.list();
     const recordsIn = used
@@ -318,13 +465,14 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
         };
       }),
       recordsIn,
+      pending: pending.length,
     };
   }
 
   return {
     'evidence:list': (request) => list(request),
     'evidence:export-csv': async (request) => {
-      const { rows } = await list(request);
+      const { rows, counts } = await list(request);
       const csv = evidenceCsv(
         rows.map((row) => ({
           ...row,
@@ -333,7 +481,12 @@ export function createEvidenceHandlers(now: () => Date, clinic: ClinicDb): Evide
         })),
       );
       const day = now().toISOString().slice(0, 10);
-      return { fileName: `tidewing-observed-vs-predicted-${day}.csv`, csv, rows: rows.length };
+      return {
+        fileName: `tidewing-observed-vs-predicted-${day}.csv`,
+        csv,
+        rows: rows.length,
+        pending: counts.pending,
+      };
     },
     'evidence:calibration': () => calibration(),
     'evidence:exclude': async (request) => {

@@ -19,7 +19,14 @@ import { exportDatabaseJson } from '../../db/export.js';
 import { backupFolder } from './automatic-backup.js';
 import { createPlanHandlers } from './plan-handlers.js';
 import { createDrugHandlers } from './drug-handlers.js';
-import { createEvidenceHandlers } from './evidence-handlers.js';
+import { createEvidenceHandlers, createEvidenceRows } from './evidence-handlers.js';
+import {
+  createEvidenceBackfill,
+  keepingEvidenceRows,
+  type EvidenceBackfill,
+  type EvidenceBackfillMode,
+} from './evidence-backfill.js';
+import type { ChangeNoticeInput } from '../../app/contract/change-notices.js';
 import { createRecordHandlers, RecordError } from './record-handlers.js';
 import { constraintError } from './constraint-errors.js';
 import { createWorkstationHandlers } from './workstation-handlers.js';
@@ -39,6 +46,16 @@ export type HandlerContext = {
   readonly host: Host;
   /** Injected so tests control time. */
   readonly now: () => Date;
+  /**
+   * Whether the clinic view's rows of older or stale records are computed in the background after
+   * start ('automatic', what the hosts use) or only when `evidenceBackfill.run()` is called
+   * ('manual', the default: tests, the bench and short commands). Rows of records that end or are
+   * corrected are computed at once either way.
+   */
+  readonly evidenceBackfill?: EvidenceBackfillMode;
+  /** Where the back-fill tells the open screens that more rows are ready (the back end's change notices). */
+  readonly publishChange?: (notice: ChangeNoticeInput) => void;
+  readonly log?: (message: string) => void;
 };
 
 /** Every channel's handler; a host may replace one with its own implementation (see electron-main). */
@@ -71,6 +88,8 @@ export function createBackEndParts(given: HandlerContext): {
   readonly workstationTheme: () => ThemeChoice;
   /** Reads the pinned theme into `workstationTheme`; the back end awaits it before the first dispatch. */
   readonly loadWorkstationTheme: () => Promise<void>;
+  /** The background computation of the clinic view's rows (started by the back end once it is ready). */
+  readonly evidenceBackfill: EvidenceBackfill;
 } {
   const context = given;
   const settings = createSettingsRepository(context.clinic);
@@ -87,6 +106,12 @@ export function createBackEndParts(given: HandlerContext): {
     ...workstationHandlers
   } = createWorkstationHandlers(context.clinic, context.dataDirectory, context.now);
 
+  const evidenceRows = createEvidenceRows(context.now, context.clinic);
+  const evidenceBackfill = createEvidenceBackfill(evidenceRows, {
+    mode: context.evidenceBackfill ?? 'manual',
+    publish: context.publishChange ?? (() => undefined),
+    ...(context.log === undefined ? {} : { log: context.log }),
+  });
   const handlers: HandlerTable = {
     'app:info': async () => ({
       appVersion: context.appVersion,
@@ -136,7 +161,10 @@ export function createBackEndParts(given: HandlerContext): {
     ...createRecordHandlers(context.now, context.clinic, workstationIdOf(context.dataDirectory)),
     ...createPlanHandlers(context.now, context.clinic),
     ...createDrugHandlers(context.now, context.clinic),
-    ...createEvidenceHandlers(context.now, context.clinic),
+    ...createEvidenceHandlers(context.now, context.clinic, {
+      rows: evidenceRows,
+      pendingSeen: () => evidenceBackfill.start(),
+    }),
     ...workstationHandlers,
     ...createDatabaseHandlers({
       clinic: context.clinic,
@@ -145,7 +173,12 @@ export function createBackEndParts(given: HandlerContext): {
       chosenBy: context.databaseChoice ?? 'default',
     }),
   };
-  return { handlers, workstationTheme, loadWorkstationTheme };
+  return {
+    handlers: keepingEvidenceRows(handlers, evidenceRows, evidenceBackfill, context.log),
+    workstationTheme,
+    loadWorkstationTheme,
+    evidenceBackfill,
+  };
 }
 
 export type Dispatcher = (channel: unknown, payload: unknown) => Promise<Result<unknown>>;

@@ -289,6 +289,7 @@ async function main(): Promise<void> {
         automaticBackup: true,
         newClinic: process.argv.includes('--new-clinic'),
         demoClinic: process.argv.includes('--demo'),
+        evidenceBackfill: 'automatic',
         ...(binding === undefined ? {} : { openOptions: { nativeBinding: binding } }),
       });
     } catch (error) {

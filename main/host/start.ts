@@ -61,6 +61,7 @@ async function main(): Promise<number> {
       automaticBackup: true,
       newClinic: args.newClinic,
       demoClinic: args.demo,
+      evidenceBackfill: 'automatic',
       database: chosenDatabase(args.database, dataDirectory),
       log: (message) => process.stderr.write(`${message}\n`),
     });

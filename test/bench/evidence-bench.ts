@@ -1,7 +1,8 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { performance } from 'node:perf_hooks';
+import { monitorEventLoopDelay, performance } from 'node:perf_hooks';
+import { evidenceListSchema, type EvidenceList } from '../../app/contract/evidence-channels.js';
 import { fitMilestone } from '../../app/core/evidence/calibration.js';
 import { forecastPlan, readForecast } from '../../app/core/evidence/forecast.js';
 import type { LoggedEntry, RecordLog } from '../../app/core/evidence/record-log.js';
@@ -130,49 +131,106 @@ export async function benchEvidence(): Promise<Figure[]> {
     },
   ];
   let records = 0;
+  const open = async (backEnd: { dispatch: ReturnType<typeof startBackEnd>['dispatch'] }) => {
+    const started = performance.now();
+    const cpu = process.cpuUsage();
+    const answer = await backEnd.dispatch('evidence:list', {});
+    const ms = performance.now() - started;
+    const used = process.cpuUsage(cpu);
+    if (!answer.ok) throw new Error(JSON.stringify(answer.error));
+    // CPU time of this process too: on a shared, busy machine the wall time also counts waiting for a core.
+    return { ms, cpuMs: (used.user + used.system) / 1000, list: answer.value as EvidenceList };
+  };
+  const start = () =>
+    startBackEnd({ dataDirectory: folder, appVersion: 'bench', host: 'browser', evidenceBackfill: 'manual' });
   try {
-    const backEnd = startBackEnd({ dataDirectory: folder, appVersion: 'bench', host: 'browser' });
+    // 5,040 completed records written straight into the database (the demo clinic 84 times over),
+    // as records that ended before rows were kept when a record ends: none has its row yet.
+    const writer = start();
     try {
       const now = new Date('2026-06-01T00:00:00Z');
       const demo = generateDemoClinic(demoSeed, '2026-06-01', tables);
+      await writer.ready;
+      while (records < 5000) records += await writeDemoRecords(writer.clinic, demo, now);
+    } finally {
+      writer.close();
+    }
+
+    // A fresh start, the back-fill not run yet: the open only reads, and says what is pending.
+    const backEnd = start();
+    try {
       await backEnd.ready;
-      while (records < 5000) records += await writeDemoRecords(backEnd.clinic, demo, now);
+      const first = await open(backEnd);
+      if (first.list.counts.pending !== records)
+        throw new Error(`expected ${records} pending, got ${first.list.counts.pending}`);
+      // The back-fill, timed whole, with how long the event loop (every request) waited at most.
+      const delay = monitorEventLoopDelay({ resolution: 5 });
+      delay.enable();
       const started = performance.now();
-      const firstOpen = await backEnd.dispatch('evidence:list', {});
-      const firstMs = performance.now() - started;
-      if (!firstOpen.ok) throw new Error(JSON.stringify(firstOpen.error));
-      const again = performance.now();
-      await backEnd.dispatch('evidence:list', {});
-      const againMs = performance.now() - again;
+      const stored = await backEnd.evidenceBackfill.run();
+      const backfillMs = performance.now() - started;
+      delay.disable();
+      if (stored !== records) throw new Error(`the back-fill stored ${stored} rows of ${records}`);
+      const full = await open(backEnd);
+      if (full.list.rows.length !== records || full.list.counts.pending !== 0)
+        throw new Error('the back-fill left rows pending');
+      // The dispatcher's check of the 5,000-row answer alone.
+      const check = timed(5, () => {
+        if (!evidenceListSchema.safeParse(full.list).success) throw new Error('the answer failed its schema');
+      });
       figures.push(
         {
-          name: `clinic view channel, ${records} records, first open`,
-          value: firstMs,
+          name: `clinic view channel, ${records} records, first open before the back-fill`,
+          value: first.ms,
           unit: 'ms',
-          note: 'every record run through the model',
+          note: 'target: under 200 ms (reads only; every record counted as still being compared)',
+        },
+        { name: '  the same open, CPU time of the back end', value: first.cpuMs, unit: 'ms' },
+        {
+          name: `clinic view back-fill, ${records} records`,
+          value: backfillMs,
+          unit: 'ms',
+          note: 'in the background after start, every record run through the model once',
         },
         {
-          name: `clinic view channel, ${records} records, again`,
-          value: againMs,
+          name: 'longest wait of the event loop during the back-fill',
+          value: delay.max / 1e6,
           unit: 'ms',
-          note: 'target: opens under 200 ms (records unchanged since)',
+          note: 'what a request or clinical write waits at most for a slice',
+        },
+        {
+          name: `clinic view channel, ${records} records, open after the back-fill`,
+          value: full.ms,
+          unit: 'ms',
+          note: 'target: under 200 ms',
+        },
+        { name: '  the same open, CPU time of the back end', value: full.cpuMs, unit: 'ms' },
+        {
+          name: `response schema check of the ${records}-row answer`,
+          value: check,
+          unit: 'ms',
+          note: 'part of every open; the dispatcher checks each answer',
         },
       );
     } finally {
       backEnd.close();
     }
     // A restart: a new back end on the same folder reads the rows stored by the first.
-    const restarted = startBackEnd({ dataDirectory: folder, appVersion: 'bench', host: 'browser' });
+    const restarted = start();
     try {
-      const started = performance.now();
-      const afterRestart = await restarted.dispatch('evidence:list', {});
-      const restartMs = performance.now() - started;
-      if (!afterRestart.ok) throw new Error(JSON.stringify(afterRestart.error));
+      await restarted.ready;
+      const afterRestart = await open(restarted);
+      if (afterRestart.list.counts.pending !== 0) throw new Error('rows were pending after a restart');
       figures.push({
         name: `clinic view channel, ${records} records, first open after a restart`,
-        value: restartMs,
+        value: afterRestart.ms,
         unit: 'ms',
         note: 'target: under 200 ms (rows read from the stored cache)',
+      });
+      figures.push({
+        name: '  the same open, CPU time of the back end',
+        value: afterRestart.cpuMs,
+        unit: 'ms',
       });
     } finally {
       restarted.close();

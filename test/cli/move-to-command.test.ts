@@ -60,6 +60,8 @@ async function writeClinicWithHistory(): Promise<{ folder: string; databaseFile:
   sharedCleanups.push(() => api.close());
   await api.backEnd.ready;
   expect(await writeDemoClinic(api.backEnd.clinic, api.clock.now)).toBe(60);
+  // The demo's rows of the clinic view, as the back-fill computes them after a start.
+  expect(await api.backEnd.evidenceBackfill.run()).toBe(60);
   await api.answer('settings:save', heronLaneSettings as never);
   await api.answer('safety:acknowledge', { acknowledgedBy: 'RW', accepted: true } as never);
   const pip = await api.answer('patients:create', { values: validPatient, meta } as never);

@@ -178,6 +178,14 @@ describe.each(testEngines)('evidence repository on %s', (engine) => {
     expect(all.find((entry) => entry.recordId === other.recordId)?.key).toBe(
       `${other.versionId}|0:0|null|${other.patientVersionId}`,
     );
+    // Narrowed to some records or to one bird's: the same fingerprints, only those.
+    expect(await evidence.recordFingerprints({ recordIds: [other.recordId] })).toEqual(
+      all.filter((entry) => entry.recordId === other.recordId),
+    );
+    expect(await evidence.recordFingerprints({ recordIds: [] })).toEqual([]);
+    expect(await evidence.recordFingerprints({ patientId: open.patientId })).toEqual(
+      all.filter((entry) => entry.recordId === open.recordId),
+    );
   });
 });
 
@@ -204,6 +212,14 @@ describe.each(testEngines)('evidence prediction cache on %s', (engine) => {
     expect(replaced.size).toBe(600);
     expect(replaced.get(600)).toEqual({ key: 'k2|599', rowJson: '{"recordId":600,"again":true}' });
     expect(replaced.get(1)).toEqual({ key: 'k1|0', rowJson: '{"recordId":1}' });
+    // The stored rows of some records only (a record without one is left out).
+    expect(await cache.rowsFor([1, 600, 601])).toEqual(
+      new Map([
+        [1, { key: 'k1|0', rowJson: '{"recordId":1}' }],
+        [600, { key: 'k2|599', rowJson: '{"recordId":600,"again":true}' }],
+      ]),
+    );
+    expect(await cache.rowsFor([])).toEqual(new Map());
     const computedAt = await sql<{
       record_id: number;
       computed_at: string;

@@ -56,6 +56,13 @@ export function CalibrationPanel({
           {message}
         </p>
       )}
+      {calibration.pending > 0 && (
+        <p className="evidence-pending" role="status">
+          Rests on the records compared so far: {calibration.pending}{' '}
+          {calibration.pending === 1 ? 'record is' : 'records are'} still being compared with the model and
+          not in these figures yet.
+        </p>
+      )}
       <p className="basis">{calibration.method}</p>
       <p className="basis">{calibration.priorBasis}</p>
       {calibration.milestones.map((milestone) => {

@@ -11,6 +11,7 @@ import { api } from '../common/bridge.js';
 import { downloadText } from '../common/download.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { useInitialsGate } from '../common/initials-gate.js';
 import { href } from '../shell/areas.js';
 import { CalibrationPanel } from './calibration-panel.js';
@@ -19,6 +20,10 @@ import './evidence.css';
 
 /** Rows shown at first; the rest on request, so a clinic of thousands of records opens quickly. */
 const firstRows = 200;
+
+/** "312 records still being compared" (the clinic's completed records whose rows are not ready yet). */
+export const pendingWords = (pending: number) =>
+  `${pending} ${pending === 1 ? 'record' : 'records'} still being compared with the model`;
 
 const minutes = (value: number | null) => (value === null ? '—' : value.toFixed(1));
 
@@ -32,6 +37,15 @@ export function EvidenceArea() {
   const [speciesLoad] = useChannel('species:list', {});
   const [message, setMessage] = useState<string | null>(null);
   const label = milestoneEvents[milestone].label;
+  // Rows computed in the background (or on another workstation), exclusions and the switch; a
+  // record that ended or was corrected (its row is stored before that notice).
+  useChangeNotices(
+    (notice) => notice.kind === 'evidence' || notice.kind === 'procedure-records',
+    () => {
+      reload();
+      reloadCalibration();
+    },
+  );
 
   function update(change: Partial<EvidenceFilter>) {
     const merged: Record<string, unknown> = { ...filter, ...change };
@@ -46,7 +60,9 @@ export function EvidenceArea() {
     const answer = await api.invoke('evidence:export-csv', filter);
     if (answer.ok) downloadText(answer.value.fileName, answer.value.csv, 'text/csv;charset=utf-8');
     setMessage(
-      answer.ok ? `Exported ${answer.value.rows} records.` : `Export failed: ${answer.error.message}`,
+      answer.ok
+        ? `Exported ${answer.value.rows} records.${answer.value.pending > 0 ? ` ${pendingWords(answer.value.pending)} not in the file yet.` : ''}`
+        : `Export failed: ${answer.error.message}`,
     );
   }
 
@@ -176,6 +192,12 @@ export function EvidenceArea() {
             ; {load.value.counts.excluded} left out of the calibration; {load.value.counts.inProgress} still
             running (not shown).
           </p>
+          {load.value.counts.pending > 0 && (
+            <p className="evidence-pending" role="status" aria-live="polite">
+              {pendingWords(load.value.counts.pending)}; the list fills in as they are ready. The counts, the
+              chart and the calibration rest on the {load.value.counts.completed} records ready so far.
+            </p>
+          )}
           <div className="evidence-body">
             <EvidenceChart rows={rows} milestone={milestone} label={label} />
             <EvidenceTable

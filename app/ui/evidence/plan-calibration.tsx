@@ -2,6 +2,7 @@ import { clinicalMilestoneLines } from '../../core/clinical-milestones.js';
 import type { EvidenceMilestoneId } from '../../core/evidence/observed.js';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 import './evidence.css';
 
@@ -32,7 +33,8 @@ export function PlanCalibration({
   readonly speciesKey: string | undefined;
   readonly savedPlanId: number | null;
 }) {
-  const [load] = useChannel('evidence:calibration', {});
+  const [load, reload] = useChannel('evidence:calibration', {});
+  useChangeNotices((notice) => notice.kind === 'evidence', reload);
   const [savedLoad] = useChannel('plans:get', { id: savedPlanId ?? 1 });
   if (load.state !== 'ready' || speciesKey === undefined) return null;
   const calibration = load.value;
@@ -91,6 +93,13 @@ export function PlanCalibration({
           })}
         </tbody>
       </table>
+      {calibration.pending > 0 && (
+        <p className="evidence-pending" role="status" data-testid="calibration-pending">
+          Calibrated on the records compared so far: {calibration.pending} more{' '}
+          {calibration.pending === 1 ? 'record is' : 'records are'} still being compared with the model and
+          not in these figures yet; they update when ready.
+        </p>
+      )}
       <p className="basis">
         The calibrated figure is the population prediction times your clinic’s observed / predicted factor for
         this species, shrunk towards its group of species and the whole clinic when records are few; the band

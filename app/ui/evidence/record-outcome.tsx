@@ -1,10 +1,12 @@
 import { milestoneEvents } from '../../core/evidence/observed.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 
 /** After a record ends: each observed milestone beside what the model predicted for what was given. */
 export function RecordOutcome({ recordId }: { readonly recordId: number }) {
-  const [load] = useChannel('evidence:list', { recordId });
+  const [load, reload] = useChannel('evidence:list', { recordId });
+  useChangeNotices((notice) => notice.kind === 'evidence', reload);
   if (load.state === 'loading') return <p aria-busy="true">Comparing with the model…</p>;
   if (load.state === 'failed')
     return (
@@ -13,7 +15,10 @@ export function RecordOutcome({ recordId }: { readonly recordId: number }) {
       </p>
     );
   const row = load.value.rows[0];
-  if (row === undefined) return null;
+  if (row === undefined)
+    return load.value.counts.pending > 0 ? (
+      <p role="status">Still being compared with the model; shown here when ready.</p>
+    ) : null;
   return (
     <section className="evidence-forecast" aria-labelledby="outcome-title">
       <h2 id="outcome-title">Observed beside predicted for what was given</h2>
