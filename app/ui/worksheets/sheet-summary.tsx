@@ -2,6 +2,7 @@ import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
+import type { CalibratedLine } from '../../core/evidence/calibrated-figure.js';
 import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
 import { displayDate, displayMass } from '../common/display.js';
 import { routeLabels } from '../../core/delivery.js';
@@ -11,11 +12,22 @@ import { ventilationText } from './sheet-text.js';
 
 const severityWords = { danger: 'DANGER', warning: 'WARNING', notice: 'NOTICE' } as const;
 
+/** The clinic's calibrated figure under a predicted time, with what it rests on. */
+function Calibrated({ line }: { readonly line: CalibratedLine | undefined }) {
+  if (line === undefined || line.calibrated === null) return null;
+  return (
+    <span className="ws-block ws-small ws-calibrated" data-calibrated={line.id}>
+      Your clinic: <strong>{line.calibratedText}</strong>; {line.basis}
+    </span>
+  );
+}
+
 /**
  * Page 1 of the worksheet, the prep-room summary that stands alone: the bird, how it is to be
  * anaesthetised (one row per phase: route, breathing system, flow, dial steps, oxygen and agent), the
- * predicted times with their ranges, what to have ready and the cautions in one line each. The
- * emergency card follows it on the same page.
+ * predicted times with their ranges (and the clinic's calibrated figures when its calibration is
+ * on), what to have ready and the cautions in one line each. The emergency card follows it on the
+ * same page.
  */
 export function SummarySection({
   detail,
@@ -23,12 +35,15 @@ export function SummarySection({
   patientName,
   identifier,
   result,
+  calibrated,
 }: {
   readonly detail: PlanDetail;
   readonly settings: ClinicSettings;
   readonly patientName: string;
   readonly identifier: string;
   readonly result: PlanResult;
+  /** The calibrated lines of the plan's milestones (none when the calibration is off or unread). */
+  readonly calibrated: readonly CalibratedLine[];
 }) {
   const { plan, patient, species, weightTrendText } = detail;
   const input = plan.input;
@@ -143,6 +158,8 @@ export function SummarySection({
                 <strong>
                   {minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}
                 </strong>
+                {/* Induction is the planned surgical depth (app/core/model/compute-plan.ts). */}
+                <Calibrated line={calibrated.find((line) => line.id === 'surgicalDepth')} />
               </td>
             </tr>
             <tr>
@@ -160,6 +177,8 @@ export function SummarySection({
                   {minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}
                 </strong>{' '}
                 after the vaporiser is off
+                {/* Recovery is the first movement or head lift. */}
+                <Calibrated line={calibrated.find((line) => line.id === 'firstMovement')} />
               </td>
             </tr>
           </tbody>
