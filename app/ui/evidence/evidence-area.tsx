@@ -15,12 +15,12 @@ import { useInitialsGate } from '../common/initials-gate.js';
 import { href } from '../shell/areas.js';
 import { CalibrationPanel } from './calibration-panel.js';
 import { EvidenceChart } from './evidence-chart.js';
+import { mergeFilter } from './evidence-filter.js';
+import { evidenceCountsText, tableMinutesText as minutes } from './evidence-text.js';
 import './evidence.css';
 
 /** Rows shown at first; the rest on request, so a clinic of thousands of records opens quickly. */
 const firstRows = 200;
-
-const minutes = (value: number | null) => (value === null ? '—' : value.toFixed(1));
 
 /** "Observed vs predicted": the clinic's completed records beside the model, filterable, with CSV. */
 export function EvidenceArea() {
@@ -34,12 +34,7 @@ export function EvidenceArea() {
   const label = milestoneEvents[milestone].label;
 
   function update(change: Partial<EvidenceFilter>) {
-    const merged: Record<string, unknown> = { ...filter, ...change };
-    setFilter(
-      Object.fromEntries(
-        Object.entries(merged).filter(([, value]) => value !== '' && value !== undefined),
-      ) as EvidenceFilter,
-    );
+    setFilter(mergeFilter(filter, change));
   }
 
   async function exportCsv() {
@@ -165,16 +160,7 @@ export function EvidenceArea() {
       {load.state === 'ready' && (
         <>
           <p className="evidence-counts" role="status">
-            {load.value.counts.completed} completed records; {load.value.counts.compared} compared;{' '}
-            {load.value.counts.skipped} skipped whole; skipped for a missing or unusable event:{' '}
-            {evidenceMilestoneIds
-              .map(
-                (id) =>
-                  `${milestoneEvents[id].label.toLowerCase()} ${load.value.counts.skippedByMilestone[id]}`,
-              )
-              .join(', ')}
-            ; {load.value.counts.excluded} left out of the calibration; {load.value.counts.inProgress} still
-            running (not shown).
+            {evidenceCountsText(load.value.counts)}
           </p>
           <div className="evidence-body">
             <EvidenceChart rows={rows} milestone={milestone} label={label} />
