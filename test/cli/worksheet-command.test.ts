@@ -208,6 +208,10 @@ describe('tidewing worksheet: the clinic’s calibration beside the saved figure
       /Your clinic: [\d.]+ min \(90 % band [\d.]+-[\d.]+ min\); calibrated on 1\d of your cockatiel records; your cockatiels stand 1\.\dx later than the population model/,
     );
     expect(flat).toMatch(/calibrated on 1\d of your cockatiel records; your cockatiels first move/);
+    // Page 1, the prep-room summary: induction and recovery calibrated in one line.
+    expect(flat).toMatch(
+      /Your clinic’s calibration: induction [\d.]+ min \(90 % band [\d.]+-[\d.]+ min\), recovery [\d.]+ min \(90 % band/,
+    );
     expect(flat).toContain(`Your clinic’s calibration (${today}):`);
     expect(flat).toContain(
       `the calibrated figure is from your records as of ${today} and is not part of the saved plan`,

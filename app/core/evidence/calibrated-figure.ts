@@ -206,3 +206,18 @@ export function calibratedFigures(
   });
   return { state: 'on', lines };
 }
+
+/**
+ * A few calibrated figures in one line, for a summary that names them its own way, e.g.
+ * "induction 2 min (90 % band 1.6-2.6 min), recovery 8.5 min (90 % band 7.5-9.7 min)".
+ * @param parts each figure's name and its calibrated line (left out when it has no figure)
+ * @returns the line, or null when none has a figure
+ */
+export function calibratedSummaryText(
+  parts: readonly { readonly name: string; readonly line: CalibratedLine | undefined }[],
+): string | null {
+  const shown = parts.flatMap(({ name, line }) =>
+    line === undefined || line.calibrated === null ? [] : [`${name} ${line.calibratedText}`],
+  );
+  return shown.length === 0 ? null : shown.join(', ');
+}

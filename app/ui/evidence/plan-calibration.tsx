@@ -50,7 +50,7 @@ export function PlanCalibration({
             <th scope="col">Milestone</th>
             <th scope="col">Population model</th>
             {savedLines !== null && <th scope="col">Saved with the plan</th>}
-            <th scope="col">Calibrated on your records (90 %)</th>
+            <th scope="col">Calibrated on your records</th>
             <th scope="col">Rests on</th>
           </tr>
         </thead>

@@ -2,7 +2,7 @@ import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
-import type { CalibratedLine } from '../../core/evidence/calibrated-figure.js';
+import { calibratedSummaryText, type CalibratedLine } from '../../core/evidence/calibrated-figure.js';
 import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
 import { displayDate, displayMass } from '../common/display.js';
 import { routeLabels } from '../../core/delivery.js';
@@ -11,16 +11,6 @@ import { figure } from './labels.js';
 import { ventilationText } from './sheet-text.js';
 
 const severityWords = { danger: 'DANGER', warning: 'WARNING', notice: 'NOTICE' } as const;
-
-/** The clinic's calibrated figure under a predicted time, with what it rests on. */
-function Calibrated({ line }: { readonly line: CalibratedLine | undefined }) {
-  if (line === undefined || line.calibrated === null) return null;
-  return (
-    <span className="ws-block ws-small ws-calibrated" data-calibrated={line.id}>
-      Your clinic: <strong>{line.calibratedText}</strong>; {line.basis}
-    </span>
-  );
-}
 
 /**
  * Page 1 of the worksheet, the prep-room summary that stands alone: the bird, how it is to be
@@ -52,6 +42,12 @@ export function SummarySection({
   const grade = plan.checklist.asaGrade;
   const phases = phasesOfPlan(input, result);
   const agentName = agent.displayName.toLowerCase();
+  // Induction is the planned surgical depth, recovery the first movement (compute-plan.ts); one
+  // line, so the emergency card still fits on this page; each basis is with the predicted course.
+  const calibratedTimes = calibratedSummaryText([
+    { name: 'induction', line: calibrated.find((line) => line.id === 'surgicalDepth') },
+    { name: 'recovery', line: calibrated.find((line) => line.id === 'firstMovement') },
+  ]);
   return (
     <section className="ws-section ws-summary" aria-labelledby="ws-summary">
       <h2 id="ws-summary" className="ws-visually-hidden">
@@ -158,8 +154,6 @@ export function SummarySection({
                 <strong>
                   {minutesWithRangeText(result.milestones.inductionMin, result.uncertainty.inductionMin)}
                 </strong>
-                {/* Induction is the planned surgical depth (app/core/model/compute-plan.ts). */}
-                <Calibrated line={calibrated.find((line) => line.id === 'surgicalDepth')} />
               </td>
             </tr>
             <tr>
@@ -177,8 +171,6 @@ export function SummarySection({
                   {minutesWithRangeText(result.milestones.recoveryMin, result.uncertainty.recoveryMin)}
                 </strong>{' '}
                 after the vaporiser is off
-                {/* Recovery is the first movement or head lift. */}
-                <Calibrated line={calibrated.find((line) => line.id === 'firstMovement')} />
               </td>
             </tr>
           </tbody>
@@ -207,6 +199,11 @@ export function SummarySection({
           </tbody>
         </table>
       </div>
+      {calibratedTimes !== null && (
+        <p className="ws-small ws-calibrated" data-calibrated="summary">
+          Your clinic’s calibration: {calibratedTimes}; what each rests on is with the predicted course.
+        </p>
+      )}
 
       <h3>Cautions ({result.cautions.length === 0 ? 'none raised' : String(result.cautions.length)})</h3>
       {result.cautions.length > 0 && (

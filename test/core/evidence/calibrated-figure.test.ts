@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   calibratedFigures,
+  calibratedSummaryText,
   calibratedMinutesText,
   calibrationBasisText,
   calibrationOffText,
@@ -145,5 +146,19 @@ describe('the calibrated figures of a plan', () => {
       if (figures.state !== 'on') throw new Error('expected lines');
       expect(figures.lines.every((line) => line.calibrated === null && line.basis === basis)).toBe(true);
     }
+  });
+
+  it('puts a few calibrated figures in one line under their own names, leaving out those without one', () => {
+    const figures = calibratedFigures(result, 'cockatiel', calibrationOf([cockatiel]));
+    if (figures.state !== 'on') throw new Error('expected lines');
+    const [lossOfRighting, surgicalDepth] = figures.lines;
+    expect(
+      calibratedSummaryText([
+        { name: 'induction', line: surgicalDepth },
+        { name: 'recovery', line: undefined },
+        { name: 'righting', line: lossOfRighting && { ...lossOfRighting, calibrated: null } },
+      ]),
+    ).toBe(`induction ${String(surgicalDepth?.calibratedText)}`);
+    expect(calibratedSummaryText([{ name: 'recovery', line: undefined }])).toBeNull();
   });
 });

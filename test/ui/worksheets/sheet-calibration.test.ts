@@ -32,7 +32,7 @@ function sheetText(
     withoutCalibration
       ? markup
           .replace(/<span class="[^"]*ws-calibrated[^"]*"[^>]*>.*?<\/span>/g, '')
-          .replace(/<p class="[^"]*ws-calibration-note[^"]*"[^>]*>.*?<\/p>/g, '')
+          .replace(/<p class="[^"]*ws-calibrat[^"]*"[^>]*>.*?<\/p>/g, '')
       : markup
   )
     .replace(/<[^>]*>/g, ' ')
@@ -96,6 +96,11 @@ describe('the worksheet beside the clinic’s calibration', () => {
     }
     expect(text).toMatch(
       /calibrated on 1\d of your cockatiel records; your cockatiels stand 1\.\dx later than the population model/,
+    );
+    // Page 1's summary: induction (planned surgical depth) and recovery (first movement) in one line.
+    const lineOf = (id: string) => figures.lines.find((line) => line.id === id)?.calibratedText;
+    expect(text).toContain(
+      `Your clinic’s calibration: induction ${String(lineOf('surgicalDepth'))}, recovery ${String(lineOf('firstMovement'))}; what each rests on is with the predicted course.`,
     );
     expect(text).toContain('Your clinic’s calibration (2026-12-02):');
     expect(text).toContain(
