@@ -64,12 +64,14 @@ export async function loadPrintData(planId: number | null): Promise<PrintData> {
   if (planId === null)
     return { state: 'failed', message: 'No plan named: the address must end in #/worksheets/<plan number>.' };
   try {
-    const [safety, stored, detail, drugs, info] = await Promise.all([
+    const [safety, stored, detail, drugs, info, calibration] = await Promise.all([
       ask('safety:status', {}),
       ask('settings:get', {}),
       ask('plans:get', { id: planId }),
       ask('drugs:list', {}),
       ask('app:info', {}),
+      // The sheet is printed without the calibration (and says so) when it cannot be read.
+      ask('evidence:calibration', {}).catch(() => null),
     ]);
     if (!safety.acknowledged)
       return {
@@ -83,7 +85,7 @@ export async function loadPrintData(planId: number | null): Promise<PrintData> {
       };
     return {
       state: 'ready',
-      props: { detail, drugs, appVersion: info.appVersion, settings: stored.settings },
+      props: { detail, drugs, appVersion: info.appVersion, settings: stored.settings, calibration },
     };
   } catch (error) {
     return { state: 'failed', message: error instanceof Error ? error.message : String(error) };

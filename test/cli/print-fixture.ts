@@ -50,11 +50,12 @@ export type Call = (channel: string, payload: unknown) => Promise<{ id: number }
 
 /**
  * A data folder filled through the dispatcher by `fill`: the cautions acknowledged and the
- * clinic's settings saved first unless `acknowledged` is false. `now` is the clinic's clock.
+ * clinic's settings saved first unless `acknowledged` is false. `now` is the clinic's clock;
+ * `demoClinic` fills it with the invented demo clinic first (60 completed records).
  */
 export async function clinicFolder<T>(
   fill: (call: Call) => Promise<T>,
-  options: { readonly acknowledged?: boolean; readonly now?: () => Date } = {},
+  options: { readonly acknowledged?: boolean; readonly now?: () => Date; readonly demoClinic?: boolean } = {},
 ): Promise<{ folder: string } & T> {
   const folder = scratch();
   const backEnd = startBackEnd({
@@ -62,6 +63,7 @@ export async function clinicFolder<T>(
     appVersion: JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version as string,
     host: 'browser',
     ...(options.now === undefined ? {} : { now: options.now }),
+    ...(options.demoClinic === true ? { demoClinic: true } : {}),
   });
   try {
     const call: Call = async (channel, payload) => {

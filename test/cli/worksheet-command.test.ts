@@ -3,9 +3,20 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
+import type { CalibrationView } from '../../app/contract/evidence-channels.js';
+import type { PlanResult } from '../../app/contract/plan.js';
+import { clinicalMilestoneLines } from '../../app/core/clinical-milestones.js';
+import { startBackEnd } from '../../main/back-end/back-end.js';
 import { runWorksheetCommand } from '../../main/cli/worksheet-command.js';
 import { localDateOf } from '../../app/contract/input-rules.js';
-import { captured, clinicFolder, needPrinting, pipPlanInput as pipInput, scratch } from './print-fixture.js';
+import {
+  captured,
+  clinicFolder,
+  needPrinting,
+  pipPlanInput as pipInput,
+  root,
+  scratch,
+} from './print-fixture.js';
 
 /** A data folder with one saved plan; cautions acknowledged and settings saved unless asked not to. */
 function dataWithPlan(options: { acknowledged?: boolean } = {}): Promise<{ folder: string; planId: number }> {
@@ -139,4 +150,128 @@ describe('tidewing worksheet', () => {
     expect(text).toMatch(/NIOSH 1977/);
     expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
   }, 60_000);
+});
+
+/** The predicted milestone figures of the detail page as printed, in page order. */
+function milestoneFigures(text: string): string[] {
+  return [...text.matchAll(/[\d.]+ min (?:from start|after vaporiser off) \(5-95 % range [^)]*\)/g)].map(
+    (match) => match[0],
+  );
+}
+
+describe('tidewing worksheet: the clinic’s calibration beside the saved figures', () => {
+  it('prints the calibrated figure with its band and basis, keeps the saved figures when the calibration changes, and says when it is off', async (context) => {
+    needPrinting(context);
+    // The invented demo clinic (docs/evidence.md section 6): its cockatiels stand about x1.4
+    // later than the population model. A plan for one of its cockatiels.
+    const cockatielInput = JSON.parse(
+      fs.readFileSync(path.join(root, 'examples', 'plans', 'kiwi-cockatiel-chamber-isoflurane.json'), 'utf8'),
+    ) as unknown;
+    const data = await clinicFolder(
+      async (call) => {
+        const found = (await call('patients:search', { query: '', limit: 500 })) as unknown as {
+          patients: { id: number; speciesKey: string }[];
+        };
+        const cockatiel = found.patients.find((patient) => patient.speciesKey === 'cockatiel');
+        if (cockatiel === undefined) throw new Error('the demo clinic has no cockatiel');
+        const saved = await call('plans:save', {
+          fields: {
+            patientId: cockatiel.id,
+            plannedFor: localDateOf(new Date()),
+            label: 'Crop swab',
+            input: cockatielInput,
+            checklist: { asaGrade: 2, items: {} },
+          },
+          meta: { enteredBy: 'RW' },
+        });
+        return { planId: saved.id, result: (saved as unknown as { result: PlanResult }).result };
+      },
+      { demoClinic: true },
+    );
+    const print = async (name: string) => {
+      const run = captured();
+      const out = path.join(scratch(), `${name}.pdf`);
+      const code = await runWorksheetCommand(
+        ['--plan', String(data.planId), '--data', data.folder, '--out', out],
+        run.io,
+      );
+      expect(code, run.stderr()).toBe(0);
+      return execFileSync('pdftotext', [out, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    };
+    const today = localDateOf(new Date());
+
+    const calibrated = await print('calibrated');
+    const flat = calibrated;
+    // Beside standing: the calibrated minutes, the 90 % band and what it rests on, in the
+    // clinic's words.
+    expect(flat).toMatch(
+      /Your clinic: [\d.]+ min \(90 % band [\d.]+-[\d.]+ min\); calibrated on 1\d of your cockatiel records; your cockatiels stand 1\.\dx later than the population model/,
+    );
+    expect(flat).toMatch(/calibrated on 1\d of your cockatiel records; your cockatiels first move/);
+    // Page 1, the prep-room summary: induction and recovery calibrated in one line.
+    expect(flat).toMatch(
+      /Your clinic’s calibration: induction [\d.]+ min \(90 % band [\d.]+-[\d.]+ min\), recovery [\d.]+ min \(90 % band/,
+    );
+    expect(flat).toContain(`Your clinic’s calibration (${today}):`);
+    expect(flat).toContain(
+      `the calibrated figure is from your records as of ${today} and is not part of the saved plan`,
+    );
+    // The detail page prints the four figures the plan was saved with.
+    const saved = milestoneFigures(calibrated);
+    expect(saved).toEqual(
+      clinicalMilestoneLines(data.result).map(
+        (line) =>
+          `${line.minutesText} ${line.from === 'start' ? 'from start' : 'after vaporiser off'} (5-95 % range ${String(line.rangeText)})`,
+      ),
+    );
+    const restsOn = (text: string) =>
+      /calibrated on (\d+) of your cockatiel records; your cockatiels stand/.exec(text)?.[1];
+
+    /** Calls on the clinic through a back end of its own, closed before the next print. */
+    const onClinic = async <T>(
+      calls: (answer: (channel: string, payload: unknown) => Promise<unknown>) => Promise<T>,
+    ) => {
+      const backEnd = startBackEnd({ dataDirectory: data.folder, appVersion: '0.0.0', host: 'browser' });
+      try {
+        return await calls(async (channel, payload) => {
+          const reply = await backEnd.dispatch(channel as 'evidence:list', payload);
+          if (!reply.ok) throw new Error(reply.error.message);
+          return reply.value;
+        });
+      } finally {
+        backEnd.close();
+      }
+    };
+
+    // Leave 8 cockatiel records out: the calibrated figure follows, the saved figures do not.
+    const standingRecords = await onClinic(async (answer) => {
+      const list = (await answer('evidence:list', { speciesKey: 'cockatiel' })) as {
+        rows: { recordId: number }[];
+      };
+      for (const row of list.rows.slice(0, 8))
+        await answer('evidence:exclude', {
+          recordId: row.recordId,
+          excluded: true,
+          meta: { enteredBy: 'RW', reason: 'premedicated' },
+        });
+      const calibration = (await answer('evidence:calibration', {})) as CalibrationView;
+      return calibration.milestones
+        .find((milestone) => milestone.id === 'standing')
+        ?.species.find((entry) => entry.speciesKey === 'cockatiel')?.speciesRecords;
+    });
+    const fewer = await print('fewer-records');
+    expect(Number(restsOn(fewer))).toBe(standingRecords);
+    expect(Number(restsOn(fewer))).toBeLessThan(Number(restsOn(calibrated)));
+    expect(milestoneFigures(fewer)).toEqual(saved);
+
+    await onClinic((answer) =>
+      answer('evidence:set-calibration', { on: false, meta: { enteredBy: 'RW', reason: 'audit' } }),
+    );
+    const off = await print('off');
+    expect(off).toContain(
+      `Your clinic’s calibration (${today}): Calibration is off: the population model alone.`,
+    );
+    expect(off).not.toContain('Your clinic: ');
+    expect(milestoneFigures(off)).toEqual(saved);
+  }, 120_000);
 });

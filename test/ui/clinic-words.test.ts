@@ -2,7 +2,8 @@ import { readFileSync, readdirSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { CalibrationView } from '../../app/contract/evidence-channels.js';
 import { planInputSchema, type PlanInput } from '../../app/contract/plan.js';
 import { defaultClinicSettings } from '../../app/contract/settings.js';
 import { agentIds } from '../../app/core/agents.js';
@@ -11,6 +12,7 @@ import { computePlan } from '../../app/core/model/compute-plan.js';
 import { sourceKindLabels } from '../../app/core/sourced.js';
 import { speciesReference } from '../../app/core/species-reference.js';
 import { Sheet } from '../../app/ui/worksheets/sheet.js';
+import { writeDemoClinic } from '../../main/back-end/demo-clinic.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
 import { enteredByRw, pipValues } from '../support/clinic-birds.js';
 
@@ -102,6 +104,16 @@ describe('the clinic reads citations and kinds, never equations or code words', 
 describe('the printed worksheet in the clinic words', () => {
   const open: ChannelHarness[] = [];
   afterEach(() => open.splice(0).forEach((harness) => harness.close()));
+  // The invented demo clinic's calibration, so the calibrated figures and their basis are walked too.
+  let calibration: CalibrationView;
+  let demo: ChannelHarness;
+  beforeAll(async () => {
+    demo = openChannelHarness();
+    await demo.backEnd.ready;
+    await writeDemoClinic(demo.backEnd.clinic, demo.clock.now);
+    calibration = await demo.answer('evidence:calibration', {});
+  }, 60_000);
+  afterAll(() => demo.close());
 
   for (const { name, input } of examples) {
     it(`prints ${name} without "from memory", a generator name or an equation`, async () => {
@@ -142,6 +154,7 @@ describe('the printed worksheet in the clinic words', () => {
           appVersion: '9.8.7',
           settings: { ...defaultClinicSettings, clinicName: 'Harbour Bird Clinic' },
           printedAt: new Date('2026-12-02T08:00:00Z'),
+          calibration,
         }),
       );
       const text = markup
@@ -152,6 +165,7 @@ describe('the printed worksheet in the clinic words', () => {
       // The sheet was drawn: the patient, the clinic and a cited basis are in it.
       expect(text).toContain('Harbour Bird Clinic');
       expect(text).toContain('Lasiewski & Calder 1971');
+      expect(text).toMatch(/calibrated on \d+ of your|no [A-Za-z -]+ records yet: follows your/);
       const lines = text
         .split('\n')
         .map((line) => line.trim())

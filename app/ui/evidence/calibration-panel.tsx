@@ -4,8 +4,7 @@ import { api } from '../common/bridge.js';
 import { useInitialsGate } from '../common/initials-gate.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 import { href } from '../shell/areas.js';
-
-const factorText = (value: number) => `x${value.toFixed(2)}`;
+import { calibrationMilestoneHeading, calibrationSwitchText, factorText } from './evidence-text.js';
 
 /** The clinic's calibration per milestone and species, the switch, and every record that went in. */
 export function CalibrationPanel({
@@ -38,14 +37,7 @@ export function CalibrationPanel({
     <section className="evidence-calibration" aria-labelledby="calibration-title">
       <h2 id="calibration-title">Calibration on your records</h2>
       <p>
-        Calibration is <strong>{calibration.on ? 'on' : 'off'}</strong>
-        {calibration.switchedBy === null
-          ? ' (the default)'
-          : ` (switched by ${calibration.switchedBy} on ${calibration.switchedAt?.slice(0, 10) ?? ''})`}
-        :{' '}
-        {calibration.on
-          ? 'plans show the calibrated figure beside the population model.'
-          : 'plans show the population model only.'}{' '}
+        {calibrationSwitchText(calibration)}{' '}
         <button type="button" onClick={toggle}>
           {calibration.on ? 'Switch calibration off' : 'Switch calibration on'}
         </button>
@@ -69,11 +61,7 @@ export function CalibrationPanel({
         const withRecords = milestone.species.filter((entry) => entry.speciesRecords > 0);
         return (
           <div key={milestone.id}>
-            <h3>
-              {milestone.label}: {milestone.records} records; whole clinic{' '}
-              {factorText(milestone.clinicFactor)} (90 % {factorText(milestone.clinicBand90.low)} to{' '}
-              {factorText(milestone.clinicBand90.high)})
-            </h3>
+            <h3>{calibrationMilestoneHeading(milestone)}</h3>
             {withRecords.length === 0 ? (
               <p>No species has records of this milestone yet.</p>
             ) : (

@@ -16,6 +16,8 @@ import { useInitialsGate } from '../common/initials-gate.js';
 import { href } from '../shell/areas.js';
 import { CalibrationPanel } from './calibration-panel.js';
 import { EvidenceChart } from './evidence-chart.js';
+import { mergeFilter } from './evidence-filter.js';
+import { evidenceCountsText, tableMinutesText as minutes } from './evidence-text.js';
 import './evidence.css';
 
 /** Rows shown at first; the rest on request, so a clinic of thousands of records opens quickly. */
@@ -24,8 +26,6 @@ const firstRows = 200;
 /** "312 records still being compared" (the clinic's completed records whose rows are not ready yet). */
 export const pendingWords = (pending: number) =>
   `${pending} ${pending === 1 ? 'record' : 'records'} still being compared with the model`;
-
-const minutes = (value: number | null) => (value === null ? '—' : value.toFixed(1));
 
 /** "Observed vs predicted": the clinic's completed records beside the model, filterable, with CSV. */
 export function EvidenceArea() {
@@ -48,12 +48,7 @@ export function EvidenceArea() {
   );
 
   function update(change: Partial<EvidenceFilter>) {
-    const merged: Record<string, unknown> = { ...filter, ...change };
-    setFilter(
-      Object.fromEntries(
-        Object.entries(merged).filter(([, value]) => value !== '' && value !== undefined),
-      ) as EvidenceFilter,
-    );
+    setFilter(mergeFilter(filter, change));
   }
 
   async function exportCsv() {
@@ -181,16 +176,7 @@ export function EvidenceArea() {
       {load.state === 'ready' && (
         <>
           <p className="evidence-counts" role="status">
-            {load.value.counts.completed} completed records; {load.value.counts.compared} compared;{' '}
-            {load.value.counts.skipped} skipped whole; skipped for a missing or unusable event:{' '}
-            {evidenceMilestoneIds
-              .map(
-                (id) =>
-                  `${milestoneEvents[id].label.toLowerCase()} ${load.value.counts.skippedByMilestone[id]}`,
-              )
-              .join(', ')}
-            ; {load.value.counts.excluded} left out of the calibration; {load.value.counts.inProgress} still
-            running (not shown).
+            {evidenceCountsText(load.value.counts)}
           </p>
           {load.value.counts.pending > 0 && (
             <p className="evidence-pending" role="status" aria-live="polite">

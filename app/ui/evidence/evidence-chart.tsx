@@ -1,9 +1,8 @@
 import type { EvidenceRow } from '../../contract/evidence-channels.js';
 import type { EvidenceMilestoneId } from '../../core/evidence/observed.js';
+import { evidenceBandFactor, evidenceChartData, evidenceChartSize } from './evidence-chart-data.js';
 
-const width = 420;
-const height = 360;
-const margin = { left: 56, right: 16, top: 16, bottom: 48 };
+const { width, height, margin } = evidenceChartSize;
 
 /**
  * Predicted (x) against observed (y) minutes of one milestone on log axes, with the identity
@@ -18,25 +17,9 @@ export function EvidenceChart({
   readonly milestone: EvidenceMilestoneId;
   readonly label: string;
 }) {
-  const points = rows.flatMap((row) => {
-    const entry = row.milestones.find((candidate) => candidate.id === milestone);
-    return entry?.observedMin != null && entry.predictedMin != null
-      ? [{ x: entry.predictedMin, y: entry.observedMin, excluded: row.exclusion !== null, id: row.recordId }]
-      : [];
-  });
-  const values = points.flatMap((point) => [point.x, point.y]);
-  const low = values.length === 0 ? 0.5 : Math.max(0.05, Math.min(...values) / 1.6);
-  const high = values.length === 0 ? 60 : Math.max(...values) * 1.6;
-  const logLow = Math.log10(low);
-  const logHigh = Math.log10(high);
+  const { points, within, ticks, x: sx, y: sy, line, band } = evidenceChartData(rows, milestone);
   const plotWidth = width - margin.left - margin.right;
   const plotHeight = height - margin.top - margin.bottom;
-  const sx = (value: number) => margin.left + ((Math.log10(value) - logLow) / (logHigh - logLow)) * plotWidth;
-  const sy = (value: number) =>
-    margin.top + plotHeight - ((Math.log10(value) - logLow) / (logHigh - logLow)) * plotHeight;
-  const ticks = [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200].filter((tick) => tick >= low && tick <= high);
-  const within = points.filter((point) => point.y / point.x <= 1.5 && point.y / point.x >= 1 / 1.5).length;
-  const line = (factor: number) => `M${sx(low)},${sy(low * factor)} L${sx(high)},${sy(high * factor)}`;
   return (
     <figure className="evidence-chart">
       <svg
@@ -88,13 +71,19 @@ export function EvidenceChart({
           </g>
         ))}
         <g clipPath="url(#evidence-plot)">
+          <path d={band} fill="var(--chart-band-fill)" stroke="none" />
           <path
-            d={`${line(1.5)} L${sx(high)},${sy(high / 1.5)} L${sx(low)},${sy(low / 1.5)} Z`}
-            fill="var(--chart-band-fill)"
-            stroke="none"
+            d={line(evidenceBandFactor)}
+            stroke="var(--chart-band-line)"
+            strokeDasharray="4 3"
+            fill="none"
           />
-          <path d={line(1.5)} stroke="var(--chart-band-line)" strokeDasharray="4 3" fill="none" />
-          <path d={line(1 / 1.5)} stroke="var(--chart-band-line)" strokeDasharray="4 3" fill="none" />
+          <path
+            d={line(1 / evidenceBandFactor)}
+            stroke="var(--chart-band-line)"
+            strokeDasharray="4 3"
+            fill="none"
+          />
           <path d={line(1)} stroke="var(--chart-grey)" strokeWidth="1.5" fill="none" />
           {points.map((point) => (
             <circle

@@ -9,7 +9,7 @@ import { mergeUncertainty } from '../../core/model/uncertainty.js';
 import { BandPool, poolSize, type SliceWorker } from '../plans/band-pool.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
-import { clockText } from '../records/clock-time.js';
+import { forecastReadout } from './forecast-text.js';
 import { RecordOutcome } from './record-outcome.js';
 import './evidence.css';
 
@@ -22,13 +22,6 @@ function newBandWorker(): SliceWorker {
     type: 'module',
   }) as unknown as SliceWorker;
 }
-
-const clock = (ms: number | null) =>
-  ms === null ? 'not within 90 min' : clockText(new Date(ms).toISOString());
-const range = (band: { low: number; high: number } | null, digits: number) =>
-  band === null
-    ? ''
-    : ` (90 % of birds like this: ${band.low.toFixed(digits)} to ${band.high.toFixed(digits)})`;
 
 /**
  * The forecast that follows the log: the model run on what has been logged, with the vaporiser
@@ -118,6 +111,7 @@ function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; 
       : quick !== null && !('failure' in quick)
         ? quick
         : null;
+  const readout = shown === null ? null : forecastReadout(shown);
   return (
     <section className="evidence-forecast" aria-labelledby="forecast-title" aria-live="polite">
       <h2 id="forecast-title">Forecast that follows the log</h2>
@@ -130,33 +124,20 @@ function RunningForecast({ detail, nowMs }: { readonly detail: ProcedureDetail; 
           <dl>
             <div>
               <dt>Predicted depth now</dt>
-              <dd data-testid="forecast-depth">
-                {shown.depthNowMac.toFixed(2)} x MAC{range(shown.depthBandMac, 2)}
-              </dd>
+              <dd data-testid="forecast-depth">{readout?.depth}</dd>
             </div>
             <div>
-              <dt>{shown.alreadyOff ? 'Vaporiser went off at' : 'If the vaporiser goes off now'}</dt>
-              <dd>{clock(shown.offAtMs)}</dd>
+              <dt>{readout?.offLabel}</dt>
+              <dd>{readout?.off}</dd>
             </div>
             <div>
               <dt>First movement about</dt>
-              <dd data-testid="forecast-first-movement">
-                {clock(shown.firstMovementAtMs)}
-                {range(shown.firstMovementBandMin, 0).replace(')', ' min after off)')}
-              </dd>
+              <dd data-testid="forecast-first-movement">{readout?.firstMovement}</dd>
             </div>
             <div>
               <dt>Standing or perching about</dt>
-              <dd
-                data-testid="forecast-standing"
-                data-minutes-after-off={
-                  shown.standingAtMs === null
-                    ? ''
-                    : ((shown.standingAtMs - shown.offAtMs) / 60_000).toFixed(2)
-                }
-              >
-                {clock(shown.standingAtMs)}
-                {range(shown.standingBandMin, 0).replace(')', ' min after off)')}
+              <dd data-testid="forecast-standing" data-minutes-after-off={readout?.standingMinutesAfterOff}>
+                {readout?.standing}
               </dd>
             </div>
           </dl>

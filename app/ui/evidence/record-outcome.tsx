@@ -2,6 +2,7 @@ import { milestoneEvents } from '../../core/evidence/observed.js';
 import { useChannel } from '../common/use-channel.js';
 import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
+import { outcomeMilestoneText } from './evidence-text.js';
 
 /** After a record ends: each observed milestone beside what the model predicted for what was given. */
 export function RecordOutcome({ recordId }: { readonly recordId: number }) {
@@ -29,11 +30,7 @@ export function RecordOutcome({ recordId }: { readonly recordId: number }) {
           {row.milestones.map((milestone) => (
             <div key={milestone.id}>
               <dt>{milestoneEvents[milestone.id].label}</dt>
-              <dd>
-                {milestone.ratio === null
-                  ? `skipped: ${milestone.skipped ?? ''}`
-                  : `observed ${milestone.observedMin?.toFixed(1) ?? ''} min, predicted ${milestone.predictedMin?.toFixed(1) ?? ''} min (x${milestone.ratio.toFixed(2)})`}
-              </dd>
+              <dd>{outcomeMilestoneText(milestone)}</dd>
             </div>
           ))}
         </dl>

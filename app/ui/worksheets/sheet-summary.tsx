@@ -2,6 +2,7 @@ import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
+import { calibratedSummaryText, type CalibratedLine } from '../../core/evidence/calibrated-figure.js';
 import { asaMortalityText, minutesWithRangeText } from '../../core/worksheet.js';
 import { displayDate, displayMass } from '../common/display.js';
 import { routeLabels } from '../../core/delivery.js';
@@ -14,8 +15,9 @@ const severityWords = { danger: 'DANGER', warning: 'WARNING', notice: 'NOTICE' }
 /**
  * Page 1 of the worksheet, the prep-room summary that stands alone: the bird, how it is to be
  * anaesthetised (one row per phase: route, breathing system, flow, dial steps, oxygen and agent), the
- * predicted times with their ranges, what to have ready and the cautions in one line each. The
- * emergency card follows it on the same page.
+ * predicted times with their ranges (and the clinic's calibrated figures when its calibration is
+ * on), what to have ready and the cautions in one line each. The emergency card follows it on the
+ * same page.
  */
 export function SummarySection({
   detail,
@@ -23,12 +25,15 @@ export function SummarySection({
   patientName,
   identifier,
   result,
+  calibrated,
 }: {
   readonly detail: PlanDetail;
   readonly settings: ClinicSettings;
   readonly patientName: string;
   readonly identifier: string;
   readonly result: PlanResult;
+  /** The calibrated lines of the plan's milestones (none when the calibration is off or unread). */
+  readonly calibrated: readonly CalibratedLine[];
 }) {
   const { plan, patient, species, weightTrendText } = detail;
   const input = plan.input;
@@ -37,6 +42,12 @@ export function SummarySection({
   const grade = plan.checklist.asaGrade;
   const phases = phasesOfPlan(input, result);
   const agentName = agent.displayName.toLowerCase();
+  // Induction is the planned surgical depth, recovery the first movement (compute-plan.ts); one
+  // line, so the emergency card still fits on this page; each basis is with the predicted course.
+  const calibratedTimes = calibratedSummaryText([
+    { name: 'induction', line: calibrated.find((line) => line.id === 'surgicalDepth') },
+    { name: 'recovery', line: calibrated.find((line) => line.id === 'firstMovement') },
+  ]);
   return (
     <section className="ws-section ws-summary" aria-labelledby="ws-summary">
       <h2 id="ws-summary" className="ws-visually-hidden">
@@ -188,6 +199,11 @@ export function SummarySection({
           </tbody>
         </table>
       </div>
+      {calibratedTimes !== null && (
+        <p className="ws-small ws-calibrated" data-calibrated="summary">
+          Your clinic’s calibration: {calibratedTimes}; what each rests on is with the predicted course.
+        </p>
+      )}
 
       <h3>Cautions ({result.cautions.length === 0 ? 'none raised' : String(result.cautions.length)})</h3>
       {result.cautions.length > 0 && (

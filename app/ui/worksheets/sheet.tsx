@@ -1,11 +1,13 @@
 import { useCallback, useState } from 'react';
 import type { EmergencyDrug } from '../../contract/drug-channels.js';
+import type { CalibrationView } from '../../contract/evidence-channels.js';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
+import { calibratedFigures } from '../../core/evidence/calibrated-figure.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { runningHeaderLines } from '../../core/worksheet.js';
-import { displayDate, setClinicDateFormat } from '../common/display.js';
+import { displayDate, setClinicDateFormat, todayIso } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
@@ -24,6 +26,11 @@ export type SheetProps = {
   readonly appVersion: string;
   readonly settings: ClinicSettings;
   readonly printedAt: Date;
+  /**
+   * The clinic's calibration as read now (printed beside the saved figures, dated), or null when
+   * it could not be read.
+   */
+  readonly calibration: CalibrationView | null;
 };
 
 /** Ring, microchip or the clinic's record number: what tells this bird from another on paper. */
@@ -41,7 +48,7 @@ export function patientIdentifier(detail: PlanDetail): string {
  * identifier, date, plan version and "page n of N" in its margins. Plain hooks only: print.html
  * renders it through Preact's compatibility layer.
  */
-export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetProps) {
+export function Sheet({ detail, drugs, appVersion, settings, printedAt, calibration }: SheetProps) {
   setClinicDateFormat(settings.dateFormat);
   const [drawn, setDrawn] = useState(false);
   const onDrawn = useCallback(() => setDrawn(true), []);
@@ -51,6 +58,14 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const result: PlanResult = {
     ...plan.result,
     cautions: cautionsForPatient(plan.result.cautions, patient?.values.sex ?? null),
+  };
+  // The saved figures stay as saved; the calibrated figure beside them is today's.
+  const sheetCalibration = {
+    figures:
+      calibration === null
+        ? null
+        : calibratedFigures(plan.result, input.speciesId ?? patient?.values.speciesKey, calibration),
+    dateText: displayDate(todayIso(printedAt)),
   };
   const recoveryWindowMin =
     input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);
@@ -97,6 +112,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
         patientName={patientName}
         identifier={identifier}
         result={result}
+        calibrated={sheetCalibration.figures?.state === 'on' ? sheetCalibration.figures.lines : []}
       />
       <EmergencyCardSection drugs={drugs} bodyMassG={input.bodyMassG} massUnit={settings.massUnit} />
 
@@ -105,7 +121,12 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
       </div>
       <CautionsSection result={result} />
       <PlanSection input={input} result={result} recoveryWindowMin={recoveryWindowMin} />
-      <PredictionSection result={result} schedule={input.schedule} onDrawn={onDrawn} />
+      <PredictionSection
+        result={result}
+        schedule={input.schedule}
+        onDrawn={onDrawn}
+        calibration={sheetCalibration}
+      />
       <SuppliesSection input={input} result={result} />
       <EstimatesSection result={result} />
       <MonitoringSection

@@ -18,6 +18,7 @@ export function Worksheet({ planId }: { readonly planId: number }) {
   const [detail] = useChannel('plans:get', { id: planId });
   const [drugs] = useChannel('drugs:list', {});
   const [info] = useChannel('app:info', {});
+  const [calibration] = useChannel('evidence:calibration', {});
   const settings = useClinicSettings();
   const [printedAt] = useState(() => new Date());
   const [pdfMessage, setPdfMessage] = useState<string | null>(null);
@@ -36,7 +37,12 @@ export function Worksheet({ planId }: { readonly planId: number }) {
       </section>
     );
   }
-  if (detail.state !== 'ready' || drugs.state !== 'ready' || info.state !== 'ready')
+  if (
+    detail.state !== 'ready' ||
+    drugs.state !== 'ready' ||
+    info.state !== 'ready' ||
+    calibration.state === 'loading'
+  )
     return <p aria-busy="true">Loading the worksheet…</p>;
 
   const name = (detail.value.patient?.values.name ?? detail.value.plan.input.patientName ?? 'plan').replace(
@@ -79,6 +85,7 @@ export function Worksheet({ planId }: { readonly planId: number }) {
           appVersion={info.value.appVersion}
           settings={settings}
           printedAt={printedAt}
+          calibration={calibration.state === 'ready' ? calibration.value : null}
         />
       </ScrollRegion>
     </div>
