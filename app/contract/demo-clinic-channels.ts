@@ -17,6 +17,15 @@ export const demoClinicStatusSchema = z.object({
   /** Where the clinic is kept, for saying how to start a real clinic beside the demo. */
   engine: z.enum(databaseEngines),
   dataDirectory: z.string(),
+  /** What the demo clinic holds, for the screens to describe it before it is written. */
+  demo: z.object({
+    name: z.string(),
+    birds: count,
+    species: count,
+    records: count,
+    /** Its records fall within this many days before the day it is written. */
+    days: count,
+  }),
 });
 export type DemoClinicStatus = z.infer<typeof demoClinicStatusSchema>;
 

@@ -1,4 +1,5 @@
 import type { DemoClinicStatus } from '../../app/contract/demo-clinic-channels.js';
+import { demoClinicName, demoClinicSize } from '../../app/core/evidence/demo-clinic.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
@@ -25,6 +26,7 @@ export function createDemoClinicHandlers(
     demoPatientCount: await patients.countFirstEntered(demoEnteredBy, demoOwnerReference),
     engine: clinic.engine,
     dataDirectory,
+    demo: { name: demoClinicName, ...demoClinicSize },
   });
   return {
     'demo-clinic:status': status,

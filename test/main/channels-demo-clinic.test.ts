@@ -20,6 +20,14 @@ import { openTestClinic, testEngines } from '../support/clinic-engines.js';
 import { temporaryFolder } from '../support/temporary-folder.js';
 
 const now = new Date('2026-12-01T09:30:00.000Z');
+/** What the screens are told the demo holds: six invented species (app/core/evidence/demo-clinic.ts). */
+const demo = {
+  name: 'Fernbrook Avian Practice (demo, invented)',
+  birds: 28,
+  species: 6,
+  records: 60,
+  days: 180,
+};
 
 describe.each(testEngines)('the demo clinic as a first-start choice on %s', (engine: Engine) => {
   /** A fresh clinic with the species reference seeded (as every start does), behind the dispatcher. */
@@ -64,20 +72,20 @@ describe.each(testEngines)('the demo clinic as a first-start choice on %s', (eng
       demoPatientCount: 0,
       engine,
       dataDirectory,
+      demo,
     });
     expect((await answer('settings:get')).settings).toBeNull();
 
     const written = await answer('demo-clinic:create');
     // Six invented species: 28 invented birds and 60 finished procedures (demo-clinic.ts).
-    expect(demoClinicSize).toEqual({ birds: 28, species: 6, records: 60, days: 180 });
+    expect({ name: demoClinicName, ...demoClinicSize }).toEqual(demo);
     expect(written.recordsWritten).toBe(60);
-    expect(written.status).toEqual({ patientCount: 28, demoPatientCount: 28, engine, dataDirectory });
+    expect(written.status).toEqual({ patientCount: 28, demoPatientCount: 28, engine, dataDirectory, demo });
     expect(written.settings.settings).toEqual({
       ...defaultClinicSettings,
       clinicName: 'Fernbrook Avian Practice (demo, invented)',
       dateFormat: 'YYYY-MM-DD',
     });
-    expect(demoClinicName).toBe('Fernbrook Avian Practice (demo, invented)');
     expect(written.settings.updatedAt).toBe(now.toISOString());
     expect(await rows(clinic, 'patients')).toBe(28);
     expect(await rows(clinic, 'weights')).toBe(28);
@@ -138,7 +146,7 @@ describe('the demo clinic’s change notices', () => {
   it('tell every screen that patients, weights, records, logs, evidence and settings changed', () => {
     const notices = changeNoticesFor('demo-clinic:create', {
       recordsWritten: 60,
-      status: { patientCount: 28, demoPatientCount: 28, engine: 'sqlite', dataDirectory: '/tmp/x' },
+      status: { patientCount: 28, demoPatientCount: 28, engine: 'sqlite', dataDirectory: '/tmp/x', demo },
       settings: { settings: null, updatedAt: null },
     });
     expect(notices.map((notice) => notice.kind)).toEqual([
@@ -155,6 +163,7 @@ describe('the demo clinic’s change notices', () => {
         demoPatientCount: 0,
         engine: 'sqlite',
         dataDirectory: '/tmp/x',
+        demo,
       }),
     ).toEqual([]);
   });
