@@ -128,6 +128,17 @@ export const changeNoticesOf: { readonly [C in ChannelName]: NoticeRule<C> } = {
 
   'workstation:get': 'read-only',
   'workstation:save': () => [{ kind: 'workstations' }],
+
+  'demo-clinic:status': 'read-only',
+  // Invented patients with their weights, records and logs; the clinic's name when none was set.
+  'demo-clinic:create': () => [
+    { kind: 'patients' },
+    { kind: 'weights' },
+    { kind: 'procedure-records' },
+    { kind: 'procedure-entries' },
+    { kind: 'evidence' },
+    { kind: 'settings' },
+  ],
 };
 
 function planNotice(plan: { id: number; patientId: number | null; plannedFor: string }): ChangeNoticeInput {

@@ -8,6 +8,7 @@ import { worksheetChannels } from './worksheet-channels.js';
 import { evidenceChannels } from './evidence-channels.js';
 import { workstationChannels } from './workstation.js';
 import { databaseChannels } from './database-channels.js';
+import { demoClinicChannels } from './demo-clinic-channels.js';
 
 const empty = z.object({}).strict();
 
@@ -48,6 +49,7 @@ export const channels = {
   ...evidenceChannels,
   ...workstationChannels,
   ...databaseChannels,
+  ...demoClinicChannels,
 } as const;
 
 export type Channels = typeof channels;

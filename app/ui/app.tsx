@@ -98,6 +98,7 @@ export function App() {
   const [safetyLoad] = useChannel('safety:status', {});
   const [settingsLoad, reloadSettings] = useChannel('settings:get', {});
   const [workstationLoad] = useChannel('workstation:get', {});
+  const [demoLoad, reloadDemo] = useChannel('demo-clinic:status', {});
   const [safety, setSafety] = useState<SafetyStatus | null>(null);
   const [stored, setStored] = useState<StoredSettings | null>(null);
   const route = useRoute();
@@ -108,11 +109,18 @@ export function App() {
   // during first-run setup, whose form would be replaced; the settings form keeps its draft.
   const setUp = currentSettings?.settings != null;
   useChangeNotices((notice) => notice.kind === 'settings' && setUp, reloadSettings);
+  // Whether the clinic holds patients, and the demo's invented birds (the header says so).
+  useChangeNotices((notice) => notice.kind === 'patients', reloadDemo);
 
   if (safetyLoad.state === 'failed') return <Failure message={safetyLoad.error.message} />;
   if (settingsLoad.state === 'failed') return <Failure message={settingsLoad.error.message} />;
   if (workstationLoad.state === 'failed') return <Failure message={workstationLoad.error.message} />;
-  if (currentSafety === null || currentSettings === null || workstationLoad.state !== 'ready') {
+  if (
+    currentSafety === null ||
+    currentSettings === null ||
+    workstationLoad.state !== 'ready' ||
+    demoLoad.state === 'loading'
+  ) {
     return (
       <main className="gate" aria-busy="true">
         <p>Opening the clinic database…</p>
@@ -125,6 +133,8 @@ export function App() {
   setClinicDateFormat(currentSettings.settings?.dateFormat);
   const needsSetup = currentSettings.settings === null;
   const shown: Route = needsSetup ? { area: 'settings', segments: [] } : route;
+  // Without an answer (the status failed), no demo is offered and no banner shown.
+  const demo = demoLoad.state === 'ready' ? demoLoad.value : null;
   return (
     <OperatorProvider loaded={workstationLoad.value}>
       <SettingsContext.Provider value={currentSettings.settings}>
@@ -132,6 +142,7 @@ export function App() {
           current={shown.area}
           clinicName={currentSettings.settings?.clinicName ?? 'New clinic'}
           appVersion={currentSafety.appVersion}
+          demoClinic={demo !== null && demo.demoPatientCount > 0}
           screenKey={needsSetup ? 'setup' : window.location.hash}
         >
           {shown.area === 'settings' ? (
@@ -142,6 +153,13 @@ export function App() {
                 // After first-run setup, stay on Settings so the confirmation is seen.
                 if (needsSetup) window.location.hash = '#/settings';
                 setStored(saved);
+              }}
+              demoOffer={demo !== null && demo.patientCount === 0 ? demo : null}
+              onDemoOpened={(written) => {
+                // Straight to what the demo is for: the clinic's records beside the model's predictions.
+                window.location.hash = '#/evidence';
+                reloadDemo();
+                if (written.settings.settings !== null) setStored(written.settings);
               }}
             />
           ) : (

@@ -326,6 +326,21 @@ export function createPatientRepository(sql: Sql) {
         .executeTakeFirst();
       return Number(row?.total ?? 0);
     },
+    /**
+     * How many patients were first entered by `enteredBy` with this owner reference, whatever was
+     * corrected since (the demo clinic's invented birds: entered by DEMO, owner "Demo owner
+     * (invented)").
+     */
+    async countFirstEntered(enteredBy: string, ownerReference: string): Promise<number> {
+      const row = await tables(sql)
+        .selectFrom('patient_versions')
+        .select(({ fn }) => fn.countAll<number>().as('total'))
+        .where('corrects_id', 'is', null)
+        .where('entered_by', '=', enteredBy)
+        .where('owner_reference', '=', ownerReference)
+        .executeTakeFirst();
+      return Number(row?.total ?? 0);
+    },
   };
 }
 

@@ -1,20 +1,29 @@
 import { speciesToReference } from '../../app/contract/species-mapping.js';
+import { defaultClinicSettings } from '../../app/contract/settings.js';
 import { demoClinicName, generateDemoClinic, type DemoClinic } from '../../app/core/evidence/demo-clinic.js';
 import { writeTransaction, type Sql } from '../../db/clinic-db.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createProcedureEntryRepository } from '../../db/repositories/procedure-entry-repository.js';
 import { createProcedureRecordRepository } from '../../db/repositories/procedure-record-repository.js';
+import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository } from '../../db/repositories/weight-repository.js';
 
 /** The seed of the demo clinic: the same clinic at every demo start on the same day. */
 export const demoSeed = 20261202;
 
-const demoMeta = { enteredBy: 'DEMO', reason: '' } as const;
+/** Who entered the demo's rows: no one of the clinic. */
+export const demoEnteredBy = 'DEMO';
+/** The owner reference of every invented bird; with `demoEnteredBy`, how the demo's birds are known. */
+export const demoOwnerReference = 'Demo owner (invented)';
+
+const demoMeta = { enteredBy: demoEnteredBy, reason: '' } as const;
 
 /**
- * Fills an empty clinic with the invented demo clinic (`--demo`). A clinic that already holds a
- * patient is left alone: invented birds are never mixed with a clinic's own.
+ * Fills an empty clinic with the invented demo clinic (`--demo`, or the demo chosen on the first
+ * start through `demo-clinic:create`), and names the clinic as the invented demo clinic when it
+ * has no name yet. A clinic that already holds a patient is left alone: invented birds are never
+ * mixed with a clinic's own.
  * @returns the number of procedure records written (0 when the clinic was not empty)
  */
 export async function writeDemoClinic(clinic: Sql, now: Date): Promise<number> {
@@ -23,7 +32,15 @@ export async function writeDemoClinic(clinic: Sql, now: Date): Promise<number> {
   const demo = generateDemoClinic(demoSeed, now.toISOString().slice(0, 10), {
     species: species.map(speciesToReference),
   });
-  return writeDemoRecords(clinic, demo, now);
+  // Asked again inside the write: another workstation may have added a bird meanwhile.
+  return writeTransaction(clinic, async (tx) => {
+    if ((await createPatientRepository(tx).count()) > 0) return 0;
+    const written = await writeDemoRecords(tx, demo, now);
+    const settings = createSettingsRepository(tx);
+    if ((await settings.get()).settings === null)
+      await settings.save({ ...defaultClinicSettings, clinicName: demoClinicName }, now);
+    return written;
+  });
 }
 
 /**
@@ -47,7 +64,7 @@ export async function writeDemoRecords(clinic: Sql, demo: DemoClinic, now: Date)
           ageText: '',
           ringId: '',
           microchipId: '',
-          ownerReference: 'Demo owner (invented)',
+          ownerReference: demoOwnerReference,
           notes: `${demoClinicName}: an invented bird for the demo.`,
         },
         demoMeta,
@@ -55,7 +72,12 @@ export async function writeDemoRecords(clinic: Sql, demo: DemoClinic, now: Date)
       );
       await weights.add(
         created.id,
-        { weighedOn: patient.weighedOn, massG: patient.massG, bodyCondition: 'ideal', weighedBy: 'DEMO' },
+        {
+          weighedOn: patient.weighedOn,
+          massG: patient.massG,
+          bodyCondition: 'ideal',
+          weighedBy: demoEnteredBy,
+        },
         demoMeta,
         now,
       );

@@ -33,6 +33,7 @@ import { createWorkstationHandlers } from './workstation-handlers.js';
 import { workstationIdOf } from './workstation-identity.js';
 import { ConcurrentChangeError } from './concurrent-change.js';
 import { createDatabaseHandlers } from './database-handlers.js';
+import { createDemoClinicHandlers } from './demo-clinic-handlers.js';
 import { postgresSchemaVersion } from '../../db/postgres-connection.js';
 import type { DatabaseChoiceSource } from '../../app/contract/database-channels.js';
 
@@ -172,6 +173,7 @@ export function createBackEndParts(given: HandlerContext): {
       host: context.host,
       chosenBy: context.databaseChoice ?? 'default',
     }),
+    ...createDemoClinicHandlers(context.now, context.clinic, context.dataDirectory),
   };
   return {
     handlers: keepingEvidenceRows(handlers, evidenceRows, evidenceBackfill, context.log),

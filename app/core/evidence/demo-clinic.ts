@@ -100,6 +100,15 @@ const demoSpecies: readonly DemoSpecies[] = [
   },
 ];
 
+/** What the demo clinic holds, as the screens describe it before it is written. */
+export const demoClinicSize = {
+  birds: demoSpecies.reduce((total, species) => total + species.names.length, 0),
+  species: demoSpecies.length,
+  records: demoSpecies.reduce((total, species) => total + species.records, 0),
+  /** The records fall within this many days before the day the demo is written. */
+  days: 180,
+} as const;
+
 const procedures = [
   'Wing radiograph',
   'Beak and nail trim',

@@ -7,6 +7,7 @@ import {
   type StoredSettings,
 } from '../../contract/settings.js';
 import type { SafetyStatus } from '../../contract/safety.js';
+import type { DemoClinicStatus, DemoClinicWritten } from '../../contract/demo-clinic-channels.js';
 import { describeIssues } from '../../contract/result.js';
 import { agentIds, agentLabels } from '../../core/agents.js';
 import { dateFormatLabels, dateFormats, defaultDateFormat } from '../../core/date-format.js';
@@ -21,20 +22,29 @@ import { SaveStatus, type SaveMessage } from '../common/save-status.js';
 import { focusMainHeading, useFocusFirstError } from '../common/screen-focus.js';
 import { WorkstationSection } from './workstation-section.js';
 import { displayDateTime } from '../common/display.js';
+import { DemoStart, StartChoice, type StartKind } from './start-choice.js';
 
 type Props = {
   readonly stored: StoredSettings;
   readonly safety: SafetyStatus;
   readonly onSaved: (stored: StoredSettings) => void;
+  /**
+   * On the first start of a clinic without patients: the demo clinic, offered beside an empty
+   * clinic; null when it is not offered.
+   */
+  readonly demoOffer?: DemoClinicStatus | null;
+  readonly onDemoOpened?: (written: DemoClinicWritten) => void;
 };
 
 /** Clinic name, address and preferred units; validated per field, saved to the clinic database. */
-export function SettingsScreen({ stored, safety, onSaved }: Props) {
+export function SettingsScreen({ stored, safety, onSaved, demoOffer = null, onDemoOpened }: Props) {
   const [draft, setDraft] = useState<ClinicSettings>(stored.settings ?? defaultClinicSettings);
   const [errors, setErrors] = useState<FieldErrors>({});
   const [message, setMessage] = useState<SaveMessage | null>(null);
   const [busy, setBusy] = useState(false);
   const firstRun = stored.settings === null;
+  const offer = firstRun ? demoOffer : null;
+  const [start, setStart] = useState<StartKind>('empty');
   const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
 
   function update<K extends keyof ClinicSettings>(key: K, value: ClinicSettings[K]) {
@@ -77,16 +87,28 @@ export function SettingsScreen({ stored, safety, onSaved }: Props) {
       <h1 id="settings-title">{firstRun ? 'Set up your clinic' : 'Settings'}</h1>
       {firstRun && (
         <p className="lead">
-          Enter the clinic’s name and the units your staff read. You can change them later.
+          {offer === null
+            ? 'Enter the clinic’s name and the units your staff read. You can change them later.'
+            : 'Start an empty clinic for your own birds, or look around the invented demo clinic first.'}
         </p>
       )}
-      <form ref={formRef} onSubmit={(event) => void submit(event)} noValidate className="form settings-form">
+      {offer !== null && <StartChoice demo={offer.demo} value={start} onChange={setStart} />}
+      {offer !== null && start === 'demo' && (
+        <DemoStart status={offer} onOpened={(written) => onDemoOpened?.(written)} />
+      )}
+      <form
+        ref={formRef}
+        onSubmit={(event) => void submit(event)}
+        noValidate
+        className="form settings-form"
+        hidden={offer !== null && start === 'demo'}
+      >
         <TextField
           label="Clinic name"
           name="clinicName"
           value={draft.clinicName}
           error={errors['clinicName']}
-          autoFocus={firstRun}
+          autoFocus={firstRun && offer === null}
           onChange={(value) => update('clinicName', value)}
         />
         <TextField

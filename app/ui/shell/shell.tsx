@@ -2,11 +2,14 @@ import { useEffect, type ReactNode } from 'react';
 import { OperatorField } from '../common/operator.js';
 import { useScreenAnnouncement } from '../common/screen-focus.js';
 import { areas, type AreaId } from './areas.js';
+import './demo-clinic-marker.css';
 
 type Props = {
   readonly current: AreaId;
   readonly clinicName: string;
   readonly appVersion: string;
+  /** The clinic holds the demo's invented birds: said on every screen, so none is taken for real. */
+  readonly demoClinic?: boolean;
   /** Changes when the screen changes (the location hash): focus then moves to the new heading. */
   readonly screenKey: string;
   readonly children: ReactNode;
@@ -19,7 +22,7 @@ function skipToMain(event: React.MouseEvent<HTMLAnchorElement>) {
 }
 
 /** Frame of every screen: the standing caution, navigation (Alt+1 to Alt+7) and the content. */
-export function Shell({ current, clinicName, appVersion, screenKey, children }: Props) {
+export function Shell({ current, clinicName, appVersion, demoClinic = false, screenKey, children }: Props) {
   useScreenAnnouncement(screenKey);
   useEffect(() => {
     function onKey(event: KeyboardEvent) {
@@ -49,6 +52,11 @@ export function Shell({ current, clinicName, appVersion, screenKey, children }: 
           Planning aid: every figure is an estimate with its basis shown. The responsible veterinarian
           decides.
         </p>
+        {demoClinic && (
+          <p className="demo-clinic-marker" role="note">
+            Demo clinic: invented birds, not real patients.
+          </p>
+        )}
         <OperatorField />
       </header>
       <nav className="sidebar" aria-label="Areas">
