@@ -203,7 +203,7 @@ describe('planning from a patient in headless Chromium', () => {
     );
     // The agent, then each phase with its route, breathing system, flow (edited to 1.5) and dials.
     await expect(page.getByRole('table').first().innerText()).resolves.toMatch(
-      /Isoflurane\s+Face mask, Non-rebreathing system · 1\.5 L\/min \(recommended [\d.]+\) · 4 % → 2 % at 5 min/,
+      /Isoflurane\s+Face mask, Non-rebreathing system · 1\.5 L\/min \(recommended [\d.]+\) · 4 % from 0 min, 2 % from 5 min/,
     );
     await shoot(page, '42-day-list');
 

@@ -159,7 +159,7 @@ describe('the prep room at 1366x800', () => {
     const pip = page.getByRole('row', { name: /Wing radiograph/ });
     await pip.waitFor();
     // examples/plans/pip-budgerigar-mask-isoflurane.json: 4 % then 2 % from 4 min, off at 30, 1 L/min
-    await expect(pip.innerText()).resolves.toMatch(/4 % → 2 % at 4 min, off at 30 min/);
+    await expect(pip.innerText()).resolves.toMatch(/4 % from 0 min, 2 % from 4 min, off at 30 min/);
     await expect(pip.innerText()).resolves.toMatch(/1 L\/min/);
     await expect(pip.getByRole('cell').nth(3).innerText()).resolves.toBe('2');
     await shoot(page, '63-day-list');
