@@ -5,7 +5,7 @@ import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { runningHeaderLines } from '../../core/worksheet.js';
-import { displayDate, setClinicDateFormat } from '../common/display.js';
+import { displayDate, displayDateTime, setClinicDateFormat } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
@@ -118,8 +118,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
 
       <footer className="ws-footer">
         Tidewing {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId}{' '}
-        saved by {plan.stamp.enteredBy} · printed{' '}
-        {printedAt.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
+        saved by {plan.stamp.enteredBy} · printed {displayDateTime(printedAt)}
       </footer>
     </article>
   );
