@@ -4,6 +4,7 @@ import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
+import { planChoiceIn, planChoiceSuffix } from '../../core/plan-choice.js';
 import { runningHeaderLines } from '../../core/worksheet.js';
 import { displayDate, displayDateTime, setClinicDateFormat } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
@@ -57,6 +58,8 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
   const sheetClass = paperClass(settings.paperSize);
   const identifier = patientIdentifier(detail);
+  // Of a saved comparison, whether this is the plan the clinic will use or its alternative.
+  const choice = planChoiceSuffix(planChoiceIn(plan.id, detail.comparison));
   const running = runningHeaderLines({
     clinicName: settings.clinicName,
     patientName,
@@ -86,6 +89,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt }: SheetP
           <p>
             Plan {plan.id}
             {plan.label === '' ? '' : ` “${plan.label}”`} for {displayDate(plan.plannedFor)}
+            {choice}
             {plan.checklist.emergency ? ' · EMERGENCY' : ''}
           </p>
         </div>
