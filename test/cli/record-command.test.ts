@@ -158,6 +158,8 @@ describe('tidewing record', () => {
       'First entered by RW',
       'predicted beside logged',
       'First movement: 3 min',
+      // The plan's dial in the one wording of dial steps (app/core/plan-phases.ts).
+      'Isoflurane, planned dial 4 % from 0 min, 2 % from 4 min, off at 30 min.',
       // The voided row stays in its place with who voided it and why.
       'Voided by JM',
       '“Probe slipped off the toe”. First entered by RW.',

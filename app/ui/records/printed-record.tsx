@@ -7,6 +7,7 @@ import { minutesWithRangeText } from '../../core/worksheet.js';
 import { displayDateTime, setClinicDateFormat } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { dialStepsText } from '../../core/plan-phases.js';
 import { clockText } from './clock-time.js';
 import {
   readingFields,
@@ -312,13 +313,8 @@ export function PrintedRecord({
           </table>
           <p className="pr-small">
             {agents[plan.plan.input.agent].displayName}, planned dial{' '}
-            {plan.plan.input.schedule
-              .map(
-                (step) =>
-                  `${String(step.atMin)} min ${step.vaporPct === 0 ? 'off' : `${String(step.vaporPct)} %`}`,
-              )
-              .join(', ')}
-            . The prediction is for the plan’s schedule, not for what was given.
+            {dialStepsText(plan.plan.input.schedule)}. The prediction is for the plan’s schedule, not for what
+            was given.
           </p>
         </section>
       )}
