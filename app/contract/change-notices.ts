@@ -105,6 +105,7 @@ export const changeNoticesOf: { readonly [C in ChannelName]: NoticeRule<C> } = {
 
   'plans:save': (plan) => [planNotice(plan)],
   'plans:save-comparison': ({ plan, variant }) => [planNotice(plan), planNotice(variant)],
+  'plans:save-variant': (plan) => [planNotice(plan)],
   'plans:choose': ({ chosenId }) => [{ kind: 'plans', planId: chosenId }],
   'plans:correct': (plan) => [planNotice(plan)],
   'plans:get': 'read-only',

@@ -150,6 +150,15 @@ export const planChannels = {
     request: z.object({ fields: planFieldsSchema, variantFields: planFieldsSchema, meta }),
     response: z.object({ plan: savedPlanSchema, variant: savedPlanSchema }),
   },
+  /**
+   * A variant of a plan already saved (`of`, its newest version): a new plan marked as its
+   * alternative, for the same patient and day; the saved plan is not changed and stays chosen
+   * until the clinic chooses otherwise.
+   */
+  'plans:save-variant': {
+    request: z.object({ of: z.number().int().positive(), fields: planFieldsSchema, meta }),
+    response: savedPlanSchema,
+  },
   /** Makes this plan the chosen one of its saved comparison. */
   'plans:choose': {
     request: z.object({ id: z.number().int().positive(), meta }),

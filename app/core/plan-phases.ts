@@ -81,13 +81,29 @@ export function plannedMovesText(phases: readonly PhaseStart[]): string {
     .join(', then ');
 }
 
-/** Dial steps as short words, e.g. ["4 % from 0 min", "2 % from 5 min", "off at 30 min"]. */
+/**
+ * A vaporiser schedule as the clinic reads it, one part per change of setting:
+ * ["4 % from 0 min", "2 % from 4 min", "off at 30 min"]. A step at the same setting as the one
+ * before is left out; a schedule that starts with the vaporiser off reads "off from 6 min". The
+ * one wording of dial steps: the worksheet prints the parts one a line, lists and the command line
+ * join them (`dialStepsText`).
+ */
 export function dialStepTexts(steps: readonly PlanScheduleStep[]): string[] {
-  return steps.map((step) =>
-    step.vaporPct === 0
-      ? `off at ${short(step.atMin)} min`
-      : `${short(step.vaporPct)} % from ${short(step.atMin)} min`,
-  );
+  const parts: string[] = [];
+  let previous: number | null = null;
+  for (const step of steps) {
+    if (step.vaporPct === previous) continue;
+    const at = `${short(step.atMin)} min`;
+    if (step.vaporPct !== 0) parts.push(`${short(step.vaporPct)} % from ${at}`);
+    else parts.push(previous === null ? `off from ${at}` : `off at ${at}`);
+    previous = step.vaporPct;
+  }
+  return parts;
+}
+
+/** A vaporiser schedule in one line: "4 % from 0 min, 2 % from 4 min, off at 30 min" (`dialStepTexts`). */
+export function dialStepsText(steps: readonly PlanScheduleStep[]): string {
+  return dialStepTexts(steps).join(', ');
 }
 
 /** The minutes a phase covers, e.g. "0-6 min" or "6-45 min (0.5 min on room air first)". */

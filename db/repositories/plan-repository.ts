@@ -226,6 +226,29 @@ export function createPlanRepository(sql: Sql) {
       });
     },
     /**
+     * A variant of a plan already saved: a new plan marked as its alternative (of the comparison
+     * the saved plan belongs to, when it is itself a variant). The saved plan is never changed;
+     * when this starts a comparison, the saved plan is recorded as the chosen one, as in
+     * `saveComparison`. Refuses to branch from a version that was already replaced.
+     */
+    saveVariant(
+      ofPlanId: number,
+      variant: PlanToStore,
+      meta: Meta,
+      at: Date,
+    ): Promise<SavedPlan | 'not-found' | 'stale'> {
+      return writeTransaction(sql, async (tx) => {
+        const inTx = planQueries(tx);
+        const saved = await inTx.byId(ofPlanId);
+        if (saved === undefined) return 'not-found' as const;
+        if (await inTx.isCorrected(ofPlanId)) return 'stale' as const;
+        const comparisonId = saved.variant_of ?? (await inTx.rootOf(ofPlanId));
+        if ((await inTx.latestChoice(comparisonId)) === null)
+          await inTx.insertChoice(comparisonId, comparisonId, meta, at);
+        return inTx.write(variant, null, comparisonId, meta, at);
+      });
+    },
+    /**
      * The plans of the comparison `planId` belongs to (newest versions, the compared plan first)
      * and which of them is chosen; null when the plan is in no comparison.
      */

@@ -105,6 +105,26 @@ export function createPlanHandlers(now: () => Date, clinic: ClinicDb): PlanHandl
         );
       return plans.saveComparison(first, second, request.meta, now());
     },
+    'plans:save-variant': async (request) => {
+      const saved = await plans.get(request.of);
+      if (saved === null) throw new RecordError('not-found', `Plan ${request.of} was not found.`, 'of');
+      const variant = await toStore(request.fields, request.meta.reason !== '');
+      if (variant.patientId !== saved.patientId || variant.plannedFor !== saved.plannedFor)
+        throw new RecordError(
+          'invalid-request',
+          'A variant is for the same patient on the same day as the plan it is compared with.',
+          'fields.plannedFor',
+        );
+      const outcome = await plans.saveVariant(request.of, variant, request.meta, now());
+      if (outcome === 'not-found')
+        throw new RecordError('not-found', `Plan ${request.of} was not found.`, 'of');
+      if (outcome === 'stale') {
+        // Who saved the newer version, where, when and why; the variant was not saved.
+        const later = await laterVersion(clinic, 'plans', request.of);
+        throw new ConcurrentChangeError(concurrentChangeMessage('plan', later, now()), later);
+      }
+      return outcome;
+    },
     'plans:choose': async (request) => {
       const outcome = await plans.choose(request.id, request.meta, now());
       if (outcome === 'not-found')

@@ -8,6 +8,7 @@
 import { planInputSchema, planIssueMessages } from '../../app/contract/plan.js';
 import { clinicalMilestoneLines } from '../../app/core/clinical-milestones.js';
 import { circuitLabels, routeLabels } from '../../app/core/delivery.js';
+import { dialStepsText } from '../../app/core/plan-phases.js';
 import { computePlan } from '../../app/core/model/compute-plan.js';
 import type { PlanPhaseSummary, PlanResult } from '../../app/core/model/plan-types.js';
 import { speciesReference } from '../../app/core/species-reference.js';
@@ -219,9 +220,7 @@ export function formatPhases(phases: readonly PlanPhaseSummary[]): string {
         ? `${figure(phase.gapMin)} min on room air while the bird is moved, then from ${figure(phase.deliveryFromMin)} min: `
         : '';
     const flows = phase.flows;
-    const dial = phase.dialSteps
-      .map((step) => `${figure(step.atMin)} min ${figure(step.vaporPct)} %`)
-      .join(', ');
+    const dial = dialStepsText(phase.dialSteps);
     return [
       `  Phase ${String(phase.index + 1)}  ${figure(phase.startMin)}-${figure(phase.endMin)} min  ${gap}${deliveryWords(phase)}`,
       `    Fresh gas ${phase.freshGasLpm.toFixed(2)} L/min set; recommended ${flows.recommendedLpm.toFixed(2)} L/min, minimum ${flows.minimumLpm.toFixed(2)} L/min${flows.rebreathing ? ' (rebreathes at the set flow)' : ''}`,

@@ -29,8 +29,11 @@ export type PrintJob = {
   readonly hash: string;
   /** The page is ready to print when this selector matches. */
   readonly readySelector: string;
-  /** Throws a `Refusal` when the thing to print does not exist in the database. */
-  readonly findIt: (backEnd: BackEnd) => Promise<void>;
+  /**
+   * Throws a `Refusal` when the thing to print does not exist in the database; else gives words
+   * that name it further in the closing line (" (chosen · alternative of plan 11)") or ''.
+   */
+  readonly findIt: (backEnd: BackEnd) => Promise<string>;
 };
 
 /** Refusal with a message and exit code 1. */
@@ -152,7 +155,7 @@ export async function runPrintJob(
       );
     }
     openBackEnd(backEnd);
-    await job.findIt(backEnd);
+    const foundAs = await job.findIt(backEnd);
     const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});
     if (!safety.acknowledged) {
       throw new Refusal(
@@ -180,7 +183,7 @@ export async function runPrintJob(
     fs.renameSync(temporary, outFile);
     const sizeBytes = fs.statSync(outFile).size;
     io.stdout(
-      `Wrote ${job.what} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`,
+      `Wrote ${job.what}${foundAs} to ${outFile} (${Math.max(1, Math.round(sizeBytes / 1024))} KiB) in ${Math.round(performance.now() - started)} ms.\n`,
     );
     return 0;
   } catch (error) {

@@ -57,6 +57,7 @@ export async function runRecordCommand(
               ? `there is no procedure record ${recordId} in ${location.databaseFile}.`
               : detail.error.message,
           );
+        return '';
       },
     },
     io,

@@ -1,4 +1,6 @@
 import path from 'node:path';
+import type { PlanDetail } from '../../app/contract/plan-records.js';
+import { planChoiceIn, planChoiceText } from '../../app/core/plan-choice.js';
 import { dataLocation, parseArguments, parseOrExplain, UsageError, type CommandIo } from './command-io.js';
 import { Refusal, runPrintJob, type PrintCommandOptions } from './print-command.js';
 
@@ -59,6 +61,9 @@ export async function runWorksheetCommand(
               ? `there is no plan ${planId} in ${location.databaseFile}.`
               : detail.error.message,
           );
+        // Of a saved comparison: whether this is the plan the clinic will use or its alternative.
+        const choice = planChoiceText(planChoiceIn(planId, (detail.value as PlanDetail).comparison));
+        return choice === '' ? '' : ` (${choice})`;
       },
     },
     io,

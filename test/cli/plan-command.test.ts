@@ -96,8 +96,8 @@ describe('tidewing plan', () => {
     // The set flows are the plan file's: 1 L/min on the mask, 0.6 L/min on the tube.
     expect(lines[at('  Phase 1 ') + 1]).toContain('Fresh gas 1.00 L/min set');
     expect(lines[at('  Phase 2 ') + 1]).toContain('Fresh gas 0.60 L/min set');
-    expect(lines[at('  Phase 1 ') + 2]).toBe('    Dial 0 min 5 %, 2 min 3 %');
-    expect(lines[at('  Phase 2 ') + 2]).toBe('    Dial 6 min 2 %, 60 min 0 %');
+    expect(lines[at('  Phase 1 ') + 2]).toBe('    Dial 5 % from 0 min, 3 % from 2 min');
+    expect(lines[at('  Phase 2 ') + 2]).toBe('    Dial 2 % from 6 min, off at 60 min');
     // Every clinical milestone, with its figure.
     for (const label of [
       'Loss of righting ',

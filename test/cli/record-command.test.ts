@@ -158,11 +158,16 @@ describe('tidewing record', () => {
       'First entered by RW',
       'predicted beside logged',
       'First movement: 3 min',
+      // The plan's dial in the one wording of dial steps (app/core/plan-phases.ts).
+      'Isoflurane, planned dial 4 % from 0 min, 2 % from 4 min, off at 30 min.',
       // The voided row stays in its place with who voided it and why.
       'Voided by JM',
-      'Reason: “Probe slipped off the toe”',
+      '“Probe slipped off the toe”. First entered by RW.',
     ])
       expect(text, expected).toContain(expected);
+    // Who voided the row and when, in the clinic's date format (the reason's cell wraps beside the
+    // initials column, so the reason is checked on its own above).
+    expect(text).toMatch(/Voided by JM at \d{4}-\d{2}-\d{2} \d{2}:\d{2}\. Reason:/);
     expect(text).not.toContain('drugGiven');
   }, 60_000);
 });

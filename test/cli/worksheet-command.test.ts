@@ -150,6 +150,43 @@ describe('tidewing worksheet', () => {
     expect(text).toMatch(/NIOSH 1977/);
     expect(fs.readdirSync(path.dirname(out))).toEqual(['pip.pdf']);
   }, 60_000);
+
+  it('says which plan of a compared pair it printed: the chosen plan or its alternative', async (context) => {
+    needPrinting(context);
+    const data = await clinicFolder(async (call) => {
+      const fields = {
+        patientId: null,
+        plannedFor: localDateOf(new Date()),
+        label: 'beak trim',
+        input: pipInput,
+        checklist: { asaGrade: 2, items: {} },
+      };
+      const saved = (await call('plans:save-comparison', {
+        fields,
+        variantFields: { ...fields, input: { ...(pipInput as object), freshGasLpm: 0.6 } },
+        meta: { enteredBy: 'RW' },
+      })) as unknown as { plan: { id: number }; variant: { id: number } };
+      return { planId: saved.plan.id, variantId: saved.variant.id };
+    });
+    const run = captured();
+    const out = path.join(scratch(), 'variant.pdf');
+    expect(
+      await runWorksheetCommand(
+        ['--plan', String(data.variantId), '--data', data.folder, '--out', out],
+        run.io,
+      ),
+    ).toBe(0);
+    // The same words as the day list (app/core/plan-choice.ts).
+    expect(run.stdout()).toContain(
+      `Wrote the worksheet of plan ${data.variantId} (alternative of plan ${data.planId}, not chosen) to ${out}`,
+    );
+    const text = execFileSync('pdftotext', ['-layout', out, '-'], { encoding: 'utf8' });
+    expect(text).toMatch(
+      new RegExp(
+        `Plan ${data.variantId} .beak trim. for .* · alternative of plan ${data.planId}, not chosen`,
+      ),
+    );
+  }, 60_000);
 });
 
 /** The predicted milestone figures of the detail page as printed, in page order. */

@@ -8,7 +8,8 @@ import {
 import { channelNames } from '../../app/contract/channels.js';
 
 /** Verbs of channels that change clinic data; such a channel may never be marked read-only. */
-const writeVerbs = /:(add|create|correct|void|save|save-comparison|choose|exclude|set-[a-z-]+|acknowledge)$/;
+const writeVerbs =
+  /:(add|create|correct|void|save|save-comparison|save-variant|choose|exclude|set-[a-z-]+|acknowledge)$/;
 /**
  * Channels with a write verb that change nothing in the clinic database: a PDF file, and this
  * workstation's own choice of database for its next start (workstation.json).
@@ -84,6 +85,9 @@ describe('the channel to change-notice table', () => {
     expect(changeNoticesFor('plans:save-comparison', { plan: plan(5, 2), variant: plan(6, 2) })).toEqual([
       { kind: 'plans', planId: 5, patientId: 2, plannedFor: '2026-12-03', elsewhere: false },
       { kind: 'plans', planId: 6, patientId: 2, plannedFor: '2026-12-03', elsewhere: false },
+    ]);
+    expect(changeNoticesFor('plans:save-variant', plan(7, 2))).toEqual([
+      { kind: 'plans', planId: 7, patientId: 2, plannedFor: '2026-12-03', elsewhere: false },
     ]);
     expect(changeNoticesFor('plans:save', plan(8, null))).toEqual([
       { kind: 'plans', planId: 8, plannedFor: '2026-12-03', elsewhere: false },

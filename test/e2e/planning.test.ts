@@ -203,7 +203,7 @@ describe('planning from a patient in headless Chromium', () => {
     );
     // The agent, then each phase with its route, breathing system, flow (edited to 1.5) and dials.
     await expect(page.getByRole('table').first().innerText()).resolves.toMatch(
-      /Isoflurane\s+Face mask, Non-rebreathing system · 1\.5 L\/min \(recommended [\d.]+\) · 4 % → 2 % at 5 min/,
+      /Isoflurane\s+Face mask, Non-rebreathing system · 1\.5 L\/min \(recommended [\d.]+\) · 4 % from 0 min, 2 % from 5 min/,
     );
     await shoot(page, '42-day-list');
 
@@ -340,6 +340,27 @@ describe('planning from a patient in headless Chromium', () => {
       /Compared plans not chosen are left out\.$/,
     );
     await shoot(page, '44-day-list-chosen-plan');
+
+    // The worksheet of each plan says the same in its title line.
+    const worksheetTitle = (id: number) =>
+      page.locator('.ws-title-block p').filter({ hasText: `Plan ${id} “beak trim” for ` });
+    await page.goto(`${host.origin}/#/worksheets/${planA}`);
+    await expect(worksheetTitle(planA).innerText()).resolves.toMatch(/ · compared, not chosen$/);
+    await page.goto(`${host.origin}/#/worksheets/${planB}`);
+    await expect(worksheetTitle(planB).innerText()).resolves.toMatch(
+      new RegExp(` · chosen · alternative of plan ${planA}$`),
+    );
+
+    // So does the plan picker of a new procedure record.
+    await page.goto(`${host.origin}/#/records/new/${patientId}`);
+    const picker = page.getByLabel('Linked plan');
+    await picker.locator(`option[value="${planB}"]`).waitFor({ state: 'attached' });
+    await expect(picker.locator(`option[value="${planA}"]`).innerText()).resolves.toMatch(
+      / \(beak trim\) · compared, not chosen$/,
+    );
+    await expect(picker.locator(`option[value="${planB}"]`).innerText()).resolves.toMatch(
+      new RegExp(` \\(beak trim\\) · chosen · alternative of plan ${planA}$`),
+    );
     expect(problems).toEqual([]);
     await page.close();
   });

@@ -483,4 +483,89 @@ describe('plan channels', () => {
       }),
     ).toMatchObject({ code: 'invalid-request', field: 'variantFields.plannedFor' });
   });
+
+  it('plans:save-variant saves a variant of a saved plan as a new plan, the saved one unchanged and chosen', async () => {
+    const api = harness();
+    const pip = await api.answer('patients:create', { values: pipValues, meta: enteredByRw });
+    const fields = {
+      patientId: pip.id,
+      plannedFor: '2026-12-02',
+      label: 'Wing radiograph',
+      input: pipInput,
+      checklist: mostlyDone,
+    };
+    const saved = await api.answer('plans:save', { fields, meta: enteredByRw });
+    const before = await api.answer('plans:get', { id: saved.id });
+    const variant = await api.answer('plans:save-variant', {
+      of: saved.id,
+      fields: { ...fields, label: 'Wing radiograph, lower flow', input: { ...pipInput, freshGasLpm: 0.5 } },
+      meta: enteredByRw,
+    });
+    expect(variant).toMatchObject({ label: 'Wing radiograph, lower flow', variantOf: saved.id });
+    expect(variant.id).toBeGreaterThan(saved.id);
+    // The saved plan is not changed: same row, same version, no later version.
+    const after = await api.answer('plans:get', { id: saved.id });
+    expect(after.plan).toEqual(before.plan);
+    expect(after.history).toEqual(before.history);
+    // The two are now a comparison, the saved plan chosen until the clinic chooses otherwise.
+    expect(after.comparison).toEqual({
+      chosenId: saved.id,
+      plans: [
+        { id: saved.id, label: 'Wing radiograph', variantOf: null },
+        { id: variant.id, label: 'Wing radiograph, lower flow', variantOf: saved.id },
+      ],
+    });
+    // A variant of the variant joins the same comparison; the choice stays.
+    const third = await api.answer('plans:save-variant', {
+      of: variant.id,
+      fields: {
+        ...fields,
+        label: 'Wing radiograph, sevoflurane',
+        input: { ...pipInput, agent: 'sevoflurane' },
+      },
+      meta: enteredByRw,
+    });
+    expect(third.variantOf).toBe(saved.id);
+    const day = (await api.answer('plans:day', { date: '2026-12-02' })).plans;
+    expect(day.map((line) => [line.id, line.variantOf, line.chosen])).toEqual([
+      [saved.id, null, true],
+      [variant.id, saved.id, false],
+      [third.id, saved.id, false],
+    ]);
+  });
+
+  it('plans:save-variant refuses another day, a missing plan and a replaced version', async () => {
+    const api = harness();
+    const fields = {
+      patientId: null,
+      plannedFor: '2026-12-02',
+      label: '',
+      input: pipInput,
+      checklist: allOpen,
+    };
+    const saved = await api.answer('plans:save', { fields, meta: enteredByRw });
+    expect(
+      await api.refusal('plans:save-variant', {
+        of: saved.id,
+        fields: { ...fields, plannedFor: '2026-12-03' },
+        meta: enteredByRw,
+      }),
+    ).toMatchObject({ code: 'invalid-request', field: 'fields.plannedFor' });
+    expect(await api.refusal('plans:save-variant', { of: 999, fields, meta: enteredByRw })).toMatchObject({
+      code: 'not-found',
+      field: 'of',
+    });
+    await api.answer('plans:correct', {
+      id: saved.id,
+      fields: { ...fields, label: 'corrected' },
+      meta: { enteredBy: 'RW', reason: 'Label added' },
+    });
+    expect(
+      await api.refusal('plans:save-variant', { of: saved.id, fields, meta: enteredByRw }),
+    ).toMatchObject({
+      code: 'conflict',
+    });
+    // Nothing was saved by the refusals: the plan has no comparison.
+    expect((await api.answer('plans:get', { id: saved.id })).comparison).toBeNull();
+  });
 });

@@ -28,12 +28,31 @@ export function displayDate(isoDate: string): string {
   return formatCalendarDate(isoDate, clinicDateFormat);
 }
 
-/** Local date in the clinic's format and the local time (24-hour), for record stamps. */
-export function displayDateTime(iso: string): string {
-  const date = new Date(iso);
-  if (Number.isNaN(date.getTime())) return iso;
-  const time = `${String(date.getHours()).padStart(2, '0')}:${String(date.getMinutes()).padStart(2, '0')}`;
-  return `${displayDate(todayIso(date))} ${time}`;
+/** The local time of a moment, 24-hour ("08:05"). */
+function localTime(date: Date): string {
+  return `${String(date.getHours()).padStart(2, '0')}:${String(date.getMinutes()).padStart(2, '0')}`;
+}
+
+/**
+ * Local date in the clinic's format and the local time (24-hour), for record stamps and the
+ * "printed" line of the worksheet and the printed record; text that is not a moment is returned as it is.
+ */
+export function displayDateTime(moment: string | Date): string {
+  const date = new Date(moment);
+  if (Number.isNaN(date.getTime())) return typeof moment === 'string' ? moment : 'unknown time';
+  return `${displayDate(todayIso(date))} ${localTime(date)}`;
+}
+
+/**
+ * A later moment beside an earlier one already shown (a procedure's end beside its start): the
+ * local time alone on the same local day, else the date in the clinic's format and the time.
+ */
+export function displayLaterTime(earlierIso: string, laterIso: string): string {
+  const earlier = new Date(earlierIso);
+  const later = new Date(laterIso);
+  if (Number.isNaN(later.getTime())) return laterIso;
+  const sameDay = !Number.isNaN(earlier.getTime()) && todayIso(earlier) === todayIso(later);
+  return sameDay ? localTime(later) : displayDateTime(later);
 }
 
 /** Today as YYYY-MM-DD in local time. */

@@ -12,25 +12,6 @@ export function agentRouteText(agent: string, route: string): string {
   return `${agentName}, ${routeName}`;
 }
 
-/**
- * A vaporiser schedule in one line for lists: "4 % → 2 % at 4 min, off at 30 min". Steps at the
- * same setting as the one before are left out.
- */
-export function dialStepsText(
-  schedule: readonly { readonly atMin: number; readonly vaporPct: number }[],
-): string {
-  const parts: string[] = [];
-  let previous: number | null = null;
-  for (const step of schedule) {
-    if (step.vaporPct === previous) continue;
-    const at = `${String(Number(step.atMin.toFixed(1)))} min`;
-    if (previous === null) parts.push(step.vaporPct === 0 ? `off from ${at}` : `${String(step.vaporPct)} %`);
-    else parts.push(step.vaporPct === 0 ? `off at ${at}` : `→ ${String(step.vaporPct)} % at ${at}`);
-    previous = step.vaporPct;
-  }
-  return parts.join(', ').replace(/, →/g, ' →');
-}
-
 /** ASA grade as the day list prints it: 1-5 with E for emergency, or "not graded". */
 export function asaGradeText(asaGrade: number | null, emergency: boolean): string {
   if (asaGrade === null) return emergency ? 'not graded (E)' : 'not graded';

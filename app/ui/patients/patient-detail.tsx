@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { planChoiceSuffix } from '../../core/plan-choice.js';
 import { displayBasis, displayDate, displayDateTime } from '../common/display.js';
 import { agentPhasesText } from '../common/plan-labels.js';
 import { useChannel } from '../common/use-channel.js';
@@ -22,8 +23,8 @@ function PatientPlans({ patientId }: { readonly patientId: number }) {
           <a href={href('plans', plan.id)}>
             {displayDate(plan.plannedFor)}: {agentPhasesText(plan)}
             {plan.label === '' ? '' : ` (${plan.label})`}
-          </a>{' '}
-          · <a href={href('worksheets', plan.id)}>worksheet</a>
+          </a>
+          {planChoiceSuffix(plan)} · <a href={href('worksheets', plan.id)}>worksheet</a>
           {plan.openChecklistItems > 0 && (
             <span className="muted"> · checklist {plan.openChecklistItems} open</span>
           )}

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
+import { planChoiceParts } from '../../core/plan-choice.js';
 import { displayDate, displayMass, todayIso } from '../common/display.js';
 import { TextField } from '../common/fields.js';
 import { asaGradeText } from '../common/plan-labels.js';
@@ -79,16 +80,18 @@ export function DayList() {
                           {plan.id}
                           {plan.label === '' ? '' : ` · ${plan.label}`}
                         </a>
-                        {plan.chosen === true && <strong className="plan-choice"> · chosen</strong>}
-                        {plan.variantOf !== null && (
-                          <span className="plan-choice">
-                            {' '}
-                            · alternative of plan {plan.variantOf}
-                            {plan.chosen === false ? ', not chosen' : ''}
-                          </span>
-                        )}
-                        {plan.variantOf === null && plan.chosen === false && (
-                          <span className="plan-choice"> · compared, not chosen</span>
+                        {planChoiceParts(plan).map((part) =>
+                          part === 'chosen' ? (
+                            <strong key={part} className="plan-choice">
+                              {' '}
+                              · {part}
+                            </strong>
+                          ) : (
+                            <span key={part} className="plan-choice">
+                              {' '}
+                              · {part}
+                            </span>
+                          ),
                         )}
                         <span className="screen-only">
                           {' '}

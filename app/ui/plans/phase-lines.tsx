@@ -1,13 +1,12 @@
 import type { PlanSummaryPhase } from '../../contract/plan-records.js';
 import { routeLabels } from '../../core/delivery.js';
-import { breathingSystemText } from '../../core/plan-phases.js';
-import { dialStepsText } from '../common/plan-labels.js';
+import { breathingSystemText, dialStepsText } from '../../core/plan-phases.js';
 import { figure } from './format.js';
 
 /**
  * A saved plan's phases as short lines for a list: from which minute, route and breathing system,
  * the flow set (and the model's recommendation) and the dial steps, e.g.
- * "from 6 min: Endotracheal tube, Non-rebreathing system · 0.5 L/min (recommended 0.3) · 2 %, off at 30 min".
+ * "from 6 min: Endotracheal tube, Non-rebreathing system · 0.5 L/min (recommended 0.3) · 2 % from 6 min, off at 30 min".
  */
 export function PhaseLines({ phases }: { readonly phases: readonly PlanSummaryPhase[] }) {
   return (

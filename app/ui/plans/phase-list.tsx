@@ -2,7 +2,7 @@ import { memo } from 'react';
 import { agents, type AgentId } from '../../core/agents.js';
 import { routeLabels } from '../../core/delivery.js';
 import type { PlanPhaseSummary } from '../../core/model/plan-types.js';
-import { breathingSystemText, dialStepTexts, phaseMoveText } from '../../core/plan-phases.js';
+import { breathingSystemText, dialStepsText, phaseMoveText } from '../../core/plan-phases.js';
 import { figure } from './format.js';
 
 /**
@@ -50,7 +50,7 @@ export const PhaseList = memo(
                   ){low && <strong className="too-low"> · below the minimum</strong>}
                 </dd>
                 <dt>Dial</dt>
-                <dd>{dialStepTexts(phase.dialSteps).join(', ')}</dd>
+                <dd>{dialStepsText(phase.dialSteps)}</dd>
                 <dt>Uses</dt>
                 <dd>
                   {figure(phase.oxygenUsedL)} L oxygen, {figure(phase.liquidMl)} mL liquid {agentName}

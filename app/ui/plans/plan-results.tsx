@@ -1,4 +1,4 @@
-import { memo, useState, type ReactNode } from 'react';
+import { memo, useRef, useState, type ReactNode, type RefObject } from 'react';
 import type { PlanResult } from '../../core/model/plan-types.js';
 import { clinicalMilestoneLines, type ClinicalMilestoneLine } from '../../core/clinical-milestones.js';
 import { plainBasis } from '../common/display.js';
@@ -7,6 +7,7 @@ import { figure, minutes, wasteGasSourceLabel } from './format.js';
 import { PlanChart } from './plan-chart.js';
 import { PhaseList } from './phase-list.js';
 import type { BandProgress } from './band-pool.js';
+import { useCovers } from './sticky-clear.js';
 
 type Props = {
   readonly result: PlanResult;
@@ -73,17 +74,31 @@ const severityRank: Readonly<Record<PlanResult['cautions'][number]['severity'], 
 /**
  * The sticky cautions panel: the count and the most severe caution always in view, the rest behind
  * one button, so that the predicted times below stay above the fold at 1366x800. Folded by
- * default; the button says how many more there are and carries aria-expanded.
+ * default; the button says how many more there are and carries aria-expanded. While it would
+ * cover part of `clearOf` (the depth chart) it is not held at the top, so the chart shows whole.
  */
-export function CautionsPanel({ cautions }: { readonly cautions: PlanResult['cautions'] }) {
+export function CautionsPanel({
+  cautions,
+  clearOf,
+}: {
+  readonly cautions: PlanResult['cautions'];
+  readonly clearOf?: RefObject<HTMLElement | null>;
+}) {
   const [expanded, setExpanded] = useState(false);
+  const panel = useRef<HTMLElement>(null);
+  const nothing = useRef<HTMLElement>(null);
+  const letGo = useCovers(panel, clearOf ?? nothing);
   // Danger first, then warnings, then notices; the model's own order within each.
   const [first, ...rest] = [...cautions].sort(
     (one, other) => severityRank[one.severity] - severityRank[other.severity],
   );
   const worst = cautions.filter((caution) => caution.severity === first?.severity).length;
   return (
-    <section className="panel cautions-panel" aria-labelledby="cautions-heading">
+    <section
+      ref={panel}
+      className={letGo ? 'panel cautions-panel cautions-let-go' : 'panel cautions-panel'}
+      aria-labelledby="cautions-heading"
+    >
       <div className="cautions-head">
         <h2 id="cautions-heading">
           Cautions ({cautions.length})
@@ -123,9 +138,10 @@ export function PlanResults({ result, setFreshGasLpm, pending, band = null, comp
   const uncertainty = result.uncertainty;
   const flows = result.flows;
   const waste = result.wasteGas;
+  const chart = useRef<HTMLDivElement>(null);
   return (
     <div className="plan-results" aria-busy={pending}>
-      <CautionsPanel cautions={result.cautions} />
+      <CautionsPanel cautions={result.cautions} clearOf={chart} />
 
       <section className="panel" aria-labelledby="milestones-heading">
         <h2 id="milestones-heading">
@@ -185,7 +201,9 @@ export function PlanResults({ result, setFreshGasLpm, pending, band = null, comp
           MAC used: {figure(result.mac.valuePct)} % ({plainBasis(result.mac.basis)}). Arousal threshold:{' '}
           {result.recoveryMacFraction.basis}. {milestones.basis}
         </p>
-        <PlanChart result={result} compareWith={compareWith} />
+        <div ref={chart}>
+          <PlanChart result={result} compareWith={compareWith} />
+        </div>
         <p className="basis">
           Range from {uncertainty.samples} samples: {uncertainty.method}
         </p>

@@ -209,6 +209,38 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     window.history.replaceState(null, '', href('plans', plan.id));
   }
 
+  /**
+   * The plan shown (plan B when a variant is open, else the form as edited) saved as a new plan
+   * marked as an alternative of the saved one, which is not changed; the new plan then opens.
+   */
+  function saveAsVariant() {
+    const of = context.savedPlanId;
+    const input = draftB !== null ? computationB.input : computationA.input;
+    setSaveMessage(null);
+    if (of === null) return;
+    if (input === null) {
+      setSaveMessage({ kind: 'failed', text: 'Not saved: correct the plan inputs marked first.' });
+      return;
+    }
+    const fields = { patientId: context.patientId, plannedFor, label, input, checklist };
+    withInitials(
+      (enteredBy) =>
+        void api
+          .invoke('plans:save-variant', { of, fields, meta: { enteredBy, reason: '' } })
+          .then((answer) => {
+            if (!answer.ok) {
+              setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
+              return;
+            }
+            setSaveMessage({
+              kind: 'saved',
+              text: `Saved as plan ${answer.value.id}, an alternative of plan ${of}, which is not changed.`,
+            });
+            window.location.hash = href('plans', answer.value.id);
+          }),
+    );
+  }
+
   function choose(planId: number) {
     withInitials(
       (enteredBy) =>
@@ -318,6 +350,11 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
           {savesComparison ? 'Save both plans' : context.savedPlanId === null ? 'Save plan' : 'Save changes'}
         </button>
         {context.savedPlanId !== null && (
+          <button type="button" onClick={saveAsVariant}>
+            Save as a variant
+          </button>
+        )}
+        {context.savedPlanId !== null && (
           <a className="button-link secondary" href={href('worksheets', context.savedPlanId)}>
             Open worksheet
           </a>
@@ -326,7 +363,9 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         <SaveStatus message={saveMessage} />
         {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
         {comparing && context.savedPlanId !== null && (
-          <p className="hint">Plan B stays on this screen only: saving changes saves plan A.</p>
+          <p className="hint">
+            Saving changes saves plan A; “Save as a variant” saves plan B as a new plan beside it.
+          </p>
         )}
       </div>
       {comparison !== null && context.savedPlanId !== null && (

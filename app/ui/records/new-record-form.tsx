@@ -1,6 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import type { PlanSummary } from '../../contract/plan-records.js';
-import { displayMass } from '../common/display.js';
+import { planChoiceSuffix } from '../../core/plan-choice.js';
+import { displayDate, displayMass } from '../common/display.js';
 import { api } from '../common/bridge.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { useOperator } from '../common/operator.js';
@@ -216,8 +217,9 @@ function LinkedPlan({
         <option value="">no plan</option>
         {plans.value.map((plan) => (
           <option key={plan.id} value={plan.id}>
-            Plan {plan.id}, {plan.plannedFor}: {agentPhasesText(plan)}
+            Plan {plan.id}, {displayDate(plan.plannedFor)}: {agentPhasesText(plan)}
             {plan.label === '' ? '' : ` (${plan.label})`}
+            {planChoiceSuffix(plan)}
           </option>
         ))}
       </select>

@@ -4,8 +4,10 @@ import type { ProcedureEntry } from '../../contract/records.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { agents } from '../../core/agents.js';
 import { minutesWithRangeText } from '../../core/worksheet.js';
+import { displayDateTime, setClinicDateFormat } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { circuitLabels, routeLabels } from '../../core/delivery.js';
+import { dialStepsText } from '../../core/plan-phases.js';
 import { clockText } from './clock-time.js';
 import {
   readingFields,
@@ -31,13 +33,6 @@ export type PrintedRecordProps = {
   readonly appVersion: string;
   readonly printedAt: Date;
 };
-
-function localDateTime(iso: string): string {
-  const date = new Date(iso);
-  return Number.isNaN(date.getTime())
-    ? iso
-    : date.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
-}
 
 function readingText(values: ProcedureEntry['values'], field: ReadingField, units: DisplayUnits): string {
   const value = values[field];
@@ -104,7 +99,7 @@ function Corrections({
         return (
           <li key={earlier.id}>
             Corrected by {replacedBy.stamp.enteredBy}
-            {onWorkstation(replacedBy)} at {localDateTime(replacedBy.stamp.enteredAt)}
+            {onWorkstation(replacedBy)} at {displayDateTime(replacedBy.stamp.enteredAt)}
             {replacedBy.voided ? ', as entered in error' : ''}:{' '}
             {parts.length === 0
               ? 'no value changed'
@@ -137,6 +132,8 @@ export function PrintedRecord({
   appVersion,
   printedAt,
 }: PrintedRecordProps) {
+  // print.html draws the record without the app's root, where the format is set otherwise.
+  setClinicDateFormat(settings.dateFormat);
   const { record, patient, species, entries } = detail;
   const values = record.values;
   const units: DisplayUnits = { temperature: settings.temperatureUnit, pressure: settings.pressureUnit };
@@ -189,7 +186,7 @@ export function PrintedRecord({
         <div className="pr-title-block">
           <h1 id="printed-record-title">Anaesthetic record</h1>
           <p>
-            Record {record.id} · {localDateTime(values.startedAt)}
+            Record {record.id} · {displayDateTime(values.startedAt)}
           </p>
         </div>
       </header>
@@ -240,8 +237,8 @@ export function PrintedRecord({
             <tr>
               <th scope="row">Start and end</th>
               <td>
-                {localDateTime(values.startedAt)} to{' '}
-                {values.endedAt === null ? 'not ended' : localDateTime(values.endedAt)}
+                {displayDateTime(values.startedAt)} to{' '}
+                {values.endedAt === null ? 'not ended' : displayDateTime(values.endedAt)}
               </td>
             </tr>
             <tr>
@@ -324,13 +321,8 @@ export function PrintedRecord({
           </table>
           <p className="pr-small">
             {agents[plan.plan.input.agent].displayName}, planned dial{' '}
-            {plan.plan.input.schedule
-              .map(
-                (step) =>
-                  `${String(step.atMin)} min ${step.vaporPct === 0 ? 'off' : `${String(step.vaporPct)} %`}`,
-              )
-              .join(', ')}
-            . The prediction is for the plan’s schedule, not for what was given.
+            {dialStepsText(plan.plan.input.schedule)}. The prediction is for the plan’s schedule, not for what
+            was given.
           </p>
         </section>
       )}
@@ -391,7 +383,7 @@ export function PrintedRecord({
                       {entry.values.kind === 'event' && <del>{eventSummary(entry.values)} </del>}
                       <span className="pr-void-note">
                         Voided by {entry.stamp.enteredBy}
-                        {onWorkstation(entry)} at {localDateTime(entry.stamp.enteredAt)}. Reason: “
+                        {onWorkstation(entry)} at {displayDateTime(entry.stamp.enteredAt)}. Reason: “
                         {entry.stamp.reason}”.
                         {voidedRow.firstEnteredBy === null
                           ? ''
@@ -463,8 +455,7 @@ export function PrintedRecord({
 
       <footer className="pr-footer">
         Tidewing {appVersion} · record {record.id} version {record.stamp.versionId}, last saved by{' '}
-        {record.stamp.enteredBy} · printed{' '}
-        {printedAt.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
+        {record.stamp.enteredBy} · printed {displayDateTime(printedAt)}
       </footer>
     </article>
   );

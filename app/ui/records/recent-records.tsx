@@ -3,7 +3,7 @@ import { useChannel } from '../common/use-channel.js';
 import { useChangeNotices } from '../common/use-change-notices.js';
 import { asaText } from './record-form.js';
 import { ScrollRegion } from '../common/scroll-region.js';
-import { displayDateTime } from '../common/display.js';
+import { displayDateTime, displayLaterTime } from '../common/display.js';
 
 /** The most recent procedure records, newest first, each linking to its live screen. */
 export function RecentRecords() {
@@ -52,7 +52,7 @@ export function RecentRecords() {
                   <td>
                     {record.values.endedAt === null
                       ? 'open'
-                      : `ended ${new Date(record.values.endedAt).toLocaleTimeString()}`}
+                      : `ended ${displayLaterTime(record.values.startedAt, record.values.endedAt)}`}
                   </td>
                 </tr>
               ))}

@@ -6,8 +6,9 @@ import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
 import { calibratedFigures } from '../../core/evidence/calibrated-figure.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
+import { planChoiceIn, planChoiceSuffix } from '../../core/plan-choice.js';
 import { runningHeaderLines } from '../../core/worksheet.js';
-import { displayDate, setClinicDateFormat, todayIso } from '../common/display.js';
+import { displayDate, displayDateTime, setClinicDateFormat, todayIso } from '../common/display.js';
 import { paperClass, usePrintedRunningLines } from '../common/printed-pages.js';
 import { CautionsSection } from './sheet-cautions.js';
 import { EmergencyCardSection } from './sheet-emergency-card.js';
@@ -72,6 +73,8 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt, calibrat
   const patientName = patient?.values.name ?? input.patientName ?? `Quick plan ${plan.id}`;
   const sheetClass = paperClass(settings.paperSize);
   const identifier = patientIdentifier(detail);
+  // Of a saved comparison, whether this is the plan the clinic will use or its alternative.
+  const choice = planChoiceSuffix(planChoiceIn(plan.id, detail.comparison));
   const running = runningHeaderLines({
     clinicName: settings.clinicName,
     patientName,
@@ -101,6 +104,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt, calibrat
           <p>
             Plan {plan.id}
             {plan.label === '' ? '' : ` “${plan.label}”`} for {displayDate(plan.plannedFor)}
+            {choice}
             {plan.checklist.emergency ? ' · EMERGENCY' : ''}
           </p>
         </div>
@@ -139,8 +143,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt, calibrat
 
       <footer className="ws-footer">
         Tidewing {appVersion} · model {plan.modelVersion} · plan {plan.id} version {plan.stamp.versionId}{' '}
-        saved by {plan.stamp.enteredBy} · printed{' '}
-        {printedAt.toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' })}
+        saved by {plan.stamp.enteredBy} · printed {displayDateTime(printedAt)}
       </footer>
     </article>
   );
