@@ -2,7 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { speciesReference } from '../../app/core/species-reference.js';
 import type { ClinicDb, Engine } from '../../db/clinic-db.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
-import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import {
+  createSpeciesRepository,
+  SpeciesVersionMismatchError,
+} from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
 import { createWorkstationRepository } from '../../db/repositories/workstation-repository.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
@@ -73,6 +76,35 @@ describe.each(testEngines)('species repository on %s', (engine) => {
     expect(await species.list()).toHaveLength(speciesReference.length);
     expect(await species.correct('no-such-bird', before.values, meta, t0)).toBeNull();
     expect(await species.history('no-such-bird')).toEqual([]);
+  });
+
+  it('refuses a correction naming a version that is no longer the current one, writing nothing', async (context) => {
+    const clinic = await fresh(engine, context);
+    const species = createSpeciesRepository(clinic);
+    const seen = await species.get('budgerigar');
+    if (seen === null) return expect.fail('budgerigar is not seeded');
+    const at = new Date('2026-12-02T09:00:00Z');
+    const first = await species.correct(
+      'budgerigar',
+      { ...seen.values, massMaxG: 65 },
+      { enteredBy: 'MK', reason: 'Many exhibition birds' },
+      at,
+      seen.stamp.versionId,
+    );
+    expect(first?.stamp.correctsId).toBe(seen.stamp.versionId);
+    await expect(
+      species.correct(
+        'budgerigar',
+        { ...seen.values, massMinG: 22 },
+        { enteredBy: 'RW', reason: 'Small hens' },
+        at,
+        seen.stamp.versionId,
+      ),
+    ).rejects.toBeInstanceOf(SpeciesVersionMismatchError);
+    expect((await species.history('budgerigar')).map((entry) => entry.values.massMaxG)).toEqual([
+      65,
+      seen.values.massMaxG,
+    ]);
   });
 
   it('adds a clinic species under a key of its own, never reusing a taken one', async (context) => {
