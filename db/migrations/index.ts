@@ -9,6 +9,7 @@ import { planVariantsMigration } from './0008-plan-variants.js';
 import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cache.js';
 import { entryWorkstationsMigration } from './0010-entry-workstations.js';
 import { changeNoticesMigration } from './0011-change-notices.js';
+import { patientSearchStartsMigration } from './0012-patient-search-starts.js';
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
@@ -36,6 +37,7 @@ export const migrations: readonly Migration[] = [
   evidencePredictionCacheMigration,
   entryWorkstationsMigration,
   changeNoticesMigration,
+  patientSearchStartsMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;
