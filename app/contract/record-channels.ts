@@ -64,7 +64,17 @@ export const recordChannels = {
     response: speciesSchema,
   },
   'species:correct': {
-    request: z.object({ key: z.string().min(1), values: speciesValuesSchema, meta: correctionMetaSchema }),
+    request: z.object({
+      key: z.string().min(1),
+      /**
+       * The version of the species the correction replaces (the `stamp.versionId` the user saw).
+       * Refused with `conflict` when someone saved another correction first; without it the
+       * current version is corrected.
+       */
+      versionId: id.optional(),
+      values: speciesValuesSchema,
+      meta: correctionMetaSchema,
+    }),
     response: speciesSchema,
   },
 

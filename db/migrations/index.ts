@@ -10,6 +10,7 @@ import { evidencePredictionCacheMigration } from './0009-evidence-prediction-cac
 import { entryWorkstationsMigration } from './0010-entry-workstations.js';
 import { changeNoticesMigration } from './0011-change-notices.js';
 import { recordAgentMigration } from './0012-record-agent.js';
+import { patientSearchStartsMigration } from './0013-patient-search-starts.js';
 
 /**
  * One schema step for both engines: `sql` for SQLite, `postgresql` for a PostgreSQL server. The
@@ -38,6 +39,7 @@ export const migrations: readonly Migration[] = [
   entryWorkstationsMigration,
   changeNoticesMigration,
   recordAgentMigration,
+  patientSearchStartsMigration,
 ];
 
 export const latestSchemaVersion = migrations.length;

@@ -111,6 +111,22 @@ function containsPattern(text: string): string {
   return `%${text.replace(/[\\%_]/g, (match) => `\\${match}`)}%`;
 }
 
+/**
+ * The smallest string after every string that starts with `prefix`, in code point order: the
+ * prefix with its last character one higher ("pi" -> "pj"); null when there is none.
+ */
+export function nextPrefix(prefix: string): string | null {
+  const characters = [...prefix];
+  while (characters.length > 0) {
+    const last = (characters.pop() as string).codePointAt(0) as number;
+    let next = last + 1;
+    // Skip the surrogate range, which holds no characters of its own.
+    if (next >= 0xd800 && next <= 0xdfff) next = 0xe000;
+    if (next <= 0x10ffff) return characters.join('') + String.fromCodePoint(next);
+  }
+  return null;
+}
+
 /** All SQL for patients, patient_versions, patient_current and patient_search. */
 export function createPatientRepository(sql: Sql) {
   const tables = (on: Sql) => on.kysely.withTables<Tables>();
@@ -245,12 +261,30 @@ export function createPatientRepository(sql: Sql) {
     return search.where('patient_search', 'match', ftsPhrase(text));
   }
 
-  /** SQLite's LIKE, with its escape character named, for searches too short for the trigram index. */
-  function matchingShort(text: string) {
+  /**
+   * The ids of patients whose current name, ring number or microchip number starts with `text`
+   * (one or two characters, too short for the trigram index): a range on the start-of-field index of
+   * each, so the search never reads every patient. The text is folded as the engine's lower()
+   * folds the stored value (SQLite: A-Z only; PostgreSQL: its locale's lower case), and the
+   * range compares code point by code point on both (SQLite's BINARY, PostgreSQL's "C").
+   */
+  function matchingStart(text: string) {
+    const from =
+      sql.engine === 'sqlite' ? text.replace(/[A-Z]/g, (letter) => letter.toLowerCase()) : text.toLowerCase();
+    const to = nextPrefix(from);
+    const folded = (column: 'v.name' | 'v.ring_id' | 'v.microchip_id') =>
+      sql.engine === 'postgresql'
+        ? kyselySql`(lower(${kyselySql.ref(column)}) COLLATE "C")`
+        : kyselySql`lower(${kyselySql.ref(column)})`;
+    const starts = (column: 'v.name' | 'v.ring_id' | 'v.microchip_id') =>
+      to === null
+        ? kyselySql<boolean>`${folded(column)} >= ${from}`
+        : kyselySql<boolean>`(${folded(column)} >= ${from} AND ${folded(column)} < ${to})`;
     return tables(sql)
-      .selectFrom('patient_search')
-      .select('rowid')
-      .where(kyselySql<boolean>`search_text LIKE ${containsPattern(text)} ESCAPE '\\'`);
+      .selectFrom('patient_current as c')
+      .innerJoin('patient_versions as v', 'v.id', 'c.version_id')
+      .select('c.patient_id')
+      .where(({ or }) => or([starts('v.name'), starts('v.ring_id'), starts('v.microchip_id')]));
   }
 
   return {
@@ -303,15 +337,15 @@ export function createPatientRepository(sql: Sql) {
       return rows.map(rowToPatient);
     },
     /**
-     * Finds patients by name or ID, species, ring, microchip, owner reference, hatch date or notes.
-     * Three or more characters use the trigram index (substring match); shorter ones a scan.
+     * Finds patients by name or ID, species, ring, microchip, owner reference, hatch date or notes:
+     * three or more characters anywhere in them (the trigram index). One or two characters find
+     * the patients whose name, ring number or microchip number starts with them (indexed ranges).
      */
     async search(query: string, limit = 50): Promise<PatientSummary[]> {
       const trimmed = query.trim();
       if (trimmed === '')
         return (await summaries().orderBy('p.id', 'desc').limit(limit).execute()).map(rowToSummary);
-      const ids =
-        sql.engine === 'sqlite' && [...trimmed].length < 3 ? matchingShort(trimmed) : matching(trimmed);
+      const ids = [...trimmed].length < 3 ? matchingStart(trimmed) : matching(trimmed);
       const rows = await summaries()
         .where('p.id', 'in', ids)
         .orderBy(kyselySql`lower(v.name)`)

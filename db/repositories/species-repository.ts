@@ -298,11 +298,23 @@ export function createSpeciesRepository(sql: Sql) {
         write(tx, await uniqueKey(tx, values.commonName), 'clinic', null, values, meta, at),
       );
     },
-    /** Records an edit as a new version pointing at the one it replaces. */
-    correct(key: string, values: SpeciesValues, meta: Meta, at: Date): Promise<Species | null> {
+    /**
+     * Records an edit as a new version pointing at the one it replaces. With `versionId` (the
+     * version the user saw), refuses with SpeciesVersionMismatchError when another version was
+     * saved since.
+     */
+    correct(
+      key: string,
+      values: SpeciesValues,
+      meta: Meta,
+      at: Date,
+      versionId?: number,
+    ): Promise<Species | null> {
       return writeTransaction(sql, async (tx) => {
         const row = await getCurrent(tx, key);
         if (row === undefined) return null;
+        if (versionId !== undefined && versionId !== row.id)
+          throw new SpeciesVersionMismatchError(versionId, row.id);
         return write(tx, key, row.origin, row.id, values, meta, at);
       });
     },
@@ -337,3 +349,15 @@ export function createSpeciesRepository(sql: Sql) {
 }
 
 export type SpeciesRepository = ReturnType<typeof createSpeciesRepository>;
+
+/** A correction named a version of the species that is no longer the current one. */
+export class SpeciesVersionMismatchError extends Error {
+  readonly seenVersionId: number;
+  readonly currentVersionId: number;
+  constructor(seenVersionId: number, currentVersionId: number) {
+    super(`Version ${String(seenVersionId)} of the species is not the current one.`);
+    this.name = 'SpeciesVersionMismatchError';
+    this.seenVersionId = seenVersionId;
+    this.currentVersionId = currentVersionId;
+  }
+}

@@ -22,7 +22,10 @@ import {
   RecordVersionMismatchError,
 } from '../../db/repositories/procedure-record-repository.js';
 import { laterVersion } from '../../db/repositories/version-chain.js';
-import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import {
+  createSpeciesRepository,
+  SpeciesVersionMismatchError,
+} from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
 import { refuseConcurrentChange } from './concurrent-change.js';
@@ -166,12 +169,22 @@ export function createRecordHandlers(
     'species:list': () => species.list(),
     'species:history': (request) => species.history(request.key),
     'species:add': (request) => species.add(request.values, request.meta, now()),
-    'species:correct': async (request) =>
-      found(
-        await species.correct(request.key, request.values, request.meta, now()),
-        `Species ${request.key}`,
-        'key',
-      ),
+    'species:correct': async (request) => {
+      const { versionId } = request;
+      const corrected = await refuseConcurrentChange({
+        noun: 'species',
+        now,
+        isStale: (error) => error instanceof SpeciesVersionMismatchError,
+        write: () => species.correct(request.key, request.values, request.meta, now(), versionId),
+        later: async () =>
+          // Only a version of this species names who came first.
+          versionId !== undefined &&
+          (await species.history(request.key)).some((version) => version.stamp.versionId === versionId)
+            ? laterVersion(clinic, 'species', versionId)
+            : null,
+      });
+      return found(corrected, `Species ${request.key}`, 'key');
+    },
 
     'patients:search': async (request) => ({
       patients: await patients.search(request.query, request.limit),

@@ -847,7 +847,7 @@ async function keysAndIndexes(db: ClinicDb): Promise<string[]> {
       db.kysely,
     );
     const indexes = await sql<{ key: string }>`
-      SELECT m.name || '(' || (SELECT group_concat(name, ',') FROM (SELECT c.name FROM pragma_index_info(i.name) c ORDER BY c.seqno)) || ')'
+      SELECT m.name || '(' || (SELECT group_concat(name, ',') FROM (SELECT coalesce(c.name, 'expression') AS name FROM pragma_index_info(i.name) c ORDER BY c.seqno)) || ')'
         || CASE WHEN i."unique" = 1 THEN ' unique' ELSE '' END || CASE WHEN i.partial = 1 THEN ' partial' ELSE '' END
         || CASE WHEN i.origin = 'c' THEN ' ' || i.name ELSE '' END AS key
       FROM sqlite_schema m JOIN pragma_index_list(m.name) i
@@ -857,8 +857,8 @@ async function keysAndIndexes(db: ClinicDb): Promise<string[]> {
   }
   const rows = await sql<{ key: string }>`
     SELECT i.indrelid::regclass::text || '(' ||
-      (SELECT string_agg(a.attname, ',' ORDER BY k.n) FROM unnest(i.indkey::int2[]) WITH ORDINALITY k(attnum, n)
-        JOIN pg_attribute a ON a.attrelid = i.indrelid AND a.attnum = k.attnum) || ')'
+      (SELECT string_agg(coalesce(a.attname, 'expression'), ',' ORDER BY k.n) FROM unnest(i.indkey::int2[]) WITH ORDINALITY k(attnum, n)
+        LEFT JOIN pg_attribute a ON a.attrelid = i.indrelid AND a.attnum = k.attnum AND k.attnum <> 0) || ')'
       || CASE WHEN i.indisprimary THEN ' primary key' ELSE
         CASE WHEN i.indisunique THEN ' unique' ELSE '' END || CASE WHEN i.indpred IS NOT NULL THEN ' partial' ELSE '' END
         || CASE WHEN c.oid IS NULL THEN ' ' || i.indexrelid::regclass::text ELSE '' END END AS key
@@ -933,6 +933,10 @@ describe('the two engines', () => {
     );
     expect(await keysAndIndexes(postgresql)).toContain(
       'species(species_key) unique partial species_first_key',
+    );
+    // An index on an expression (the start-of-field indexes of patient search) is named as one.
+    expect(await keysAndIndexes(postgresql)).toContain(
+      'patient_versions(expression) patient_versions_name_start',
     );
   });
 });

@@ -1,8 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { speciesReference } from '../../app/core/species-reference.js';
 import type { ClinicDb, Engine } from '../../db/clinic-db.js';
-import { createPatientRepository } from '../../db/repositories/patient-repository.js';
-import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
+import { createPatientRepository, nextPrefix } from '../../db/repositories/patient-repository.js';
+import {
+  createSpeciesRepository,
+  SpeciesVersionMismatchError,
+} from '../../db/repositories/species-repository.js';
 import { createWeightRepository, WeightCorrectionError } from '../../db/repositories/weight-repository.js';
 import { createWorkstationRepository } from '../../db/repositories/workstation-repository.js';
 import { openTestClinic, testEngines } from '../support/clinic-engines.js';
@@ -73,6 +76,35 @@ describe.each(testEngines)('species repository on %s', (engine) => {
     expect(await species.list()).toHaveLength(speciesReference.length);
     expect(await species.correct('no-such-bird', before.values, meta, t0)).toBeNull();
     expect(await species.history('no-such-bird')).toEqual([]);
+  });
+
+  it('refuses a correction naming a version that is no longer the current one, writing nothing', async (context) => {
+    const clinic = await fresh(engine, context);
+    const species = createSpeciesRepository(clinic);
+    const seen = await species.get('budgerigar');
+    if (seen === null) return expect.fail('budgerigar is not seeded');
+    const at = new Date('2026-12-02T09:00:00Z');
+    const first = await species.correct(
+      'budgerigar',
+      { ...seen.values, massMaxG: 65 },
+      { enteredBy: 'MK', reason: 'Many exhibition birds' },
+      at,
+      seen.stamp.versionId,
+    );
+    expect(first?.stamp.correctsId).toBe(seen.stamp.versionId);
+    await expect(
+      species.correct(
+        'budgerigar',
+        { ...seen.values, massMinG: 22 },
+        { enteredBy: 'RW', reason: 'Small hens' },
+        at,
+        seen.stamp.versionId,
+      ),
+    ).rejects.toBeInstanceOf(SpeciesVersionMismatchError);
+    expect((await species.history('budgerigar')).map((entry) => entry.values.massMaxG)).toEqual([
+      65,
+      seen.values.massMaxG,
+    ]);
   });
 
   it('adds a clinic species under a key of its own, never reusing a taken one', async (context) => {
@@ -147,6 +179,61 @@ describe.each(testEngines)('patient repository on %s', (engine) => {
     expect(await patients.get(999)).toBeNull();
     expect(await patients.correct(999, pip, meta, t0)).toBeNull();
     expect(await patients.history(999)).toEqual([]);
+  });
+
+  it('finds one or two letters at the start of the current name, ring number or microchip number, never in the middle', async (context) => {
+    const clinic = await fresh(engine, context);
+    const patients = createPatientRepository(clinic);
+    const created = await patients.create(pip, meta, t0);
+    await patients.create(
+      { ...pip, name: 'Kiwi', ringId: 'HL-25-002', ownerReference: 'Owner 7000' },
+      meta,
+      t0,
+    );
+    await patients.create({ ...pip, name: 'Pjotr', ringId: 'ZB-1', ownerReference: 'Owner 7001' }, meta, t0);
+    await patients.create({ ...pip, name: 'Pi\u{1F426}', ringId: '', ownerReference: '' }, meta, t0);
+    const zuri = await patients.create({ ...pip, name: 'Zuri', ringId: '', ownerReference: '' }, meta, t0);
+    await patients.correct(
+      created.id,
+      { ...pip, microchipId: '985112004455667' },
+      { enteredBy: 'MK', reason: 'Chip' },
+      t0,
+    );
+    await patients.correct(
+      zuri.id,
+      { ...pip, name: 'Amber', ringId: '' },
+      { enteredBy: 'MK', reason: 'Renamed' },
+      t0,
+    );
+    const names = async (query: string) =>
+      (await patients.search(query)).map((summary) => summary.name).sort();
+    // Name starts, whatever the case of A-Z; the range stops before the next letter ("Pjotr").
+    expect(await names('Pi')).toEqual(['Pip', 'Pi\u{1F426}']);
+    expect(await names('pI')).toEqual(['Pip', 'Pi\u{1F426}']);
+    expect(await names('P')).toEqual(['Pip', 'Pi\u{1F426}', 'Pjotr']);
+    // Ring and microchip starts; the microchip of the current version only.
+    expect(await names('hl')).toEqual(['Kiwi', 'Pip']);
+    expect(await names('ZB')).toEqual(['Pjotr']);
+    expect(await names('98')).toEqual(['Pip']);
+    // The current name only: the renamed bird is found by its new name.
+    expect(await names('Zu')).toEqual([]);
+    expect(await names('Am')).toEqual(['Amber']);
+    // Not the middle of a field, nor the other fields (owner, species, notes): three letters do that.
+    expect(await names('ip')).toEqual([]);
+    expect(await names('Ow')).toEqual([]);
+    expect(await names('Own')).toEqual(['Amber', 'Kiwi', 'Pip', 'Pjotr']);
+    expect(await names('bu')).toEqual([]);
+    // LIKE's and the range's own characters are plain characters.
+    expect(await names('%')).toEqual([]);
+    expect(await names('H_')).toEqual([]);
+  });
+
+  it('bounds a start-of-field range by the prefix with its last character one higher', () => {
+    expect(nextPrefix('pi')).toBe('pj');
+    expect(nextPrefix('a')).toBe('b');
+    expect(nextPrefix('z\u{10FFFF}')).toBe('{');
+    expect(nextPrefix('\u{D7FF}')).toBe('\u{E000}');
+    expect(nextPrefix('\u{10FFFF}')).toBeNull();
   });
 
   it('lists each patient with its newest weight that stands', async (context) => {

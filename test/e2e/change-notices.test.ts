@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
@@ -184,6 +185,93 @@ describe('screens follow changes made in another window', () => {
       expect(await pageB.getByLabel('Procedure', { exact: true }).inputValue()).toBe(
         'Wing radiograph, two views',
       );
+      expect(await pageB.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(
+        true,
+      );
+      expect(problems).toEqual([]);
+    } finally {
+      await contextA.close();
+      await contextB.close();
+    }
+  });
+
+  it('a saved plan open on one page follows a correction made on another while untouched, and keeps an edited form with an offer to show the new plan; the saved plans list follows too', async () => {
+    const { browser, host } = session;
+    const contextA = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    const contextB = await browser.newContext({ viewport: { width: 1366, height: 800 } });
+    try {
+      const pageA = await contextA.newPage();
+      const pageB = await contextB.newPage();
+      const problems: string[] = [];
+      for (const page of [pageA, pageB]) page.on('pageerror', (error) => problems.push(error.message));
+      await completeFirstRun(pageA, await host.nextUrl());
+      const input: unknown = JSON.parse(
+        fs.readFileSync(
+          path.join(import.meta.dirname, '../../examples/plans/pip-budgerigar-mask-isoflurane.json'),
+          'utf8',
+        ),
+      );
+      const today = localDateOf(new Date());
+      const fields = (label: string) => ({ patientId: null, plannedFor: today, label, input, checklist: {} });
+      const meta = { enteredBy: 'RW', reason: '' };
+      const first = await callBridge<{ id: number }>(pageA, 'plans:save', {
+        fields: fields('Crop biopsy'),
+        meta,
+      });
+      expect(first.ok, JSON.stringify(first)).toBe(true);
+      const firstId = first.value?.id ?? 0;
+
+      // The saved plans list (Worksheets) on page B gains a plan saved on page A.
+      const opened = changeStreamOpened(pageB);
+      await pageB.goto(await host.nextUrl());
+      await opened;
+      await pageB.evaluate(() => {
+        window.location.hash = '#/worksheets';
+      });
+      await pageB.getByRole('cell', { name: /Crop biopsy/ }).waitFor();
+      await pageB.evaluate(() => {
+        (window as unknown as { notReloaded: boolean }).notReloaded = true;
+      });
+      const second = await callBridge(pageA, 'plans:save', { fields: fields('Beak trim'), meta });
+      expect(second.ok, JSON.stringify(second)).toBe(true);
+      await pageB.getByRole('cell', { name: /Beak trim/ }).waitFor();
+
+      // The plan open, untouched, on page B shows the version saved on page A.
+      await pageB.evaluate((id) => {
+        window.location.hash = `#/plans/${String(id)}`;
+      }, firstId);
+      await pageB.getByRole('heading', { name: `Anaesthetic plan ${String(firstId)}` }).waitFor();
+      const label = pageB.getByLabel('Label', { exact: true });
+      expect(await label.inputValue()).toBe('Crop biopsy');
+      const corrected = await callBridge<{ id: number }>(pageA, 'plans:correct', {
+        id: firstId,
+        fields: fields('Crop biopsy, left side'),
+        meta: { enteredBy: 'RW', reason: 'Side named' },
+      });
+      expect(corrected.ok, JSON.stringify(corrected)).toBe(true);
+      const correctedId = corrected.value?.id ?? 0;
+      await pageB.getByRole('heading', { name: `Anaesthetic plan ${String(correctedId)}` }).waitFor();
+      expect(await label.inputValue()).toBe('Crop biopsy, left side');
+
+      // Someone edits the plan on page B; page A corrects it first: page B keeps what is typed.
+      await label.fill('Crop biopsy and swab');
+      const again = await callBridge<{ id: number }>(pageA, 'plans:correct', {
+        id: correctedId,
+        fields: fields('Crop biopsy, right side'),
+        meta: { enteredBy: 'RW', reason: 'Other side' },
+      });
+      expect(again.ok, JSON.stringify(again)).toBe(true);
+      const offer = pageB.getByRole('button', { name: 'Show the new plan' });
+      await offer.waitFor();
+      expect(await label.inputValue()).toBe('Crop biopsy and swab');
+      await pageB.getByRole('heading', { name: `Anaesthetic plan ${String(correctedId)}` }).waitFor();
+      await pageB.screenshot({ path: path.join(shots, '92-plan-changed-elsewhere.png'), fullPage: true });
+      await checkScreen(pageB, '92-plan-changed-elsewhere');
+      await offer.click();
+      await pageB
+        .getByRole('heading', { name: `Anaesthetic plan ${String(again.value?.id ?? 0)}` })
+        .waitFor();
+      expect(await label.inputValue()).toBe('Crop biopsy, right side');
       expect(await pageB.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(
         true,
       );

@@ -4,7 +4,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { localDateOf } from '../../app/contract/input-rules.js';
 import { checkScreen } from './accessibility.js';
-import { completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
+import { callBridge, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
 
 const session = sharedHost('tidewing-e2e-patients-');
 const shots = ensureScreenshotFolder();
@@ -174,6 +174,42 @@ describe('patients, weights and species in headless Chromium', () => {
     );
     expect(history[1]).toContain(`-${before} g`);
     await shoot(page, '25-species-edit-history');
+
+    // Another workstation corrects the version this form shows first: this form's next save is
+    // refused with who, when and why, and what is typed stays.
+    const [shown] =
+      (
+        await callBridge<{ stamp: { versionId: number }; values: Record<string, unknown> }[]>(
+          page,
+          'species:history',
+          { key: 'budgerigar' },
+        )
+      ).value ?? [];
+    if (shown === undefined) return expect.fail('budgerigar has no history');
+    const elsewhere = await callBridge(page, 'species:correct', {
+      key: 'budgerigar',
+      versionId: shown.stamp.versionId,
+      values: {
+        ...shown.values,
+        massBasis: 'Exhibition budgerigars weighed at this clinic (common practice)',
+      },
+      meta: { enteredBy: 'RW', reason: 'Source worded' },
+    });
+    expect(elsewhere.ok, JSON.stringify(elsewhere)).toBe(true);
+    await highest.fill('62');
+    await page.getByLabel('Reason for the change').fill('Heavier hens this season');
+    await page.getByRole('button', { name: 'Save changes' }).click();
+    const refusal = page.getByRole('alert').filter({ hasText: 'already corrected' });
+    await refusal.waitFor();
+    expect(await refusal.textContent()).toMatch(
+      /^Not saved: this species was already corrected by RW at \d\d:\d\d( on \d{4}-\d\d-\d\d)? \(reason: Source worded\)\. Your change was not applied; reload to see the current species\.$/,
+    );
+    expect(await highest.inputValue()).toBe('62');
+    await page
+      .locator('section[aria-labelledby="species-history-title"] li')
+      .filter({ hasText: 'why: Source worded' })
+      .waitFor();
+    await shoot(page, '25-species-edit-refused');
     await page.close();
   });
 });

@@ -120,6 +120,60 @@ describe('species channels', () => {
     expect(await api.answer('species:history', { key: 'no-such-bird' })).toEqual([]);
   });
 
+  it('species:correct naming the version the user saw is refused with who, when and why when another was saved first', async () => {
+    const api = harness();
+    const [seen] = await api.answer('species:history', { key: 'budgerigar' });
+    if (seen === undefined) return expect.fail('budgerigar is not in the reference');
+    api.clock.set('2026-12-02T09:00:00.000Z');
+    // Values are the clinic's own edits of the range (invented for the test, not reference values).
+    const first = await api.answer('species:correct', {
+      key: 'budgerigar',
+      versionId: seen.stamp.versionId,
+      values: { ...seen.values, massMaxG: 65 },
+      meta: correctionBy('MK', 'Many exhibition birds'),
+    });
+    expect(first.stamp.correctsId).toBe(seen.stamp.versionId);
+    const clash = await api.refusal('species:correct', {
+      key: 'budgerigar',
+      versionId: seen.stamp.versionId,
+      values: { ...seen.values, massMinG: 22 },
+      meta: correctionBy('RW', 'Small hens'),
+    });
+    expect(clash).toMatchObject({ code: 'conflict', field: 'id' });
+    expect(clash.message).toMatch(
+      /^Not saved: this species was already corrected by MK at \d\d:\d\d( on 2026-12-02)? \(reason: Many exhibition birds\)\. Your change was not applied; reload to see the current species\.$/,
+    );
+    const history = await api.answer('species:history', { key: 'budgerigar' });
+    expect(history.map((version) => [version.values.massMinG, version.values.massMaxG])).toEqual([
+      [seen.values.massMinG, 65],
+      [seen.values.massMinG, seen.values.massMaxG],
+    ]);
+
+    // Naming the version now current corrects it.
+    const next = await api.answer('species:correct', {
+      key: 'budgerigar',
+      versionId: first.stamp.versionId,
+      values: { ...first.values, massMinG: 22 },
+      meta: correctionBy('RW', 'Small hens'),
+    });
+    expect(next.stamp.correctsId).toBe(first.stamp.versionId);
+
+    // A version of another species is refused without naming anyone, and nothing is written.
+    const [cockatiel] = await api.answer('species:history', { key: 'cockatiel' });
+    if (cockatiel === undefined) return expect.fail('cockatiel is not in the reference');
+    const foreign = await api.refusal('species:correct', {
+      key: 'budgerigar',
+      versionId: cockatiel.stamp.versionId,
+      values: { ...next.values, massMaxG: 70 },
+      meta: correctionBy('RW', 'Typo'),
+    });
+    expect(foreign).toMatchObject({ code: 'conflict', field: 'id' });
+    expect(foreign.message).toBe(
+      'Not saved: this species was changed on another workstation first. Your change was not applied; reload to see the current species.',
+    );
+    expect(await api.answer('species:history', { key: 'budgerigar' })).toHaveLength(3);
+  });
+
   it('species:correct needs a reason and a species that exists', async () => {
     const api = harness();
     const noReason = await api.refusal('species:correct', {

@@ -65,12 +65,17 @@ export function PatientListScreen() {
             value={query}
             autoFocus
             placeholder="Type to search; / jumps here"
+            aria-describedby="patient-search-hint"
             onChange={(event) => setQuery(event.target.value)}
             onKeyDown={(event) => {
               if (event.key === 'Enter' && first !== undefined)
                 window.location.hash = href('patients', first.id);
             }}
           />
+          <p id="patient-search-hint" className="hint">
+            One or two letters find names, rings and microchips starting with them; three or more find them
+            anywhere.
+          </p>
         </div>
         <a className="button-link" href={href('patients', 'new')}>
           New patient

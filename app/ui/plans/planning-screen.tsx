@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { localDateOf, plannedDateProblem } from '../../contract/input-rules.js';
 import {
   checklistSchema,
@@ -11,6 +11,7 @@ import type { Species } from '../../contract/records.js';
 import { speciesToReference } from '../../contract/species-mapping.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { api } from '../common/bridge.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { displayDate, displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { TextField } from '../common/fields.js';
@@ -40,6 +41,18 @@ type Context = {
 
 const emptyChecklist: Checklist = checklistSchema.parse({});
 
+/** What the user can change on a saved plan; compared with the saved version to tell an edit. */
+type Editable = {
+  readonly draft: PlanDraft;
+  readonly checklist: Checklist;
+  readonly plannedFor: string;
+  readonly label: string;
+};
+
+function sameEditable(a: Editable, b: Editable): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
+}
+
 /** Plan an anaesthetic: inputs on the left, predictions redrawn on every change on the right. */
 export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const settings = useClinicSettings();
@@ -68,6 +81,81 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
   const [loaded, setLoaded] = useState(start.kind === 'quick');
   // The saved comparison this plan belongs to: its plans and which one the clinic will use.
   const [comparison, setComparison] = useState<PlanDetail['comparison']>(null);
+
+  // The saved version the form shows, as the form holds it: a difference is the user's edit.
+  const [savedEditable, setSavedEditable] = useState<Editable | null>(null);
+  // A newer version saved on another workstation or in another tab while this form was edited.
+  const [newer, setNewer] = useState<PlanDetail | null>(null);
+
+  /** Shows a saved plan's version in the form (plan A), with its comparison. */
+  const showSaved = useCallback(
+    (detail: PlanDetail) => {
+      const { plan, patient } = detail;
+      const editable: Editable = {
+        draft: inputToDraft(plan.input, settings.massUnit),
+        checklist: plan.checklist,
+        plannedFor: plan.plannedFor,
+        label: plan.label,
+      };
+      setComparison(detail.comparison);
+      setDraftB(null);
+      setActive('A');
+      setPatientSex(patient?.values.sex ?? null);
+      setDraftA(editable.draft);
+      setChecklist(editable.checklist);
+      setPlannedFor(editable.plannedFor);
+      setLabel(editable.label);
+      setSavedEditable(editable);
+      setNewer(null);
+      setContext({
+        patientId: plan.patientId,
+        patientLabel:
+          patient === null
+            ? (plan.input.patientName ?? null)
+            : `${patient.values.name} · ${detail.species?.values.commonName ?? patient.values.speciesKey}`,
+        savedPlanId: plan.id,
+        savedStamp: `${displayDateTime(plan.stamp.enteredAt)} by ${plan.stamp.enteredBy}`,
+      });
+      setLoaded(true);
+    },
+    [settings.massUnit],
+  );
+
+  const edited =
+    savedEditable !== null &&
+    (draftB !== null || !sameEditable(savedEditable, { draft: draftA, checklist, plannedFor, label }));
+  // Read after the refresh's awaits, when the user may have typed meanwhile.
+  const editedNow = useRef(edited);
+  useEffect(() => {
+    editedNow.current = edited;
+  });
+
+  /**
+   * A plan changed here or elsewhere: the comparison (which plan is chosen) is read again; when
+   * the plan on screen has a newer version, an untouched form shows it, while a form being edited
+   * is kept, with an offer to show the new version.
+   */
+  async function refreshSaved() {
+    const shownId = context.savedPlanId;
+    if (shownId === null) return;
+    const answer = await api.invoke('plans:get', { id: shownId });
+    if (!answer.ok) return;
+    setComparison(answer.value.comparison);
+    const newestId = Math.max(...answer.value.history.map((version) => version.id), shownId);
+    if (newestId === shownId) return;
+    const latest = await api.invoke('plans:get', { id: newestId });
+    if (!latest.ok) return;
+    if (editedNow.current) {
+      setNewer(latest.value);
+      return;
+    }
+    showSaved(latest.value);
+    window.history.replaceState(null, '', href('plans', newestId));
+  }
+  useChangeNotices(
+    (notice) => notice.kind === 'plans' && context.savedPlanId !== null,
+    () => void refreshSaved(),
+  );
 
   useEffect(() => {
     void api
@@ -103,28 +191,10 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
     } else if (start.kind === 'saved') {
       void api.invoke('plans:get', { id: start.planId }).then((answer) => {
         if (!answer.ok) return setLoadFailure(answer.error.message);
-        const { plan, patient } = answer.value;
-        setComparison(answer.value.comparison);
-        setDraftB(null);
-        setActive('A');
-        setPatientSex(patient?.values.sex ?? null);
-        setDraftA(inputToDraft(plan.input, settings.massUnit));
-        setChecklist(plan.checklist);
-        setPlannedFor(plan.plannedFor);
-        setLabel(plan.label);
-        setContext({
-          patientId: plan.patientId,
-          patientLabel:
-            patient === null
-              ? (plan.input.patientName ?? null)
-              : `${patient.values.name} · ${answer.value.species?.values.commonName ?? patient.values.speciesKey}`,
-          savedPlanId: plan.id,
-          savedStamp: `${displayDateTime(plan.stamp.enteredAt)} by ${plan.stamp.enteredBy}`,
-        });
-        setLoaded(true);
+        showSaved(answer.value);
       });
     }
-  }, [start, settings.massUnit]);
+  }, [start, settings.massUnit, showSaved]);
 
   const references = useMemo(() => species.map(speciesToReference), [species]);
   const computationA = usePlanComputation(draftA, references, loaded);
@@ -188,6 +258,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       return;
     }
     const { plan, variant } = answer.value;
+    setSavedEditable({ draft: draftA, checklist, plannedFor, label });
+    setNewer(null);
     setContext((current) => ({
       ...current,
       savedPlanId: plan.id,
@@ -274,6 +346,8 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
       setSaveMessage({ kind: 'failed', text: `Not saved: ${answer.error.message}` });
       return;
     }
+    setSavedEditable({ draft: draftA, checklist, plannedFor, label });
+    setNewer(null);
     setContext((current) => ({
       ...current,
       savedPlanId: answer.value.id,
@@ -362,6 +436,24 @@ export function PlanningScreen({ start }: { readonly start: PlanningStart }) {
         {gate}
         <SaveStatus message={saveMessage} />
         {context.savedStamp !== null && <p className="muted">Last saved {context.savedStamp}.</p>}
+        {newer !== null && (
+          <p className="notice" role="status">
+            This plan was changed on another workstation or in another tab while you were editing it (plan{' '}
+            {newer.plan.id}, saved {displayDateTime(newer.plan.stamp.enteredAt)} by{' '}
+            {newer.plan.stamp.enteredBy}
+            ).{' '}
+            <button
+              type="button"
+              onClick={() => {
+                showSaved(newer);
+                window.history.replaceState(null, '', href('plans', newer.plan.id));
+              }}
+            >
+              Show the new plan
+            </button>{' '}
+            (your changes here are then dropped)
+          </p>
+        )}
         {comparing && context.savedPlanId !== null && (
           <p className="hint">
             Saving changes saves plan A; “Save as a variant” saves plan B as a new plan beside it.

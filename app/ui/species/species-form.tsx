@@ -31,6 +31,9 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
   const [errors, setErrors] = useState<FieldErrors>({});
   const [failure, setFailure] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
+  // The version this form was opened on (then the one it saved): a correction names it, so one
+  // saved meanwhile on another workstation is refused (with who, when and why), never overwritten.
+  const [versionId, setVersionId] = useState<number | null>(null);
   const { gate, withInitials } = useInitialsGate();
   const { ref: formRef, focusFirstError } = useFocusFirstError<HTMLFormElement>();
 
@@ -41,6 +44,7 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
       const current = answer.value[0];
       if (current === undefined) return setFailure(`There is no species "${speciesKey}".`);
       setDraft(speciesToDraft(current.values));
+      setVersionId(current.stamp.versionId);
       setHistory(answer.value);
       setLoaded(true);
     });
@@ -96,7 +100,12 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
     const answer =
       speciesKey === null
         ? await api.invoke('species:add', { values, meta })
-        : await api.invoke('species:correct', { key: speciesKey, values, meta });
+        : await api.invoke('species:correct', {
+            key: speciesKey,
+            ...(versionId === null ? {} : { versionId }),
+            values,
+            meta,
+          });
     if (!answer.ok) {
       setErrors(
         Object.fromEntries(
@@ -108,9 +117,15 @@ export function SpeciesFormScreen({ speciesKey }: { readonly speciesKey: string 
       );
       setFailure(answer.error.message);
       focusFirstError();
+      // Refused because another correction came first: the history below shows it.
+      if (answer.error.code === 'conflict' && speciesKey !== null) {
+        const refreshed = await api.invoke('species:history', { key: speciesKey });
+        if (refreshed.ok) setHistory(refreshed.value);
+      }
       return;
     }
     setErrors({});
+    setVersionId(answer.value.stamp.versionId);
     if (speciesKey === null) {
       window.location.hash = href('species', answer.value.key);
       return;

@@ -2,13 +2,16 @@ import { displayDate, displayMass } from '../common/display.js';
 import { agentPhasesText } from '../common/plan-labels.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { useChannel } from '../common/use-channel.js';
+import { useChangeNotices } from '../common/use-change-notices.js';
 import { href } from '../shell/areas.js';
 import { figure } from './labels.js';
 import { ScrollRegion } from '../common/scroll-region.js';
 
 /** Saved plans, latest planned date first, each opening its printable worksheet. */
 export function RecentPlans() {
-  const [load] = useChannel('plans:recent', { limit: 100 });
+  const [load, reload] = useChannel('plans:recent', { limit: 100 });
+  // A plan saved, corrected or chosen anywhere, or a patient renamed, changes the list.
+  useChangeNotices((notice) => notice.kind === 'plans' || notice.kind === 'patients', reload);
   const settings = useClinicSettings();
   return (
     <section className="screen" aria-labelledby="worksheets-title">
