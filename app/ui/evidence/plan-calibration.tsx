@@ -73,8 +73,8 @@ export function PlanCalibration({
       {load.value.pending > 0 && (
         <p className="evidence-pending" role="status" data-testid="calibration-pending">
           Calibrated on the records compared so far: {load.value.pending} more{' '}
-          {load.value.pending === 1 ? 'record is' : 'records are'} still being compared with the model and
-          not in these figures yet; they update when ready.
+          {load.value.pending === 1 ? 'record is' : 'records are'} still being compared with the model and not
+          in these figures yet; they update when ready.
         </p>
       )}
       <p className="basis">
