@@ -154,6 +154,11 @@ export async function runPrintJob(
           : `the database could not be opened: ${errorText(error)}`,
       );
     }
+    // The clinic's calibration printed on a worksheet rests on every completed record: the rows
+    // not yet compared with the model (records that ended before rows were kept, or whose rows
+    // went stale) are compared and stored now, before the page asks for them.
+    const stored = await backEnd.evidenceBackfill.run();
+    if (stored > 0) io.stderr(`${command}: compared ${stored} completed records with the model\n`);
     openBackEnd(backEnd);
     const foundAs = await job.findIt(backEnd);
     const safety = await check<{ acknowledged: boolean; appVersion: string }>(backEnd, 'safety:status', {});

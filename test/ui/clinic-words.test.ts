@@ -111,6 +111,8 @@ describe('the printed worksheet in the clinic words', () => {
     demo = openChannelHarness();
     await demo.backEnd.ready;
     await writeDemoClinic(demo.backEnd.clinic, demo.clock.now);
+    // Its rows are compared with the model in the background; here, now.
+    expect(await demo.backEnd.evidenceBackfill.run()).toBe(60);
     calibration = await demo.answer('evidence:calibration', {});
   }, 60_000);
   afterAll(() => demo.close());

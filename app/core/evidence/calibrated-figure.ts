@@ -29,11 +29,23 @@ export type SpeciesCalibrationSource = {
 /** The part of the `evidence:calibration` answer these words read. */
 export type CalibrationSource = {
   readonly on: boolean;
+  /** Completed records still being compared with the model, not in the figures yet. */
+  readonly pending?: number;
   readonly milestones: readonly {
     readonly id: EvidenceMilestoneId;
     readonly species: readonly SpeciesCalibrationSource[];
   }[];
 };
+
+/**
+ * "Calibrated on the records compared so far: 3 more records are still being compared…", or
+ * null when every completed record is in the figures. One sentence for the plan screen, the
+ * printed worksheet and the command line.
+ */
+export function calibrationPendingText(pending: number | undefined): string | null {
+  if (pending === undefined || pending <= 0) return null;
+  return `Calibrated on the records compared so far: ${pending} more ${pending === 1 ? 'record is' : 'records are'} still being compared with the model and not in these figures yet.`;
+}
 
 /** What the clinic reads when the calibration is switched off. */
 export const calibrationOffText = 'Calibration is off: the population model alone.';
@@ -169,7 +181,10 @@ export function calibratedFigures(
   if (clinicRecords === 0)
     return {
       state: 'no-records',
-      text: 'Calibration is on, but your clinic has no completed records it can use yet: the population model alone.',
+      text:
+        calibration.pending !== undefined && calibration.pending > 0
+          ? `Calibration is on; ${calibration.pending} completed ${calibration.pending === 1 ? 'record is' : 'records are'} still being compared with the model: until then, the population model alone.`
+          : 'Calibration is on, but your clinic has no completed records it can use yet: the population model alone.',
     };
   const lines = clinicalMilestoneLines(result).map((population): CalibratedLine => {
     const species =

@@ -1,5 +1,6 @@
 import {
   calibratedFigureMeaning,
+  calibrationPendingText,
   calibratedFigures,
   savedPlanCalibrationText,
 } from '../../core/evidence/calibrated-figure.js';
@@ -31,6 +32,7 @@ export function PlanCalibration({
   const saved = savedPlanId !== null && savedLoad.state === 'ready' ? savedLoad.value.plan.result : null;
   const savedLines = saved === null ? null : clinicalMilestoneLines(saved);
   const figures = calibratedFigures(result, speciesKey, load.value);
+  const pendingText = calibrationPendingText(load.value.pending);
   if (figures.state !== 'on')
     return (
       <section className="panel evidence-plan" aria-labelledby="plan-calibration-title">
@@ -70,11 +72,9 @@ export function PlanCalibration({
           ))}
         </tbody>
       </table>
-      {load.value.pending > 0 && (
+      {pendingText !== null && (
         <p className="evidence-pending" role="status" data-testid="calibration-pending">
-          Calibrated on the records compared so far: {load.value.pending} more{' '}
-          {load.value.pending === 1 ? 'record is' : 'records are'} still being compared with the model and not
-          in these figures yet; they update when ready.
+          {pendingText} They update when ready.
         </p>
       )}
       <p className="basis">

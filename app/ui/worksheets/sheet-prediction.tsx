@@ -16,6 +16,8 @@ export type SheetCalibration = {
   readonly figures: CalibratedFigures | null;
   /** The day it was read, in the clinic's date format. */
   readonly dateText: string;
+  /** Completed records still being compared when it was read (calibrationPendingText), or null. */
+  readonly pendingText: string | null;
 };
 
 /**
@@ -124,7 +126,7 @@ export function PredictionSection({
         {figures === null
           ? 'could not be read when this sheet was drawn: the population model alone.'
           : figures.state === 'on'
-            ? `${calibratedFigureMeaning} ${savedPlanCalibrationText(calibration.dateText)}`
+            ? `${calibratedFigureMeaning} ${savedPlanCalibrationText(calibration.dateText)}${calibration.pendingText === null ? '' : ` ${calibration.pendingText}`}`
             : figures.text}
       </p>
       <ol className="ws-basis ws-milestone-definitions" aria-label="What each predicted milestone means">

@@ -4,7 +4,7 @@ import type { CalibrationView } from '../../contract/evidence-channels.js';
 import type { PlanDetail } from '../../contract/plan-records.js';
 import type { PlanResult } from '../../contract/plan.js';
 import type { ClinicSettings } from '../../contract/settings.js';
-import { calibratedFigures } from '../../core/evidence/calibrated-figure.js';
+import { calibratedFigures, calibrationPendingText } from '../../core/evidence/calibrated-figure.js';
 import { cautionsForPatient } from '../../core/patient-cautions.js';
 import { planChoiceIn, planChoiceSuffix } from '../../core/plan-choice.js';
 import { runningHeaderLines } from '../../core/worksheet.js';
@@ -67,6 +67,7 @@ export function Sheet({ detail, drugs, appVersion, settings, printedAt, calibrat
         ? null
         : calibratedFigures(plan.result, input.speciesId ?? patient?.values.speciesKey, calibration),
     dateText: displayDate(todayIso(printedAt)),
+    pendingText: calibrationPendingText(calibration?.pending),
   };
   const recoveryWindowMin =
     input.recoveryWindowMin ?? result.oxygen.durationMin - (input.schedule.at(-1)?.atMin ?? 0);

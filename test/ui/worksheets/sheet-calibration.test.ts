@@ -52,6 +52,8 @@ describe('the worksheet beside the clinic’s calibration', () => {
     api = openChannelHarness();
     await api.backEnd.ready;
     await writeDemoClinic(api.backEnd.clinic, api.clock.now);
+    // Its rows are compared with the model in the background; here, now.
+    expect(await api.backEnd.evidenceBackfill.run()).toBe(60);
     const found = await api.answer('patients:search', { query: '', limit: 500 });
     const cockatiel = found.patients.find((patient) => patient.speciesKey === 'cockatiel');
     if (cockatiel === undefined) throw new Error('the demo clinic has no cockatiel');
@@ -149,5 +151,18 @@ describe('the worksheet beside the clinic’s calibration', () => {
       'your clinic has no completed records it can use yet: the population model alone.',
     );
     expect(text).not.toContain('Your clinic:');
+    // Records that ended but are still being compared are counted, never taken as none.
+    const waiting = sheetText(detail, { ...empty, pending: 60 }, printedAt);
+    expect(waiting).toContain(
+      'Calibration is on; 60 completed records are still being compared with the model: until then, the population model alone.',
+    );
+  });
+
+  it('says how many records are still being compared when the calibration rests on part of them', () => {
+    const text = sheetText(detail, { ...calibration, pending: 3 }, printedAt);
+    expect(text).toContain(
+      'Calibrated on the records compared so far: 3 more records are still being compared with the model and not in these figures yet.',
+    );
+    expect(sheetText(detail, calibration, printedAt)).not.toContain('still being compared');
   });
 });
