@@ -250,7 +250,9 @@ describe('planning from a patient in headless Chromium', () => {
         .first()
         .innerText(),
     ).toMatch(/why: Regraded after the crop examination · crop biopsy, ASA 3/);
-    await expect(page.locator('.record-facts').innerText()).resolves.toContain('ASA 3');
+    await expect
+      .poll(() => page.locator('.record-facts').innerText(), { timeout: 10_000 })
+      .toContain('ASA 3');
     expect(problems).toEqual([]);
     fs.writeFileSync(path.join(shots, 'planning-plan-id.txt'), String(newId));
     await page.close();
