@@ -346,10 +346,21 @@ export function createPatientRepository(sql: Sql) {
       if (trimmed === '')
         return (await summaries().orderBy('p.id', 'desc').limit(limit).execute()).map(rowToSummary);
       const ids = [...trimmed].length < 3 ? matchingStart(trimmed) : matching(trimmed);
+      // The first `limit` patients by name are chosen before their summaries (species name,
+      // latest weight) are read: a common start such as "zu" matches thousands of birds, and
+      // reading every one's summary only to keep fifty is what made the search slow.
+      const first = tables(sql)
+        .selectFrom('patient_current as fc')
+        .innerJoin('patient_versions as fv', 'fv.id', 'fc.version_id')
+        .select('fc.patient_id')
+        .where('fc.patient_id', 'in', ids)
+        .orderBy(kyselySql`lower(fv.name)`)
+        .orderBy('fc.patient_id')
+        .limit(limit);
       const rows = await summaries()
-        .where('p.id', 'in', ids)
+        .where('p.id', 'in', first)
         .orderBy(kyselySql`lower(v.name)`)
-        .limit(limit)
+        .orderBy('p.id')
         .execute();
       return rows.map(rowToSummary);
     },
