@@ -225,7 +225,7 @@ export async function benchEvidence(): Promise<Figure[]> {
         name: `clinic view channel, ${records} records, first open after a restart`,
         value: afterRestart.ms,
         unit: 'ms',
-        note: 'target: under 200 ms (rows read from the stored cache)',
+        note: 'target: under 200 ms (rows read from the stored cache at this open: the back-fill not started, as in the short commands)',
       });
       figures.push({
         name: '  the same open, CPU time of the back end',
@@ -234,6 +234,30 @@ export async function benchEvidence(): Promise<Figure[]> {
       });
     } finally {
       restarted.close();
+    }
+    // A restart as the hosts run it: the start-up back-fill checks the stored rows (reading them
+    // once) after the start-up writes and the backup; the clinic then opens the view.
+    const hosted = startBackEnd({
+      dataDirectory: folder,
+      appVersion: 'bench',
+      host: 'browser',
+      evidenceBackfill: 'automatic',
+    });
+    try {
+      await hosted.ready;
+      await hosted.backupSettled;
+      await hosted.evidenceBackfill.run();
+      const afterStart = await open(hosted);
+      if (afterStart.list.counts.pending !== 0)
+        throw new Error('rows were pending after the start-up back-fill');
+      figures.push({
+        name: `clinic view channel, ${records} records, open after a restart, stored rows read at start`,
+        value: afterStart.ms,
+        unit: 'ms',
+        note: 'target: under 200 ms (what the hosts do: evidenceBackfill automatic)',
+      });
+    } finally {
+      hosted.close();
     }
   } finally {
     fs.rmSync(folder, { recursive: true, force: true });
