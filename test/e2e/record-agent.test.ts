@@ -3,6 +3,7 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
+import { openChecklist } from '../support/clinic-birds.js';
 import { heronLaneSettings } from '../support/clinic-settings.js';
 import { checkScreen } from './accessibility.js';
 import { bridgeValue, completeFirstRun, ensureScreenshotFolder, sharedHost } from './host-process.js';
@@ -22,21 +23,6 @@ const kiwiPlan = JSON.parse(
     'utf8',
   ),
 ) as { agent: string };
-
-const openChecklist = {
-  asaGrade: null,
-  emergency: false,
-  items: {
-    fastingAndCrop: 'open',
-    hydration: 'open',
-    bloods: 'open',
-    equipmentLeakCheck: 'open',
-    oxygenSupply: 'open',
-    scavenging: 'open',
-    emergencyCard: 'open',
-  },
-  notes: '',
-};
 
 describe('the agent of a procedure record in headless Chromium', () => {
   it('starts a record with sevoflurane by keyboard; the record, its outcome and the evidence show it', async () => {

@@ -12,6 +12,7 @@ import { openChannelHarness, type ChannelHarness } from '../support/channel-harn
 import {
   correctionBy,
   enteredByRw,
+  openChecklist,
   pipInductionValues,
   pipRadiographValues,
   pipValues,
@@ -111,20 +112,7 @@ describe('evidence channels', () => {
         patientId: pip.id,
         plannedFor: '2026-12-01',
         input: pipIsofluranePlan,
-        checklist: {
-          asaGrade: null,
-          emergency: false,
-          items: {
-            fastingAndCrop: 'open',
-            hydration: 'open',
-            bloods: 'open',
-            equipmentLeakCheck: 'open',
-            oxygenSupply: 'open',
-            scavenging: 'open',
-            emergencyCard: 'open',
-          },
-          notes: '',
-        },
+        checklist: openChecklist,
       },
       meta: enteredByRw,
     });

@@ -5,7 +5,7 @@ import type { RequestOf } from '../../app/contract/channels.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
-import { correctionBy, enteredByRw, kiwiValues, pipValues } from '../support/clinic-birds.js';
+import { correctionBy, enteredByRw, kiwiValues, openChecklist, pipValues } from '../support/clinic-birds.js';
 
 const open: ChannelHarness[] = [];
 afterEach(() => open.splice(0).forEach((harness) => harness.close()));
@@ -29,26 +29,11 @@ const doraIsofluraneInput = {
   agent: 'isoflurane',
 } as const;
 
-const allOpen = {
-  asaGrade: null,
-  emergency: false,
-  items: {
-    fastingAndCrop: 'open',
-    hydration: 'open',
-    bloods: 'open',
-    equipmentLeakCheck: 'open',
-    oxygenSupply: 'open',
-    scavenging: 'open',
-    emergencyCard: 'open',
-  },
-  notes: '',
-} as const;
-
 const mostlyDone = {
-  ...allOpen,
+  ...openChecklist,
   asaGrade: 2,
   items: {
-    ...allOpen.items,
+    ...openChecklist.items,
     fastingAndCrop: 'done',
     hydration: 'done',
     bloods: 'not applicable',
@@ -85,7 +70,7 @@ describe('plan channels', () => {
     expect(saved.result.oxygen.usedL).toBeGreaterThan(0);
     // The same input saved again gives the same snapshot: the model run is deterministic.
     const again = await api.answer('plans:save', {
-      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: openChecklist },
       meta: enteredByRw,
     });
     expect(again.result).toEqual(saved.result);
@@ -97,7 +82,7 @@ describe('plan channels', () => {
       patientId: null,
       plannedFor: '2026-12-02',
       input: doraIsofluraneInput,
-      checklist: allOpen,
+      checklist: openChecklist,
     };
     const before = await api.answer('plans:save', { fields, meta: enteredByRw });
     // Pekin duck isoflurane MAC 1.30 % (Ludders, Mitchell & Rode 1990), from the shipped reference.
@@ -129,7 +114,13 @@ describe('plan channels', () => {
     const api = harness();
     const save = (fields: Record<string, unknown>) =>
       api.refusal('plans:save', {
-        fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen, ...fields },
+        fields: {
+          patientId: null,
+          plannedFor: '2026-12-02',
+          input: pipInput,
+          checklist: openChecklist,
+          ...fields,
+        },
         meta: enteredByRw,
       });
     const mass = await save({ input: { ...pipInput, bodyMassG: -32 } });
@@ -140,12 +131,12 @@ describe('plan channels', () => {
       message:
         'Planned date "2 December" is not a date on the calendar; enter it as YYYY-MM-DD, e.g. 2024-03-15.',
     });
-    const asa = await save({ checklist: { ...allOpen, asaGrade: 6 } });
+    const asa = await save({ checklist: { ...openChecklist, asaGrade: 6 } });
     expect(asa).toMatchObject({ field: 'fields.checklist.asaGrade', message: 'ASA grade is 1 to 5.' });
     const nobody = await save({ patientId: 77 });
     expect(nobody).toMatchObject({ code: 'not-found', field: 'fields.patientId' });
     const noInitials = await api.refusal('plans:save', {
-      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      fields: { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: openChecklist },
       meta: { enteredBy: ' ' },
     });
     expect(noInitials).toMatchObject({
@@ -170,7 +161,7 @@ describe('plan channels', () => {
       meta: enteredByRw,
     });
     const saved = await api.answer('plans:save', {
-      fields: { patientId: pip.id, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen },
+      fields: { patientId: pip.id, plannedFor: '2026-12-02', input: pipInput, checklist: openChecklist },
       meta: enteredByRw,
     });
     const detail = await api.answer('plans:get', { id: saved.id });
@@ -199,7 +190,7 @@ describe('plan channels', () => {
 
   it('plans:correct makes a new version; correcting the replaced one again conflicts', async () => {
     const api = harness();
-    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen };
+    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: openChecklist };
     const first = await api.answer('plans:save', { fields, meta: enteredByRw });
     api.clock.set('2026-12-01T12:00:00.000Z');
     const second = await api.answer('plans:correct', {
@@ -253,7 +244,7 @@ describe('plan channels', () => {
       bodyMassG: 95,
     };
     const kiwiPlan = await api.answer('plans:save', {
-      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', input: kiwiInput, checklist: allOpen },
+      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', input: kiwiInput, checklist: openChecklist },
       meta: enteredByRw,
     });
     const later = await api.answer('plans:save', {
@@ -262,7 +253,7 @@ describe('plan channels', () => {
         plannedFor: '2026-12-09',
         label: 'Recheck',
         input: pipInput,
-        checklist: allOpen,
+        checklist: openChecklist,
       },
       meta: enteredByRw,
     });
@@ -351,7 +342,7 @@ describe('plan channels', () => {
     delete (input as { maskDeadSpaceMl?: unknown }).maskDeadSpaceMl;
     delete (input as { maskLeakFraction?: unknown }).maskLeakFraction;
     const saved = await api.answer('plans:save', {
-      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', label: '', input, checklist: allOpen },
+      fields: { patientId: kiwi.id, plannedFor: '2026-12-02', label: '', input, checklist: openChecklist },
       meta: enteredByRw,
     });
     const [summary] = await api.answer('plans:for-patient', { patientId: kiwi.id });
@@ -462,7 +453,7 @@ describe('plan channels', () => {
 
   it('plans:choose refuses a plan outside a comparison; a comparison is one patient on one day', async () => {
     const api = harness();
-    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: allOpen };
+    const fields = { patientId: null, plannedFor: '2026-12-02', input: pipInput, checklist: openChecklist };
     const single = await api.answer('plans:save', { fields, meta: enteredByRw });
     expect(single.variantOf).toBeNull();
     expect(await api.refusal('plans:choose', { id: single.id, meta: enteredByRw })).toMatchObject({
@@ -541,7 +532,7 @@ describe('plan channels', () => {
       plannedFor: '2026-12-02',
       label: '',
       input: pipInput,
-      checklist: allOpen,
+      checklist: openChecklist,
     };
     const saved = await api.answer('plans:save', { fields, meta: enteredByRw });
     expect(

@@ -85,3 +85,19 @@ export const pipInductionValues = {
   eventType: 'induction',
   eventNote: 'Smooth, no struggling',
 } as const;
+
+/** A plan's pre-anaesthetic checklist with no grade and every item still open. */
+export const openChecklist = {
+  asaGrade: null,
+  emergency: false,
+  items: {
+    fastingAndCrop: 'open',
+    hydration: 'open',
+    bloods: 'open',
+    equipmentLeakCheck: 'open',
+    oxygenSupply: 'open',
+    scavenging: 'open',
+    emergencyCard: 'open',
+  },
+  notes: '',
+} as const;

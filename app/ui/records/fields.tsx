@@ -42,6 +42,15 @@ export function TextBox({
         aria-describedby={error !== undefined ? `${id}-error` : hint !== undefined ? `${id}-hint` : undefined}
         onChange={(event) => onChange(event.target.value)}
       />
+      <FieldNotes id={id} hint={hint} error={error} />
+    </div>
+  );
+}
+
+/** A field's hint and its error, with the ids its control names in aria-describedby. */
+function FieldNotes({ id, hint, error }: { id: string; hint: ReactNode; error: string | undefined }) {
+  return (
+    <>
       {hint !== undefined && (
         <p className="hint" id={`${id}-hint`}>
           {hint}
@@ -52,7 +61,7 @@ export function TextBox({
           {error}
         </p>
       )}
-    </div>
+    </>
   );
 }
 
@@ -100,16 +109,7 @@ export function SelectBox<T extends string>({
           </option>
         ))}
       </select>
-      {hint !== undefined && (
-        <p className="hint" id={`${id}-hint`}>
-          {hint}
-        </p>
-      )}
-      {error !== undefined && (
-        <p className="field-error" id={`${id}-error`} role="alert">
-          {error}
-        </p>
-      )}
+      <FieldNotes id={id} hint={hint} error={error} />
     </div>
   );
 }
