@@ -31,7 +31,10 @@ const demo = {
 
 describe.each(testEngines)('the demo clinic as a first-start choice on %s', (engine: Engine) => {
   /** A fresh clinic with the species reference seeded (as every start does), behind the dispatcher. */
-  async function clinicBehindDispatcher(context: { skip: (note?: string) => never }) {
+  async function clinicBehindDispatcher(
+    context: { skip: (note?: string) => never },
+    evidenceBackfillMode: 'manual' | 'automatic' = 'manual',
+  ) {
     const clinic = await openTestClinic(engine, context);
     await createSpeciesRepository(clinic).seedReference(speciesReference, now);
     const temp = temporaryFolder('tidewing-demo-choice-');
@@ -42,7 +45,9 @@ describe.each(testEngines)('the demo clinic as a first-start choice on %s', (eng
       dataDirectory: temp.folder,
       host: 'browser',
       now: () => now,
+      evidenceBackfill: evidenceBackfillMode,
     });
+    onTestFinished(() => evidenceBackfill.stop());
     const dispatch = createDispatcher(handlers);
     async function answer<C extends 'demo-clinic:status' | 'demo-clinic:create' | 'settings:get'>(
       channel: C,
@@ -133,6 +138,18 @@ describe.each(testEngines)('the demo clinic as a first-start choice on %s', (eng
     expect(await rows(clinic, 'patients')).toBe(1);
     expect(await rows(clinic, 'procedure_records')).toBe(0);
     expect((await answer('settings:get')).settings).toBeNull();
+  });
+
+  it('starts comparing the demo’s records with the model at once where the back-fill runs by itself (the hosts)', async (context) => {
+    const { dispatch, answer, evidenceBackfill } = await clinicBehindDispatcher(context, 'automatic');
+    expect((await answer('demo-clinic:create')).recordsWritten).toBe(60);
+    // No view was opened: the write itself started the back-fill.
+    await evidenceBackfill.idle();
+    const evidence = await dispatch('evidence:list', {});
+    expect(evidence.ok && (evidence.value as ResponseOf<'evidence:list'>).counts).toMatchObject({
+      completed: 60,
+      pending: 0,
+    });
   });
 
   it('keeps a clinic name already set', async (context) => {
