@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { recordAgentOf, recordLogOf } from '../../app/contract/evidence-channels.js';
 import type { ProcedureRecord } from '../../app/contract/records.js';
 import { planInputFromLog } from '../../app/core/evidence/record-log.js';
+import { nothingMeasured } from '../support/clinic-birds.js';
 
 /** A record of an invented cockatiel, as stored; `agent` null as on records made before agents were logged. */
 function record(agent: ProcedureRecord['values']['agent']): ProcedureRecord {
@@ -48,19 +49,11 @@ const dial = {
     correctsId: null,
   },
   values: {
+    ...nothingMeasured,
     at: '2026-12-01T09:02:00.000Z',
     kind: 'vitals' as const,
     vaporPct: 4,
     oxygenLpm: 1,
-    heartRatePerMin: null,
-    breathsPerMin: null,
-    temperatureC: null,
-    etco2Mmhg: null,
-    spo2Pct: null,
-    eventType: null,
-    eventNote: '',
-    drugName: '',
-    drugDose: '',
   },
 };
 

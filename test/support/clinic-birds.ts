@@ -101,3 +101,18 @@ export const openChecklist = {
   },
   notes: '',
 } as const;
+
+/** A log row's values with nothing measured, no event, note or drug (add `at`, `kind` and the readings). */
+export const nothingMeasured = {
+  vaporPct: null,
+  oxygenLpm: null,
+  heartRatePerMin: null,
+  breathsPerMin: null,
+  temperatureC: null,
+  etco2Mmhg: null,
+  spo2Pct: null,
+  eventType: null,
+  eventNote: '',
+  drugName: '',
+  drugDose: '',
+} as const;

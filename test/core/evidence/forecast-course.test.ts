@@ -9,6 +9,7 @@ import { computePlan, computePlanCourse } from '../../../app/core/model/compute-
 import type { PlanResult } from '../../../app/core/model/plan-types.js';
 import { seededRandom } from '../../../app/core/model/uncertainty.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
+import { at, event, row } from '../../support/logged-entries.js';
 
 const tables = { species: speciesReference };
 
@@ -16,20 +17,6 @@ const tables = { species: speciesReference };
 function agentMilestones(milestones: PlanResult['milestones']): Record<string, unknown> {
   return Object.fromEntries(Object.entries(milestones).filter(([key]) => !key.startsWith('airSacWash')));
 }
-const t0 = Date.parse('2026-03-02T09:00:00Z');
-const at = (minutes: number) => t0 + minutes * 60_000;
-const row = (minutes: number, values: Partial<LoggedEntry>): LoggedEntry => ({
-  atMs: at(minutes),
-  kind: 'vitals',
-  vaporPct: null,
-  oxygenLpm: null,
-  heartRatePerMin: null,
-  breathsPerMin: null,
-  eventType: null,
-  ...values,
-});
-const event = (minutes: number, eventType: LoggedEntry['eventType']) =>
-  row(minutes, { kind: 'event', eventType });
 
 /** An invented 3-h cockatiel record: a row every 5 min, the dial between 1.5 and 3 %, intubated at 4 min. */
 function threeHourLog(): RecordLog {

@@ -9,21 +9,7 @@ import {
 import { computePlan } from '../../../app/core/model/compute-plan.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import { planInputSchema } from '../../../app/contract/plan.js';
-
-const t0 = Date.parse('2026-03-02T09:00:00Z');
-const at = (minutes: number) => t0 + minutes * 60_000;
-const row = (minutes: number, values: Partial<LoggedEntry>): LoggedEntry => ({
-  atMs: at(minutes),
-  kind: 'vitals',
-  vaporPct: null,
-  oxygenLpm: null,
-  heartRatePerMin: null,
-  breathsPerMin: null,
-  eventType: null,
-  ...values,
-});
-const event = (minutes: number, eventType: LoggedEntry['eventType']) =>
-  row(minutes, { kind: 'event', eventType });
+import { at, event, row } from '../../support/logged-entries.js';
 
 // An invented cockatiel procedure: mask induction at 4 %, intubated at 4 min, 2 % from 10 min,
 // IPPV for a while, vaporiser off at 40 min, moving at 45, standing at 52.

@@ -1,26 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import type { PlanInput } from '../../../app/contract/plan.js';
 import { planBesideLog, plannedDialAt } from '../../../app/ui/records/plan-beside-log.js';
+import { nothingMeasured } from '../../support/clinic-birds.js';
 
 const schedule: PlanInput['schedule'] = [
   { atMin: 0, vaporPct: 4 },
   { atMin: 5, vaporPct: 2 },
   { atMin: 30, vaporPct: 0 },
 ];
-
-const blank = {
-  vaporPct: null,
-  oxygenLpm: null,
-  heartRatePerMin: null,
-  breathsPerMin: null,
-  temperatureC: null,
-  etco2Mmhg: null,
-  spo2Pct: null,
-  eventType: null,
-  eventNote: '',
-  drugName: '',
-  drugDose: '',
-};
 
 describe('plan beside the log', () => {
   it('holds each dial step until the next one', () => {
@@ -35,10 +22,24 @@ describe('plan beside the log', () => {
       { input, timeline: { timeMin: [0, 5, 10], brainPct: [0, 1.3, 2.6] }, macPct: 1.3 },
       '2026-12-01T09:00:00.000Z',
       [
-        { values: { ...blank, at: '2026-12-01T09:07:30.000Z', kind: 'vitals', vaporPct: 2.5 } },
-        { values: { ...blank, at: '2026-12-01T09:10:00.000Z', kind: 'vitals', vaporPct: 2 } },
-        { values: { ...blank, at: '2026-12-01T09:08:00.000Z', kind: 'vitals', heartRatePerMin: 300 } },
-        { values: { ...blank, at: '2026-12-01T09:09:00.000Z', kind: 'event', eventType: 'intubation' } },
+        { values: { ...nothingMeasured, at: '2026-12-01T09:07:30.000Z', kind: 'vitals', vaporPct: 2.5 } },
+        { values: { ...nothingMeasured, at: '2026-12-01T09:10:00.000Z', kind: 'vitals', vaporPct: 2 } },
+        {
+          values: {
+            ...nothingMeasured,
+            at: '2026-12-01T09:08:00.000Z',
+            kind: 'vitals',
+            heartRatePerMin: 300,
+          },
+        },
+        {
+          values: {
+            ...nothingMeasured,
+            at: '2026-12-01T09:09:00.000Z',
+            kind: 'event',
+            eventType: 'intubation',
+          },
+        },
       ],
     );
     expect(series.minutes).toEqual([0, 5, 7.5, 10]);

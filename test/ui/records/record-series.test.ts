@@ -1,23 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import type { ProcedureEntryValues } from '../../../app/contract/records.js';
 import { recordSeries } from '../../../app/ui/records/record-series.js';
+import { nothingMeasured } from '../../support/clinic-birds.js';
 
 const startedAt = '2026-03-10T09:00:00.000Z';
-const blank: ProcedureEntryValues = {
-  at: startedAt,
-  kind: 'vitals',
-  vaporPct: null,
-  oxygenLpm: null,
-  heartRatePerMin: null,
-  breathsPerMin: null,
-  temperatureC: null,
-  etco2Mmhg: null,
-  spo2Pct: null,
-  eventType: null,
-  eventNote: '',
-  drugName: '',
-  drugDose: '',
-};
+const blank: ProcedureEntryValues = { at: startedAt, kind: 'vitals', ...nothingMeasured };
 const minutes = (value: number) => new Date(Date.parse(startedAt) + value * 60_000).toISOString();
 
 describe('chart columns from logged rows', () => {
