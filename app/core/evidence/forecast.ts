@@ -26,6 +26,15 @@ export type LogForecast = {
   readonly standingAtMs: number | null;
   readonly firstMovementBandMin: { readonly low: number; readonly high: number } | null;
   readonly standingBandMin: { readonly low: number; readonly high: number } | null;
+  /**
+   * A recovery milestone's brain level (x MAC) when the predicted brain never reached it (a bird
+   * not yet that deep: nothing to wake from, so no time), else null; a null time with a null here
+   * means the level is not crossed within the window.
+   */
+  readonly notDeepEnough: {
+    readonly firstMovement: number | null;
+    readonly standing: number | null;
+  };
   readonly macPct: number;
   readonly notes: readonly string[];
 };
@@ -70,6 +79,13 @@ export function readForecast(
     return percentiles === null ? null : { low: percentiles.p5, high: percentiles.p95 };
   };
   const at = (minutes: number | null) => (minutes === null ? null : offAtMs + minutes * 60_000);
+  // The model times a recovery milestone only for a brain that was above its level.
+  const notReached = (id: 'firstMovement' | 'standing', minutes: number | null) => {
+    const level = result.milestones.definitions.find((entry) => entry.id === id)?.macMultiple;
+    return minutes === null && level !== undefined && result.milestones.peakBrainMacMultiple < level
+      ? level
+      : null;
+  };
   return {
     minutesOnGas,
     depthNowMac: (result.timeline.brainPct[index] ?? 0) / mac,
@@ -81,6 +97,10 @@ export function readForecast(
     standingAtMs: at(result.milestones.standingMin),
     firstMovementBandMin: milestoneBand('firstMovement'),
     standingBandMin: milestoneBand('standing'),
+    notDeepEnough: {
+      firstMovement: notReached('firstMovement', result.milestones.firstMovementMin),
+      standing: notReached('standing', result.milestones.standingMin),
+    },
     macPct: mac,
     notes: plan.notes,
   };

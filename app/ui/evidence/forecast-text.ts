@@ -7,6 +7,13 @@ function clock(ms: number | null): string {
   return ms === null ? 'not within 90 min' : clockText(new Date(ms).toISOString());
 }
 
+/** A recovery milestone's time, or why there is none (never that deep yet, or beyond the window). */
+function recoveryClock(ms: number | null, notDeepEnough: number | null): string {
+  return ms === null && notDeepEnough !== null
+    ? `no time yet: the predicted depth has not reached ${String(notDeepEnough)} x MAC`
+    : clock(ms);
+}
+
 /** " (90 % of birds like this: a to b<unit>)", or nothing without a band. */
 function band(range: { readonly low: number; readonly high: number } | null, digits: number, unit: string) {
   return range === null
@@ -37,8 +44,8 @@ export function forecastReadout(forecast: LogForecast): ForecastReadout {
     depth: `${forecast.depthNowMac.toFixed(2)} x MAC${band(forecast.depthBandMac, 2, '')}`,
     offLabel: forecast.alreadyOff ? 'Vaporiser went off at' : 'If the vaporiser goes off now',
     off: clock(forecast.offAtMs),
-    firstMovement: `${clock(forecast.firstMovementAtMs)}${band(forecast.firstMovementBandMin, 0, ' min after off')}`,
-    standing: `${clock(forecast.standingAtMs)}${band(forecast.standingBandMin, 0, ' min after off')}`,
+    firstMovement: `${recoveryClock(forecast.firstMovementAtMs, forecast.notDeepEnough.firstMovement)}${band(forecast.firstMovementBandMin, 0, ' min after off')}`,
+    standing: `${recoveryClock(forecast.standingAtMs, forecast.notDeepEnough.standing)}${band(forecast.standingBandMin, 0, ' min after off')}`,
     standingMinutesAfterOff:
       forecast.standingAtMs === null ? '' : ((forecast.standingAtMs - forecast.offAtMs) / 60_000).toFixed(2),
   };

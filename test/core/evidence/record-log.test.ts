@@ -7,6 +7,7 @@ import {
   tidalVolumeMl as restingTidalVolumeMl,
 } from '../../../app/core/model/allometry.js';
 import { computePlan } from '../../../app/core/model/compute-plan.js';
+import { defaultRecoveryMacFraction, standingMacFraction } from '../../../app/core/model/parameters.js';
 import { speciesReference } from '../../../app/core/species-reference.js';
 import { planInputSchema } from '../../../app/contract/plan.js';
 import { at, event, row } from '../../support/logged-entries.js';
@@ -220,6 +221,27 @@ describe('the forecast that follows the log', () => {
     expect(forecast.depthNowMac).toBeGreaterThan(0.5);
     expect(forecast.firstMovementAtMs).toBeGreaterThan(at(25));
     expect(forecast.standingAtMs).toBeGreaterThan(forecast.firstMovementAtMs as number);
+    expect(forecast.notDeepEnough).toEqual({ firstMovement: null, standing: null });
+  });
+
+  it('gives no waking times, and says why, for a bird not yet as deep as the waking levels', () => {
+    // Seconds after the first dial: the predicted brain is still far below both waking levels
+    // (the model times a recovery milestone only for a brain that was above its level).
+    const justStarted: RecordLog = {
+      ...log,
+      endedAtMs: null,
+      entries: [row(0, { vaporPct: 4, oxygenLpm: 1 })],
+    };
+    const plan = forecastPlan(justStarted, at(0.1));
+    if (!plan.ok) throw new Error(plan.missing);
+    const forecast = readForecast(plan, computePlan(plan.input, { species: speciesReference }), at(0.1));
+    expect(forecast.depthNowMac).toBeLessThan(0.2);
+    expect(forecast.firstMovementAtMs).toBeNull();
+    expect(forecast.standingAtMs).toBeNull();
+    expect(forecast.notDeepEnough).toEqual({
+      firstMovement: defaultRecoveryMacFraction.value,
+      standing: standingMacFraction.value,
+    });
   });
 
   it('a higher dial logged gives a later predicted standing', () => {

@@ -17,6 +17,7 @@ const forecast: LogForecast = {
   standingAtMs: offAtMs + 10.5 * minute,
   firstMovementBandMin: { low: 4.6, high: 8.4 },
   standingBandMin: { low: 7.2, high: 15.6 },
+  notDeepEnough: { firstMovement: null, standing: null },
   macPct: 1.3,
   notes: [],
 };
@@ -49,6 +50,21 @@ describe('the forecast that follows the log, read out', () => {
   it('says a milestone is not within the 90-min window rather than give a time', () => {
     const readout = forecastReadout({ ...forecast, standingAtMs: null, standingBandMin: null });
     expect(readout.standing).toBe('not within 90 min');
+    expect(readout.standingMinutesAfterOff).toBe('');
+  });
+
+  it('says a bird not yet as deep as a waking level has no time for it, rather than "not within 90 min"', () => {
+    const readout = forecastReadout({
+      ...forecast,
+      depthNowMac: 0.1,
+      firstMovementAtMs: null,
+      standingAtMs: null,
+      firstMovementBandMin: null,
+      standingBandMin: null,
+      notDeepEnough: { firstMovement: 0.4, standing: 0.2 },
+    });
+    expect(readout.firstMovement).toBe('no time yet: the predicted depth has not reached 0.4 x MAC');
+    expect(readout.standing).toBe('no time yet: the predicted depth has not reached 0.2 x MAC');
     expect(readout.standingMinutesAfterOff).toBe('');
   });
 });
