@@ -191,3 +191,13 @@ export function formatPressure(
     ? formatQuantity(pressureMmHg, 'mmHg', significantDigits)
     : formatQuantity(mmHgToKpa(pressureMmHg), 'kPa', significantDigits);
 }
+
+/**
+ * Mass as the clinic reads it: grams below 1 kg whatever the preference (95 g, not 0.095 kg);
+ * from 1 kg, kilograms when the clinic prefers them, else grams with kilograms beside.
+ */
+export function displayMass(massG: number, preference: MassUnit): string {
+  if (bodyMassUnit(massG, preference) === 'kg') return formatMass(massG, 'kg', 3).text;
+  const grams = `${Number(massG.toFixed(massG < 100 ? 1 : 0))} g`;
+  return massG >= 1000 ? `${grams} (${Number(gToKg(massG).toFixed(2))} kg)` : grams;
+}

@@ -8,9 +8,12 @@ import { speciesToReference } from '../../app/contract/species-mapping.js';
 import { computePlan, modelVersion } from '../../app/core/model/compute-plan.js';
 import { phasesOfPlan } from '../../app/core/plan-phases.js';
 import { weightTrend } from '../../app/core/weight-trend.js';
+import { defaultDateFormat, formatCalendarDate } from '../../app/core/date-format.js';
+import { displayMass } from '../../app/core/units.js';
 import type { ClinicDb } from '../../db/clinic-db.js';
 import { createPatientRepository } from '../../db/repositories/patient-repository.js';
 import { createPlanRepository } from '../../db/repositories/plan-repository.js';
+import { createSettingsRepository } from '../../db/repositories/settings-repository.js';
 import { createSpeciesRepository } from '../../db/repositories/species-repository.js';
 import { createWeightRepository } from '../../db/repositories/weight-repository.js';
 import { RecordError } from './record-handlers.js';
@@ -30,6 +33,7 @@ export function createPlanHandlers(now: () => Date, clinic: ClinicDb): PlanHandl
   const species = createSpeciesRepository(clinic);
   const patients = createPatientRepository(clinic);
   const weights = createWeightRepository(clinic);
+  const settings = createSettingsRepository(clinic);
   const plans = createPlanRepository(clinic);
 
   // Parsing the model's answer with the contract's schema both checks it and copies its
@@ -177,7 +181,12 @@ export function createPlanHandlers(now: () => Date, clinic: ClinicDb): PlanHandl
           range,
         );
         const parts = [];
-        if (trend.latest !== null) parts.push(`latest ${trend.latest.massG} g on ${trend.latest.weighedOn}`);
+        // In the clinic's units and date format, as the sheet writes every other mass and date.
+        const clinicSettings = (await settings.get()).settings;
+        if (trend.latest !== null)
+          parts.push(
+            `latest ${displayMass(trend.latest.massG, clinicSettings?.massUnit ?? 'g')} on ${formatCalendarDate(trend.latest.weighedOn, clinicSettings?.dateFormat ?? defaultDateFormat)}`,
+          );
         if (trend.sinceLast !== null)
           parts.push(
             `${trend.sinceLast.percent >= 0 ? '+' : ''}${trend.sinceLast.percent.toFixed(1)} % since the previous weight`,

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { RequestOf } from '../../app/contract/channels.js';
+import { defaultClinicSettings } from '../../app/contract/settings.js';
 import { modelVersion } from '../../app/core/model/compute-plan.js';
 import { findProjectRoot } from '../../main/back-end/project-paths.js';
 import { openChannelHarness, type ChannelHarness } from '../support/channel-harness.js';
@@ -174,6 +175,15 @@ describe('plan channels', () => {
     );
     expect(detail.weightTrendText).toContain('band 10-15 %');
     expect(detail.history).toEqual([{ id: saved.id, stamp: saved.stamp, modelVersion }]);
+    // The latest weight's day follows the clinic's date format, as every other date on the sheet.
+    await api.answer('settings:save', {
+      ...defaultClinicSettings,
+      clinicName: 'Harbour Bird Clinic',
+      dateFormat: 'D MMM YYYY',
+    });
+    expect((await api.answer('plans:get', { id: saved.id })).weightTrendText).toMatch(
+      /^latest 36 g on 29 Nov 2026; /,
+    );
   });
 
   it('plans:get says a missing plan was not found', async () => {

@@ -1,16 +1,8 @@
 import { defaultDateFormat, formatCalendarDate, type DateFormat } from '../../core/date-format.js';
 import { basisText, readBasis } from '../../core/sourced.js';
-import { bodyMassUnit, formatMass, gToKg, type MassUnit } from '../../core/units.js';
 
-/**
- * Mass as the clinic reads it: grams below 1 kg whatever the preference (95 g, not 0.095 kg);
- * from 1 kg, kilograms when the clinic prefers them, else grams with kilograms beside.
- */
-export function displayMass(massG: number, preference: MassUnit): string {
-  if (bodyMassUnit(massG, preference) === 'kg') return formatMass(massG, 'kg', 3).text;
-  const grams = `${Number(massG.toFixed(massG < 100 ? 1 : 0))} g`;
-  return massG >= 1000 ? `${grams} (${Number(gToKg(massG).toFixed(2))} kg)` : grams;
-}
+/** Mass as the clinic reads it (written once in app/core/units.ts, also for the back end's texts). */
+export { displayMass } from '../../core/units.js';
 
 /**
  * The clinic's date format, set where the settings arrive (the app's root, the printed sheet), so

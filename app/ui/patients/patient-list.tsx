@@ -2,7 +2,7 @@ import { useEffect, useRef, useState } from 'react';
 import type { PatientSummary } from '../../contract/records.js';
 import { api } from '../common/bridge.js';
 import { isSearchShortcut } from '../common/keyboard.js';
-import { displayMass } from '../common/display.js';
+import { displayDate, displayMass } from '../common/display.js';
 import { useClinicSettings } from '../common/settings-context.js';
 import { href } from '../shell/areas.js';
 import { useChangeNotices } from '../common/use-change-notices.js';
@@ -122,7 +122,7 @@ export function PatientListScreen() {
                     <td className="number">
                       {patient.latestMassG === null
                         ? '—'
-                        : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn ?? ''})`}
+                        : `${displayMass(patient.latestMassG, settings.massUnit)} (${patient.latestWeighedOn === null ? '' : displayDate(patient.latestWeighedOn)})`}
                     </td>
                   </tr>
                 ))}

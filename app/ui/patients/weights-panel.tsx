@@ -17,7 +17,7 @@ import { describeIssues } from '../../contract/result.js';
 import { gToKg, kgToG } from '../../core/units.js';
 import { weightSlipReasons } from '../../core/weight-trend.js';
 import { api } from '../common/bridge.js';
-import { displayDateTime, displayMass, todayIso } from '../common/display.js';
+import { displayDate, displayDateTime, displayMass, todayIso } from '../common/display.js';
 import { fieldErrorsFrom, fieldErrorsFromContract, type FieldErrors } from '../common/field-errors.js';
 import { NumberField, parseNumber, SelectField, TextField } from '../common/fields.js';
 import { useOperator } from '../common/operator.js';
@@ -246,7 +246,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           series={series}
           axes={[{ scale: 'mass', label: `Body mass (${unit})` }]}
           height={220}
-          summary={`Weight history of ${detail.patient.values.name}: ${weights.length} weights from ${weights[0]?.values.weighedOn ?? ''} to ${weights.at(-1)?.values.weighedOn ?? ''}.`}
+          summary={`Weight history of ${detail.patient.values.name}: ${weights.length} weights from ${displayDate(weights[0]?.values.weighedOn ?? '')} to ${displayDate(weights.at(-1)?.values.weighedOn ?? '')}.`}
         />
       )}
       {weights.length === 0 ? (
@@ -267,7 +267,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
             <tbody>
               {weights.map((weight, index) => (
                 <tr key={weight.id}>
-                  <td>{weight.values.weighedOn}</td>
+                  <td>{displayDate(weight.values.weighedOn)}</td>
                   <td className="number">{shownMass(weight.values.massG)}</td>
                   <td>{weight.values.bodyCondition || '—'}</td>
                   <td>{weight.values.weighedBy || '—'}</td>
@@ -280,14 +280,14 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                   <td className="row-actions">
                     <button
                       type="button"
-                      aria-label={`Correct weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                      aria-label={`Correct weight of ${displayDate(weight.values.weighedOn)} (row ${index + 1})`}
                       onClick={() => startEdit(weight, 'correct')}
                     >
                       Correct
                     </button>{' '}
                     <button
                       type="button"
-                      aria-label={`Void weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                      aria-label={`Void weight of ${displayDate(weight.values.weighedOn)} (row ${index + 1})`}
                       onClick={() => startEdit(weight, 'void')}
                     >
                       Void
@@ -295,7 +295,7 @@ export function WeightsPanel({ detail, onChanged }: Props) {
                     {weight.stamp.correctsId !== null && (
                       <button
                         type="button"
-                        aria-label={`History of weight of ${weight.values.weighedOn} (row ${index + 1})`}
+                        aria-label={`History of weight of ${displayDate(weight.values.weighedOn)} (row ${index + 1})`}
                         onClick={() => void showHistory(weight)}
                       >
                         History
@@ -314,8 +314,9 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           <ol className="history">
             {history.versions.map((version) => (
               <li key={version.id}>
-                {version.voided ? 'Voided' : shownMass(version.values.massG)} on {version.values.weighedOn} ·
-                entered by {version.stamp.enteredBy}, {displayDateTime(version.stamp.enteredAt)}
+                {version.voided ? 'Voided' : shownMass(version.values.massG)} on{' '}
+                {displayDate(version.values.weighedOn)} · entered by {version.stamp.enteredBy},{' '}
+                {displayDateTime(version.stamp.enteredAt)}
                 {version.stamp.reason !== '' && ` · why: ${version.stamp.reason}`}
               </li>
             ))}
@@ -349,8 +350,8 @@ export function WeightsPanel({ detail, onChanged }: Props) {
           {editing === null
             ? 'Add a weight'
             : editing.mode === 'void'
-              ? `Void the weight of ${editing.weight.values.weighedOn}`
-              : `Correct the weight of ${editing.weight.values.weighedOn}`}
+              ? `Void the weight of ${displayDate(editing.weight.values.weighedOn)}`
+              : `Correct the weight of ${displayDate(editing.weight.values.weighedOn)}`}
         </h3>
         {editing?.mode !== 'void' && (
           <div className="form-grid">

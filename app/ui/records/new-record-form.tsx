@@ -127,7 +127,8 @@ function NewRecordFormFor({ patientId }: { readonly patientId: number }) {
       <h1 id="new-record-title">New procedure record</h1>
       <p className="lead">
         {detail.patient.values.name}, {detail.species?.values.commonName ?? detail.patient.values.speciesKey}
-        {latest !== null && `, ${displayMass(latest.massG, settings.massUnit)} on ${latest.weighedOn}`}
+        {latest !== null &&
+          `, ${displayMass(latest.massG, settings.massUnit)} on ${displayDate(latest.weighedOn)}`}
         {latest === null && ', no weight recorded'}
       </p>
       <form onSubmit={submit} noValidate className="form record-new-form">
